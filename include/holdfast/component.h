@@ -1,0 +1,74 @@
+/* component.h - the line component catalogue: chain, wire, fibre, custom.
+ *
+ * Flow: case loader -> **component** -> model lines.  From a type, a grade
+ * and a nominal diameter it derives mass, wet weight, axial stiffness EA,
+ * minimum breaking load and default seabed friction, each from a documented
+ * formula with its source (docs/components.md).  Any property the user gives
+ * overrides the derived one.  Knows nothing of files or lines. */
+#ifndef HOLDFAST_COMPONENT_H
+#define HOLDFAST_COMPONENT_H
+
+#include <stdbool.h>
+#include "holdfast/status.h"
+
+typedef enum {
+    HF_COMP_STUDLESS_CHAIN = 0,
+    HF_COMP_STUDLINK_CHAIN,
+    HF_COMP_SIX_STRAND,      /* six-strand wire rope */
+    HF_COMP_SPIRAL_STRAND,   /* spiral-strand wire rope */
+    HF_COMP_POLYESTER,
+    HF_COMP_NYLON,
+    HF_COMP_CUSTOM,
+    HF_COMP_TYPE_COUNT
+} hf_component_type;
+
+typedef enum {
+    HF_GRADE_NONE = 0,
+    HF_GRADE_R3, HF_GRADE_R3S, HF_GRADE_R4, HF_GRADE_R4S, HF_GRADE_R5,
+    HF_GRADE_1, HF_GRADE_2, HF_GRADE_3,   /* ship anchor chain grades */
+    HF_GRADE_COUNT
+} hf_chain_grade;
+
+/* The resolvable properties, as bit positions in hf_component.given. */
+typedef enum {
+    HF_PROP_MASS = 0,       /* mass per metre in air, kg/m */
+    HF_PROP_WET_WEIGHT,     /* submerged weight per metre, N/m */
+    HF_PROP_EA,             /* axial stiffness, N */
+    HF_PROP_MBL,            /* minimum breaking load, N */
+    HF_PROP_FRICTION,       /* axial seabed friction coefficient, - */
+    HF_PROP_COUNT
+} hf_component_prop;
+
+typedef struct {
+    hf_component_type type;
+    hf_chain_grade grade;     /* chain only; HF_GRADE_NONE otherwise */
+    double diameter;          /* nominal diameter, m (0 when not given) */
+    double value[HF_PROP_COUNT];        /* resolved values, SI units as listed above */
+    unsigned given;                     /* bit p set: value[p] was given by the user */
+    const char *source[HF_PROP_COUNT];  /* static text: where each value came from */
+    bool approximate;         /* true for wire and fibre: enter catalogue data */
+} hf_component;
+
+/* Stable names: "studless_chain", "studlink_chain", "six_strand",
+ * "spiral_strand", "polyester", "nylon", "custom"; grades "R3" ... "R5",
+ * "1", "2", "3".  Lookups return HF_EINVAL for unknown names. */
+const char *hf_component_type_name(hf_component_type t);
+const char *hf_component_grade_name(hf_chain_grade g);
+const char *hf_component_prop_name(hf_component_prop p); /* "mass", "wet_weight", ... */
+hf_status hf_component_type_lookup(const char *name, hf_component_type *out);
+hf_status hf_component_grade_lookup(const char *name, hf_chain_grade *out);
+
+/* Initialises c as a component of type t with nothing given. */
+void hf_component_init(hf_component *c, hf_component_type t);
+
+/* Marks property p as given by the user with SI value v. */
+void hf_component_give(hf_component *c, hf_component_prop p, double v);
+
+/* Derives every property not given, for sea water of density rho (kg/m^3),
+ * and records the source of each.  Returns HF_EINVAL (message in err, naming
+ * the missing input, e.g. "a studless chain needs a diameter or ...") when a
+ * property cannot be derived, or a derived value is not finite and > 0
+ * (friction >= 0). */
+hf_status hf_component_resolve(hf_component *c, double rho, hf_error *err);
+
+#endif

@@ -1,0 +1,197 @@
+/* model.h - the parsed case: site, components, lines, hull, loads, criteria,
+ * studies, all in SI units.
+ *
+ * Flow: case loader -> **model** -> line solve / spread / balance / studies.
+ * The loader fills the "spec" fields; hf_model_resolve() derives component
+ * properties and builds each line's hf_line from them.  Sweeps change a spec
+ * value through a parameter path and resolve again.  The model owns all its
+ * memory; hf_model_free() releases it. */
+#ifndef HOLDFAST_MODEL_H
+#define HOLDFAST_MODEL_H
+
+#include <stddef.h>
+#include "holdfast/status.h"
+#include "holdfast/units.h"
+#include "holdfast/component.h"
+#include "holdfast/line.h"
+
+/* Documented limits (errors name them when hit). */
+#define HF_MODEL_MAX_LINES 100000
+#define HF_MODEL_MAX_NAME 128
+
+typedef struct {
+    double depth;          /* water depth from the datum to the flat seabed, m (> 0) */
+    double water_level;    /* still water level above the datum (tide), m; default 0 */
+    double water_density;  /* kg/m^3; default 1025 */
+} hf_site;
+
+typedef struct {
+    char *name;
+    hf_component comp;     /* spec and resolved properties */
+    int src_line, src_col; /* where it was defined in the case file (1-based; 0 unknown) */
+} hf_model_component;
+
+typedef enum { HF_PIECE_SECTION = 0, HF_PIECE_CLUMP, HF_PIECE_BUOY } hf_piece_kind;
+
+/* One entry of a line's `sections:` list, anchor first. */
+typedef struct {
+    hf_piece_kind kind;
+    size_t component;  /* section: index into hf_model.components */
+    double length;     /* section: unstretched length, m */
+    double load;       /* clump: net weight in water, buoy: net lift; N, > 0 in both */
+    double friction;   /* clump/buoy: seabed friction, -; default 1.0 */
+} hf_piece;
+
+typedef enum {
+    HF_ANCHOR_DRAG = 0,  /* drag-embedment anchor (default) */
+    HF_ANCHOR_GRAVITY,   /* gravity (deadweight) block */
+    HF_ANCHOR_PILE,
+    HF_ANCHOR_PLATE
+} hf_anchor_kind;
+
+typedef struct {
+    hf_anchor_kind kind;
+    double weight;            /* gravity block: submerged weight, N */
+    double friction;          /* gravity block on the seabed, -; default 0.5 */
+    double max_uplift_angle;  /* drag anchor: allowed uplift angle, rad; default 0 */
+} hf_anchor;
+
+typedef struct {
+    char *name;
+    double anchor[2];      /* global x, y of the anchor on the seabed, m */
+    double fairlead[3];    /* hull-frame x, y, z of the fairlead, m */
+    hf_anchor anchor_spec;
+    size_t npieces;
+    hf_piece *pieces;
+    hf_line line;          /* built by hf_model_resolve() from pieces and components */
+    int src_line, src_col;
+} hf_model_line;
+
+typedef struct {
+    double position[2];    /* global x, y of the hull reference point, m */
+    double heading;        /* rad, counterclockwise from global x, seen from above */
+    size_t noutline;
+    double (*outline)[2];  /* optional hull-frame polygon for plots, m */
+} hf_hull;
+
+/* A drag load 1/2 rho C A V^2 acting toward `direction`. */
+typedef struct {
+    double density;        /* fluid density, kg/m^3 (air 1.225, water: site) */
+    double coefficient;    /* drag coefficient C, - */
+    double area;           /* projected area A, m^2 */
+    double speed;          /* V, m/s */
+    double direction;      /* rad, counterclockwise from global x: where the load pushes to */
+} hf_drag;
+
+typedef struct {
+    char *name;
+    double force;          /* magnitude of the direct force, N (>= 0) */
+    double direction;      /* direction the force acts toward, rad from global x */
+    double moment;         /* yaw moment about the reference point, N m (ccw +) */
+    size_t ndrag;
+    hf_drag *drag;         /* wind and current terms */
+} hf_load;
+
+typedef enum { HF_ANALYSIS_QUASI_STATIC = 0, HF_ANALYSIS_DYNAMIC } hf_analysis_kind;
+
+typedef struct {
+    char *preset;             /* preset name, or NULL for user factors only */
+    hf_analysis_kind analysis;
+    double factor_intact;     /* required MBL / tension, intact; 0 = no check */
+    double factor_damaged;    /* one line broken; 0 = no check */
+    double max_offset;        /* allowed horizontal offset, m; 0 = no check */
+    const char *source;       /* static text: where the factors come from */
+} hf_criteria;
+
+typedef enum {
+    HF_STUDY_LINES = 0, HF_STUDY_CURVE, HF_STUDY_STIFFNESS, HF_STUDY_BALANCE,
+    HF_STUDY_SWEEP, HF_STUDY_INVERT
+} hf_study_kind;
+
+/* One varied parameter: a range (from, to, step) or a list of values. */
+typedef struct {
+    char *path;            /* e.g. "lines[bow-port].sections[2].length" */
+    hf_dim dim;
+    size_t nvalues;        /* list form: number of values, else 0 */
+    double *values;        /* list form, SI */
+    double from, to, step; /* range form (nvalues == 0), SI; also invert's bracket */
+} hf_vary;
+
+typedef struct {
+    char *name;            /* names the CSV file: <name>.csv */
+    hf_study_kind kind;
+    double offset[3];      /* lines, stiffness: x, y (m), heading (rad) offsets */
+    double direction;      /* curve: rad */
+    double from, to, step; /* curve: offsets, m */
+    size_t nloads;         /* balance: load names, 0 = all */
+    char **loads;
+    size_t nvary;          /* sweep: parameters; invert: exactly one */
+    hf_vary *vary;
+    int zip;               /* sweep: 1 = zipped lists, 0 = full factorial grid */
+    size_t noutputs;       /* sweep: chosen output names, 0 = defaults */
+    char **outputs;
+    char *target_output;   /* invert: "fairlead_tension", "fairlead_horizontal", "stiffness_surge", ... */
+    char *target_line;     /* invert: line name, where the output is per line */
+    double target_value;   /* invert: SI */
+} hf_study;
+
+typedef struct {
+    char *title;
+    char *source_path;     /* the case file's path, for messages and reports */
+    hf_site site;
+    size_t ncomponents;
+    hf_model_component *components;
+    size_t nlines;
+    hf_model_line *lines;
+    hf_hull hull;
+    size_t nloads;
+    hf_load *loads;
+    hf_criteria criteria;
+    size_t nstudies;
+    hf_study *studies;
+} hf_model;
+
+/* Empty model (no lines); hf_model_free() works on it. */
+void hf_model_init(hf_model *m);
+
+/* Releases everything the model owns and re-initialises it.  NULL is allowed. */
+void hf_model_free(hf_model *m);
+
+/* Deep copy of src into dst (dst is overwritten, not freed first).
+ * Returns HF_OK or HF_ENOMEM (dst is then left empty). */
+hf_status hf_model_copy(hf_model *dst, const hf_model *src);
+
+/* Derives component properties and rebuilds every line's hf_line from its
+ * pieces.  Consecutive clumps/buoys at one joint add up.  Returns HF_EINVAL
+ * with a message (e.g. a clump at a line end, too many sections) or HF_OK. */
+hf_status hf_model_resolve(hf_model *m, hf_error *err);
+
+/* Height of the still water level above the seabed, m: depth + water_level. */
+double hf_model_water_height(const hf_model *m);
+
+/* Index of the line / component / load named `name`, or (size_t)-1. */
+size_t hf_model_line_find(const hf_model *m, const char *name);
+size_t hf_model_component_find(const hf_model *m, const char *name);
+size_t hf_model_load_find(const hf_model *m, const char *name);
+
+/* A numeric parameter reached through a path such as "site.depth",
+ * "site.water_level", "lines[bow-port].sections[2].length",
+ * "lines[0].anchor_radius", "components.chain76.diameter",
+ * "loads[storm].force".  Bound to one model: look it up again in a copy. */
+typedef struct {
+    double *value;   /* where the SI value lives in the model (NULL for derived paths) */
+    hf_dim dim;
+    int kind;        /* internal: what to re-derive after a change */
+    size_t index;    /* internal */
+} hf_param;
+
+/* Finds the parameter at `path` in m.  HF_EINVAL with a message listing what
+ * was expected when the path is unknown. */
+hf_status hf_model_param_lookup(hf_model *m, const char *path, hf_param *p, hf_error *err);
+
+/* Reads / sets the parameter's SI value; set re-resolves what depends on it
+ * and returns HF_EINVAL when the value makes the model invalid. */
+double hf_model_param_get(const hf_model *m, const hf_param *p);
+hf_status hf_model_param_set(hf_model *m, const hf_param *p, double value, hf_error *err);
+
+#endif

@@ -1,0 +1,42 @@
+/* units.h - physical quantities written with units ("76 mm", "1500 kN").
+ *
+ * Flow: **units** <- case loader.  Converts a text value to SI and checks
+ * that its unit has the dimension the caller expects.  Knows nothing of YAML
+ * or mooring. */
+#ifndef HOLDFAST_UNITS_H
+#define HOLDFAST_UNITS_H
+
+#include "holdfast/status.h"
+
+typedef enum {
+    HF_DIM_NONE = 0,      /* dimensionless (friction coefficient, factor) */
+    HF_DIM_LENGTH,        /* m */
+    HF_DIM_FORCE,         /* N */
+    HF_DIM_MASS,          /* kg */
+    HF_DIM_MASS_PER_LENGTH,  /* kg/m */
+    HF_DIM_FORCE_PER_LENGTH, /* N/m */
+    HF_DIM_PRESSURE,      /* Pa */
+    HF_DIM_ANGLE,         /* rad internally; a plain number means degrees */
+    HF_DIM_DENSITY,       /* kg/m^3 */
+    HF_DIM_SPEED,         /* m/s */
+    HF_DIM_AREA,          /* m^2 */
+    HF_DIM_MOMENT,        /* N m */
+    HF_DIM_COUNT
+} hf_dim;
+
+/* Name of a dimension for messages: "length", "force", ... */
+const char *hf_dim_name(hf_dim d);
+
+/* SI unit symbol of a dimension: "m", "N", ..., "rad" for angles, "" for none. */
+const char *hf_dim_si(hf_dim d);
+
+/* Parses `text` ("76 mm", "1.5e3 kN", "85", "12 deg") as a quantity of
+ * dimension `want` and stores its SI value in *out (angles in radians).  A
+ * plain number is SI, except for angles where a plain number is degrees.
+ * Rejects: empty text, trailing garbage, non-finite numbers (nan, inf,
+ * 1e309), unknown units, and units of another dimension ("3 kN" for a
+ * length).  On failure returns HF_EINVAL and a message such as
+ * `expected a length, got "3 kN" (a force)` in err. */
+hf_status hf_units_parse(const char *text, hf_dim want, double *out, hf_error *err);
+
+#endif
