@@ -34,7 +34,7 @@ CMOCKA_LIBS   := $(shell pkg-config --libs cmocka)
 
 OMP ?= -fopenmp
 CPPFLAGS += -Iinclude -DHF_VERSION=\"$(VERSION)\"
-CFLAGS   += -std=c11 -D_POSIX_C_SOURCE=200809L $(OPT) $(WARN) $(WERROR) $(OMP) $(PKG_CFLAGS)
+CFLAGS   += -std=c11 -D_XOPEN_SOURCE=700 $(OPT) $(WARN) $(WERROR) $(OMP) $(PKG_CFLAGS)
 ifneq ($(SANITIZE),)
 CFLAGS  += -fsanitize=$(SANITIZE) -fno-omit-frame-pointer -fno-sanitize-recover=all
 LDFLAGS += -fsanitize=$(SANITIZE)
