@@ -100,3 +100,4 @@ clean:
 # Further targets (bench, sanitize, fuzz, valgrind...) live in mk/*.mk.
 -include $(wildcard mk/*.mk)
 -include $(wildcard $(BUILD)/obj/*.d $(BUILD)/tobj/*.d)
+.SECONDARY:

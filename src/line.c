@@ -1,0 +1,1119 @@
+/* line.c - one mooring line: multi-section elastic catenary on a flat seabed
+ * with axial Coulomb friction, clump weights and buoys (see docs/theory.md).
+ *
+ * Unknowns are the fairlead forces (H, V).  The forward map (H, V) -> (x, z)
+ * walks the line from the fairlead to the anchor in closed form (Irvine 1981
+ * for suspended sections; the grounded stretch with friction generalises
+ * Jonkman 2007, NREL/TP-500-41958, eq. 2-4 to several sections), together
+ * with its analytic Jacobian.  A damped 2x2 Newton solves the map; a nested
+ * bracketing search (GSL Brent) is the fallback that always converges for
+ * valid input.  Regimes with H = 0 (slack, vertical) are solved in closed
+ * form before any iteration. */
+#include <float.h>
+#include <math.h>
+#include <string.h>
+#include <gsl/gsl_errno.h>
+#include <gsl/gsl_roots.h>
+#include "holdfast/line.h"
+
+#define NMAX HF_LINE_MAX_SECTIONS
+
+static const char *const regime_names[] = {"suspended", "touchdown", "slack", "vertical", "laid"};
+
+const char *hf_line_regime_name(hf_line_regime r)
+{
+    if ((unsigned)r > HF_LINE_LAID)
+        return "unknown";
+    return regime_names[r];
+}
+
+void hf_line_options_default(hf_line_options *o)
+{
+    o->rtol = 1e-10;
+    o->max_iter = 40;
+}
+
+static int finite_pos(double v)
+{
+    return isfinite(v) && v > 0.0;
+}
+
+hf_status hf_line_check(const hf_line *line, hf_error *err)
+{
+    if (!line)
+        return hf_error_set(err, HF_EINVAL, "no line given");
+    if (line->n < 1 || line->n > NMAX)
+        return hf_error_set(err, HF_EINVAL, "a line needs 1 to %d sections, got %zu", NMAX,
+                            line->n);
+    for (size_t i = 0; i < line->n; i++) {
+        const hf_section *s = &line->sec[i];
+        if (!finite_pos(s->length))
+            return hf_error_set(err, HF_EINVAL, "section %zu: length must be finite and > 0", i);
+        if (!finite_pos(s->weight))
+            return hf_error_set(err, HF_EINVAL,
+                                "section %zu: wet weight must be finite and > 0 (sinking)", i);
+        if (!finite_pos(s->ea))
+            return hf_error_set(err, HF_EINVAL, "section %zu: EA must be finite and > 0", i);
+        if (!finite_pos(s->mbl))
+            return hf_error_set(err, HF_EINVAL, "section %zu: MBL must be finite and > 0", i);
+        if (!isfinite(s->friction) || s->friction < 0.0)
+            return hf_error_set(err, HF_EINVAL, "section %zu: friction must be finite and >= 0",
+                                i);
+        if (i + 1 < line->n) {
+            const hf_joint *j = &line->joint[i];
+            if (!isfinite(j->load))
+                return hf_error_set(err, HF_EINVAL, "joint %zu: point load must be finite", i);
+            if (!isfinite(j->friction) || j->friction < 0.0)
+                return hf_error_set(err, HF_EINVAL, "joint %zu: friction must be finite and >= 0",
+                                    i);
+        }
+    }
+    return HF_OK;
+}
+
+double hf_line_length(const hf_line *line)
+{
+    double l = 0.0;
+    for (size_t i = 0; i < line->n; i++)
+        l += line->sec[i].length;
+    return l;
+}
+
+/* Net vertical point load at joint i (0 for the ends). */
+static double pload(const hf_line *line, size_t i)
+{
+    return i + 1 < line->n ? line->joint[i].load : 0.0;
+}
+
+double hf_line_weight(const hf_line *line)
+{
+    double w = 0.0;
+    for (size_t i = 0; i < line->n; i++)
+        w += line->sec[i].weight * line->sec[i].length + pload(line, i);
+    return w;
+}
+
+/* ------------------------------------------------------------------------
+ * Closed-form pieces.  Stable forms avoid cancellation when H >> V (short
+ * sections, taut lines): Tt - Tb = wL (Vt + Vb) / (Tt + Tb) and
+ * asinh a - asinh b = asinh(a sqrt(1+b^2) - b sqrt(1+a^2)).
+ * ---------------------------------------------------------------------- */
+
+/* Suspended section of fixed unstretched length L with vertical force Vt at
+ * its upper end and Vb = Vt - wL at its lower end (Irvine 1981, eq. 2.38-2.39
+ * in section form).  Adds dx, dz and d(dx,dz)/d(H,Vt) into the accumulators.
+ * Needs H > 0, or H == 0 with Vt, Vb > 0 (vertical hanging limit). */
+static void suspended(double H, double w, double L, double EA, double Vt, double Vb, double *x,
+                      double *z, double J[2][2])
+{
+    double Tt = hypot(H, Vt), Tb = hypot(H, Vb);
+    double A, Q; /* A = (asinh(Vt/H) - asinh(Vb/H)) / w ;  Q = (Vt/Tt - Vb/Tb) / w */
+    if ((Vt > 0.0 && Vb > 0.0) || (Vt < 0.0 && Vb < 0.0)) {
+        double d = Vt * Tb + Vb * Tt;
+        A = asinh(w * L * (Vt + Vb) / d) / w;
+        Q = H * H * L * (Vt + Vb) / (d * Tt * Tb);
+    } else {
+        A = (asinh(Vt / H) - asinh(Vb / H)) / w;
+        Q = (Vt / Tt - Vb / Tb) / w;
+    }
+    double S = L * (Vt + Vb) / (Tt + Tb); /* = (Tt - Tb) / w */
+    double C = -H * L * (Vt + Vb) / ((Tt + Tb) * Tt * Tb); /* = (H/w)(1/Tt - 1/Tb) */
+    *x += H * A + H * L / EA;
+    *z += S + L * (Vt + Vb) / (2.0 * EA);
+    J[0][0] += A - Q + L / EA;
+    J[0][1] += C;
+    J[1][0] += C;
+    J[1][1] += Q + L / EA;
+}
+
+/* The suspended piece of the touchdown section: V runs from 0 at the seabed
+ * to Vt > 0, its length Vt/w follows V (Jonkman 2007, eq. 2-4 with L_B
+ * moving).  Derivatives with respect to (H, V) at the fairlead. */
+static void touchdown_piece(double H, double w, double EA, double Vt, double *x, double *z,
+                            double J[2][2])
+{
+    double Tt = hypot(H, Vt);
+    *x += (H / w) * asinh(Vt / H) + H * Vt / (w * EA);
+    *z += Vt * Vt / (w * (Tt + H)) + Vt * Vt / (2.0 * w * EA);
+    J[0][0] += asinh(Vt / H) / w - Vt / (w * Tt) + Vt / (w * EA);
+    J[0][1] += H / (w * Tt) + H / (w * EA);
+    J[1][0] += -Vt * Vt / (w * Tt * (Tt + H));
+    J[1][1] += Vt / (w * Tt) + Vt / (w * EA);
+}
+
+/* Tension and its derivatives carried along the grounded part. */
+typedef struct {
+    double t, t_h, t_v;   /* tension and d/dH, d/dV */
+    double s, s_h, s_v;   /* accumulated stretch and derivatives */
+} ground_t;
+
+/* A grounded piece of length l (dl/dV = l_v) with friction slope r = mu w:
+ * tension falls by r per metre toward the anchor, never below zero.  Stretch
+ * (T0 l - r l^2 / 2) / EA, or T0^2 / (2 r EA) once friction takes it all. */
+static void ground_piece(ground_t *g, double l, double l_v, double r, double EA)
+{
+    if (l <= 0.0)
+        return;
+    if (g->t >= r * l) {
+        g->s += (g->t * l - 0.5 * r * l * l) / EA;
+        g->s_h += g->t_h * l / EA;
+        g->s_v += (g->t_v * l + (g->t - r * l) * l_v) / EA;
+        g->t -= r * l;
+        g->t_v -= r * l_v;
+    } else if (g->t > 0.0) {
+        g->s += g->t * g->t / (2.0 * r * EA);
+        g->s_h += g->t * g->t_h / (r * EA);
+        g->s_v += g->t * g->t_v / (r * EA);
+        g->t = g->t_h = g->t_v = 0.0;
+    }
+}
+
+/* A point resting on the seabed with normal force N (dN/dV = n_v) and friction mu. */
+static void ground_point(ground_t *g, double mu, double N, double n_v)
+{
+    double drop = mu * N;
+    if (drop <= 0.0)
+        return;
+    if (g->t > drop) {
+        g->t -= drop;
+        g->t_v -= mu * n_v;
+    } else {
+        g->t = g->t_h = g->t_v = 0.0;
+    }
+}
+
+/* Everything the walk learns, for the final state and the profile. */
+typedef struct {
+    double x, z, J[2][2];
+    int grounded;          /* 1 when part of the line rests on the seabed */
+    int td_joint;          /* touchdown exactly at joint td_sec (clump), else 0 */
+    size_t td_sec;         /* section holding the touchdown (or joint index) */
+    double anchor_t;       /* tension at the anchor after friction, N */
+    int buoy_down;         /* a buoy lies on the seabed below touchdown */
+    double sag_min;        /* lowest sag point above the seabed, m (+inf if none) */
+    double vb[NMAX], vt[NMAX];   /* V at the lower / upper end of each suspended piece */
+    double gl[NMAX];             /* grounded length of each section */
+    double tg_lo[NMAX], tg_hi[NMAX]; /* tension at the lower / upper end of grounded pieces */
+} walk_t;
+
+/* The forward map.  Returns HF_OK, or HF_EINVAL when h is not > 0 and finite. */
+static hf_status walk(const hf_line *line, double H, double VF, walk_t *w)
+{
+    size_t n = line->n;
+    if (!(H > 0.0) || !isfinite(H) || !isfinite(VF) || n < 1 || n > NMAX)
+        return HF_EINVAL;
+    double vt[NMAX], vb[NMAX];
+    vt[0] = vb[0] = 0.0;
+    double v = VF;
+    for (size_t k = n; k-- > 0;) {
+        vt[k] = v;
+        vb[k] = v - line->sec[k].weight * line->sec[k].length;
+        v = vb[k] - (k > 0 ? pload(line, k - 1) : 0.0);
+    }
+    memset(w, 0, sizeof *w);
+    w->sag_min = INFINITY;
+    /* Touchdown: the first point, going up from the anchor, where V becomes
+     * positive.  Below it V <= 0 (the line lies on the seabed); above it the
+     * line is suspended, with sags where V changes sign again. */
+    size_t k0 = 0;       /* first section (partly) suspended */
+    int td_joint = 0;
+    if (vb[0] > 0.0) {
+        w->grounded = 0;
+    } else {
+        w->grounded = 1;
+        size_t k = 0;
+        for (;;) {
+            if (line->sec[k].weight > 0.0 && vt[k] > 0.0)
+                break; /* touchdown inside section k */
+            if (k + 1 >= n) {
+                k = n; /* fully laid: touchdown at the fairlead */
+                break;
+            }
+            if (pload(line, k) < 0.0)
+                w->buoy_down = 1;
+            if (vb[k + 1] > 0.0) {
+                td_joint = 1; /* touchdown exactly at the clump on joint k */
+                break;
+            }
+            k++;
+        }
+        w->td_sec = k;
+        w->td_joint = td_joint;
+        k0 = td_joint ? k + 1 : k;
+    }
+    /* Suspended part, walked upward so sag heights are known. */
+    double x = 0.0, z = 0.0;
+    double J[2][2] = {{0.0, 0.0}, {0.0, 0.0}};
+    for (size_t k = k0; k < n; k++) {
+        const hf_section *s = &line->sec[k];
+        double zb = z;
+        if (w->grounded && !td_joint && k == k0) {
+            touchdown_piece(H, s->weight, s->ea, vt[k], &x, &z, J);
+            w->vb[k] = 0.0;
+        } else {
+            if (k > k0 && vt[k - 1] <= 0.0 && vb[k] > 0.0)
+                w->sag_min = fmin(w->sag_min, zb); /* kink minimum at a clump */
+            suspended(H, s->weight, s->length, s->ea, vt[k], vb[k], &x, &z, J);
+            w->vb[k] = vb[k];
+            if (vb[k] < 0.0 && vt[k] > 0.0) {
+                /* a sag's lowest point inside the section, where V = 0 */
+                double xs = 0.0, zs = 0.0, Js[2][2] = {{0, 0}, {0, 0}};
+                double lb = -vb[k] / s->weight;
+                suspended(H, s->weight, lb, s->ea, 0.0, vb[k], &xs, &zs, Js);
+                w->sag_min = fmin(w->sag_min, zb + zs);
+            }
+        }
+        w->vt[k] = vt[k];
+    }
+    /* Grounded part, walked from touchdown down to the anchor. */
+    ground_t g = {H, 1.0, 0.0, 0.0, 0.0, 0.0};
+    double xg = 0.0, xg_v = 0.0;
+    if (w->grounded) {
+        size_t k = w->td_sec;
+        if (k >= n) {
+            k = n - 1; /* fully laid: start with the top section, whole */
+        } else if (td_joint) {
+            /* The clump carries part of its weight on the seabed: N = P - V_above. */
+            ground_point(&g, line->joint[k].friction, -vt[k], -1.0);
+        } else {
+            const hf_section *s = &line->sec[k];
+            double l = s->length - vt[k] / s->weight;
+            w->gl[k] = l;
+            w->tg_hi[k] = g.t;
+            ground_piece(&g, l, -1.0 / s->weight, s->friction * s->weight, s->ea);
+            w->tg_lo[k] = g.t;
+            xg += l;
+            xg_v += -1.0 / s->weight;
+            if (k == 0)
+                goto anchor;
+            ground_point(&g, line->joint[k - 1].friction, fmax(pload(line, k - 1), 0.0), 0.0);
+            k--;
+        }
+        for (;; k--) {
+            const hf_section *s = &line->sec[k];
+            w->gl[k] = s->length;
+            w->tg_hi[k] = g.t;
+            ground_piece(&g, s->length, 0.0, s->friction * s->weight, s->ea);
+            w->tg_lo[k] = g.t;
+            xg += s->length;
+            if (k == 0)
+                break;
+            ground_point(&g, line->joint[k - 1].friction, fmax(pload(line, k - 1), 0.0), 0.0);
+        }
+    anchor:
+        w->anchor_t = g.t;
+    }
+    w->x = x + xg + g.s;
+    w->z = z;
+    w->J[0][0] = J[0][0] + g.s_h;
+    w->J[0][1] = J[0][1] + xg_v + g.s_v;
+    w->J[1][0] = J[1][0];
+    w->J[1][1] = J[1][1];
+    return HF_OK;
+}
+
+hf_status hf_line_span(const hf_line *line, double h, double v, double *x, double *z,
+                       double jac[2][2])
+{
+    walk_t w;
+    hf_status st = walk(line, h, v, &w);
+    if (st != HF_OK)
+        return st;
+    *x = w.x;
+    *z = w.z;
+    memcpy(jac, w.J, sizeof w.J);
+    return w.buoy_down ? HF_EUNSUPPORTED : HF_OK;
+}
+
+/* ------------------------------------------------------------------------
+ * H = 0: a line hanging straight down from the fairlead.
+ * ---------------------------------------------------------------------- */
+
+/* Column hanging from the fairlead whose lowest piece is the top `l` metres
+ * of section k with vertical force v0 at its foot.  Returns the column's
+ * height, the fairlead force *vf, the smallest force in it *vmin and
+ * B = sum(length / EA) (dheight/dv0). */
+static double column(const hf_line *line, size_t k, double l, double v0, double *vf,
+                     double *vmin, double *B)
+{
+    const hf_section *s = &line->sec[k];
+    double v = v0, h = 0.0, b = 0.0, vm = v0;
+    h += l + (2.0 * v + s->weight * l) * l / (2.0 * s->ea);
+    b += l / s->ea;
+    v += s->weight * l;
+    for (size_t j = k + 1; j < line->n; j++) {
+        v += pload(line, j - 1);
+        vm = fmin(vm, v);
+        const hf_section *t = &line->sec[j];
+        h += t->length + (2.0 * v + t->weight * t->length) * t->length / (2.0 * t->ea);
+        b += t->length / t->ea;
+        v += t->weight * t->length;
+    }
+    *vf = v;
+    *vmin = vm;
+    *B = b;
+    return h;
+}
+
+typedef struct {
+    int found;       /* 1: the line can hang with its foot on the seabed */
+    double s_t;      /* grounded (laid) unstretched length below the column, m */
+    double vf;       /* fairlead vertical force, N */
+    double kvv;      /* dV/dZ, N/m */
+    int bad;         /* the column would be in compression somewhere (buoy) */
+    size_t foot;     /* section holding the column's foot (or joint index when at_joint) */
+    int at_joint;    /* the foot is the clump on joint `foot`, partly on the seabed */
+    double foot_l;   /* hanging length of section `foot`, m (not at a joint) */
+    double foot_p;   /* part of the clump's weight the column carries, N (at a joint) */
+} hang_t;
+
+/* Finds the hanging configuration reaching height Z (Z > 0) with H = 0. */
+static void hang(const hf_line *line, double Z, hang_t *r)
+{
+    size_t n = line->n;
+    double vf, vmin, B;
+    memset(r, 0, sizeof *r);
+    if (column(line, 0, line->sec[0].length, 0.0, &vf, &vmin, &B) < Z)
+        return; /* even the whole line hanging does not reach: taut */
+    r->found = 1;
+    double below = 0.0; /* length of the sections below section k */
+    for (size_t k = 0; k < n; k++) {
+        double gk1 = 0.0; /* height with the foot just above joint k (clump excluded) */
+        if (k + 1 < n)
+            gk1 = column(line, k + 1, line->sec[k + 1].length, 0.0, &vf, &vmin, &B);
+        if (k + 1 < n && gk1 >= Z) {
+            below += line->sec[k].length;
+            continue;
+        }
+        /* The foot lies in section k or at joint k. */
+        double vf0, vmin0, B0;
+        double g0 = column(line, k, 0.0, 0.0, &vf0, &vmin0, &B0); /* foot at top of k, clump in */
+        const hf_section *s = &line->sec[k];
+        if (g0 <= Z) {
+            /* Inside section k, l metres of it hanging: a l^2 + b l + c = 0. */
+            double Ba = B0, w = s->weight;
+            double a = w / (2.0 * s->ea), b = 1.0 + Ba * w, c = g0 - Z;
+            double l = -2.0 * c / (b + sqrt(b * b - 4.0 * a * c));
+            l = fmin(fmax(l, 0.0), s->length);
+            column(line, k, l, 0.0, &r->vf, &vmin, &B);
+            r->s_t = below + s->length - l;
+            r->foot = k;
+            r->foot_l = l;
+            r->kvv = w / (1.0 + w * l / s->ea + Ba * w);
+            r->bad = vmin < 0.0;
+        } else {
+            /* At the clump on joint k, the seabed carrying part of it. */
+            double p = (Z - gk1) / B;
+            column(line, k + 1, line->sec[k + 1].length, p, &r->vf, &vmin, &B);
+            r->s_t = below + s->length;
+            r->foot = k;
+            r->at_joint = 1;
+            r->foot_p = p;
+            r->kvv = 1.0 / B;
+            r->bad = vmin < 0.0 || p < 0.0;
+        }
+        /* A buoy on the laid part would lift it. */
+        for (size_t j = 0; j + 1 < n && j < k; j++)
+            if (pload(line, j) < 0.0)
+                r->bad = 1;
+        return;
+    }
+}
+
+/* ------------------------------------------------------------------------
+ * Filling the state.
+ * ---------------------------------------------------------------------- */
+
+static void sections_from_walk(const hf_line *line, const walk_t *w, double H, hf_line_state *st)
+{
+    for (size_t k = 0; k < line->n; k++) {
+        hf_section_result *r = &st->section[k];
+        double susp = line->sec[k].length - w->gl[k];
+        double tlo, thi;
+        if (susp > 0.0) {
+            thi = hypot(H, w->vt[k]);
+            tlo = w->gl[k] > 0.0 ? w->tg_hi[k] : hypot(H, w->vb[k]);
+        } else {
+            thi = w->tg_hi[k];
+            tlo = w->tg_lo[k];
+        }
+        if (w->gl[k] > 0.0)
+            tlo = w->tg_lo[k];
+        r->t_lower = tlo;
+        r->t_upper = thi;
+        /* T = sqrt(H^2 + V^2) with V linear along a suspended piece: the
+         * largest |V| sits at an end, so the maximum is at an end. */
+        r->t_max = fmax(tlo, thi);
+        r->grounded = w->gl[k];
+    }
+}
+
+static void finish_sections(const hf_line *line, hf_line_state *st)
+{
+    st->max_utilisation = 0.0;
+    st->max_section = 0;
+    for (size_t k = 0; k < line->n; k++) {
+        hf_section_result *r = &st->section[k];
+        r->utilisation = r->t_max / line->sec[k].mbl;
+        if (r->utilisation > st->max_utilisation) {
+            st->max_utilisation = r->utilisation;
+            st->max_section = k;
+        }
+    }
+}
+
+static void stiffness_from_flex(const double J[2][2], hf_line_state *st)
+{
+    double det = J[0][0] * J[1][1] - J[0][1] * J[1][0];
+    if (det != 0.0 && isfinite(det)) {
+        st->stiffness[0][0] = J[1][1] / det;
+        st->stiffness[0][1] = -J[0][1] / det;
+        st->stiffness[1][0] = -J[1][0] / det;
+        st->stiffness[1][1] = J[0][0] / det;
+    }
+    for (int i = 0; i < 2; i++)
+        for (int j = 0; j < 2; j++)
+            if (!isfinite(st->stiffness[i][j]))
+                st->stiffness[i][j] = 0.0;
+}
+
+static hf_status fail(hf_line_state *st, hf_status s, const char *msg)
+{
+    double x = st->x, z = st->z;
+    size_t n = st->n;
+    int it = st->iterations, ev = st->evaluations;
+    memset(st, 0, sizeof *st);
+    st->x = x;
+    st->z = z;
+    st->n = n;
+    st->iterations = it;
+    st->evaluations = ev;
+    st->status = s;
+    st->message = msg;
+    return s;
+}
+
+static const char msg_buoy[] =
+    "a buoy would rest on the seabed below the touchdown point and lift the line off it; "
+    "a flat-seabed line with a single touchdown cannot represent this";
+static const char msg_sag[] =
+    "the line would sag into the seabed between a buoy and the fairlead (two touchdowns); "
+    "this configuration is not supported";
+static const char msg_slack_buoy[] =
+    "a buoy in a slack line would be lifted with part of the line; not supported";
+
+/* ------------------------------------------------------------------------
+ * Newton on (H, V) with a backtracking line search; the driver owns the loop.
+ * ---------------------------------------------------------------------- */
+
+typedef struct {
+    const hf_line *line;
+    double X, Z, tol, scale;
+    double H, V;
+    walk_t w;
+    double f;            /* merit: (rx^2 + rz^2) / scale^2 */
+    int evals;
+} newton_t;
+
+static double merit(const newton_t *s, const walk_t *w)
+{
+    double rx = (w->x - s->X) / s->scale, rz = (w->z - s->Z) / s->scale;
+    return rx * rx + rz * rz;
+}
+
+static hf_status newton_set(newton_t *s, double H, double V)
+{
+    s->H = H;
+    s->V = V;
+    s->evals++;
+    if (walk(s->line, H, V, &s->w) != HF_OK)
+        return HF_EINVAL;
+    s->f = merit(s, &s->w);
+    return isfinite(s->f) ? HF_OK : HF_EINVAL;
+}
+
+/* Convergence test: both residuals within tol (absolute, metres). */
+static hf_status newton_test(const newton_t *s)
+{
+    return (fabs(s->w.x - s->X) <= s->tol && fabs(s->w.z - s->Z) <= s->tol) ? HF_OK
+                                                                              : HF_CONTINUE;
+}
+
+/* One damped Newton step.  HF_OK when it reduced the merit, HF_ENOCONV when
+ * the step direction failed (singular Jacobian, no descent). */
+static hf_status newton_iterate(newton_t *s)
+{
+    const double(*J)[2] = (const double(*)[2])s->w.J;
+    double rx = s->w.x - s->X, rz = s->w.z - s->Z;
+    double det = J[0][0] * J[1][1] - J[0][1] * J[1][0];
+    if (!(fabs(det) > 0.0) || !isfinite(det))
+        return HF_ENOCONV;
+    double dH = (-rx * J[1][1] + rz * J[0][1]) / det;
+    double dV = (-rz * J[0][0] + rx * J[1][0]) / det;
+    if (!isfinite(dH) || !isfinite(dV))
+        return HF_ENOCONV;
+    double a = 1.0;
+    if (s->H + dH < 0.1 * s->H)
+        a = fmin(a, 0.9 * s->H / -dH); /* keep H > 0 */
+    if (s->Z > 0.0 && s->V > 0.0 && s->V + a * dV < 0.1 * s->V)
+        a = fmin(a, 0.9 * s->V / -dV); /* stay where the line is lifted */
+    walk_t trial;
+    for (int i = 0; i < 40; i++, a *= 0.5) {
+        double H = s->H + a * dH, V = s->V + a * dV;
+        s->evals++;
+        if (walk(s->line, H, V, &trial) != HF_OK)
+            continue;
+        double f = merit(s, &trial);
+        if (isfinite(f) && f <= (1.0 - 1e-4 * a) * s->f) {
+            s->H = H;
+            s->V = V;
+            s->w = trial;
+            s->f = f;
+            return HF_OK;
+        }
+    }
+    return HF_ENOCONV;
+}
+
+/* ------------------------------------------------------------------------
+ * Fallback: z is non-decreasing in V for fixed H and the span x(H, V(H)) is
+ * increasing in H, so nested bracketing always finds the root.
+ * ---------------------------------------------------------------------- */
+
+typedef struct {
+    newton_t *s;
+    double H;
+    gsl_root_fsolver *inner; /* Brent solver for V at fixed H */
+} inner_t;
+
+static double inner_f(double V, void *p)
+{
+    inner_t *in = p;
+    walk_t w;
+    in->s->evals++;
+    if (walk(in->s->line, in->H, V, &w) != HF_OK)
+        return NAN;
+    return w.z - in->s->Z;
+}
+
+static int brent(gsl_root_fsolver *r, gsl_function *F, double lo, double hi, double xtol,
+                 double *root)
+{
+    if (gsl_root_fsolver_set(r, F, lo, hi) != GSL_SUCCESS)
+        return -1;
+    for (int i = 0; i < 200; i++) {
+        if (gsl_root_fsolver_iterate(r) != GSL_SUCCESS)
+            return -1;
+        double a = gsl_root_fsolver_x_lower(r), b = gsl_root_fsolver_x_upper(r);
+        if (gsl_root_test_interval(a, b, xtol, 1e-13) == GSL_SUCCESS)
+            break;
+    }
+    *root = gsl_root_fsolver_root(r);
+    return 0;
+}
+
+/* V such that z(H, V) = Z. */
+static int solve_v(inner_t *base, double H, double *V)
+{
+    newton_t *s = base->s;
+    inner_t in = {s, H, base->inner};
+    gsl_function F = {inner_f, &in};
+    double lo = 0.0, hi = fmax(fabs(hf_line_weight(s->line)), 1.0);
+    double fhi = inner_f(hi, &in);
+    for (int i = 0; i < 200 && !(fhi >= 0.0); i++) {
+        lo = hi;
+        hi *= 2.0;
+        fhi = inner_f(hi, &in);
+    }
+    if (!(fhi >= 0.0))
+        return -1;
+    if (fhi == 0.0) {
+        *V = hi;
+        return 0;
+    }
+    return brent(in.inner, &F, lo, hi, 1e-14 * hi, V);
+}
+
+static double outer_f(double H, void *p)
+{
+    inner_t *base = p;
+    newton_t *s = base->s;
+    double V;
+    if (solve_v(base, H, &V) != 0)
+        return NAN;
+    walk_t w;
+    s->evals++;
+    if (walk(s->line, H, V, &w) != HF_OK)
+        return NAN;
+    return w.x - s->X;
+}
+
+static hf_status bracket(newton_t *s, inner_t *base, gsl_root_fsolver *outer)
+{
+    gsl_function F = {outer_f, base};
+    double wmax = 0.0;
+    for (size_t k = 0; k < s->line->n; k++)
+        wmax = fmax(wmax, s->line->sec[k].weight);
+    double lo = 1e-9 * wmax * s->scale, hi = fmax(s->H, lo * 10.0);
+    double flo = outer_f(lo, base);
+    for (int i = 0; i < 60 && !(flo < 0.0); i++) {
+        lo *= 1e-3;
+        flo = outer_f(lo, base);
+    }
+    double fhi = outer_f(hi, base);
+    for (int i = 0; i < 200 && !(fhi > 0.0); i++) {
+        hi *= 2.0;
+        fhi = outer_f(hi, base);
+    }
+    if (!(flo < 0.0) || !(fhi > 0.0))
+        return HF_ENOCONV;
+    double H, V;
+    if (brent(outer, &F, lo, hi, 1e-13 * hi, &H) != 0 || solve_v(base, H, &V) != 0)
+        return HF_ENOCONV;
+    return newton_set(s, H, V);
+}
+
+/* The fallback allocates its two small GSL solvers; it runs rarely, never in
+ * the Newton loop. */
+static hf_status fallback(newton_t *s)
+{
+    gsl_root_fsolver *outer = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
+    gsl_root_fsolver *inner = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
+    hf_status st = HF_ENOMEM;
+    if (outer && inner) {
+        inner_t base = {s, 0.0, inner};
+        st = bracket(s, &base, outer);
+    }
+    if (inner)
+        gsl_root_fsolver_free(inner);
+    if (outer)
+        gsl_root_fsolver_free(outer);
+    return st;
+}
+
+/* Peyrot and Goulois (1979) starting point, with the mean weight of the line. */
+static void peyrot(const hf_line *line, double X, double Z, double *H, double *V)
+{
+    double L = hf_line_length(line);
+    double w = hf_line_weight(line) / L;
+    if (!(w > 0.0)) {
+        w = 0.0;
+        for (size_t k = 0; k < line->n; k++)
+            w += line->sec[k].weight * line->sec[k].length / L;
+    }
+    double lam;
+    if (X <= 0.0)
+        lam = 1e6;
+    else if (X * X + Z * Z >= L * L)
+        lam = 0.2;
+    else
+        lam = sqrt(3.0 * ((L * L - Z * Z) / (X * X) - 1.0));
+    *H = fmax(fabs(w * X / (2.0 * lam)), 1e-6 * w * L);
+    *V = 0.5 * w * (Z / tanh(lam) + L);
+}
+
+/* ------------------------------------------------------------------------
+ * Regimes solved directly.
+ * ---------------------------------------------------------------------- */
+
+static hf_status solve_slack(const hf_line *line, const hang_t *hg, hf_line_state *st)
+{
+    if (hg->bad)
+        return fail(st, HF_EUNSUPPORTED, msg_slack_buoy);
+    st->regime = HF_LINE_SLACK;
+    st->h = 0.0;
+    st->v = hg->vf;
+    st->tension = hg->vf;
+    st->touchdown_x = st->x;
+    st->grounded = hg->s_t;
+    st->stiffness[1][1] = hg->kvv;
+    /* Zero tension on the laid part; going up the column T = V grows by the
+     * weight hanging below each point. */
+    double v = 0.0;
+    for (size_t k = 0; k < line->n; k++) {
+        const hf_section *sec = &line->sec[k];
+        hf_section_result *r = &st->section[k];
+        if (k > 0 && (k > hg->foot + 1 || (k == hg->foot + 1 && !hg->at_joint)))
+            v += pload(line, k - 1);
+        if (k == hg->foot + 1 && hg->at_joint)
+            v = hg->foot_p;
+        double hanging;
+        if (k < hg->foot || (k == hg->foot && hg->at_joint))
+            hanging = 0.0;
+        else if (k == hg->foot)
+            hanging = hg->foot_l;
+        else
+            hanging = sec->length;
+        r->grounded = sec->length - hanging;
+        r->t_lower = hanging < sec->length ? 0.0 : v;
+        v += sec->weight * hanging;
+        r->t_upper = v;
+        r->t_max = v;
+    }
+    return HF_OK;
+}
+
+static hf_status solve_vertical(const hf_line *line, double Z, hf_line_state *st)
+{
+    /* Z = sum L + sum L (Vt + Vb) / (2 EA) is linear in the fairlead force. */
+    double c = 0.0, L = 0.0, B = 0.0, v = 0.0;
+    for (size_t k = line->n; k-- > 0;) {
+        const hf_section *s = &line->sec[k];
+        double vb = v - s->weight * s->length; /* V offsets from VF */
+        c += s->length * (v + vb) / (2.0 * s->ea);
+        L += s->length;
+        B += s->length / s->ea;
+        v = vb - (k > 0 ? pload(line, k - 1) : 0.0);
+    }
+    double VF = (Z - L - c) / B;
+    double vt = VF;
+    double J[2][2] = {{0, 0}, {0, 0}}, x = 0.0, z = 0.0;
+    for (size_t k = line->n; k-- > 0;) {
+        const hf_section *s = &line->sec[k];
+        double vb = vt - s->weight * s->length;
+        if (!(vb > 0.0))
+            return fail(st, HF_EUNSUPPORTED,
+                        "a buoy would put part of a vertical line in compression; not supported");
+        suspended(0.0, s->weight, s->length, s->ea, vt, vb, &x, &z, J);
+        st->section[k].t_upper = vt;
+        st->section[k].t_lower = vb;
+        st->section[k].t_max = vt;
+        vt = vb - (k > 0 ? pload(line, k - 1) : 0.0);
+    }
+    st->regime = HF_LINE_VERTICAL;
+    st->h = 0.0;
+    st->v = VF;
+    st->tension = VF;
+    st->anchor_v = st->section[0].t_lower;
+    st->anchor_tension = st->anchor_v;
+    st->anchor_angle = M_PI / 2.0;
+    st->stiffness[0][0] = 1.0 / J[0][0]; /* pendulum-like lateral stiffness */
+    st->stiffness[1][1] = 1.0 / B;
+    st->residual = fabs(z - Z) / fmax(L, Z);
+    return HF_OK;
+}
+
+/* Z = 0, X beyond the unstretched length: the whole line lies taut on the
+ * seabed.  x = L + stretch(H), solved by Newton on H (monotone, convex). */
+static hf_status solve_laid(const hf_line *line, double X, double tol, hf_line_state *st)
+{
+    double H = fmax(line->sec[line->n - 1].ea * (X / hf_line_length(line) - 1.0), 1e-3);
+    walk_t w;
+    for (int i = 0; i < 200; i++) {
+        if (walk(line, H, 0.0, &w) != HF_OK)
+            break;
+        st->evaluations++;
+        st->iterations++;
+        double r = w.x - X;
+        if (fabs(r) <= tol)
+            break;
+        double Hn = H - r / w.J[0][0];
+        H = Hn > 0.0 ? Hn : 0.5 * H;
+    }
+    if (fabs(w.x - X) > tol)
+        return fail(st, HF_ENOCONV, "fully laid line: tension did not converge");
+    if (w.buoy_down)
+        return fail(st, HF_EUNSUPPORTED, msg_buoy);
+    st->regime = HF_LINE_LAID;
+    st->h = H;
+    st->v = 0.0;
+    st->tension = H;
+    st->anchor_h = w.anchor_t;
+    st->anchor_tension = w.anchor_t;
+    st->touchdown_x = X;
+    st->grounded = hf_line_length(line);
+    st->stiffness[0][0] = 1.0 / w.J[0][0];
+    st->message = "fully laid line: its vertical stiffness is unbounded at lift-off and is "
+                  "reported as 0";
+    st->residual = fabs(w.x - X) / fmax(hf_line_length(line), X);
+    sections_from_walk(line, &w, H, st);
+    return HF_OK;
+}
+
+/* ------------------------------------------------------------------------
+ * The driver.
+ * ---------------------------------------------------------------------- */
+
+hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_state *guess,
+                        const hf_line_options *opt, hf_line_state *st)
+{
+    hf_line_options defaults;
+    if (!opt) {
+        hf_line_options_default(&defaults);
+        opt = &defaults;
+    }
+    memset(st, 0, sizeof *st);
+    st->message = "";
+    st->x = isfinite(X) ? X : 0.0;
+    st->z = isfinite(Z) ? Z : 0.0;
+    if (hf_line_check(line, NULL) != HF_OK)
+        return fail(st, HF_EINVAL, "invalid line data (check lengths, weights, EA, MBL)");
+    st->n = line->n;
+    if (!isfinite(X) || !isfinite(Z) || X < 0.0)
+        return fail(st, HF_EINVAL, "the span must be finite with X >= 0");
+    if (Z < 0.0)
+        return fail(st, HF_EINVAL, "the fairlead is below the seabed (Z < 0)");
+    double L = hf_line_length(line);
+    double scale = fmax(L, hypot(X, Z));
+    double tol = opt->rtol * scale;
+    hf_status rc = HF_OK;
+
+    /* H = 0 regimes first: could the line hang from the fairlead with at
+     * least X metres of it laid on the seabed?  Cheap bound first:
+     * laid length <= L - Z / (1 + max strain). */
+    double wabs = 0.0, eamin = INFINITY;
+    for (size_t k = 0; k < line->n; k++) {
+        wabs += line->sec[k].weight * line->sec[k].length + fabs(pload(line, k));
+        eamin = fmin(eamin, line->sec[k].ea);
+    }
+    if (Z > 0.0 && X <= L - Z / (1.0 + wabs / eamin) + tol) {
+        hang_t hg;
+        hang(line, Z, &hg);
+        if (hg.found && X <= hg.s_t + tol) {
+            rc = solve_slack(line, &hg, st);
+            goto done;
+        }
+    }
+    if (Z == 0.0 && X <= L + tol) {
+        hang_t hg = {.found = 1, .s_t = L, .foot = line->n - 1,
+                     .kvv = line->sec[line->n - 1].weight};
+        rc = solve_slack(line, &hg, st); /* fully laid and slack: zero tension */
+        goto done;
+    }
+    if (X == 0.0) {
+        rc = solve_vertical(line, Z, st);
+        goto done;
+    }
+    if (Z == 0.0) {
+        rc = solve_laid(line, X, tol, st);
+        goto done;
+    }
+
+    newton_t s = {.line = line, .X = X, .Z = Z, .tol = tol, .scale = scale};
+    double H0, V0;
+    if (guess && guess->status == HF_OK && guess->h > 0.0 && isfinite(guess->h) &&
+        isfinite(guess->v) && guess->n == line->n &&
+        (guess->regime == HF_LINE_SUSPENDED || guess->regime == HF_LINE_TOUCHDOWN)) {
+        H0 = guess->h;
+        V0 = guess->v;
+    } else {
+        peyrot(line, X, Z, &H0, &V0);
+    }
+    int it = 0;
+    hf_status ns = newton_set(&s, H0, V0);
+    if (ns != HF_OK) {
+        peyrot(line, X, Z, &H0, &V0);
+        ns = newton_set(&s, H0, V0);
+    }
+    while (ns == HF_OK && newton_test(&s) == HF_CONTINUE && it < opt->max_iter) {
+        ns = newton_iterate(&s);
+        it++;
+    }
+    if (ns != HF_OK || newton_test(&s) != HF_OK) {
+        /* Robust path, then Newton polishing to full accuracy. */
+        ns = fallback(&s);
+        for (int j = 0; ns == HF_OK && newton_test(&s) == HF_CONTINUE && j < 20; j++, it++)
+            if (newton_iterate(&s) != HF_OK)
+                break;
+        if (ns != HF_OK || newton_test(&s) != HF_OK) {
+            st->iterations = it;
+            st->evaluations = s.evals;
+            return fail(st, HF_ENOCONV, "the line solver did not converge");
+        }
+    }
+    st->iterations = it;
+    st->evaluations = s.evals;
+    const walk_t *w = &s.w;
+    if (w->buoy_down)
+        return fail(st, HF_EUNSUPPORTED, msg_buoy);
+    if (w->sag_min < -tol)
+        return fail(st, HF_EUNSUPPORTED, msg_sag);
+    st->regime = w->grounded ? HF_LINE_TOUCHDOWN : HF_LINE_SUSPENDED;
+    st->h = s.H;
+    st->v = s.V;
+    st->tension = hypot(s.H, s.V);
+    if (w->grounded) {
+        st->anchor_h = w->anchor_t;
+        st->anchor_v = 0.0;
+    } else {
+        st->anchor_h = s.H;
+        st->anchor_v = w->vb[0];
+    }
+    st->anchor_tension = hypot(st->anchor_h, st->anchor_v);
+    st->anchor_angle = atan2(st->anchor_v, st->anchor_h);
+    double gl = 0.0;
+    for (size_t k = 0; k < line->n; k++)
+        gl += w->gl[k];
+    st->grounded = gl;
+    if (w->grounded) {
+        /* Touchdown x: the stretched grounded length, i.e. the span minus the
+         * suspended part's horizontal extent. */
+        double xs = 0.0, zs = 0.0, Js[2][2] = {{0, 0}, {0, 0}};
+        for (size_t k = 0; k < line->n; k++) {
+            double susp = line->sec[k].length - w->gl[k];
+            if (susp <= 0.0)
+                continue;
+            if (w->gl[k] > 0.0)
+                touchdown_piece(s.H, line->sec[k].weight, line->sec[k].ea, w->vt[k], &xs, &zs,
+                                Js);
+            else
+                suspended(s.H, line->sec[k].weight, line->sec[k].length, line->sec[k].ea,
+                          w->vt[k], w->vb[k], &xs, &zs, Js);
+        }
+        st->touchdown_x = fmax(X - xs, 0.0);
+    }
+    sections_from_walk(line, w, s.H, st);
+    stiffness_from_flex(w->J, st);
+    st->residual = fmax(fabs(w->x - X), fabs(w->z - Z)) / scale;
+
+done:
+    if (rc != HF_OK)
+        return rc;
+    finish_sections(line, st);
+    st->status = HF_OK;
+    if (!st->message)
+        st->message = "";
+    return HF_OK;
+}
+
+/* ------------------------------------------------------------------------
+ * Profile.
+ * ---------------------------------------------------------------------- */
+
+typedef struct {
+    hf_line_point *pts;
+    size_t cap, count;
+} sink_t;
+
+static void emit(sink_t *k, double arc, double x, double z, double t)
+{
+    if (k->count < k->cap) {
+        hf_line_point *p = &k->pts[k->count];
+        p->arc = arc;
+        p->x = x;
+        p->z = z;
+        p->tension = t;
+    }
+    k->count++;
+}
+
+/* Number of equal steps no longer than `spacing` over `len`. */
+static size_t steps(double len, double spacing)
+{
+    double n = ceil(len / spacing - 1e-9);
+    if (!(n >= 1.0))
+        return 1;
+    if (n > 1e7)
+        return 10000000;
+    return (size_t)n;
+}
+
+size_t hf_line_profile(const hf_line *line, const hf_line_state *st, double spacing,
+                       hf_line_point *pts, size_t cap)
+{
+    if (!st || st->status != HF_OK || !(spacing > 0.0) || !isfinite(spacing))
+        return 0;
+    sink_t k = {pts, cap, 0};
+    size_t n = line->n;
+    double arc = 0.0, x = 0.0, z = 0.0;
+    if (st->regime == HF_LINE_SLACK) {
+        /* The laid part's true shape on the seabed is unknown (slack): it is
+         * drawn straight from the anchor to the point below the fairlead. */
+        double sx = st->grounded > 0.0 ? st->x / st->grounded : 0.0;
+        emit(&k, 0.0, 0.0, 0.0, 0.0);
+        for (size_t i = 0; i < n; i++) {
+            const hf_section *s = &line->sec[i];
+            const hf_section_result *r = &st->section[i];
+            size_t m = steps(s->length, spacing);
+            double gl = r->grounded;
+            for (size_t j = 1; j <= m; j++) {
+                double u = s->length * (double)j / (double)m;
+                double a = arc + u;
+                if (u <= gl) {
+                    emit(&k, a, a * sx, 0.0, 0.0);
+                } else {
+                    double h = u - gl, v0 = r->t_lower;
+                    double v = v0 + s->weight * h;
+                    double zz = z + h + (v0 + v) * h / (2.0 * s->ea);
+                    emit(&k, a, st->x, zz, v);
+                }
+            }
+            double h = s->length - gl;
+            if (h > 0.0)
+                z += h + (r->t_lower + r->t_upper) * h / (2.0 * s->ea);
+            arc += s->length;
+        }
+        return k.count;
+    }
+    walk_t w;
+    double H = st->h;
+    if (st->regime == HF_LINE_VERTICAL) {
+        emit(&k, 0.0, 0.0, 0.0, st->anchor_tension);
+        for (size_t i = 0; i < n; i++) {
+            const hf_section *s = &line->sec[i];
+            double vb = st->section[i].t_lower;
+            size_t m = steps(s->length, spacing);
+            for (size_t j = 1; j <= m; j++) {
+                double u = s->length * (double)j / (double)m;
+                double v = vb + s->weight * u;
+                emit(&k, arc + u, 0.0, z + u + (vb + v) * u / (2.0 * s->ea), v);
+            }
+            z += s->length + (vb + st->section[i].t_upper) * s->length / (2.0 * s->ea);
+            arc += s->length;
+        }
+        return k.count;
+    }
+    if (walk(line, H, st->v, &w) != HF_OK)
+        return 0;
+    emit(&k, 0.0, 0.0, 0.0, st->anchor_tension);
+    for (size_t i = 0; i < n; i++) {
+        const hf_section *s = &line->sec[i];
+        double gl = w.gl[i];
+        double r = s->friction * s->weight;
+        size_t m = steps(s->length, spacing);
+        /* Grounded piece: tension rises from tg_lo toward touchdown. */
+        double thi = w.tg_hi[i];
+        double xg0 = x;
+        for (size_t j = 1; j <= m; j++) {
+            double u = s->length * (double)j / (double)m;
+            if (u <= gl) {
+                /* T(u) = max(0, thi - r (gl - u)); stretch integrated from 0 */
+                double t = fmax(0.0, thi - r * (gl - u));
+                double u0 = r > 0.0 ? fmax(0.0, gl - thi / r) : 0.0; /* start of tension */
+                double st0 = 0.0;
+                if (u > u0) {
+                    double t0 = fmax(0.0, thi - r * (gl - u0));
+                    st0 = (t0 + t) * (u - u0) / (2.0 * s->ea);
+                }
+                emit(&k, arc + u, xg0 + u + st0, 0.0, t);
+            } else {
+                double xs = 0.0, zs = 0.0, Js[2][2] = {{0, 0}, {0, 0}};
+                double h = u - gl;
+                double vb = w.vb[i];
+                suspended(H, s->weight, h, s->ea, vb + s->weight * h, vb, &xs, &zs, Js);
+                double xbase = xg0, zbase = z;
+                if (gl > 0.0) {
+                    double u0 = r > 0.0 ? fmax(0.0, gl - thi / r) : 0.0;
+                    double t0 = fmax(0.0, thi - r * (gl - u0));
+                    xbase += gl + (t0 + thi) * (gl - u0) / (2.0 * s->ea);
+                }
+                emit(&k, arc + u, xbase + xs, zbase + zs, hypot(H, vb + s->weight * h));
+            }
+        }
+        /* advance to the section's upper end */
+        double xe = xg0, ze = z;
+        if (gl > 0.0) {
+            double u0 = r > 0.0 ? fmax(0.0, gl - thi / r) : 0.0;
+            double t0 = fmax(0.0, thi - r * (gl - u0));
+            xe += gl + (t0 + thi) * (gl - u0) / (2.0 * s->ea);
+        }
+        if (s->length - gl > 0.0) {
+            double Js[2][2] = {{0, 0}, {0, 0}};
+            suspended(H, s->weight, s->length - gl, s->ea, w.vt[i], w.vb[i], &xe, &ze, Js);
+        }
+        x = xe;
+        z = ze;
+        arc += s->length;
+    }
+    return k.count;
+}

@@ -1,0 +1,630 @@
+/* test_line.c - the single-line solver against outside references:
+ * classical catenary identities, a published worked example, the OC3 line,
+ * an independent ODE integration of the cable equations (GSL odeiv2),
+ * central differences, every regime, edge numbers and a randomised sweep. */
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <stdint.h>
+#include <math.h>
+#include <string.h>
+#include <cmocka.h>
+#include <gsl/gsl_errno.h>
+#include <gsl/gsl_odeiv2.h>
+#include "holdfast/line.h"
+
+#define RELERR(a, b) (fabs((a) - (b)) / fmax(fabs(b), 1e-300))
+
+static void no_nan(const hf_line_state *s)
+{
+    const double *v[] = {&s->x, &s->z, &s->h, &s->v, &s->tension, &s->anchor_h, &s->anchor_v,
+                         &s->anchor_tension, &s->anchor_angle, &s->touchdown_x, &s->grounded,
+                         &s->residual, &s->max_utilisation, &s->stiffness[0][0],
+                         &s->stiffness[0][1], &s->stiffness[1][0], &s->stiffness[1][1]};
+    for (size_t i = 0; i < sizeof v / sizeof v[0]; i++)
+        if (!isfinite(*v[i]))
+            fail_msg("output field %zu is not finite (%g)", i, *v[i]);
+    for (size_t k = 0; k < s->n; k++) {
+        const hf_section_result *r = &s->section[k];
+        if (!isfinite(r->t_lower) || !isfinite(r->t_upper) || !isfinite(r->t_max) ||
+            !isfinite(r->utilisation) || !isfinite(r->grounded))
+            fail_msg("section %zu result not finite", k);
+    }
+}
+
+static hf_line one(double L, double w, double ea, double mu)
+{
+    hf_line l;
+    memset(&l, 0, sizeof l);
+    l.n = 1;
+    l.sec[0] = (hf_section){L, w, ea, 5e6, mu};
+    return l;
+}
+
+/* Classical catenary z = a cosh(x/a), a = H/w (inextensible limit, EA huge).
+ * Identities (any statics text, e.g. Irvine, Cable Structures, 1981, ch. 1):
+ * T = w z measured from the directrix; s = a tan(theta) from the vertex. */
+static void test_catenary_identities(void **state)
+{
+    (void)state;
+    const double w = 1137.25, a = 413.7; /* N/m, m */
+    const double x1 = 57.3, x2 = 391.6;  /* abscissae of anchor and fairlead on the curve */
+    double L = a * (sinh(x2 / a) - sinh(x1 / a));
+    double X = x2 - x1, Z = a * (cosh(x2 / a) - cosh(x1 / a));
+    hf_line line = one(L, w, 1e22, 0.0);
+    hf_line_state s;
+    assert_int_equal(hf_line_solve(&line, X, Z, NULL, NULL, &s), HF_OK);
+    no_nan(&s);
+    assert_int_equal(s.regime, HF_LINE_SUSPENDED);
+    assert_true(RELERR(s.h, w * a) < 1e-9);
+    /* T at the fairlead = w * (height above the directrix) = w a cosh(x2/a) */
+    assert_true(RELERR(s.tension, w * a * cosh(x2 / a)) < 1e-9);
+    /* s = a tan(theta): arc from the vertex to the fairlead = a V/H */
+    double arc = L + a * sinh(x1 / a);
+    assert_true(RELERR(a * s.v / s.h, arc) < 1e-9);
+    /* anchor uplift: V_A = w a sinh(x1/a), angle atan(sinh(x1/a)) */
+    assert_true(RELERR(s.anchor_v, w * a * sinh(x1 / a)) < 1e-9);
+    assert_true(RELERR(s.anchor_angle, atan(sinh(x1 / a))) < 1e-9);
+}
+
+/* Same identities with the vertex on the seabed and 211.4 m laid (mu = 0). */
+static void test_catenary_touchdown(void **state)
+{
+    (void)state;
+    const double w = 842.6, a = 918.3, x2 = 377.9, laid = 211.4;
+    double sus = a * sinh(x2 / a);
+    hf_line line = one(laid + sus, w, 1e22, 0.0);
+    hf_line_state s;
+    assert_int_equal(hf_line_solve(&line, laid + x2, a * (cosh(x2 / a) - 1.0), NULL, NULL, &s),
+                     HF_OK);
+    no_nan(&s);
+    assert_int_equal(s.regime, HF_LINE_TOUCHDOWN);
+    assert_true(RELERR(s.h, w * a) < 1e-9);
+    assert_true(RELERR(s.tension, w * a * cosh(x2 / a)) < 1e-9);
+    assert_true(RELERR(s.grounded, laid) < 1e-9);
+    assert_true(RELERR(s.touchdown_x, laid) < 1e-9);
+    assert_true(RELERR(s.anchor_tension, w * a) < 1e-9); /* no friction: H reaches the anchor */
+}
+
+/* MIT OpenCourseWare 2.019 Design of Ocean Systems (2011), mooring worked
+ * example: inextensible line, max tension 1510 kN, wet weight 828 N/m,
+ * depth 25 m: minimum suspended length 300.93 m (H = 1489.3 kN derived). */
+static void test_worked_example(void **state)
+{
+    (void)state;
+    const double w = 828.0, T = 1510e3, d = 25.0;
+    double a = T / w - d;                     /* T = w (a + d), directrix identity */
+    double sus = sqrt(d * d + 2.0 * a * d);   /* suspended length */
+    double L = 600.0;
+    double X = (L - sus) + a * asinh(sus / a);
+    hf_line line = one(L, w, 1e22, 0.0);
+    hf_line_state s;
+    assert_int_equal(hf_line_solve(&line, X, d, NULL, NULL, &s), HF_OK);
+    assert_true(fabs(s.tension - 1510e3) < 1.0);          /* N */
+    assert_true(fabs((L - s.grounded) - 300.93) < 0.005); /* published, 2 decimals */
+    assert_true(fabs(s.h - 1489.3e3) < 50.0);             /* derived, 5 significant digits */
+}
+
+/* OC3 mooring line (Jonkman 2010, NREL/TP-500-47535): depth 320 m, fairlead
+ * 70 m below SWL at radius 5.2 m, anchor radius 853.87 m, L 902.2 m,
+ * w 698.094 N/m, EA 384,243,000 N.  The three lines together carry a
+ * vertical mooring load of 1,607 kN at rest (value recalled from memory,
+ * see REFERENCE.md section 2); forward check to 0.5 %. */
+static void test_oc3_line(void **state)
+{
+    (void)state;
+    hf_line line = one(902.2, 698.094, 384243000.0, 0.0);
+    hf_line_state s;
+    assert_int_equal(hf_line_solve(&line, 853.87 - 5.2, 320.0 - 70.0, NULL, NULL, &s), HF_OK);
+    no_nan(&s);
+    assert_int_equal(s.regime, HF_LINE_TOUCHDOWN);
+    assert_true(RELERR(3.0 * s.v, 1607e3) < 0.005);
+    /* friction only changes the grounded stretch, not the vertical load */
+    hf_line line_mu = one(902.2, 698.094, 384243000.0, 1.0);
+    hf_line_state s2;
+    assert_int_equal(hf_line_solve(&line_mu, 853.87 - 5.2, 250.0, NULL, NULL, &s2), HF_OK);
+    assert_true(RELERR(3.0 * s2.v, 1607e3) < 0.005);
+    assert_true(s2.anchor_tension < s2.h);
+}
+
+/* --- independent model: integrate the cable's equilibrium equations ------ */
+
+typedef struct {
+    double w, ea;
+} ode_par;
+
+/* State (x, z, V) against unstretched arc s measured DOWN from the top of a
+ * section; H constant.  dx/ds = -(H/T)(1 + T/EA), dz/ds = -(V/T)(1 + T/EA),
+ * dV/ds = -w  (equilibrium of an element, Irvine 1981, eq. 2.1-2.3). */
+static int cable_rhs(double s, const double y[], double f[], void *p)
+{
+    (void)s;
+    const ode_par *q = p;
+    double H = y[3], V = y[2];
+    double T = hypot(H, V);
+    f[0] = -(H / T) * (1.0 + T / q->ea);
+    f[1] = -(V / T) * (1.0 + T / q->ea);
+    f[2] = -q->w;
+    f[3] = 0.0;
+    return GSL_SUCCESS;
+}
+
+/* Grounded: state (x, T); dx/ds = -(1 + T/EA), dT/ds = -mu w while T > 0. */
+static int ground_rhs(double s, const double y[], double f[], void *p)
+{
+    (void)s;
+    const double *q = p; /* mu w, EA */
+    double T = fmax(y[1], 0.0);
+    f[0] = -(1.0 + T / q[1]);
+    f[1] = -q[0]; /* integrated only while T > 0 */
+    return GSL_SUCCESS;
+}
+
+static void integrate(gsl_odeiv2_system *sys, double *y, double len)
+{
+    gsl_odeiv2_driver *d =
+        gsl_odeiv2_driver_alloc_y_new(sys, gsl_odeiv2_step_rk8pd, len * 1e-3, 1e-13, 1e-13);
+    double s = 0.0;
+    int rc = gsl_odeiv2_driver_apply(d, &s, len, y);
+    if (rc != GSL_SUCCESS)
+        fail_msg("ODE integration failed (%d) at s = %g of %g, y = %g %g", rc, s, len, y[0], y[1]);
+    gsl_odeiv2_driver_free(d);
+}
+
+/* Walks down from the fairlead with the solver's H and V and checks that the
+ * anchor is reached within 1e-6 of the span. */
+static void check_by_ode(const hf_line *line, const hf_line_state *st)
+{
+    if (st->regime != HF_LINE_SUSPENDED && st->regime != HF_LINE_TOUCHDOWN)
+        fail_msg("check_by_ode needs a suspended or touchdown line, got %s",
+                 hf_line_regime_name(st->regime));
+    double x = st->x, z = st->z, V = st->v, H = st->h, T = H;
+    int grounded = 0;
+    for (size_t k = line->n; k-- > 0;) {
+        const hf_section *sec = &line->sec[k];
+        double len = sec->length;
+        if (!grounded) {
+            double sus = len;
+            if (V - sec->weight * len < 0.0 && st->regime == HF_LINE_TOUCHDOWN) {
+                sus = V / sec->weight; /* V reaches zero: touchdown */
+                grounded = 1;
+            }
+            ode_par p = {sec->weight, sec->ea};
+            gsl_odeiv2_system sys = {cable_rhs, NULL, 4, &p};
+            double y[4] = {x, z, V, H};
+            if (sus > 0.0)
+                integrate(&sys, y, sus);
+            x = y[0];
+            z = y[1];
+            V = y[2];
+            len -= sus;
+            if (grounded) {
+                /* touchdown must lie on the seabed */
+                assert_true(fabs(z) < 1e-6 * fmax(st->x, st->z) + 1e-9);
+                T = H;
+            }
+        }
+        if (grounded && len > 0.0) {
+            double q[2] = {sec->friction * sec->weight, sec->ea};
+            gsl_odeiv2_system sys = {ground_rhs, NULL, 2, q};
+            double y[2] = {x, T};
+            /* integrate up to the event T = 0 (the RHS has a kink there) */
+            double l1 = q[0] > 0.0 ? fmin(len, T / q[0]) : len;
+            if (l1 > 0.0)
+                integrate(&sys, y, l1);
+            x = y[0] - (len - l1);
+            T = l1 < len ? 0.0 : fmax(y[1], 0.0);
+        }
+        if (k > 0) {
+            double P = line->joint[k - 1].load;
+            if (!grounded) {
+                if (V - P <= 0.0 && st->regime == HF_LINE_TOUCHDOWN) {
+                    grounded = 1; /* touchdown at the clump, seabed carries P - V */
+                    T = fmax(H - line->joint[k - 1].friction * (P - V), 0.0);
+                    assert_true(fabs(z) < 1e-6 * fmax(st->x, st->z) + 1e-9);
+                } else {
+                    V -= P;
+                }
+            } else {
+                T = fmax(T - line->joint[k - 1].friction * P, 0.0);
+            }
+        }
+    }
+    double span = hypot(st->x, st->z);
+    if (fabs(x) > 1e-6 * span || fabs(z) > 1e-6 * span)
+        fail_msg("ODE walk ends %.3e, %.3e m from the anchor (span %.1f m)", x, z, span);
+    if (st->regime == HF_LINE_TOUCHDOWN)
+        assert_true(fabs(T - st->anchor_tension) <= 1e-6 * st->tension + 1e-6);
+    else
+        assert_true(fabs(V - st->anchor_v) <= 1e-6 * st->tension);
+}
+
+static hf_line three_with_clump(double mu)
+{
+    hf_line l;
+    memset(&l, 0, sizeof l);
+    l.n = 3;
+    l.sec[0] = (hf_section){312.5, 1136.0, 5.46e8, 6.1e6, mu};  /* chain */
+    l.sec[1] = (hf_section){438.2, 165.3, 3.71e8, 5.3e6, 0.6};  /* wire */
+    l.sec[2] = (hf_section){41.7, 1136.0, 5.46e8, 6.1e6, mu};   /* chain */
+    l.joint[0] = (hf_joint){78.4e3, 1.0};                       /* clump */
+    return l;
+}
+
+static void test_ode_single(void **state)
+{
+    (void)state;
+    hf_line line = one(902.2, 698.094, 384243000.0, 0.73);
+    hf_line_state s;
+    assert_int_equal(hf_line_solve(&line, 848.67, 250.0, NULL, NULL, &s), HF_OK);
+    check_by_ode(&line, &s);
+    /* fully suspended with uplift */
+    assert_int_equal(hf_line_solve(&line, 870.3, 230.0, NULL, NULL, &s), HF_OK);
+    assert_int_equal(s.regime, HF_LINE_SUSPENDED);
+    assert_true(s.anchor_v > 0.0);
+    check_by_ode(&line, &s);
+}
+
+static void test_ode_multi(void **state)
+{
+    (void)state;
+    hf_line line = three_with_clump(0.85);
+    hf_line_state s;
+    double Xs[] = {716.0, 737.0, 760.0, 781.0};
+    for (size_t i = 0; i < 4; i++) {
+        assert_int_equal(hf_line_solve(&line, Xs[i], 96.5, NULL, NULL, &s), HF_OK);
+        no_nan(&s);
+        check_by_ode(&line, &s);
+    }
+}
+
+/* Touchdown exactly at the clump: choose X so that the line above the clump
+ * carries less than the clump weight at the joint. */
+static void test_touchdown_at_clump(void **state)
+{
+    (void)state;
+    hf_line line = three_with_clump(0.85);
+    line.joint[0].load = 400e3; /* a heavy clump holds the touchdown */
+    hf_line_state s;
+    int seen = 0;
+    for (double X = 705.0; X <= 790.0; X += 2.5) {
+        assert_int_equal(hf_line_solve(&line, X, 96.5, NULL, NULL, &s), HF_OK);
+        no_nan(&s);
+        check_by_ode(&line, &s);
+        if (s.regime == HF_LINE_TOUCHDOWN && fabs(s.grounded - 312.5) < 1e-9)
+            seen++;
+    }
+    assert_true(seen > 0);
+}
+
+/* Friction can take all of the tension before the anchor. */
+static void test_friction_takes_all(void **state)
+{
+    (void)state;
+    hf_line line = one(1400.0, 1450.0, 7.8e8, 1.0);
+    hf_line_state s;
+    assert_int_equal(hf_line_solve(&line, 1327.0, 80.0, NULL, NULL, &s), HF_OK);
+    no_nan(&s);
+    assert_int_equal(s.regime, HF_LINE_TOUCHDOWN);
+    assert_true(s.h < 1.0 * 1450.0 * s.grounded);
+    assert_true(s.anchor_tension == 0.0);
+    check_by_ode(&line, &s);
+}
+
+/* Slack: more line than the span needs.  H = 0 and the hanging part is
+ * vertical: V = w * hanging length with Z = l + w l^2/(2 EA). */
+static void test_slack(void **state)
+{
+    (void)state;
+    const double w = 1370.0, ea = 6.3e8, Z = 37.4;
+    hf_line line = one(500.0, w, ea, 1.0);
+    hf_line_state s;
+    assert_int_equal(hf_line_solve(&line, 300.0, Z, NULL, NULL, &s), HF_OK);
+    no_nan(&s);
+    assert_int_equal(s.regime, HF_LINE_SLACK);
+    assert_true(s.h == 0.0);
+    double l = 2.0 * Z / (1.0 + sqrt(1.0 + 2.0 * w * Z / ea)); /* root of w l^2/(2EA) + l - Z */
+    assert_true(RELERR(s.v, w * l) < 1e-12);
+    assert_true(RELERR(s.grounded, 500.0 - l) < 1e-12);
+    assert_true(RELERR(s.stiffness[1][1], w / (1.0 + w * l / ea)) < 1e-12);
+    assert_string_equal(hf_line_regime_name(s.regime), "slack");
+    hf_line_point pts[64];
+    size_t np = hf_line_profile(&line, &s, 25.0, pts, 64);
+    assert_true(np > 2 && np <= 64);
+    assert_true(fabs(pts[np - 1].z - Z) < 1e-9);
+    assert_true(fabs(pts[np - 1].x - 300.0) < 1e-9);
+}
+
+/* X = 0: slack vertical (line longer than Z) and taut vertical. */
+static void test_vertical(void **state)
+{
+    (void)state;
+    hf_line line = one(60.0, 512.0, 2.2e7, 1.0);
+    hf_line_state s;
+    assert_int_equal(hf_line_solve(&line, 0.0, 45.0, NULL, NULL, &s), HF_OK);
+    assert_int_equal(s.regime, HF_LINE_SLACK);
+    no_nan(&s);
+    /* taut: Z above the unstretched length; Hooke: Z = L + L (VF + VA)/(2 EA) */
+    assert_int_equal(hf_line_solve(&line, 0.0, 60.35, NULL, NULL, &s), HF_OK);
+    assert_int_equal(s.regime, HF_LINE_VERTICAL);
+    no_nan(&s);
+    double va = (0.35 * 2.0 * 2.2e7 / 60.0 - 512.0 * 60.0) / 2.0;
+    assert_true(RELERR(s.anchor_v, va) < 1e-10);
+    assert_true(RELERR(s.v, va + 512.0 * 60.0) < 1e-10);
+    assert_true(s.stiffness[0][0] > 0.0);
+    assert_true(fabs(s.anchor_angle - M_PI / 2) < 1e-15);
+}
+
+/* Taut, strongly stretched fibre-like line with X^2 + Z^2 > L^2.  Straight
+ * weightless limit: T = EA (chord/L - 1). */
+static void test_taut_stretched(void **state)
+{
+    (void)state;
+    hf_line line = one(1000.0, 2.1, 1.2e7, 0.6); /* light, soft */
+    hf_line_state s;
+    double X = 1040.0, Z = 300.0;
+    assert_int_equal(hf_line_solve(&line, X, Z, NULL, NULL, &s), HF_OK);
+    no_nan(&s);
+    assert_int_equal(s.regime, HF_LINE_SUSPENDED);
+    double chord = hypot(X, Z), Tstraight = 1.2e7 * (chord / 1000.0 - 1.0);
+    assert_true(RELERR(s.tension, Tstraight) < 0.01); /* weight 2.1 kN over 1 km: ~1 % sag */
+    assert_true(s.residual <= 1e-9);
+}
+
+/* Fully laid on a flat seabed (Z = 0), stretched beyond L, no friction:
+ * H = EA (X/L - 1). */
+static void test_laid(void **state)
+{
+    (void)state;
+    hf_line line = one(200.0, 900.0, 4.0e8, 0.0);
+    hf_line_state s;
+    assert_int_equal(hf_line_solve(&line, 200.4, 0.0, NULL, NULL, &s), HF_OK);
+    assert_int_equal(s.regime, HF_LINE_LAID);
+    assert_true(RELERR(s.h, 4.0e8 * (0.4 / 200.0)) < 1e-9);
+    no_nan(&s);
+    assert_int_equal(hf_line_solve(&line, 150.0, 0.0, NULL, NULL, &s), HF_OK);
+    assert_int_equal(s.regime, HF_LINE_SLACK);
+    assert_true(s.h == 0.0 && s.v == 0.0);
+}
+
+/* A buoy on the laid part would lift it: reported, never a number. */
+static void test_buoy_unsupported(void **state)
+{
+    (void)state;
+    hf_line line = three_with_clump(1.0);
+    line.joint[0] = (hf_joint){-60e3, 0.5}; /* net lift */
+    hf_line_state s;
+    hf_status st = hf_line_solve(&line, 640.0, 96.5, NULL, NULL, &s);
+    assert_int_equal(st, HF_EUNSUPPORTED);
+    assert_int_equal(s.status, HF_EUNSUPPORTED);
+    assert_non_null(strstr(s.message, "buoy"));
+    assert_true(s.h == 0.0 && s.tension == 0.0);
+    /* lifted clear of the seabed the same buoy is fine */
+    st = hf_line_solve(&line, 785.0, 96.5, NULL, NULL, &s);
+    assert_int_equal(st, HF_OK);
+    check_by_ode(&line, &s);
+}
+
+static void test_bad_input(void **state)
+{
+    (void)state;
+    hf_line line = one(100.0, 500.0, 1e8, 1.0);
+    hf_line_state s;
+    double bad[] = {NAN, INFINITY, -INFINITY, -1.0, HUGE_VAL};
+    for (size_t i = 0; i < 5; i++) {
+        assert_int_equal(hf_line_solve(&line, bad[i], 10.0, NULL, NULL, &s), HF_EINVAL);
+        no_nan(&s);
+    }
+    assert_int_equal(hf_line_solve(&line, 50.0, -0.1, NULL, NULL, &s), HF_EINVAL);
+    assert_int_equal(hf_line_solve(&line, 50.0, NAN, NULL, NULL, &s), HF_EINVAL);
+    hf_line b = line;
+    b.sec[0].length = 0.0;
+    assert_int_equal(hf_line_solve(&b, 50.0, 10.0, NULL, NULL, &s), HF_EINVAL);
+    b = line;
+    b.sec[0].ea = strtod("1e309", NULL);
+    assert_int_equal(hf_line_solve(&b, 50.0, 10.0, NULL, NULL, &s), HF_EINVAL);
+    b = line;
+    b.sec[0].weight = -2.0;
+    assert_int_equal(hf_line_check(&b, NULL), HF_EINVAL);
+    b = line;
+    b.sec[0].friction = NAN;
+    assert_int_equal(hf_line_check(&b, NULL), HF_EINVAL);
+    b = line;
+    b.n = 0;
+    assert_int_equal(hf_line_check(&b, NULL), HF_EINVAL);
+    b.n = HF_LINE_MAX_SECTIONS + 1;
+    hf_error e;
+    assert_int_equal(hf_line_check(&b, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "sections"));
+    double x, z, J[2][2];
+    assert_int_equal(hf_line_span(&line, 0.0, 10.0, &x, &z, J), HF_EINVAL);
+    assert_int_equal(hf_line_span(&line, NAN, 10.0, &x, &z, J), HF_EINVAL);
+    /* subnormal span and weight still give finite answers */
+    assert_int_equal(hf_line_solve(&line, 4.9e-324, 10.0, NULL, NULL, &s), HF_OK);
+    no_nan(&s);
+}
+
+/* The analytic flexibility against central differences of the span map. */
+static void test_jacobian(void **state)
+{
+    (void)state;
+    hf_line lines[2] = {one(902.2, 698.094, 384243000.0, 0.7), three_with_clump(0.85)};
+    double hv[][2] = {{7.3e5, 5.1e5}, {1.21e6, 9.9e5}, {2.4e5, 1.3e5}, {6.6e5, 7.9e5}};
+    for (int li = 0; li < 2; li++)
+        for (int i = 0; i < 4; i++) {
+            double H = hv[i][0], V = hv[i][1], x, z, J[2][2];
+            assert_int_equal(hf_line_span(&lines[li], H, V, &x, &z, J), HF_OK);
+            double dh = 1e-6 * H, dv = 1e-6 * V, xp, zp, xm, zm, Jd[2][2];
+            hf_line_span(&lines[li], H + dh, V, &xp, &zp, Jd);
+            hf_line_span(&lines[li], H - dh, V, &xm, &zm, Jd);
+            double fd[2][2];
+            fd[0][0] = (xp - xm) / (2 * dh);
+            fd[1][0] = (zp - zm) / (2 * dh);
+            hf_line_span(&lines[li], H, V + dv, &xp, &zp, Jd);
+            hf_line_span(&lines[li], H, V - dv, &xm, &zm, Jd);
+            fd[0][1] = (xp - xm) / (2 * dv);
+            fd[1][1] = (zp - zm) / (2 * dv);
+            double norm = fmax(fabs(J[0][0]), fabs(J[1][1]));
+            for (int r = 0; r < 2; r++)
+                for (int c = 0; c < 2; c++)
+                    if (fabs(J[r][c] - fd[r][c]) > 1e-6 * norm)
+                        fail_msg("line %d point %d J[%d][%d] = %.9e, differences %.9e", li, i,
+                                 r, c, J[r][c], fd[r][c]);
+        }
+}
+
+/* The solved stiffness against differences of full solves. */
+static void test_stiffness(void **state)
+{
+    (void)state;
+    hf_line line = three_with_clump(0.85);
+    double X = 731.4, Z = 96.5, d = 1e-3;
+    hf_line_state s, p, m;
+    assert_int_equal(hf_line_solve(&line, X, Z, NULL, NULL, &s), HF_OK);
+    assert_int_equal(hf_line_solve(&line, X + d, Z, &s, NULL, &p), HF_OK);
+    assert_int_equal(hf_line_solve(&line, X - d, Z, &s, NULL, &m), HF_OK);
+    double kHX = (p.h - m.h) / (2 * d), kVX = (p.v - m.v) / (2 * d);
+    assert_true(RELERR(s.stiffness[0][0], kHX) < 1e-5);
+    assert_true(RELERR(s.stiffness[1][0], kVX) < 1e-5);
+    assert_int_equal(hf_line_solve(&line, X, Z + d, &s, NULL, &p), HF_OK);
+    assert_int_equal(hf_line_solve(&line, X, Z - d, &s, NULL, &m), HF_OK);
+    assert_true(RELERR(s.stiffness[0][1], (p.h - m.h) / (2 * d)) < 1e-5);
+    assert_true(RELERR(s.stiffness[1][1], (p.v - m.v) / (2 * d)) < 1e-5);
+}
+
+static void test_warm_start(void **state)
+{
+    (void)state;
+    hf_line line = three_with_clump(0.85);
+    hf_line_state cold, warm;
+    assert_int_equal(hf_line_solve(&line, 731.4, 96.5, NULL, NULL, &cold), HF_OK);
+    assert_int_equal(hf_line_solve(&line, 731.9, 96.5, &cold, NULL, &warm), HF_OK);
+    assert_true(warm.iterations <= 3);
+    assert_true(warm.iterations < cold.iterations);
+}
+
+static void test_profile(void **state)
+{
+    (void)state;
+    hf_line line = three_with_clump(0.85);
+    hf_line_state s;
+    assert_int_equal(hf_line_solve(&line, 731.4, 96.5, NULL, NULL, &s), HF_OK);
+    size_t n = hf_line_profile(&line, &s, 10.0, NULL, 0);
+    assert_true(n > 70);
+    hf_line_point pts[200];
+    assert_true(n <= 200);
+    assert_int_equal(hf_line_profile(&line, &s, 10.0, pts, 200), n);
+    assert_true(fabs(pts[0].x) < 1e-12 && fabs(pts[0].z) < 1e-12);
+    assert_true(fabs(pts[n - 1].x - 731.4) < 1e-6);
+    assert_true(fabs(pts[n - 1].z - 96.5) < 1e-6);
+    assert_true(fabs(pts[n - 1].tension - s.tension) < 1e-6 * s.tension);
+    for (size_t i = 1; i < n; i++) {
+        assert_true(pts[i].arc > pts[i - 1].arc);
+        assert_true(pts[i].x >= pts[i - 1].x - 1e-9);
+        assert_true(pts[i].arc - pts[i - 1].arc <= 10.0 + 1e-9);
+    }
+    assert_int_equal(hf_line_profile(&line, &s, 0.0, pts, 200), 0);
+    assert_int_equal(hf_line_profile(&line, &s, NAN, pts, 200), 0);
+}
+
+/* Deterministic generator (xorshift64*), so failures reproduce. */
+static uint64_t rng = 0x9E3779B97F4A7C15ull;
+static double urand(void)
+{
+    rng ^= rng >> 12;
+    rng ^= rng << 25;
+    rng ^= rng >> 27;
+    return (double)((rng * 2685821657736338717ull) >> 11) * 0x1.0p-53;
+}
+static double lrand(double lo, double hi)
+{
+    return lo * pow(hi / lo, urand());
+}
+
+/* 10,000 random physically valid lines: 100 % convergence, residual within
+ * 1e-9, no NaN, and the solution reproduces the span through the forward map. */
+static void test_random(void **state)
+{
+    (void)state;
+    int ok = 0, total = 10000;
+    double worst = 0.0;
+    int regimes[5] = {0};
+    long evals = 0;
+    int max_evals = 0;
+    for (int c = 0; c < total; c++) {
+        hf_line line;
+        memset(&line, 0, sizeof line);
+        line.n = 1 + (size_t)(urand() * 4.0);
+        double L = 0.0, W = 0.0;
+        for (size_t k = 0; k < line.n; k++) {
+            hf_section *s = &line.sec[k];
+            s->length = lrand(5.0, 800.0);
+            s->weight = lrand(20.0, 3000.0);
+            s->ea = lrand(1e6, 2e10);
+            s->mbl = lrand(1e5, 2e7);
+            s->friction = urand() * 1.2;
+            L += s->length;
+            W += s->weight * s->length;
+            if (k + 1 < line.n && urand() < 0.4) {
+                line.joint[k].load = lrand(1e3, 2e5);
+                line.joint[k].friction = urand();
+                W += line.joint[k].load;
+            }
+        }
+        double Z = urand() * 0.9 * L;
+        /* a third of the spans anywhere (many slack), the rest near taut */
+        double chord = sqrt(fmax(L * L - Z * Z, 0.0));
+        double X = c % 3 == 0 ? urand() * 1.05 * chord : (0.8 + 0.25 * urand()) * chord;
+        hf_line_state s;
+        hf_status st = hf_line_solve(&line, X, Z, NULL, NULL, &s);
+        if (st != HF_OK) {
+            fail_msg("case %d: n=%zu X=%.17g Z=%.17g status %s: %s", c, line.n, X, Z,
+                     hf_status_str(st), s.message);
+        }
+        no_nan(&s);
+        regimes[s.regime]++;
+        evals += s.evaluations;
+        max_evals = s.evaluations > max_evals ? s.evaluations : max_evals;
+        worst = fmax(worst, s.residual);
+        if (s.regime == HF_LINE_SUSPENDED || s.regime == HF_LINE_TOUCHDOWN) {
+            double x, z, J[2][2];
+            assert_int_equal(hf_line_span(&line, s.h, s.v, &x, &z, J), HF_OK);
+            double scale = fmax(L, hypot(X, Z));
+            if (fabs(x - X) > 1e-9 * scale || fabs(z - Z) > 1e-9 * scale)
+                fail_msg("case %d: forward map misses by %.3e, %.3e", c, x - X, z - Z);
+        }
+        ok++;
+    }
+    print_message("random lines: %d/%d converged, largest residual %.3e; regimes susp %d "
+                  "touchdown %d slack %d vertical %d laid %d; evaluations mean %.1f max %d\n",
+                  ok, total, worst, regimes[0], regimes[1], regimes[2], regimes[3], regimes[4],
+                  (double)evals / total, max_evals);
+    assert_int_equal(ok, total);
+    assert_true(worst <= 1e-9);
+}
+
+int main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_catenary_identities),
+        cmocka_unit_test(test_catenary_touchdown),
+        cmocka_unit_test(test_worked_example),
+        cmocka_unit_test(test_oc3_line),
+        cmocka_unit_test(test_ode_single),
+        cmocka_unit_test(test_ode_multi),
+        cmocka_unit_test(test_touchdown_at_clump),
+        cmocka_unit_test(test_friction_takes_all),
+        cmocka_unit_test(test_slack),
+        cmocka_unit_test(test_vertical),
+        cmocka_unit_test(test_taut_stretched),
+        cmocka_unit_test(test_laid),
+        cmocka_unit_test(test_buoy_unsupported),
+        cmocka_unit_test(test_bad_input),
+        cmocka_unit_test(test_jacobian),
+        cmocka_unit_test(test_stiffness),
+        cmocka_unit_test(test_warm_start),
+        cmocka_unit_test(test_profile),
+        cmocka_unit_test(test_random),
+    };
+    return cmocka_run_group_tests_name("line", tests, NULL, NULL);
+}
