@@ -857,6 +857,7 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
     double scale = fmax(L, hypot(X, Z));
     double tol = opt->rtol * scale;
     hf_status rc = HF_OK;
+    int slack_buoy = 0;
 
     /* H = 0 regimes first: could the line hang from the fairlead with at
      * least X metres of it laid on the seabed?  Cheap bound first:
@@ -870,8 +871,11 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
         hang_t hg;
         hang(line, Z, &hg);
         if (hg.found && X <= hg.s_t + tol) {
-            rc = solve_slack(line, &hg, st);
-            goto done;
+            if (!hg.bad) {
+                rc = solve_slack(line, &hg, st);
+                goto done;
+            }
+            slack_buoy = 1; /* no valid H = 0 column: look for a lifted (H > 0) shape */
         }
     }
     if (Z == 0.0 && X <= L + tol) {
@@ -918,6 +922,8 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
         if (ns != HF_OK || newton_test(&s) != HF_OK) {
             st->iterations = it;
             st->evaluations = s.evals;
+            if (slack_buoy)
+                return fail(st, HF_EUNSUPPORTED, msg_slack_buoy);
             return fail(st, HF_ENOCONV, "the line solver did not converge");
         }
     }
@@ -925,9 +931,9 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
     st->evaluations = s.evals;
     const walk_t *w = &s.w;
     if (w->buoy_down)
-        return fail(st, HF_EUNSUPPORTED, msg_buoy);
+        return fail(st, HF_EUNSUPPORTED, slack_buoy ? msg_slack_buoy : msg_buoy);
     if (w->sag_min < -tol)
-        return fail(st, HF_EUNSUPPORTED, msg_sag);
+        return fail(st, HF_EUNSUPPORTED, slack_buoy ? msg_slack_buoy : msg_sag);
     st->regime = w->grounded ? HF_LINE_TOUCHDOWN : HF_LINE_SUSPENDED;
     st->h = s.H;
     st->v = s.V;
