@@ -71,4 +71,33 @@ void hf_component_give(hf_component *c, hf_component_prop p, double v);
  * (friction >= 0). */
 hf_status hf_component_resolve(hf_component *c, double rho, hf_error *err);
 
+/* Notes on hf_component_resolve (details in docs/components.md):
+ * - It may be called again after the spec changed (sweeps): every value not
+ *   given is derived afresh.  Given values are checked (finite, > 0;
+ *   friction >= 0) and never changed.
+ * - Chain types need a grade; other types must have HF_GRADE_NONE.
+ * - A diameter outside the type's range (hf_component_diameter_range) is an
+ *   error; diameter 0 means "not given" and is an error only when a value
+ *   needs it.
+ * - When only one of mass and wet weight is given, the other is derived
+ *   from it through the material density; custom components derive nothing
+ *   (they need wet_weight, axial_stiffness, breaking_load; a missing mass
+ *   stays 0, source "not given (informational only)").
+ * - `approximate` is set when any value in use comes from an approximate
+ *   formula (wire and fibre catalogue values, studlink EA, the stiffness of
+ *   ship-grade studless chain); entering those values clears it. */
+
+/* The accepted names as one line for messages and help, e.g.
+ * "studless_chain, studlink_chain, ..."; static text, never NULL. */
+const char *hf_component_type_list(void);
+const char *hf_component_grade_list(void);
+
+/* True for the two chain types (the only ones that take a grade). */
+bool hf_component_is_chain(hf_component_type t);
+
+/* Accepted nominal diameter range of type t in m (*lo = *hi = 0 for custom,
+ * whose diameter is informational and only has to be > 0).  Returns
+ * HF_EINVAL for an unknown type. */
+hf_status hf_component_diameter_range(hf_component_type t, double *lo, double *hi);
+
 #endif

@@ -39,4 +39,11 @@ const char *hf_dim_si(hf_dim d);
  * `expected a length, got "3 kN" (a force)` in err. */
 hf_status hf_units_parse(const char *text, hf_dim want, double *out, hf_error *err);
 
+/* The accepted unit spellings of dimension d as a comma-separated list for
+ * messages and help ("mm, cm, m, km, in, ft, nmi"); "" for HF_DIM_NONE and
+ * unknown d.  Static text, never NULL.  Products may be written with a
+ * space, '*' or a middle dot ("kN m", "kN*m"; also "kNm"), powers as "m^3",
+ * "m3" or with a superscript digit.  docs/components.md lists them all. */
+const char *hf_units_list(hf_dim d);
+
 #endif
