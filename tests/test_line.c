@@ -343,6 +343,57 @@ static void test_slack(void **state)
     assert_true(fabs(pts[np - 1].x - 300.0) < 1e-9);
 }
 
+/* Height of the hanging column from the reported section tensions (Hooke's
+ * law on each hanging piece, linear tension along it). */
+static double column_height(const hf_line *line, const hf_line_state *s)
+{
+    double z = 0.0;
+    for (size_t k = 0; k < line->n; k++) {
+        double h = line->sec[k].length - s->section[k].grounded;
+        z += h * (1.0 + (s->section[k].t_lower + s->section[k].t_upper) / (2.0 * line->sec[k].ea));
+        /* tension grows by the weight of the hanging piece */
+        assert_true(fabs(s->section[k].t_upper - s->section[k].t_lower - line->sec[k].weight * h) <=
+                    1e-9 * fmax(s->v, 1.0));
+    }
+    return z;
+}
+
+/* Slack multi-section line with clumps: the foot inside a section, and the
+ * foot exactly at a clump that the seabed partly carries. */
+static void test_slack_clumps(void **state)
+{
+    (void)state;
+    hf_line line = three_with_clump(0.85);
+    line.sec[1].ea = 2.0e6; /* soft: the clump's share visibly stretches the column */
+    hf_line_state s;
+    double Zs[] = {20.0, 41.7, 41.7 + 0.4 * 438.2, 300.0};
+    for (size_t i = 0; i < 4; i++) {
+        assert_int_equal(hf_line_solve(&line, 50.0, Zs[i], NULL, NULL, &s), HF_OK);
+        assert_int_equal(s.regime, HF_LINE_SLACK);
+        no_nan(&s);
+        assert_true(fabs(column_height(&line, &s) - Zs[i]) < 1e-9 * Zs[i]);
+    }
+    /* foot at the clump: heights between "clump hanging" and "clump resting" */
+    double lo = 0.0, hi = 0.0;
+    {
+        /* column above the clump with no clump load, and with all of it */
+        double v = 0.0;
+        for (size_t k = 1; k < 3; k++) {
+            double L = line.sec[k].length, w = line.sec[k].weight, ea = line.sec[k].ea;
+            lo += L + (2 * v + w * L) * L / (2 * ea);
+            hi += L + (2 * (v + 78.4e3) + w * L) * L / (2 * ea);
+            v += w * L;
+        }
+    }
+    double Z = 0.5 * (lo + hi);
+    assert_int_equal(hf_line_solve(&line, 50.0, Z, NULL, NULL, &s), HF_OK);
+    assert_int_equal(s.regime, HF_LINE_SLACK);
+    assert_true(fabs(s.grounded - 312.5) < 1e-9);
+    double carried = s.section[1].t_lower; /* the column's share of the clump */
+    assert_true(carried > 0.0 && carried < 78.4e3);
+    assert_true(fabs(column_height(&line, &s) - Z) < 1e-9 * Z);
+}
+
 /* X = 0: slack vertical (line longer than Z) and taut vertical. */
 static void test_vertical(void **state)
 {
@@ -645,6 +696,7 @@ int main(void)
         cmocka_unit_test(test_touchdown_at_clump),
         cmocka_unit_test(test_friction_takes_all),
         cmocka_unit_test(test_slack),
+        cmocka_unit_test(test_slack_clumps),
         cmocka_unit_test(test_vertical),
         cmocka_unit_test(test_taut_stretched),
         cmocka_unit_test(test_laid),
