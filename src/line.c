@@ -10,6 +10,7 @@
  * valid input.  Regimes with H = 0 (slack, vertical) are solved in closed
  * form before any iteration. */
 #include <float.h>
+#include <stddef.h>
 #include <math.h>
 #include <string.h>
 #include <gsl/gsl_errno.h>
@@ -189,6 +190,7 @@ typedef struct {
     int td_joint;          /* touchdown exactly at joint td_sec (clump), else 0 */
     size_t td_sec;         /* section holding the touchdown (or joint index) */
     double anchor_t;       /* tension at the anchor after friction, N */
+    double x_susp;         /* horizontal extent of the suspended part, m */
     int buoy_down;         /* a buoy lies on the seabed below touchdown */
     double sag_min;        /* lowest sag point above the seabed, m (+inf if none) */
     double vb[NMAX], vt[NMAX];   /* V at the lower / upper end of each suspended piece */
@@ -210,8 +212,13 @@ static hf_status walk(const hf_line *line, double H, double VF, walk_t *w)
         vb[k] = v - line->sec[k].weight * line->sec[k].length;
         v = vb[k] - (k > 0 ? pload(line, k - 1) : 0.0);
     }
-    memset(w, 0, sizeof *w);
+    /* Only the first n entries of the arrays are ever read. */
+    w->grounded = w->td_joint = w->buoy_down = 0;
+    w->td_sec = 0;
+    w->anchor_t = 0.0;
     w->sag_min = INFINITY;
+    for (size_t k = 0; k < n; k++)
+        w->vb[k] = w->vt[k] = w->gl[k] = w->tg_lo[k] = w->tg_hi[k] = 0.0;
     /* Touchdown: the first point, going up from the anchor, where V becomes
      * positive.  Below it V <= 0 (the line lies on the seabed); above it the
      * line is suspended, with sags where V changes sign again. */
@@ -303,6 +310,7 @@ static hf_status walk(const hf_line *line, double H, double VF, walk_t *w)
     anchor:
         w->anchor_t = g.t;
     }
+    w->x_susp = x;
     w->x = x + xg + g.s;
     w->z = z;
     w->J[0][0] = J[0][0] + g.s_h;
@@ -477,12 +485,20 @@ static void stiffness_from_flex(const double J[2][2], hf_line_state *st)
                 st->stiffness[i][j] = 0.0;
 }
 
+/* Zeroes a state: the scalar part and the first n section results (the rest
+ * of the array is never read; st->n bounds it). */
+static void clear_state(hf_line_state *st, size_t n)
+{
+    memset(st, 0, offsetof(hf_line_state, section));
+    memset(st->section, 0, (n <= NMAX ? n : NMAX) * sizeof st->section[0]);
+}
+
 static hf_status fail(hf_line_state *st, hf_status s, const char *msg)
 {
     double x = st->x, z = st->z;
     size_t n = st->n;
     int it = st->iterations, ev = st->evaluations;
-    memset(st, 0, sizeof *st);
+    clear_state(st, NMAX);
     st->x = x;
     st->z = z;
     st->n = n;
@@ -510,7 +526,8 @@ typedef struct {
     const hf_line *line;
     double X, Z, tol, scale;
     double H, V;
-    walk_t w;
+    walk_t w;            /* the walk at (H, V) */
+    walk_t trial;        /* scratch for the line search */
     double f;            /* merit: (rx^2 + rz^2) / scale^2 */
     int evals;
 } newton_t;
@@ -557,17 +574,24 @@ static hf_status newton_iterate(newton_t *s)
         a = fmin(a, 0.9 * s->H / -dH); /* keep H > 0 */
     if (s->Z > 0.0 && s->V > 0.0 && s->V + a * dV < 0.1 * s->V)
         a = fmin(a, 0.9 * s->V / -dV); /* stay where the line is lifted */
-    walk_t trial;
     for (int i = 0; i < 40; i++, a *= 0.5) {
         double H = s->H + a * dH, V = s->V + a * dV;
         s->evals++;
-        if (walk(s->line, H, V, &trial) != HF_OK)
+        if (walk(s->line, H, V, &s->trial) != HF_OK)
             continue;
-        double f = merit(s, &trial);
+        double f = merit(s, &s->trial);
         if (isfinite(f) && f <= (1.0 - 1e-4 * a) * s->f) {
             s->H = H;
             s->V = V;
-            s->w = trial;
+            /* accept: swap in the trial walk (copy only what was filled) */
+            walk_t *d = &s->w, *t = &s->trial;
+            size_t n = s->line->n;
+            memcpy(d, t, offsetof(walk_t, vb));
+            memcpy(d->vb, t->vb, n * sizeof d->vb[0]);
+            memcpy(d->vt, t->vt, n * sizeof d->vt[0]);
+            memcpy(d->gl, t->gl, n * sizeof d->gl[0]);
+            memcpy(d->tg_lo, t->tg_lo, n * sizeof d->tg_lo[0]);
+            memcpy(d->tg_hi, t->tg_hi, n * sizeof d->tg_hi[0]);
             s->f = f;
             return HF_OK;
         }
@@ -842,7 +866,7 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
         hf_line_options_default(&defaults);
         opt = &defaults;
     }
-    memset(st, 0, sizeof *st);
+    clear_state(st, line && line->n <= NMAX ? line->n : NMAX);
     st->message = "";
     st->x = isfinite(X) ? X : 0.0;
     st->z = isfinite(Z) ? Z : 0.0;
@@ -893,13 +917,26 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
         goto done;
     }
 
-    newton_t s = {.line = line, .X = X, .Z = Z, .tol = tol, .scale = scale};
+    newton_t s; /* not zero-initialised: its walks are large and filled before use */
+    s.line = line;
+    s.X = X;
+    s.Z = Z;
+    s.tol = tol;
+    s.scale = scale;
+    s.evals = 0;
+    s.H = s.V = s.f = 0.0;
     double H0, V0;
     if (guess && guess->status == HF_OK && guess->h > 0.0 && isfinite(guess->h) &&
         isfinite(guess->v) && guess->n == line->n &&
         (guess->regime == HF_LINE_SUSPENDED || guess->regime == HF_LINE_TOUCHDOWN)) {
-        H0 = guess->h;
-        V0 = guess->v;
+        /* First-order predictor from the previous solution's stiffness. */
+        double dX = X - guess->x, dZ = Z - guess->z;
+        H0 = guess->h + guess->stiffness[0][0] * dX + guess->stiffness[0][1] * dZ;
+        V0 = guess->v + guess->stiffness[1][0] * dX + guess->stiffness[1][1] * dZ;
+        if (!(H0 > 0.1 * guess->h) || !isfinite(H0) || !isfinite(V0)) {
+            H0 = guess->h;
+            V0 = guess->v;
+        }
     } else {
         peyrot(line, X, Z, &H0, &V0);
     }
@@ -951,23 +988,8 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
     for (size_t k = 0; k < line->n; k++)
         gl += w->gl[k];
     st->grounded = gl;
-    if (w->grounded) {
-        /* Touchdown x: the stretched grounded length, i.e. the span minus the
-         * suspended part's horizontal extent. */
-        double xs = 0.0, zs = 0.0, Js[2][2] = {{0, 0}, {0, 0}};
-        for (size_t k = 0; k < line->n; k++) {
-            double susp = line->sec[k].length - w->gl[k];
-            if (susp <= 0.0)
-                continue;
-            if (w->gl[k] > 0.0)
-                touchdown_piece(s.H, line->sec[k].weight, line->sec[k].ea, w->vt[k], &xs, &zs,
-                                Js);
-            else
-                suspended(s.H, line->sec[k].weight, line->sec[k].length, line->sec[k].ea,
-                          w->vt[k], w->vb[k], &xs, &zs, Js);
-        }
-        st->touchdown_x = fmax(X - xs, 0.0);
-    }
+    if (w->grounded)
+        st->touchdown_x = fmax(X - w->x_susp, 0.0); /* stretched grounded length */
     sections_from_walk(line, w, s.H, st);
     stiffness_from_flex(w->J, st);
     st->residual = fmax(fabs(w->x - X), fabs(w->z - Z)) / scale;
