@@ -1,11 +1,219 @@
-/* cmd_check.c - 'holdfast check'.  PLACEHOLDER: not implemented yet. */
+/* cmd_check.c - 'holdfast check': validate a case and show what it resolves to. */
+#include <math.h>
 #include <stdio.h>
+#include <string.h>
+#include "holdfast/case.h"
 #include "holdfast/cli.h"
+#include "holdfast/criteria.h"
+
+static const char help[] =
+    "usage: holdfast check CASE\n"
+    "\n"
+    "Reads the case file CASE, checks every value (types, units, ranges, names) and\n"
+    "prints what the case resolves to: the site, each component with every property\n"
+    "marked as given in the file or derived (and from which formula), the lines with\n"
+    "their sections, the hull, the load cases, the criteria and the studies.\n"
+    "Nothing is solved and no file is written.\n"
+    "\n"
+    "options:\n"
+    "  -h, --help   show this text\n"
+    "\n"
+    "exit status: 0 the case is valid, 2 bad input or usage (the message names\n"
+    "FILE:LINE:COLUMN, the key path and what was expected)\n";
+
+static const char *const study_kinds[] = {"lines", "curve", "stiffness", "balance", "sweep",
+                                          "invert"};
+static const char *const anchor_kinds[] = {"drag", "gravity", "pile", "plate"};
+
+/* A property value in the unit people read it in. */
+static void print_prop(const hf_component *c, hf_component_prop p)
+{
+    double v = c->value[p];
+    char buf[48];
+    switch (p) {
+    case HF_PROP_MASS:
+        snprintf(buf, sizeof buf, "%.2f kg/m", v);
+        break;
+    case HF_PROP_WET_WEIGHT:
+        snprintf(buf, sizeof buf, "%.4g kN/m", v / 1e3);
+        break;
+    case HF_PROP_EA:
+        snprintf(buf, sizeof buf, "%.1f MN", v / 1e6);
+        break;
+    case HF_PROP_MBL:
+        snprintf(buf, sizeof buf, "%.1f kN", v / 1e3);
+        break;
+    default:
+        snprintf(buf, sizeof buf, "%.2f", v);
+        break;
+    }
+    int given = (c->given >> p) & 1u;
+    printf("    %-16s %-14s %s\n", hf_component_prop_name(p), buf,
+           given ? "given in the case file" : (c->source[p] ? c->source[p] : "derived"));
+}
+
+static void print_components(const hf_model *m)
+{
+    int approx = 0;
+    printf("\ncomponents (%zu)\n", m->ncomponents);
+    for (size_t i = 0; i < m->ncomponents; i++) {
+        const hf_model_component *mc = &m->components[i];
+        const hf_component *c = &mc->comp;
+        printf("  %s: %s", mc->name, hf_component_type_name(c->type));
+        if (c->grade != HF_GRADE_NONE)
+            printf(", grade %s", hf_component_grade_name(c->grade));
+        if (c->diameter > 0.0)
+            printf(", diameter %.1f mm", c->diameter * 1e3);
+        printf("   (defined at %d:%d)\n", mc->src_line, mc->src_col);
+        for (int p = 0; p < HF_PROP_COUNT; p++)
+            print_prop(c, (hf_component_prop)p);
+        if (c->approximate) {
+            approx = 1;
+            printf("    ! approximate: some values come from rough catalogue formulas for %s;\n"
+                   "      enter the manufacturer's certified data (mass, wet_weight,\n"
+                   "      axial_stiffness, breaking_load) before relying on results\n",
+                   hf_component_type_name(c->type));
+        }
+    }
+    if (approx)
+        printf("  Wire and fibre rope properties vary widely between makers and constructions.\n");
+}
+
+static void print_lines(const hf_model *m)
+{
+    printf("\nlines (%zu)\n", m->nlines);
+    double ch = cos(m->hull.heading), sh = sin(m->hull.heading);
+    for (size_t i = 0; i < m->nlines; i++) {
+        const hf_model_line *l = &m->lines[i];
+        /* Fairlead at the rest pose: hull position + yaw rotation of the hull-frame point. */
+        double fx = m->hull.position[0] + ch * l->fairlead[0] - sh * l->fairlead[1];
+        double fy = m->hull.position[1] + sh * l->fairlead[0] + ch * l->fairlead[1];
+        double span = hypot(l->anchor[0] - fx, l->anchor[1] - fy);
+        double height = hf_model_water_height(m) + l->fairlead[2];
+        printf("  %s: %s anchor at (%.1f, %.1f) m, fairlead (%.2f, %.2f, %.2f) m;\n"
+               "    at rest: span %.1f m, fairlead %.2f m above the seabed, line length %.1f m\n",
+               l->name, anchor_kinds[l->anchor_spec.kind], l->anchor[0], l->anchor[1],
+               l->fairlead[0], l->fairlead[1], l->fairlead[2], span, height,
+               hf_line_length(&l->line));
+        if (l->anchor_spec.kind == HF_ANCHOR_GRAVITY)
+            printf("    gravity block: submerged weight %.1f kN, friction %.2f\n",
+                   l->anchor_spec.weight / 1e3, l->anchor_spec.friction);
+        else if (l->anchor_spec.kind == HF_ANCHOR_DRAG)
+            printf("    allowed uplift angle at the anchor: %.1f deg\n",
+                   l->anchor_spec.max_uplift_angle * 180.0 / M_PI);
+        printf("    sections (anchor first):");
+        for (size_t k = 0; k < l->npieces; k++) {
+            const hf_piece *p = &l->pieces[k];
+            if (p->kind == HF_PIECE_SECTION)
+                printf(" %s%s %.1f m", k ? "| " : "", m->components[p->component].name,
+                       p->length);
+            else
+                printf(" %s%s %.1f kN", k ? "| " : "", p->kind == HF_PIECE_CLUMP ? "clump" : "buoy",
+                       p->load / 1e3);
+        }
+        printf("\n");
+    }
+}
+
+static void print_loads(const hf_model *m)
+{
+    if (m->nloads == 0) {
+        printf("\nloads: none\n");
+        return;
+    }
+    printf("\nloads (%zu)\n", m->nloads);
+    for (size_t i = 0; i < m->nloads; i++) {
+        const hf_load *ld = &m->loads[i];
+        printf("  %s: force %.1f kN toward %.1f deg, yaw moment %.1f kN m\n", ld->name,
+               ld->force / 1e3, ld->direction * 180.0 / M_PI, ld->moment / 1e3);
+        for (size_t k = 0; k < ld->ndrag; k++) {
+            const hf_drag *d = &ld->drag[k];
+            /* Drag force 1/2 rho C A V^2 (the drag equation). */
+            double f = 0.5 * d->density * d->coefficient * d->area * d->speed * d->speed;
+            /* Air and water are told apart by density alone (1.2 vs ~1000 kg/m^3). */
+            printf("    %s drag: %.2f m/s toward %.1f deg, C %.2f, A %.1f m^2, rho %.4g kg/m^3"
+                   " -> %.1f kN\n",
+                   d->density < 100.0 ? "air" : "water", d->speed, d->direction * 180.0 / M_PI,
+                   d->coefficient, d->area, d->density,
+                   f / 1e3);
+        }
+    }
+}
+
+static void print_rest(const hf_model *m)
+{
+    const hf_hull *h = &m->hull;
+    printf("\nhull: reference point at (%.2f, %.2f) m, heading %.2f deg", h->position[0],
+           h->position[1], h->heading * 180.0 / M_PI);
+    if (h->noutline)
+        printf(", outline of %zu points", h->noutline);
+    printf("\n");
+    print_loads(m);
+    const hf_criteria *c = &m->criteria;
+    printf("\ncriteria: %s, %s analysis\n", c->preset ? c->preset : "no preset",
+           c->analysis == HF_ANALYSIS_DYNAMIC ? "dynamic" : "quasi-static");
+    if (c->factor_intact > 0.0)
+        printf("  required MBL/T intact %.2f", c->factor_intact);
+    else
+        printf("  no intact line check");
+    if (c->factor_damaged > 0.0)
+        printf(", one line broken %.2f", c->factor_damaged);
+    if (c->max_offset > 0.0)
+        printf(", offset limit %.2f m", c->max_offset);
+    printf("\n  source: %s\n", c->source ? c->source : "none");
+    if (m->nstudies == 0) {
+        printf("\nstudies: none\n");
+        return;
+    }
+    printf("\nstudies (%zu)\n", m->nstudies);
+    for (size_t i = 0; i < m->nstudies; i++) {
+        const hf_study *s = &m->studies[i];
+        printf("  %-20s %-9s", s->name, study_kinds[s->kind]);
+        if (s->kind == HF_STUDY_SWEEP || s->kind == HF_STUDY_INVERT)
+            for (size_t k = 0; k < s->nvary; k++)
+                printf("%s%s", k ? ", " : " varies ", s->vary[k].path);
+        if (s->kind == HF_STUDY_INVERT)
+            printf(" for %s%s%s", s->target_output, s->target_line ? " of " : "",
+                   s->target_line ? s->target_line : "");
+        printf("\n");
+    }
+}
 
 int hf_cmd_check(int argc, char **argv)
 {
-    (void)argc;
-    (void)argv;
-    fprintf(stderr, "holdfast check: not implemented yet\n");
-    return HF_EXIT_USAGE;
+    const char *path = NULL;
+    for (int i = 1; i < argc; i++) {
+        if (!strcmp(argv[i], "--help") || !strcmp(argv[i], "-h")) {
+            fputs(help, stdout);
+            return HF_EXIT_OK;
+        }
+        if (argv[i][0] == '-' && argv[i][1] != '\0')
+            return hf_cli_usage_error("check", "unknown option '%s'", argv[i]);
+        if (path)
+            return hf_cli_usage_error("check", "expected one CASE file, got '%s' and '%s'", path,
+                                      argv[i]);
+        path = argv[i];
+    }
+    if (!path)
+        return hf_cli_usage_error("check", "expected a CASE file");
+    hf_model m;
+    hf_error err;
+    hf_model_init(&m);
+    hf_error_clear(&err);
+    hf_status st = hf_cli_load(path, &m, &err);
+    if (st != HF_OK)
+        return hf_cli_fail(&err);
+    printf("case: %s\n", path);
+    if (m.title)
+        printf("title: %s\n", m.title);
+    printf("site: depth %.2f m below the datum, water level %+.2f m (still water %.2f m above "
+           "the seabed), water density %.1f kg/m^3\n",
+           m.site.depth, m.site.water_level, hf_model_water_height(&m), m.site.water_density);
+    print_components(&m);
+    print_lines(&m);
+    print_rest(&m);
+    printf("\nthe case is valid: %zu components, %zu lines, %zu load cases, %zu studies\n\n%s",
+           m.ncomponents, m.nlines, m.nloads, m.nstudies, hf_cli_caution);
+    hf_model_free(&m);
+    return HF_EXIT_OK;
 }

@@ -183,6 +183,7 @@ typedef struct {
     hf_dim dim;
     int kind;        /* internal: what to re-derive after a change */
     size_t index;    /* internal */
+    size_t sub;      /* internal: second index (section entry, property, coordinate) */
 } hf_param;
 
 /* Finds the parameter at `path` in m.  HF_EINVAL with a message listing what
