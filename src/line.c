@@ -515,6 +515,9 @@ static const char msg_buoy[] =
 static const char msg_sag[] =
     "the line would sag into the seabed between a buoy and the fairlead (two touchdowns); "
     "this configuration is not supported";
+static const char msg_buoy_search[] =
+    "no shape with a single touchdown fits this line with its buoys (the buoys can lift "
+    "stretches of it off the seabed in more than one way); not supported";
 static const char msg_slack_buoy[] =
     "a buoy in a slack line would be lifted with part of the line; not supported";
 
@@ -838,6 +841,10 @@ static hf_status solve_laid(const hf_line *line, double X, double tol, hf_line_s
         return fail(st, HF_ENOCONV, "fully laid line: tension did not converge");
     if (w.buoy_down)
         return fail(st, HF_EUNSUPPORTED, msg_buoy);
+    if (!w.grounded || w.td_sec < line->n)
+        return fail(st, HF_EUNSUPPORTED,
+                    "a buoy would lift part of a line whose fairlead lies on the seabed; "
+                    "not supported");
     st->regime = HF_LINE_LAID;
     st->h = H;
     st->v = 0.0;
@@ -961,6 +968,9 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
             st->evaluations = s.evals;
             if (slack_buoy)
                 return fail(st, HF_EUNSUPPORTED, msg_slack_buoy);
+            for (size_t k = 0; k + 1 < line->n; k++)
+                if (line->joint[k].load < 0.0)
+                    return fail(st, HF_EUNSUPPORTED, msg_buoy_search);
             return fail(st, HF_ENOCONV, "the line solver did not converge");
         }
     }

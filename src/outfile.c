@@ -1,5 +1,6 @@
 /* outfile.c - atomic output files: temporary file, then rename on commit. */
 #include <errno.h>
+#include <pthread.h>
 #include <signal.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -101,13 +102,25 @@ hf_outfile *hf_outfile_open(const char *path, hf_error *err)
     int dirlen = slash ? (int)(slash - path + 1) : 0;
     snprintf(f->tmp, n, "%.*s.%s.tmpXXXXXX", dirlen, path, slash ? slash + 1 : path);
     install_handlers();
+    /* Block the cleanup signals while the file exists but is not yet
+     * registered, so a kill in between cannot leave it behind. */
+    sigset_t block, old;
+    sigemptyset(&block);
+    sigaddset(&block, SIGINT);
+    sigaddset(&block, SIGTERM);
+    sigaddset(&block, SIGHUP);
+    sigaddset(&block, SIGPIPE);
+    pthread_sigmask(SIG_BLOCK, &block, &old);
     int fd = mkstemp(f->tmp);
+    if (fd >= 0)
+        f->slot = register_tmp(f->tmp);
+    int saved = errno;
+    pthread_sigmask(SIG_SETMASK, &old, NULL);
     if (fd < 0) {
-        hf_error_set(err, HF_EIO, "%s: cannot create a file there: %s", path, strerror(errno));
+        hf_error_set(err, HF_EIO, "%s: cannot create a file there: %s", path, strerror(saved));
         release(f);
         return NULL;
     }
-    f->slot = register_tmp(f->tmp);
     fchmod(fd, 0644);
     f->fp = fdopen(fd, "w");
     if (!f->fp) {
