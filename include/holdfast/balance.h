@@ -1,0 +1,155 @@
+/* balance.h - mean equilibrium of a moored hull under load, intact and broken.
+ *
+ * Flow: case -> model -> line solve -> spread -> **balance** -> criteria ->
+ * writers.  For one load case (hf_load, model.h) it finds the hull pose where
+ * the mooring force balances the load in surge, sway and yaw, for the intact
+ * spread and for every condition with one line broken, and evaluates the
+ * criteria (criteria.h) at each equilibrium.  See docs/criteria.md.
+ *
+ * Model and conventions (all SI: m, N, N m, rad):
+ *   - The load is fixed in the global frame: the direct force acts toward
+ *     load->direction, each drag term 1/2 rho C A V^2 toward its own direction
+ *     whatever the hull's yaw or offset (no relative-velocity or heading
+ *     dependence), the yaw moment is about the hull reference point.
+ *   - Only surge, sway and yaw are solved for.  Heave, roll and pitch are held
+ *     at their rest values (the hull's hydrostatics, not modelled here, are
+ *     taken to carry the vertical mooring load and its moments).
+ *   - Offsets and yaw are reported relative to the rest pose (the case's hull
+ *     position and heading).
+ *   - Solution: Newton on the 3 DOF with the analytic stiffness sub-matrix of
+ *     hf_spread_stiffness (rows/columns surge, sway, yaw), a truncated-SVD
+ *     step (zero-stiffness directions are not moved), step limits and a
+ *     backtracking line search, inside a homotopy (load stepping) that starts
+ *     from an exact solution: the rest pose for the intact spread, the intact
+ *     equilibrium for a broken-line condition.
+ *   - No equilibrium (HF_ENOEQUIL) is reported when the path leaves the search
+ *     region (horizontal offset beyond opt.max_offset, by default the largest
+ *     horizontal distance from the rest reference point to an anchor; |yaw|
+ *     beyond opt.max_yaw), when the spread has no stiffness left against the
+ *     remaining unbalanced load (all resisting lines broken or slack), or when
+ *     the load path reaches a limit point (the resistance peaks below the full
+ *     load).  It means "none on a continuous path from the start inside the
+ *     search region": see docs/criteria.md.
+ *
+ * The workspace borrows the model, which must outlive it. */
+#ifndef HOLDFAST_BALANCE_H
+#define HOLDFAST_BALANCE_H
+
+#include <stddef.h>
+#include "holdfast/criteria.h"
+#include "holdfast/model.h"
+#include "holdfast/spread.h"
+#include "holdfast/status.h"
+
+#define HF_BALANCE_NONE ((size_t)-1)
+#define HF_BALANCE_MESSAGE 256
+
+typedef struct {
+    double ftol;       /* converged when |Fx|,|Fy| <= ftol * F and |Mz| <= ftol * F * Lref,
+                        * F = max(load, largest line tension at the start, 1 N), Lref the
+                        * yaw length scale (largest fairlead radius, >= 1 m); default 1e-8 */
+    double xtol;       /* also converged when the Newton step is below xtol * search radius
+                        * and the residual within 100 ftol (the line solver's noise
+                        * floor); default 1e-10 */
+    int max_iter;      /* Newton iterations per load step; default 40 */
+    int max_steps;     /* load steps, accepted and rejected, per condition; default 400 */
+    double min_step;   /* smallest load-step fraction before giving up; default 1/65536 */
+    double max_offset; /* search radius for the horizontal offset, m; 0 = largest rest
+                        * distance reference point -> anchor (default) */
+    double max_yaw;    /* search limit on |yaw - heading|, rad; default pi/2 */
+} hf_balance_options;
+
+/* Fills o with the documented defaults. */
+void hf_balance_options_default(hf_balance_options *o);
+
+/* Names of the governing criterion of a condition. */
+typedef enum {
+    HF_CRIT_NONE = 0,    /* nothing checked */
+    HF_CRIT_EQUILIBRIUM, /* no equilibrium was found */
+    HF_CRIT_LINE,        /* line safety factor MBL/T (line index in criterion_line) */
+    HF_CRIT_OFFSET,      /* horizontal offset limit */
+    HF_CRIT_ANCHOR       /* anchor check (line index in criterion_line) */
+} hf_balance_criterion;
+
+/* The result of one condition (intact or one line broken) of one load case.
+ * Arrays have nlines entries and are owned by the workspace. */
+typedef struct {
+    hf_status status; /* HF_OK, HF_ENOEQUIL, HF_ENOCONV, HF_EUNSUPPORTED, HF_EINVAL */
+    char message[HF_BALANCE_MESSAGE]; /* why it failed; "" when ok */
+    size_t broken;                    /* index of the broken line, HF_BALANCE_NONE when intact */
+    double load[3];                   /* applied Fx, Fy (N) and Mz (N m), global */
+    double offset[3];   /* surge, sway (m) from the rest position; yaw (rad) from heading */
+    double horizontal;  /* sqrt(surge^2 + sway^2), m */
+    double residual[3]; /* mooring + load at the solution: Fx, Fy (N), Mz (N m) */
+    int iterations;     /* Newton iterations, all steps */
+    int steps;          /* accepted load steps */
+    size_t nlines;
+    double *tension;             /* largest tension along each line, N (0 broken) */
+    double *utilisation;         /* T/MBL of each line's most loaded section, - */
+    hf_line_criterion *line;     /* line checks (required factor by condition) */
+    hf_anchor_criterion *anchor; /* anchor checks (broken line: zeroed, kind kept) */
+    double max_tension;          /* N */
+    size_t max_tension_line;     /* HF_BALANCE_NONE when no line carries load */
+    double max_utilisation;      /* - */
+    size_t max_utilisation_line;
+    int offset_checked; /* 1 when criteria.max_offset > 0 */
+    int offset_passed;
+    int lines_passed, anchors_passed;
+    int passed;                     /* status ok and every check passed */
+    hf_balance_criterion criterion; /* the first failed check, or the governing one */
+    size_t criterion_line;          /* line of that criterion, or HF_BALANCE_NONE */
+} hf_balance_result;
+
+typedef struct hf_balance hf_balance;
+
+/* Allocates a workspace for m (borrowed) with room for the 1 + nlines
+ * conditions of one load case.  m must have at least one line and valid
+ * criteria (hf_criteria_check).  Returns NULL with err set: HF_EINVAL (bad
+ * model), HF_ENOMEM. */
+hf_balance *hf_balance_alloc(const hf_model *m, hf_error *err);
+
+/* Releases a workspace and its results.  NULL is allowed. */
+void hf_balance_free(hf_balance *b);
+
+/* Forgets every warm start: the line states of the spread workspace and the
+ * remembered intact equilibrium, so the next solve depends only on its input
+ * (sweeps use this to make results independent of the order of cases). */
+void hf_balance_reset(hf_balance *b);
+
+/* Solver options (copied); NULL restores the defaults.  HF_EINVAL when a
+ * value is out of range (non-finite, ftol <= 0, max_iter < 1, ...). */
+hf_status hf_balance_set_options(hf_balance *b, const hf_balance_options *opt, hf_error *err);
+
+/* The resultant external load of a load case in global axes: f[0] Fx, f[1]
+ * Fy (N), f[2] Mz (N m): the direct force plus every drag term
+ * 1/2 rho C A V^2 toward its direction.  HF_EINVAL with a message naming the
+ * load when a value is not finite or out of range (negative force, density,
+ * coefficient, area or speed) or the sum overflows. */
+hf_status hf_balance_load_force(const hf_load *load, double f[3], hf_error *err);
+
+/* Number of conditions per load case: 1 + nlines (0 intact, k line k-1 broken). */
+size_t hf_balance_ncond(const hf_balance *b);
+
+/* Solves every condition of one load case and evaluates the criteria.
+ * Results stay in the workspace until the next run (hf_balance_result_at).
+ * Returns HF_EINVAL (bad load; nothing solved, every result carries that
+ * status and the message), or HF_OK when every
+ * condition found its equilibrium, else the status of the first condition
+ * that did not (HF_ENOEQUIL, HF_ENOCONV, HF_EUNSUPPORTED, HF_EINVAL): every
+ * condition is still attempted and carries its own status and message.
+ * Allocates nothing. */
+hf_status hf_balance_run(hf_balance *b, const hf_load *load, hf_error *err);
+
+/* Solves one condition only (0 intact, k = line k-1 broken), starting from
+ * the rest pose for the intact condition and from the intact equilibrium of
+ * the last successful intact solve of the same hf_load object (else the
+ * rest pose) for a broken one.  Same statuses as hf_balance_run for that condition. */
+hf_status hf_balance_solve(hf_balance *b, const hf_load *load, size_t cond, hf_error *err);
+
+/* Result of condition `cond` of the last run/solve, or NULL when out of range. */
+const hf_balance_result *hf_balance_result_at(const hf_balance *b, size_t cond);
+
+/* Stable criterion names: "none", "equilibrium", "line_factor", "offset", "anchor". */
+const char *hf_balance_criterion_name(hf_balance_criterion c);
+
+#endif

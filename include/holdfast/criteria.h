@@ -1,0 +1,138 @@
+/* criteria.h - safety-factor presets, line utilisation checks, anchor checks.
+ *
+ * Flow: case -> model -> line solve -> spread -> balance -> **criteria**.
+ * A named preset (API RP 2SK, ISO 19901-7, DNV-OS-E301-style partial factors,
+ * UFC 4-159-03) fills the required line safety factors of an hf_criteria
+ * (model.h); the user may then override any of them.  The checks here are
+ * pure arithmetic on solved forces: they know nothing of solving, files or
+ * printing.  docs/criteria.md lists every value with its source, and marks
+ * the values recalled from memory.
+ *
+ * Safety factor convention: the line factor is MBL / T (minimum breaking load
+ * over the largest tension in the line's most loaded section); a check passes
+ * when that factor is >= the required factor.  Utilisation is T / MBL. */
+#ifndef HOLDFAST_CRITERIA_H
+#define HOLDFAST_CRITERIA_H
+
+#include <stddef.h>
+#include "holdfast/model.h"
+#include "holdfast/status.h"
+
+/* The valid preset names, for messages: "api-rp-2sk, iso-19901-7, ...". */
+#define HF_CRITERIA_PRESET_NAMES "api-rp-2sk, iso-19901-7, dnv-cc1, dnv-cc2, ufc-4-159-03"
+
+/* One preset of required line safety factors (on MBL) with its source. */
+typedef struct {
+    const char *name;   /* "api-rp-2sk", ... */
+    const char *title;  /* human title of the rule set */
+    const char *source; /* static text: document, edition, clause; "(from memory)"
+                           where the value was not confirmed in the text */
+    int from_memory;    /* 1 when the values were recalled, not read in the source */
+    int uses_analysis;  /* 1 when the factors depend on quasi-static vs dynamic */
+    double intact_qs;   /* required MBL/T, intact, quasi-static analysis */
+    double damaged_qs;  /* required MBL/T, one line broken, quasi-static */
+    double intact_dyn;  /* required MBL/T, intact, dynamic analysis */
+    double damaged_dyn; /* required MBL/T, one line broken, dynamic */
+    /* Raw partial factors of the DNV-OS-E301-style presets (0 for the
+     * others), kept visible because the equivalent factors above are our
+     * conversion: required MBL/T = gamma_dyn / capacity (see criteria.c). */
+    double gamma_mean;     /* ULS partial factor on mean tension, - */
+    double gamma_dyn;      /* ULS partial factor on dynamic tension, - */
+    double gamma_mean_als; /* ALS (one line broken) factor on mean tension, - */
+    double gamma_dyn_als;  /* ALS factor on dynamic tension, - */
+    double capacity;       /* characteristic capacity as a fraction of MBL, - */
+} hf_criteria_preset;
+
+/* Number of presets and the i-th one (i < count; NULL otherwise). */
+size_t hf_criteria_preset_count(void);
+const hf_criteria_preset *hf_criteria_preset_at(size_t i);
+
+/* The preset named exactly `name`, or NULL (also for NULL). */
+const hf_criteria_preset *hf_criteria_preset_find(const char *name);
+
+/* Fills c->factor_intact, c->factor_damaged and c->source (static text) from
+ * the preset named `preset`, honouring c->analysis (quasi-static or dynamic).
+ * c->preset is not touched (the caller owns that string) and neither is
+ * c->max_offset.  The case loader calls this while parsing `criteria:`; the
+ * user's own intact/damaged factors overwrite the preset's afterwards.
+ * Returns HF_OK, or HF_EINVAL (c unchanged) when c or preset is NULL or the
+ * name is unknown; the message lists the valid names. */
+hf_status hf_criteria_preset_apply(hf_criteria *c, const char *preset, hf_error *err);
+
+/* Checks that a criteria record is usable: factors finite and >= 0 (0 = no
+ * check; a non-zero factor below 1 is refused since it would accept tensions
+ * above the breaking load), max_offset finite and >= 0.  HF_OK or HF_EINVAL
+ * with a message naming the field. */
+hf_status hf_criteria_check(const hf_criteria *c, hf_error *err);
+
+/* Required MBL/T for a condition: c->factor_damaged when `damaged` is
+ * non-zero, else c->factor_intact.  0 means no check.  c must not be NULL. */
+double hf_criteria_required(const hf_criteria *c, int damaged);
+
+/* Result of the line-strength check of one line. */
+typedef struct {
+    double tension;     /* largest tension in the most loaded section, N */
+    double mbl;         /* that section's MBL, N */
+    double utilisation; /* tension / mbl, - */
+    double factor;      /* mbl / tension, -; 0 when the tension is 0 (see has_factor) */
+    int has_factor;     /* 0 when the tension is 0 (the factor is unbounded) */
+    double required;    /* required factor, - (0 = no check) */
+    int checked;        /* 1 when required > 0 */
+    int passed;         /* 1 when not checked or factor >= required (or tension 0) */
+} hf_line_criterion;
+
+/* Evaluates one line: tension (N, >= 0), mbl (N, > 0), required factor
+ * (>= 0).  Returns HF_OK or HF_EINVAL (non-finite or out-of-range input;
+ * *out is then zeroed). */
+hf_status hf_criteria_line_evaluate(double tension, double mbl, double required,
+                                    hf_line_criterion *out, hf_error *err);
+
+/* Angle tolerance of the drag-anchor uplift check, rad: a line resting on
+ * the seabed gives an exact 0, a suspended one a clearly positive angle. */
+#define HF_CRITERIA_ANGLE_TOL 1e-6
+
+/* Result of the anchor check of one line. */
+typedef struct {
+    hf_anchor_kind kind;
+    double h;     /* horizontal force on the anchor, N (>= 0) */
+    double v;     /* vertical uplift force on the anchor, N (>= 0) */
+    double load;  /* resultant sqrt(h^2 + v^2), N */
+    double angle; /* uplift angle atan2(v, h) above the horizontal, rad */
+    /* drag anchors */
+    double max_angle; /* allowed uplift angle, rad */
+    /* gravity blocks (NAVFAC DM-7.02-style friction resistance) */
+    double sliding_factor;   /* mu (W_sub - V) / H, - (0 when V >= W_sub) */
+    int has_sliding;         /* 0 when H = 0 (nothing to slide it) */
+    double uplift_factor;    /* W_sub / V, - */
+    int has_uplift;          /* 0 when V = 0 */
+    double required_sliding; /* required sliding factor used, - */
+    double required_uplift;  /* required uplift factor used, - */
+    int checked;             /* 1 when a pass/fail applies (drag, gravity); 0 piles, plates */
+    int passed;              /* 1 when not checked or every applicable factor/angle holds */
+    const char *note;        /* static text: what was checked and against what */
+} hf_anchor_criterion;
+
+/* Required factors for gravity blocks when the case gives none: 1.0, i.e.
+ * only "the block does not move under the computed mean load".  This is an
+ * equilibrium check, NOT a design margin; no published design factor is built
+ * in (see docs/criteria.md): compare the reported factors with the governing
+ * code. */
+#define HF_CRITERIA_GRAVITY_SLIDING 1.0
+#define HF_CRITERIA_GRAVITY_UPLIFT 1.0
+
+/* Evaluates the anchor of one line from the forces the line puts on it:
+ * h (N, >= 0, toward the fairlead) and v (N, >= 0, upward).  Drag anchors
+ * pass when the uplift angle is <= a->max_uplift_angle (+ tolerance); gravity
+ * blocks pass when sliding and uplift factors reach required_sliding and
+ * required_uplift (> 0; pass HF_CRITERIA_GRAVITY_* for the defaults); piles
+ * and plates are reported without pass/fail.  Returns HF_OK or HF_EINVAL
+ * (non-finite or negative input, a gravity block without positive weight or
+ * with negative friction; *out is then zeroed). */
+hf_status hf_criteria_anchor_evaluate(const hf_anchor *a, double h, double v,
+                                      double required_sliding, double required_uplift,
+                                      hf_anchor_criterion *out, hf_error *err);
+
+/* Stable name of an anchor kind: "drag", "gravity", "pile", "plate". */
+const char *hf_criteria_anchor_kind_name(hf_anchor_kind k);
+
+#endif

@@ -1,0 +1,363 @@
+/* test_cmd_balance.c - end-to-end 'holdfast balance' runs ($HF_BIN): report, CSV, exit statuses. */
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <stdint.h>
+#include <cmocka.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/wait.h>
+#include <unistd.h>
+
+static const char *bin; /* $HF_BIN */
+static char dir[256];   /* scratch directory */
+static char pass_case[320], fail_case[320], tight_case[320], noeq_case[320];
+
+#define OUT_CAP (1 << 18)
+static char out[OUT_CAP];
+
+/* Runs a shell command built from fmt, captures its stdout into out and
+ * returns the exit status (-1 when it could not run). */
+static int run(const char *fmt, ...)
+{
+    char cmd[4096];
+    va_list ap;
+    va_start(ap, fmt);
+    vsnprintf(cmd, sizeof cmd, fmt, ap);
+    va_end(ap);
+    FILE *p = popen(cmd, "r");
+    if (!p)
+        return -1;
+    size_t n = fread(out, 1, OUT_CAP - 1, p);
+    out[n] = '\0';
+    int st = pclose(p);
+    return WIFEXITED(st) ? WEXITSTATUS(st) : -1;
+}
+
+static void write_file(const char *path, const char *text)
+{
+    FILE *f = fopen(path, "w");
+    assert_non_null(f);
+    fputs(text, f);
+    fclose(f);
+}
+
+/* Fictional scenario: the ferry pontoon "Lathe Point" of the invented harbour
+ * of Ormsby Wick on four chains (all names and numbers invented).  The
+ * chain is a custom component; the criteria are the UFC 4-159-03 harbour
+ * preset (3.0 intact, 2.25 one member missing, table 3-7). */
+#define PONTOON_LINES                                                                              \
+    "site:\n  depth: 18.4 m\n"                                                                     \
+    "components:\n"                                                                                \
+    "  ch: {type: custom, wet_weight: 0.412 kN/m, axial_stiffness: 215 MN,\n"                      \
+    "       breaking_load: 1.38 MN, seabed_friction: 0.7}\n"                                       \
+    "lines:\n"                                                                                     \
+    "  - {name: ne, anchor: [131.5, 92.0], fairlead: [14.5, 6.2, -0.8],\n"                         \
+    "     sections: [{component: ch, length: 148.0 m}]}\n"                                         \
+    "  - {name: nw, anchor: [-131.5, 92.0], fairlead: [-14.5, 6.2, -0.8],\n"                       \
+    "     sections: [{component: ch, length: 148.0 m}]}\n"                                         \
+    "  - {name: sw, anchor: [-131.5, -92.0], fairlead: [-14.5, -6.2, -0.8],\n"                     \
+    "     sections: [{component: ch, length: 148.0 m}]}\n"                                         \
+    "  - {name: se, anchor: [131.5, -92.0], fairlead: [14.5, -6.2, -0.8],\n"                       \
+    "     sections: [{component: ch, length: 148.0 m}]}\n"                                         \
+    "hull:\n  position: [0, 0]\n  heading: 0 deg\n"
+
+static const char pass_text[] =
+    "title: Fictional ferry pontoon Lathe Point, Ormsby Wick\n" PONTOON_LINES "loads:\n"
+    "  - name: breeze\n"
+    "    wind: {speed: 14.5 m/s, direction: 90 deg, coefficient: 1.1, area: 96 m^2}\n"
+    "  - name: ebb\n"
+    "    force: 6.25 kN\n"
+    "    direction: 200 deg\n"
+    "criteria:\n  preset: ufc-4-159-03\n  max_offset: 25 m\n";
+
+/* The same with a load that breaks the UFC factor (exit 1). */
+static const char fail_text[] =
+    "title: Fictional ferry pontoon Lathe Point, storm check\n" PONTOON_LINES "loads:\n"
+    "  - name: storm\n"
+    "    force: 760 kN\n"
+    "    direction: 0 deg\n"
+    "criteria:\n  preset: ufc-4-159-03\n";
+
+/* A small load with an offset limit far too tight (exit 1 from the offset). */
+static const char tight_text[] =
+    "title: Fictional ferry pontoon Lathe Point, gangway check\n" PONTOON_LINES "loads:\n"
+    "  - name: ebb\n"
+    "    force: 6.25 kN\n"
+    "    direction: 200 deg\n"
+    "criteria:\n  max_offset: 0.01 m\n";
+
+/* A load far beyond what four such chains can hold (exit 3). */
+static const char noeq_text[] =
+    "title: Fictional ferry pontoon Lathe Point, impossible load\n" PONTOON_LINES "loads:\n"
+    "  - name: absurd\n"
+    "    force: 900 MN\n"
+    "    direction: 0 deg\n";
+
+static int setup(void **state)
+{
+    (void)state;
+    bin = getenv("HF_BIN");
+    if (!bin || !bin[0])
+        return 0;
+    snprintf(dir, sizeof dir, "/tmp/hf-cmd-balance-XXXXXX");
+    if (!mkdtemp(dir))
+        return -1;
+    snprintf(pass_case, sizeof pass_case, "%s/pass.yaml", dir);
+    snprintf(fail_case, sizeof fail_case, "%s/fail.yaml", dir);
+    snprintf(tight_case, sizeof tight_case, "%s/tight.yaml", dir);
+    snprintf(noeq_case, sizeof noeq_case, "%s/noeq.yaml", dir);
+    write_file(pass_case, pass_text);
+    write_file(fail_case, fail_text);
+    write_file(tight_case, tight_text);
+    write_file(noeq_case, noeq_text);
+    return 0;
+}
+
+static int teardown(void **state)
+{
+    (void)state;
+    if (bin && bin[0] && dir[0]) {
+        char cmd[512];
+        snprintf(cmd, sizeof cmd, "rm -rf '%s'", dir);
+        if (system(cmd) != 0)
+            return -1;
+    }
+    return 0;
+}
+
+#define NEED_BIN()                                                                                 \
+    do {                                                                                           \
+        if (!bin || !bin[0])                                                                       \
+            skip();                                                                                \
+    } while (0)
+
+/* Splits a CSV line (no quoted commas in the fields used here) into fields. */
+static size_t fields(char *line, char **f, size_t cap)
+{
+    size_t n = 0;
+    char *s = line;
+    while (n < cap) {
+        f[n++] = s;
+        char *c = strchr(s, ',');
+        if (!c)
+            break;
+        *c = '\0';
+        s = c + 1;
+    }
+    return n;
+}
+
+static char *next_line(char **cur)
+{
+    if (!*cur || !**cur)
+        return NULL;
+    char *s = *cur, *nl = strchr(s, '\n');
+    if (nl) {
+        *nl = '\0';
+        *cur = nl + 1;
+    } else {
+        *cur = s + strlen(s);
+    }
+    return s;
+}
+
+static void test_pass_report(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    assert_int_equal(run("'%s' balance '%s' 2>&1", bin, pass_case), 0);
+    assert_non_null(strstr(out, "CAUTION"));
+    assert_non_null(strstr(out, "ufc-4-159-03"));
+    assert_non_null(strstr(out, "table 3-7"));
+    assert_non_null(strstr(out, "-- intact"));
+    assert_non_null(strstr(out, "-- broken:ne"));
+    assert_non_null(strstr(out, "-- broken:se"));
+    assert_null(strstr(out, "FAIL"));
+    /* wind 1/2 x 1.225 x 1.1 x 96 x 14.5^2 = 13.6 kN toward 90 deg (drag law, hand calculation) */
+    assert_non_null(strstr(out, "13.6 kN toward 90.0 deg"));
+    /* the caution comes with each load case's results */
+    const char *first = strstr(out, "CAUTION"), *second = first ? strstr(first + 1, "CAUTION") : 0;
+    assert_non_null(second);
+}
+
+static void test_pass_csv(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    assert_int_equal(run("'%s' balance '%s' --csv - 2>/dev/null", bin, pass_case), 0);
+    char *cur = out, *line = next_line(&cur);
+    assert_non_null(line);
+    const char *head = "load,condition,status,surge_m,sway_m,yaw_deg,max_tension_kN,"
+                       "max_tension_line,max_utilisation,criterion,passed,T_ne_kN,T_nw_kN,"
+                       "T_sw_kN,T_se_kN,";
+    assert_memory_equal(line, head, strlen(head));
+    /* 2 loads x (intact + 4 broken) rows, in order */
+    static const char *const cond[5] = {"intact", "broken:ne", "broken:nw", "broken:sw",
+                                        "broken:se"};
+    for (int k = 0; k < 2; k++)
+        for (int c = 0; c < 5; c++) {
+            line = next_line(&cur);
+            assert_non_null(line);
+            char *f[32];
+            assert_true(fields(line, f, 32) >= 15);
+            assert_string_equal(f[0], k == 0 ? "breeze" : "ebb");
+            assert_string_equal(f[1], cond[c]);
+            assert_string_equal(f[2], "ok");
+            assert_string_equal(f[10], "1");
+            if (c > 0) /* the broken line carries nothing */
+                assert_float_equal(strtod(f[10 + c], NULL), 0.0, 0.0);
+            if (k == 0 && c == 0) {
+                /* wind toward +y on a hull symmetric about y: sway only */
+                assert_true(strtod(f[4], NULL) > 0.0);
+                assert_float_equal(strtod(f[3], NULL), 0.0, 1e-6);
+                assert_float_equal(strtod(f[5], NULL), 0.0, 1e-6);
+                /* >= 8 significant digits in the CSV */
+                assert_true(strlen(f[6]) >= 9);
+            }
+        }
+    assert_null(next_line(&cur));
+}
+
+static void test_load_selection_and_file(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    char csv[400];
+    snprintf(csv, sizeof csv, "%s/ebb.csv", dir);
+    assert_int_equal(run("'%s' balance '%s' --load ebb --csv '%s'", bin, pass_case, csv), 0);
+    assert_non_null(strstr(out, "CAUTION"));
+    assert_null(strstr(out, "breeze"));
+    FILE *f = fopen(csv, "r");
+    assert_non_null(f);
+    int rows = 0, c;
+    while ((c = fgetc(f)) != EOF)
+        rows += c == '\n';
+    fclose(f);
+    assert_int_equal(rows, 1 + 5);
+}
+
+static void test_criterion_fails(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    /* 760 kN toward +x.  Hand bound (statics): the two -x chains (nw, sw)
+     * hold it at cos = 117 / hypot(117, 85.8) = 0.806 to the x axis (the
+     * hull moves a few metres, which changes this by < 1 %), and the slack
+     * +x chains pull the same way as the load, so each carries
+     * H >= 760 / (2 x 0.806 x 1.01) = 467 kN and T >= H: MBL/T <= 1380 / 467
+     * = 2.96 < 3.0, the UFC 4-159-03 intact factor (table 3-7).  Exit 1. */
+    assert_int_equal(run("'%s' balance '%s' 2>&1", bin, fail_case), 1);
+    assert_non_null(strstr(out, "verdict: FAIL (governing: line_factor:"));
+    assert_non_null(strstr(out, "CAUTION"));
+    assert_int_equal(run("'%s' balance '%s' --csv - 2>/dev/null", bin, fail_case), 1);
+    char *cur = out, *line = next_line(&cur);
+    line = next_line(&cur);
+    assert_non_null(line);
+    char *f[32];
+    assert_true(fields(line, f, 32) >= 15);
+    assert_string_equal(f[1], "intact");
+    assert_true(!strcmp(f[9], "line_factor:nw") || !strcmp(f[9], "line_factor:sw"));
+    assert_string_equal(f[10], "0");
+    double t = strtod(f[6], NULL);
+    assert_true(t >= 467.0 && 1380.0 / t < 3.0);
+    /* the tight offset limit always fails, intact included */
+    assert_int_equal(run("'%s' balance '%s' 2>&1", bin, tight_case), 1);
+    assert_non_null(strstr(out, "offset limit"));
+    assert_non_null(strstr(out, "verdict: FAIL (governing: offset)"));
+    assert_non_null(strstr(out, "CAUTION"));
+    assert_int_equal(run("'%s' balance '%s' --csv - 2>/dev/null", bin, tight_case), 1);
+    assert_non_null(strstr(out, "ebb,intact,ok,"));
+    assert_non_null(strstr(out, ",offset,0,"));
+}
+
+static void test_no_equilibrium_exit(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    assert_int_equal(run("'%s' balance '%s' 2>&1", bin, noeq_case), 3);
+    assert_non_null(strstr(out, "no equilibrium"));
+    assert_non_null(strstr(out, "CAUTION"));
+    assert_int_equal(run("'%s' balance '%s' --csv - 2>/dev/null", bin, noeq_case), 3);
+    assert_non_null(strstr(out, "absurd,intact,no equilibrium,,,,,,,equilibrium,0,"));
+}
+
+/* The pontoon with a pile at ne and a gravity block at nw (invented). */
+static const char anchors_text[] =
+    "title: Fictional ferry pontoon Lathe Point, block and pile anchors\n"
+    "site:\n  depth: 18.4 m\n"
+    "components:\n"
+    "  ch: {type: custom, wet_weight: 0.412 kN/m, axial_stiffness: 215 MN,\n"
+    "       breaking_load: 1.38 MN, seabed_friction: 0.7}\n"
+    "lines:\n"
+    "  - {name: ne, anchor: [131.5, 92.0], fairlead: [14.5, 6.2, -0.8], anchor_kind: pile,\n"
+    "     sections: [{component: ch, length: 148.0 m}]}\n"
+    "  - {name: nw, anchor: [-131.5, 92.0], fairlead: [-14.5, 6.2, -0.8], anchor_kind: gravity,\n"
+    "     block_weight: 150 kN, block_friction: 0.45,\n"
+    "     sections: [{component: ch, length: 148.0 m}]}\n"
+    "  - {name: sw, anchor: [-131.5, -92.0], fairlead: [-14.5, -6.2, -0.8],\n"
+    "     sections: [{component: ch, length: 148.0 m}]}\n"
+    "  - {name: se, anchor: [131.5, -92.0], fairlead: [14.5, -6.2, -0.8],\n"
+    "     sections: [{component: ch, length: 148.0 m}]}\n"
+    "loads:\n"
+    "  - {name: ebb, force: 42.5 kN, direction: 200 deg}\n";
+
+static void test_anchor_kinds_report(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    char path[400];
+    snprintf(path, sizeof path, "%s/anchors.yaml", dir);
+    write_file(path, anchors_text);
+    /* With ne broken the hull drifts away from it, loading nw, and the light block
+     * there slides (factor below 1): exit 1, governed by that anchor. */
+    assert_int_equal(run("'%s' balance '%s' 2>&1", bin, path), 1);
+    assert_non_null(strstr(out, "verdict: FAIL (governing: anchor:nw)"));
+    /* intact block of nw: the report's factors agree with the statics
+     * mu (W - V) / H and W / V (REFERENCE.md section 4) from its own H and V */
+    char *p = strstr(out, "\n    nw                 gravity");
+    assert_non_null(p);
+    double h, v, ang, slide, lift;
+    assert_int_equal(sscanf(p, " nw gravity %lf %lf %lf sliding %lf, uplift %lf", &h, &v, &ang,
+                            &slide, &lift) >= 4,
+                     1);
+    assert_true(h > 1.0);
+    assert_float_equal(slide, 0.45 * (150.0 - v) / h, 0.001 + 0.05 / h * slide);
+    /* the pile is reported, not judged */
+    p = strstr(out, "\n    ne                 pile");
+    assert_non_null(p);
+    assert_non_null(strstr(p, "reported only"));
+}
+
+static void test_usage_errors(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    assert_int_equal(run("'%s' balance '%s' --load gale 2>&1", bin, pass_case), 2);
+    assert_non_null(strstr(out, "breeze"));
+    assert_non_null(strstr(out, "ebb"));
+    assert_int_equal(run("'%s' balance 2>&1", bin), 2);
+    assert_int_equal(run("'%s' balance '%s' --frobnicate 2>&1", bin, pass_case), 2);
+    assert_int_equal(run("'%s' balance '%s' --load 2>&1", bin, pass_case), 2);
+    assert_int_equal(run("'%s' balance '%s/missing.yaml' 2>&1", bin, dir), 2);
+    assert_int_equal(
+        run("'%s' balance '%s' --csv '%s/no/such/dir/x.csv' 2>&1", bin, pass_case, dir), 2);
+    assert_int_equal(run("'%s' balance --help", bin), 0);
+    assert_non_null(strstr(out, "usage: holdfast balance"));
+}
+
+int main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_pass_report),
+        cmocka_unit_test(test_pass_csv),
+        cmocka_unit_test(test_load_selection_and_file),
+        cmocka_unit_test(test_criterion_fails),
+        cmocka_unit_test(test_no_equilibrium_exit),
+        cmocka_unit_test(test_anchor_kinds_report),
+        cmocka_unit_test(test_usage_errors),
+    };
+    return cmocka_run_group_tests(tests, setup, teardown);
+}

@@ -1,0 +1,378 @@
+/* test_criteria.c - criteria module: presets and sources, factor arithmetic, anchor checks. */
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <stdint.h>
+#include <cmocka.h>
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+#include "holdfast/criteria.h"
+
+#define DEG (M_PI / 180.0)
+
+static void criteria_blank(hf_criteria *c, hf_analysis_kind kind)
+{
+    memset(c, 0, sizeof *c);
+    c->analysis = kind;
+    c->max_offset = 17.25;
+}
+
+/* Applies preset `name` and checks the two factors to 1e-12. */
+static void expect_preset(const char *name, hf_analysis_kind kind, double intact, double damaged)
+{
+    hf_criteria c;
+    hf_error e;
+    criteria_blank(&c, kind);
+    assert_int_equal(hf_criteria_preset_apply(&c, name, &e), HF_OK);
+    assert_float_equal(c.factor_intact, intact, 1e-12);
+    assert_float_equal(c.factor_damaged, damaged, 1e-12);
+    assert_non_null(c.source);
+    assert_true(strlen(c.source) > 20);
+    assert_float_equal(c.max_offset, 17.25, 0.0); /* untouched */
+    assert_null(c.preset);                        /* untouched: the caller owns it */
+}
+
+static void test_api_rp_2sk(void **state)
+{
+    (void)state;
+    /* API RP 2SK 3rd ed. (2005), line tension safety factors (from memory,
+     * REFERENCE.md section 4): quasi-static 2.00 intact / 1.43 one line
+     * broken; dynamic 1.67 / 1.25. */
+    expect_preset("api-rp-2sk", HF_ANALYSIS_QUASI_STATIC, 2.00, 1.43);
+    expect_preset("api-rp-2sk", HF_ANALYSIS_DYNAMIC, 1.67, 1.25);
+    const hf_criteria_preset *p = hf_criteria_preset_find("api-rp-2sk");
+    assert_non_null(p);
+    assert_int_equal(p->from_memory, 1);
+    assert_non_null(strstr(p->source, "from memory"));
+    assert_non_null(strstr(p->source, "API RP 2SK"));
+}
+
+static void test_iso_19901_7(void **state)
+{
+    (void)state;
+    /* ISO 19901-7 mirrors API RP 2SK's line factors (from memory). */
+    expect_preset("iso-19901-7", HF_ANALYSIS_QUASI_STATIC, 2.00, 1.43);
+    expect_preset("iso-19901-7", HF_ANALYSIS_DYNAMIC, 1.67, 1.25);
+    const hf_criteria_preset *p = hf_criteria_preset_find("iso-19901-7");
+    assert_non_null(strstr(p->source, "ISO 19901-7"));
+    assert_non_null(strstr(p->source, "from memory"));
+}
+
+static void test_dnv(void **state)
+{
+    (void)state;
+    /* DNV-OS-E301 ULS partial factors (from memory, REFERENCE.md section 4):
+     * CC1 mean 1.10 / dynamic 1.50, CC2 1.40 / 2.10, capacity 0.95 MBL; ALS
+     * (one line broken) 1.00 / 1.10 (from memory).  holdfast takes the whole
+     * quasi-static tension as dynamic: required MBL/T = gamma_dyn / 0.95:
+     *   CC1 intact 1.50 / 0.95 = 1.5789473684..., CC2 2.10 / 0.95 = 2.2105263157...,
+     *   ALS 1.10 / 0.95 = 1.1578947368... */
+    expect_preset("dnv-cc1", HF_ANALYSIS_QUASI_STATIC, 1.5789473684210527, 1.1578947368421053);
+    expect_preset("dnv-cc2", HF_ANALYSIS_QUASI_STATIC, 2.2105263157894737, 1.1578947368421053);
+    /* the analysis kind does not change the DNV equivalents (documented) */
+    expect_preset("dnv-cc2", HF_ANALYSIS_DYNAMIC, 2.2105263157894737, 1.1578947368421053);
+    const hf_criteria_preset *p1 = hf_criteria_preset_find("dnv-cc1");
+    const hf_criteria_preset *p2 = hf_criteria_preset_find("dnv-cc2");
+    /* the raw partial factors stay visible */
+    assert_float_equal(p1->gamma_mean, 1.10, 0.0);
+    assert_float_equal(p1->gamma_dyn, 1.50, 0.0);
+    assert_float_equal(p2->gamma_mean, 1.40, 0.0);
+    assert_float_equal(p2->gamma_dyn, 2.10, 0.0);
+    assert_float_equal(p2->capacity, 0.95, 0.0);
+    assert_float_equal(p2->gamma_dyn_als, 1.10, 0.0);
+    /* the equivalent is the conservative one: never below the all-mean reading */
+    assert_true(p1->intact_qs > p1->gamma_mean / p1->capacity);
+    assert_true(p2->intact_qs > p2->gamma_mean / p2->capacity);
+    assert_non_null(strstr(p1->source, "from memory"));
+    assert_non_null(strstr(p2->source, "gamma_dyn / 0.95"));
+}
+
+static void test_ufc(void **state)
+{
+    (void)state;
+    /* UFC 4-159-03 (2005) table 3-7 (published): factor 3.0, and with one
+     * member missing at least 75 % of the intact factor: 0.75 x 3.0 = 2.25. */
+    expect_preset("ufc-4-159-03", HF_ANALYSIS_QUASI_STATIC, 3.0, 2.25);
+    expect_preset("ufc-4-159-03", HF_ANALYSIS_DYNAMIC, 3.0, 2.25);
+    const hf_criteria_preset *p = hf_criteria_preset_find("ufc-4-159-03");
+    assert_int_equal(p->from_memory, 0);
+    assert_null(strstr(p->source, "from memory"));
+    assert_non_null(strstr(p->source, "table 3-7"));
+    assert_true(p->damaged_qs >= 0.75 * p->intact_qs - 1e-15);
+}
+
+static void test_preset_table(void **state)
+{
+    (void)state;
+    size_t n = hf_criteria_preset_count();
+    assert_int_equal(n, 5);
+    for (size_t i = 0; i < n; i++) {
+        const hf_criteria_preset *p = hf_criteria_preset_at(i);
+        assert_non_null(p);
+        /* every preset is listed in the names text and found by its name */
+        assert_non_null(strstr(HF_CRITERIA_PRESET_NAMES, p->name));
+        assert_ptr_equal(hf_criteria_preset_find(p->name), p);
+        /* every factor is a real safety factor and a damaged one never exceeds intact */
+        assert_true(p->intact_qs >= 1.0 && p->damaged_qs >= 1.0);
+        assert_true(p->damaged_qs <= p->intact_qs);
+        assert_true(p->damaged_dyn <= p->intact_dyn);
+        /* a from-memory preset says so in its source text */
+        assert_int_equal(p->from_memory, strstr(p->source, "from memory") != NULL);
+    }
+    assert_null(hf_criteria_preset_at(n));
+    assert_null(hf_criteria_preset_find(NULL));
+    assert_null(hf_criteria_preset_find("API-RP-2SK")); /* exact names only */
+    assert_null(hf_criteria_preset_find("api-rp-2sk "));
+}
+
+static void test_preset_unknown(void **state)
+{
+    (void)state;
+    hf_criteria c;
+    hf_error e;
+    criteria_blank(&c, HF_ANALYSIS_QUASI_STATIC);
+    c.factor_intact = 2.75;
+    c.factor_damaged = 1.85;
+    assert_int_equal(hf_criteria_preset_apply(&c, "api-2sk", &e), HF_EINVAL);
+    assert_int_equal(e.status, HF_EINVAL);
+    assert_non_null(strstr(e.text, "\"api-2sk\""));
+    for (size_t i = 0; i < hf_criteria_preset_count(); i++)
+        assert_non_null(strstr(e.text, hf_criteria_preset_at(i)->name));
+    /* c unchanged */
+    assert_float_equal(c.factor_intact, 2.75, 0.0);
+    assert_float_equal(c.factor_damaged, 1.85, 0.0);
+    assert_null(c.source);
+    assert_int_equal(hf_criteria_preset_apply(&c, "", &e), HF_EINVAL);
+    assert_int_equal(hf_criteria_preset_apply(&c, NULL, &e), HF_EINVAL);
+    assert_int_equal(hf_criteria_preset_apply(NULL, "api-rp-2sk", NULL), HF_EINVAL);
+}
+
+static void test_criteria_check(void **state)
+{
+    (void)state;
+    hf_criteria c;
+    hf_error e;
+    criteria_blank(&c, HF_ANALYSIS_QUASI_STATIC);
+    assert_int_equal(hf_criteria_check(&c, &e), HF_OK); /* all zero: no checks */
+    c.factor_intact = 2.385;
+    c.factor_damaged = 1.0; /* exactly 1 is allowed */
+    assert_int_equal(hf_criteria_check(&c, &e), HF_OK);
+    c.factor_damaged = 0.97; /* would accept T > MBL */
+    assert_int_equal(hf_criteria_check(&c, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "damaged_factor"));
+    c.factor_damaged = 1.43;
+    c.factor_intact = NAN;
+    assert_int_equal(hf_criteria_check(&c, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "intact_factor"));
+    c.factor_intact = INFINITY;
+    assert_int_equal(hf_criteria_check(&c, &e), HF_EINVAL);
+    c.factor_intact = -2.0;
+    assert_int_equal(hf_criteria_check(&c, &e), HF_EINVAL);
+    c.factor_intact = 2.0;
+    c.max_offset = -0.5;
+    assert_int_equal(hf_criteria_check(&c, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "max_offset"));
+    c.max_offset = strtod("1e309", NULL); /* overflows to inf */
+    assert_int_equal(hf_criteria_check(&c, &e), HF_EINVAL);
+    assert_int_equal(hf_criteria_check(NULL, NULL), HF_EINVAL);
+}
+
+static void test_required(void **state)
+{
+    (void)state;
+    hf_criteria c;
+    criteria_blank(&c, HF_ANALYSIS_QUASI_STATIC);
+    assert_int_equal(hf_criteria_preset_apply(&c, "ufc-4-159-03", NULL), HF_OK);
+    assert_float_equal(hf_criteria_required(&c, 0), 3.0, 0.0);
+    assert_float_equal(hf_criteria_required(&c, 1), 2.25, 0.0);
+    /* a user override after the preset wins (what the case loader does) */
+    c.factor_damaged = 2.6;
+    assert_float_equal(hf_criteria_required(&c, 7), 2.6, 0.0);
+}
+
+static void test_line_factor_arithmetic(void **state)
+{
+    (void)state;
+    hf_line_criterion r;
+    hf_error e;
+    /* 76 mm R3 studless chain: MBL = 0.0223 d^2 (44 - 0.08 d) kN = 4884.2 kN
+     * (DNV-OS-E302 / IACS UR W22 formula, REFERENCE.md section 3):
+     * 0.0223 x 5776 x 37.92 = 4884.278016 kN.  At T = 2138.7 kN:
+     * factor 4884.278016 / 2138.7 = 2.283760236, utilisation 0.4378743374 */
+    double mbl = 0.0223 * 76.0 * 76.0 * (44.0 - 0.08 * 76.0) * 1e3;
+    assert_float_equal(mbl, 4884278.016, 1e-3);
+    assert_int_equal(hf_criteria_line_evaluate(2.1387e6, mbl, 2.00, &r, &e), HF_OK);
+    assert_float_equal(r.factor, 4884278.016 / 2.1387e6, 1e-12);
+    assert_float_equal(r.factor, 2.283760236, 1e-8);
+    assert_float_equal(r.utilisation, 0.4378743374, 1e-9);
+    assert_true(r.checked && r.passed && r.has_factor);
+    /* the same tension fails API's 2.00 -> UFC's 3.0 */
+    assert_int_equal(hf_criteria_line_evaluate(2.1387e6, mbl, 3.0, &r, &e), HF_OK);
+    assert_true(r.checked && !r.passed);
+    /* boundary: T = MBL / 2 exactly meets a factor of 2 (pass is >=) */
+    assert_int_equal(hf_criteria_line_evaluate(mbl / 2.0, mbl, 2.0, &r, &e), HF_OK);
+    assert_true(r.passed);
+    assert_int_equal(hf_criteria_line_evaluate(mbl / 2.0 * (1.0 + 1e-12), mbl, 2.0, &r, &e), HF_OK);
+    assert_false(r.passed);
+    /* no check requested: never fails, even above MBL */
+    assert_int_equal(hf_criteria_line_evaluate(1.7 * mbl, mbl, 0.0, &r, &e), HF_OK);
+    assert_true(!r.checked && r.passed);
+    assert_float_equal(r.utilisation, 1.7, 1e-15);
+    /* zero and subnormal tension: no factor reported, no Inf */
+    assert_int_equal(hf_criteria_line_evaluate(0.0, mbl, 2.0, &r, &e), HF_OK);
+    assert_true(r.passed && !r.has_factor);
+    assert_float_equal(r.factor, 0.0, 0.0);
+    assert_int_equal(hf_criteria_line_evaluate(4.9e-324, 1e300, 2.0, &r, &e), HF_OK);
+    assert_true(isfinite(r.factor) && r.passed);
+    /* bad input */
+    assert_int_equal(hf_criteria_line_evaluate(NAN, mbl, 2.0, &r, &e), HF_EINVAL);
+    assert_int_equal(hf_criteria_line_evaluate(-1.0, mbl, 2.0, &r, &e), HF_EINVAL);
+    assert_int_equal(hf_criteria_line_evaluate(strtod("1e309", NULL), mbl, 2.0, &r, &e), HF_EINVAL);
+    assert_int_equal(hf_criteria_line_evaluate(1e5, 0.0, 2.0, &r, &e), HF_EINVAL);
+    assert_int_equal(hf_criteria_line_evaluate(1e5, mbl, -2.0, &r, &e), HF_EINVAL);
+    assert_int_equal(hf_criteria_line_evaluate(1e5, mbl, INFINITY, &r, NULL), HF_EINVAL);
+    assert_float_equal(r.factor, 0.0, 0.0); /* zeroed on failure */
+}
+
+static void test_anchor_gravity_block(void **state)
+{
+    (void)state;
+    /* A gravity block, hand calculation (check: sliding when H > mu (W - V),
+     * uplift when V > W, REFERENCE.md section 4; block friction on sand
+     * 0.45-0.60, NAVFAC DM-7.02, from memory):
+     *   W_sub = 312.5 kN, mu = 0.45, H = 85.3 kN, V = 23.7 kN
+     *   sliding  mu (W - V) / H = 0.45 x (312.5 - 23.7) / 85.3
+     *                           = 0.45 x 288.8 / 85.3 = 129.96 / 85.3 = 1.523563892
+     *   uplift   W / V          = 312.5 / 23.7 = 13.18565401
+     *   angle    atan(23.7 / 85.3) = 15.52757528 deg
+     *   load     sqrt(85.3^2 + 23.7^2) = 88.53123742 kN */
+    hf_anchor a = {.kind = HF_ANCHOR_GRAVITY, .weight = 312.5e3, .friction = 0.45};
+    hf_anchor_criterion r;
+    hf_error e;
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, 85.3e3, 23.7e3, HF_CRITERIA_GRAVITY_SLIDING,
+                                                 HF_CRITERIA_GRAVITY_UPLIFT, &r, &e),
+                     HF_OK);
+    assert_float_equal(r.sliding_factor, 1.523563892, 1e-9);
+    assert_float_equal(r.uplift_factor, 13.18565401, 1e-8);
+    assert_float_equal(r.angle / DEG, 15.52757528, 1e-7);
+    assert_float_equal(r.load, 88531.23742, 1e-4);
+    assert_true(r.has_sliding && r.has_uplift && r.checked && r.passed);
+    /* a required sliding factor of 1.5 still passes, 1.6 does not */
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, 85.3e3, 23.7e3, 1.5, 1.0, &r, &e), HF_OK);
+    assert_true(r.passed);
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, 85.3e3, 23.7e3, 1.6, 1.0, &r, &e), HF_OK);
+    assert_false(r.passed);
+    /* H = 140 kN: 129.96 / 140 = 0.928285714 < 1: the block slides */
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, 140e3, 23.7e3, 1.0, 1.0, &r, &e), HF_OK);
+    assert_float_equal(r.sliding_factor, 0.928285714, 1e-9);
+    assert_false(r.passed);
+    /* V = 320 kN > W: lifts off; no normal force, sliding factor 0;
+     * uplift 312.5 / 320 = 0.9765625 */
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, 10e3, 320e3, 1.0, 1.0, &r, &e), HF_OK);
+    assert_float_equal(r.sliding_factor, 0.0, 0.0);
+    assert_float_equal(r.uplift_factor, 0.9765625, 1e-15);
+    assert_false(r.passed);
+    /* nothing pulling: holds, no factors reported (no Inf) */
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, 0.0, 0.0, 1.0, 1.0, &r, &e), HF_OK);
+    assert_true(r.passed && !r.has_sliding && !r.has_uplift);
+    assert_float_equal(r.angle, 0.0, 0.0);
+    /* pure horizontal pull: uplift not reported, sliding 0.45 x 312.5 / 50 = 2.8125 */
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, 50e3, 0.0, 1.0, 1.0, &r, &e), HF_OK);
+    assert_float_equal(r.sliding_factor, 2.8125, 1e-15);
+    assert_true(r.passed && !r.has_uplift);
+    /* bad blocks and factors */
+    hf_anchor bad = a;
+    bad.weight = 0.0;
+    assert_int_equal(hf_criteria_anchor_evaluate(&bad, 1e3, 0.0, 1.0, 1.0, &r, &e), HF_EINVAL);
+    bad = a;
+    bad.friction = -0.1;
+    assert_int_equal(hf_criteria_anchor_evaluate(&bad, 1e3, 0.0, 1.0, 1.0, &r, &e), HF_EINVAL);
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, 1e3, 0.0, 0.0, 1.0, &r, &e), HF_EINVAL);
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, 1e3, 0.0, 1.0, NAN, &r, &e), HF_EINVAL);
+}
+
+static void test_anchor_drag(void **state)
+{
+    (void)state;
+    hf_anchor a = {.kind = HF_ANCHOR_DRAG, .max_uplift_angle = 0.0};
+    hf_anchor_criterion r;
+    hf_error e;
+    /* Drag-embedment anchors: zero uplift angle intact (DNV-RP-E301 scope,
+     * API RP 2SK, from memory). */
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, 612.4e3, 0.0, 1, 1, &r, &e), HF_OK);
+    assert_true(r.checked && r.passed);
+    assert_float_equal(r.angle, 0.0, 0.0);
+    /* V/H = tan(2 deg): fails with no allowance */
+    double h = 612.4e3, v = h * tan(2.0 * DEG);
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, h, v, 1, 1, &r, &e), HF_OK);
+    assert_float_equal(r.angle / DEG, 2.0, 1e-12);
+    assert_false(r.passed);
+    /* allowed 3 deg: passes; allowed 1.5 deg: fails */
+    a.max_uplift_angle = 3.0 * DEG;
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, h, v, 1, 1, &r, &e), HF_OK);
+    assert_true(r.passed);
+    assert_float_equal(r.max_angle, 3.0 * DEG, 0.0);
+    a.max_uplift_angle = 1.5 * DEG;
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, h, v, 1, 1, &r, &e), HF_OK);
+    assert_false(r.passed);
+    /* a numerically tiny angle below the tolerance counts as zero */
+    a.max_uplift_angle = 0.0;
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, h, h * 1e-9, 1, 1, &r, &e), HF_OK);
+    assert_true(r.passed);
+    /* vertical pull: 90 deg */
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, 0.0, 5e4, 1, 1, &r, &e), HF_OK);
+    assert_float_equal(r.angle, M_PI / 2, 1e-15);
+    assert_false(r.passed);
+    a.max_uplift_angle = NAN;
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, h, 0.0, 1, 1, &r, &e), HF_EINVAL);
+    a.max_uplift_angle = M_PI / 2;
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, h, 0.0, 1, 1, &r, &e), HF_EINVAL);
+}
+
+static void test_anchor_pile_plate_and_input(void **state)
+{
+    (void)state;
+    hf_anchor_criterion r;
+    hf_error e;
+    hf_anchor p = {.kind = HF_ANCHOR_PILE};
+    /* 3-4-5 triangle: load 5 x 96.25 kN, angle atan(4/3) = 53.130102 deg */
+    assert_int_equal(hf_criteria_anchor_evaluate(&p, 3 * 96.25e3, 4 * 96.25e3, 1, 1, &r, &e),
+                     HF_OK);
+    assert_float_equal(r.load, 5 * 96.25e3, 1e-6);
+    assert_float_equal(r.angle / DEG, 53.13010235, 1e-7);
+    assert_true(!r.checked && r.passed);
+    assert_string_equal(hf_criteria_anchor_kind_name(r.kind), "pile");
+    hf_anchor q = {.kind = HF_ANCHOR_PLATE};
+    assert_int_equal(hf_criteria_anchor_evaluate(&q, 3e5, 7e5, 1, 1, &r, &e), HF_OK);
+    assert_true(!r.checked && r.passed);
+    assert_string_equal(hf_criteria_anchor_kind_name(HF_ANCHOR_PLATE), "plate");
+    assert_string_equal(hf_criteria_anchor_kind_name(HF_ANCHOR_DRAG), "drag");
+    assert_string_equal(hf_criteria_anchor_kind_name(HF_ANCHOR_GRAVITY), "gravity");
+    /* bad forces and kinds */
+    assert_int_equal(hf_criteria_anchor_evaluate(&p, -1.0, 0.0, 1, 1, &r, &e), HF_EINVAL);
+    assert_int_equal(hf_criteria_anchor_evaluate(&p, 1.0, NAN, 1, 1, &r, &e), HF_EINVAL);
+    assert_int_equal(hf_criteria_anchor_evaluate(&p, INFINITY, 0.0, 1, 1, &r, &e), HF_EINVAL);
+    assert_int_equal(hf_criteria_anchor_evaluate(NULL, 1.0, 0.0, 1, 1, &r, &e), HF_EINVAL);
+    hf_anchor k = {.kind = (hf_anchor_kind)17};
+    assert_int_equal(hf_criteria_anchor_evaluate(&k, 1.0, 0.0, 1, 1, &r, NULL), HF_EINVAL);
+}
+
+int main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_api_rp_2sk),
+        cmocka_unit_test(test_iso_19901_7),
+        cmocka_unit_test(test_dnv),
+        cmocka_unit_test(test_ufc),
+        cmocka_unit_test(test_preset_table),
+        cmocka_unit_test(test_preset_unknown),
+        cmocka_unit_test(test_criteria_check),
+        cmocka_unit_test(test_required),
+        cmocka_unit_test(test_line_factor_arithmetic),
+        cmocka_unit_test(test_anchor_gravity_block),
+        cmocka_unit_test(test_anchor_drag),
+        cmocka_unit_test(test_anchor_pile_plate_and_input),
+    };
+    return cmocka_run_group_tests(tests, NULL, NULL);
+}
