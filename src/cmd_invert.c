@@ -1,11 +1,126 @@
-/* cmd_invert.c - 'holdfast invert'.  PLACEHOLDER: not implemented yet. */
+/* cmd_invert.c - 'holdfast invert': the parameter value that meets a target. */
+#include <math.h>
 #include <stdio.h>
+#include <string.h>
+#include "holdfast/alloc.h"
 #include "holdfast/cli.h"
+#include "holdfast/invert.h"
+#include "holdfast/outfile.h"
+#include "holdfast/sweep.h"
+
+static const char usage_text[] =
+    "usage: holdfast invert CASE --vary PATH=LO:HI --target OUTPUT[:LINE]=VALUE\n"
+    "                       [--csv FILE|-]\n"
+    "\n"
+    "Finds the value of one parameter inside [LO, HI] for which an output at the\n"
+    "rest pose equals VALUE (GSL Brent bracketing; met to 1e-6 relative or better).\n"
+    "\n"
+    "  --vary PATH=LO:HI   the parameter and its bracket, e.g.\n"
+    "                      lines[bow].sections[2].length=300:500 or\n"
+    "                      lines[bow].anchor_radius=600m:900m\n"
+    "  --target OUTPUT[:LINE]=VALUE\n"
+    "                      fairlead_tension:LINE, fairlead_horizontal:LINE,\n"
+    "                      fairlead_vertical:LINE, anchor_tension:LINE, utilisation:LINE,\n"
+    "                      max_tension, max_utilisation, stiffness_surge, stiffness_sway,\n"
+    "                      stiffness_heave, stiffness_yaw, vertical_load, offset_<load>;\n"
+    "                      VALUE in SI or with units: 900kN, 45kN/m\n"
+    "  --csv FILE|-        also write the result as CSV (only CSV on stdout with -)\n"
+    "\n"
+    "Exit status: 0 found, 2 bad input, 3 target not reachable in the bracket\n"
+    "(the message gives the outputs at both ends) or no convergence.\n";
 
 int hf_cmd_invert(int argc, char **argv)
 {
-    (void)argc;
-    (void)argv;
-    fprintf(stderr, "holdfast invert: not implemented yet\n");
-    return HF_EXIT_USAGE;
+    const char *case_path = NULL, *vary_text = NULL, *target_text = NULL, *csv = NULL;
+    for (int i = 1; i < argc; i++) {
+        const char *a = argv[i];
+        int more = i + 1 < argc;
+        if (!strcmp(a, "--help") || !strcmp(a, "-h")) {
+            fputs(usage_text, stdout);
+            return HF_EXIT_OK;
+        } else if (!strcmp(a, "--vary") && more && !vary_text) {
+            vary_text = argv[++i];
+        } else if (!strcmp(a, "--target") && more && !target_text) {
+            target_text = argv[++i];
+        } else if (!strcmp(a, "--csv") && more) {
+            csv = argv[++i];
+        } else if (a[0] == '-' && a[1]) {
+            return hf_cli_usage_error("invert", "unknown or repeated option, or missing value: %s",
+                                      a);
+        } else if (!case_path) {
+            case_path = a;
+        } else {
+            return hf_cli_usage_error("invert", "one case file expected, got \"%s\" too", a);
+        }
+    }
+    if (!case_path || !vary_text || !target_text)
+        return hf_cli_usage_error("invert", "expected CASE --vary PATH=LO:HI --target "
+                                            "OUTPUT[:LINE]=VALUE");
+    const char *eq = strrchr(target_text, '=');
+    if (!eq || eq == target_text || !eq[1])
+        return hf_cli_usage_error("invert", "--target: expected OUTPUT[:LINE]=VALUE, got \"%s\"",
+                                  target_text);
+    hf_model m;
+    hf_model_init(&m);
+    hf_vary v;
+    memset(&v, 0, sizeof v);
+    hf_error err;
+    hf_error_clear(&err);
+    hf_outfile *of = NULL;
+    char *oname = NULL;
+    int rc = HF_EXIT_OK;
+    hf_output o;
+    double target;
+    hf_invert_result res;
+    if (hf_cli_load(case_path, &m, &err) != HF_OK ||
+        hf_sweep_vary_parse(&m, vary_text, 1, &v, &err) != HF_OK) {
+        rc = hf_cli_fail(&err);
+        goto done;
+    }
+    oname = hf_strndup(target_text, (size_t)(eq - target_text));
+    if (!oname) {
+        hf_error_set(&err, HF_ENOMEM, "out of memory");
+        rc = hf_cli_fail(&err);
+        goto done;
+    }
+    if (hf_sweep_output_parse(&m, oname, &o, &err) != HF_OK) {
+        rc = hf_cli_fail(&err);
+        goto done;
+    }
+    hf_error sub;
+    hf_error_clear(&sub);
+    if (hf_units_parse(eq + 1, hf_invert_output_dim(&o), &target, &sub) != HF_OK) {
+        hf_error_set(&err, HF_EINVAL, "--target %s: %s", target_text, sub.text);
+        rc = hf_cli_fail(&err);
+        goto done;
+    }
+    if (hf_invert_solve(&m, v.path, v.from, v.to, &o, target, &res, &err) != HF_OK) {
+        rc = hf_cli_fail(&err);
+        goto done;
+    }
+    if (!csv || strcmp(csv, "-")) {
+        printf("%s = %.10g %s meets %s = %s (relative error %.2g, %d iterations)\n", v.path,
+               v.dim == HF_DIM_ANGLE ? res.value * 180.0 / M_PI : res.value,
+               v.dim == HF_DIM_ANGLE ? "deg" : hf_dim_si(v.dim), oname, eq + 1,
+               res.relative_error, res.iterations);
+        fputs(hf_cli_caution, stdout);
+    }
+    if (csv) {
+        of = hf_outfile_open(csv, &err);
+        if (!of || hf_invert_write_csv(hf_outfile_stream(of), &m, v.path, &o, target, &res,
+                                       &err) != HF_OK) {
+            rc = hf_cli_fail(&err);
+            goto done;
+        }
+        hf_status st = hf_outfile_commit(of, &err);
+        of = NULL;
+        if (st != HF_OK)
+            rc = hf_cli_fail(&err);
+    }
+done:
+    hf_outfile_abort(of);
+    hf_free(oname);
+    hf_sweep_vary_clear(&v);
+    hf_model_free(&m);
+    return rc;
 }

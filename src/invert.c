@@ -1,0 +1,281 @@
+/* invert.c - design inversion with GSL's Brent bracketing root solver. */
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+#include <gsl/gsl_errno.h>
+#include <gsl/gsl_roots.h>
+#include "holdfast/alloc.h"
+#include "holdfast/balance.h"
+#include "holdfast/csv.h"
+#include "holdfast/invert.h"
+#include "holdfast/spread.h"
+
+hf_dim hf_invert_output_dim(const hf_output *o)
+{
+    switch (o->kind) {
+    case HF_OUT_UTILISATION:
+    case HF_OUT_MAX_UTILISATION:
+        return HF_DIM_NONE;
+    case HF_OUT_STIFFNESS_SURGE:
+    case HF_OUT_STIFFNESS_SWAY:
+    case HF_OUT_STIFFNESS_HEAVE:
+        return HF_DIM_FORCE_PER_LENGTH;
+    case HF_OUT_STIFFNESS_YAW:
+        return HF_DIM_MOMENT;
+    case HF_OUT_OFFSET:
+        return HF_DIM_LENGTH;
+    default:
+        return HF_DIM_FORCE;
+    }
+}
+
+/* Column unit of an output and the factor from SI to it. */
+static const char *out_unit(const hf_output *o, double *scale)
+{
+    *scale = 1e-3;
+    switch (hf_invert_output_dim(o)) {
+    case HF_DIM_NONE:
+        *scale = 1.0;
+        return "-";
+    case HF_DIM_FORCE_PER_LENGTH:
+        return "kN/m";
+    case HF_DIM_MOMENT:
+        return "kN m/rad";
+    case HF_DIM_LENGTH:
+        *scale = 1.0;
+        return "m";
+    default:
+        return "kN";
+    }
+}
+
+typedef struct {
+    hf_model model;        /* own copy */
+    const hf_model *base;
+    hf_param param;
+    hf_spread *ws;
+    hf_balance *bal;
+    const hf_output *o;
+    double target;
+    hf_status failed;      /* first failure inside the solver, HF_OK if none */
+    double failed_at;
+    hf_error err;
+} problem;
+
+/* Output at parameter value x, SI.  The anchors go back to the case's
+ * positions first so anchor_radius moves along the case's own direction. */
+static hf_status output_at(problem *p, double x, double *y)
+{
+    for (size_t i = 0; i < p->model.nlines; i++) {
+        p->model.lines[i].anchor[0] = p->base->lines[i].anchor[0];
+        p->model.lines[i].anchor[1] = p->base->lines[i].anchor[1];
+    }
+    hf_status st = hf_model_param_set(&p->model, &p->param, x, &p->err);
+    if (st != HF_OK)
+        return st;
+    return hf_sweep_output_eval(&p->model, p->ws, p->bal, p->o, y, &p->err);
+}
+
+static double gsl_fn(double x, void *params)
+{
+    problem *p = params;
+    double y = 0.0;
+    hf_status st = output_at(p, x, &y);
+    if (st != HF_OK) {
+        if (p->failed == HF_OK) {
+            p->failed = st;
+            p->failed_at = x;
+        }
+        return 0.0; /* the caller checks p->failed after every iteration */
+    }
+    return y - p->target;
+}
+
+void hf_invert_target_text(const char *output, const char *line, char *buf, size_t cap)
+{
+    snprintf(buf, cap, "%s%s%s", output ? output : "", line ? ":" : "", line ? line : "");
+}
+
+static void describe(const problem *p, char *buf, size_t cap, double y)
+{
+    double scale;
+    const char *u = out_unit(p->o, &scale);
+    snprintf(buf, cap, "%.10g %s", y * scale, strcmp(u, "-") ? u : "");
+}
+
+hf_status hf_invert_solve(const hf_model *m, const char *path, double lo, double hi,
+                          const hf_output *o, double target, hf_invert_result *res,
+                          hf_error *err)
+{
+    memset(res, 0, sizeof *res);
+    if (!m || !path || !o)
+        return hf_error_set(err, HF_EINVAL, "invert: no model, path or output");
+    if (!hf_sweep_output_is_scalar(o))
+        return hf_error_set(err, HF_EINVAL,
+                            "invert: the target %s must be one value (give :LINE for a per-line "
+                            "output)",
+                            hf_sweep_output_name(o->kind));
+    if (!isfinite(lo) || !isfinite(hi) || !(lo < hi))
+        return hf_error_set(err, HF_EINVAL, "invert: %s: expected a bracket LO < HI, got %g:%g",
+                            path, lo, hi);
+    if (!isfinite(target))
+        return hf_error_set(err, HF_EINVAL, "invert: the target value must be finite");
+    problem p;
+    memset(&p, 0, sizeof p);
+    p.base = m;
+    p.o = o;
+    p.target = target;
+    hf_model_init(&p.model);
+    gsl_root_fsolver *solver = NULL;
+    hf_status st = HF_OK;
+    if (hf_model_copy(&p.model, m) != HF_OK) {
+        st = hf_error_set(err, HF_ENOMEM, "out of memory copying the model");
+        goto done;
+    }
+    st = hf_model_param_lookup(&p.model, path, &p.param, err);
+    if (st != HF_OK)
+        goto done;
+    p.ws = hf_spread_alloc(&p.model, err);
+    if (!p.ws) {
+        st = err ? err->status : HF_ENOMEM;
+        goto done;
+    }
+    if (o->kind == HF_OUT_OFFSET) {
+        p.bal = hf_balance_alloc(&p.model, err);
+        if (!p.bal) {
+            st = err ? err->status : HF_ENOMEM;
+            goto done;
+        }
+    }
+    res->lo = lo;
+    res->hi = hi;
+    char a[96], b[96], t[96];
+    describe(&p, t, sizeof t, target);
+    double ends[2] = {lo, hi}, f[2];
+    for (int i = 0; i < 2; i++) {
+        hf_spread_reset(p.ws);
+        hf_status s = output_at(&p, ends[i], &f[i]);
+        if (s != HF_OK) {
+            st = hf_error_set(err, HF_ERANGE,
+                              "invert: %s = %.10g (%s end of the bracket): the case does not "
+                              "solve there (%s); choose a bracket where it does",
+                              path, ends[i], i ? "upper" : "lower", p.err.text);
+            goto done;
+        }
+    }
+    res->f_lo = f[0];
+    res->f_hi = f[1];
+    describe(&p, a, sizeof a, f[0]);
+    describe(&p, b, sizeof b, f[1]);
+    double g0 = f[0] - target, g1 = f[1] - target;
+    if ((g0 > 0 && g1 > 0) || (g0 < 0 && g1 < 0)) {
+        st = hf_error_set(err, HF_ERANGE,
+                          "invert: the target %s = %s is not reached for %s in [%.10g, %.10g]: "
+                          "it gives %s at %.10g and %s at %.10g; widen or move the bracket",
+                          hf_sweep_output_name(o->kind), t, path, lo, hi, a, lo, b, hi);
+        goto done;
+    }
+    double scale = fmax(fabs(target), fmax(fabs(f[0]), fabs(f[1])));
+    double ref = target != 0.0 ? fabs(target) : scale;
+    double root;
+    if (g0 == 0.0 || g1 == 0.0) {
+        root = g0 == 0.0 ? lo : hi;
+    } else {
+        solver = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
+        if (!solver) {
+            st = hf_error_set(err, HF_ENOMEM, "out of memory for the root solver");
+            goto done;
+        }
+        gsl_function fn = {gsl_fn, &p};
+        gsl_root_fsolver_set(solver, &fn, lo, hi);
+        int it = 0, done_iter = 0;
+        root = 0.5 * (lo + hi);
+        while (!done_iter && it < HF_INVERT_MAX_ITER) {
+            it++;
+            gsl_root_fsolver_iterate(solver);
+            if (p.failed != HF_OK) {
+                st = hf_error_set(err, HF_ENOCONV,
+                                  "invert: %s = %.10g inside the bracket: the case does not "
+                                  "solve there (%s)",
+                                  path, p.failed_at, p.err.text);
+                goto done;
+            }
+            root = gsl_root_fsolver_root(solver);
+            double xl = gsl_root_fsolver_x_lower(solver), xu = gsl_root_fsolver_x_upper(solver);
+            double y;
+            if (output_at(&p, root, &y) == HF_OK && fabs(y - target) <= 1e-3 * HF_INVERT_RTOL * ref)
+                done_iter = 1;
+            else if (gsl_root_test_interval(xl, xu, 0.0, 1e-14) == GSL_SUCCESS)
+                done_iter = 1;
+        }
+        res->iterations = it;
+    }
+    /* Verify from a cold start: the value must meet the target on its own. */
+    hf_spread_reset(p.ws);
+    double y;
+    hf_status s = output_at(&p, root, &y);
+    if (s != HF_OK) {
+        st = hf_error_set(err, HF_ENOCONV, "invert: %s = %.10g: the case does not solve (%s)",
+                          path, root, p.err.text);
+        goto done;
+    }
+    res->value = root;
+    res->achieved = y;
+    res->relative_error = fabs(y - target) / ref;
+    if (!(res->relative_error <= HF_INVERT_RTOL)) {
+        describe(&p, a, sizeof a, y);
+        st = hf_error_set(err, HF_ENOCONV,
+                          "invert: %s = %.10g gives %s, %.3g relative to the target %s; the "
+                          "output may jump there (a regime change) - narrow the bracket",
+                          path, root, a, res->relative_error, t);
+        goto done;
+    }
+    st = HF_OK;
+done:
+    if (solver)
+        gsl_root_fsolver_free(solver);
+    hf_balance_free(p.bal);
+    hf_spread_free(p.ws);
+    hf_model_free(&p.model);
+    return st;
+}
+
+hf_status hf_invert_write_csv(FILE *out, const hf_model *m, const char *path,
+                              const hf_output *o, double target, const hf_invert_result *res,
+                              hf_error *err)
+{
+    hf_model copy;
+    hf_param p;
+    hf_dim d = HF_DIM_NONE;
+    hf_model_init(&copy);
+    /* The parameter's dimension, looked up on a copy (lookup needs a mutable model). */
+    if (hf_model_copy(&copy, m) == HF_OK && hf_model_param_lookup(&copy, path, &p, NULL) == HF_OK)
+        d = p.dim;
+    hf_model_free(&copy);
+    double scale, vs = d == HF_DIM_ANGLE ? 180.0 / M_PI : 1.0;
+    const char *u = out_unit(o, &scale);
+    char name[2 * HF_MODEL_MAX_NAME + 32];
+    if (hf_sweep_output_is_scalar(o) && o->kind <= HF_OUT_UTILISATION)
+        snprintf(name, sizeof name, "%s:%s", hf_sweep_output_name(o->kind), m->lines[o->line].name);
+    else if (o->kind == HF_OUT_OFFSET)
+        snprintf(name, sizeof name, "offset_%s", m->loads[o->load].name);
+    else
+        snprintf(name, sizeof name, "%s", hf_sweep_output_name(o->kind));
+    hf_csv c;
+    hf_csv_init(&c, out, 0);
+    hf_csv_header(&c, "parameter", "value", "value_unit", "output", "target", "achieved",
+                  "output_unit", "relative_error", "iterations", NULL);
+    hf_csv_field_str(&c, path);
+    hf_csv_field_double(&c, res->value * vs);
+    hf_csv_field_str(&c, d == HF_DIM_ANGLE ? "deg" : (*hf_dim_si(d) ? hf_dim_si(d) : "-"));
+    hf_csv_field_str(&c, name);
+    hf_csv_field_double(&c, target * scale);
+    hf_csv_field_double(&c, res->achieved * scale);
+    hf_csv_field_str(&c, u);
+    hf_csv_field_double(&c, res->relative_error);
+    hf_csv_field_long(&c, res->iterations);
+    hf_csv_end_row(&c);
+    if (ferror(out))
+        return hf_error_set(err, HF_EIO, "writing the inversion result failed");
+    return HF_OK;
+}

@@ -1,0 +1,277 @@
+/* study.c - case spaces (grid, zip), shards and the ordered parallel row stream. */
+#include <errno.h>
+#include <math.h>
+#include <omp.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include "holdfast/alloc.h"
+#include "holdfast/study.h"
+
+size_t hf_study_vary_count(const hf_vary *v)
+{
+    if (v->nvalues > 0)
+        return v->nvalues;
+    double span = v->to - v->from;
+    if (!isfinite(v->from) || !isfinite(v->to) || !isfinite(v->step) || v->step == 0.0)
+        return 0;
+    if (span != 0.0 && (span > 0) != (v->step > 0))
+        return 0;
+    /* Same rule as hf_cli_parse_range: TO is included when it lies on the grid
+     * up to rounding (1e-9 of a step). */
+    double n = floor(span / v->step + 1e-9) + 1.0;
+    if (!(n >= 1.0))
+        return 0;
+    if (n > (double)HF_STUDY_MAX_VALUES)
+        return (size_t)HF_STUDY_MAX_VALUES + 1;
+    return (size_t)n;
+}
+
+double hf_study_vary_value(const hf_vary *v, size_t i)
+{
+    if (v->nvalues > 0)
+        return v->values[i];
+    return v->from + (double)i * v->step;
+}
+
+hf_status hf_study_grid_init(hf_study_grid *g, const hf_vary *vary, size_t nvary, int zip,
+                             hf_error *err)
+{
+    memset(g, 0, sizeof *g);
+    if (nvary == 0 || !vary)
+        return hf_error_set(err, HF_EINVAL, "a sweep needs at least one varied parameter");
+    if (nvary > HF_STUDY_MAX_VARY)
+        return hf_error_set(err, HF_ELIMIT, "%zu varied parameters; the limit is %d", nvary,
+                            HF_STUDY_MAX_VARY);
+    g->nvary = nvary;
+    g->vary = vary;
+    g->zip = zip ? 1 : 0;
+    uint64_t total = 1;
+    for (size_t j = 0; j < nvary; j++) {
+        size_t c = hf_study_vary_count(&vary[j]);
+        const char *path = vary[j].path ? vary[j].path : "?";
+        if (c == 0)
+            return hf_error_set(err, HF_EINVAL,
+                                "%s: the range %.10g:%.10g:%.10g is empty or invalid (STEP must "
+                                "be non-zero and point from FROM to TO)",
+                                path, vary[j].from, vary[j].to, vary[j].step);
+        if (c > HF_STUDY_MAX_VALUES)
+            return hf_error_set(err, HF_ELIMIT, "%s: more than %u values; the limit is %u", path,
+                                HF_STUDY_MAX_VALUES, HF_STUDY_MAX_VALUES);
+        for (size_t i = 0; i < vary[j].nvalues; i++)
+            if (!isfinite(vary[j].values[i]))
+                return hf_error_set(err, HF_EINVAL, "%s: value %zu is not a finite number", path,
+                                    i + 1);
+        g->count[j] = c;
+        if (g->zip) {
+            if (c != g->count[0])
+                return hf_error_set(err, HF_EINVAL,
+                                    "zipped parameters need equal numbers of values: %s has %zu, "
+                                    "%s has %zu",
+                                    vary[0].path ? vary[0].path : "?", g->count[0], path, c);
+            total = c;
+        } else {
+            if (total > HF_STUDY_MAX_CASES / c)
+                return hf_error_set(err, HF_ELIMIT,
+                                    "the grid has more than %llu cases (the limit); use --zip, "
+                                    "fewer values or split the study",
+                                    (unsigned long long)HF_STUDY_MAX_CASES);
+            total *= c;
+        }
+    }
+    g->ncases = total;
+    return HF_OK;
+}
+
+void hf_study_grid_index(const hf_study_grid *g, uint64_t k, size_t *idx)
+{
+    if (g->zip) {
+        for (size_t j = 0; j < g->nvary; j++)
+            idx[j] = (size_t)k;
+        return;
+    }
+    /* Mixed-radix digits of k, the last parameter fastest. */
+    for (size_t j = g->nvary; j-- > 0;) {
+        idx[j] = (size_t)(k % g->count[j]);
+        k /= g->count[j];
+    }
+}
+
+void hf_study_grid_values(const hf_study_grid *g, uint64_t k, double *values)
+{
+    size_t idx[HF_STUDY_MAX_VARY];
+    hf_study_grid_index(g, k, idx);
+    for (size_t j = 0; j < g->nvary; j++)
+        values[j] = hf_study_vary_value(&g->vary[j], idx[j]);
+}
+
+void hf_study_shard_range(uint64_t total, unsigned k, unsigned n, uint64_t *begin, uint64_t *end)
+{
+    /* Balanced split without overflow: the first total % n shards get one more. */
+    uint64_t q = total / n, r = total % n;
+    uint64_t i = k - 1u;
+    *begin = q * i + (i < r ? i : r);
+    *end = *begin + q + (i < r ? 1 : 0);
+}
+
+static int parse_uint(const char *s, const char **end, unsigned long *out)
+{
+    if (*s < '0' || *s > '9')
+        return 0;
+    char *e;
+    errno = 0;
+    unsigned long v = strtoul(s, &e, 10);
+    if (errno == ERANGE)
+        return 0;
+    *out = v;
+    *end = e;
+    return 1;
+}
+
+hf_status hf_study_shard_parse(const char *text, unsigned *k, unsigned *n, hf_error *err)
+{
+    unsigned long a, b;
+    const char *p = text;
+    if (!parse_uint(p, &p, &a) || *p != '/' || !parse_uint(p + 1, &p, &b) || *p != '\0' ||
+        a < 1 || a > b || b > HF_STUDY_MAX_SHARDS)
+        return hf_error_set(err, HF_EINVAL,
+                            "--shard: expected K/N with whole numbers 1 <= K <= N <= %u, got "
+                            "\"%s\"",
+                            HF_STUDY_MAX_SHARDS, text);
+    *k = (unsigned)a;
+    *n = (unsigned)b;
+    return HF_OK;
+}
+
+int hf_study_format_number(char *buf, size_t cap, double v)
+{
+    if (v == 0.0)
+        v = 0.0; /* -0 prints as 0 */
+    return snprintf(buf, cap, "%.10g", v);
+}
+
+int hf_study_default_jobs(void)
+{
+    int n = omp_get_num_procs();
+    return n >= 1 ? n : 1;
+}
+
+/* One block: chains of HF_STUDY_CHAIN cases aligned on absolute case
+ * numbers, evaluated in parallel, each row into its own slot. */
+typedef struct {
+    uint64_t b0, b1;      /* cases of the block (emitted) */
+    char *buf;            /* block * row_cap */
+    int *len;             /* block row lengths */
+    char *scratch;        /* jobs * row_cap, for cases that rebuild a chain */
+    size_t row_cap;
+    void **states;
+    hf_study_row_fn row;
+    int jobs;
+} block_job;
+
+static int run_block(const block_job *b)
+{
+    uint64_t c0 = b->b0 / HF_STUDY_CHAIN;
+    uint64_t c1 = (b->b1 + HF_STUDY_CHAIN - 1) / HF_STUDY_CHAIN;
+    long nchains = (long)(c1 - c0);
+    int overflow = 0;
+#pragma omp parallel for schedule(dynamic, 1) num_threads(b->jobs) reduction(| : overflow)
+    for (long c = 0; c < nchains; c++) {
+        int t = omp_get_thread_num();
+        uint64_t k = ((uint64_t)c + c0) * HF_STUDY_CHAIN;
+        uint64_t kend = k + HF_STUDY_CHAIN;
+        if (kend > b->b1)
+            kend = b->b1;
+        for (; k < kend; k++) {
+            int start = (k % HF_STUDY_CHAIN) == 0;
+            if (k < b->b0) {
+                /* Rebuild the warm start of a chain cut by the stream's start. */
+                b->row(b->states[t], k, start, 0, b->scratch + (size_t)t * b->row_cap,
+                       b->row_cap);
+                continue;
+            }
+            char *slot = b->buf + (size_t)(k - b->b0) * b->row_cap;
+            int n = b->row(b->states[t], k, start, 1, slot, b->row_cap);
+            if (n < 0 || (size_t)n >= b->row_cap) {
+                overflow = 1;
+                n = 0;
+            }
+            b->len[k - b->b0] = n;
+        }
+    }
+    return overflow;
+}
+
+hf_status hf_study_stream(uint64_t begin, uint64_t end, void **states, hf_study_row_fn row,
+                          const hf_study_stream_options *opt, FILE *out, hf_error *err)
+{
+    if (!opt || opt->jobs < 1 || opt->row_cap < 2 || !states || !row || !out || begin > end)
+        return hf_error_set(err, HF_EINVAL, "hf_study_stream: invalid arguments");
+    size_t block = opt->block;
+    if (block == 0) {
+        /* Few, large blocks: each ends with a barrier, and on a busy machine
+         * a descheduled thread holds every other one there. */
+        block = ((size_t)4 << 20) / opt->row_cap;
+        if (block < 256)
+            block = 256;
+        if (block > 16384)
+            block = 16384;
+    }
+    block = (block + HF_STUDY_CHAIN - 1) / HF_STUDY_CHAIN * HF_STUDY_CHAIN;
+    if (opt->row_cap > ((size_t)1 << 40) / block)
+        return hf_error_set(err, HF_ELIMIT, "rows of %zu bytes are too long to buffer",
+                            opt->row_cap);
+    block_job b = {0};
+    b.row_cap = opt->row_cap;
+    b.states = states;
+    b.row = row;
+    b.jobs = opt->jobs;
+    b.buf = hf_malloc(block * opt->row_cap);
+    b.len = hf_calloc(block, sizeof *b.len);
+    b.scratch = hf_malloc((size_t)opt->jobs * opt->row_cap);
+    hf_status st = HF_OK;
+    if (!b.buf || !b.len || !b.scratch) {
+        st = hf_error_set(err, HF_ENOMEM, "out of memory for a block of %zu rows", block);
+        goto done;
+    }
+    uint64_t total = end - begin;
+    /* The first block starts at the chain holding `begin`, so the chain is
+     * rebuilt from its first case; blocks end on multiples of `block`. */
+    uint64_t s = begin;
+    while (s < end) {
+        if (opt->stop && *opt->stop) {
+            st = hf_error_set(err, HF_EIO, "interrupted");
+            goto done;
+        }
+        uint64_t e = (s / block + 1) * block;
+        if (e > end)
+            e = end;
+        b.b0 = s;
+        b.b1 = e;
+        if (run_block(&b)) {
+            st = hf_error_set(err, HF_ELIMIT,
+                              "a row of the cases %llu..%llu is longer than %zu bytes",
+                              (unsigned long long)s, (unsigned long long)(e - 1), opt->row_cap);
+            goto done;
+        }
+        for (uint64_t k = s; k < e; k++) {
+            size_t n = (size_t)b.len[k - s];
+            if (n && fwrite(b.buf + (size_t)(k - s) * b.row_cap, 1, n, out) != n) {
+                st = hf_error_set(err, HF_EIO, "writing the rows failed: %s", strerror(errno));
+                goto done;
+            }
+        }
+        if (ferror(out)) {
+            st = hf_error_set(err, HF_EIO, "writing the rows failed");
+            goto done;
+        }
+        s = e;
+        if (opt->progress)
+            opt->progress(opt->progress_ctx, s - begin, total);
+    }
+done:
+    hf_free(b.buf);
+    hf_free(b.len);
+    hf_free(b.scratch);
+    return st;
+}

@@ -1,0 +1,587 @@
+/* test_cmd_study.c - 'holdfast sweep', 'invert' and 'run' as a user runs them:
+ * thread-independent bytes, shards, interruption, bounded memory, exit codes. */
+#include <dirent.h>
+#include <errno.h>
+#include <fcntl.h>
+#include <math.h>
+#include <setjmp.h>
+#include <signal.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/resource.h>
+#include <sys/stat.h>
+#include <sys/types.h>
+#include <sys/wait.h>
+#include <time.h>
+#include <unistd.h>
+#include <cmocka.h>
+
+/* wait4 is BSD/GNU, not X/Open: declared here (glibc provides it). */
+pid_t wait4(pid_t pid, int *status, int options, struct rusage *rusage);
+
+static const char *bin;
+static char dir[256];
+static const char *watch; /* directory where run() waits for a temporary file */
+
+static int count_named(const char *d, const char *part);
+
+/* Fictional three-line buoy mooring (invented site): three sections and a
+ * clump per line, one load case, studies of every kind. */
+static const char case_head[] =
+    "title: Tri-line buoy at Quarrel Point (fictional)\n"
+    "site: {depth: 62 m}\n"
+    "components:\n"
+    "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n"
+    "  wire64: {type: spiral_strand, diameter: 64 mm}\n"
+    "lines:\n"
+    "  - name: north\n"
+    "    anchor: [0 m, 420 m]\n"
+    "    fairlead: [0 m, 4 m, -8 m]\n"
+    "    sections: [{component: chain76, length: 160 m}, {clump: 60 kN},\n"
+    "               {component: wire64, length: 160 m}, {component: chain76, length: 112 m}]\n"
+    "  - name: southwest\n"
+    "    anchor: [-363.7 m, -210 m]\n"
+    "    fairlead: [-3.46 m, -2 m, -8 m]\n"
+    "    sections: [{component: chain76, length: 160 m}, {clump: 60 kN},\n"
+    "               {component: wire64, length: 160 m}, {component: chain76, length: 112 m}]\n"
+    "  - name: southeast\n"
+    "    anchor: [363.7 m, -210 m]\n"
+    "    fairlead: [3.46 m, -2 m, -8 m]\n"
+    "    sections: [{component: chain76, length: 160 m}, {clump: 60 kN},\n"
+    "               {component: wire64, length: 160 m}, {component: chain76, length: 112 m}]\n"
+    "loads:\n"
+    "  - {name: gale, force: 400 kN, direction: 30 deg}\n"
+    "criteria: {preset: api-rp-2sk}\n";
+
+static void write_file(const char *path, const char *a, const char *b)
+{
+    FILE *f = fopen(path, "w");
+    assert_non_null(f);
+    fputs(a, f);
+    if (b)
+        fputs(b, f);
+    assert_int_equal(fclose(f), 0);
+}
+
+/* dir/name in one of 8 rotating buffers: copy it when it must live longer. */
+static char *path_in(const char *name)
+{
+    static char buf[8][512];
+    static int i;
+    i = (i + 1) % 8;
+    snprintf(buf[i], sizeof buf[i], "%s/%s", dir, name);
+    return buf[i];
+}
+
+/* Runs holdfast with args (NULL-terminated), stdout to `out` (NULL: /dev/null),
+ * stderr to /dev/null.  If kill_after > 0, sends `sig` after that many
+ * seconds.  Returns the wait status; *rss gets the child's peak RSS (KiB). */
+static int run(const char *out, double kill_after, int sig, long *rss, ...)
+{
+    const char *argv[64];
+    int n = 0;
+    argv[n++] = bin;
+    va_list ap;
+    va_start(ap, rss);
+    const char *a;
+    while ((a = va_arg(ap, const char *)) != NULL && n < 63)
+        argv[n++] = a;
+    va_end(ap);
+    argv[n] = NULL;
+    pid_t pid = fork();
+    assert_true(pid >= 0);
+    if (pid == 0) {
+        int fd = open(out ? out : "/dev/null", O_WRONLY | O_CREAT | O_TRUNC, 0644);
+        int nul = open("/dev/null", O_WRONLY);
+        dup2(fd, 1);
+        dup2(nul, 2);
+        execv(bin, (char *const *)argv);
+        _exit(127);
+    }
+    if (kill_after > 0 && watch) {
+        /* Wait (up to 10 s) until the output's temporary file exists, so the
+         * signal surely arrives in the middle of writing it. */
+        for (int i = 0; i < 1000 && count_named(watch, ".tmp") == 0; i++) {
+            struct timespec w = {0, 10000000};
+            nanosleep(&w, NULL);
+        }
+        assert_true(count_named(watch, ".tmp") > 0);
+    }
+    if (kill_after > 0) {
+        struct timespec ts = {(time_t)kill_after,
+                              (long)((kill_after - (double)(time_t)kill_after) * 1e9)};
+        nanosleep(&ts, NULL);
+        kill(pid, sig);
+    }
+    int status;
+    struct rusage ru;
+    assert_true(wait4(pid, &status, 0, &ru) == pid);
+    if (rss)
+        *rss = ru.ru_maxrss;
+    return status;
+}
+
+static int exit_code(int status)
+{
+    return WIFEXITED(status) ? WEXITSTATUS(status) : -1;
+}
+
+static char *slurp(const char *path, size_t *len)
+{
+    FILE *f = fopen(path, "rb");
+    if (!f)
+        return NULL;
+    fseek(f, 0, SEEK_END);
+    long n = ftell(f);
+    fseek(f, 0, SEEK_SET);
+    char *buf = malloc((size_t)n + 1);
+    assert_non_null(buf);
+    assert_int_equal(fread(buf, 1, (size_t)n, f), (size_t)n);
+    buf[n] = '\0';
+    fclose(f);
+    *len = (size_t)n;
+    return buf;
+}
+
+/* Number of directory entries whose name contains `part`. */
+static int count_named(const char *d, const char *part)
+{
+    DIR *dp = opendir(d);
+    if (!dp)
+        return 0;
+    int n = 0;
+    struct dirent *e;
+    while ((e = readdir(dp)) != NULL)
+        if (strstr(e->d_name, part))
+            n++;
+    closedir(dp);
+    return n;
+}
+
+static int setup(void **s)
+{
+    (void)s;
+    bin = getenv("HF_BIN");
+    if (!bin) {
+        fprintf(stderr, "test_cmd_study: HF_BIN is not set (run through make check)\n");
+        return -1;
+    }
+    snprintf(dir, sizeof dir, "/tmp/hf-study-XXXXXX");
+    if (!mkdtemp(dir))
+        return -1;
+    write_file(path_in("quarrel.yaml"), case_head, NULL);
+    return 0;
+}
+
+static int teardown(void **s)
+{
+    (void)s;
+    char cmd[600];
+    snprintf(cmd, sizeof cmd, "rm -rf '%s'", dir);
+    return system(cmd) == 0 ? 0 : -1;
+}
+
+#define SWEEP_ARGS                                                                               \
+    "sweep", path_in("quarrel.yaml"), "--vary", "site.water_level=-1.5:1.5:0.01", "--vary",     \
+        "lines[north].sections[3].length=110,111.385,112.7", "--output", "fairlead_tension",     \
+        "--output", "max_utilisation", "--output", "stiffness_surge", "--output", "offset_gale", \
+        "--quiet"
+
+static void test_jobs_identical(void **s)
+{
+    (void)s;
+    char *a = path_in("j1.csv"), *b = path_in("j2.csv");
+    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, SWEEP_ARGS, "--jobs", "1", "--csv", a, NULL)),
+                     0);
+    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, SWEEP_ARGS, "--jobs", "2", "--csv", b, NULL)),
+                     0);
+    size_t na, nb;
+    char *ta = slurp(a, &na), *tb = slurp(b, &nb);
+    assert_non_null(ta);
+    assert_non_null(tb);
+    assert_int_equal(na, nb);
+    assert_memory_equal(ta, tb, na);
+    /* 301 x 3 cases and a header, every case solved. */
+    int rows = 0;
+    for (char *p = ta; (p = strchr(p, '\n')) != NULL; p++)
+        rows++;
+    assert_int_equal(rows, 1 + 301 * 3);
+    assert_null(strstr(ta, ",no_convergence,"));
+    assert_null(strstr(ta, ",invalid,"));
+    free(ta);
+    free(tb);
+}
+
+static void test_shards_concatenate(void **s)
+{
+    (void)s;
+    char full[512], cat[512];
+    snprintf(full, sizeof full, "%s", path_in("full.csv"));
+    snprintf(cat, sizeof cat, "%s", path_in("cat.csv"));
+    assert_int_equal(exit_code(run(full, 0, 0, NULL, SWEEP_ARGS, "--jobs", "2", NULL)), 0);
+    FILE *fc = fopen(cat, "w");
+    assert_non_null(fc);
+    const char *shard[] = {"1/4", "2/4", "3/4", "4/4"};
+    for (int k = 0; k < 4; k++) {
+        char *part = path_in("part.csv");
+        assert_int_equal(
+            exit_code(run(NULL, 0, 0, NULL, SWEEP_ARGS, "--jobs", k % 2 ? "1" : "2", "--shard",
+                          shard[k], "--csv", part, NULL)),
+            0);
+        size_t n;
+        char *t = slurp(part, &n);
+        assert_non_null(t);
+        /* Only the first part carries the header. */
+        assert_true((k == 0) == (strncmp(t, "site.water_level_m,", 19) == 0));
+        fwrite(t, 1, n, fc);
+        free(t);
+    }
+    fclose(fc);
+    size_t na, nb;
+    char *ta = slurp(full, &na), *tb = slurp(cat, &nb);
+    assert_int_equal(na, nb);
+    assert_memory_equal(ta, tb, na);
+    free(ta);
+    free(tb);
+}
+
+static void test_sweep_interrupted(void **s)
+{
+    (void)s;
+    /* 3.6 million cases: many seconds of work, stopped 0.2 s after the
+     * temporary output file appeared. */
+    int sigs[] = {SIGTERM, SIGINT};
+    for (int i = 0; i < 2; i++) {
+        char *out = path_in("big.csv");
+        watch = dir;
+        int st = run(NULL, 0.2, sigs[i], NULL, "sweep", path_in("quarrel.yaml"), "--vary",
+                     "site.water_level=-1.5:1.5:0.0000025", "--vary",
+                     "lines[north].sections[3].length=110,112,113", "--jobs", "2", "--quiet",
+                     "--csv", out, NULL);
+        watch = NULL;
+        assert_true(WIFSIGNALED(st) && WTERMSIG(st) == sigs[i]); /* it was still running */
+        struct stat sb;
+        assert_int_equal(stat(out, &sb), -1); /* no partial file */
+        assert_int_equal(count_named(dir, "big.csv"), 0); /* and no temporary left */
+    }
+}
+
+static void test_run_interrupted_and_complete(void **s)
+{
+    (void)s;
+    static const char studies_big[] =
+        "studies:\n"
+        "  - {name: rest, kind: lines}\n"
+        "  - name: huge\n"
+        "    kind: sweep\n"
+        "    vary:\n"
+        "      - {path: site.water_level, range: [-1.5 m, 1.5 m, 0.0000025 m]}\n"
+        "      - {path: \"lines[north].sections[3].length\", values: [110 m, 112 m, 113 m]}\n";
+    char *c = path_in("big-run.yaml"), *out = path_in("big-out");
+    write_file(c, case_head, studies_big);
+    watch = out;
+    int st = run(NULL, 0.2, SIGTERM, NULL, "run", c, "--out", out, "--jobs", "2", "--quiet",
+                 NULL);
+    watch = NULL;
+    assert_true(WIFSIGNALED(st) && WTERMSIG(st) == SIGTERM);
+    /* The finished study stays, the interrupted one left nothing. */
+    char p[600];
+    snprintf(p, sizeof p, "%s/rest.csv", out);
+    struct stat sb;
+    assert_int_equal(stat(p, &sb), 0);
+    assert_int_equal(count_named(out, "huge"), 0);
+    assert_int_equal(count_named(out, "tmp"), 0);
+    assert_int_equal(count_named(out, "summary"), 0);
+    assert_int_equal(count_named(out, "report"), 0);
+
+    /* A complete run: one file per study plus the summary; the balance study
+     * has a condition without equilibrium (one of three lines broken under
+     * 400 kN), which fails a criterion: exit status 1. */
+    static const char studies[] =
+        "studies:\n"
+        "  - {name: rest, kind: lines}\n"
+        "  - {name: k, kind: stiffness}\n"
+        "  - {name: surge, kind: curve, direction: 0 deg, range: [0 m, 10 m, 2.5 m]}\n"
+        "  - {name: storm, kind: balance}\n"
+        "  - name: tide\n"
+        "    kind: sweep\n"
+        "    vary: [{path: site.water_level, range: [-1.5 m, 1.5 m, 0.5 m]}]\n"
+        "  - name: pretension\n"
+        "    kind: invert\n"
+        "    vary: {path: \"lines[north].sections[3].length\", range: [100 m, 125 m]}\n"
+        "    target: {output: fairlead_tension, line: north, value: 300 kN}\n";
+    c = path_in("full-run.yaml");
+    out = path_in("full-out");
+    write_file(c, case_head, studies);
+    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "run", c, "--out", out, "--quiet", NULL)), 1);
+    const char *files[] = {"rest.csv", "k.csv", "surge.csv", "storm.csv", "tide.csv",
+                           "pretension.csv", "summary.txt", "report.html"};
+    for (size_t i = 0; i < sizeof files / sizeof files[0]; i++) {
+        snprintf(p, sizeof p, "%s/%s", out, files[i]);
+        assert_int_equal(stat(p, &sb), 0);
+        assert_true(sb.st_size > 40);
+    }
+    snprintf(p, sizeof p, "%s/pretension.csv", out);
+    size_t n;
+    char *t = slurp(p, &n);
+    /* target 300 kN, achieved within 1e-6 relative (field 6 of the row) */
+    char *row = strchr(t, '\n') + 1;
+    const char *f = row;
+    for (int i = 0; i < 5; i++)
+        f = strchr(f, ',') + 1;
+    double achieved = strtod(f, NULL);
+    assert_true(fabs(achieved - 300.0) <= 1e-6 * 300.0);
+    free(t);
+    snprintf(p, sizeof p, "%s/summary.txt", out);
+    t = slurp(p, &n);
+    assert_non_null(strstr(t, "CAUTION"));
+    free(t);
+    /* The report: complete, with the caution, a section per study and figures
+     * (its XML well-formedness is checked by the report module's tests). */
+    snprintf(p, sizeof p, "%s/report.html", out);
+    t = slurp(p, &n);
+    assert_non_null(strstr(t, "CAUTION"));
+    assert_non_null(strstr(t, "Sweep: tide"));
+    assert_non_null(strstr(t, "Design inversion: pretension"));
+    assert_non_null(strstr(t, "<svg"));
+    assert_non_null(strstr(t, "FAIL"));
+    assert_non_null(strstr(t + n - 16, "</html>"));
+    free(t);
+    assert_int_equal(count_named(out, "tmp"), 0);
+
+    /* The lines, stiffness, curve and balance studies write exactly what the
+     * matching commands write with --csv. */
+    static const struct {
+        const char *file;
+        const char *args[6];
+    } same[] = {
+        {"rest.csv", {"lines", NULL}},
+        {"k.csv", {"stiffness", NULL}},
+        {"surge.csv", {"curve", "--direction", "0", "--range", "0:10:2.5", NULL}},
+        {"storm.csv", {"balance", NULL}},
+    };
+    char cmdcsv[512];
+    snprintf(cmdcsv, sizeof cmdcsv, "%s", path_in("command.csv"));
+    for (size_t i = 0; i < sizeof same / sizeof same[0]; i++) {
+        const char *const *a = same[i].args;
+        int stc;
+        if (!a[1])
+            stc = run(NULL, 0, 0, NULL, a[0], c, "--csv", cmdcsv, NULL);
+        else
+            stc = run(NULL, 0, 0, NULL, a[0], c, a[1], a[2], a[3], a[4], "--csv", cmdcsv, NULL);
+        assert_true(WIFEXITED(stc));
+        snprintf(p, sizeof p, "%s/%s", out, same[i].file);
+        size_t na, nb;
+        char *ta = slurp(p, &na), *tb = slurp(cmdcsv, &nb);
+        assert_non_null(ta);
+        assert_non_null(tb);
+        if (na != nb || memcmp(ta, tb, na))
+            fail_msg("%s differs from 'holdfast %s --csv'", same[i].file, a[0]);
+        free(ta);
+        free(tb);
+    }
+
+    /* A bad output name in a sweep study: bad input, exit 2. */
+    static const char bad[] = "studies:\n"
+                              "  - name: tide\n"
+                              "    kind: sweep\n"
+                              "    vary: [{path: site.water_level, values: [0 m, 1 m]}]\n"
+                              "    outputs: [tension_of_everything]\n";
+    c = path_in("bad-run.yaml");
+    write_file(c, case_head, bad);
+    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "run", c, "--out", path_in("bad-out"),
+                                   "--quiet", NULL)),
+                     2);
+    assert_int_equal(count_named(path_in("bad-out"), "tide"), 0);
+}
+
+static void test_memory_bounded(void **s)
+{
+    (void)s;
+    /* Peak RSS of a 20,000-case and a 200,000-case sweep to /dev/null: rows
+     * are streamed (both fill the same block buffer), so ten times the cases
+     * must not cost memory. */
+    long small, big;
+    assert_int_equal(exit_code(run(NULL, 0, 0, &small, "sweep", path_in("quarrel.yaml"), "--vary",
+                                   "site.water_level=-1:0.9999:0.0001", "--jobs", "1", "--quiet",
+                                   "--output", "fairlead_tension:north", NULL)),
+                     0);
+    assert_int_equal(exit_code(run(NULL, 0, 0, &big, "sweep", path_in("quarrel.yaml"), "--vary",
+                                   "site.water_level=-1:0.99999:0.00001", "--jobs", "1", "--quiet",
+                                   "--output", "fairlead_tension:north", NULL)),
+                     0);
+    fprintf(stderr, "peak RSS: 20,000 cases %ld KiB, 200,000 cases %ld KiB\n", small, big);
+    assert_true(big < small + 2048);
+    assert_true(big < 64 * 1024);
+}
+
+static void test_cli_errors(void **s)
+{
+    (void)s;
+    const char *c = path_in("quarrel.yaml");
+    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "sweep", c, NULL)), 2);
+    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "sweep", c, "--vary", "site.depth=60,61",
+                                   "--shard", "0/3", NULL)),
+                     2);
+    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "sweep", c, "--vary", "site.depth=60,61",
+                                   "--vary", "site.water_level=0,1,2", "--zip", NULL)),
+                     2);
+    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "sweep", c, "--vary", "site.depth=60,61",
+                                   "--jobs", "0", NULL)),
+                     2);
+    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "sweep", c, "--vary", "site.depth=60,61",
+                                   "--output", "nothing", NULL)),
+                     2);
+    /* Not bracketed: exit 3 (HF_ERANGE). */
+    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "invert", c, "--vary",
+                                   "lines[north].sections[3].length=111:125", "--target",
+                                   "fairlead_tension:north=5000kN", NULL)),
+                     3);
+    char *o = path_in("inv.csv");
+    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "invert", c, "--vary",
+                                   "lines[north].anchor_radius=400:425", "--target",
+                                   "fairlead_horizontal:north=150.35kN", "--csv", o, NULL)),
+                     0);
+    size_t n;
+    char *t = slurp(o, &n);
+    assert_non_null(strstr(t, "lines[north].anchor_radius,"));
+    assert_non_null(strstr(t, ",150.35,"));
+    free(t);
+}
+
+static void test_slurm_scripts(void **s)
+{
+    (void)s;
+    /* scripts/slurm-sweep.sh run by hand as array tasks 1..3 of 3, then
+     * scripts/merge-shards.sh: the merge equals the one-machine sweep. */
+    const char *root = getenv("HF_ROOT");
+    if (!root)
+        fail_msg("HF_ROOT is not set (run through make check)");
+    char full[512], merged[512], parts[512], cmd[4096];
+    snprintf(full, sizeof full, "%s", path_in("one-machine.csv"));
+    snprintf(merged, sizeof merged, "%s", path_in("merged.csv"));
+    snprintf(parts, sizeof parts, "%s", path_in("parts"));
+    assert_int_equal(exit_code(run(full, 0, 0, NULL, "sweep", path_in("quarrel.yaml"), "--vary",
+                                   "site.water_level=-1.5:1.5:0.01", "--vary",
+                                   "lines[north].sections[3].length=110,112", "--quiet", NULL)),
+                     0);
+    for (int k = 1; k <= 3; k++) {
+        snprintf(cmd, sizeof cmd,
+                 "SLURM_ARRAY_TASK_ID=%d SLURM_ARRAY_TASK_COUNT=3 CASE='%s' HOLDFAST='%s' "
+                 "OUT='%s' SWEEP_ARGS='--vary site.water_level=-1.5:1.5:0.01 --vary "
+                 "lines[north].sections[3].length=110,112' sh '%s/scripts/slurm-sweep.sh'",
+                 k, path_in("quarrel.yaml"), bin, parts, root);
+        assert_int_equal(system(cmd), 0);
+    }
+    /* A missing part is refused before anything is written. */
+    snprintf(cmd, sizeof cmd, "sh '%s/scripts/merge-shards.sh' '%s' 4 '%s' 2>/dev/null", root,
+             parts, merged);
+    assert_int_not_equal(system(cmd), 0);
+    struct stat sb;
+    assert_int_equal(stat(merged, &sb), -1);
+    snprintf(cmd, sizeof cmd, "sh '%s/scripts/merge-shards.sh' '%s' 3 '%s'", root, parts, merged);
+    assert_int_equal(system(cmd), 0);
+    size_t na, nb;
+    char *ta = slurp(full, &na), *tb = slurp(merged, &nb);
+    assert_non_null(ta);
+    assert_non_null(tb);
+    assert_int_equal(na, nb);
+    assert_memory_equal(ta, tb, na);
+    free(ta);
+    free(tb);
+}
+
+/* Runs `holdfast sweep` with stderr on a pseudo-terminal and returns what
+ * the terminal received (malloc'd). */
+static char *sweep_on_terminal(int quiet)
+{
+    int master = posix_openpt(O_RDWR | O_NOCTTY);
+    assert_true(master >= 0);
+    assert_int_equal(grantpt(master), 0);
+    assert_int_equal(unlockpt(master), 0);
+    char *slave_name = ptsname(master);
+    assert_non_null(slave_name);
+    pid_t pid = fork();
+    assert_true(pid >= 0);
+    if (pid == 0) {
+        int slave = open(slave_name, O_RDWR);
+        int nul = open("/dev/null", O_WRONLY);
+        dup2(nul, 1);
+        dup2(slave, 2);
+        const char *argv[] = {bin, "sweep", path_in("quarrel.yaml"), "--vary",
+                              "site.water_level=-1.5:1.5:0.0001", "--jobs", "1",
+                              quiet ? "--quiet" : NULL, NULL};
+        execv(bin, (char *const *)argv);
+        _exit(127);
+    }
+    size_t cap = 1 << 16, n = 0;
+    char *buf = malloc(cap);
+    assert_non_null(buf);
+    for (;;) {
+        ssize_t k = read(master, buf + n, cap - 1 - n);
+        if (k <= 0) /* EIO once the child closed the terminal */
+            break;
+        n += (size_t)k;
+        if (n + 1 >= cap)
+            break;
+    }
+    buf[n] = '\0';
+    int st;
+    assert_true(waitpid(pid, &st, 0) == pid);
+    assert_int_equal(exit_code(st), 0);
+    close(master);
+    return buf;
+}
+
+static void test_progress_bar(void **s)
+{
+    (void)s;
+    /* On a terminal: a bar with the case count; with --quiet: nothing.  (In
+     * a pipe or file, every other test shows it stays silent: their stderr
+     * is /dev/null, not a terminal, and a bar would not hurt them, so the
+     * pipe case is checked here too.) */
+    char *t = sweep_on_terminal(0);
+    assert_non_null(strstr(t, "30001/30001 cases"));
+    assert_non_null(strstr(t, "CAUTION"));
+    free(t);
+    t = sweep_on_terminal(1);
+    assert_null(strstr(t, "cases"));
+    free(t);
+    char *err = path_in("stderr.txt");
+    pid_t pid = fork();
+    assert_true(pid >= 0);
+    if (pid == 0) {
+        int fd = open(err, O_WRONLY | O_CREAT | O_TRUNC, 0644);
+        int nul = open("/dev/null", O_WRONLY);
+        dup2(nul, 1);
+        dup2(fd, 2);
+        execl(bin, bin, "sweep", path_in("quarrel.yaml"), "--vary",
+              "site.water_level=-1.5:1.5:0.0001", NULL);
+        _exit(127);
+    }
+    int st;
+    assert_true(waitpid(pid, &st, 0) == pid);
+    size_t n;
+    t = slurp(err, &n);
+    assert_null(strstr(t, "cases")); /* no bar in a file */
+    assert_non_null(strstr(t, "CAUTION"));
+    free(t);
+}
+
+int main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_jobs_identical),
+        cmocka_unit_test(test_shards_concatenate),
+        cmocka_unit_test(test_sweep_interrupted),
+        cmocka_unit_test(test_run_interrupted_and_complete),
+        cmocka_unit_test(test_memory_bounded),
+        cmocka_unit_test(test_cli_errors),
+        cmocka_unit_test(test_slurm_scripts),
+        cmocka_unit_test(test_progress_bar),
+    };
+    return cmocka_run_group_tests(tests, setup, teardown);
+}

@@ -1,0 +1,464 @@
+/* test_sweep.c - sweeps against individual solves, output names, inversion. */
+#include <math.h>
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <stdint.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <cmocka.h>
+#include "holdfast/alloc.h"
+#include "holdfast/case.h"
+#include "holdfast/invert.h"
+#include "holdfast/spread.h"
+#include "holdfast/sweep.h"
+
+/* A fictional three-line buoy mooring (invented site "Quarrel Point"):
+ * three-section lines (chain, wire, chain) with a clump at the first joint. */
+static const char case_text[] =
+    "title: Tri-line buoy at Quarrel Point (fictional)\n"
+    "site: {depth: 62 m}\n"
+    "components:\n"
+    "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n"
+    "  wire64: {type: spiral_strand, diameter: 64 mm}\n"
+    "lines:\n"
+    "  - name: north\n"
+    "    anchor: [0 m, 420 m]\n"
+    "    fairlead: [0 m, 4 m, -8 m]\n"
+    "    sections: [{component: chain76, length: 160 m}, {clump: 60 kN},\n"
+    "               {component: wire64, length: 160 m}, {component: chain76, length: 112 m}]\n"
+    "  - name: southwest\n"
+    "    anchor: [-363.7 m, -210 m]\n"
+    "    fairlead: [-3.46 m, -2 m, -8 m]\n"
+    "    sections: [{component: chain76, length: 160 m}, {clump: 60 kN},\n"
+    "               {component: wire64, length: 160 m}, {component: chain76, length: 112 m}]\n"
+    "  - name: southeast\n"
+    "    anchor: [363.7 m, -210 m]\n"
+    "    fairlead: [3.46 m, -2 m, -8 m]\n"
+    "    sections: [{component: chain76, length: 160 m}, {clump: 60 kN},\n"
+    "               {component: wire64, length: 160 m}, {component: chain76, length: 112 m}]\n"
+    "loads:\n"
+    "  - {name: gale, force: 400 kN, direction: 30 deg}\n"
+    "criteria: {preset: api-rp-2sk}\n";
+
+static hf_model model;
+
+static int setup(void **s)
+{
+    (void)s;
+    hf_model_init(&model);
+    hf_error e;
+    if (hf_case_load_buffer(case_text, strlen(case_text), "quarrel.yaml", &model, &e) != HF_OK) {
+        fprintf(stderr, "%s\n", e.text);
+        return -1;
+    }
+    return 0;
+}
+
+static int teardown(void **s)
+{
+    (void)s;
+    hf_model_free(&model);
+    return 0;
+}
+
+/* Field `col` (0-based) of a CSV row without quoted fields, as a number. */
+static double field(const char *row, int col, char *word, size_t cap)
+{
+    const char *p = row;
+    for (int i = 0; i < col; i++)
+        p = strchr(p, ',') + 1;
+    size_t n = strcspn(p, ",\n");
+    if (word) {
+        snprintf(word, cap, "%.*s", (int)n, p);
+    }
+    return strtod(p, NULL);
+}
+
+/* Solves the model directly with the parameters set, for comparison. */
+static void direct(const char *p1, double v1, const char *p2, double v2, hf_spread_result *r,
+                   double K[6][6], hf_spread **wsp, hf_model *copy)
+{
+    hf_error e;
+    hf_model_init(copy);
+    assert_int_equal(hf_model_copy(copy, &model), HF_OK);
+    hf_param a, b;
+    assert_int_equal(hf_model_param_lookup(copy, p1, &a, &e), HF_OK);
+    assert_int_equal(hf_model_param_lookup(copy, p2, &b, &e), HF_OK);
+    assert_int_equal(hf_model_param_set(copy, &a, v1, &e), HF_OK);
+    assert_int_equal(hf_model_param_set(copy, &b, v2, &e), HF_OK);
+    *wsp = hf_spread_alloc(copy, &e);
+    assert_non_null(*wsp);
+    hf_pose pose;
+    hf_spread_pose_rest(copy, &pose);
+    assert_int_equal(hf_spread_stiffness(*wsp, &pose, K, r, &e), HF_OK);
+}
+
+static void test_rows_equal_individual_runs(void **s)
+{
+    (void)s;
+    double lengths[] = {110.385, 112.7, 111.05};
+    hf_vary v[2];
+    memset(v, 0, sizeof v);
+    v[0].path = "lines[north].sections[3].length";
+    v[0].nvalues = 3;
+    v[0].values = lengths;
+    v[1].path = "site.water_level";
+    v[1].from = -0.85;
+    v[1].to = 1.235;
+    v[1].step = 0.695; /* -0.85, -0.155, 0.54, 1.235 */
+    const char *outs[] = {"fairlead_tension", "anchor_tension:southwest", "stiffness_surge",
+                          "max_utilisation"};
+    hf_error e;
+    hf_sweep *sw = hf_sweep_alloc(&model, v, 2, 0, outs, 4, 2, &e);
+    assert_non_null(sw);
+    assert_int_equal(hf_sweep_ncases(sw), 12);
+    char *text = NULL;
+    size_t len = 0;
+    FILE *f = open_memstream(&text, &len);
+    assert_int_equal(hf_sweep_write_header(sw, f, &e), HF_OK);
+    hf_sweep_range r = {0, 12, NULL, NULL, NULL};
+    assert_int_equal(hf_sweep_write_rows(sw, &r, f, &e), HF_OK);
+    fclose(f);
+    const char *header = "lines[north].sections[3].length_m,site.water_level_m,status,T_north_kN,"
+                         "T_southwest_kN,T_southeast_kN,anchor_T_southwest_kN,"
+                         "stiffness_surge_kN_per_m,max_utilisation,worst_line\n";
+    assert_memory_equal(text, header, strlen(header));
+    const char *row = text + strlen(header);
+    for (int k = 0; k < 12; k++) {
+        double l = lengths[k / 4], w = -0.85 + 0.695 * (k % 4);
+        char word[64];
+        assert_true(fabs(field(row, 0, NULL, 0) - l) < 1e-12);
+        assert_true(fabs(field(row, 1, NULL, 0) - w) < 1e-9);
+        field(row, 2, word, sizeof word);
+        assert_string_equal(word, "ok");
+        hf_spread_result res;
+        double K[6][6];
+        hf_spread *ws;
+        hf_model copy;
+        direct("lines[north].sections[3].length", l, "site.water_level", w, &res, K, &ws, &copy);
+        /* The sweep warm-starts each line from the previous case, the direct
+         * solve starts cold: both converge to the line solver's tolerance
+         * (1e-10 of the length scale in position), which moves the tension of
+         * these near-taut lines by ~1e-9 relative; the CSV carries 10 digits. */
+        for (int i = 0; i < 3; i++) {
+            double t = field(row, 3 + i, NULL, 0);
+            assert_true(fabs(t - res.states[i].tension / 1e3) <= 1e-8 * t);
+        }
+        double ta = field(row, 6, NULL, 0);
+        assert_true(fabs(ta - res.states[1].anchor_tension / 1e3) <= 1e-8 * fabs(ta) + 1e-12);
+        double k11 = field(row, 7, NULL, 0);
+        assert_true(fabs(k11 - K[0][0] / 1e3) <= 1e-7 * fabs(k11));
+        double um = field(row, 8, NULL, 0);
+        assert_true(fabs(um - res.max_utilisation) <= 1e-8 * um);
+        field(row, 9, word, sizeof word);
+        assert_string_equal(word, model.lines[res.max_utilisation_line].name);
+        hf_spread_free(ws);
+        hf_model_free(&copy);
+        row = strchr(row, '\n') + 1;
+    }
+    assert_true(*row == '\0');
+    free(text);
+    hf_sweep_free(sw);
+}
+
+static void test_invalid_value_row(void **s)
+{
+    (void)s;
+    double lengths[] = {112.0, -5.0, 0.0};
+    hf_vary v;
+    memset(&v, 0, sizeof v);
+    v.path = "lines[north].sections[3].length";
+    v.nvalues = 3;
+    v.values = lengths;
+    hf_error e;
+    hf_sweep *sw = hf_sweep_alloc(&model, &v, 1, 0, NULL, 0, 1, &e);
+    assert_non_null(sw);
+    char buf[4096];
+    assert_int_equal(hf_sweep_case_row(sw, 1, buf, sizeof buf, &e), HF_OK);
+    /* Varied value kept, status says why, outputs empty: never NaN. */
+    assert_true(!strncmp(buf, "-5,invalid,,,,", 14));
+    assert_null(strstr(buf, "nan"));
+    assert_int_equal(hf_sweep_case_row(sw, 2, buf, sizeof buf, &e), HF_OK);
+    assert_true(!strncmp(buf, "0,invalid,", 10));
+    assert_int_equal(hf_sweep_case_row(sw, 0, buf, sizeof buf, &e), HF_OK);
+    assert_true(!strncmp(buf, "112,ok,", 7));
+    assert_int_equal(hf_sweep_case_row(sw, 3, buf, sizeof buf, &e), HF_EINVAL);
+    assert_int_equal(hf_sweep_case_row(sw, 0, buf, 16, &e), HF_ELIMIT);
+    hf_sweep_free(sw);
+}
+
+static void test_output_names(void **s)
+{
+    (void)s;
+    hf_output o;
+    hf_error e;
+    assert_int_equal(hf_sweep_output_parse(&model, "fairlead_tension:southeast", &o, &e), HF_OK);
+    assert_int_equal(o.kind, HF_OUT_FAIRLEAD_TENSION);
+    assert_int_equal(o.line, 2);
+    assert_true(hf_sweep_output_is_scalar(&o));
+    assert_int_equal(hf_sweep_output_parse(&model, "utilisation", &o, &e), HF_OK);
+    assert_false(hf_sweep_output_is_scalar(&o));
+    assert_int_equal(hf_sweep_output_parse(&model, "offset_gale", &o, &e), HF_OK);
+    assert_int_equal(o.kind, HF_OUT_OFFSET);
+    assert_int_equal(hf_sweep_output_parse(&model, "offset_calm", &o, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "calm"));
+    assert_int_equal(hf_sweep_output_parse(&model, "stiffness_surge:north", &o, &e), HF_EINVAL);
+    assert_int_equal(hf_sweep_output_parse(&model, "fairlead_tension:west", &o, &e), HF_EINVAL);
+    assert_int_equal(hf_sweep_output_parse(&model, "tension", &o, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "fairlead_tension"));
+    assert_int_equal(hf_sweep_output_parse(&model, "", &o, &e), HF_EINVAL);
+}
+
+static void test_vary_parse(void **s)
+{
+    (void)s;
+    hf_vary v;
+    hf_error e;
+    assert_int_equal(hf_sweep_vary_parse(&model, "components.chain76.diameter=70mm:90mm:2.5mm", 0,
+                                         &v, &e),
+                     HF_OK);
+    assert_int_equal(hf_study_vary_count(&v), 9);
+    assert_true(fabs(v.from - 0.070) < 1e-15 && fabs(v.step - 0.0025) < 1e-15);
+    hf_sweep_vary_clear(&v);
+    assert_int_equal(hf_sweep_vary_parse(&model, "loads[gale].force=1.5e5,250 kN", 0, &v, &e),
+                     HF_OK);
+    assert_int_equal(v.nvalues, 2);
+    assert_true(v.values[1] == 250e3);
+    hf_sweep_vary_clear(&v);
+    assert_int_equal(hf_sweep_vary_parse(&model, "lines[north].anchor_radius=380:425", 1, &v, &e),
+                     HF_OK);
+    assert_true(v.from == 380 && v.to == 425);
+    hf_sweep_vary_clear(&v);
+    const char *bad[] = {"site.depth", "=1,2", "site.depth=", "site.depth=1:2",
+                         "site.depth=3:1:1", "site.depth=1:2:0", "site.depth=1,nan",
+                         "site.depth=1e309", "site.depth=3 kN", "site.deep=1,2",
+                         "site.depth=1:2,3:4", "site.depth=1::2"};
+    for (size_t i = 0; i < sizeof bad / sizeof bad[0]; i++)
+        assert_int_not_equal(hf_sweep_vary_parse(&model, bad[i], 0, &v, &e), HF_OK);
+    /* A bracket must be LO:HI with LO < HI. */
+    assert_int_equal(hf_sweep_vary_parse(&model, "site.depth=70:60", 1, &v, &e), HF_EINVAL);
+    assert_int_equal(hf_sweep_vary_parse(&model, "site.depth=60:70:1", 1, &v, &e), HF_EINVAL);
+}
+
+/* Re-solves the model with the parameter at `value` and returns the output. */
+static double check_output(const char *path, double value, const char *output)
+{
+    hf_model copy;
+    hf_model_init(&copy);
+    hf_error e;
+    assert_int_equal(hf_model_copy(&copy, &model), HF_OK);
+    hf_param p;
+    assert_int_equal(hf_model_param_lookup(&copy, path, &p, &e), HF_OK);
+    assert_int_equal(hf_model_param_set(&copy, &p, value, &e), HF_OK);
+    hf_spread *ws = hf_spread_alloc(&copy, &e);
+    hf_pose pose;
+    hf_spread_pose_rest(&copy, &pose);
+    hf_spread_result r;
+    double K[6][6];
+    assert_int_equal(hf_spread_stiffness(ws, &pose, K, &r, &e), HF_OK);
+    double y = !strcmp(output, "stiffness_surge") ? K[0][0]
+               : !strcmp(output, "h_north")       ? r.states[0].h
+                                                  : r.states[0].tension;
+    hf_spread_free(ws);
+    hf_model_free(&copy);
+    return y;
+}
+
+static void test_invert_hits_target(void **s)
+{
+    (void)s;
+    hf_output o;
+    hf_error e;
+    hf_invert_result res;
+    /* Section length for a 300 kN pretension of line north. */
+    assert_int_equal(hf_sweep_output_parse(&model, "fairlead_tension:north", &o, &e), HF_OK);
+    assert_int_equal(hf_invert_solve(&model, "lines[north].sections[3].length", 100.0, 125.0, &o,
+                                     300e3, &res, &e),
+                     HF_OK);
+    assert_true(res.value > 100.0 && res.value < 112.0); /* shorter than 112 m: tauter */
+    double t = check_output("lines[north].sections[3].length", res.value, "tension");
+    assert_true(fabs(t - 300e3) <= 1e-6 * 300e3);
+    /* Anchor radius for a 150.35 kN horizontal fairlead force. */
+    assert_int_equal(hf_sweep_output_parse(&model, "fairlead_horizontal:north", &o, &e), HF_OK);
+    assert_int_equal(hf_invert_solve(&model, "lines[north].anchor_radius", 400.0, 425.0, &o,
+                                     150.35e3, &res, &e),
+                     HF_OK);
+    double h = check_output("lines[north].anchor_radius", res.value, "h_north");
+    assert_true(fabs(h - 150.35e3) <= 1e-6 * 150.35e3);
+    /* A surge stiffness of 21.7 kN/m from the wire length of line north. */
+    assert_int_equal(hf_sweep_output_parse(&model, "stiffness_surge", &o, &e), HF_OK);
+    assert_int_equal(hf_invert_solve(&model, "lines[north].sections[2].length", 140.0, 160.0, &o,
+                                     21.7e3, &res, &e),
+                     HF_OK);
+    double k = check_output("lines[north].sections[2].length", res.value, "stiffness_surge");
+    assert_true(fabs(k - 21.7e3) <= 1e-6 * 21.7e3);
+    assert_true(res.relative_error <= HF_INVERT_RTOL);
+}
+
+/* One line (fictional "Carrow Bank" test line) whose clump hangs in the
+ * water column near the fairlead, so its weight sets the surge stiffness. */
+static const char clump_text[] =
+    "title: Single test line off Carrow Bank (fictional)\n"
+    "site: {depth: 62 m}\n"
+    "components:\n"
+    "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n"
+    "  wire64: {type: spiral_strand, diameter: 64 mm}\n"
+    "lines:\n"
+    "  - name: bow\n"
+    "    anchor: [424 m, 0 m]\n"
+    "    fairlead: [4 m, 0 m, -8 m]\n"
+    "    sections: [{component: chain76, length: 120 m}, {component: wire64, length: 240 m},\n"
+    "               {clump: 60 kN}, {component: chain76, length: 80 m}]\n";
+
+static void test_invert_clump_for_stiffness(void **s)
+{
+    (void)s;
+    hf_model one;
+    hf_model_init(&one);
+    hf_error e;
+    assert_int_equal(hf_case_load_buffer(clump_text, strlen(clump_text), "carrow.yaml", &one, &e),
+                     HF_OK);
+    hf_output o;
+    assert_int_equal(hf_sweep_output_parse(&one, "stiffness_surge", &o, &e), HF_OK);
+    hf_invert_result res;
+    assert_int_equal(hf_invert_solve(&one, "lines[bow].sections[2].clump", 10e3, 300e3, &o,
+                                     13.385e3, &res, &e),
+                     HF_OK);
+    /* Independent check: set the clump found and solve the spread directly. */
+    hf_param p;
+    assert_int_equal(hf_model_param_lookup(&one, "lines[bow].sections[2].clump", &p, &e), HF_OK);
+    assert_int_equal(hf_model_param_set(&one, &p, res.value, &e), HF_OK);
+    hf_spread *ws = hf_spread_alloc(&one, &e);
+    hf_pose pose;
+    hf_spread_pose_rest(&one, &pose);
+    hf_spread_result r;
+    double K[6][6];
+    assert_int_equal(hf_spread_stiffness(ws, &pose, K, &r, &e), HF_OK);
+    assert_true(fabs(K[0][0] - 13.385e3) <= 1e-6 * 13.385e3);
+    assert_true(res.value > 126e3 && res.value < 155e3); /* between the sweep's neighbours */
+    hf_spread_free(ws);
+    hf_model_free(&one);
+}
+
+/* Published check: MIT OpenCourseWare 2.019 Design of Ocean Systems (2011),
+ * worked example: an inextensible line of wet weight 828 N/m in 25 m of
+ * water with a maximum (fairlead) tension of 1510 kN needs a minimum
+ * suspended length of 300.93 m; its horizontal tension is then
+ * 1510 kN - 828 N/m x 25 m = 1489.3 kN (derived, T = H + w h for a catenary).
+ * Here the inversion finds the anchor radius of a 400 m line for 1510 kN at
+ * the fairlead; the suspended length must then be the published 300.93 m. */
+static const char mit_text[] =
+    "title: Inextensible line, worked-example check\n"
+    "site: {depth: 25 m}\n"
+    "components:\n"
+    "  line828: {type: custom, wet_weight: 828 N/m, axial_stiffness: 1e15 N,\n"
+    "            breaking_load: 10 MN, seabed_friction: 0}\n"
+    "lines:\n"
+    "  - name: one\n"
+    "    anchor: [390 m, 0 m]\n"
+    "    fairlead: [0 m, 0 m, 0 m]\n"
+    "    sections: [{component: line828, length: 400 m}]\n";
+
+static void test_invert_published_catenary(void **s)
+{
+    (void)s;
+    hf_model mit;
+    hf_model_init(&mit);
+    hf_error e;
+    assert_int_equal(hf_case_load_buffer(mit_text, strlen(mit_text), "mit.yaml", &mit, &e), HF_OK);
+    hf_output o;
+    assert_int_equal(hf_sweep_output_parse(&mit, "fairlead_tension:one", &o, &e), HF_OK);
+    hf_invert_result res;
+    assert_int_equal(
+        hf_invert_solve(&mit, "lines[one].anchor_radius", 370.0, 399.0, &o, 1510e3, &res, &e),
+        HF_OK);
+    hf_param p;
+    assert_int_equal(hf_model_param_lookup(&mit, "lines[one].anchor_radius", &p, &e), HF_OK);
+    assert_int_equal(hf_model_param_set(&mit, &p, res.value, &e), HF_OK);
+    hf_spread *ws = hf_spread_alloc(&mit, &e);
+    hf_pose pose;
+    hf_spread_pose_rest(&mit, &pose);
+    hf_spread_result r;
+    assert_int_equal(hf_spread_solve(ws, &pose, &r, &e), HF_OK);
+    double suspended = 400.0 - r.states[0].grounded;
+    /* published to 5 significant digits: +-0.005 m */
+    if (fabs(suspended - 300.93) > 0.006)
+        fail_msg("suspended length %.4f m, published 300.93 m", suspended);
+    assert_true(fabs(r.states[0].h - 1489.3e3) <= 0.06e3); /* derived, 5 digits */
+    assert_true(fabs(r.states[0].tension - 1510e3) <= 1e-6 * 1510e3);
+    hf_spread_free(ws);
+    hf_model_free(&mit);
+}
+
+static void test_invert_not_bracketed(void **s)
+{
+    (void)s;
+    hf_output o;
+    hf_error e;
+    hf_invert_result res;
+    assert_int_equal(hf_sweep_output_parse(&model, "fairlead_tension:north", &o, &e), HF_OK);
+    assert_int_equal(hf_invert_solve(&model, "lines[north].sections[3].length", 111.0, 125.0, &o,
+                                     5e6, &res, &e),
+                     HF_ERANGE);
+    /* The message gives the outputs at both ends of the bracket. */
+    assert_non_null(strstr(e.text, "at 111"));
+    assert_non_null(strstr(e.text, "at 125"));
+    assert_non_null(strstr(e.text, "kN"));
+    assert_int_equal(hf_invert_solve(&model, "lines[north].sections[3].length", 125.0, 111.0, &o,
+                                     3e5, &res, &e),
+                     HF_EINVAL);
+    assert_int_equal(hf_invert_solve(&model, "lines[north].sections[3].length", 100.0, 125.0, &o,
+                                     NAN, &res, &e),
+                     HF_EINVAL);
+    assert_int_equal(hf_invert_solve(&model, "site.nowhere", 1.0, 2.0, &o, 3e5, &res, &e),
+                     HF_EINVAL);
+    /* A bracket end where the case cannot be built is named. */
+    assert_int_equal(hf_invert_solve(&model, "lines[north].sections[3].length", -10.0, 125.0, &o,
+                                     3e5, &res, &e),
+                     HF_ERANGE);
+    assert_non_null(strstr(e.text, "lower end"));
+}
+
+static void test_alloc_failures(void **s)
+{
+    (void)s;
+    hf_vary v;
+    memset(&v, 0, sizeof v);
+    v.path = "site.water_level";
+    v.from = -1.0;
+    v.to = 1.0;
+    v.step = 0.5;
+    const char *outs[] = {"offset_gale", "fairlead_tension"};
+    hf_error e;
+    int ok = 0;
+    for (long i = 1; i < 400 && !ok; i++) {
+        hf_alloc_fail_at(i, 0);
+        hf_sweep *sw = hf_sweep_alloc(&model, &v, 1, 0, outs, 2, 2, &e);
+        hf_alloc_fail_at(0, 0);
+        if (sw) {
+            ok = 1;
+        } else {
+            assert_int_equal(e.status, HF_ENOMEM);
+        }
+        hf_sweep_free(sw);
+    }
+    assert_true(ok);
+}
+
+int main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_rows_equal_individual_runs),
+        cmocka_unit_test(test_invalid_value_row),
+        cmocka_unit_test(test_output_names),
+        cmocka_unit_test(test_vary_parse),
+        cmocka_unit_test(test_invert_hits_target),
+        cmocka_unit_test(test_invert_clump_for_stiffness),
+        cmocka_unit_test(test_invert_published_catenary),
+        cmocka_unit_test(test_invert_not_bracketed),
+        cmocka_unit_test(test_alloc_failures),
+    };
+    return cmocka_run_group_tests(tests, setup, teardown);
+}
