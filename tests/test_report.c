@@ -1,0 +1,578 @@
+/* test_report.c - HTML report: well-formed, self-contained, complete, honest verdicts. */
+#include <math.h>
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <stdint.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+#include <cmocka.h>
+#include "holdfast/alloc.h"
+#include "holdfast/case.h"
+#include "holdfast/cli.h"
+#include "holdfast/report.h"
+#include "holdfast/spread.h"
+#include "holdfast/svg.h"
+
+/* The same checker as tests/test_svg.c (kept in step by hand; a shared
+ * tests/ support file would serve both). */
+/* ---- a small strict XML well-formedness checker (XML 1.0, W3C 2008) ----
+ * Checks: one root element; tags balanced and properly nested; names
+ * well-formed; attributes quoted, not repeated, no '<' in values; '&' only
+ * in the five predefined entities or character references; no raw '<' in
+ * text; no control characters XML forbids; comments, an XML declaration and
+ * an HTML5 <!DOCTYPE html> accepted.  Returns NULL, or a message with the
+ * byte offset of the first fault. */
+static char xml_msg[256];
+
+static int name_start(int c)
+{
+    return (c >= 'A' && c <= 'Z') || (c >= 'a' && c <= 'z') || c == '_' || c == ':';
+}
+
+static int name_char(int c)
+{
+    return name_start(c) || (c >= '0' && c <= '9') || c == '-' || c == '.';
+}
+
+static const char *xml_fail(const char *base, const char *p, const char *what)
+{
+    snprintf(xml_msg, sizeof xml_msg, "offset %ld: %s near \"%.40s\"", (long)(p - base), what, p);
+    return xml_msg;
+}
+
+/* Checks text or an attribute value from p to end (exclusive). */
+static const char *xml_chars(const char *base, const char *p, const char *end, int in_attr)
+{
+    for (; p < end; p++) {
+        unsigned char c = (unsigned char)*p;
+        if (c < 0x20 && c != '\t' && c != '\n' && c != '\r')
+            return xml_fail(base, p, "control character");
+        if (c == '<')
+            return xml_fail(base, p, in_attr ? "'<' in attribute" : "raw '<' in text");
+        if (c == '&') {
+            const char *q = p + 1;
+            if (*q == '#') {
+                q++;
+                int hex = *q == 'x';
+                if (hex)
+                    q++;
+                const char *d = q;
+                while (q < end && (hex ? (strchr("0123456789abcdefABCDEF", *q) != NULL)
+                                       : (*q >= '0' && *q <= '9')))
+                    q++;
+                if (q == d || q >= end || *q != ';')
+                    return xml_fail(base, p, "bad character reference");
+            } else {
+                static const char *const ent[] = {"amp;", "lt;", "gt;", "quot;", "apos;"};
+                int ok = 0;
+                for (int i = 0; i < 5; i++)
+                    if (!strncmp(q, ent[i], strlen(ent[i]))) {
+                        ok = 1;
+                        q += strlen(ent[i]) - 1;
+                    }
+                if (!ok)
+                    return xml_fail(base, p, "'&' not starting an entity");
+            }
+            p = q;
+        }
+    }
+    return NULL;
+}
+
+static const char *xml_check(const char *doc)
+{
+    const char *p = doc;
+    const char *stack[256];
+    size_t stack_len[256];
+    int depth = 0, roots = 0;
+    if (!strncmp(p, "<?xml", 5)) {
+        const char *e = strstr(p, "?>");
+        if (!e)
+            return xml_fail(doc, p, "unterminated declaration");
+        p = e + 2;
+    }
+    while (*p) {
+        if (*p != '<') {
+            const char *e = strchr(p, '<');
+            if (!e)
+                e = p + strlen(p);
+            if (depth == 0)
+                for (const char *q = p; q < e; q++)
+                    if (!strchr(" \t\r\n", *q))
+                        return xml_fail(doc, q, "text outside the root element");
+            const char *m = xml_chars(doc, p, e, 0);
+            if (m)
+                return m;
+            p = e;
+            continue;
+        }
+        if (!strncmp(p, "<!--", 4)) {
+            const char *e = strstr(p + 4, "-->");
+            if (!e)
+                return xml_fail(doc, p, "unterminated comment");
+            p = e + 3;
+            continue;
+        }
+        if (!strncmp(p, "<!DOCTYPE html>", 15) && depth == 0 && roots == 0) {
+            p += 15;
+            continue;
+        }
+        if (p[1] == '/') {
+            const char *n = p + 2, *q = n;
+            while (name_char((unsigned char)*q))
+                q++;
+            if (depth == 0)
+                return xml_fail(doc, p, "end tag without start tag");
+            depth--;
+            if ((size_t)(q - n) != stack_len[depth] || strncmp(n, stack[depth], stack_len[depth]))
+                return xml_fail(doc, p, "end tag does not match the open element");
+            while (*q == ' ' || *q == '\n')
+                q++;
+            if (*q != '>')
+                return xml_fail(doc, q, "malformed end tag");
+            p = q + 1;
+            continue;
+        }
+        /* start tag */
+        const char *n = p + 1, *q = n;
+        if (!name_start((unsigned char)*q))
+            return xml_fail(doc, p, "bad element name");
+        while (name_char((unsigned char)*q))
+            q++;
+        const char *ename = n;
+        size_t elen = (size_t)(q - n);
+        const char *attr_names[64];
+        size_t attr_lens[64];
+        int nattr = 0;
+        for (;;) {
+            int ws = 0;
+            while (strchr(" \t\r\n", *q) && *q) {
+                q++;
+                ws = 1;
+            }
+            if (*q == '>' || (*q == '/' && q[1] == '>'))
+                break;
+            if (!ws || !name_start((unsigned char)*q))
+                return xml_fail(doc, q, "bad attribute");
+            const char *an = q;
+            while (name_char((unsigned char)*q))
+                q++;
+            size_t al = (size_t)(q - an);
+            for (int i = 0; i < nattr; i++)
+                if (attr_lens[i] == al && !strncmp(attr_names[i], an, al))
+                    return xml_fail(doc, an, "repeated attribute");
+            if (nattr < 64) {
+                attr_names[nattr] = an;
+                attr_lens[nattr++] = al;
+            }
+            if (*q != '=' || (q[1] != '"' && q[1] != '\''))
+                return xml_fail(doc, q, "attribute without a quoted value");
+            char quote = q[1];
+            const char *v = q + 2, *ve = strchr(v, quote);
+            if (!ve)
+                return xml_fail(doc, q, "unterminated attribute value");
+            const char *m = xml_chars(doc, v, ve, 1);
+            if (m)
+                return m;
+            q = ve + 1;
+        }
+        if (depth == 0 && roots++)
+            return xml_fail(doc, p, "second root element");
+        if (*q == '/') {
+            p = q + 2;
+            continue;
+        }
+        if (depth >= 256)
+            return xml_fail(doc, p, "nesting too deep");
+        stack[depth] = ename;
+        stack_len[depth++] = elen;
+        p = q + 1;
+    }
+    if (depth)
+        return xml_fail(doc, p, "unclosed element at end");
+    if (!roots)
+        return xml_fail(doc, p, "no root element");
+    return NULL;
+}
+
+static void assert_well_formed(const char *doc)
+{
+    const char *m = xml_check(doc);
+    if (m) {
+        print_error("not well-formed XML: %s\n", m);
+        fail();
+    }
+}
+
+static char *slurp(FILE *f)
+{
+    long n = ftell(f);
+    assert_true(n > 0);
+    rewind(f);
+    char *s = malloc((size_t)n + 1);
+    assert_non_null(s);
+    assert_int_equal(fread(s, 1, (size_t)n, f), (size_t)n);
+    s[n] = '\0';
+    return s;
+}
+
+static size_t count(const char *s, const char *what)
+{
+    size_t n = 0;
+    for (const char *p = strstr(s, what); p; p = strstr(p + 1, what))
+        n++;
+    return n;
+}
+
+/* A small fictional case: a pontoon at the invented Port Ellery. */
+static const char case_text[] =
+    "title: \"Test <pontoon> & \\\"quay\\\" of the invented Port Ellery\"\n"
+    "site:\n"
+    "  depth: 12.5 m\n"
+    "components:\n"
+    "  chain-a: {type: studless_chain, grade: R3, diameter: 38 mm}\n"
+    "hull:\n"
+    "  position: [0, 0]\n"
+    "  heading: 0 deg\n"
+    "  outline: [[9, 7], [-9, 7], [-9, -7], [9, -7]]\n"
+    "lines:\n"
+    "  - name: north\n"
+    "    anchor: [0, 95.3]\n"
+    "    fairlead: [0, 6.0, -0.5]\n"
+    "    sections:\n"
+    "      - {component: chain-a, length: 93.5 m}\n"
+    "  - name: south\n"
+    "    anchor: [0, -95.3]\n"
+    "    fairlead: [0, -6.0, -0.5]\n"
+    "    sections:\n"
+    "      - {component: chain-a, length: 50 m}\n"
+    "      - {clump: 15 kN}\n"
+    "      - {component: chain-a, length: 43.5 m}\n"
+    "  - name: east\n"
+    "    anchor: [97.1, 0]\n"
+    "    fairlead: [8.0, 0, -0.5]\n"
+    "    sections:\n"
+    "      - {component: chain-a, length: 93.5 m}\n"
+    "loads:\n"
+    "  - name: gale\n"
+    "    force: 35 kN\n"
+    "    direction: 250 deg\n"
+    "criteria:\n"
+    "  preset: api-rp-2sk\n";
+
+static void load_case(hf_model *m)
+{
+    hf_error err;
+    hf_model_init(m);
+    hf_status s = hf_case_load_buffer(case_text, strlen(case_text), "ellery.yaml", m, &err);
+    if (s != HF_OK)
+        print_error("%s\n", err.text);
+    assert_int_equal(s, HF_OK);
+}
+
+/* A whole report as `holdfast run` would stream it: every part of the API. */
+static char *write_report(hf_model *m, int fail_one, hf_report *r)
+{
+    FILE *f = tmpfile();
+    assert_non_null(f);
+    hf_error err;
+    hf_report_begin(r, f, m, "holdfast run ellery.yaml --out results");
+    hf_report_section(r, "Lines at rest", "Every line solved with the hull at rest.");
+    hf_spread *ws = hf_spread_alloc(m, &err);
+    assert_non_null(ws);
+    hf_pose pose;
+    hf_spread_pose_rest(m, &pose);
+    hf_spread_result res;
+    assert_int_equal(hf_spread_solve(ws, &pose, &res, &err), HF_OK);
+    static const char *const cols[] = {"line", "fairlead tension (kN)", "utilisation (-)",
+                                       "note <&>"};
+    hf_report_table_begin(r, "Tensions & utilisation", cols, 4);
+    for (size_t i = 0; i < m->nlines; i++) {
+        char t[32], u[32];
+        hf_report_number(t, sizeof t, res.states[i].tension / 1e3, 4);
+        hf_report_number(u, sizeof u, res.states[i].max_utilisation, 3);
+        const char *cells[4] = {m->lines[i].name, t, u, i == 1 ? "clump \"A\" < 20 kN" : NULL};
+        hf_report_table_row(r, cells);
+    }
+    hf_report_table_end(r);
+    hf_report_table_begin(r, NULL, cols, 3);
+    double v[2] = {2.38512345, NAN};
+    hf_report_table_row_numbers(r, "numbers", v, 3);
+    hf_report_table_end(r);
+    for (size_t i = 0; i < m->nlines; i++) {
+        FILE *fig = hf_report_figure_begin(r);
+        assert_int_equal(hf_report_svg_elevation(fig, m, i, &res.states[i], 0, &err), HF_OK);
+        hf_report_figure_end(r, "Elevation & tension of one line.");
+    }
+    FILE *fig = hf_report_figure_begin(r);
+    assert_int_equal(hf_report_svg_plan(fig, m, NULL, NULL, &m->loads[0], 0, &err), HF_OK);
+    hf_report_figure_end(r, "Plan.");
+    hf_report_section(r, "Criteria", NULL);
+    for (size_t i = 0; i < m->nlines; i++) {
+        char item[64], req[64], got[32];
+        snprintf(item, sizeof item, "line %s, intact", m->lines[i].name);
+        snprintf(req, sizeof req, "MBL/T at least %.3g", m->criteria.factor_intact);
+        double fac = 1.0 / res.states[i].max_utilisation;
+        hf_report_number(got, sizeof got, fac, 3);
+        hf_report_check(r, item, req, got,
+                        !(fail_one && i == 2) && fac >= m->criteria.factor_intact);
+    }
+    hf_report_note(r, "warning", "Anchor <uplift> & drag: see the anchor table.");
+    hf_report_paragraph(r, "Plain words & <brackets>.");
+    assert_int_equal(hf_report_end(r, &err), HF_OK);
+    hf_spread_free(ws);
+    char *s = slurp(f);
+    fclose(f);
+    return s;
+}
+
+static void test_report_complete_and_well_formed(void **state)
+{
+    (void)state;
+    hf_model m;
+    load_case(&m);
+    hf_report r;
+    char *html = write_report(&m, 0, &r);
+    /* HF_REPORT_DUMP=FILE keeps this report, e.g. to render it with
+     * scripts/render-report.sh and look at it */
+    const char *dump = getenv("HF_REPORT_DUMP");
+    if (dump) {
+        FILE *d = fopen(dump, "w");
+        assert_non_null(d);
+        fputs(html, d);
+        fclose(d);
+    }
+    assert_well_formed(html);
+    /* the case summary, components with sources, lines, results, figures */
+    assert_non_null(strstr(html, "<!DOCTYPE html>"));
+    assert_non_null(strstr(html, "Test &lt;pontoon&gt; &amp; &quot;quay&quot;"));
+    assert_non_null(strstr(html, "<h2>Case</h2>"));
+    assert_non_null(strstr(html, "<h2>Components</h2>"));
+    assert_non_null(strstr(html, "IACS UR W22")); /* the MBL formula's source, from component.c */
+    assert_non_null(strstr(html, "<h2>Lines</h2>"));
+    assert_non_null(strstr(html, "chain-a 50 m + clump 15 kN + chain-a 43.5 m"));
+    assert_non_null(strstr(html, "api-rp-2sk"));
+    assert_non_null(strstr(html, "Tensions &amp; utilisation"));
+    assert_non_null(strstr(html, "clump &quot;A&quot; &lt; 20 kN"));
+    assert_non_null(strstr(html, "<td class=\"num\">2.39</td><td class=\"num\">-</td>"));
+    assert_int_equal(count(html, "<svg "), 4);
+    assert_int_equal(count(html, "<figure>"), 4);
+    assert_non_null(strstr(html, "Figure 4. </b>Plan."));
+    assert_non_null(strstr(html, "gale: 35 kN"));
+    /* the safety caution, at the top and at the end */
+    char first_line[256];
+    const char *nl = strchr(hf_cli_caution, '\n');
+    size_t n = (size_t)(nl - hf_cli_caution);
+    memcpy(first_line, hf_cli_caution, n);
+    first_line[n] = '\0';
+    assert_int_equal(count(html, first_line), 2);
+    /* the verdict in plain words */
+    assert_int_equal(r.nchecks, 3);
+    assert_int_equal(r.nfailed, 0);
+    assert_non_null(strstr(html, "All 3 criteria checks passed."));
+    assert_int_equal(count(html, ">PASS<"), 3);
+    assert_int_equal(count(html, ">FAIL<"), 0);
+    /* self-contained: no script, no external resource, nothing fetched */
+    assert_null(strstr(html, "<script"));
+    assert_null(strstr(html, "src="));
+    assert_null(strstr(html, "href="));
+    assert_null(strstr(html, "@import"));
+    assert_null(strstr(html, "url("));
+    assert_int_equal(count(html, "http"), count(html, "xmlns=\"http://www.w3.org/2000/svg\""));
+    free(html);
+    hf_model_free(&m);
+}
+
+static void test_report_failed_check_is_plain(void **state)
+{
+    (void)state;
+    hf_model m;
+    load_case(&m);
+    hf_report r;
+    char *html = write_report(&m, 1, &r);
+    assert_well_formed(html);
+    assert_int_equal(r.nfailed, 1);
+    assert_non_null(strstr(html, "1 of 3 criteria checks FAILED."));
+    assert_int_equal(count(html, ">FAIL<"), 1);
+    assert_null(strstr(html, "checks passed"));
+    free(html);
+    hf_model_free(&m);
+}
+
+static void test_report_empty_and_no_checks(void **state)
+{
+    (void)state;
+    FILE *f = tmpfile();
+    assert_non_null(f);
+    hf_report r;
+    hf_report_begin(&r, f, NULL, NULL);
+    hf_report_table_row(&r, NULL); /* no table open: ignored, page stays valid */
+    hf_report_section(&r, "Empty", NULL);
+    assert_int_equal(hf_report_end(&r, NULL), HF_OK);
+    char *html = slurp(f);
+    assert_well_formed(html);
+    assert_non_null(strstr(html, "No criteria checks were made."));
+    free(html);
+    fclose(f);
+}
+
+static void test_report_write_error(void **state)
+{
+    (void)state;
+    /* a stream that cannot be written: the error reaches the caller */
+    FILE *f = fopen("/dev/null", "r");
+    assert_non_null(f);
+    hf_report r;
+    hf_error err;
+    hf_error_clear(&err);
+    hf_report_begin(&r, f, NULL, "x");
+    assert_int_equal(hf_report_end(&r, &err), HF_EIO);
+    assert_non_null(strstr(err.text, "report"));
+    fclose(f);
+}
+
+/* Numbers for people: significant digits, plain decimals, no "-0". */
+static void test_report_number(void **state)
+{
+    (void)state;
+    char b[48];
+    static const struct {
+        double v;
+        int d;
+        const char *want;
+    } c[] = {
+        {2.38512345, 3, "2.39"},
+        {1234.5, 3, "1230"},
+        {0.0412345, 3, "0.0412"},
+        {-812.44, 4, "-812.4"},
+        {-0.0004, 3, "-0.0004"},
+        {1e-5, 3, "1e-05"},
+        {0.0, 4, "0"},
+        {-1e-20, 3, "-1e-20"},
+        {2.5e9, 3, "2.5e+09"},
+        {100.0, 4, "100"},
+        {NAN, 4, "-"},
+        {-INFINITY, 4, "-"},
+        {-0.00049, 1, "-0.0005"},
+        {999.96, 4, "1000"},
+    };
+    for (size_t i = 0; i < sizeof c / sizeof c[0]; i++) {
+        hf_report_number(b, sizeof b, c[i].v, c[i].d);
+        if (strcmp(b, c[i].want)) {
+            print_error("%g at %d digits: got \"%s\", want \"%s\"\n", c[i].v, c[i].d, b, c[i].want);
+            fail();
+        }
+    }
+}
+
+/* Allocation failures in the model-aware figures come back as HF_ENOMEM
+ * with nothing leaked (alloc.h failure injection). */
+static void test_report_figures_enomem(void **state)
+{
+    (void)state;
+    hf_model m;
+    load_case(&m);
+    for (long k = 1; k <= 5; k++) {
+        FILE *f = tmpfile();
+        hf_error err;
+        hf_alloc_fail_at(k, 0);
+        hf_status s = hf_report_svg_plan(f, &m, NULL, NULL, NULL, 1, &err);
+        hf_alloc_fail_at(0, 0);
+        assert_int_equal(s, HF_ENOMEM);
+        fclose(f);
+    }
+    hf_model_free(&m);
+}
+
+/* `holdfast plot` end to end: each figure kind writes a well-formed SVG;
+ * usage errors exit 2 and write nothing. */
+static void test_cmd_plot(void **state)
+{
+    (void)state;
+    char dir[] = "/tmp/hf_plot_XXXXXX";
+    assert_non_null(mkdtemp(dir));
+    char casep[64], outp[64];
+    snprintf(casep, sizeof casep, "%s/ellery.yaml", dir);
+    snprintf(outp, sizeof outp, "%s/fig.svg", dir);
+    FILE *f = fopen(casep, "w");
+    assert_non_null(f);
+    fputs(case_text, f);
+    fclose(f);
+    static const char *const figs[][8] = {
+        {"plot", NULL, "--figure", "plan", "--load", "gale", "--out", NULL},
+        {"plot", NULL, "--figure", "elevation", "--line=south", "--out", NULL, NULL},
+        {"plot", NULL, "--figure", "curve", "--direction", "90", "--out", NULL},
+        {"plot", NULL, "--figure=curve", "--range", "-4:4:0.25", "--out", NULL, NULL},
+    };
+    static const char *const want[] = {">gale: 35 kN<", "Line south", ">Utilisation of each line<",
+                                       ">Stiffness<"};
+    for (size_t k = 0; k < 4; k++) {
+        char *argv[8];
+        int argc = 0;
+        for (int i = 0; i < 8; i++) {
+            const char *a = figs[k][i];
+            if (i == 1)
+                a = casep;
+            else if (!a && i > 1 && figs[k][i - 1] && !strcmp(figs[k][i - 1], "--out"))
+                a = outp;
+            if (!a)
+                break;
+            argv[argc++] = (char *)a;
+        }
+        remove(outp);
+        assert_int_equal(hf_cmd_plot(argc, argv), 0);
+        FILE *g = fopen(outp, "r");
+        assert_non_null(g);
+        fseek(g, 0, SEEK_END);
+        char *svg = slurp(g);
+        fclose(g);
+        assert_well_formed(svg);
+        if (!strstr(svg, want[k])) {
+            print_error("figure %zu lacks \"%s\"\n", k, want[k]);
+            fail();
+        }
+        free(svg);
+    }
+    static const char *const bad[][6] = {
+        {"plot", NULL, "--figure", "side", "--out", NULL},
+        {"plot", NULL, "--figure", "plan", "--line", "north"},
+        {"plot", NULL, "--figure", "elevation", "--line", "nowhere"},
+        {"plot", NULL, "--figure", "curve", "--range", "0:5:-1"},
+        {"plot", NULL, "--out", "x.svg", NULL, NULL},
+    };
+    for (size_t k = 0; k < 5; k++) {
+        char *argv[6];
+        int argc = 0;
+        for (int i = 0; i < 6; i++) {
+            const char *a = i == 1 ? casep : bad[k][i];
+            if (!a && i == 5 && bad[k][4] && !strcmp(bad[k][4], "--out"))
+                a = outp;
+            if (!a)
+                break;
+            argv[argc++] = (char *)a;
+        }
+        remove(outp);
+        assert_int_equal(hf_cmd_plot(argc, argv), 2);
+        assert_null(fopen(outp, "r"));
+    }
+    remove(outp);
+    remove(casep);
+    rmdir(dir);
+}
+
+int main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_report_complete_and_well_formed),
+        cmocka_unit_test(test_report_failed_check_is_plain),
+        cmocka_unit_test(test_report_empty_and_no_checks),
+        cmocka_unit_test(test_report_write_error),
+        cmocka_unit_test(test_report_number),
+        cmocka_unit_test(test_report_figures_enomem),
+        cmocka_unit_test(test_cmd_plot),
+    };
+    return cmocka_run_group_tests(tests, NULL, NULL);
+}

@@ -1,0 +1,1153 @@
+/* test_svg.c - SVG writer: ticks over awkward ranges, data <-> pixel mapping,
+ * well-formed XML, and every figure's plotted points read back through the
+ * figure's own tick labels to within half a pixel. */
+#include <math.h>
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <stdint.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <cmocka.h>
+#include "holdfast/svg.h"
+
+/* ---- a small strict XML well-formedness checker (XML 1.0, W3C 2008) ----
+ * Checks: one root element; tags balanced and properly nested; names
+ * well-formed; attributes quoted, not repeated, no '<' in values; '&' only
+ * in the five predefined entities or character references; no raw '<' in
+ * text; no control characters XML forbids; comments, an XML declaration and
+ * an HTML5 <!DOCTYPE html> accepted.  Returns NULL, or a message with the
+ * byte offset of the first fault. */
+static char xml_msg[256];
+
+static int name_start(int c)
+{
+    return (c >= 'A' && c <= 'Z') || (c >= 'a' && c <= 'z') || c == '_' || c == ':';
+}
+
+static int name_char(int c)
+{
+    return name_start(c) || (c >= '0' && c <= '9') || c == '-' || c == '.';
+}
+
+static const char *xml_fail(const char *base, const char *p, const char *what)
+{
+    snprintf(xml_msg, sizeof xml_msg, "offset %ld: %s near \"%.40s\"", (long)(p - base), what, p);
+    return xml_msg;
+}
+
+/* Checks text or an attribute value from p to end (exclusive). */
+static const char *xml_chars(const char *base, const char *p, const char *end, int in_attr)
+{
+    for (; p < end; p++) {
+        unsigned char c = (unsigned char)*p;
+        if (c < 0x20 && c != '\t' && c != '\n' && c != '\r')
+            return xml_fail(base, p, "control character");
+        if (c == '<')
+            return xml_fail(base, p, in_attr ? "'<' in attribute" : "raw '<' in text");
+        if (c == '&') {
+            const char *q = p + 1;
+            if (*q == '#') {
+                q++;
+                int hex = *q == 'x';
+                if (hex)
+                    q++;
+                const char *d = q;
+                while (q < end && (hex ? (strchr("0123456789abcdefABCDEF", *q) != NULL)
+                                       : (*q >= '0' && *q <= '9')))
+                    q++;
+                if (q == d || q >= end || *q != ';')
+                    return xml_fail(base, p, "bad character reference");
+            } else {
+                static const char *const ent[] = {"amp;", "lt;", "gt;", "quot;", "apos;"};
+                int ok = 0;
+                for (int i = 0; i < 5; i++)
+                    if (!strncmp(q, ent[i], strlen(ent[i]))) {
+                        ok = 1;
+                        q += strlen(ent[i]) - 1;
+                    }
+                if (!ok)
+                    return xml_fail(base, p, "'&' not starting an entity");
+            }
+            p = q;
+        }
+    }
+    return NULL;
+}
+
+static const char *xml_check(const char *doc)
+{
+    const char *p = doc;
+    const char *stack[256];
+    size_t stack_len[256];
+    int depth = 0, roots = 0;
+    if (!strncmp(p, "<?xml", 5)) {
+        const char *e = strstr(p, "?>");
+        if (!e)
+            return xml_fail(doc, p, "unterminated declaration");
+        p = e + 2;
+    }
+    while (*p) {
+        if (*p != '<') {
+            const char *e = strchr(p, '<');
+            if (!e)
+                e = p + strlen(p);
+            if (depth == 0)
+                for (const char *q = p; q < e; q++)
+                    if (!strchr(" \t\r\n", *q))
+                        return xml_fail(doc, q, "text outside the root element");
+            const char *m = xml_chars(doc, p, e, 0);
+            if (m)
+                return m;
+            p = e;
+            continue;
+        }
+        if (!strncmp(p, "<!--", 4)) {
+            const char *e = strstr(p + 4, "-->");
+            if (!e)
+                return xml_fail(doc, p, "unterminated comment");
+            p = e + 3;
+            continue;
+        }
+        if (!strncmp(p, "<!DOCTYPE html>", 15) && depth == 0 && roots == 0) {
+            p += 15;
+            continue;
+        }
+        if (p[1] == '/') {
+            const char *n = p + 2, *q = n;
+            while (name_char((unsigned char)*q))
+                q++;
+            if (depth == 0)
+                return xml_fail(doc, p, "end tag without start tag");
+            depth--;
+            if ((size_t)(q - n) != stack_len[depth] || strncmp(n, stack[depth], stack_len[depth]))
+                return xml_fail(doc, p, "end tag does not match the open element");
+            while (*q == ' ' || *q == '\n')
+                q++;
+            if (*q != '>')
+                return xml_fail(doc, q, "malformed end tag");
+            p = q + 1;
+            continue;
+        }
+        /* start tag */
+        const char *n = p + 1, *q = n;
+        if (!name_start((unsigned char)*q))
+            return xml_fail(doc, p, "bad element name");
+        while (name_char((unsigned char)*q))
+            q++;
+        const char *ename = n;
+        size_t elen = (size_t)(q - n);
+        const char *attr_names[64];
+        size_t attr_lens[64];
+        int nattr = 0;
+        for (;;) {
+            int ws = 0;
+            while (strchr(" \t\r\n", *q) && *q) {
+                q++;
+                ws = 1;
+            }
+            if (*q == '>' || (*q == '/' && q[1] == '>'))
+                break;
+            if (!ws || !name_start((unsigned char)*q))
+                return xml_fail(doc, q, "bad attribute");
+            const char *an = q;
+            while (name_char((unsigned char)*q))
+                q++;
+            size_t al = (size_t)(q - an);
+            for (int i = 0; i < nattr; i++)
+                if (attr_lens[i] == al && !strncmp(attr_names[i], an, al))
+                    return xml_fail(doc, an, "repeated attribute");
+            if (nattr < 64) {
+                attr_names[nattr] = an;
+                attr_lens[nattr++] = al;
+            }
+            if (*q != '=' || (q[1] != '"' && q[1] != '\''))
+                return xml_fail(doc, q, "attribute without a quoted value");
+            char quote = q[1];
+            const char *v = q + 2, *ve = strchr(v, quote);
+            if (!ve)
+                return xml_fail(doc, q, "unterminated attribute value");
+            const char *m = xml_chars(doc, v, ve, 1);
+            if (m)
+                return m;
+            q = ve + 1;
+        }
+        if (depth == 0 && roots++)
+            return xml_fail(doc, p, "second root element");
+        if (*q == '/') {
+            p = q + 2;
+            continue;
+        }
+        if (depth >= 256)
+            return xml_fail(doc, p, "nesting too deep");
+        stack[depth] = ename;
+        stack_len[depth++] = elen;
+        p = q + 1;
+    }
+    if (depth)
+        return xml_fail(doc, p, "unclosed element at end");
+    if (!roots)
+        return xml_fail(doc, p, "no root element");
+    return NULL;
+}
+
+static void assert_well_formed(const char *doc)
+{
+    const char *m = xml_check(doc);
+    if (m) {
+        print_error("not well-formed XML: %s\n", m);
+        fail();
+    }
+}
+
+/* The checker itself must reject broken documents, or the checks above
+ * could not fail. */
+static void test_xml_checker_rejects(void **state)
+{
+    (void)state;
+    assert_null(xml_check("<svg a=\"1\"><g/><text>x &amp; y</text></svg>"));
+    assert_null(xml_check("<?xml version=\"1.0\"?>\n<!-- c --><a><b></b></a>\n"));
+    assert_null(xml_check("<!DOCTYPE html>\n<html><p>&#215;&#x3b1;</p></html>"));
+    static const char *const bad[] = {
+        "<a><b></a></b>",
+        "<a>",
+        "<a></a><b></b>",
+        "<a x=1></a>",
+        "<a x=\"1\" x=\"2\"/>",
+        "<a>1 < 2</a>",
+        "<a>R&D</a>",
+        "<a x=\"<\"/>",
+        "text<a/>",
+        "<a>\x01</a>",
+        "</a>",
+        "<a><!-- x</a>",
+        "<1a/>",
+        "<a>&bogus;</a>",
+        "<a x=\"1\"y=\"2\"/>",
+    };
+    for (size_t i = 0; i < sizeof bad / sizeof bad[0]; i++)
+        if (!xml_check(bad[i])) {
+            print_error("accepted: %s\n", bad[i]);
+            fail();
+        }
+}
+
+/* ---- reading an SVG back --------------------------------------------------- */
+
+static char *slurp(FILE *f)
+{
+    long n = ftell(f);
+    assert_true(n > 0);
+    rewind(f);
+    char *s = malloc((size_t)n + 1);
+    assert_non_null(s);
+    assert_int_equal(fread(s, 1, (size_t)n, f), (size_t)n);
+    s[n] = '\0';
+    return s;
+}
+
+/* Value of attribute `name` in the tag starting at tag (up to its '>'). */
+static int attr(const char *tag, const char *name, char *buf, size_t cap)
+{
+    const char *end = strchr(tag, '>');
+    size_t nl = strlen(name);
+    for (const char *p = tag; p && p < end; p++) {
+        if (p[-1] == ' ' && !strncmp(p, name, nl) && p[nl] == '=' && p[nl + 1] == '"') {
+            const char *v = p + nl + 2, *ve = strchr(v, '"');
+            size_t l = (size_t)(ve - v);
+            if (l >= cap)
+                l = cap - 1;
+            memcpy(buf, v, l);
+            buf[l] = '\0';
+            return 1;
+        }
+    }
+    return 0;
+}
+
+static double attr_num(const char *tag, const char *name)
+{
+    char b[64];
+    if (!attr(tag, name, b, sizeof b))
+        return NAN;
+    return strtod(b, NULL);
+}
+
+/* A linear pixel = a + b * value fit, by least squares through the tick
+ * labels of one axis. */
+typedef struct {
+    double a, b;
+    int n;
+} fit;
+
+static double fit_px(const fit *f, double v)
+{
+    return f->a + f->b * v;
+}
+
+/* Collects numeric tick labels: x-axis labels are middle-anchored texts at
+ * pixel row `row` (x = their x); y-axis labels are end-anchored texts at
+ * column `col` with row in [rmin, rmax] (pixel = y - 4, the baseline shift
+ * the writer uses); x-axis labels are kept to columns [rmin, rmax] when
+ * rmax > rmin.  row_or_col < 0: the row (column) most labels share. */
+static fit axis_fit(const char *svg, int horizontal, double row_or_col, double rmin, double rmax)
+{
+    enum { CAP = 512 };
+    static double val[CAP], tx[CAP], ty[CAP];
+    size_t nc = 0;
+    for (const char *p = strstr(svg, "<text "); p && nc < CAP; p = strstr(p + 1, "<text ")) {
+        char anchor[16];
+        attr(p, "text-anchor", anchor, sizeof anchor);
+        if (strcmp(anchor, horizontal ? "middle" : "end"))
+            continue;
+        const char *body = strchr(p, '>') + 1;
+        char *end;
+        double v = strtod(body, &end);
+        if (end == body || *end != '<')
+            continue;
+        val[nc] = v;
+        tx[nc] = attr_num(p, "x");
+        ty[nc++] = attr_num(p, "y");
+    }
+    if (row_or_col < 0) {
+        size_t best = 0;
+        for (size_t i = 0; i < nc; i++) {
+            size_t k = 0;
+            for (size_t j = 0; j < nc; j++)
+                k += fabs((horizontal ? ty[j] - ty[i] : tx[j] - tx[i])) < 0.01;
+            if (k > best) {
+                best = k;
+                row_or_col = horizontal ? ty[i] : tx[i];
+            }
+        }
+        rmin = -1e9;
+        rmax = 1e9;
+    }
+    double sx = 0, sy = 0, sxx = 0, sxy = 0;
+    int n = 0;
+    for (size_t i = 0; i < nc; i++) {
+        double px;
+        if (horizontal) {
+            if (fabs(ty[i] - row_or_col) > 0.01 || (rmax > rmin && (tx[i] < rmin || tx[i] > rmax)))
+                continue;
+            px = tx[i];
+        } else {
+            if (fabs(tx[i] - row_or_col) > 0.01 || ty[i] < rmin || ty[i] > rmax)
+                continue;
+            px = ty[i] - 4;
+        }
+        sx += val[i];
+        sy += px;
+        sxx += val[i] * val[i];
+        sxy += val[i] * px;
+        n++;
+    }
+    fit f = {0, 0, n};
+    assert_true(n >= 2);
+    f.b = (n * sxy - sx * sy) / (n * sxx - sx * sx);
+    f.a = (sy - f.b * sx) / n;
+    return f;
+}
+
+/* Parses the k-th (0-based) polyline's points into xs/ys (cap entries);
+ * returns the number of points, or -1 when there is no such polyline. */
+static long polyline_points(const char *svg, const char *must_have, int k, double *xs, double *ys,
+                            size_t cap)
+{
+    const char *p = svg;
+    for (;;) {
+        p = strstr(p, "<polyline ");
+        if (!p)
+            return -1;
+        const char *e = strchr(p, '>');
+        int match = 1;
+        if (must_have) {
+            const char *m = strstr(p, must_have);
+            match = m && m < e;
+        }
+        if (match && k-- == 0)
+            break;
+        p = e;
+    }
+    const char *q = strstr(p, "points=\"") + 8;
+    size_t n = 0;
+    while (*q != '"') {
+        char *end;
+        double x = strtod(q, &end);
+        assert_int_equal(*end, ',');
+        double y = strtod(end + 1, &end);
+        if (n < cap) {
+            xs[n] = x;
+            ys[n] = y;
+        }
+        n++;
+        q = end;
+        while (*q == ' ')
+            q++;
+    }
+    return (long)n;
+}
+
+/* ---- ticks ----------------------------------------------------------------- */
+
+/* Is s of the form {1, 2, 5} x 10^k?  The 1-2-5 "nice number" steps of
+ * Heckbert (1990), "Nice numbers for graph labels", Graphics Gems I. */
+static int one_two_five(double s)
+{
+    double k = floor(log10(s) + 1e-9);
+    double m = s / pow(10.0, k);
+    return fabs(m - 1) < 1e-9 || fabs(m - 2) < 1e-9 || fabs(m - 5) < 1e-9;
+}
+
+static void check_ticks(double lo, double hi, int target)
+{
+    hf_svg_ticks t;
+    hf_error err;
+    assert_int_equal(hf_svg_ticks_choose(lo, hi, target, &t, &err), HF_OK);
+    double mn = fmin(lo, hi), mx = fmax(lo, hi);
+    assert_true(one_two_five(t.step));
+    assert_true(t.n >= 2 && t.n <= HF_SVG_MAX_TICKS);
+    assert_true(t.lo <= mn + 1e-6 * t.step);
+    assert_true(t.hi >= mx - 1e-6 * t.step);
+    assert_true(t.hi > t.lo);
+    /* not wastefully wide: at most one step of slack on each side, and no
+     * more than about twice the intervals asked for */
+    if (mx > mn && mx - mn > 2e-9 * fmax(fabs(mn), fabs(mx))) {
+        assert_true(t.lo > mn - t.step * (1 + 1e-9));
+        assert_true(t.hi < mx + t.step * (1 + 1e-9));
+        assert_true(t.n - 1 <= (size_t)(2.5 * target) + 1);
+    }
+    /* ends are ticks: lo = first tick, hi = last tick */
+    assert_true(fabs(hf_svg_tick_value(&t, 0) - t.lo) <= 1e-9 * t.step);
+    assert_true(fabs(hf_svg_tick_value(&t, t.n - 1) - t.hi) <= 1e-9 * t.step);
+    char prev[64] = "", lab[64];
+    for (size_t i = 0; i < t.n; i++) {
+        hf_svg_tick_label(&t, i, lab, sizeof lab);
+        double v = hf_svg_tick_value(&t, i);
+        char *end;
+        double back = strtod(lab, &end);
+        if (*end != '\0' || fabs(back - v) > 1e-6 * t.step) {
+            print_error("range %g..%g tick %zu: label \"%s\" for %.17g\n", lo, hi, i, lab, v);
+            fail();
+        }
+        assert_string_not_equal(lab, prev);
+        assert_true(strlen(lab) <= 12);
+        strcpy(prev, lab);
+    }
+}
+
+static void test_ticks_awkward_ranges(void **state)
+{
+    (void)state;
+    static const double r[][2] = {
+        {0, 1e-9},          {1e-9, 3.7e-9},   {1e9, 1.5e9},      {-2.385e9, 7.1e8}, {-3.7, -1.2},
+        {-5, 7.3},          {0, 812.4},       {-0.0021, 0.0173}, {2.385, 2.385},    {0, 0},
+        {-1e9, -1e9},       {3e-12, 3e-12},   {1e-300, 3e-300},  {-1e300, 1e300},   {7.3, -5},
+        {100, 100.0000001}, {1e6, 1e7},       {99999, 100001},   {0.1, 0.3},        {-812.4, 0},
+        {5e-324, 5e-324},   {1234.5, 1234.6},
+    };
+    for (size_t i = 0; i < sizeof r / sizeof r[0]; i++)
+        for (int target = 2; target <= 10; target += 4)
+            check_ticks(r[i][0], r[i][1], target);
+}
+
+/* Hand-worked cases of the rule in svg.h (candidates: the three smallest
+ * 1-2-5 steps not below span / (target + 2); at most target + 2 intervals;
+ * least widened range wins, ties to the count nearest the target). */
+static void test_ticks_exact_choices(void **state)
+{
+    (void)state;
+    hf_svg_ticks t;
+    /* 0..1e-9, 5: raw 1.43e-10; 2e-10 and 5e-10 both cover 0..1e-9 exactly,
+     * 2e-10 gives 5 intervals (the target) -> 6 ticks */
+    assert_int_equal(hf_svg_ticks_choose(0, 1e-9, 5, &t, NULL), HF_OK);
+    assert_true(fabs(t.step - 2e-10) < 1e-24);
+    assert_int_equal(t.n, 6);
+    char lab[64];
+    hf_svg_tick_label(&t, 1, lab, sizeof lab);
+    assert_string_equal(lab, "2e-10");
+    hf_svg_tick_label(&t, 5, lab, sizeof lab);
+    assert_string_equal(lab, "1e-9");
+    /* 1e9..1.5e9, 5: raw 7.1e7 -> 1e8 covers exactly, labels 1e9, 1.1e9 ... */
+    assert_int_equal(hf_svg_ticks_choose(1e9, 1.5e9, 5, &t, NULL), HF_OK);
+    assert_true(fabs(t.step - 1e8) < 1e-3);
+    assert_int_equal(t.n, 6);
+    hf_svg_tick_label(&t, 1, lab, sizeof lab);
+    assert_string_equal(lab, "1.1e9");
+    /* -3.7..-1.2, 5: raw 0.357 -> 0.5 and 1 both give -4..-1; 0.5 has 6
+     * intervals, nearer 5 than 1's 3 */
+    assert_int_equal(hf_svg_ticks_choose(-3.7, -1.2, 5, &t, NULL), HF_OK);
+    assert_true(fabs(t.step - 0.5) < 1e-15 && fabs(t.lo + 4) < 1e-12 && fabs(t.hi + 1) < 1e-12);
+    hf_svg_tick_label(&t, 1, lab, sizeof lab);
+    assert_string_equal(lab, "-3.5");
+    /* single value 2.385: 2.1465..2.6235, 5 -> raw 0.068 -> 0.1 gives 2.1..2.7 */
+    assert_int_equal(hf_svg_ticks_choose(2.385, 2.385, 5, &t, NULL), HF_OK);
+    assert_true(fabs(t.step - 0.1) < 1e-15 && fabs(t.lo - 2.1) < 1e-12 && fabs(t.hi - 2.7) < 1e-12);
+    /* zero alone: -1..1 */
+    assert_int_equal(hf_svg_ticks_choose(0, 0, 4, &t, NULL), HF_OK);
+    assert_true(t.lo == -1 && t.hi == 1 && fabs(t.step - 0.5) < 1e-15);
+    hf_svg_tick_label(&t, 2, lab, sizeof lab);
+    assert_string_equal(lab, "0");
+    /* 0..812.4, 8: raw 81.2 -> 100 gives 0..900 (9 intervals <= 10), 200
+     * gives 0..1000: 100 wastes less */
+    assert_int_equal(hf_svg_ticks_choose(0, 812.4, 8, &t, NULL), HF_OK);
+    assert_true(t.step == 100 && t.lo == 0 && t.hi == 900);
+    /* 0..806, 4: raw 134 -> 200 gives 0..1000 in 5 intervals (<= 6), 500
+     * gives 0..1000 in 2; equal cover, and 5 is nearer 4 than 2 is */
+    assert_int_equal(hf_svg_ticks_choose(0, 806, 4, &t, NULL), HF_OK);
+    assert_true(t.step == 200 && t.lo == 0 && t.hi == 1000);
+}
+
+static void test_ticks_reject_nonfinite(void **state)
+{
+    (void)state;
+    hf_svg_ticks t;
+    hf_error err;
+    hf_error_clear(&err);
+    assert_int_equal(hf_svg_ticks_choose(NAN, 1, 5, &t, &err), HF_EINVAL);
+    assert_non_null(strstr(err.text, "finite"));
+    assert_int_equal(hf_svg_ticks_choose(0, INFINITY, 5, &t, NULL), HF_EINVAL);
+    assert_int_equal(hf_svg_ticks_choose(0, strtod("1e309", NULL), 5, &t, NULL), HF_EINVAL);
+    assert_int_equal(hf_svg_ticks_choose(-1.7e308, 0, 5, &t, NULL), HF_EINVAL);
+    hf_svg_axes a;
+    assert_int_equal(hf_svg_axes_init(&a, 0, 0, 0, 100, 0, 1, 0, 1, 0, NULL), HF_EINVAL);
+    assert_int_equal(hf_svg_axes_init(&a, 0, 0, 100, NAN, 0, 1, 0, 1, 0, NULL), HF_EINVAL);
+}
+
+/* ---- mapping and primitives ------------------------------------------------ */
+
+static void test_axes_mapping_round_trip(void **state)
+{
+    (void)state;
+    hf_svg_axes a;
+    assert_int_equal(hf_svg_axes_init(&a, 93.5, 41.25, 512.75, 287.5, -812.4, 1303.7, 2.385e-3,
+                                      9.71e-3, 0, NULL),
+                     HF_OK);
+    /* corners map to the plot area corners */
+    assert_true(fabs(hf_svg_axes_px(&a, a.xt.lo) - 93.5) < 1e-9);
+    assert_true(fabs(hf_svg_axes_px(&a, a.xt.hi) - (93.5 + 512.75)) < 1e-9);
+    assert_true(fabs(hf_svg_axes_py(&a, a.yt.lo) - (41.25 + 287.5)) < 1e-9);
+    assert_true(fabs(hf_svg_axes_py(&a, a.yt.hi) - 41.25) < 1e-9);
+    for (int i = 0; i < 1000; i++) {
+        double x = -812.4 + 2116.1 * i / 999.0, y = 2.385e-3 + 7.325e-3 * ((i * 37) % 1000) / 999;
+        assert_true(fabs(hf_svg_axes_data_x(&a, hf_svg_axes_px(&a, x)) - x) < 1e-9);
+        assert_true(fabs(hf_svg_axes_data_y(&a, hf_svg_axes_py(&a, y)) - y) < 1e-15);
+    }
+    /* equal scale: one data unit is the same number of pixels on both axes */
+    assert_int_equal(
+        hf_svg_axes_init(&a, 100, 80, 620, 580, -912.5, 1004.25, -300.5, 287.1, 1, NULL), HF_OK);
+    double sx = a.width / (a.xt.hi - a.xt.lo), sy = a.height / (a.yt.hi - a.yt.lo);
+    assert_true(fabs(sx - sy) < 1e-12 * sx);
+    assert_true(a.width <= 620 + 1e-9 && a.height <= 580 + 1e-9);
+}
+
+/* Long x tick labels never overlap: neighbouring ticks are at least one
+ * label width (about 7.4 px a character at 12 px) plus a gap apart. */
+static void test_axes_x_labels_fit(void **state)
+{
+    (void)state;
+    static const double r[][2] = {
+        {1.2345e9, 1.2350e9}, {-2.385e-7, 9.71e-7}, {-123456.7, 98765.4}, {0.000123, 0.000987}};
+    for (size_t k = 0; k < 4; k++) {
+        hf_svg_axes a;
+        assert_int_equal(hf_svg_axes_init(&a, 90, 90, 300, 200, r[k][0], r[k][1], 0, 1, 0, NULL),
+                         HF_OK);
+        size_t w = 0;
+        char lab[64];
+        for (size_t i = 0; i < a.xt.n; i++) {
+            hf_svg_tick_label(&a.xt, i, lab, sizeof lab);
+            if (strlen(lab) > w)
+                w = strlen(lab);
+        }
+        double gap = a.width / (double)(a.xt.n - 1);
+        if (gap < 0.62 * 12 * (double)w + 10) {
+            print_error("range %g..%g: %zu ticks %.1f px apart, labels %zu chars\n", r[k][0],
+                        r[k][1], a.xt.n, gap, w);
+            fail();
+        }
+        assert_true(a.xt.n >= 2);
+    }
+}
+
+/* Plotted coordinates read back from the SVG text map to the data within
+ * half a pixel. */
+static void test_polyline_points_within_half_pixel(void **state)
+{
+    (void)state;
+    enum { N = 2001 };
+    static double x[N], y[N], px[N], py[N];
+    for (int i = 0; i < N; i++) {
+        x[i] = -25.0 + 50.0 * i / (N - 1);
+        y[i] = 1.2e6 * tanh(x[i] / 7.385) + 3.3e4 * sin(0.71 * x[i]);
+    }
+    y[700] = NAN; /* breaks the polyline in two */
+    hf_svg_axes a;
+    assert_int_equal(hf_svg_axes_init(&a, 90, 80, 540, 340, -25, 25, -1.25e6, 1.25e6, 0, NULL),
+                     HF_OK);
+    FILE *f = tmpfile();
+    assert_non_null(f);
+    hf_svg_begin(f, 700, 500, "t", 1);
+    hf_svg_polyline(f, &a, x, 1, y, 1, N, hf_svg_colour(0), 2, "");
+    hf_svg_end(f);
+    char *svg = slurp(f);
+    assert_well_formed(svg);
+    long n0 = polyline_points(svg, NULL, 0, px, py, N);
+    long n1 = polyline_points(svg, NULL, 1, px + 700, py + 700, N - 700);
+    assert_int_equal(n0, 700);
+    assert_int_equal(n1, N - 701);
+    assert_int_equal(polyline_points(svg, NULL, 2, px, py, 0), -1);
+    for (int i = 0; i < N; i++) {
+        if (i == 700)
+            continue;
+        int k = i < 700 ? i : i - 1;
+        double dx = hf_svg_axes_data_x(&a, px[k]), dy = hf_svg_axes_data_y(&a, py[k]);
+        /* half a pixel in data units */
+        assert_true(fabs(dx - x[i]) <= 0.5 * (a.xt.hi - a.xt.lo) / a.width);
+        assert_true(fabs(dy - y[i]) <= 0.5 * (a.yt.hi - a.yt.lo) / a.height);
+    }
+    free(svg);
+    fclose(f);
+}
+
+/* Dense data (185 points per pixel column) is reduced per column to its
+ * first, lowest, highest and last points: every written point is a data
+ * point (within half a pixel), in data order, and each column's drawn
+ * extent equals the data's. */
+static void test_polyline_dense_keeps_envelope(void **state)
+{
+    (void)state;
+    enum { N = 100001 };
+    static double x[N], y[N], px[N], py[N];
+    for (int i = 0; i < N; i++) {
+        x[i] = 3.5 + 0.00125 * i;
+        y[i] = sin(x[i] * 0.71) + 0.3 * sin(x[i] * 377.0) + ((i % 9973) == 0 ? 2.5 : 0.0);
+    }
+    hf_svg_axes a;
+    assert_int_equal(hf_svg_axes_init(&a, 90, 80, 540, 340, x[0], x[N - 1], -1.5, 3.9, 0, NULL),
+                     HF_OK);
+    FILE *f = tmpfile();
+    assert_non_null(f);
+    hf_svg_begin(f, 700, 500, NULL, 1);
+    hf_svg_polyline(f, &a, x, 1, y, 1, N, "#000000", 1, "");
+    hf_svg_end(f);
+    char *svg = slurp(f);
+    assert_well_formed(svg);
+    long m = polyline_points(svg, NULL, 0, px, py, N);
+    assert_true(m > 540 && m <= 4 * 542);
+    static double lo[700], hi[700], dlo[700], dhi[700];
+    for (int c = 0; c < 700; c++) {
+        lo[c] = dlo[c] = 1e9;
+        hi[c] = dhi[c] = -1e9;
+    }
+    long prev = -1;
+    double hx = 0.5 * (a.xt.hi - a.xt.lo) / a.width, hy = 0.5 * (a.yt.hi - a.yt.lo) / a.height;
+    for (long k = 0; k < m; k++) {
+        double xd = hf_svg_axes_data_x(&a, px[k]);
+        long i = lround((xd - 3.5) / 0.00125);
+        /* the written x may round onto a neighbour: look within 2 samples */
+        long best = -1;
+        double yd = hf_svg_axes_data_y(&a, py[k]), bd = INFINITY;
+        for (long j = i - 2; j <= i + 2; j++)
+            if (j >= 0 && j < N && fabs(x[j] - xd) <= hx && fabs(y[j] - yd) <= hy &&
+                fabs(y[j] - yd) < bd) {
+                best = j;
+                bd = fabs(y[j] - yd);
+            }
+        assert_true(best >= 0);
+        assert_true(best >= prev); /* data order */
+        prev = best;
+        int c = (int)floor(hf_svg_axes_px(&a, x[best]));
+        lo[c] = fmin(lo[c], py[k]);
+        hi[c] = fmax(hi[c], py[k]);
+    }
+    for (int i = 0; i < N; i++) {
+        double q = hf_svg_axes_py(&a, y[i]);
+        int c = (int)floor(hf_svg_axes_px(&a, x[i]));
+        dlo[c] = fmin(dlo[c], q);
+        dhi[c] = fmax(dhi[c], q);
+    }
+    for (int c = 0; c < 700; c++) {
+        if (dlo[c] > 1e8)
+            continue;
+        assert_true(fabs(lo[c] - dlo[c]) <= 0.006 && fabs(hi[c] - dhi[c]) <= 0.006);
+    }
+    free(svg);
+    fclose(f);
+}
+
+static void test_escape_and_text(void **state)
+{
+    (void)state;
+    FILE *f = tmpfile();
+    assert_non_null(f);
+    hf_svg_begin(f, 300, 200, "R&D <\"quoted\"> 'x'", 1);
+    hf_svg_text(f, 10, 20, 's', 12, 0, 0, "a<b & c>d \x01\x7f tab\there");
+    hf_svg_text(f, 10, 40, 'm', 12, 1, -90, "déjà vu, 30°");
+    hf_svg_end(f);
+    char *svg = slurp(f);
+    assert_well_formed(svg);
+    assert_non_null(strstr(svg, "<title>R&amp;D &lt;&quot;quoted&quot;&gt; &#39;x&#39;</title>"));
+    assert_non_null(strstr(svg, ">a&lt;b &amp; c&gt;d ?? tab\there</text>"));
+    assert_non_null(strstr(svg, "déjà vu, 30°"));
+    free(svg);
+    fclose(f);
+}
+
+/* Relative luminance, WCAG 2.0 (W3C 2008), definition of relative luminance. */
+static double luminance(const char *hex)
+{
+    unsigned r, g, b;
+    assert_int_equal(sscanf(hex, "#%2x%2x%2x", &r, &g, &b), 3);
+    double c[3] = {r / 255.0, g / 255.0, b / 255.0};
+    for (int i = 0; i < 3; i++)
+        c[i] = c[i] <= 0.03928 ? c[i] / 12.92 : pow((c[i] + 0.055) / 1.055, 2.4);
+    return 0.2126 * c[0] + 0.7152 * c[1] + 0.0722 * c[2];
+}
+
+static void test_palette(void **state)
+{
+    (void)state;
+    /* Okabe & Ito (2008), Color Universal Design: the published hex values. */
+    static const char *const oi[] = {"#e69f00", "#56b4e9", "#009e73", "#0072b2",
+                                     "#d55e00", "#cc79a7", "#000000"};
+    for (size_t i = 0; i < HF_SVG_NCOLOURS; i++) {
+        int found = 0;
+        for (size_t j = 0; j < 7; j++)
+            found |= !strcmp(hf_svg_colour(i), oi[j]);
+        assert_true(found);
+        for (size_t j = 0; j < i; j++)
+            assert_string_not_equal(hf_svg_colour(i), hf_svg_colour(j));
+        /* visible on white: luminance contrast >= 1.5:1 (WCAG 2.0 ratio) */
+        assert_true((1.05) / (luminance(hf_svg_colour(i)) + 0.05) >= 1.5);
+    }
+    assert_string_equal(hf_svg_colour(7), hf_svg_colour(0));
+    assert_string_equal(hf_svg_dash(0), "");
+    assert_string_not_equal(hf_svg_dash(7), "");
+    assert_string_not_equal(hf_svg_dash(14), hf_svg_dash(7));
+    /* the tension scale darkens monotonically (reads in grey-scale print) */
+    char c0[8], c1[8];
+    hf_svg_scale_colour(0.0, c0);
+    for (int k = 1; k <= 50; k++) {
+        hf_svg_scale_colour(k / 50.0, c1);
+        assert_true(luminance(c1) < luminance(c0));
+        strcpy(c0, c1);
+    }
+    hf_svg_scale_colour(NAN, c0);
+    hf_svg_scale_colour(0.0, c1);
+    assert_string_equal(c0, c1);
+}
+
+/* ---- figures ------------------------------------------------------------- */
+
+/* A catenary-like profile (shape only; the numbers are a plotting fixture,
+ * not a mooring result): 420 m on the seabed then a suspended part. */
+static size_t make_profile(hf_line_point *p, size_t cap)
+{
+    size_t n = 0;
+    for (int i = 0; i <= 60 && n < cap; i++, n++) {
+        double s = 420.0 * i / 60;
+        p[n] = (hf_line_point){s, s, 0.0, 180e3 + 95.0 * s};
+    }
+    double a = 1200.0; /* catenary parameter, m */
+    for (int i = 1; i <= 120 && n < cap; i++, n++) {
+        double u = 380.0 * i / 120;
+        double x = 420.0 + u, z = a * (cosh(u / a) - 1.0);
+        p[n] = (hf_line_point){420.0 + a * sinh(u / a), x, z, 220e3 + 1100.0 * z};
+    }
+    return n;
+}
+
+/* Pixel distance between a plotted point and where the axis fits put the data. */
+static double miss(const fit *fx, const fit *fy, double x, double y, double px, double py)
+{
+    return hypot(fit_px(fx, x) - px, fit_px(fy, y) - py);
+}
+
+static void test_figure_elevation(void **state)
+{
+    (void)state;
+    hf_line_point pts[200];
+    size_t n = make_profile(pts, 200);
+    hf_svg_elevation e = {"Line \"bow-port\" & co <rest>", pts, n, 58.25, 1, 420.0, 640e3};
+    FILE *f = tmpfile();
+    assert_non_null(f);
+    hf_error err;
+    assert_int_equal(hf_svg_figure_elevation(f, &e, 1, &err), HF_OK);
+    char *svg = slurp(f);
+    assert_well_formed(svg);
+    assert_non_null(strstr(svg, "Line &quot;bow-port&quot; &amp; co &lt;rest&gt;"));
+    assert_non_null(strstr(svg, ">still water level<"));
+    assert_non_null(strstr(svg, ">touchdown<"));
+    assert_non_null(strstr(svg, ">tension (kN)<"));
+    assert_non_null(strstr(svg, "exaggerated"));
+    /* Layout of svg.c: top panel 90,84 600x270; tension panel 90,430 600x140. */
+    fit fx = axis_fit(svg, 1, 84 + 270 + 19, 0, 0);
+    fit fz = axis_fit(svg, 0, 82, 80, 84 + 270 + 6);
+    fit gx = axis_fit(svg, 1, 430 + 140 + 19, 0, 0);
+    fit gt = axis_fit(svg, 0, 82, 426, 430 + 140 + 6);
+    /* the line: coloured polylines (stroke width 3.5) joined end to end */
+    static double px[400], py[400];
+    size_t got = 0;
+    for (int k = 0;; k++) {
+        double qx[400], qy[400];
+        long m = polyline_points(svg, "stroke-width=\"3.5\"", k, qx, qy, 400);
+        if (m < 0)
+            break;
+        for (long i = got ? 1 : 0; i < m; i++) { /* joints are shared */
+            assert_true(got < 400);
+            px[got] = qx[i];
+            py[got++] = qy[i];
+        }
+    }
+    assert_int_equal(got, n);
+    for (size_t i = 0; i < n; i++)
+        assert_true(miss(&fx, &fz, pts[i].x, pts[i].z, px[i], py[i]) <= 0.5);
+    /* tension panel, kN */
+    long m = polyline_points(svg, "stroke=\"#000000\" stroke-width=\"2\"", 0, px, py, 400);
+    assert_int_equal(m, (long)n);
+    for (size_t i = 0; i < n; i++)
+        assert_true(miss(&gx, &gt, pts[i].x, pts[i].tension / 1e3, px[i], py[i]) <= 0.5);
+    /* fairlead circle and anchor square sit on the profile ends */
+    const char *c = strstr(svg, "<circle ");
+    assert_non_null(c);
+    assert_true(miss(&fx, &fz, pts[n - 1].x, pts[n - 1].z, attr_num(c, "cx"), attr_num(c, "cy")) <=
+                0.5);
+    const char *r = strstr(svg, "<rect x=\"");
+    while (r && attr_num(r, "width") != 11.0)
+        r = strstr(r + 1, "<rect x=\"");
+    assert_non_null(r);
+    assert_true(
+        miss(&fx, &fz, pts[0].x, pts[0].z, attr_num(r, "x") + 5.5, attr_num(r, "y") + 5.5) <= 0.5);
+    free(svg);
+    fclose(f);
+
+    /* bad input is refused before anything is written */
+    f = tmpfile();
+    pts[7].z = NAN;
+    hf_error_clear(&err);
+    assert_int_equal(hf_svg_figure_elevation(f, &e, 1, &err), HF_EINVAL);
+    assert_non_null(strstr(err.text, "point 7"));
+    assert_int_equal(ftell(f), 0);
+    pts[7].z = 0;
+    e.water_height = 0;
+    assert_int_equal(hf_svg_figure_elevation(f, &e, 1, NULL), HF_EINVAL);
+    e.water_height = 58.25;
+    e.npts = 1;
+    assert_int_equal(hf_svg_figure_elevation(f, &e, 1, NULL), HF_EINVAL);
+    assert_int_equal(ftell(f), 0);
+    fclose(f);
+}
+
+static void test_figure_plan(void **state)
+{
+    (void)state;
+    /* 12 lines in 4 groups of 3, anchors 850 m out, fairleads on a 90 x 40 m hull */
+    enum { L = 12 };
+    double anchor[L][2], fair[L][2];
+    const char *names[L];
+    char nb[L][40];
+    unsigned char broken[L] = {0};
+    broken[4] = 1;
+    for (int i = 0; i < L; i++) {
+        double ang = (45.0 + 90.0 * (i / 3) + 5.0 * (i % 3 - 1)) * M_PI / 180;
+        double cx = (i / 3 == 0 || i / 3 == 3) ? 45 : -45, cy = (i / 3 < 2) ? 20 : -20;
+        fair[i][0] = 103.7 + cx;
+        fair[i][1] = -48.2 + cy;
+        anchor[i][0] = fair[i][0] + 850 * cos(ang);
+        anchor[i][1] = fair[i][1] + 850 * sin(ang);
+        snprintf(nb[i], sizeof nb[i], "L%02d <g%d>", i + 1, i / 3);
+        names[i] = nb[i];
+    }
+    hf_svg_plan p = {"Spread plan",
+                     L,
+                     names,
+                     (const double(*)[2])anchor,
+                     (const double(*)[2])fair,
+                     broken,
+                     0,
+                     NULL,
+                     {103.7, -48.2},
+                     1,
+                     30 * M_PI / 180,
+                     "load: storm & swell",
+                     1,
+                     {100.2, -45.7},
+                     NULL};
+    FILE *f = tmpfile();
+    assert_non_null(f);
+    assert_int_equal(hf_svg_figure_plan(f, &p, 1, NULL), HF_OK);
+    char *svg = slurp(f);
+    assert_well_formed(svg);
+    assert_non_null(strstr(svg, "L01 &lt;g0&gt;"));
+    assert_non_null(strstr(svg, "L05 &lt;g1&gt; (broken)"));
+    assert_non_null(strstr(svg, "load: storm &amp; swell"));
+    assert_non_null(strstr(svg, "drawn through the fairleads"));
+    /* hull detail: offset from rest = |(103.7, -48.2) - (100.2, -45.7)| = 4.30 m */
+    assert_non_null(strstr(svg, ">Hull detail<"));
+    assert_non_null(strstr(svg, ">offset from rest 4.3 m<"));
+    /* Equal scale: the axis fits have the same pixels per metre (y flipped). */
+    fit fx = axis_fit(svg, 1, -1, 0, 0), fy = axis_fit(svg, 0, -1, 0, 0);
+    assert_true(fabs(fx.b + fy.b) < 1e-6 * fabs(fx.b));
+    /* anchors (10 px squares) and fairleads (r 3 circles), in line order */
+    const char *q = svg;
+    for (int i = 0; i < L; i++) {
+        q = strstr(q, "<rect x=\"");
+        while (q && attr_num(q, "width") != 10.0)
+            q = strstr(q + 1, "<rect x=\"");
+        assert_non_null(q);
+        assert_true(miss(&fx, &fy, anchor[i][0], anchor[i][1], attr_num(q, "x") + 5,
+                         attr_num(q, "y") + 5) <= 0.5);
+        q = strstr(q, "<circle ");
+        assert_non_null(q);
+        assert_true(miss(&fx, &fy, fair[i][0], fair[i][1], attr_num(q, "cx"), attr_num(q, "cy")) <=
+                    0.5);
+    }
+    /* the hull drawn through the fairleads passes through the outer ones */
+    const char *h = strstr(svg, "stroke-dasharray=\"6 3\" points=\"");
+    assert_non_null(h);
+    free(svg);
+    fclose(f);
+}
+
+static void test_figure_plan_outline_and_errors(void **state)
+{
+    (void)state;
+    double anchor[3][2] = {{-500, 12.5}, {400, 300}, {400, -300}};
+    double fair[3][2] = {{-20, 0}, {15, 8}, {15, -8}};
+    double outline[5][2] = {{-25, -9}, {20, -9}, {28, 0}, {20, 9}, {-25, 9}};
+    hf_svg_plan p = {"Three-line plan",
+                     3,
+                     NULL,
+                     (const double(*)[2])anchor,
+                     (const double(*)[2])fair,
+                     NULL,
+                     5,
+                     (const double(*)[2])outline,
+                     {0, 0},
+                     0,
+                     0,
+                     NULL,
+                     0,
+                     {0, 0},
+                     NULL};
+    FILE *f = tmpfile();
+    assert_non_null(f);
+    assert_int_equal(hf_svg_figure_plan(f, &p, 0, NULL), HF_OK);
+    char *svg = slurp(f);
+    assert_well_formed(svg);
+    assert_null(strstr(svg, "<?xml")); /* inline form */
+    assert_non_null(strstr(svg, ">line 2<"));
+    assert_non_null(strstr(svg, "Grey: hull outline"));
+    fit fx = axis_fit(svg, 1, -1, 0, 0), fy = axis_fit(svg, 0, -1, 0, 0);
+    double qx[8], qy[8];
+    const char *poly = strstr(svg, "<polygon fill=\"#e6e6e6\"");
+    assert_non_null(poly);
+    const char *pts = strstr(poly, "points=\"") + 8;
+    for (int i = 0; i < 5; i++) {
+        char *end;
+        qx[i] = strtod(pts, &end);
+        qy[i] = strtod(end + 1, &end);
+        pts = end;
+        assert_true(miss(&fx, &fy, outline[i][0], outline[i][1], qx[i], qy[i]) <= 0.5);
+    }
+    free(svg);
+    fclose(f);
+    f = tmpfile();
+    anchor[1][0] = INFINITY;
+    assert_int_equal(hf_svg_figure_plan(f, &p, 1, NULL), HF_EINVAL);
+    anchor[1][0] = 400;
+    p.noutline = 2;
+    assert_int_equal(hf_svg_figure_plan(f, &p, 1, NULL), HF_EINVAL);
+    p.noutline = 5;
+    p.has_load = 1;
+    p.load_direction = NAN;
+    assert_int_equal(hf_svg_figure_plan(f, &p, 1, NULL), HF_EINVAL);
+    assert_int_equal(ftell(f), 0);
+    fclose(f);
+}
+
+static void test_figure_curve(void **state)
+{
+    (void)state;
+    enum { N = 301, L = 9 };
+    static double off[N], force[N], stiff[N], ten[N * L], util[N * L];
+    const char *names[L];
+    char nb[L][24];
+    double lim[L];
+    for (int j = 0; j < L; j++) {
+        snprintf(nb[j], sizeof nb[j], "line-%d", j + 1);
+        names[j] = nb[j];
+        lim[j] = j < 6 ? 2.1e6 : 3.4e6;
+    }
+    for (int i = 0; i < N; i++) {
+        off[i] = -30 + 60.0 * i / (N - 1);
+        force[i] = -4.1e5 * sinh(off[i] / 17.3);
+        stiff[i] = 4.1e5 / 17.3 * cosh(off[i] / 17.3);
+        for (int j = 0; j < L; j++) {
+            ten[i * L + j] = 8.5e5 * exp((j % 3 - 1) * off[i] / 25.0) * (1 + 0.05 * j);
+            util[i * L + j] = ten[i * L + j] / (j < 6 ? 3.5e6 : 5.6e6);
+        }
+    }
+    force[150] = NAN; /* a failed point: a gap, not a crash */
+    hf_svg_curve c = {"Restoring curve", N, off, force, stiff, L, names, ten, util, 0.6, lim,
+                      "direction 30 deg"};
+    FILE *f = tmpfile();
+    assert_non_null(f);
+    assert_int_equal(hf_svg_figure_curve(f, &c, 1, NULL), HF_OK);
+    char *svg = slurp(f);
+    assert_well_formed(svg);
+    assert_non_null(strstr(svg, ">limit 60 % (factor 1.67)<"));
+    assert_non_null(strstr(svg, ">allowed 2100 kN<"));
+    assert_non_null(strstr(svg, ">allowed 3400 kN<"));
+    assert_non_null(strstr(svg, ">line-9<"));
+    /* first panel (force): plot area 90,90 300x200, x labels at row 309;
+     * the force series is split in two by the NaN */
+    fit fx = axis_fit(svg, 1, 90 + 200 + 19, 80, 400);
+    fit fy = axis_fit(svg, 0, 82, 86, 90 + 200 + 6);
+    static double px[N], py[N];
+    long m0 = polyline_points(svg, NULL, 0, px, py, N);
+    assert_int_equal(m0, 150);
+    for (int i = 0; i < 150; i++)
+        assert_true(miss(&fx, &fy, off[i], force[i] / 1e3, px[i], py[i]) <= 0.5);
+    long m1 = polyline_points(svg, NULL, 1, px, py, N);
+    assert_int_equal(m1, N - 151);
+    for (int i = 151; i < N; i++)
+        assert_true(miss(&fx, &fy, off[i], force[i] / 1e3, px[i - 151], py[i - 151]) <= 0.5);
+    free(svg);
+    fclose(f);
+    /* without stiffness and lines: one panel, still well formed */
+    hf_svg_curve c1 = {"Force only", N, off, force, NULL, 0, NULL, NULL, NULL, 0, NULL, NULL};
+    f = tmpfile();
+    assert_int_equal(hf_svg_figure_curve(f, &c1, 1, NULL), HF_OK);
+    svg = slurp(f);
+    assert_well_formed(svg);
+    assert_null(strstr(svg, "Stiffness"));
+    free(svg);
+    fclose(f);
+    c1.n = 1;
+    f = tmpfile();
+    assert_int_equal(hf_svg_figure_curve(f, &c1, 1, NULL), HF_EINVAL);
+    fclose(f);
+}
+
+static void test_figure_sweep(void **state)
+{
+    (void)state;
+    enum { N = 11, C = 4 };
+    double x[N], y[C * N];
+    const char *names[C] = {"depth = 45 m", "depth = 55 m", "depth = 65 m", "depth = 75 m"};
+    for (int i = 0; i < N; i++)
+        x[i] = 300 + 25.0 * i;
+    for (int c = 0; c < C; c++)
+        for (int i = 0; i < N; i++)
+            y[c * N + i] = 120.0 + 4.2 * c * c + 0.0031 * (x[i] - 300) * (x[i] - 300) / (c + 1);
+    hf_svg_sweep s = {"Max tension vs pretension",
+                      "pretension (kN)",
+                      "max tension (kN)",
+                      N,
+                      C,
+                      x,
+                      y,
+                      names,
+                      "water depth",
+                      1,
+                      180.0,
+                      "allowed 180 kN"};
+    FILE *f = tmpfile();
+    assert_non_null(f);
+    assert_int_equal(hf_svg_figure_sweep(f, &s, 1, NULL), HF_OK);
+    char *svg = slurp(f);
+    assert_well_formed(svg);
+    assert_non_null(strstr(svg, ">depth = 75 m<"));
+    assert_non_null(strstr(svg, ">water depth<"));
+    fit fx = axis_fit(svg, 1, -1, 0, 0), fy = axis_fit(svg, 0, -1, 0, 0);
+    for (int c = 0; c < C; c++) {
+        double px[N], py[N];
+        assert_int_equal(polyline_points(svg, NULL, c, px, py, N), N);
+        for (int i = 0; i < N; i++)
+            assert_true(miss(&fx, &fy, x[i], y[c * N + i], px[i], py[i]) <= 0.5);
+    }
+    free(svg);
+    fclose(f);
+    /* a single point on a single curve is still a figure (single-value axes) */
+    hf_svg_sweep one = {"One", "x (m)", "y (N)", 1, 1, x, y, NULL, NULL, 0, 0, NULL};
+    f = tmpfile();
+    assert_int_equal(hf_svg_figure_sweep(f, &one, 1, NULL), HF_OK);
+    svg = slurp(f);
+    assert_well_formed(svg);
+    free(svg);
+    fclose(f);
+}
+
+/* Degenerate but valid inputs still give well-formed figures: a line
+ * hanging straight down (one x value) with uniform tension, a flat curve, a
+ * single-line plan with anchor and fairlead at the same x. */
+static void test_figures_degenerate(void **state)
+{
+    (void)state;
+    hf_line_point v[3] = {{0, 0, 0, 2385.0}, {5, 0, 5, 2385.0}, {10, 0, 10, 2385.0}};
+    hf_svg_elevation e = {"hanging", v, 3, 12.5, 0, 0, 0};
+    FILE *f = tmpfile();
+    assert_int_equal(hf_svg_figure_elevation(f, &e, 1, NULL), HF_OK);
+    char *svg = slurp(f);
+    assert_well_formed(svg);
+    free(svg);
+    fclose(f);
+
+    double off[4] = {-1, 0, 1, 2}, zero[4] = {0, 0, 0, 0}, t[4] = {5e5, 5e5, 5e5, 5e5};
+    hf_svg_curve c = {"flat", 4, off, zero, zero, 1, NULL, t, zero, 0.5, NULL, NULL};
+    f = tmpfile();
+    assert_int_equal(hf_svg_figure_curve(f, &c, 1, NULL), HF_OK);
+    svg = slurp(f);
+    assert_well_formed(svg);
+    free(svg);
+    fclose(f);
+
+    double an[1][2] = {{0, -250}}, fl[1][2] = {{0, 0}};
+    hf_svg_plan p = {NULL,
+                     1,
+                     NULL,
+                     (const double(*)[2])an,
+                     (const double(*)[2])fl,
+                     NULL,
+                     0,
+                     NULL,
+                     {0, 0},
+                     1,
+                     -M_PI / 2,
+                     NULL,
+                     0,
+                     {0, 0},
+                     NULL};
+    f = tmpfile();
+    assert_int_equal(hf_svg_figure_plan(f, &p, 1, NULL), HF_OK);
+    svg = slurp(f);
+    assert_well_formed(svg);
+    assert_null(strstr(svg, "<title>")); /* no title given: none written */
+    free(svg);
+    fclose(f);
+}
+
+int main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_xml_checker_rejects),
+        cmocka_unit_test(test_ticks_awkward_ranges),
+        cmocka_unit_test(test_ticks_exact_choices),
+        cmocka_unit_test(test_ticks_reject_nonfinite),
+        cmocka_unit_test(test_axes_mapping_round_trip),
+        cmocka_unit_test(test_axes_x_labels_fit),
+        cmocka_unit_test(test_polyline_points_within_half_pixel),
+        cmocka_unit_test(test_polyline_dense_keeps_envelope),
+        cmocka_unit_test(test_escape_and_text),
+        cmocka_unit_test(test_palette),
+        cmocka_unit_test(test_figure_elevation),
+        cmocka_unit_test(test_figure_plan),
+        cmocka_unit_test(test_figure_plan_outline_and_errors),
+        cmocka_unit_test(test_figure_curve),
+        cmocka_unit_test(test_figure_sweep),
+        cmocka_unit_test(test_figures_degenerate),
+    };
+    return cmocka_run_group_tests(tests, NULL, NULL);
+}
