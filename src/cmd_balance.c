@@ -7,8 +7,8 @@
 #include "holdfast/balance.h"
 #include "holdfast/cli.h"
 #include "holdfast/criteria.h"
-#include "holdfast/csv.h"
 #include "holdfast/outfile.h"
+#include "holdfast/results.h"
 
 #define RAD2DEG (180.0 / M_PI)
 
@@ -44,57 +44,6 @@ static const char usage_text[] =
     "\n"
     "exit status: 0 every criterion passed, 1 a criterion failed, 2 bad input or\n"
     "usage, 3 an equilibrium could not be found (no equilibrium or numerical failure)\n";
-
-static int option(int argc, char **argv, int *i, const char *name, const char **value, int *missing)
-{
-    size_t n = strlen(name);
-    if (strncmp(argv[*i], name, n) != 0)
-        return 0;
-    if (argv[*i][n] == '=') {
-        *value = argv[*i] + n + 1;
-        return 1;
-    }
-    if (argv[*i][n] != '\0')
-        return 0;
-    if (*i + 1 >= argc) {
-        *missing = 1;
-        return 1;
-    }
-    *value = argv[++*i];
-    return 1;
-}
-
-static const char *line_name(const hf_model *m, size_t i)
-{
-    return i < m->nlines && m->lines[i].name ? m->lines[i].name : "-";
-}
-
-static void cond_text(const hf_model *m, const hf_balance_result *r, char *buf, size_t cap)
-{
-    if (r->broken == HF_BALANCE_NONE)
-        snprintf(buf, cap, "intact");
-    else
-        snprintf(buf, cap, "broken:%s", line_name(m, r->broken));
-}
-
-static void criterion_text(const hf_model *m, const hf_balance_result *r, char *buf, size_t cap)
-{
-    const char *c = hf_balance_criterion_name(r->criterion);
-    if (r->criterion_line != HF_BALANCE_NONE)
-        snprintf(buf, cap, "%s:%s", c, line_name(m, r->criterion_line));
-    else
-        snprintf(buf, cap, "%s", c);
-}
-
-/* Smallest MBL/T over the loaded lines, or 0 when none carries load. */
-static double min_factor(const hf_balance_result *r)
-{
-    double f = 0.0;
-    for (size_t i = 0; i < r->nlines; i++)
-        if (r->line[i].has_factor && (f == 0.0 || r->line[i].factor < f))
-            f = r->line[i].factor;
-    return f;
-}
 
 static const char *verdict(int passed)
 {
@@ -145,7 +94,7 @@ static void print_criteria(FILE *out, const hf_model *m)
 
 static void print_anchor(FILE *out, const hf_model *m, size_t i, const hf_anchor_criterion *a)
 {
-    fprintf(out, "    %-18s %-8s %10.1f %10.1f %8.2f  ", line_name(m, i),
+    fprintf(out, "    %-18s %-8s %10.1f %10.1f %8.2f  ", hf_results_line_name(m, i),
             hf_criteria_anchor_kind_name(a->kind), a->h / 1e3, a->v / 1e3, a->angle * RAD2DEG);
     switch (a->kind) {
     case HF_ANCHOR_DRAG:
@@ -172,7 +121,7 @@ static void print_anchor(FILE *out, const hf_model *m, size_t i, const hf_anchor
 static void print_condition(FILE *out, const hf_model *m, const hf_balance_result *r)
 {
     char cn[HF_MODEL_MAX_NAME + 16], crit[HF_MODEL_MAX_NAME + 32];
-    cond_text(m, r, cn, sizeof cn);
+    hf_results_balance_condition(m, r, cn, sizeof cn);
     if (r->status != HF_OK) {
         fprintf(out, "\n  -- %s: NO RESULT (%s)\n     %s\n     verdict: FAIL\n", cn,
                 hf_status_str(r->status), r->message);
@@ -189,8 +138,8 @@ static void print_condition(FILE *out, const hf_model *m, const hf_balance_resul
     for (size_t i = 0; i < r->nlines; i++) {
         const hf_line_criterion *l = &r->line[i];
         if (r->broken == i) {
-            fprintf(out, "    %-18s %12s %11s %8s %8s  broken\n", line_name(m, i), "-", "-", "-",
-                    "-");
+            fprintf(out, "    %-18s %12s %11s %8s %8s  broken\n", hf_results_line_name(m, i), "-",
+                    "-", "-", "-");
             continue;
         }
         char fac[32], req[32];
@@ -202,8 +151,9 @@ static void print_condition(FILE *out, const hf_model *m, const hf_balance_resul
             snprintf(req, sizeof req, "%.3f", l->required);
         else
             snprintf(req, sizeof req, "-");
-        fprintf(out, "    %-18s %12.1f %11.4f %8s %8s  %s\n", line_name(m, i), r->tension[i] / 1e3,
-                r->utilisation[i], fac, req, l->checked ? verdict(l->passed) : "not checked");
+        fprintf(out, "    %-18s %12.1f %11.4f %8s %8s  %s\n", hf_results_line_name(m, i),
+                r->tension[i] / 1e3, r->utilisation[i], fac, req,
+                l->checked ? verdict(l->passed) : "not checked");
     }
     fprintf(out, "    %-18s %-8s %10s %10s %8s  %s\n", "anchor", "kind", "H kN", "V kN", "angle",
             "check");
@@ -215,9 +165,9 @@ static void print_condition(FILE *out, const hf_model *m, const hf_balance_resul
                 m->criteria.max_offset, verdict(r->offset_passed));
     if (r->max_utilisation_line != HF_BALANCE_NONE)
         fprintf(out, "     worst line: %s, %.1f kN, utilisation %.4f\n",
-                line_name(m, r->max_utilisation_line), r->tension[r->max_utilisation_line] / 1e3,
-                r->max_utilisation);
-    criterion_text(m, r, crit, sizeof crit);
+                hf_results_line_name(m, r->max_utilisation_line),
+                r->tension[r->max_utilisation_line] / 1e3, r->max_utilisation);
+    hf_results_balance_criterion(m, r, crit, sizeof crit);
     fprintf(out, "     verdict: %s (governing: %s)\n", verdict(r->passed), crit);
 }
 
@@ -239,136 +189,25 @@ static void print_load(FILE *out, const hf_load *l, const double f[3])
     fprintf(out, "   (loads are fixed in the global frame)\n");
 }
 
-static void csv_row(hf_csv *c, const hf_model *m, const hf_load *l, const hf_balance_result *r)
-{
-    char cn[HF_MODEL_MAX_NAME + 16], crit[HF_MODEL_MAX_NAME + 32];
-    cond_text(m, r, cn, sizeof cn);
-    criterion_text(m, r, crit, sizeof crit);
-    int ok = r->status == HF_OK;
-    hf_csv_field_str(c, l->name);
-    hf_csv_field_str(c, cn);
-    hf_csv_field_str(c, hf_status_str(r->status));
-    if (ok) {
-        hf_csv_field_double(c, r->offset[0]);
-        hf_csv_field_double(c, r->offset[1]);
-        hf_csv_field_double(c, r->offset[2] * RAD2DEG);
-        hf_csv_field_double(c, r->max_tension / 1e3);
-        hf_csv_field_str(
-            c, r->max_tension_line != HF_BALANCE_NONE ? line_name(m, r->max_tension_line) : "");
-        hf_csv_field_double(c, r->max_utilisation);
-    } else {
-        for (int k = 0; k < 6; k++)
-            hf_csv_field_empty(c);
-    }
-    hf_csv_field_str(c, crit);
-    hf_csv_field_long(c, r->passed ? 1 : 0);
-    for (size_t i = 0; i < m->nlines; i++) {
-        if (ok)
-            hf_csv_field_double(c, r->tension[i] / 1e3);
-        else
-            hf_csv_field_empty(c);
-    }
-    if (ok) {
-        hf_csv_field_double(c, r->horizontal);
-        hf_csv_field_str(c, r->max_utilisation_line != HF_BALANCE_NONE
-                                ? line_name(m, r->max_utilisation_line)
-                                : "");
-        double mf = min_factor(r);
-        if (mf > 0.0)
-            hf_csv_field_double(c, mf);
-        else
-            hf_csv_field_empty(c);
-    } else {
-        for (int k = 0; k < 3; k++)
-            hf_csv_field_empty(c);
-    }
-    double req = hf_criteria_required(&m->criteria, r->broken != HF_BALANCE_NONE);
-    if (req > 0.0)
-        hf_csv_field_double(c, req);
-    else
-        hf_csv_field_empty(c);
-    hf_csv_field_str(c, r->message);
-    hf_csv_end_row(c);
-}
-
-/* CSV header names: fixed columns, T_<line>_kN per line, trailing columns.
- * Returns an hf_malloc'd array of n hf_malloc'd strings, or NULL. */
-static char **csv_names(const hf_model *m, size_t *n)
-{
-    static const char *const head[] = {
-        "load",           "condition",        "status",          "surge_m",   "sway_m", "yaw_deg",
-        "max_tension_kN", "max_tension_line", "max_utilisation", "criterion", "passed"};
-    static const char *const tail[] = {"horizontal_m", "max_utilisation_line", "min_line_factor",
-                                       "required_line_factor", "message"};
-    size_t nh = sizeof head / sizeof head[0], nt = sizeof tail / sizeof tail[0];
-    size_t total = nh + m->nlines + nt;
-    char **names = hf_calloc(total, sizeof *names);
-    if (!names)
-        return NULL;
-    for (size_t j = 0; j < total; j++) {
-        if (j < nh) {
-            names[j] = hf_strdup(head[j]);
-        } else if (j < nh + m->nlines) {
-            const char *ln = line_name(m, j - nh);
-            size_t len = strlen(ln) + 6;
-            names[j] = hf_malloc(len);
-            if (names[j])
-                snprintf(names[j], len, "T_%s_kN", ln);
-        } else {
-            names[j] = hf_strdup(tail[j - nh - m->nlines]);
-        }
-        if (!names[j]) {
-            for (size_t k = 0; k < j; k++)
-                hf_free(names[k]);
-            hf_free(names);
-            return NULL;
-        }
-    }
-    *n = total;
-    return names;
-}
-
 int hf_cmd_balance(int argc, char **argv)
 {
     const char *cmd = "balance", *path = NULL, *csv = NULL;
     int nsel = 0;
-    for (int i = 1; i < argc; i++) {
-        const char *v = NULL;
-        int missing = 0;
-        if (!strcmp(argv[i], "--help") || !strcmp(argv[i], "-h")) {
-            fputs(usage_text, stdout);
-            return HF_EXIT_OK;
-        } else if (option(argc, argv, &i, "--csv", &v, &missing)) {
-            if (missing)
-                return hf_cli_usage_error(cmd, "--csv needs a FILE (or - for standard output)");
-            csv = v;
-        } else if (option(argc, argv, &i, "--load", &v, &missing)) {
-            if (missing || !*v)
-                return hf_cli_usage_error(cmd, "--load needs the NAME of a load case");
-            nsel++;
-        } else if (argv[i][0] == '-' && argv[i][1] != '\0') {
-            return hf_cli_usage_error(cmd, "unknown option '%s'", argv[i]);
-        } else if (!path) {
-            path = argv[i];
-        } else {
-            return hf_cli_usage_error(cmd, "unexpected argument '%s' (one CASE file only)",
-                                      argv[i]);
-        }
-    }
-    if (!path)
-        return hf_cli_usage_error(cmd, "missing the CASE file");
+    const hf_cli_opt opts[] = {HF_CLI_OPT_CSV(&csv),
+                               {"--load", "--load needs the NAME of a load case", 1, NULL, &nsel}};
+    int rc = hf_cli_parse_case_args(argc, argv, cmd, usage_text, opts, 2, &path);
+    if (rc != HF_CLI_CONTINUE)
+        return rc;
 
+    hf_model m;
+    rc = hf_cli_case_load(path, &m);
+    if (rc != HF_CLI_CONTINUE)
+        return rc;
+    rc = HF_EXIT_OK;
     hf_error err;
     hf_error_clear(&err);
-    hf_model m;
-    hf_model_init(&m);
-    if (hf_cli_load(path, &m, &err) != HF_OK)
-        return hf_cli_fail(&err);
-    int rc = HF_EXIT_OK;
     hf_balance *b = NULL;
     hf_outfile *f = NULL;
-    char **names = NULL;
-    size_t ncol = 0;
     unsigned char *pick = NULL;
 
     if (m.nloads == 0) {
@@ -387,9 +226,9 @@ int hf_cmd_balance(int argc, char **argv)
     for (int i = 1; i < argc; i++) {
         const char *v = NULL;
         int missing = 0;
-        if (option(argc, argv, &i, "--csv", &v, &missing))
+        if (hf_cli_option(argc, argv, &i, "--csv", &v, &missing))
             continue;
-        if (!option(argc, argv, &i, "--load", &v, &missing))
+        if (!hf_cli_option(argc, argv, &i, "--load", &v, &missing))
             continue;
         size_t k = hf_model_load_find(&m, v);
         if (k == (size_t)-1) {
@@ -415,21 +254,10 @@ int hf_cmd_balance(int argc, char **argv)
     }
     int human = !csv || strcmp(csv, "-") != 0;
     FILE *out = stdout;
-    hf_csv c;
-    if (csv) {
-        names = csv_names(&m, &ncol);
-        if (!names) {
-            hf_error_set(&err, HF_ENOMEM, "out of memory");
-            rc = hf_cli_fail(&err);
-            goto done;
-        }
-        f = hf_outfile_open(csv, &err);
-        if (!f) {
-            rc = hf_cli_fail(&err);
-            goto done;
-        }
-        hf_csv_init(&c, hf_outfile_stream(f), 0);
-        hf_csv_header_array(&c, (const char *const *)names, ncol);
+    size_t nonfinite = 0;
+    if (csv && !(f = hf_cli_csv_begin(csv, hf_results_balance_header_write, &m, &err))) {
+        rc = hf_cli_fail(&err);
+        goto done;
     }
     if (human) {
         fprintf(out, "holdfast balance: %s\n", m.title ? m.title : path);
@@ -463,19 +291,14 @@ int hf_cmd_balance(int argc, char **argv)
             if (human)
                 print_condition(out, &m, r);
             if (csv)
-                csv_row(&c, &m, l, r);
+                nonfinite += hf_results_balance_row_write(hf_outfile_stream(f), &m, l, r);
         }
         if (human)
             fprintf(out, "\n%s", hf_cli_caution);
     }
-    if (csv) {
-        hf_csv_flush(&c);
-        hf_outfile *g = f;
-        f = NULL;
-        if (hf_outfile_commit(g, &err) != HF_OK) {
-            rc = hf_cli_fail(&err);
-            goto done;
-        }
+    if (csv && hf_cli_csv_end(cmd, &f, nonfinite, &err) != HF_OK) {
+        rc = hf_cli_fail(&err);
+        goto done;
     }
     FILE *sum = human ? out : stderr;
     fprintf(sum, "\nbalance: %zu of %zu load-case conditions passed every criterion%s\n", npass,
@@ -485,10 +308,6 @@ int hf_cmd_balance(int argc, char **argv)
     rc = any_nores ? HF_EXIT_NUMERIC : any_fail ? HF_EXIT_CRITERION : HF_EXIT_OK;
 done:
     hf_outfile_abort(f);
-    if (names)
-        for (size_t j = 0; j < ncol; j++)
-            hf_free(names[j]);
-    hf_free(names);
     hf_free(pick);
     hf_balance_free(b);
     hf_model_free(&m);

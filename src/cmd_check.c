@@ -115,13 +115,20 @@ static void print_lines(const hf_model *m)
     }
 }
 
+/* "\n<what>: none" or "\n<what> (n)": the heading of a list; returns n. */
+static size_t list_heading(const char *what, size_t n)
+{
+    if (n == 0)
+        printf("\n%s: none\n", what);
+    else
+        printf("\n%s (%zu)\n", what, n);
+    return n;
+}
+
 static void print_loads(const hf_model *m)
 {
-    if (m->nloads == 0) {
-        printf("\nloads: none\n");
+    if (list_heading("loads", m->nloads) == 0)
         return;
-    }
-    printf("\nloads (%zu)\n", m->nloads);
     for (size_t i = 0; i < m->nloads; i++) {
         const hf_load *ld = &m->loads[i];
         printf("  %s: force %.1f kN toward %.1f deg, yaw moment %.1f kN m\n", ld->name,
@@ -161,11 +168,8 @@ static void print_rest(const hf_model *m)
     if (c->max_offset > 0.0)
         printf(", offset limit %.2f m", c->max_offset);
     printf("\n  source: %s\n", c->source ? c->source : "none");
-    if (m->nstudies == 0) {
-        printf("\nstudies: none\n");
+    if (list_heading("studies", m->nstudies) == 0)
         return;
-    }
-    printf("\nstudies (%zu)\n", m->nstudies);
     for (size_t i = 0; i < m->nstudies; i++) {
         const hf_study *s = &m->studies[i];
         printf("  %-20s %-9s", s->name, study_kinds[s->kind]);
@@ -183,10 +187,8 @@ int hf_cmd_check(int argc, char **argv)
 {
     const char *path = NULL;
     for (int i = 1; i < argc; i++) {
-        if (!strcmp(argv[i], "--help") || !strcmp(argv[i], "-h")) {
-            fputs(help, stdout);
+        if (hf_cli_help(argv[i], help))
             return HF_EXIT_OK;
-        }
         if (argv[i][0] == '-' && argv[i][1] != '\0')
             return hf_cli_usage_error("check", "unknown option '%s'", argv[i]);
         if (path)
@@ -197,12 +199,9 @@ int hf_cmd_check(int argc, char **argv)
     if (!path)
         return hf_cli_usage_error("check", "expected a CASE file");
     hf_model m;
-    hf_error err;
-    hf_model_init(&m);
-    hf_error_clear(&err);
-    hf_status st = hf_cli_load(path, &m, &err);
-    if (st != HF_OK)
-        return hf_cli_fail(&err);
+    int rc = hf_cli_case_load(path, &m);
+    if (rc != HF_CLI_CONTINUE)
+        return rc;
     printf("case: %s\n", path);
     if (m.title)
         printf("title: %s\n", m.title);

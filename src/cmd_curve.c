@@ -4,10 +4,9 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include "holdfast/alloc.h"
 #include "holdfast/cli.h"
-#include "holdfast/csv.h"
 #include "holdfast/outfile.h"
+#include "holdfast/results.h"
 #include "holdfast/spread.h"
 
 /* Documented limit: points of one curve. */
@@ -33,83 +32,31 @@ static const char usage_text[] =
     "\n"
     "exit status: 0 ok, 2 bad input or usage, 3 numerical failure\n";
 
-static int option(int argc, char **argv, int *i, const char *name, const char **value, int *missing)
-{
-    size_t n = strlen(name);
-    if (strncmp(argv[*i], name, n) != 0)
-        return 0;
-    if (argv[*i][n] == '=') {
-        *value = argv[*i] + n + 1;
-        return 1;
-    }
-    if (argv[*i][n] != '\0')
-        return 0;
-    if (*i + 1 >= argc) {
-        *missing = 1;
-        return 1;
-    }
-    *value = argv[++*i];
-    return 1;
-}
-
-/* For tables: a value that rounds to zero at the printed precision (half a
- * unit of the last digit) is printed as 0, not -0. */
-static double nz(double v, double half)
-{
-    return fabs(v) < half ? 0.0 : v;
-}
-
-/* One curve point, as printed. */
-typedef struct {
-    double offset, restoring, fx, fy, mz, stiffness, tmax, umax;
-    const char *tmax_line;
-} point;
-
 static void table_header(FILE *out)
 {
     fprintf(out, "%10s %12s %12s %12s %13s %12s %12s %-14s %7s\n", "offset m", "restoring kN",
             "Fx kN", "Fy kN", "Mz kN m", "k kN/m", "T max kN", "line", "util");
 }
 
-static void table_row(FILE *out, const point *p)
+static void table_row(FILE *out, const hf_results_curve_point *p)
 {
     fprintf(out, "%10.3f %12.2f %12.2f %12.2f %13.1f %12.3f %12.2f %-14s %7.4f\n", p->offset,
-            nz(p->restoring, 0.005), nz(p->fx, 0.005), nz(p->fy, 0.005), nz(p->mz, 0.05),
-            p->stiffness, p->tmax, p->tmax_line, p->umax);
+            hf_cli_zero_small(p->restoring / 1e3, 0.005),
+            hf_cli_zero_small(p->force_x / 1e3, 0.005), hf_cli_zero_small(p->force_y / 1e3, 0.005),
+            hf_cli_zero_small(p->moment_z / 1e3, 0.05), p->stiffness / 1e3, p->max_tension / 1e3,
+            p->max_tension_line, p->max_utilisation);
 }
 
 int hf_cmd_curve(int argc, char **argv)
 {
     const char *cmd = "curve", *path = NULL, *csv = NULL, *dir_text = NULL, *range_text = NULL;
-    for (int i = 1; i < argc; i++) {
-        const char *v = NULL;
-        int missing = 0;
-        if (!strcmp(argv[i], "--help") || !strcmp(argv[i], "-h")) {
-            fputs(usage_text, stdout);
-            return HF_EXIT_OK;
-        } else if (option(argc, argv, &i, "--csv", &v, &missing)) {
-            if (missing)
-                return hf_cli_usage_error(cmd, "--csv needs a FILE (or - for standard output)");
-            csv = v;
-        } else if (option(argc, argv, &i, "--direction", &v, &missing)) {
-            if (missing)
-                return hf_cli_usage_error(cmd, "--direction needs an angle in degrees");
-            dir_text = v;
-        } else if (option(argc, argv, &i, "--range", &v, &missing)) {
-            if (missing)
-                return hf_cli_usage_error(cmd, "--range needs FROM:TO:STEP (metres)");
-            range_text = v;
-        } else if (argv[i][0] == '-' && argv[i][1] != '\0') {
-            return hf_cli_usage_error(cmd, "unknown option '%s'", argv[i]);
-        } else if (!path) {
-            path = argv[i];
-        } else {
-            return hf_cli_usage_error(cmd, "unexpected argument '%s' (one CASE file only)",
-                                      argv[i]);
-        }
-    }
-    if (!path)
-        return hf_cli_usage_error(cmd, "missing the CASE file");
+    const hf_cli_opt opts[] = {
+        HF_CLI_OPT_CSV(&csv),
+        {"--direction", "--direction needs an angle in degrees", 0, &dir_text, NULL},
+        {"--range", "--range needs FROM:TO:STEP (metres)", 0, &range_text, NULL}};
+    int rc = hf_cli_parse_case_args(argc, argv, cmd, usage_text, opts, 3, &path);
+    if (rc != HF_CLI_CONTINUE)
+        return rc;
     if (!dir_text)
         return hf_cli_usage_error(cmd, "missing --direction DEG");
     if (!range_text)
@@ -128,53 +75,22 @@ int hf_cmd_curve(int argc, char **argv)
         return hf_cli_usage_error(cmd, "--range: %s", err.text);
 
     hf_model m;
-    hf_model_init(&m);
-    if (hf_cli_load(path, &m, &err) != HF_OK)
-        return hf_cli_fail(&err);
-    int rc = HF_EXIT_OK;
-    hf_spread *ws = NULL;
+    rc = hf_cli_case_load(path, &m);
+    if (rc != HF_CLI_CONTINUE)
+        return rc;
+    rc = HF_EXIT_OK;
     hf_outfile *f = NULL;
-    char **names = NULL;
-    size_t ncol = 9 + m.nlines;
-    ws = hf_spread_alloc(&m, &err);
-    names = hf_calloc(ncol, sizeof *names);
-    if (!ws || !names) {
-        if (ws)
-            hf_error_set(&err, HF_ENOMEM, "out of memory");
+    hf_spread *ws = hf_spread_alloc(&m, &err);
+    if (!ws) {
         rc = hf_cli_fail(&err);
         goto done;
     }
-    static const char *const fixed[9] = {"offset_m",       "restoring_kN",     "force_x_kN",
-                                         "force_y_kN",     "moment_z_kNm",     "stiffness_kN_per_m",
-                                         "max_tension_kN", "max_tension_line", "max_utilisation"};
-    for (size_t j = 0; j < ncol; j++) {
-        if (j < 9) {
-            names[j] = hf_strdup(fixed[j]);
-        } else {
-            const char *ln = m.lines[j - 9].name;
-            size_t len = strlen(ln) + 6;
-            names[j] = hf_malloc(len);
-            if (names[j])
-                snprintf(names[j], len, "T_%s_kN", ln);
-        }
-        if (!names[j]) {
-            hf_error_set(&err, HF_ENOMEM, "out of memory");
-            rc = hf_cli_fail(&err);
-            goto done;
-        }
-    }
-
     FILE *out = stdout;
     int human = !csv || strcmp(csv, "-") != 0;
-    hf_csv c;
-    if (csv) {
-        f = hf_outfile_open(csv, &err);
-        if (!f) {
-            rc = hf_cli_fail(&err);
-            goto done;
-        }
-        hf_csv_init(&c, hf_outfile_stream(f), 0);
-        hf_csv_header_array(&c, (const char *const *)names, ncol);
+    size_t nonfinite = 0;
+    if (csv && !(f = hf_cli_csv_begin(csv, hf_results_curve_header_write, &m, &err))) {
+        rc = hf_cli_fail(&err);
+        goto done;
     }
     double d = dir_deg * M_PI / 180.0, cd = cos(d), sd = sin(d);
     hf_pose rest;
@@ -202,52 +118,21 @@ int hf_cmd_curve(int argc, char **argv)
             rc = hf_cli_fail(&err);
             goto done;
         }
-        point pt;
-        pt.offset = s;
-        pt.restoring = -(r.force[0] * cd + r.force[1] * sd) / 1e3;
-        pt.fx = r.force[0] / 1e3;
-        pt.fy = r.force[1] / 1e3;
-        pt.mz = r.force[5] / 1e3;
-        /* d(restoring)/ds = d^T K_h d, K_h the horizontal translation block. */
-        pt.stiffness =
-            (K[0][0] * cd * cd + (K[0][1] + K[1][0]) * cd * sd + K[1][1] * sd * sd) / 1e3;
-        pt.tmax = r.max_tension / 1e3;
-        pt.tmax_line = r.max_tension_line != (size_t)-1 ? m.lines[r.max_tension_line].name : "";
-        pt.umax = r.max_utilisation;
+        hf_results_curve_point pt;
+        hf_results_curve_point_set(&pt, &m, s, d, K, &r);
         if (human)
             table_row(out, &pt);
-        if (csv) {
-            hf_csv_field_double(&c, pt.offset);
-            hf_csv_field_double(&c, pt.restoring);
-            hf_csv_field_double(&c, pt.fx);
-            hf_csv_field_double(&c, pt.fy);
-            hf_csv_field_double(&c, pt.mz);
-            hf_csv_field_double(&c, pt.stiffness);
-            hf_csv_field_double(&c, pt.tmax);
-            hf_csv_field_str(&c, pt.tmax_line);
-            hf_csv_field_double(&c, pt.umax);
-            for (size_t i = 0; i < m.nlines; i++)
-                hf_csv_field_double(&c, r.states[i].tension / 1e3);
-            hf_csv_end_row(&c);
-        }
+        if (csv)
+            nonfinite += hf_results_curve_row_write(hf_outfile_stream(f), &m, &pt, &r);
     }
-    if (csv) {
-        hf_csv_flush(&c);
-        hf_outfile *g = f;
-        f = NULL;
-        if (hf_outfile_commit(g, &err) != HF_OK) {
-            rc = hf_cli_fail(&err);
-            goto done;
-        }
+    if (csv && hf_cli_csv_end(cmd, &f, nonfinite, &err) != HF_OK) {
+        rc = hf_cli_fail(&err);
+        goto done;
     }
     if (human)
         fprintf(out, "\n%s", hf_cli_caution);
 done:
     hf_outfile_abort(f);
-    if (names)
-        for (size_t j = 0; j < ncol; j++)
-            hf_free(names[j]);
-    hf_free(names);
     hf_spread_free(ws);
     hf_model_free(&m);
     return rc;

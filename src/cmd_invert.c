@@ -34,17 +34,14 @@ int hf_cmd_invert(int argc, char **argv)
     const char *case_path = NULL, *vary_text = NULL, *target_text = NULL, *csv = NULL;
     for (int i = 1; i < argc; i++) {
         const char *a = argv[i];
-        int more = i + 1 < argc;
-        if (!strcmp(a, "--help") || !strcmp(a, "-h")) {
-            fputs(usage_text, stdout);
+        if (hf_cli_help(a, usage_text))
             return HF_EXIT_OK;
-        } else if (!strcmp(a, "--vary") && more && !vary_text) {
-            vary_text = argv[++i];
-        } else if (!strcmp(a, "--target") && more && !target_text) {
-            target_text = argv[++i];
-        } else if (!strcmp(a, "--csv") && more) {
-            csv = argv[++i];
-        } else if (a[0] == '-' && a[1]) {
+        /* --vary and --target once each; a repeat is reported below */
+        if ((!vary_text && hf_cli_value(argc, argv, &i, "--vary", &vary_text)) ||
+            (!target_text && hf_cli_value(argc, argv, &i, "--target", &target_text)) ||
+            hf_cli_value(argc, argv, &i, "--csv", &csv))
+            continue;
+        if (a[0] == '-' && a[1]) {
             return hf_cli_usage_error("invert", "unknown or repeated option, or missing value: %s",
                                       a);
         } else if (!case_path) {

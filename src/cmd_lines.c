@@ -8,6 +8,7 @@
 #include "holdfast/cli.h"
 #include "holdfast/csv.h"
 #include "holdfast/outfile.h"
+#include "holdfast/results.h"
 #include "holdfast/spread.h"
 
 /* Profile sampling: about this many points per line, never closer than the floor. */
@@ -32,94 +33,6 @@ static const char usage_text[] =
     "\n"
     "exit status: 0 ok, 2 bad input or usage, 3 numerical failure\n";
 
-static int option(int argc, char **argv, int *i, const char *name, const char **value, int *missing)
-{
-    size_t n = strlen(name);
-    if (strncmp(argv[*i], name, n) != 0)
-        return 0;
-    if (argv[*i][n] == '=') {
-        *value = argv[*i] + n + 1;
-        return 1;
-    }
-    if (argv[*i][n] != '\0')
-        return 0;
-    if (*i + 1 >= argc) {
-        *missing = 1;
-        return 1;
-    }
-    *value = argv[++*i];
-    return 1;
-}
-
-/* Status text of line i: regime name, "broken", or "failed: why". */
-static const char *status_text(const hf_spread_result *r, size_t i, char *buf, size_t cap)
-{
-    const hf_line_state *s = &r->states[i];
-    if (r->broken[i])
-        return "broken";
-    if (s->status != HF_OK) {
-        snprintf(buf, cap, "failed: %s",
-                 s->message && s->message[0] ? s->message : hf_status_str(s->status));
-        return buf;
-    }
-    return hf_line_regime_name(s->regime);
-}
-
-static int solved(const hf_spread_result *r, size_t i)
-{
-    return !r->broken[i] && r->states[i].status == HF_OK;
-}
-
-static double top_angle_deg(const hf_line_state *s)
-{
-    return atan2(s->v, s->h) * 180.0 / M_PI;
-}
-
-static void write_csv(FILE *out, const hf_model *m, const hf_spread_result *r)
-{
-    hf_csv c;
-    hf_csv_init(&c, out, 0);
-    hf_csv_header(&c, "line", "status", "fairlead_tension_kN", "fairlead_horizontal_kN",
-                  "fairlead_vertical_kN", "top_angle_deg", "anchor_tension_kN",
-                  "anchor_vertical_kN", "anchor_uplift_deg", "grounded_m", "span_m",
-                  "max_utilisation", "height_m", "anchor_horizontal_kN", "touchdown_m",
-                  "max_tension_kN", NULL);
-    for (size_t i = 0; i < m->nlines; i++) {
-        char buf[HF_ERROR_TEXT];
-        const hf_line_state *s = &r->states[i];
-        hf_csv_field_str(&c, m->lines[i].name);
-        hf_csv_field_str(&c, status_text(r, i, buf, sizeof buf));
-        if (solved(r, i)) {
-            hf_csv_field_double(&c, s->tension / 1e3);
-            hf_csv_field_double(&c, s->h / 1e3);
-            hf_csv_field_double(&c, s->v / 1e3);
-            hf_csv_field_double(&c, top_angle_deg(s));
-            hf_csv_field_double(&c, s->anchor_tension / 1e3);
-            hf_csv_field_double(&c, s->anchor_v / 1e3);
-            hf_csv_field_double(&c, s->anchor_angle * 180.0 / M_PI);
-            hf_csv_field_double(&c, s->grounded);
-            hf_csv_field_double(&c, r->geom[i].x);
-            hf_csv_field_double(&c, s->max_utilisation);
-            hf_csv_field_double(&c, r->geom[i].z);
-            hf_csv_field_double(&c, s->anchor_h / 1e3);
-            hf_csv_field_double(&c, s->touchdown_x);
-            hf_csv_field_double(&c, r->line_tension[i] / 1e3);
-        } else {
-            for (int k = 0; k < 14; k++)
-                hf_csv_field_empty(&c);
-        }
-        hf_csv_end_row(&c);
-    }
-    hf_csv_flush(&c);
-}
-
-/* For tables: a value that rounds to zero at the printed precision (half a
- * unit of the last digit) is printed as 0, not -0. */
-static double nz(double v, double half)
-{
-    return fabs(v) < half ? 0.0 : v;
-}
-
 static void write_table(FILE *out, const hf_model *m, const hf_pose *p, const hf_spread_result *r)
 {
     fprintf(out, "%s\n", m->title ? m->title : "");
@@ -131,22 +44,23 @@ static void write_table(FILE *out, const hf_model *m, const hf_pose *p, const hf
     for (size_t i = 0; i < m->nlines; i++) {
         char buf[HF_ERROR_TEXT];
         const hf_line_state *s = &r->states[i];
-        const char *st = status_text(r, i, buf, sizeof buf);
-        if (!solved(r, i)) {
+        const char *st = hf_results_line_status(r, i, buf, sizeof buf);
+        if (!hf_results_line_solved(r, i)) {
             fprintf(out, "%-14s %s\n", m->lines[i].name, st);
             continue;
         }
         fprintf(out, "%-14s %-10s %10.1f %10.1f %10.1f %7.2f %10.1f %7.2f %9.1f %9.1f %7.3f\n",
-                m->lines[i].name, st, s->tension / 1e3, s->h / 1e3, s->v / 1e3, top_angle_deg(s),
-                s->anchor_tension / 1e3, s->anchor_angle * 180.0 / M_PI, s->grounded, r->geom[i].x,
-                s->max_utilisation);
+                m->lines[i].name, st, s->tension / 1e3, s->h / 1e3, s->v / 1e3,
+                hf_results_line_top_angle_deg(s), s->anchor_tension / 1e3,
+                s->anchor_angle * 180.0 / M_PI, s->grounded, r->geom[i].x, s->max_utilisation);
     }
     if (r->status == HF_OK) {
-        fprintf(out,
-                "\nmooring load on the hull: Fx %.1f kN, Fy %.1f kN, Fz %.1f kN, "
-                "Mz %.1f kN m\n",
-                nz(r->force[0] / 1e3, 0.05), nz(r->force[1] / 1e3, 0.05),
-                nz(r->force[2] / 1e3, 0.05), nz(r->force[5] / 1e3, 0.05));
+        fprintf(
+            out,
+            "\nmooring load on the hull: Fx %.1f kN, Fy %.1f kN, Fz %.1f kN, "
+            "Mz %.1f kN m\n",
+            hf_cli_zero_small(r->force[0] / 1e3, 0.05), hf_cli_zero_small(r->force[1] / 1e3, 0.05),
+            hf_cli_zero_small(r->force[2] / 1e3, 0.05), hf_cli_zero_small(r->force[5] / 1e3, 0.05));
         if (r->max_utilisation_line != (size_t)-1)
             fprintf(out, "most utilised line: %s (%.3f of MBL)\n",
                     m->lines[r->max_utilisation_line].name, r->max_utilisation);
@@ -204,7 +118,7 @@ static hf_status write_profiles(const char *dir, const hf_model *m, const hf_spr
         return s;
     size_t cap = 0;
     for (size_t i = 0; i < m->nlines; i++)
-        if (solved(r, i)) {
+        if (hf_results_line_solved(r, i)) {
             size_t n = hf_line_profile(&m->lines[i].line, &r->states[i],
                                        spacing_for(&m->lines[i].line), NULL, 0);
             if (n > cap)
@@ -215,7 +129,7 @@ static hf_status write_profiles(const char *dir, const hf_model *m, const hf_spr
         return hf_error_set(err, HF_ENOMEM, "out of memory for line profiles");
     double seabed = -hf_model_water_height(m);
     for (size_t i = 0; i < m->nlines && s == HF_OK; i++) {
-        if (!solved(r, i))
+        if (!hf_results_line_solved(r, i))
             continue;
         const hf_model_line *ml = &m->lines[i];
         size_t n = hf_line_profile(&ml->line, &r->states[i], spacing_for(&ml->line), pts, cap);
@@ -250,87 +164,40 @@ static hf_status write_profiles(const char *dir, const hf_model *m, const hf_spr
 
 int hf_cmd_lines(int argc, char **argv)
 {
-    const char *cmd = "lines", *path = NULL, *csv = NULL, *offset_text = NULL, *profiles = NULL;
-    for (int i = 1; i < argc; i++) {
-        const char *v = NULL;
-        int missing = 0;
-        if (!strcmp(argv[i], "--help") || !strcmp(argv[i], "-h")) {
-            fputs(usage_text, stdout);
-            return HF_EXIT_OK;
-        } else if (option(argc, argv, &i, "--csv", &v, &missing)) {
-            if (missing)
-                return hf_cli_usage_error(cmd, "--csv needs a FILE (or - for standard output)");
-            csv = v;
-        } else if (option(argc, argv, &i, "--offset", &v, &missing)) {
-            if (missing)
-                return hf_cli_usage_error(cmd, "--offset needs X,Y,HEADING_DEG");
-            offset_text = v;
-        } else if (option(argc, argv, &i, "--profiles", &v, &missing)) {
-            if (missing || !v[0])
-                return hf_cli_usage_error(cmd, "--profiles needs a directory");
-            profiles = v;
-        } else if (argv[i][0] == '-' && argv[i][1] != '\0') {
-            return hf_cli_usage_error(cmd, "unknown option '%s'", argv[i]);
-        } else if (!path) {
-            path = argv[i];
-        } else {
-            return hf_cli_usage_error(cmd, "unexpected argument '%s' (one CASE file only)",
-                                      argv[i]);
-        }
-    }
-    if (!path)
-        return hf_cli_usage_error(cmd, "missing the CASE file");
-    hf_error err;
-    hf_error_clear(&err);
-    double offset[3] = {0.0, 0.0, 0.0};
-    if (offset_text && hf_cli_parse_offset(offset_text, offset, &err) != HF_OK)
-        return hf_cli_usage_error(cmd, "%s", err.text);
-
-    hf_model m;
-    hf_model_init(&m);
-    if (hf_cli_load(path, &m, &err) != HF_OK)
-        return hf_cli_fail(&err);
-    int rc = HF_EXIT_OK;
-    hf_spread *ws = hf_spread_alloc(&m, &err);
-    if (!ws) {
-        rc = hf_cli_fail(&err);
-        goto done;
-    }
-    hf_pose pose;
-    hf_spread_pose_rest(&m, &pose);
-    hf_spread_pose_offset(&pose, offset);
+    const char *cmd = "lines", *profiles = NULL;
+    const hf_cli_opt extra[] = {{"--profiles", "--profiles needs a directory", 1, &profiles, NULL}};
+    hf_cli_pose_cmd pc;
+    int rc = hf_cli_pose_cmd_begin(&pc, argc, argv, cmd, usage_text, extra, 1);
+    if (rc != HF_CLI_CONTINUE)
+        return rc;
+    rc = HF_EXIT_OK;
     hf_spread_result res;
     hf_error solve_err;
     hf_error_clear(&solve_err);
     /* A failing line does not stop the others: its row shows the failure and
      * the exit status reports it after the output is written. */
-    hf_status st = hf_spread_solve(ws, &pose, &res, &solve_err);
+    hf_status st = hf_spread_solve(pc.ws, &pc.pose, &res, &solve_err);
     if (st == HF_EINVAL && res.failed_line == (size_t)-1) {
         rc = hf_cli_fail(&solve_err); /* the pose itself was rejected */
         goto done;
     }
-    if (csv) {
-        hf_outfile *f = hf_outfile_open(csv, &err);
-        if (!f) {
-            rc = hf_cli_fail(&err);
-            goto done;
-        }
-        write_csv(hf_outfile_stream(f), &m, &res);
-        if (hf_outfile_commit(f, &err) != HF_OK) {
-            rc = hf_cli_fail(&err);
+    if (pc.csv) {
+        hf_outfile *f = hf_cli_csv_begin(pc.csv, NULL, &pc.m, &pc.err);
+        if (!f || hf_cli_csv_end(cmd, &f, hf_results_lines_write(hf_outfile_stream(f), &pc.m, &res),
+                                 &pc.err) != HF_OK) {
+            rc = hf_cli_fail(&pc.err);
             goto done;
         }
     }
-    if (!csv || strcmp(csv, "-") != 0)
-        write_table(stdout, &m, &pose, &res);
-    if (profiles && write_profiles(profiles, &m, &res, &err) != HF_OK) {
-        rc = hf_cli_fail(&err);
+    if (!pc.csv || strcmp(pc.csv, "-") != 0)
+        write_table(stdout, &pc.m, &pc.pose, &res);
+    if (profiles && write_profiles(profiles, &pc.m, &res, &pc.err) != HF_OK) {
+        rc = hf_cli_fail(&pc.err);
         goto done;
     }
     if (st != HF_OK)
         rc = hf_cli_fail(&solve_err);
 done:
-    hf_spread_free(ws);
-    hf_model_free(&m);
+    hf_cli_pose_cmd_end(&pc);
     return rc;
 }

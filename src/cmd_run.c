@@ -8,10 +8,10 @@
 #include "holdfast/alloc.h"
 #include "holdfast/balance.h"
 #include "holdfast/cli.h"
-#include "holdfast/csv.h"
 #include "holdfast/invert.h"
 #include "holdfast/outfile.h"
 #include "holdfast/report.h"
+#include "holdfast/results.h"
 #include "holdfast/svg.h"
 #include "holdfast/spread.h"
 #include "holdfast/study.h"
@@ -33,19 +33,15 @@ static const char usage_text[] =
     "See docs/studies.md.  Exit status: 0 ok, 1 a criterion failed in a balance\n"
     "study, 2 bad input, 3 numerical failure (other studies still run).\n";
 
-static const char *const kind_name[] = {"lines", "curve", "stiffness", "balance", "sweep",
-                                        "invert"};
+static const char *const kind_name[] = {"lines",   "curve", "stiffness",
+                                        "balance", "sweep", "invert"};
 
 /* Outcome of one study, for the summary and the exit status. */
 typedef struct {
-    hf_status status;     /* HF_OK or why the study failed */
-    int criterion_failed; /* balance: some condition failed a criterion */
+    hf_status status;              /* HF_OK or why the study failed */
+    int criterion_failed;          /* balance: some condition failed a criterion */
     char note[HF_ERROR_TEXT + 64]; /* one line for the summary */
 } outcome;
-
-/* ---- per-kind writers through the library API (the column layouts of the
- * matching commands; see docs/studies.md) ---- */
-
 
 /* ---- report pieces ---- */
 
@@ -86,8 +82,9 @@ static void report_elevations(hf_report *rep, const hf_model *m, const hf_spread
 /* The rest pose: plan and every line's elevation. */
 static void report_rest(hf_report *rep, const hf_model *m)
 {
-    hf_report_section(rep, "Rest pose", "The spread with the hull at the case's position and "
-                                        "heading, no load.");
+    hf_report_section(rep, "Rest pose",
+                      "The spread with the hull at the case's position and "
+                      "heading, no load.");
     hf_error e;
     hf_error_clear(&e);
     FILE *f = hf_report_figure_begin(rep);
@@ -114,7 +111,6 @@ static void fmt(char *buf, double v)
 {
     hf_report_number(buf, 32, v, 4);
 }
-
 
 /* Splits one CSV line in place into at most `max` fields (RFC 4180 quotes
  * removed); returns the number of fields. */
@@ -159,9 +155,10 @@ static size_t split_csv(char *line, char **fields, size_t max)
 /* "T_north_kN" -> "T_north (kN)" for an axis. */
 static void axis_label(const char *name, char *buf, size_t cap)
 {
-    static const char *const suffix[][2] = {
-        {"_kN_per_m", "kN/m"}, {"_kNm_per_rad", "kN m/rad"}, {"_kN", "kN"}, {"_deg", "deg"},
-        {"_m", "m"}, {"_N", "N"}, {"_N_per_m", "N/m"}, {"_kg_per_m", "kg/m"}};
+    static const char *const suffix[][2] = {{"_kN_per_m", "kN/m"}, {"_kNm_per_rad", "kN m/rad"},
+                                            {"_kN", "kN"},         {"_deg", "deg"},
+                                            {"_m", "m"},           {"_N", "N"},
+                                            {"_N_per_m", "N/m"},   {"_kg_per_m", "kg/m"}};
     size_t n = strlen(name);
     for (size_t i = 0; i < sizeof suffix / sizeof suffix[0]; i++) {
         size_t k = strlen(suffix[i][0]);
@@ -251,9 +248,18 @@ static void report_sweep(hf_report *rep, const hf_model *m, const hf_study *s, c
     const char *lt = strrchr(s->vary[ic].path, '.');
     lt = lt ? lt + 1 : s->vary[ic].path;
     double fi = m->criteria.factor_intact;
-    hf_svg_sweep sw = {s->name, xl, yl, n, ncurves, x, y, ncurves > 1 ? cn : NULL,
-                       ncurves > 1 ? lt : NULL, util && fi > 0,
-                       fi > 0 ? 1.0 / fi : 0.0, "intact limit 1/factor"};
+    hf_svg_sweep sw = {s->name,
+                       xl,
+                       yl,
+                       n,
+                       ncurves,
+                       x,
+                       y,
+                       ncurves > 1 ? cn : NULL,
+                       ncurves > 1 ? lt : NULL,
+                       util && fi > 0,
+                       fi > 0 ? 1.0 / fi : 0.0,
+                       "intact limit 1/factor"};
     hf_error_clear(&e);
     FILE *fig = hf_report_figure_begin(rep);
     hf_status st = hf_svg_figure_sweep(fig, &sw, 0, &e);
@@ -276,64 +282,30 @@ done:
     hf_free(fields);
 }
 
-static void study_pose(const hf_model *m, const hf_study *s, hf_pose *pose)
+/* ---- per-kind studies through the library API; the CSV layouts are those of
+ * the matching commands, from include/holdfast/results.h (docs/studies.md) ---- */
+
+/* A spread workspace of m and the study's pose (rest pose plus offset), or
+ * NULL with err set. */
+static hf_spread *study_begin(const hf_model *m, const hf_study *s, hf_pose *pose, hf_error *err)
 {
     hf_spread_pose_rest(m, pose);
     hf_spread_pose_offset(pose, s->offset);
+    return hf_spread_alloc(m, err);
 }
 
-static hf_status run_lines(const hf_model *m, const hf_study *s, FILE *out, hf_report *rep,
-                           outcome *oc,
-                           hf_error *err)
+static hf_status run_lines(const hf_model *m, const hf_study *s, int jobs, FILE *out,
+                           hf_report *rep, outcome *oc, hf_error *err)
 {
-    hf_spread *ws = hf_spread_alloc(m, err);
+    hf_pose pose;
+    hf_spread *ws = study_begin(m, s, &pose, err);
     if (!ws)
         return err->status;
-    hf_pose pose;
-    study_pose(m, s, &pose);
     hf_spread_result r;
     hf_status st = hf_spread_solve(ws, &pose, &r, err);
-    hf_csv c;
-    hf_csv_init(&c, out, 0);
-    hf_csv_header(&c, "line", "status", "fairlead_tension_kN", "fairlead_horizontal_kN",
-                  "fairlead_vertical_kN", "top_angle_deg", "anchor_tension_kN",
-                  "anchor_vertical_kN", "anchor_uplift_deg", "grounded_m", "span_m",
-                  "max_utilisation", "height_m", "anchor_horizontal_kN", "touchdown_m",
-                  "max_tension_kN", NULL);
-    for (size_t i = 0; i < m->nlines; i++) {
-        const hf_line_state *ls = &r.states[i];
-        char buf[HF_ERROR_TEXT];
-        hf_csv_field_str(&c, m->lines[i].name);
-        int ok = !r.broken[i] && ls->status == HF_OK && st == HF_OK;
-        if (r.broken[i])
-            hf_csv_field_str(&c, "broken");
-        else if (!ok) {
-            snprintf(buf, sizeof buf, "failed: %s",
-                     ls->message && ls->message[0] ? ls->message : hf_status_str(ls->status));
-            hf_csv_field_str(&c, buf);
-        } else
-            hf_csv_field_str(&c, hf_line_regime_name(ls->regime));
-        if (ok) {
-            hf_csv_field_double(&c, ls->tension / 1e3);
-            hf_csv_field_double(&c, ls->h / 1e3);
-            hf_csv_field_double(&c, ls->v / 1e3);
-            hf_csv_field_double(&c, atan2(ls->v, ls->h) * 180.0 / M_PI);
-            hf_csv_field_double(&c, ls->anchor_tension / 1e3);
-            hf_csv_field_double(&c, ls->anchor_v / 1e3);
-            hf_csv_field_double(&c, ls->anchor_angle * 180.0 / M_PI);
-            hf_csv_field_double(&c, ls->grounded);
-            hf_csv_field_double(&c, r.geom[i].x);
-            hf_csv_field_double(&c, ls->max_utilisation);
-            hf_csv_field_double(&c, r.geom[i].z);
-            hf_csv_field_double(&c, ls->anchor_h / 1e3);
-            hf_csv_field_double(&c, ls->touchdown_x);
-            hf_csv_field_double(&c, r.line_tension[i] / 1e3);
-        } else {
-            for (int k = 0; k < 14; k++)
-                hf_csv_field_empty(&c);
-        }
-        hf_csv_end_row(&c);
-    }
+    /* A study whose pose does not solve fails as a whole (its file is not
+     * kept), so the rows are those of 'holdfast lines --csv'. */
+    hf_cli_warn_nonfinite("run", hf_results_lines_write(out, m, &r));
     if (st == HF_OK)
         snprintf(oc->note, sizeof oc->note, "%zu lines; max utilisation %.4f (%s)", m->nlines,
                  r.max_utilisation,
@@ -347,9 +319,14 @@ static hf_status run_lines(const hf_model *m, const hf_study *s, FILE *out, hf_r
     if (st != HF_OK) {
         hf_report_note(rep, "warning", err->text);
     } else {
-        static const char *const cols[] = {"line", "state", "fairlead tension (kN)",
-                                           "horizontal (kN)", "vertical (kN)",
-                                           "anchor tension (kN)", "grounded (m)", "utilisation"};
+        static const char *const cols[] = {"line",
+                                           "state",
+                                           "fairlead tension (kN)",
+                                           "horizontal (kN)",
+                                           "vertical (kN)",
+                                           "anchor tension (kN)",
+                                           "grounded (m)",
+                                           "utilisation"};
         hf_report_table_begin(rep, "Line states", cols, 8);
         for (size_t i = 0; i < m->nlines; i++) {
             const hf_line_state *ls = &r.states[i];
@@ -362,7 +339,12 @@ static hf_status run_lines(const hf_model *m, const hf_study *s, FILE *out, hf_r
             fmt(v[5], ls->max_utilisation);
             const char *cells[8] = {m->lines[i].name,
                                     r.broken[i] ? "broken" : hf_line_regime_name(ls->regime),
-                                    v[0], v[1], v[2], v[3], v[4], v[5]};
+                                    v[0],
+                                    v[1],
+                                    v[2],
+                                    v[3],
+                                    v[4],
+                                    v[5]};
             hf_report_table_row(rep, cells);
         }
         hf_report_table_end(rep);
@@ -375,33 +357,19 @@ static hf_status run_lines(const hf_model *m, const hf_study *s, FILE *out, hf_r
     return st;
 }
 
-static hf_status run_stiffness(const hf_model *m, const hf_study *s, FILE *out, hf_report *rep,
-                           outcome *oc,
-                               hf_error *err)
+static hf_status run_stiffness(const hf_model *m, const hf_study *s, int jobs, FILE *out,
+                               hf_report *rep, outcome *oc, hf_error *err)
 {
-    static const char *const dof[6] = {"surge", "sway", "heave", "roll", "pitch", "yaw"};
-    hf_spread *ws = hf_spread_alloc(m, err);
+    const char *const *dof = hf_results_stiffness_columns + 1;
+    hf_pose pose;
+    hf_spread *ws = study_begin(m, s, &pose, err);
     if (!ws)
         return err->status;
-    hf_pose pose;
-    study_pose(m, s, &pose);
     hf_spread_result r;
     double K[6][6];
     hf_status st = hf_spread_stiffness(ws, &pose, K, &r, err);
     if (st == HF_OK) {
-        hf_csv c;
-        hf_csv_init(&c, out, 0);
-        hf_csv_header(&c, "row", "surge", "sway", "heave", "roll", "pitch", "yaw", NULL);
-        for (int i = 0; i < 6; i++) {
-            hf_csv_field_str(&c, dof[i]);
-            for (int j = 0; j < 6; j++)
-                hf_csv_field_double(&c, K[i][j] / 1e3);
-            hf_csv_end_row(&c);
-        }
-        hf_csv_field_str(&c, "static_load");
-        for (int j = 0; j < 6; j++)
-            hf_csv_field_double(&c, r.force[j] / 1e3);
-        hf_csv_end_row(&c);
+        hf_cli_warn_nonfinite("run", hf_results_stiffness_write(out, K, r.force));
         snprintf(oc->note, sizeof oc->note, "K11 %.6g kN/m, K22 %.6g kN/m, K66 %.6g kN m/rad",
                  K[0][0] / 1e3, K[1][1] / 1e3, K[5][5] / 1e3);
         char head[HF_MODEL_MAX_NAME + 64];
@@ -409,10 +377,10 @@ static hf_status run_stiffness(const hf_model *m, const hf_study *s, FILE *out, 
         hf_report_section(rep, head,
                           "The 6x6 mooring stiffness K[i][j] = -dF_i/dq_j at the pose, and the "
                           "static mooring load on the hull.");
-        static const char *const cols[] = {"row", "surge", "sway", "heave", "roll", "pitch", "yaw"};
-        hf_report_table_begin(rep, "Stiffness (kN/m, kN/rad, kN m/m, kN m/rad) and static load "
-                                   "(kN, kN m)",
-                              cols, 7);
+        hf_report_table_begin(rep,
+                              "Stiffness (kN/m, kN/rad, kN m/m, kN m/rad) and static load "
+                              "(kN, kN m)",
+                              hf_results_stiffness_columns, HF_RESULTS_STIFFNESS_COLUMNS);
         for (int i = 0; i < 6; i++) {
             double row[6];
             for (int j = 0; j < 6; j++)
@@ -429,9 +397,8 @@ static hf_status run_stiffness(const hf_model *m, const hf_study *s, FILE *out, 
     return st;
 }
 
-static hf_status run_curve(const hf_model *m, const hf_study *s, FILE *out, hf_report *rep,
-                           outcome *oc,
-                           hf_error *err)
+static hf_status run_curve(const hf_model *m, const hf_study *s, int jobs, FILE *out,
+                           hf_report *rep, outcome *oc, hf_error *err)
 {
     hf_vary v;
     memset(&v, 0, sizeof v);
@@ -445,20 +412,11 @@ static hf_status run_curve(const hf_model *m, const hf_study *s, FILE *out, hf_r
     if (!ws)
         return err->status;
     double cd = cos(s->direction), sd = sin(s->direction);
-    hf_csv c;
-    hf_csv_init(&c, out, 0);
-    const char *fixed[] = {"offset_m",       "restoring_kN",     "force_x_kN",
-                           "force_y_kN",     "moment_z_kNm",     "stiffness_kN_per_m",
-                           "max_tension_kN", "max_tension_line", "max_utilisation"};
-    for (size_t i = 0; i < sizeof fixed / sizeof fixed[0]; i++)
-        hf_csv_field_str(&c, fixed[i]);
-    for (size_t i = 0; i < m->nlines; i++) {
-        char name[HF_MODEL_MAX_NAME + 16];
-        snprintf(name, sizeof name, "T_%s_kN", m->lines[i].name);
-        hf_csv_field_str(&c, name);
+    if (hf_results_curve_header_write(out, m, err) != HF_OK) {
+        hf_spread_free(ws);
+        return err->status;
     }
-    hf_csv_end_row(&c);
-    size_t failed = 0, nl = m->nlines;
+    size_t failed = 0, nonfinite = 0, nl = m->nlines;
     /* Figure data (the CSV is written as it goes; these feed the report). */
     double *fo = hf_malloc(n * sizeof *fo), *ff = hf_malloc(n * sizeof *ff);
     double *fk = hf_malloc(n * sizeof *fk), *ft = hf_malloc(n * nl * sizeof *ft);
@@ -474,26 +432,14 @@ static hf_status run_curve(const hf_model *m, const hf_study *s, FILE *out, hf_r
         double K[6][6];
         hf_error e;
         hf_status st = hf_spread_stiffness(ws, &pose, K, &r, &e);
-        hf_csv_field_double(&c, x);
         if (st == HF_OK) {
-            /* restoring = -F.d; its derivative along d is d'K d (K = -dF/dq). */
-            hf_csv_field_double(&c, -(r.force[0] * cd + r.force[1] * sd) / 1e3);
-            hf_csv_field_double(&c, r.force[0] / 1e3);
-            hf_csv_field_double(&c, r.force[1] / 1e3);
-            hf_csv_field_double(&c, r.force[5] / 1e3);
-            double kd = cd * cd * K[0][0] + cd * sd * (K[0][1] + K[1][0]) + sd * sd * K[1][1];
-            hf_csv_field_double(&c, kd / 1e3);
-            hf_csv_field_double(&c, r.max_tension / 1e3);
-            hf_csv_field_str(&c, r.max_tension_line < m->nlines
-                                     ? m->lines[r.max_tension_line].name
-                                     : "");
-            hf_csv_field_double(&c, r.max_utilisation);
-            for (size_t i = 0; i < m->nlines; i++)
-                hf_csv_field_double(&c, r.states[i].tension / 1e3);
+            hf_results_curve_point pt;
+            hf_results_curve_point_set(&pt, m, x, s->direction, K, &r);
+            nonfinite += hf_results_curve_row_write(out, m, &pt, &r);
             if (figure) {
                 fo[k] = x;
-                ff[k] = -(r.force[0] * cd + r.force[1] * sd);
-                fk[k] = kd;
+                ff[k] = pt.restoring;
+                fk[k] = pt.stiffness;
                 for (size_t i = 0; i < nl; i++) {
                     ft[k * nl + i] = r.line_tension[i];
                     fu[k * nl + i] = r.states[i].max_utilisation;
@@ -509,13 +455,10 @@ static hf_status run_curve(const hf_model *m, const hf_study *s, FILE *out, hf_r
             /* The offset is kept, its values left empty (the command stops at
              * such a point; a study keeps going and counts it). */
             failed++;
-            for (int j = 0; j < 8; j++)
-                hf_csv_field_empty(&c);
-            for (size_t i = 0; i < m->nlines; i++)
-                hf_csv_field_empty(&c);
+            hf_results_curve_row_failed_write(out, m, x);
         }
-        hf_csv_end_row(&c);
     }
+    hf_cli_warn_nonfinite("run", nonfinite);
     snprintf(oc->note, sizeof oc->note, "%zu offsets along %.4g deg, %zu failed", n,
              s->direction * 180.0 / M_PI, failed);
     char head[HF_MODEL_MAX_NAME + 64], label[64];
@@ -530,8 +473,8 @@ static hf_status run_curve(const hf_model *m, const hf_study *s, FILE *out, hf_r
             for (size_t i = 0; i < nl; i++)
                 names[i] = m->lines[i].name;
         double fi = m->criteria.factor_intact;
-        hf_svg_curve cv = {s->name, n, fo, ff, fk, nl, names, ft, fu,
-                           fi > 0 ? 1.0 / fi : 0.0, NULL, label};
+        hf_svg_curve cv = {s->name, n,    fo, ff, fk, nl, names, ft, fu, fi > 0 ? 1.0 / fi : 0.0,
+                           NULL,    label};
         hf_error e;
         hf_error_clear(&e);
         FILE *f = hf_report_figure_begin(rep);
@@ -545,8 +488,8 @@ static hf_status run_curve(const hf_model *m, const hf_study *s, FILE *out, hf_r
     }
     if (failed) {
         char buf[128];
-        snprintf(buf, sizeof buf, "%zu of %zu offsets did not solve (gaps in the curves).",
-                 failed, n);
+        snprintf(buf, sizeof buf, "%zu of %zu offsets did not solve (gaps in the curves).", failed,
+                 n);
         hf_report_note(rep, "warning", buf);
     }
     hf_free(fo);
@@ -558,31 +501,17 @@ static hf_status run_curve(const hf_model *m, const hf_study *s, FILE *out, hf_r
     return HF_OK;
 }
 
-static hf_status run_balance(const hf_model *m, const hf_study *s, FILE *out, hf_report *rep,
-                           outcome *oc,
-                             hf_error *err)
+static hf_status run_balance(const hf_model *m, const hf_study *s, int jobs, FILE *out,
+                             hf_report *rep, outcome *oc, hf_error *err)
 {
     hf_balance *b = hf_balance_alloc(m, err);
     if (!b)
         return err->status;
-    hf_csv c;
-    hf_csv_init(&c, out, 0);
-    const char *fixed[] = {"load", "condition", "status", "surge_m", "sway_m", "yaw_deg",
-                           "max_tension_kN", "max_tension_line", "max_utilisation", "criterion",
-                           "passed"};
-    const char *tail[] = {"horizontal_m", "max_utilisation_line", "min_line_factor",
-                          "required_line_factor", "message"};
-    for (size_t i = 0; i < sizeof fixed / sizeof fixed[0]; i++)
-        hf_csv_field_str(&c, fixed[i]);
-    for (size_t i = 0; i < m->nlines; i++) {
-        char name[HF_MODEL_MAX_NAME + 16];
-        snprintf(name, sizeof name, "T_%s_kN", m->lines[i].name);
-        hf_csv_field_str(&c, name);
+    if (hf_results_balance_header_write(out, m, err) != HF_OK) {
+        hf_balance_free(b);
+        return err->status;
     }
-    for (size_t i = 0; i < sizeof tail / sizeof tail[0]; i++)
-        hf_csv_field_str(&c, tail[i]);
-    hf_csv_end_row(&c);
-    size_t nload = s->nloads ? s->nloads : m->nloads, nfail = 0, nnot = 0;
+    size_t nload = s->nloads ? s->nloads : m->nloads, nfail = 0, nnot = 0, nonfinite = 0;
     char head[HF_MODEL_MAX_NAME + 64];
     snprintf(head, sizeof head, "Mean position under load: %s", s->name);
     hf_report_section(rep, head,
@@ -603,69 +532,13 @@ static hf_status run_balance(const hf_model *m, const hf_study *s, FILE *out, hf
         }
         for (size_t k = 0; k < hf_balance_ncond(b); k++) {
             const hf_balance_result *r = hf_balance_result_at(b, k);
-            char cond[HF_MODEL_MAX_NAME + 16];
-            if (r->broken == HF_BALANCE_NONE)
-                snprintf(cond, sizeof cond, "intact");
-            else
-                snprintf(cond, sizeof cond, "broken:%s", m->lines[r->broken].name);
-            hf_csv_field_str(&c, m->loads[li].name);
-            hf_csv_field_str(&c, cond);
-            hf_csv_field_str(&c, hf_status_str(r->status));
-            if (r->status == HF_OK) {
-                hf_csv_field_double(&c, r->offset[0]);
-                hf_csv_field_double(&c, r->offset[1]);
-                hf_csv_field_double(&c, r->offset[2] * 180.0 / M_PI);
-                hf_csv_field_double(&c, r->max_tension / 1e3);
-                hf_csv_field_str(&c, r->max_tension_line < m->nlines
-                                         ? m->lines[r->max_tension_line].name
-                                         : "");
-                hf_csv_field_double(&c, r->max_utilisation);
-            } else {
-                for (int j = 0; j < 6; j++)
-                    hf_csv_field_empty(&c);
-            }
-            char crit[HF_MODEL_MAX_NAME + 32];
-            if (r->criterion_line < m->nlines)
-                snprintf(crit, sizeof crit, "%s:%s", hf_balance_criterion_name(r->criterion),
-                         m->lines[r->criterion_line].name);
-            else
-                snprintf(crit, sizeof crit, "%s", hf_balance_criterion_name(r->criterion));
-            hf_csv_field_str(&c, crit);
-            hf_csv_field_long(&c, r->passed ? 1 : 0);
-            for (size_t i = 0; i < m->nlines; i++) {
-                if (r->status == HF_OK)
-                    hf_csv_field_double(&c, r->tension[i] / 1e3);
-                else
-                    hf_csv_field_empty(&c);
-            }
-            if (r->status == HF_OK) {
-                hf_csv_field_double(&c, r->horizontal);
-                hf_csv_field_str(&c, r->max_utilisation_line < m->nlines
-                                         ? m->lines[r->max_utilisation_line].name
-                                         : "");
-                double mf = 0.0; /* smallest MBL/T over the loaded lines */
-                for (size_t i = 0; i < r->nlines; i++)
-                    if (r->line[i].has_factor && (mf == 0.0 || r->line[i].factor < mf))
-                        mf = r->line[i].factor;
-                if (mf > 0.0)
-                    hf_csv_field_double(&c, mf);
-                else
-                    hf_csv_field_empty(&c);
-            } else {
-                for (int j = 0; j < 3; j++)
-                    hf_csv_field_empty(&c);
-            }
-            double reqf = hf_criteria_required(&m->criteria, r->broken != HF_BALANCE_NONE);
-            if (reqf > 0.0)
-                hf_csv_field_double(&c, reqf);
-            else
-                hf_csv_field_empty(&c);
-            hf_csv_field_str(&c, r->message);
-            hf_csv_end_row(&c);
+            nonfinite += hf_results_balance_row_write(out, m, &m->loads[li], r);
             if (!r->passed)
                 nfail++;
             if (r->status != HF_OK)
                 nnot++;
+            char cond[HF_MODEL_MAX_NAME + 16];
+            hf_results_balance_condition(m, r, cond, sizeof cond);
             char item[2 * HF_MODEL_MAX_NAME + 32], req[128], res[256], a[32], b2[32];
             snprintf(item, sizeof item, "load %s, %s", m->loads[li].name, cond);
             double need = hf_criteria_required(&m->criteria, r->broken != HF_BALANCE_NONE);
@@ -674,8 +547,8 @@ static hf_status run_balance(const hf_model *m, const hf_study *s, FILE *out, hf
                 snprintf(req, sizeof req, "MBL/T at least %s%s", a,
                          r->offset_checked ? "; offset within the limit" : "");
             else
-                snprintf(req, sizeof req, "%s", r->offset_checked ? "offset within the limit"
-                                                                  : "equilibrium");
+                snprintf(req, sizeof req, "%s",
+                         r->offset_checked ? "offset within the limit" : "equilibrium");
             if (r->status != HF_OK) {
                 snprintf(res, sizeof res, "%s%s%.180s", hf_status_str(r->status),
                          r->message[0] ? ": " : "", r->message);
@@ -683,10 +556,8 @@ static hf_status run_balance(const hf_model *m, const hf_study *s, FILE *out, hf
                 fmt(a, r->max_utilisation > 0 ? 1.0 / r->max_utilisation : 0.0);
                 fmt(b2, r->horizontal);
                 snprintf(res, sizeof res, "MBL/T %s (%s), offset %s m, governing: %s", a,
-                         r->max_utilisation_line < m->nlines
-                             ? m->lines[r->max_utilisation_line].name
-                             : "-",
-                         b2, hf_balance_criterion_name(r->criterion));
+                         hf_results_line_name(m, r->max_utilisation_line), b2,
+                         hf_balance_criterion_name(r->criterion));
             }
             hf_report_check(rep, item, req, res, r->passed);
         }
@@ -707,6 +578,7 @@ static hf_status run_balance(const hf_model *m, const hf_study *s, FILE *out, hf
                 report_fail_note(rep, "The plan", &fe);
         }
     }
+    hf_cli_warn_nonfinite("run", nonfinite);
     oc->criterion_failed = nfail > 0;
     snprintf(oc->note, sizeof oc->note,
              "%zu load cases; %zu conditions failed a criterion (%zu without equilibrium)", nload,
@@ -716,7 +588,7 @@ static hf_status run_balance(const hf_model *m, const hf_study *s, FILE *out, hf
 }
 
 static hf_status run_sweep(const hf_model *m, const hf_study *s, int jobs, FILE *out,
-                           outcome *oc, hf_error *err)
+                           hf_report *rep, outcome *oc, hf_error *err)
 {
     hf_sweep *sw = hf_sweep_alloc(m, s->vary, s->nvary, s->zip, (const char *const *)s->outputs,
                                   s->noutputs, jobs, err);
@@ -735,9 +607,8 @@ static hf_status run_sweep(const hf_model *m, const hf_study *s, int jobs, FILE 
     return st;
 }
 
-static hf_status run_invert(const hf_model *m, const hf_study *s, FILE *out, hf_report *rep,
-                           outcome *oc,
-                            hf_error *err)
+static hf_status run_invert(const hf_model *m, const hf_study *s, int jobs, FILE *out,
+                            hf_report *rep, outcome *oc, hf_error *err)
 {
     char text[2 * HF_MODEL_MAX_NAME + 64];
     hf_invert_target_text(s->target_output, s->target_line, text, sizeof text);
@@ -783,12 +654,22 @@ static hf_status run_invert(const hf_model *m, const hf_study *s, FILE *out, hf_
     snprintf(para, sizeof para,
              "%s = %.8g %s gives %s = %.8g %s at the rest pose (target %.8g %s, relative error "
              "%.2g; GSL Brent bracketing in [%.6g, %.6g] %s, %d iterations).",
-             s->vary[0].path, res.value * vs, vu, text, res.achieved * sc, ou,
-             s->target_value * sc, ou, res.relative_error, res.lo * vs, res.hi * vs, vu,
-             res.iterations);
+             s->vary[0].path, res.value * vs, vu, text, res.achieved * sc, ou, s->target_value * sc,
+             ou, res.relative_error, res.lo * vs, res.hi * vs, vu, res.iterations);
     hf_report_paragraph(rep, para);
     return hf_invert_write_csv(out, m, s->vary[0].path, &o, s->target_value, &res, err);
 }
+
+/* The study of each kind, indexed by hf_study_kind (the order of kind_name).
+ * Every one writes its CSV to out and its report section to rep (a sweep's
+ * figure comes after its file is committed: report_sweep); jobs is used by
+ * sweeps only. */
+typedef hf_status (*study_fn)(const hf_model *m, const hf_study *s, int jobs, FILE *out,
+                              hf_report *rep, outcome *oc, hf_error *err);
+static const study_fn run_kind[] = {run_lines,   run_curve, run_stiffness,
+                                    run_balance, run_sweep, run_invert};
+_Static_assert(sizeof run_kind / sizeof run_kind[0] == HF_STUDY_INVERT + 1,
+               "one study function per hf_study_kind");
 
 /* ---- the run ---- */
 
@@ -813,6 +694,14 @@ static void default_dir(const char *case_path, char *buf, size_t cap)
     snprintf(buf, cap, "%.*s-results", n, base);
 }
 
+/* Opens dir/name for writing (outfile.h: committed when complete); path
+ * (cap bytes) receives the file's path. */
+static hf_outfile *open_in(const char *dir, const char *name, char *path, size_t cap, hf_error *err)
+{
+    snprintf(path, cap, "%s/%s", dir, name);
+    return hf_outfile_open(path, err);
+}
+
 static int severity(hf_status st)
 {
     if (st == HF_OK)
@@ -825,20 +714,15 @@ int hf_cmd_run(int argc, char **argv)
     const char *case_path = NULL, *dir = NULL;
     int jobs = 0, quiet = 0;
     for (int i = 1; i < argc; i++) {
-        const char *a = argv[i];
-        int more = i + 1 < argc;
-        if (!strcmp(a, "--help") || !strcmp(a, "-h")) {
-            fputs(usage_text, stdout);
+        const char *a = argv[i], *v = NULL;
+        hf_error e;
+        if (hf_cli_help(a, usage_text)) {
             return HF_EXIT_OK;
-        } else if (!strcmp(a, "--out") && more) {
-            dir = argv[++i];
-        } else if (!strcmp(a, "--jobs") && more) {
-            char *end;
-            long j = strtol(argv[++i], &end, 10);
-            if (*end || end == argv[i] || j < 1 || j > 1024)
-                return hf_cli_usage_error("run", "--jobs: expected a whole number 1..1024, got "
-                                                 "\"%s\"", argv[i]);
-            jobs = (int)j;
+        } else if (hf_cli_value(argc, argv, &i, "--out", &dir)) {
+            continue;
+        } else if (hf_cli_value(argc, argv, &i, "--jobs", &v)) {
+            if (hf_cli_parse_jobs(v, &jobs, &e) != HF_OK)
+                return hf_cli_usage_error("run", "%s", e.text);
         } else if (!strcmp(a, "--quiet") || !strcmp(a, "-q")) {
             quiet = 1;
         } else if (a[0] == '-' && a[1]) {
@@ -860,37 +744,28 @@ int hf_cmd_run(int argc, char **argv)
     int rc = HF_EXIT_OK;
     outcome *oc = NULL;
     char dbuf[4096], path[8192];
-    if (hf_cli_load(case_path, &m, &err) != HF_OK) {
-        rc = hf_cli_fail(&err);
-        goto done;
-    }
+    if (hf_cli_load(case_path, &m, &err) != HF_OK)
+        goto fail;
     if (m.nstudies == 0) {
         hf_error_set(&err, HF_EINVAL, "%s: the case has no studies: section; nothing to run",
                      case_path);
-        rc = hf_cli_fail(&err);
-        goto done;
+        goto fail;
     }
     if (!dir) {
         default_dir(case_path, dbuf, sizeof dbuf);
         dir = dbuf;
     }
-    if (make_dir(dir, &err) != HF_OK) {
-        rc = hf_cli_fail(&err);
-        goto done;
-    }
+    if (make_dir(dir, &err) != HF_OK)
+        goto fail;
     oc = hf_calloc(m.nstudies, sizeof *oc);
     if (!oc) {
         hf_error_set(&err, HF_ENOMEM, "out of memory");
-        rc = hf_cli_fail(&err);
-        goto done;
+        goto fail;
     }
     /* The report is written alongside the studies and committed last. */
-    snprintf(path, sizeof path, "%s/report.html", dir);
-    hf_outfile *rf = hf_outfile_open(path, &err);
-    if (!rf) {
-        rc = hf_cli_fail(&err);
-        goto done;
-    }
+    hf_outfile *rf = open_in(dir, "report.html", path, sizeof path, &err);
+    if (!rf)
+        goto fail;
     char command[4200];
     snprintf(command, sizeof command, "holdfast run %s", case_path);
     hf_report rep;
@@ -906,26 +781,7 @@ int hf_cmd_run(int argc, char **argv)
         hf_status st = of ? HF_OK : e.status;
         if (of) {
             FILE *out = hf_outfile_stream(of);
-            switch (s->kind) {
-            case HF_STUDY_LINES:
-                st = run_lines(&m, s, out, &rep, &oc[k], &e);
-                break;
-            case HF_STUDY_CURVE:
-                st = run_curve(&m, s, out, &rep, &oc[k], &e);
-                break;
-            case HF_STUDY_STIFFNESS:
-                st = run_stiffness(&m, s, out, &rep, &oc[k], &e);
-                break;
-            case HF_STUDY_BALANCE:
-                st = run_balance(&m, s, out, &rep, &oc[k], &e);
-                break;
-            case HF_STUDY_SWEEP:
-                st = run_sweep(&m, s, jobs, out, &oc[k], &e);
-                break;
-            case HF_STUDY_INVERT:
-                st = run_invert(&m, s, out, &rep, &oc[k], &e);
-                break;
-            }
+            st = run_kind[s->kind](&m, s, jobs, out, &rep, &oc[k], &e);
             if (st == HF_OK)
                 st = hf_outfile_commit(of, &e);
             else
@@ -949,17 +805,12 @@ int hf_cmd_run(int argc, char **argv)
         if (oc[k].criterion_failed)
             crit = 1;
     }
-    if (hf_report_end(&rep, &err) != HF_OK || hf_outfile_commit(rf, &err) != HF_OK) {
-        rc = hf_cli_fail(&err);
-        goto done;
-    }
+    if (hf_report_end(&rep, &err) != HF_OK || hf_outfile_commit(rf, &err) != HF_OK)
+        goto fail;
     /* The summary goes last, so it describes what is in the folder. */
-    snprintf(path, sizeof path, "%s/summary.txt", dir);
-    hf_outfile *of = hf_outfile_open(path, &err);
-    if (!of) {
-        rc = hf_cli_fail(&err);
-        goto done;
-    }
+    hf_outfile *of = open_in(dir, "summary.txt", path, sizeof path, &err);
+    if (!of)
+        goto fail;
     FILE *out = hf_outfile_stream(of);
     fprintf(out, "holdfast %s run of %s\n", HF_VERSION, case_path);
     if (m.title)
@@ -967,18 +818,19 @@ int hf_cmd_run(int argc, char **argv)
     fprintf(out, "\n");
     for (size_t k = 0; k < m.nstudies; k++)
         fprintf(out, "%-24s %-9s %-8s %s\n", m.studies[k].name, kind_name[m.studies[k].kind],
-                oc[k].status != HF_OK ? "failed"
+                oc[k].status != HF_OK    ? "failed"
                 : oc[k].criterion_failed ? "criterion"
                                          : "ok",
                 oc[k].note);
     fprintf(out, "\n%s", hf_cli_caution);
-    if (hf_outfile_commit(of, &err) != HF_OK) {
-        rc = hf_cli_fail(&err);
-        goto done;
-    }
+    if (hf_outfile_commit(of, &err) != HF_OK)
+        goto fail;
     if (!quiet)
         printf("results in %s/\n%s", dir, hf_cli_caution);
     rc = worst == 3 ? HF_EXIT_USAGE : worst == 2 ? HF_EXIT_NUMERIC : crit ? HF_EXIT_CRITERION : 0;
+    goto done;
+fail:
+    rc = hf_cli_fail(&err);
 done:
     hf_free(oc);
     hf_model_free(&m);

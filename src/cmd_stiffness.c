@@ -3,8 +3,8 @@
 #include <stdio.h>
 #include <string.h>
 #include "holdfast/cli.h"
-#include "holdfast/csv.h"
 #include "holdfast/outfile.h"
+#include "holdfast/results.h"
 #include "holdfast/spread.h"
 
 static const char usage_text[] =
@@ -25,52 +25,8 @@ static const char usage_text[] =
     "\n"
     "exit status: 0 ok, 2 bad input or usage, 3 numerical failure\n";
 
-static const char *const dof[6] = {"surge", "sway", "heave", "roll", "pitch", "yaw"};
-
-/* Matches "--name VALUE" or "--name=VALUE"; advances *i past what it used. */
-static int option(int argc, char **argv, int *i, const char *name, const char **value, int *missing)
-{
-    size_t n = strlen(name);
-    if (strncmp(argv[*i], name, n) != 0)
-        return 0;
-    if (argv[*i][n] == '=') {
-        *value = argv[*i] + n + 1;
-        return 1;
-    }
-    if (argv[*i][n] != '\0')
-        return 0;
-    if (*i + 1 >= argc) {
-        *missing = 1;
-        return 1;
-    }
-    *value = argv[++*i];
-    return 1;
-}
-
-/* For tables: a value that rounds to zero at the printed precision (half a
- * unit of the last digit) is printed as 0, not -0. */
-static double nz(double v, double half)
-{
-    return fabs(v) < half ? 0.0 : v;
-}
-
-static void write_csv(FILE *out, double K[6][6], const double F[6])
-{
-    hf_csv c;
-    hf_csv_init(&c, out, 0);
-    hf_csv_header(&c, "row", "surge", "sway", "heave", "roll", "pitch", "yaw", NULL);
-    for (int i = 0; i < 6; i++) {
-        hf_csv_field_str(&c, dof[i]);
-        for (int j = 0; j < 6; j++)
-            hf_csv_field_double(&c, K[i][j] / 1e3);
-        hf_csv_end_row(&c);
-    }
-    hf_csv_field_str(&c, "static_load");
-    for (int j = 0; j < 6; j++)
-        hf_csv_field_double(&c, F[j] / 1e3);
-    hf_csv_end_row(&c);
-    hf_csv_flush(&c);
-}
+/* Row and column names of the matrix: the degrees of freedom. */
+static const char *const *const dof = hf_results_stiffness_columns + 1;
 
 static void write_table(FILE *out, const hf_model *m, const hf_pose *p, double K[6][6],
                         const hf_spread_result *r)
@@ -97,10 +53,13 @@ static void write_table(FILE *out, const hf_model *m, const hf_pose *p, double K
         fprintf(out, "\n");
     }
     fprintf(out, "\nstatic mooring load on the hull (global axes, about the reference point):\n");
-    fprintf(out, "  Fx %12.2f kN   Fy %12.2f kN   Fz %12.2f kN\n", nz(r->force[0] / 1e3, 0.005),
-            nz(r->force[1] / 1e3, 0.005), nz(r->force[2] / 1e3, 0.005));
-    fprintf(out, "  Mx %12.1f kN m My %12.1f kN m Mz %12.1f kN m\n", nz(r->force[3] / 1e3, 0.05),
-            nz(r->force[4] / 1e3, 0.05), nz(r->force[5] / 1e3, 0.05));
+    fprintf(out, "  Fx %12.2f kN   Fy %12.2f kN   Fz %12.2f kN\n",
+            hf_cli_zero_small(r->force[0] / 1e3, 0.005),
+            hf_cli_zero_small(r->force[1] / 1e3, 0.005),
+            hf_cli_zero_small(r->force[2] / 1e3, 0.005));
+    fprintf(out, "  Mx %12.1f kN m My %12.1f kN m Mz %12.1f kN m\n",
+            hf_cli_zero_small(r->force[3] / 1e3, 0.05), hf_cli_zero_small(r->force[4] / 1e3, 0.05),
+            hf_cli_zero_small(r->force[5] / 1e3, 0.05));
     if (r->max_tension_line != (size_t)-1)
         fprintf(out, "largest line tension %.1f kN (%s), utilisation %.3f\n", r->max_tension / 1e3,
                 m->lines[r->max_tension_line].name, r->max_utilisation);
@@ -109,75 +68,30 @@ static void write_table(FILE *out, const hf_model *m, const hf_pose *p, double K
 
 int hf_cmd_stiffness(int argc, char **argv)
 {
-    const char *cmd = "stiffness", *path = NULL, *csv = NULL, *offset_text = NULL;
-    for (int i = 1; i < argc; i++) {
-        const char *v = NULL;
-        int missing = 0;
-        if (!strcmp(argv[i], "--help") || !strcmp(argv[i], "-h")) {
-            fputs(usage_text, stdout);
-            return HF_EXIT_OK;
-        } else if (option(argc, argv, &i, "--csv", &v, &missing)) {
-            if (missing)
-                return hf_cli_usage_error(cmd, "--csv needs a FILE (or - for standard output)");
-            csv = v;
-        } else if (option(argc, argv, &i, "--offset", &v, &missing)) {
-            if (missing)
-                return hf_cli_usage_error(cmd, "--offset needs X,Y,HEADING_DEG");
-            offset_text = v;
-        } else if (argv[i][0] == '-' && argv[i][1] != '\0') {
-            return hf_cli_usage_error(cmd, "unknown option '%s'", argv[i]);
-        } else if (!path) {
-            path = argv[i];
-        } else {
-            return hf_cli_usage_error(cmd, "unexpected argument '%s' (one CASE file only)",
-                                      argv[i]);
-        }
-    }
-    if (!path)
-        return hf_cli_usage_error(cmd, "missing the CASE file");
-    hf_error err;
-    hf_error_clear(&err);
-    double offset[3] = {0.0, 0.0, 0.0};
-    if (offset_text && hf_cli_parse_offset(offset_text, offset, &err) != HF_OK)
-        return hf_cli_usage_error(cmd, "%s", err.text);
-
-    hf_model m;
-    hf_model_init(&m);
-    if (hf_cli_load(path, &m, &err) != HF_OK)
-        return hf_cli_fail(&err);
-    int rc = HF_EXIT_OK;
-    hf_spread *ws = hf_spread_alloc(&m, &err);
-    if (!ws) {
-        rc = hf_cli_fail(&err);
-        goto done;
-    }
-    hf_pose pose;
-    hf_spread_pose_rest(&m, &pose);
-    hf_spread_pose_offset(&pose, offset);
+    const char *cmd = "stiffness";
+    hf_cli_pose_cmd pc;
+    int rc = hf_cli_pose_cmd_begin(&pc, argc, argv, cmd, usage_text, NULL, 0);
+    if (rc != HF_CLI_CONTINUE)
+        return rc;
+    rc = HF_EXIT_OK;
     double K[6][6];
     hf_spread_result res;
-    if (hf_spread_stiffness(ws, &pose, K, &res, &err) != HF_OK) {
-        rc = hf_cli_fail(&err);
+    if (hf_spread_stiffness(pc.ws, &pc.pose, K, &res, &pc.err) != HF_OK) {
+        rc = hf_cli_fail(&pc.err);
         goto done;
     }
-    if (csv) {
-        hf_outfile *f = hf_outfile_open(csv, &err);
-        if (!f) {
-            rc = hf_cli_fail(&err);
+    if (pc.csv) {
+        hf_outfile *f = hf_cli_csv_begin(pc.csv, NULL, &pc.m, &pc.err);
+        if (!f ||
+            hf_cli_csv_end(cmd, &f, hf_results_stiffness_write(hf_outfile_stream(f), K, res.force),
+                           &pc.err) != HF_OK) {
+            rc = hf_cli_fail(&pc.err);
             goto done;
         }
-        write_csv(hf_outfile_stream(f), K, res.force);
-        if (hf_outfile_commit(f, &err) != HF_OK) {
-            rc = hf_cli_fail(&err);
-            goto done;
-        }
-        if (strcmp(csv, "-") != 0)
-            write_table(stdout, &m, &pose, K, &res);
-    } else {
-        write_table(stdout, &m, &pose, K, &res);
     }
+    if (!pc.csv || strcmp(pc.csv, "-") != 0)
+        write_table(stdout, &pc.m, &pc.pose, K, &res);
 done:
-    hf_spread_free(ws);
-    hf_model_free(&m);
+    hf_cli_pose_cmd_end(&pc);
     return rc;
 }

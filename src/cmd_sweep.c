@@ -95,28 +95,21 @@ int hf_cmd_sweep(int argc, char **argv)
         goto done;
     }
     for (int i = 1; i < argc; i++) {
-        const char *a = argv[i];
-        int more = i + 1 < argc;
-        if (!strcmp(a, "--help") || !strcmp(a, "-h")) {
-            fputs(usage_text, stdout);
+        const char *a = argv[i], *v = NULL;
+        if (hf_cli_help(a, usage_text)) {
             goto done;
-        } else if (!strcmp(a, "--vary") && more) {
-            vary_text[nvary++] = argv[++i];
-        } else if (!strcmp(a, "--output") && more) {
-            outputs[noutputs++] = argv[++i];
-        } else if (!strcmp(a, "--csv") && more) {
-            csv = argv[++i];
-        } else if (!strcmp(a, "--shard") && more) {
-            shard = argv[++i];
-        } else if (!strcmp(a, "--jobs") && more) {
-            char *end;
-            long j = strtol(argv[++i], &end, 10);
-            if (*end || end == argv[i] || j < 1 || j > 1024) {
-                rc = hf_cli_usage_error("sweep", "--jobs: expected a whole number 1..1024, got "
-                                                 "\"%s\"", argv[i]);
+        } else if (hf_cli_value(argc, argv, &i, "--vary", &vary_text[nvary])) {
+            nvary++;
+        } else if (hf_cli_value(argc, argv, &i, "--output", &outputs[noutputs])) {
+            noutputs++;
+        } else if (hf_cli_value(argc, argv, &i, "--csv", &csv) ||
+                   hf_cli_value(argc, argv, &i, "--shard", &shard)) {
+            continue;
+        } else if (hf_cli_value(argc, argv, &i, "--jobs", &v)) {
+            if (hf_cli_parse_jobs(v, &jobs, &err) != HF_OK) {
+                rc = hf_cli_usage_error("sweep", "%s", err.text);
                 goto done;
             }
-            jobs = (int)j;
         } else if (!strcmp(a, "--zip")) {
             zip = 1;
         } else if (!strcmp(a, "--quiet") || !strcmp(a, "-q")) {

@@ -1,0 +1,148 @@
+/* results.h - solved results as CSV: the column layouts of lines, stiffness, curve, balance.
+ *
+ * Flow: case -> model -> line solve -> spread -> balance / studies -> **writers**.
+ * One place for the CSV layouts that both the commands (holdfast lines,
+ * stiffness, curve, balance --csv) and the studies of holdfast run write, so
+ * a study file is byte-identical to the matching command's CSV.  The column
+ * names are fixed (docs/studies.md and the commands' --help); numbers go
+ * through the csv module (include/holdfast/csv.h: 10 significant digits,
+ * RFC 4180 quoting).  Values are converted from SI to the units the column
+ * names declare (kN, kN m, deg).
+ *
+ * Matrices are passed as double K[6][6] and only read (a const 2-D array
+ * parameter would need casts at every call in C11).
+ *
+ * Every writer takes a FILE * (not owned, never closed or flushed), writes
+ * whole rows (each row reaches the FILE in one fwrite), allocates nothing and
+ * never prints elsewhere.  A value that is not finite is never written as a
+ * number: its field is left empty and counted in the returned number, so the
+ * caller can warn (hf_cli_warn_nonfinite); the library never produces NaN on
+ * purpose.  Write errors show in ferror(out); the output file layer
+ * (include/holdfast/outfile.h) reports them at commit. */
+#ifndef HOLDFAST_RESULTS_H
+#define HOLDFAST_RESULTS_H
+
+#include <stddef.h>
+#include <stdio.h>
+#include "holdfast/balance.h"
+#include "holdfast/model.h"
+#include "holdfast/spread.h"
+#include "holdfast/status.h"
+
+/* Columns of the lines CSV (16) and of the stiffness CSV (7). */
+#define HF_RESULTS_LINES_COLUMNS 16
+#define HF_RESULTS_STIFFNESS_COLUMNS 7
+/* Fixed columns of the curve CSV before T_<line>_kN, and of the balance CSV
+ * before and after T_<line>_kN. */
+#define HF_RESULTS_CURVE_FIXED 9
+#define HF_RESULTS_BALANCE_HEAD 11
+#define HF_RESULTS_BALANCE_TAIL 5
+
+/* Column names, in order (static strings). */
+extern const char *const hf_results_lines_columns[HF_RESULTS_LINES_COLUMNS];
+extern const char *const hf_results_stiffness_columns[HF_RESULTS_STIFFNESS_COLUMNS];
+extern const char *const hf_results_curve_columns[HF_RESULTS_CURVE_FIXED];
+extern const char *const hf_results_balance_head[HF_RESULTS_BALANCE_HEAD];
+extern const char *const hf_results_balance_tail[HF_RESULTS_BALANCE_TAIL];
+
+/* ---- lines: one row per line at one pose ---- */
+
+/* Name of line i of m for messages and cells, "-" when i is out of range or
+ * the line has no name.  Never NULL; borrowed from the model. */
+const char *hf_results_line_name(const hf_model *m, size_t i);
+
+/* 1 when line i of r was solved (not broken, status HF_OK), else 0. */
+int hf_results_line_solved(const hf_spread_result *r, size_t i);
+
+/* Status text of line i of r: its regime name ("suspended", ...), "broken",
+ * or "failed: <why>" formatted into buf (cap bytes, cut to fit).  Returns a
+ * static string or buf. */
+const char *hf_results_line_status(const hf_spread_result *r, size_t i, char *buf, size_t cap);
+
+/* Angle of the line above horizontal at the fairlead, degrees: atan2(V, H). */
+double hf_results_line_top_angle_deg(const hf_line_state *s);
+
+/* Writes the lines CSV: the header (hf_results_lines_columns) and one row
+ * per line of m from r (a spread solve of m; r->nlines == m->nlines): line,
+ * status, then fairlead tension, horizontal, vertical (kN), top angle (deg),
+ * anchor tension, anchor vertical (kN), anchor uplift (deg), grounded length,
+ * span (m), max utilisation, fairlead height (m), anchor horizontal (kN),
+ * touchdown (m), largest tension along the line (kN).  A broken or failed
+ * line keeps its name and status, its 14 values are left empty.  Returns the
+ * number of non-finite values left empty (0 normally). */
+size_t hf_results_lines_write(FILE *out, const hf_model *m, const hf_spread_result *r);
+
+/* ---- stiffness: the 6x6 matrix and the static load ---- */
+
+/* Writes the stiffness CSV: header row,surge,...,yaw; rows surge..yaw of K
+ * (K[i][j] = -dF_i/dq_j in N/m, N/rad, N m/m, N m/rad, written /1e3: kN/m,
+ * kN/rad, kN m/m, kN m/rad); a last row static_load with force (N, N m on
+ * the hull, written in kN, kN m).  Returns the number of non-finite values
+ * left empty. */
+size_t hf_results_stiffness_write(FILE *out, double K[6][6], const double force[6]);
+
+/* ---- curve: restoring force and stiffness against offset ---- */
+
+/* One point of a restoring curve, SI. */
+typedef struct {
+    double offset;                /* m along the direction */
+    double restoring;             /* N: minus the mooring force along the direction */
+    double force_x, force_y;      /* N: mooring force on the hull, global axes */
+    double moment_z;              /* N m: mooring yaw moment on the hull */
+    double stiffness;             /* N/m: d(restoring)/d(offset) */
+    double max_tension;           /* N: largest tension along any intact line */
+    const char *max_tension_line; /* its name (borrowed from the model), "" when none */
+    double max_utilisation;       /* - */
+} hf_results_curve_point;
+
+/* Fills *p from a spread stiffness solve (K, r) of m with the hull moved
+ * `offset` m along `direction` (rad counterclockwise from global x):
+ * restoring = -(Fx cos + Fy sin), stiffness = d^T K_h d with K_h the
+ * horizontal translation block of K and d = (cos, sin). */
+void hf_results_curve_point_set(hf_results_curve_point *p, const hf_model *m, double offset,
+                                double direction, double K[6][6], const hf_spread_result *r);
+
+/* Writes the curve CSV header: hf_results_curve_columns then T_<line>_kN per
+ * line of m.  Returns HF_OK, or HF_ELIMIT (err set, nothing written) when a
+ * line name is longer than HF_MODEL_MAX_NAME bytes (the case file limit). */
+hf_status hf_results_curve_header_write(FILE *out, const hf_model *m, hf_error *err);
+
+/* Writes one curve row: the point (forces in kN, moment in kN m, stiffness
+ * in kN/m) and each line's fairlead tension r->states[i].tension in kN.
+ * Returns the number of non-finite values left empty. */
+size_t hf_results_curve_row_write(FILE *out, const hf_model *m, const hf_results_curve_point *p,
+                                  const hf_spread_result *r);
+
+/* Writes the row of an offset that did not solve: the offset, every other
+ * field empty (not counted as non-finite: the gap is intended). */
+void hf_results_curve_row_failed_write(FILE *out, const hf_model *m, double offset);
+
+/* ---- balance: one row per load case and condition ---- */
+
+/* "intact" or "broken:<line>" for r, into buf (cap bytes). */
+void hf_results_balance_condition(const hf_model *m, const hf_balance_result *r, char *buf,
+                                  size_t cap);
+
+/* The governing criterion of r: "<name>" or "<name>:<line>", into buf. */
+void hf_results_balance_criterion(const hf_model *m, const hf_balance_result *r, char *buf,
+                                  size_t cap);
+
+/* Smallest MBL/T over the lines of r that carry load, or 0 when none does. */
+double hf_results_balance_min_factor(const hf_balance_result *r);
+
+/* Writes the balance CSV header: hf_results_balance_head, T_<line>_kN per
+ * line of m, hf_results_balance_tail.  HF_OK, or HF_ELIMIT as
+ * hf_results_curve_header_write. */
+hf_status hf_results_balance_header_write(FILE *out, const hf_model *m, hf_error *err);
+
+/* Writes one balance row for condition r of load case `load`: load,
+ * condition, status, surge, sway (m), yaw (deg), max tension (kN), its line,
+ * max utilisation, criterion, passed (1/0), each line's largest tension
+ * (kN), horizontal offset (m), most utilised line, smallest MBL/T,
+ * required MBL/T (empty when not checked), message.  When r->status is not
+ * HF_OK the result values are left empty.  Returns the number of non-finite
+ * values left empty. */
+size_t hf_results_balance_row_write(FILE *out, const hf_model *m, const hf_load *load,
+                                    const hf_balance_result *r);
+
+#endif
