@@ -51,25 +51,6 @@ static const char usage_text[] =
     "\n"
     "exit status: 0 ok, 2 bad input or usage, 3 numerical failure\n";
 
-static int option(int argc, char **argv, int *i, const char *name, const char **value, int *missing)
-{
-    size_t n = strlen(name);
-    if (strncmp(argv[*i], name, n) != 0)
-        return 0;
-    if (argv[*i][n] == '=') {
-        *value = argv[*i] + n + 1;
-        return 1;
-    }
-    if (argv[*i][n] != '\0')
-        return 0;
-    if (*i + 1 >= argc) {
-        *missing = 1;
-        return 1;
-    }
-    *value = argv[++*i];
-    return 1;
-}
-
 /* Parses a finite number of degrees into radians. */
 static int degrees(const char *text, double *rad)
 {
@@ -227,13 +208,13 @@ int hf_cmd_plot(int argc, char **argv)
             fputs(usage_text, stdout);
             return HF_EXIT_OK;
         }
-        if (option(argc, argv, &i, "--figure", &figure, &missing) ||
-            option(argc, argv, &i, "--out", &outpath, &missing) ||
-            option(argc, argv, &i, "--offset", &offset, &missing) ||
-            option(argc, argv, &i, "--line", &line, &missing) ||
-            option(argc, argv, &i, "--load", &load, &missing) ||
-            option(argc, argv, &i, "--direction", &direction, &missing) ||
-            option(argc, argv, &i, "--range", &range, &missing)) {
+        if (hf_cli_option(argc, argv, &i, "--figure", &figure, &missing) ||
+            hf_cli_option(argc, argv, &i, "--out", &outpath, &missing) ||
+            hf_cli_option(argc, argv, &i, "--offset", &offset, &missing) ||
+            hf_cli_option(argc, argv, &i, "--line", &line, &missing) ||
+            hf_cli_option(argc, argv, &i, "--load", &load, &missing) ||
+            hf_cli_option(argc, argv, &i, "--direction", &direction, &missing) ||
+            hf_cli_option(argc, argv, &i, "--range", &range, &missing)) {
             if (missing)
                 return hf_cli_usage_error(cmd, "option '%s' needs a value", argv[i]);
         } else if (argv[i][0] == '-' && argv[i][1] != '\0') {
