@@ -381,15 +381,10 @@ static hf_status run_stiffness(const hf_model *m, const hf_study *s, int jobs, F
                               "Stiffness (kN/m, kN/rad, kN m/m, kN m/rad) and static load "
                               "(kN, kN m)",
                               hf_results_stiffness_columns, HF_RESULTS_STIFFNESS_COLUMNS);
-        for (int i = 0; i < 6; i++) {
-            double row[6];
-            for (int j = 0; j < 6; j++)
-                row[j] = K[i][j] / 1e3;
-            hf_report_table_row_numbers(rep, dof[i], row, 5);
-        }
-        double load[6];
-        for (int j = 0; j < 6; j++)
-            load[j] = r.force[j] / 1e3;
+        double Kp[6][6], load[6];
+        hf_results_stiffness_for_people(K, r.force, Kp, load);
+        for (int i = 0; i < 6; i++)
+            hf_report_table_row_numbers(rep, dof[i], Kp[i], 5);
         hf_report_table_row_numbers(rep, "static load", load, 5);
         hf_report_table_end(rep);
     }

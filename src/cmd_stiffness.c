@@ -39,17 +39,12 @@ static void write_table(FILE *out, const hf_model *m, const hf_pose *p, double K
     for (int j = 0; j < 6; j++)
         fprintf(out, " %13s", dof[j]);
     fprintf(out, "\n");
-    /* For people: entries below 1e-9 of the largest are solver round-off, shown as 0. */
-    double kmax = 0.0;
-    for (int i = 0; i < 6; i++)
-        for (int j = 0; j < 6; j++)
-            kmax = fmax(kmax, fabs(K[i][j]));
+    double Kp[6][6], Fp[6];
+    hf_results_stiffness_for_people(K, r->force, Kp, Fp);
     for (int i = 0; i < 6; i++) {
         fprintf(out, "%-7s", dof[i]);
-        for (int j = 0; j < 6; j++) {
-            double v = fabs(K[i][j]) < 1e-9 * kmax ? 0.0 : K[i][j] / 1e3;
-            fprintf(out, " %13.6g", v);
-        }
+        for (int j = 0; j < 6; j++)
+            fprintf(out, " %13.6g", Kp[i][j]);
         fprintf(out, "\n");
     }
     fprintf(out, "\nstatic mooring load on the hull (global axes, about the reference point):\n");

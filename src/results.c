@@ -292,3 +292,19 @@ size_t hf_results_balance_row_write(FILE *out, const hf_model *m, const hf_load 
     hf_csv_end_row(&c);
     return c.nonfinite;
 }
+
+void hf_results_stiffness_for_people(double K[6][6], const double force[6], double Kp[6][6],
+                                     double Fp[6])
+{
+    double kmax = 0.0, fmax_ = 0.0;
+    for (int i = 0; i < 6; i++) {
+        fmax_ = fmax(fmax_, fabs(force[i]));
+        for (int j = 0; j < 6; j++)
+            kmax = fmax(kmax, fabs(K[i][j]));
+    }
+    for (int i = 0; i < 6; i++) {
+        Fp[i] = fabs(force[i]) < 1e-9 * fmax_ ? 0.0 : force[i] / 1e3;
+        for (int j = 0; j < 6; j++)
+            Kp[i][j] = fabs(K[i][j]) < 1e-9 * kmax ? 0.0 : K[i][j] / 1e3;
+    }
+}

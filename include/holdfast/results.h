@@ -81,6 +81,13 @@ size_t hf_results_lines_write(FILE *out, const hf_model *m, const hf_spread_resu
  * left empty. */
 size_t hf_results_stiffness_write(FILE *out, double K[6][6], const double force[6]);
 
+/* The matrix and static load for tables people read: K in kN/m, kN/rad,
+ * kN m/m, kN m/rad and the load in kN, kN m, with entries below 1e-9 of the
+ * largest entry of K (or of the load) set to 0 - they are solver round-off,
+ * not coupling.  CSV files keep the exact values. */
+void hf_results_stiffness_for_people(double K[6][6], const double force[6], double Kp[6][6],
+                                     double Fp[6]);
+
 /* ---- curve: restoring force and stiffness against offset ---- */
 
 /* One point of a restoring curve, SI. */
