@@ -34,6 +34,15 @@ void hf_line_options_default(hf_line_options *o)
     o->max_iter = 40;
 }
 
+/* sqrt(a^2 + b^2) without glibc hypot's cost; hypot only where squaring
+ * could overflow (|a| or |b| above 1e150, far beyond any mooring force). */
+static double mag(double a, double b)
+{
+    if (fabs(a) > 1e150 || fabs(b) > 1e150)
+        return hypot(a, b);
+    return sqrt(a * a + b * b);
+}
+
 static int finite_pos(double v)
 {
     return isfinite(v) && v > 0.0;
@@ -86,6 +95,12 @@ static double pload(const hf_line *line, size_t i)
     return i + 1 < line->n ? line->joint[i].load : 0.0;
 }
 
+/* max(v, 0) as a comparison (fmax is a library call without -ffinite-math-only). */
+static double pos(double v)
+{
+    return v > 0.0 ? v : 0.0;
+}
+
 double hf_line_weight(const hf_line *line)
 {
     double w = 0.0;
@@ -107,14 +122,16 @@ double hf_line_weight(const hf_line *line)
 static void suspended(double H, double w, double L, double EA, double Vt, double Vb, double *x,
                       double *z, double J[2][2])
 {
-    double Tt = hypot(H, Vt), Tb = hypot(H, Vb);
+    double Tt = mag(H, Vt), Tb = mag(H, Vb);
     double A, Q; /* A = (asinh(Vt/H) - asinh(Vb/H)) / w ;  Q = (Vt/Tt - Vb/Tb) / w */
     if ((Vt > 0.0 && Vb > 0.0) || (Vt < 0.0 && Vb < 0.0)) {
         double d = Vt * Tb + Vb * Tt;
         A = asinh(w * L * (Vt + Vb) / d) / w;
         Q = H * H * L * (Vt + Vb) / (d * Tt * Tb);
     } else {
-        A = (asinh(Vt / H) - asinh(Vb / H)) / w;
+        /* Vt >= 0 >= Vb here: asinh(Vt/H) = log((Vt + Tt)/H) and
+         * -asinh(Vb/H) = log((Tb - Vb)/H), both free of cancellation. */
+        A = (log((Vt + Tt) / H) + log((Tb - Vb) / H)) / w;
         Q = (Vt / Tt - Vb / Tb) / w;
     }
     double S = L * (Vt + Vb) / (Tt + Tb); /* = (Tt - Tb) / w */
@@ -133,10 +150,11 @@ static void suspended(double H, double w, double L, double EA, double Vt, double
 static void touchdown_piece(double H, double w, double EA, double Vt, double *x, double *z,
                             double J[2][2])
 {
-    double Tt = hypot(H, Vt);
-    *x += (H / w) * asinh(Vt / H) + H * Vt / (w * EA);
+    double Tt = mag(H, Vt);
+    double as = log((Vt + Tt) / H); /* asinh(Vt/H) for Vt > 0 */
+    *x += (H / w) * as + H * Vt / (w * EA);
     *z += Vt * Vt / (w * (Tt + H)) + Vt * Vt / (2.0 * w * EA);
-    J[0][0] += asinh(Vt / H) / w - Vt / (w * Tt) + Vt / (w * EA);
+    J[0][0] += as / w - Vt / (w * Tt) + Vt / (w * EA);
     J[0][1] += H / (w * Tt) + H / (w * EA);
     J[1][0] += -Vt * Vt / (w * Tt * (Tt + H));
     J[1][1] += Vt / (w * Tt) + Vt / (w * EA);
@@ -293,7 +311,7 @@ static hf_status walk(const hf_line *line, double H, double VF, walk_t *w)
             xg_v += -1.0 / s->weight;
             if (k == 0)
                 goto anchor;
-            ground_point(&g, line->joint[k - 1].friction, fmax(pload(line, k - 1), 0.0), 0.0);
+            ground_point(&g, line->joint[k - 1].friction, pos(pload(line, k - 1)), 0.0);
             k--;
         }
         for (;; k--) {
@@ -305,7 +323,7 @@ static hf_status walk(const hf_line *line, double H, double VF, walk_t *w)
             xg += s->length;
             if (k == 0)
                 break;
-            ground_point(&g, line->joint[k - 1].friction, fmax(pload(line, k - 1), 0.0), 0.0);
+            ground_point(&g, line->joint[k - 1].friction, pos(pload(line, k - 1)), 0.0);
         }
     anchor:
         w->anchor_t = g.t;
@@ -439,8 +457,8 @@ static void sections_from_walk(const hf_line *line, const walk_t *w, double H, h
         double susp = line->sec[k].length - w->gl[k];
         double tlo, thi;
         if (susp > 0.0) {
-            thi = hypot(H, w->vt[k]);
-            tlo = w->gl[k] > 0.0 ? w->tg_hi[k] : hypot(H, w->vb[k]);
+            thi = mag(H, w->vt[k]);
+            tlo = w->gl[k] > 0.0 ? w->tg_hi[k] : mag(H, w->vb[k]);
         } else {
             thi = w->tg_hi[k];
             tlo = w->tg_lo[k];
@@ -451,7 +469,7 @@ static void sections_from_walk(const hf_line *line, const walk_t *w, double H, h
         r->t_upper = thi;
         /* T = sqrt(H^2 + V^2) with V linear along a suspended piece: the
          * largest |V| sits at an end, so the maximum is at an end. */
-        r->t_max = fmax(tlo, thi);
+        r->t_max = tlo > thi ? tlo : thi;
         r->grounded = w->gl[k];
     }
 }
@@ -529,8 +547,9 @@ typedef struct {
     const hf_line *line;
     double X, Z, tol, scale;
     double H, V;
-    walk_t w;            /* the walk at (H, V) */
-    walk_t trial;        /* scratch for the line search */
+    walk_t buf[2];       /* storage of the two walks below */
+    walk_t *w;           /* the walk at (H, V) */
+    walk_t *trial;       /* scratch for the line search; swapped with w on acceptance */
     double f;            /* merit: (rx^2 + rz^2) / scale^2 */
     int evals;
 } newton_t;
@@ -546,16 +565,16 @@ static hf_status newton_set(newton_t *s, double H, double V)
     s->H = H;
     s->V = V;
     s->evals++;
-    if (walk(s->line, H, V, &s->w) != HF_OK)
+    if (walk(s->line, H, V, s->w) != HF_OK)
         return HF_EINVAL;
-    s->f = merit(s, &s->w);
+    s->f = merit(s, s->w);
     return isfinite(s->f) ? HF_OK : HF_EINVAL;
 }
 
 /* Convergence test: both residuals within tol (absolute, metres). */
 static hf_status newton_test(const newton_t *s)
 {
-    return (fabs(s->w.x - s->X) <= s->tol && fabs(s->w.z - s->Z) <= s->tol) ? HF_OK
+    return (fabs(s->w->x - s->X) <= s->tol && fabs(s->w->z - s->Z) <= s->tol) ? HF_OK
                                                                               : HF_CONTINUE;
 }
 
@@ -563,8 +582,8 @@ static hf_status newton_test(const newton_t *s)
  * the step direction failed (singular Jacobian, no descent). */
 static hf_status newton_iterate(newton_t *s)
 {
-    const double(*J)[2] = (const double(*)[2])s->w.J;
-    double rx = s->w.x - s->X, rz = s->w.z - s->Z;
+    const double(*J)[2] = (const double(*)[2])s->w->J;
+    double rx = s->w->x - s->X, rz = s->w->z - s->Z;
     double det = J[0][0] * J[1][1] - J[0][1] * J[1][0];
     if (!(fabs(det) > 0.0) || !isfinite(det))
         return HF_ENOCONV;
@@ -580,21 +599,16 @@ static hf_status newton_iterate(newton_t *s)
     for (int i = 0; i < 40; i++, a *= 0.5) {
         double H = s->H + a * dH, V = s->V + a * dV;
         s->evals++;
-        if (walk(s->line, H, V, &s->trial) != HF_OK)
+        if (walk(s->line, H, V, s->trial) != HF_OK)
             continue;
-        double f = merit(s, &s->trial);
+        double f = merit(s, s->trial);
         if (isfinite(f) && f <= (1.0 - 1e-4 * a) * s->f) {
             s->H = H;
             s->V = V;
-            /* accept: swap in the trial walk (copy only what was filled) */
-            walk_t *d = &s->w, *t = &s->trial;
-            size_t n = s->line->n;
-            memcpy(d, t, offsetof(walk_t, vb));
-            memcpy(d->vb, t->vb, n * sizeof d->vb[0]);
-            memcpy(d->vt, t->vt, n * sizeof d->vt[0]);
-            memcpy(d->gl, t->gl, n * sizeof d->gl[0]);
-            memcpy(d->tg_lo, t->tg_lo, n * sizeof d->tg_lo[0]);
-            memcpy(d->tg_hi, t->tg_hi, n * sizeof d->tg_hi[0]);
+            /* accept: swap in the trial walk */
+            walk_t *t = s->w;
+            s->w = s->trial;
+            s->trial = t;
             s->f = f;
             return HF_OK;
         }
@@ -716,6 +730,71 @@ static hf_status fallback(newton_t *s)
     if (outer)
         gsl_root_fsolver_free(outer);
     return st;
+}
+
+/* Weight hanging below the fairlead over the top `ls` metres of line, N
+ * (clumps and buoys included), for the touchdown start. */
+static double hanging_weight(const hf_line *line, double ls)
+{
+    double left = ls, W = 0.0;
+    for (size_t k = line->n; k-- > 0 && left > 0.0;) {
+        double take = left < line->sec[k].length ? left : line->sec[k].length;
+        W += take * line->sec[k].weight;
+        left -= take;
+        if (left > 0.0 && k > 0)
+            W += line->joint[k - 1].load;
+    }
+    return W;
+}
+
+/* Start for a line partly on the seabed: the inextensible uniform catenary
+ * with touchdown, X = L - Ls + a asinh(Ls/a), Ls = sqrt(Z^2 + 2 a Z), a = H/w
+ * (Faltinsen 1990, Sea Loads on Ships and Offshore Structures, ch. 8 - from
+ * memory), solved for a by safeguarded Newton, with w
+ * the mean weight of the hanging length (a few fixed-point passes).  With
+ * sqrt(a^2 + Ls^2) = a + Z: asinh(Ls/a) = log((Ls + a + Z)/a) and
+ * f'(a) = log((Ls + a + Z)/a) - 2 Z / Ls.  Returns 0 when the line would not
+ * touch down (then the caller uses the suspended-line start). */
+static int touchdown_start(const hf_line *line, double X, double Z, double *H, double *V)
+{
+    double L = hf_line_length(line);
+    if (!(Z > 0.0) || !(X > 0.0) || !(L > mag(X, Z)))
+        return 0;
+    double amax = (L * L - Z * Z) / (2.0 * Z); /* Ls = L: touchdown at the anchor */
+    double fmax_ = amax * log((L + amax + Z) / amax) - X;
+    if (!(fmax_ > 0.0))
+        return 0; /* even touching down at the anchor is too short: suspended */
+    double w = line->sec[line->n - 1].weight, a = 0.5 * amax, ls = 0.0;
+    for (int pass = 0; pass < 3; pass++) {
+        double lo = 0.0, hi = amax;
+        for (int i = 0; i < 50; i++) {
+            ls = sqrt(Z * Z + 2.0 * a * Z);
+            double g = log((ls + a + Z) / a);
+            double f = L - ls + a * g - X;
+            if (f > 0.0)
+                hi = a;
+            else
+                lo = a;
+            double an = a - f / (g - 2.0 * Z / ls);
+            if (!(an > lo && an < hi))
+                an = 0.5 * (lo + hi);
+            double da = fabs(an - a);
+            a = an;
+            if (da <= 1e-6 * a)
+                break;
+        }
+        ls = sqrt(Z * Z + 2.0 * a * Z);
+        double wn = hanging_weight(line, ls) / ls;
+        if (!(wn > 0.0))
+            return 0; /* buoyant top: no simple start */
+        double dw = fabs(wn - w);
+        w = wn;
+        if (dw <= 1e-3 * w)
+            break;
+    }
+    *H = w * a;
+    *V = w * ls;
+    return isfinite(*H) && isfinite(*V) && *H > 0.0;
 }
 
 /* Peyrot and Goulois (1979) starting point, with the mean weight of the line. */
@@ -885,7 +964,8 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
     if (Z < 0.0)
         return fail(st, HF_EINVAL, "the fairlead is below the seabed (Z < 0)");
     double L = hf_line_length(line);
-    double scale = fmax(L, hypot(X, Z));
+    double span = mag(X, Z);
+    double scale = L > span ? L : span;
     double tol = opt->rtol * scale;
     hf_status rc = HF_OK;
     int slack_buoy = 0;
@@ -932,6 +1012,8 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
     s.scale = scale;
     s.evals = 0;
     s.H = s.V = s.f = 0.0;
+    s.w = &s.buf[0];
+    s.trial = &s.buf[1];
     double H0, V0;
     if (guess && guess->status == HF_OK && guess->h > 0.0 && isfinite(guess->h) &&
         isfinite(guess->v) && guess->n == line->n &&
@@ -944,7 +1026,7 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
             H0 = guess->h;
             V0 = guess->v;
         }
-    } else {
+    } else if (!touchdown_start(line, X, Z, &H0, &V0)) {
         peyrot(line, X, Z, &H0, &V0);
     }
     int it = 0;
@@ -976,7 +1058,7 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
     }
     st->iterations = it;
     st->evaluations = s.evals;
-    const walk_t *w = &s.w;
+    const walk_t *w = s.w;
     if (w->buoy_down)
         return fail(st, HF_EUNSUPPORTED, slack_buoy ? msg_slack_buoy : msg_buoy);
     if (w->sag_min < -tol)
@@ -984,7 +1066,7 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
     st->regime = w->grounded ? HF_LINE_TOUCHDOWN : HF_LINE_SUSPENDED;
     st->h = s.H;
     st->v = s.V;
-    st->tension = hypot(s.H, s.V);
+    st->tension = mag(s.H, s.V);
     if (w->grounded) {
         st->anchor_h = w->anchor_t;
         st->anchor_v = 0.0;
@@ -992,8 +1074,13 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
         st->anchor_h = s.H;
         st->anchor_v = w->vb[0];
     }
-    st->anchor_tension = hypot(st->anchor_h, st->anchor_v);
-    st->anchor_angle = atan2(st->anchor_v, st->anchor_h);
+    if (st->anchor_v == 0.0) {
+        st->anchor_tension = st->anchor_h; /* anchor on the seabed: no uplift */
+        st->anchor_angle = 0.0;
+    } else {
+        st->anchor_tension = mag(st->anchor_h, st->anchor_v);
+        st->anchor_angle = atan2(st->anchor_v, st->anchor_h);
+    }
     double gl = 0.0;
     for (size_t k = 0; k < line->n; k++)
         gl += w->gl[k];
