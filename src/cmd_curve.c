@@ -86,7 +86,12 @@ int hf_cmd_curve(int argc, char **argv)
         goto done;
     }
     FILE *out = stdout;
+    /* The table is for a person at a terminal: with --csv FILE a summary
+     * replaces it (a 10,001-row table helps nobody and costs time). */
     int human = !csv || strcmp(csv, "-") != 0;
+    int table = !csv;
+    double worst_u = -1.0, worst_t = 0.0, worst_at = 0.0;
+    const char *worst_line = "";
     size_t nonfinite = 0;
     if (csv && !(f = hf_cli_csv_begin(csv, hf_results_curve_header_write, &m, &err))) {
         rc = hf_cli_fail(&err);
@@ -101,7 +106,8 @@ int hf_cmd_curve(int argc, char **argv)
                 "restoring curve along %.3f deg from global x; hull rest pose x %.3f m, "
                 "y %.3f m, heading %.3f deg\n\n",
                 dir_deg, rest.surge, rest.sway, rest.yaw * 180.0 / M_PI);
-        table_header(out);
+        if (table)
+            table_header(out);
     }
     for (size_t k = 0; k < count; k++) {
         double s = from + (double)k * step;
@@ -120,14 +126,27 @@ int hf_cmd_curve(int argc, char **argv)
         }
         hf_results_curve_point pt;
         hf_results_curve_point_set(&pt, &m, s, d, K, &r);
-        if (human)
+        if (table)
             table_row(out, &pt);
+        if (r.max_utilisation > worst_u && r.max_utilisation_line < m.nlines) {
+            worst_u = r.max_utilisation;
+            worst_t = r.max_tension;
+            worst_at = s;
+            worst_line = m.lines[r.max_utilisation_line].name;
+        }
         if (csv)
             nonfinite += hf_results_curve_row_write(hf_outfile_stream(f), &m, &pt, &r);
     }
     if (csv && hf_cli_csv_end(cmd, &f, nonfinite, &err) != HF_OK) {
         rc = hf_cli_fail(&err);
         goto done;
+    }
+    if (human && !table) {
+        fprintf(out, "%zu offsets from %.6g m to %.6g m written to %s\n", count, from,
+                from + (double)(count - 1) * step, csv);
+        if (worst_u >= 0.0)
+            fprintf(out, "most utilised: %s at offset %.6g m, tension %.1f kN, utilisation %.4f\n",
+                    worst_line, worst_at, worst_t / 1e3, worst_u);
     }
     if (human)
         fprintf(out, "\n%s", hf_cli_caution);
