@@ -511,6 +511,13 @@ static void clear_state(hf_line_state *st, size_t n)
     memset(st->section, 0, (n <= NMAX ? n : NMAX) * sizeof st->section[0]);
 }
 
+void hf_line_state_copy(hf_line_state *dst, const hf_line_state *src)
+{
+    size_t n = src->n <= NMAX ? src->n : NMAX;
+    memcpy(dst, src, offsetof(hf_line_state, section));
+    memcpy(dst->section, src->section, n * sizeof src->section[0]);
+}
+
 static hf_status fail(hf_line_state *st, hf_status s, const char *msg)
 {
     double x = st->x, z = st->z;

@@ -15,6 +15,7 @@ struct hf_spread {
     hf_spread_geom *geom;  /* geometry at the last pose */
     double (*force)[3];    /* force on the hull at each fairlead, N */
     double *tension;       /* largest tension along each line, N */
+    hf_line_state scratch; /* the solve's output before it replaces states[i] */
 };
 
 #define NONE ((size_t)-1)
@@ -214,17 +215,16 @@ static hf_status solve_line(hf_spread *ws, size_t i)
     const hf_line *line = &ws->m->lines[i].line;
     const hf_spread_geom *g = &ws->geom[i];
     hf_line_state *st = &ws->states[i];
-    hf_line_state out;
-    memset(&out, 0, sizeof out);
+    hf_line_state *out = &ws->scratch; /* the solver fills every field it reports */
     hf_status s = HF_EINVAL;
     if (ws->warm[i]) {
-        s = hf_line_solve(line, g->x, g->z, st, &ws->opt, &out);
+        s = hf_line_solve(line, g->x, g->z, st, &ws->opt, out);
         if (s != HF_OK)
-            s = hf_line_solve(line, g->x, g->z, NULL, &ws->opt, &out);
+            s = hf_line_solve(line, g->x, g->z, NULL, &ws->opt, out);
     } else {
-        s = hf_line_solve(line, g->x, g->z, NULL, &ws->opt, &out);
+        s = hf_line_solve(line, g->x, g->z, NULL, &ws->opt, out);
     }
-    *st = out;
+    hf_line_state_copy(st, out);
     st->status = s;
     ws->warm[i] = s == HF_OK;
     return s;

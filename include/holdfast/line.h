@@ -123,6 +123,10 @@ hf_status hf_line_solve(const hf_line *line, double x, double z,
                         const hf_line_state *guess, const hf_line_options *opt,
                         hf_line_state *out);
 
+/* Copies a state: its scalar part and its first src->n section results only
+ * (cheaper than a struct copy; later entries of dst->section are left). */
+void hf_line_state_copy(hf_line_state *dst, const hf_line_state *src);
+
 /* One sample of a solved line's profile, in the line's plane. */
 typedef struct {
     double arc;      /* unstretched arc length from the anchor, m */
