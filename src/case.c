@@ -1537,7 +1537,7 @@ static hf_status load_root(ctx *c, const node *root)
 
 /* Most nodes that aliases may add in one file: a guard against documents
  * that expand exponentially ("billion laughs"). */
-#define MAX_ALIAS_NODES 1000000
+#define MAX_ALIAS_NODES 500000
 
 typedef struct {
     char *name;
@@ -1622,6 +1622,7 @@ static hf_status parse_tree(ctx *c, const char *textbuf, size_t len, node **root
     yaml_event_t ev;
     node *stack[HF_CASE_MAX_DEPTH + 1];
     int depth = 0, docs = 0;
+    size_t nodes = 0; /* every value built so far, alias copies included */
     hf_status st = HF_OK;
     anchors al = {NULL, 0, 0, 0};
     *root = NULL;
@@ -1691,6 +1692,13 @@ static hf_status parse_tree(ctx *c, const char *textbuf, size_t len, node **root
                 break;
             }
             al.copied += count;
+            nodes += count;
+            if (nodes > HF_CASE_MAX_NODES) {
+                st = fail_limit(c, &at, "expected at most %d values in a case file "
+                                        "(HF_CASE_MAX_NODES), got more at *%s",
+                                HF_CASE_MAX_NODES, name);
+                break;
+            }
             if (al.copied > MAX_ALIAS_NODES) {
                 st = fail_limit(c, &at, "expected aliases to expand to at most %d values, got "
                                         "more at *%s",
@@ -1734,6 +1742,13 @@ static hf_status parse_tree(ctx *c, const char *textbuf, size_t len, node **root
                     st = fail(c, &at, "expected text, got a value containing a NUL byte");
                     break;
                 }
+            }
+            if (++nodes > HF_CASE_MAX_NODES) {
+                node at = {.line = line, .col = col};
+                st = fail_limit(c, &at, "expected at most %d values in a case file "
+                                        "(HF_CASE_MAX_NODES), got more",
+                                HF_CASE_MAX_NODES);
+                break;
             }
             nn = hf_calloc(1, sizeof *nn);
             if (!nn) {

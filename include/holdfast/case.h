@@ -15,6 +15,7 @@
 #define HF_CASE_MAX_BYTES (64u << 20)   /* case file size, bytes */
 #define HF_CASE_MAX_DEPTH 32            /* YAML nesting depth */
 #define HF_CASE_MAX_SCALAR 4096         /* length of one scalar, bytes */
+#define HF_CASE_MAX_NODES 1000000       /* YAML values (scalars, lists, maps) in one file */
 
 /* Loads the case file at `path` into m (initialised by the caller with
  * hf_model_init) and resolves it.  On failure m is left empty (freed) and

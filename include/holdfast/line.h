@@ -80,7 +80,7 @@ typedef struct {
     double max_utilisation;/* largest section utilisation, - */
     size_t max_section;    /* index of the section with max_utilisation */
     size_t n;              /* number of sections, copied from the line */
-    hf_section_result section[HF_LINE_MAX_SECTIONS];
+    hf_section_result section[HF_LINE_MAX_SECTIONS]; /* only the first n are written */
 } hf_line_state;
 
 typedef struct {
@@ -114,7 +114,8 @@ hf_status hf_line_span(const hf_line *line, double h, double v,
  * guess: a previous solution of the same line to warm-start from, or NULL.
  * opt: NULL for defaults.  On success fills *out completely and returns
  * HF_OK.  On failure returns the status (also in out->status) and a message
- * in out->message; no field of *out is ever NaN or Inf.
+ * in out->message; no field of *out is ever NaN or Inf (section[k] for k >= n
+ * is not written: read the first out->n entries only).
  *   HF_EINVAL       bad line or span (z < 0, non-finite values)
  *   HF_EUNSUPPORTED a buoy would rest on the seabed below touchdown, or a sag
  *                   of the line would cut into the seabed
