@@ -83,6 +83,7 @@ check: tests
 
 demo: $(BIN)
 	./$(BIN) run cases/barge.yaml --out barge-results
+	@echo "open barge-results/report.html in a browser for the report"
 
 debug:
 	$(MAKE) BUILD=build-debug OPT='-O0 -g3' check
