@@ -8,6 +8,7 @@
 #include <yaml.h>
 #include "holdfast/alloc.h"
 #include "holdfast/case.h"
+#include "holdfast/invert.h"
 #include "holdfast/criteria.h"
 #include "holdfast/sweep.h"
 
@@ -1071,25 +1072,6 @@ static const char *const vary_keys[] = {"path", "range", "values", NULL};
 static const char *const invert_vary_keys[] = {"path", "range", NULL};
 static const char *const target_keys[] = {"output", "line", "value", NULL};
 
-/* The dimension of a scalar sweep output, for an invert target's value. */
-static hf_dim output_dim(hf_output_kind k)
-{
-    switch (k) {
-    case HF_OUT_UTILISATION:
-    case HF_OUT_MAX_UTILISATION:
-        return HF_DIM_NONE;
-    case HF_OUT_STIFFNESS_SURGE:
-    case HF_OUT_STIFFNESS_SWAY:
-    case HF_OUT_STIFFNESS_HEAVE:
-        return HF_DIM_FORCE_PER_LENGTH;
-    case HF_OUT_STIFFNESS_YAW:
-        return HF_DIM_MOMENT; /* N m per rad: a moment unit, read per radian */
-    case HF_OUT_OFFSET:
-        return HF_DIM_LENGTH;
-    default:
-        return HF_DIM_FORCE;
-    }
-}
 
 /* Range [from, to, step] of dimension dim; counts its points into *count. */
 static hf_status range3(ctx *c, const node *n, hf_dim dim, double *from, double *to, double *step,
@@ -1409,7 +1391,7 @@ static hf_status load_study_body(ctx *c, const node *n, hf_study *s)
         if (st == HF_OK && lt && !(s->target_line = hf_strdup(lt)))
             st = nomem(c);
         if (st == HF_OK)
-            st = req_quantity(c, tn, "value", output_dim(o.kind), ANY, &s->target_value);
+            st = req_quantity(c, tn, "value", hf_invert_output_dim(&o), ANY, &s->target_value);
         pop(c, mark);
         return st;
     }
