@@ -162,6 +162,9 @@ typedef struct {
     uint64_t b0, b1;      /* cases of the block (emitted) */
     char *buf;            /* block * row_cap */
     int *len;             /* block row lengths */
+} slab;
+
+typedef struct {
     char *scratch;        /* jobs * row_cap, for cases that rebuild a chain */
     size_t row_cap;
     void **states;
@@ -169,36 +172,72 @@ typedef struct {
     int jobs;
 } block_job;
 
-static int run_block(const block_job *b)
+/* Number of chains touching the slab's cases, and the first one. */
+static long chains(const slab *sl, uint64_t *c0)
 {
-    uint64_t c0 = b->b0 / HF_STUDY_CHAIN;
-    uint64_t c1 = (b->b1 + HF_STUDY_CHAIN - 1) / HF_STUDY_CHAIN;
-    long nchains = (long)(c1 - c0);
+    *c0 = sl->b0 / HF_STUDY_CHAIN;
+    uint64_t c1 = (sl->b1 + HF_STUDY_CHAIN - 1) / HF_STUDY_CHAIN;
+    return (long)(c1 - *c0);
+}
+
+/* Evaluates chain c of the slab on thread t; returns 1 when a row overflowed. */
+static int run_chain(const block_job *b, const slab *sl, uint64_t c0, long c, int t)
+{
     int overflow = 0;
-#pragma omp parallel for schedule(dynamic, 1) num_threads(b->jobs) reduction(| : overflow)
-    for (long c = 0; c < nchains; c++) {
-        int t = omp_get_thread_num();
-        uint64_t k = ((uint64_t)c + c0) * HF_STUDY_CHAIN;
-        uint64_t kend = k + HF_STUDY_CHAIN;
-        if (kend > b->b1)
-            kend = b->b1;
-        for (; k < kend; k++) {
-            int start = (k % HF_STUDY_CHAIN) == 0;
-            if (k < b->b0) {
-                /* Rebuild the warm start of a chain cut by the stream's start. */
-                b->row(b->states[t], k, start, 0, b->scratch + (size_t)t * b->row_cap,
-                       b->row_cap);
-                continue;
-            }
-            char *slot = b->buf + (size_t)(k - b->b0) * b->row_cap;
-            int n = b->row(b->states[t], k, start, 1, slot, b->row_cap);
-            if (n < 0 || (size_t)n >= b->row_cap) {
-                overflow = 1;
-                n = 0;
-            }
-            b->len[k - b->b0] = n;
+    uint64_t k = ((uint64_t)c + c0) * HF_STUDY_CHAIN;
+    uint64_t kend = k + HF_STUDY_CHAIN;
+    if (kend > sl->b1)
+        kend = sl->b1;
+    for (; k < kend; k++) {
+        int start = (k % HF_STUDY_CHAIN) == 0;
+        if (k < sl->b0) {
+            /* Rebuild the warm start of a chain cut by the stream's start. */
+            b->row(b->states[t], k, start, 0, b->scratch + (size_t)t * b->row_cap, b->row_cap);
+            continue;
         }
+        char *slot = sl->buf + (size_t)(k - sl->b0) * b->row_cap;
+        int n = b->row(b->states[t], k, start, 1, slot, b->row_cap);
+        if (n < 0 || (size_t)n >= b->row_cap) {
+            overflow = 1;
+            n = 0;
+        }
+        sl->len[k - sl->b0] = n;
     }
+    return overflow;
+}
+
+/* Writes a computed slab's rows in case order; 0 on success. */
+static int write_slab(const block_job *b, const slab *sl, FILE *out)
+{
+    for (uint64_t k = sl->b0; k < sl->b1; k++) {
+        size_t n = (size_t)sl->len[k - sl->b0];
+        if (n && fwrite(sl->buf + (size_t)(k - sl->b0) * b->row_cap, 1, n, out) != n)
+            return -1;
+    }
+    return ferror(out) ? -1 : 0;
+}
+
+/* Computes slab `next` on every thread while one thread first writes slab
+ * `done` (NULL: nothing to write): output overlaps computation, and the
+ * rows still leave in case order.  Returns the overflow flag; *werr is set
+ * when the write failed. */
+static int step(const block_job *b, const slab *next, const slab *done, FILE *out, int *werr)
+{
+    uint64_t c0 = 0;
+    long n = next ? chains(next, &c0) : 0;
+    int overflow = 0, wfail = 0;
+#pragma omp parallel num_threads(b->jobs) reduction(| : overflow)
+    {
+#pragma omp single nowait
+        {
+            if (done && write_slab(b, done, out) != 0)
+                wfail = 1;
+        }
+#pragma omp for schedule(dynamic, 1) nowait
+        for (long c = 0; c < n; c++)
+            overflow |= run_chain(b, next, c0, c, omp_get_thread_num());
+    }
+    *werr = wfail;
     return overflow;
 }
 
@@ -211,7 +250,7 @@ hf_status hf_study_stream(uint64_t begin, uint64_t end, void **states, hf_study_
     if (block == 0) {
         /* Few, large blocks: each ends with a barrier, and on a busy machine
          * a descheduled thread holds every other one there. */
-        block = ((size_t)4 << 20) / opt->row_cap;
+        block = ((size_t)2 << 20) / opt->row_cap; /* two such slabs */
         if (block < 256)
             block = 256;
         if (block > 16384)
@@ -226,11 +265,15 @@ hf_status hf_study_stream(uint64_t begin, uint64_t end, void **states, hf_study_
     b.states = states;
     b.row = row;
     b.jobs = opt->jobs;
-    b.buf = hf_malloc(block * opt->row_cap);
-    b.len = hf_calloc(block, sizeof *b.len);
+    /* Two slabs: one is written while the other is computed. */
+    slab sl[2] = {{0}, {0}};
+    for (int i = 0; i < 2; i++) {
+        sl[i].buf = hf_malloc(block * opt->row_cap);
+        sl[i].len = hf_calloc(block, sizeof *sl[i].len);
+    }
     b.scratch = hf_malloc((size_t)opt->jobs * opt->row_cap);
     hf_status st = HF_OK;
-    if (!b.buf || !b.len || !b.scratch) {
+    if (!sl[0].buf || !sl[0].len || !sl[1].buf || !sl[1].len || !b.scratch) {
         st = hf_error_set(err, HF_ENOMEM, "out of memory for a block of %zu rows", block);
         goto done;
     }
@@ -238,40 +281,48 @@ hf_status hf_study_stream(uint64_t begin, uint64_t end, void **states, hf_study_
     /* The first block starts at the chain holding `begin`, so the chain is
      * rebuilt from its first case; blocks end on multiples of `block`. */
     uint64_t s = begin;
-    while (s < end) {
+    slab *pending = NULL; /* computed, not yet written */
+    int cur = 0;
+    while (s < end || pending) {
         if (opt->stop && *opt->stop) {
             st = hf_error_set(err, HF_EIO, "interrupted");
             goto done;
         }
-        uint64_t e = (s / block + 1) * block;
-        if (e > end)
-            e = end;
-        b.b0 = s;
-        b.b1 = e;
-        if (run_block(&b)) {
+        slab *next = NULL;
+        if (s < end) {
+            uint64_t e = (s / block + 1) * block;
+            if (e > end)
+                e = end;
+            next = &sl[cur];
+            next->b0 = s;
+            next->b1 = e;
+        }
+        int werr = 0;
+        int overflow = step(&b, next, pending, out, &werr);
+        if (werr) {
+            st = hf_error_set(err, HF_EIO, "writing the rows failed: %s", strerror(errno));
+            goto done;
+        }
+        if (pending && opt->progress)
+            opt->progress(opt->progress_ctx, pending->b1 - begin, total);
+        if (overflow) {
             st = hf_error_set(err, HF_ELIMIT,
                               "a row of the cases %llu..%llu is longer than %zu bytes",
-                              (unsigned long long)s, (unsigned long long)(e - 1), opt->row_cap);
+                              (unsigned long long)next->b0, (unsigned long long)(next->b1 - 1),
+                              opt->row_cap);
             goto done;
         }
-        for (uint64_t k = s; k < e; k++) {
-            size_t n = (size_t)b.len[k - s];
-            if (n && fwrite(b.buf + (size_t)(k - s) * b.row_cap, 1, n, out) != n) {
-                st = hf_error_set(err, HF_EIO, "writing the rows failed: %s", strerror(errno));
-                goto done;
-            }
+        pending = next;
+        if (next) {
+            s = next->b1;
+            cur ^= 1;
         }
-        if (ferror(out)) {
-            st = hf_error_set(err, HF_EIO, "writing the rows failed");
-            goto done;
-        }
-        s = e;
-        if (opt->progress)
-            opt->progress(opt->progress_ctx, s - begin, total);
     }
 done:
-    hf_free(b.buf);
-    hf_free(b.len);
+    for (int i = 0; i < 2; i++) {
+        hf_free(sl[i].buf);
+        hf_free(sl[i].len);
+    }
     hf_free(b.scratch);
     return st;
 }
