@@ -907,7 +907,24 @@ hf_status hf_svg_figure_elevation(FILE *out, const hf_svg_elevation *e, int stan
     } else if (tl > 0) {
         snprintf(lab, sizeof lab, "allowed tension %.4g kN (%.2g times the largest here)", tl,
                  tl / (tmax / 1e3));
-        text_ex(out, low.left + low.width - 4, low.top + 14, 'e', TICK_PX, 0, 0, 1, lab);
+        /* Top right, unless the curve runs through that corner: then top
+         * left; the label's band is its estimated width by 20 px. */
+        double wlab = 0.62 * TICK_PX * (double)strlen(lab) + 8.0;
+        int hit_right = 0, hit_left = 0;
+        for (size_t i = 0; i < e->npts; i++) {
+            double px = hf_svg_axes_px(&low, e->pts[i].x);
+            double py = hf_svg_axes_py(&low, e->pts[i].tension / 1e3);
+            if (py > low.top + 22.0)
+                continue;
+            if (px >= low.left + low.width - wlab)
+                hit_right = 1;
+            if (px <= low.left + wlab)
+                hit_left = 1;
+        }
+        if (hit_right && !hit_left)
+            text_ex(out, low.left + 4, low.top + 14, 's', TICK_PX, 0, 0, 1, lab);
+        else
+            text_ex(out, low.left + low.width - 4, low.top + 14, 'e', TICK_PX, 0, 0, 1, lab);
     }
     hf_svg_end(out);
     return HF_OK;
