@@ -1040,7 +1040,7 @@ static void inset(FILE *out, const hf_svg_plan *p)
     if (hf_svg_axes_init(&h, PL_KEY_X, PL_INSET_Y, PL_INSET, PL_INSET, x0 - pad, x1 + pad, y0 - pad,
                          y1 + pad, 1, NULL) != HF_OK)
         return;
-    hf_svg_text(out, PL_KEY_X, PL_INSET_Y - 12, 's', LABEL_PX, 1, 0, "Hull detail");
+    hf_svg_text(out, PL_KEY_X, h.top - 12, 's', LABEL_PX, 1, 0, "Hull detail"); /* just above the (equal-scale) frame */
     fprintf(out, "<rect x=\"");
     putnum(out, h.left);
     fputs("\" y=\"", out);
