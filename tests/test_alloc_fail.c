@@ -25,30 +25,12 @@
 #include <string.h>
 #include <unistd.h>
 #include <cmocka.h>
+#include "support.h"
 #include "holdfast/alloc.h"
 #include "holdfast/balance.h"
 #include "holdfast/case.h"
 #include "holdfast/model.h"
 #include "holdfast/spread.h"
-
-static char *read_file(const char *rel, size_t *len)
-{
-    const char *root = getenv("HF_ROOT");
-    char path[1024];
-    snprintf(path, sizeof path, "%s/%s", root && *root ? root : ".", rel);
-    FILE *f = fopen(path, "rb");
-    if (!f)
-        return NULL;
-    static char buf[1 << 20];
-    size_t n = fread(buf, 1, sizeof buf - 1, f);
-    fclose(f);
-    buf[n] = '\0';
-    *len = n;
-    char *copy = malloc(n + 1);
-    if (copy)
-        memcpy(copy, buf, n + 1);
-    return copy;
-}
 
 /* Bytes of heap in use (constant when the allocator does not say, e.g.
  * under ASan, where LeakSanitizer takes over).  Exact only without glibc's
@@ -195,7 +177,9 @@ static long points_total;
 static void sweep_file(const char *rel, int required)
 {
     size_t len = 0;
-    char *text = read_file(rel, &len);
+    char path[1024];
+    hf_test_root_path(path, sizeof path, rel);
+    char *text = hf_test_file_read(path, &len);
     if (!text) {
         if (required)
             fail_msg("cannot read %s (HF_ROOT=%s)", rel, getenv("HF_ROOT"));

@@ -8,6 +8,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include "support.h"
 #include "holdfast/alloc.h"
 #include "holdfast/balance.h"
 
@@ -31,13 +32,8 @@ typedef struct {
 
 static void chain(hf_line *l, double length)
 {
-    memset(l, 0, sizeof *l);
-    l->n = 1;
-    l->sec[0].length = length;
-    l->sec[0].weight = CHAIN_W;
-    l->sec[0].ea = CHAIN_EA;
-    l->sec[0].mbl = CHAIN_MBL;
-    l->sec[0].friction = 0.7; /* chain sliding friction (from memory, REFERENCE section 3) */
+    /* chain sliding friction 0.7 (from memory, REFERENCE section 3) */
+    hf_test_line_one(l, length, CHAIN_W, CHAIN_EA, CHAIN_MBL, 0.7);
 }
 
 /* The "Skerrow pontoon" (fictional): depth 62.5 m, four chains from

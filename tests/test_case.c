@@ -9,16 +9,9 @@
 #include <string.h>
 #include <unistd.h>
 #include <cmocka.h>
+#include "support.h"
 #include "holdfast/alloc.h"
 #include "holdfast/case.h"
-
-/* |a - b| <= tol, with both values printed on failure (cmocka 1.1 has no double assert). */
-#define assert_near(a, b, tol)                                                                     \
-    do {                                                                                           \
-        double a_ = (a), b_ = (b);                                                                 \
-        if (!(fabs(a_ - b_) <= (tol)))                                                             \
-            fail_msg("%s = %.12g, expected %.12g (tolerance %g)", #a, a_, b_, (double)(tol));      \
-    } while (0)
 
 /* Lines 1-3 and 4-9 of a minimal valid case. */
 #define HEAD                                                                                       \
@@ -276,12 +269,12 @@ static void minimal_case_is_valid(void **state)
     assert_int_equal(hf_case_load_buffer(VALID, strlen(VALID), "t.yaml", &m, &err), HF_OK);
     assert_int_equal(m.nlines, 1);
     assert_int_equal(m.lines[0].line.n, 1);
-    assert_near(m.lines[0].pieces[0].length, 520.0, 1e-12);
+    HF_TEST_ASSERT_NEAR(m.lines[0].pieces[0].length, 520.0, 1e-12);
     /* R3 chain MBL = 0.0223 d^2 (44 - 0.08 d) kN: DNV-OS-E302 / IACS UR W22 (via
      * REFERENCE.md section 3), 76 mm gives 4884 kN. */
-    assert_near(m.lines[0].line.sec[0].mbl, 0.0223 * 76 * 76 * (44 - 0.08 * 76) * 1e3,
+    HF_TEST_ASSERT_NEAR(m.lines[0].line.sec[0].mbl, 0.0223 * 76 * 76 * (44 - 0.08 * 76) * 1e3,
                         1e-6);
-    assert_near(m.lines[0].line.sec[0].mbl, 4884e3, 1e3);
+    HF_TEST_ASSERT_NEAR(m.lines[0].line.sec[0].mbl, 4884e3, 1e3);
     assert_string_equal(m.source_path, "t.yaml");
     assert_null(m.criteria.preset);
     assert_int_equal(m.nloads, 0);
@@ -387,8 +380,8 @@ static void aliases_expand(void **state)
     if (hf_case_load_buffer(yaml, strlen(yaml), "t.yaml", &m, &err) != HF_OK)
         fail_msg("%s", err.text);
     assert_int_equal(m.lines[1].npieces, 3);
-    assert_near(m.lines[1].pieces[2].length, 260.0, 0);
-    assert_near(m.lines[1].line.joint[0].load, 35e3, 1e-9);
+    HF_TEST_ASSERT_NEAR(m.lines[1].pieces[2].length, 260.0, 0);
+    HF_TEST_ASSERT_NEAR(m.lines[1].line.joint[0].load, 35e3, 1e-9);
     hf_model_free(&m);
 
     /* exponential expansion ("billion laughs") stops at a named limit */
@@ -504,30 +497,30 @@ static void full_case_loads(void **state)
         fail_msg("%s", err.text);
     const double deg = M_PI / 180.0;
     assert_string_equal(m.title, "Test spread at the invented Merrow Bank");
-    assert_near(m.site.depth, 50.0, 1e-12);
-    assert_near(m.site.water_level, 1.2, 1e-12);
-    assert_near(m.site.water_density, 1020.0, 1e-9);
+    HF_TEST_ASSERT_NEAR(m.site.depth, 50.0, 1e-12);
+    HF_TEST_ASSERT_NEAR(m.site.water_level, 1.2, 1e-12);
+    HF_TEST_ASSERT_NEAR(m.site.water_density, 1020.0, 1e-9);
     assert_int_equal(m.ncomponents, 3);
     const hf_component *c = &m.components[0].comp;
     assert_int_equal(c->type, HF_COMP_STUDLESS_CHAIN);
     assert_int_equal(c->grade, HF_GRADE_R4);
-    assert_near(c->diameter, 0.0762, 1e-12); /* 3 in = 76.2 mm (exact inch) */
+    HF_TEST_ASSERT_NEAR(c->diameter, 0.0762, 1e-12); /* 3 in = 76.2 mm (exact inch) */
     assert_int_equal(m.components[0].src_line, 4);
     assert_int_equal(m.components[0].src_col, 3);
     const hf_component *w = &m.components[1].comp;
     assert_true(w->given & (1u << HF_PROP_MBL));
-    assert_near(w->value[HF_PROP_MBL], 1.85e6, 1e-6);
-    assert_near(w->value[HF_PROP_FRICTION], 0.35, 1e-12);
+    HF_TEST_ASSERT_NEAR(w->value[HF_PROP_MBL], 1.85e6, 1e-6);
+    HF_TEST_ASSERT_NEAR(w->value[HF_PROP_FRICTION], 0.35, 1e-12);
     assert_true(w->approximate); /* EA and mass still from the rough wire formulas */
     const hf_component *k = &m.components[2].comp;
-    assert_near(k->value[HF_PROP_WET_WEIGHT], 750.0, 1e-9);
-    assert_near(k->value[HF_PROP_EA], 210e6, 1e-3);
+    HF_TEST_ASSERT_NEAR(k->value[HF_PROP_WET_WEIGHT], 750.0, 1e-9);
+    HF_TEST_ASSERT_NEAR(k->value[HF_PROP_EA], 210e6, 1e-3);
 
-    assert_near(m.hull.position[0], 12.5, 1e-12);
-    assert_near(m.hull.position[1], -3.25, 1e-12);
-    assert_near(m.hull.heading, 0.5, 1e-12);
+    HF_TEST_ASSERT_NEAR(m.hull.position[0], 12.5, 1e-12);
+    HF_TEST_ASSERT_NEAR(m.hull.position[1], -3.25, 1e-12);
+    HF_TEST_ASSERT_NEAR(m.hull.heading, 0.5, 1e-12);
     assert_int_equal(m.hull.noutline, 3);
-    assert_near(m.hull.outline[2][1], -5.0, 1e-12);
+    HF_TEST_ASSERT_NEAR(m.hull.outline[2][1], -5.0, 1e-12);
 
     assert_int_equal(m.nlines, 3);
     const hf_model_line *l = &m.lines[0];
@@ -536,80 +529,80 @@ static void full_case_loads(void **state)
     assert_int_equal(l->src_col, 5);
     assert_int_equal(l->anchor_spec.kind, HF_ANCHOR_GRAVITY);
     /* 12 tf = 12000 kgf = 12000 * 9.80665 N (standard gravity, NIST SP 811) */
-    assert_near(l->anchor_spec.weight, 12000.0 * 9.80665, 1e-6);
-    assert_near(l->anchor_spec.friction, 0.45, 1e-12);
+    HF_TEST_ASSERT_NEAR(l->anchor_spec.weight, 12000.0 * 9.80665, 1e-6);
+    HF_TEST_ASSERT_NEAR(l->anchor_spec.friction, 0.45, 1e-12);
     assert_int_equal(l->npieces, 6);
     assert_int_equal(l->pieces[2].kind, HF_PIECE_CLUMP);
-    assert_near(l->pieces[2].friction, 0.5, 1e-12);
-    assert_near(l->pieces[1].friction, 1.0, 1e-12);
+    HF_TEST_ASSERT_NEAR(l->pieces[2].friction, 0.5, 1e-12);
+    HF_TEST_ASSERT_NEAR(l->pieces[1].friction, 1.0, 1e-12);
     assert_int_equal(l->pieces[4].kind, HF_PIECE_BUOY);
     /* resolved hf_line: 3 sections, the two clumps add, the buoy lifts */
     assert_int_equal(l->line.n, 3);
-    assert_near(l->line.joint[0].load, 80e3, 1e-9);
-    assert_near(l->line.joint[0].friction, (50.0 * 1.0 + 30.0 * 0.5) / 80.0, 1e-12);
-    assert_near(l->line.joint[1].load, -15e3, 1e-9);
-    assert_near(l->line.joint[1].friction, 0.2, 1e-12);
-    assert_near(l->line.sec[1].mbl, 1.85e6, 1e-6);
-    assert_near(l->line.sec[2].weight, 750.0, 1e-9);
-    assert_near(l->line.sec[2].friction, 1.1, 1e-12);
+    HF_TEST_ASSERT_NEAR(l->line.joint[0].load, 80e3, 1e-9);
+    HF_TEST_ASSERT_NEAR(l->line.joint[0].friction, (50.0 * 1.0 + 30.0 * 0.5) / 80.0, 1e-12);
+    HF_TEST_ASSERT_NEAR(l->line.joint[1].load, -15e3, 1e-9);
+    HF_TEST_ASSERT_NEAR(l->line.joint[1].friction, 0.2, 1e-12);
+    HF_TEST_ASSERT_NEAR(l->line.sec[1].mbl, 1.85e6, 1e-6);
+    HF_TEST_ASSERT_NEAR(l->line.sec[2].weight, 750.0, 1e-9);
+    HF_TEST_ASSERT_NEAR(l->line.sec[2].friction, 1.1, 1e-12);
     assert_int_equal(m.lines[1].anchor_spec.kind, HF_ANCHOR_DRAG);
-    assert_near(m.lines[1].anchor_spec.max_uplift_angle, 5 * deg, 1e-12);
+    HF_TEST_ASSERT_NEAR(m.lines[1].anchor_spec.max_uplift_angle, 5 * deg, 1e-12);
     assert_int_equal(m.lines[2].anchor_spec.kind, HF_ANCHOR_PILE);
 
     assert_int_equal(m.nloads, 3);
     /* [30, -40] kN: magnitude 50 kN (3-4-5 triangle), direction atan2(-4, 3) */
-    assert_near(m.loads[0].force, 50e3, 1e-6);
-    assert_near(m.loads[0].direction, atan2(-4.0, 3.0), 1e-12);
-    assert_near(m.loads[0].moment, 250e3, 1e-6);
+    HF_TEST_ASSERT_NEAR(m.loads[0].force, 50e3, 1e-6);
+    HF_TEST_ASSERT_NEAR(m.loads[0].direction, atan2(-4.0, 3.0), 1e-12);
+    HF_TEST_ASSERT_NEAR(m.loads[0].moment, 250e3, 1e-6);
     assert_int_equal(m.loads[0].ndrag, 0);
-    assert_near(m.loads[1].force, 2e6, 1e-6);
-    assert_near(m.loads[1].direction, 90 * deg, 1e-12);
+    HF_TEST_ASSERT_NEAR(m.loads[1].force, 2e6, 1e-6);
+    HF_TEST_ASSERT_NEAR(m.loads[1].direction, 90 * deg, 1e-12);
     assert_int_equal(m.loads[1].ndrag, 2);
-    assert_near(m.loads[1].drag[0].density, 1.225, 1e-12);
-    assert_near(m.loads[1].drag[0].speed, 30.0, 1e-12);
-    assert_near(m.loads[1].drag[0].direction, M_PI, 1e-12);
-    assert_near(m.loads[1].drag[1].density, 1020.0, 1e-9); /* the site's water */
-    assert_near(m.loads[1].drag[1].speed, 2 * 1852.0 / 3600.0, 1e-12); /* knots */
-    assert_near(m.loads[2].drag[0].density, 1000.0, 1e-9);
+    HF_TEST_ASSERT_NEAR(m.loads[1].drag[0].density, 1.225, 1e-12);
+    HF_TEST_ASSERT_NEAR(m.loads[1].drag[0].speed, 30.0, 1e-12);
+    HF_TEST_ASSERT_NEAR(m.loads[1].drag[0].direction, M_PI, 1e-12);
+    HF_TEST_ASSERT_NEAR(m.loads[1].drag[1].density, 1020.0, 1e-9); /* the site's water */
+    HF_TEST_ASSERT_NEAR(m.loads[1].drag[1].speed, 2 * 1852.0 / 3600.0, 1e-12); /* knots */
+    HF_TEST_ASSERT_NEAR(m.loads[2].drag[0].density, 1000.0, 1e-9);
 
     assert_string_equal(m.criteria.preset, "api-rp-2sk");
     assert_int_equal(m.criteria.analysis, HF_ANALYSIS_DYNAMIC);
     /* API RP 2SK dynamic intact factor 1.67 (from memory, see REFERENCE.md section 4),
      * from the preset; the damaged factor is the user's override. */
-    assert_near(m.criteria.factor_intact, 1.67, 1e-12);
-    assert_near(m.criteria.factor_damaged, 1.5, 1e-12);
-    assert_near(m.criteria.max_offset, 25 * 0.3048, 1e-12);
+    HF_TEST_ASSERT_NEAR(m.criteria.factor_intact, 1.67, 1e-12);
+    HF_TEST_ASSERT_NEAR(m.criteria.factor_damaged, 1.5, 1e-12);
+    HF_TEST_ASSERT_NEAR(m.criteria.max_offset, 25 * 0.3048, 1e-12);
     assert_non_null(m.criteria.source);
 
     assert_int_equal(m.nstudies, 8);
     const hf_study *s = m.studies;
     assert_int_equal(s[0].kind, HF_STUDY_LINES);
-    assert_near(s[0].offset[1], -2.0, 1e-12);
-    assert_near(s[0].offset[2], 3 * deg, 1e-12);
+    HF_TEST_ASSERT_NEAR(s[0].offset[1], -2.0, 1e-12);
+    HF_TEST_ASSERT_NEAR(s[0].offset[2], 3 * deg, 1e-12);
     assert_int_equal(s[1].kind, HF_STUDY_STIFFNESS);
     assert_int_equal(s[2].kind, HF_STUDY_CURVE);
-    assert_near(s[2].direction, 30 * deg, 1e-12);
-    assert_near(s[2].step, 0.5, 1e-12);
+    HF_TEST_ASSERT_NEAR(s[2].direction, 30 * deg, 1e-12);
+    HF_TEST_ASSERT_NEAR(s[2].step, 0.5, 1e-12);
     assert_int_equal(s[3].nloads, 2);
     assert_string_equal(s[3].loads[1], "push");
     assert_int_equal(s[4].nvary, 3);
     assert_int_equal(s[4].vary[0].dim, HF_DIM_FORCE);
     assert_int_equal(s[4].vary[0].nvalues, 3);
-    assert_near(s[4].vary[0].values[2], 35e3, 1e-9);
+    HF_TEST_ASSERT_NEAR(s[4].vary[0].values[2], 35e3, 1e-9);
     assert_int_equal(s[4].vary[2].dim, HF_DIM_ANGLE);
-    assert_near(s[4].vary[2].step, 2.5 * deg, 1e-12); /* plain angles are degrees */
+    HF_TEST_ASSERT_NEAR(s[4].vary[2].step, 2.5 * deg, 1e-12); /* plain angles are degrees */
     assert_int_equal(s[4].zip, 0);
     assert_int_equal(s[4].noutputs, 3);
     assert_string_equal(s[4].outputs[1], "utilisation:n2");
     assert_int_equal(s[5].zip, 1);
-    assert_near(s[5].vary[1].values[0], 0.048, 1e-12);
+    HF_TEST_ASSERT_NEAR(s[5].vary[1].values[0], 0.048, 1e-12);
     assert_int_equal(s[6].kind, HF_STUDY_INVERT);
-    assert_near(s[6].vary[0].to, 450.0, 1e-9);
+    HF_TEST_ASSERT_NEAR(s[6].vary[0].to, 450.0, 1e-9);
     assert_string_equal(s[6].target_output, "fairlead_horizontal");
     assert_string_equal(s[6].target_line, "n2");
-    assert_near(s[6].target_value, 150e3, 1e-9);
+    HF_TEST_ASSERT_NEAR(s[6].target_value, 150e3, 1e-9);
     assert_null(s[7].target_line);
-    assert_near(s[7].target_value, 25e3, 1e-9); /* kN/m -> N/m */
+    HF_TEST_ASSERT_NEAR(s[7].target_value, 25e3, 1e-9); /* kN/m -> N/m */
     hf_model_free(&m);
     hf_model_free(&m); /* twice is fine: free re-initialises */
 }
@@ -644,12 +637,6 @@ static void allocation_failures(void **state)
     assert_int_equal(m.nlines, 0);
 }
 
-static void path_of(char *buf, size_t cap, const char *name)
-{
-    const char *root = getenv("HF_ROOT");
-    snprintf(buf, cap, "%s/cases/%s", root && *root ? root : ".", name);
-}
-
 static void demo_cases_load(void **state)
 {
     (void)state;
@@ -658,7 +645,7 @@ static void demo_cases_load(void **state)
     hf_error err;
     hf_model_init(&m);
 
-    path_of(path, sizeof path, "barge.yaml");
+    hf_test_root_path(path, sizeof path, "cases/barge.yaml");
     if (hf_case_load(path, &m, &err) != HF_OK)
         fail_msg("%s", err.text);
     assert_int_equal(m.nlines, 8);
@@ -679,7 +666,7 @@ static void demo_cases_load(void **state)
     assert_true(m.site.depth >= 85.0 && m.site.depth <= 120.0);
     hf_model_free(&m);
 
-    path_of(path, sizeof path, "marina.yaml");
+    hf_test_root_path(path, sizeof path, "cases/marina.yaml");
     if (hf_case_load(path, &m, &err) != HF_OK)
         fail_msg("%s", err.text);
     assert_int_equal(m.nlines, 4);
@@ -695,7 +682,7 @@ static void demo_cases_load(void **state)
     assert_true(tide);
     hf_model_free(&m);
 
-    path_of(path, sizeof path, "student.yaml");
+    hf_test_root_path(path, sizeof path, "cases/student.yaml");
     if (hf_case_load(path, &m, &err) != HF_OK)
         fail_msg("%s", err.text);
     assert_int_equal(m.nlines, 1);

@@ -8,41 +8,17 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <sys/wait.h>
-#include <unistd.h>
+#include "support.h"
 
 static const char *bin; /* $HF_BIN */
-static char dir[256];   /* scratch directory */
+#define NEED_BIN() HF_TEST_NEED(bin)
+static char dir[256]; /* scratch directory */
 static char pass_case[320], fail_case[320], tight_case[320], noeq_case[320];
 
 #define OUT_CAP (1 << 18)
 static char out[OUT_CAP];
-
-/* Runs a shell command built from fmt, captures its stdout into out and
- * returns the exit status (-1 when it could not run). */
-static int run(const char *fmt, ...)
-{
-    char cmd[4096];
-    va_list ap;
-    va_start(ap, fmt);
-    vsnprintf(cmd, sizeof cmd, fmt, ap);
-    va_end(ap);
-    FILE *p = popen(cmd, "r");
-    if (!p)
-        return -1;
-    size_t n = fread(out, 1, OUT_CAP - 1, p);
-    out[n] = '\0';
-    int st = pclose(p);
-    return WIFEXITED(st) ? WEXITSTATUS(st) : -1;
-}
-
-static void write_file(const char *path, const char *text)
-{
-    FILE *f = fopen(path, "w");
-    assert_non_null(f);
-    fputs(text, f);
-    fclose(f);
-}
+static hf_test_io both = {.out = out, .out_cap = OUT_CAP, .merge = 1}; /* as 2>&1 */
+static hf_test_io quiet = {.out = out, .out_cap = OUT_CAP};            /* stderr dropped */
 
 /* Fictional scenario: the ferry pontoon "Lathe Point" of the invented harbour
  * of Ormsby Wick on four chains (all names and numbers invented).  The
@@ -99,76 +75,32 @@ static const char noeq_text[] =
 static int setup(void **state)
 {
     (void)state;
-    bin = getenv("HF_BIN");
-    if (!bin || !bin[0])
-        return 0;
-    snprintf(dir, sizeof dir, "/tmp/hf-cmd-balance-XXXXXX");
-    if (!mkdtemp(dir))
+    if (hf_test_cli_setup(&bin, dir, sizeof dir, "cmd-balance") != 0)
         return -1;
+    if (!bin)
+        return 0;
     snprintf(pass_case, sizeof pass_case, "%s/pass.yaml", dir);
     snprintf(fail_case, sizeof fail_case, "%s/fail.yaml", dir);
     snprintf(tight_case, sizeof tight_case, "%s/tight.yaml", dir);
     snprintf(noeq_case, sizeof noeq_case, "%s/noeq.yaml", dir);
-    write_file(pass_case, pass_text);
-    write_file(fail_case, fail_text);
-    write_file(tight_case, tight_text);
-    write_file(noeq_case, noeq_text);
+    hf_test_file_write(pass_case, pass_text);
+    hf_test_file_write(fail_case, fail_text);
+    hf_test_file_write(tight_case, tight_text);
+    hf_test_file_write(noeq_case, noeq_text);
     return 0;
 }
 
 static int teardown(void **state)
 {
     (void)state;
-    if (bin && bin[0] && dir[0]) {
-        char cmd[512];
-        snprintf(cmd, sizeof cmd, "rm -rf '%s'", dir);
-        if (system(cmd) != 0)
-            return -1;
-    }
-    return 0;
-}
-
-#define NEED_BIN()                                                                                 \
-    do {                                                                                           \
-        if (!bin || !bin[0])                                                                       \
-            skip();                                                                                \
-    } while (0)
-
-/* Splits a CSV line (no quoted commas in the fields used here) into fields. */
-static size_t fields(char *line, char **f, size_t cap)
-{
-    size_t n = 0;
-    char *s = line;
-    while (n < cap) {
-        f[n++] = s;
-        char *c = strchr(s, ',');
-        if (!c)
-            break;
-        *c = '\0';
-        s = c + 1;
-    }
-    return n;
-}
-
-static char *next_line(char **cur)
-{
-    if (!*cur || !**cur)
-        return NULL;
-    char *s = *cur, *nl = strchr(s, '\n');
-    if (nl) {
-        *nl = '\0';
-        *cur = nl + 1;
-    } else {
-        *cur = s + strlen(s);
-    }
-    return s;
+    return bin && hf_test_tmpdir_remove(dir) != 0 ? -1 : 0;
 }
 
 static void test_pass_report(void **state)
 {
     (void)state;
     NEED_BIN();
-    assert_int_equal(run("'%s' balance '%s' 2>&1", bin, pass_case), 0);
+    assert_int_equal(HF_TEST_RUN(&both, "balance", pass_case), 0);
     assert_non_null(strstr(out, "CAUTION"));
     assert_non_null(strstr(out, "ufc-4-159-03"));
     assert_non_null(strstr(out, "table 3-7"));
@@ -187,8 +119,8 @@ static void test_pass_csv(void **state)
 {
     (void)state;
     NEED_BIN();
-    assert_int_equal(run("'%s' balance '%s' --csv - 2>/dev/null", bin, pass_case), 0);
-    char *cur = out, *line = next_line(&cur);
+    assert_int_equal(HF_TEST_RUN(&quiet, "balance", pass_case, "--csv", "-"), 0);
+    char *cur = out, *line = hf_test_line_next(&cur);
     assert_non_null(line);
     const char *head = "load,condition,status,surge_m,sway_m,yaw_deg,max_tension_kN,"
                        "max_tension_line,max_utilisation,criterion,passed,T_ne_kN,T_nw_kN,"
@@ -199,10 +131,10 @@ static void test_pass_csv(void **state)
                                         "broken:se"};
     for (int k = 0; k < 2; k++)
         for (int c = 0; c < 5; c++) {
-            line = next_line(&cur);
+            line = hf_test_line_next(&cur);
             assert_non_null(line);
             char *f[32];
-            assert_true(fields(line, f, 32) >= 15);
+            assert_true(hf_test_csv_split(line, f, 32) >= 15);
             assert_string_equal(f[0], k == 0 ? "breeze" : "ebb");
             assert_string_equal(f[1], cond[c]);
             assert_string_equal(f[2], "ok");
@@ -218,7 +150,7 @@ static void test_pass_csv(void **state)
                 assert_true(strlen(f[6]) >= 9);
             }
         }
-    assert_null(next_line(&cur));
+    assert_null(hf_test_line_next(&cur));
 }
 
 static void test_load_selection_and_file(void **state)
@@ -227,7 +159,7 @@ static void test_load_selection_and_file(void **state)
     NEED_BIN();
     char csv[400];
     snprintf(csv, sizeof csv, "%s/ebb.csv", dir);
-    assert_int_equal(run("'%s' balance '%s' --load ebb --csv '%s'", bin, pass_case, csv), 0);
+    assert_int_equal(HF_TEST_RUN(&quiet, "balance", pass_case, "--load", "ebb", "--csv", csv), 0);
     assert_non_null(strstr(out, "CAUTION"));
     assert_null(strstr(out, "breeze"));
     FILE *f = fopen(csv, "r");
@@ -249,26 +181,26 @@ static void test_criterion_fails(void **state)
      * +x chains pull the same way as the load, so each carries
      * H >= 760 / (2 x 0.806 x 1.01) = 467 kN and T >= H: MBL/T <= 1380 / 467
      * = 2.96 < 3.0, the UFC 4-159-03 intact factor (table 3-7).  Exit 1. */
-    assert_int_equal(run("'%s' balance '%s' 2>&1", bin, fail_case), 1);
+    assert_int_equal(HF_TEST_RUN(&both, "balance", fail_case), 1);
     assert_non_null(strstr(out, "verdict: FAIL (governing: line_factor:"));
     assert_non_null(strstr(out, "CAUTION"));
-    assert_int_equal(run("'%s' balance '%s' --csv - 2>/dev/null", bin, fail_case), 1);
-    char *cur = out, *line = next_line(&cur);
-    line = next_line(&cur);
+    assert_int_equal(HF_TEST_RUN(&quiet, "balance", fail_case, "--csv", "-"), 1);
+    char *cur = out, *line = hf_test_line_next(&cur);
+    line = hf_test_line_next(&cur);
     assert_non_null(line);
     char *f[32];
-    assert_true(fields(line, f, 32) >= 15);
+    assert_true(hf_test_csv_split(line, f, 32) >= 15);
     assert_string_equal(f[1], "intact");
     assert_true(!strcmp(f[9], "line_factor:nw") || !strcmp(f[9], "line_factor:sw"));
     assert_string_equal(f[10], "0");
     double t = strtod(f[6], NULL);
     assert_true(t >= 467.0 && 1380.0 / t < 3.0);
     /* the tight offset limit always fails, intact included */
-    assert_int_equal(run("'%s' balance '%s' 2>&1", bin, tight_case), 1);
+    assert_int_equal(HF_TEST_RUN(&both, "balance", tight_case), 1);
     assert_non_null(strstr(out, "offset limit"));
     assert_non_null(strstr(out, "verdict: FAIL (governing: offset)"));
     assert_non_null(strstr(out, "CAUTION"));
-    assert_int_equal(run("'%s' balance '%s' --csv - 2>/dev/null", bin, tight_case), 1);
+    assert_int_equal(HF_TEST_RUN(&quiet, "balance", tight_case, "--csv", "-"), 1);
     assert_non_null(strstr(out, "ebb,intact,ok,"));
     assert_non_null(strstr(out, ",offset,0,"));
 }
@@ -277,10 +209,10 @@ static void test_no_equilibrium_exit(void **state)
 {
     (void)state;
     NEED_BIN();
-    assert_int_equal(run("'%s' balance '%s' 2>&1", bin, noeq_case), 3);
+    assert_int_equal(HF_TEST_RUN(&both, "balance", noeq_case), 3);
     assert_non_null(strstr(out, "no equilibrium"));
     assert_non_null(strstr(out, "CAUTION"));
-    assert_int_equal(run("'%s' balance '%s' --csv - 2>/dev/null", bin, noeq_case), 3);
+    assert_int_equal(HF_TEST_RUN(&quiet, "balance", noeq_case, "--csv", "-"), 3);
     assert_non_null(strstr(out, "absurd,intact,no equilibrium,,,,,,,equilibrium,0,"));
 }
 
@@ -310,10 +242,10 @@ static void test_anchor_kinds_report(void **state)
     NEED_BIN();
     char path[400];
     snprintf(path, sizeof path, "%s/anchors.yaml", dir);
-    write_file(path, anchors_text);
+    hf_test_file_write(path, anchors_text);
     /* With ne broken the hull drifts away from it, loading nw, and the light block
      * there slides (factor below 1): exit 1, governed by that anchor. */
-    assert_int_equal(run("'%s' balance '%s' 2>&1", bin, path), 1);
+    assert_int_equal(HF_TEST_RUN(&both, "balance", path), 1);
     assert_non_null(strstr(out, "verdict: FAIL (governing: anchor:nw)"));
     /* intact block of nw: the report's factors agree with the statics
      * mu (W - V) / H and W / V (REFERENCE.md section 4) from its own H and V */
@@ -335,16 +267,18 @@ static void test_usage_errors(void **state)
 {
     (void)state;
     NEED_BIN();
-    assert_int_equal(run("'%s' balance '%s' --load gale 2>&1", bin, pass_case), 2);
+    assert_int_equal(HF_TEST_RUN(&both, "balance", pass_case, "--load", "gale"), 2);
     assert_non_null(strstr(out, "breeze"));
     assert_non_null(strstr(out, "ebb"));
-    assert_int_equal(run("'%s' balance 2>&1", bin), 2);
-    assert_int_equal(run("'%s' balance '%s' --frobnicate 2>&1", bin, pass_case), 2);
-    assert_int_equal(run("'%s' balance '%s' --load 2>&1", bin, pass_case), 2);
-    assert_int_equal(run("'%s' balance '%s/missing.yaml' 2>&1", bin, dir), 2);
-    assert_int_equal(
-        run("'%s' balance '%s' --csv '%s/no/such/dir/x.csv' 2>&1", bin, pass_case, dir), 2);
-    assert_int_equal(run("'%s' balance --help", bin), 0);
+    assert_int_equal(HF_TEST_RUN(&both, "balance"), 2);
+    assert_int_equal(HF_TEST_RUN(&both, "balance", pass_case, "--frobnicate"), 2);
+    assert_int_equal(HF_TEST_RUN(&both, "balance", pass_case, "--load"), 2);
+    char missing[320], nodir[320];
+    snprintf(missing, sizeof missing, "%s/missing.yaml", dir);
+    snprintf(nodir, sizeof nodir, "%s/no/such/dir/x.csv", dir);
+    assert_int_equal(HF_TEST_RUN(&both, "balance", missing), 2);
+    assert_int_equal(HF_TEST_RUN(&both, "balance", pass_case, "--csv", nodir), 2);
+    assert_int_equal(HF_TEST_RUN(&quiet, "balance", "--help"), 0);
     assert_non_null(strstr(out, "usage: holdfast balance"));
 }
 

@@ -9,10 +9,10 @@
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
-#include <sys/wait.h>
-#include <unistd.h>
+#include "support.h"
 
-static const char *bin;  /* $HF_BIN */
+static const char *bin; /* $HF_BIN */
+#define NEED_BIN() HF_TEST_NEED(bin)
 static const char *root; /* $HF_ROOT */
 static char dir[256];    /* scratch directory */
 static char small[320];  /* small fictional case */
@@ -22,31 +22,8 @@ static char oc3[512];
 #define OUT_CAP (1 << 18)
 static char out[OUT_CAP];
 
-/* Runs a shell command built from fmt, captures stdout (and stderr when the
- * command says 2>&1) into out; returns the exit status (-1 on failure). */
-static int run(const char *fmt, ...)
-{
-    char cmd[4096];
-    va_list ap;
-    va_start(ap, fmt);
-    vsnprintf(cmd, sizeof cmd, fmt, ap);
-    va_end(ap);
-    FILE *p = popen(cmd, "r");
-    if (!p)
-        return -1;
-    size_t n = fread(out, 1, OUT_CAP - 1, p);
-    out[n] = '\0';
-    int st = pclose(p);
-    return WIFEXITED(st) ? WEXITSTATUS(st) : -1;
-}
-
-static void write_file(const char *path, const char *text)
-{
-    FILE *f = fopen(path, "w");
-    assert_non_null(f);
-    fputs(text, f);
-    fclose(f);
-}
+static hf_test_io both = {.out = out, .out_cap = OUT_CAP, .merge = 1}; /* as 2>&1 */
+static hf_test_io quiet = {.out = out, .out_cap = OUT_CAP};            /* stderr dropped */
 
 /* Fictional scenario: the work barge "Corrin Vale" on four chains in Quillby
  * Sound (invented place and vessel; numbers invented for the test). */
@@ -90,71 +67,23 @@ static const char buoy_case[] = "title: Fictional buoyed line at Tarrow Reach\n"
 static int setup(void **state)
 {
     (void)state;
-    bin = getenv("HF_BIN");
-    root = getenv("HF_ROOT");
-    if (!bin || !bin[0])
-        return 0;
-    snprintf(dir, sizeof dir, "/tmp/hf-cmd-spread-XXXXXX");
-    if (!mkdtemp(dir))
+    root = hf_test_root();
+    if (hf_test_cli_setup(&bin, dir, sizeof dir, "cmd-spread") != 0)
         return -1;
+    if (!bin)
+        return 0;
     snprintf(small, sizeof small, "%s/small.yaml", dir);
     snprintf(buoyed, sizeof buoyed, "%s/buoy.yaml", dir);
-    snprintf(oc3, sizeof oc3, "%s/tests/data/oc3.yaml", root && root[0] ? root : ".");
-    write_file(small, small_case);
-    write_file(buoyed, buoy_case);
+    hf_test_root_path(oc3, sizeof oc3, "tests/data/oc3.yaml");
+    hf_test_file_write(small, small_case);
+    hf_test_file_write(buoyed, buoy_case);
     return 0;
 }
 
 static int teardown(void **state)
 {
     (void)state;
-    if (bin && bin[0] && dir[0]) {
-        char cmd[512];
-        snprintf(cmd, sizeof cmd, "rm -rf '%s'", dir);
-        if (system(cmd) != 0)
-            return -1;
-    }
-    return 0;
-}
-
-#define NEED_BIN()                                                                                 \
-    do {                                                                                           \
-        if (!bin || !bin[0])                                                                       \
-            skip();                                                                                \
-    } while (0)
-
-/* Splits a CSV line (no quoted commas in the fields used here) into fields. */
-static size_t fields(char *line, char **f, size_t cap)
-{
-    static char empty[1];
-    for (size_t k = 0; k < cap; k++)
-        f[k] = empty; /* missing fields read as "" */
-    size_t n = 0;
-    char *s = line;
-    while (n < cap) {
-        f[n++] = s;
-        char *c = strchr(s, ',');
-        if (!c)
-            break;
-        *c = '\0';
-        s = c + 1;
-    }
-    return n;
-}
-
-/* Next line of a buffer (modifies it); NULL at the end. */
-static char *next_line(char **cur)
-{
-    if (!*cur || !**cur)
-        return NULL;
-    char *s = *cur, *nl = strchr(s, '\n');
-    if (nl) {
-        *nl = '\0';
-        *cur = nl + 1;
-    } else {
-        *cur = s + strlen(s);
-    }
-    return s;
+    return bin && hf_test_tmpdir_remove(dir) != 0 ? -1 : 0;
 }
 
 /* ---- stiffness ---- */
@@ -166,23 +95,23 @@ static void test_stiffness_oc3_csv(void **state)
 {
     (void)state;
     NEED_BIN();
-    assert_int_equal(run("'%s' stiffness '%s' --csv -", bin, oc3), 0);
-    char *cur = out, *line = next_line(&cur);
+    assert_int_equal(HF_TEST_RUN(&quiet, "stiffness", oc3, "--csv", "-"), 0);
+    char *cur = out, *line = hf_test_line_next(&cur);
     assert_non_null(line);
     assert_string_equal(line, "row,surge,sway,heave,roll,pitch,yaw");
     static const char *const rows[7] = {"surge", "sway", "heave",      "roll",
                                         "pitch", "yaw",  "static_load"};
     double K[7][6];
     for (int i = 0; i < 7; i++) {
-        line = next_line(&cur);
+        line = hf_test_line_next(&cur);
         assert_non_null(line);
         char *f[8] = {0};
-        assert_int_equal(fields(line, f, 8), 7);
+        assert_int_equal(hf_test_csv_split(line, f, 8), 7);
         assert_string_equal(f[0], rows[i]);
         for (int j = 0; j < 6; j++)
             K[i][j] = strtod(f[j + 1], NULL);
     }
-    assert_null(next_line(&cur));
+    assert_null(hf_test_line_next(&cur));
     /* kN/m, kN/rad, kN m/rad */
     assert_true(fabs(K[0][0] / 41.18 - 1.0) < 0.005);
     assert_true(fabs(K[1][1] / 41.18 - 1.0) < 0.005);
@@ -196,7 +125,7 @@ static void test_stiffness_oc3_csv(void **state)
     assert_true(fabs(K[6][0]) < 1e-3 && fabs(K[6][1]) < 1e-3);
 
     /* The human table carries the caution; an offset moves the pose. */
-    assert_int_equal(run("'%s' stiffness '%s' --offset 5,-2.5,3", bin, oc3), 0);
+    assert_int_equal(HF_TEST_RUN(&quiet, "stiffness", oc3, "--offset", "5,-2.5,3"), 0);
     assert_non_null(strstr(out, "CAUTION"));
     assert_non_null(strstr(out, "heading 3.000 deg"));
 }
@@ -208,20 +137,23 @@ static void test_curve_against_lines(void **state)
     (void)state;
     NEED_BIN();
     const double dir_deg = 33.5, d = dir_deg * M_PI / 180.0;
-    assert_int_equal(
-        run("'%s' curve '%s' --direction %g --range -12:12:4 --csv -", bin, small, dir_deg), 0);
+    char dir_arg[32];
+    snprintf(dir_arg, sizeof dir_arg, "%g", dir_deg);
+    assert_int_equal(HF_TEST_RUN(&quiet, "curve", small, "--direction", dir_arg, "--range",
+                                 "-12:12:4", "--csv", "-"),
+                     0);
     static char curve[OUT_CAP];
     memcpy(curve, out, OUT_CAP);
-    char *cur = curve, *line = next_line(&cur);
+    char *cur = curve, *line = hf_test_line_next(&cur);
     assert_non_null(line);
     assert_string_equal(line, "offset_m,restoring_kN,force_x_kN,force_y_kN,moment_z_kNm,"
                               "stiffness_kN_per_m,max_tension_kN,max_tension_line,max_utilisation,"
                               "T_bow-port_kN,T_bow-stbd_kN,T_stern-port_kN,T_stern-stbd_kN");
     int rows = 0;
     double last = -INFINITY;
-    while ((line = next_line(&cur))) {
+    while ((line = hf_test_line_next(&cur))) {
         char *f[16] = {0};
-        assert_int_equal(fields(line, f, 16), 13);
+        assert_int_equal(hf_test_csv_split(line, f, 16), 13);
         double s = strtod(f[0], NULL), restoring = strtod(f[1], NULL);
         double fx = strtod(f[2], NULL), fy = strtod(f[3], NULL);
         assert_true(fabs(s - (-12.0 + 4.0 * rows)) < 1e-9);
@@ -231,16 +163,17 @@ static void test_curve_against_lines(void **state)
         /* The same pose through 'lines': restoring = sum of the single lines'
          * horizontal pulls projected on the direction; fairlead tensions equal. */
         if (rows % 2 == 0) {
-            assert_int_equal(run("'%s' lines '%s' --offset %.17g,%.17g,0 --csv -", bin, small,
-                                 s * cos(d), s * sin(d)),
+            char offset[80];
+            snprintf(offset, sizeof offset, "%.17g,%.17g,0", s * cos(d), s * sin(d));
+            assert_int_equal(HF_TEST_RUN(&quiet, "lines", small, "--offset", offset, "--csv", "-"),
                              0);
-            char *lc = out, *ll = next_line(&lc);
+            char *lc = out, *ll = hf_test_line_next(&lc);
             double sum = 0.0;
             for (int i = 0; i < 4; i++) {
-                ll = next_line(&lc);
+                ll = hf_test_line_next(&lc);
                 assert_non_null(ll);
                 char *g[20] = {0};
-                assert_true(fields(ll, g, 20) >= 12);
+                assert_true(hf_test_csv_split(ll, g, 20) >= 12);
                 assert_string_equal(g[0], names[i]);
                 assert_true(!strcmp(g[1], "touchdown") || !strcmp(g[1], "suspended"));
                 double h = strtod(g[3], NULL), t = strtod(g[2], NULL);
@@ -266,15 +199,16 @@ static void test_curve_stiffness_column(void **state)
 {
     (void)state;
     NEED_BIN();
-    assert_int_equal(
-        run("'%s' curve '%s' --direction=-71.25 --range=6.995:7.005:0.005 --csv=-", bin, small), 0);
-    char *cur = out, *line = next_line(&cur);
+    assert_int_equal(HF_TEST_RUN(&quiet, "curve", small, "--direction=-71.25",
+                                 "--range=6.995:7.005:0.005", "--csv=-"),
+                     0);
+    char *cur = out, *line = hf_test_line_next(&cur);
     double r[3], k[3];
     for (int i = 0; i < 3; i++) {
-        line = next_line(&cur);
+        line = hf_test_line_next(&cur);
         assert_non_null(line);
         char *f[16] = {0};
-        fields(line, f, 16);
+        hf_test_csv_split(line, f, 16);
         r[i] = strtod(f[1], NULL);
         k[i] = strtod(f[5], NULL);
     }
@@ -289,14 +223,20 @@ static void test_curve_table_and_file(void **state)
     NEED_BIN();
     char csv[400];
     snprintf(csv, sizeof csv, "%s/curve.csv", dir);
-    assert_int_equal(
-        run("'%s' curve '%s' --direction 90 --range 0:10:2.5 --csv '%s'", bin, small, csv), 0);
+    assert_int_equal(HF_TEST_RUN(&quiet, "curve", small, "--direction", "90", "--range", "0:10:2.5",
+                                 "--csv", csv),
+                     0);
     assert_non_null(strstr(out, "restoring"));
     assert_non_null(strstr(out, "CAUTION"));
     struct stat sb;
     assert_int_equal(stat(csv, &sb), 0);
-    assert_int_equal(run("wc -l < '%s'", csv), 0);
-    assert_int_equal(atoi(out), 6);
+    char *text = hf_test_file_read(csv, NULL);
+    assert_non_null(text);
+    int newlines = 0; /* what wc -l counts */
+    for (const char *c = text; *c; c++)
+        newlines += *c == '\n';
+    free(text);
+    assert_int_equal(newlines, 6);
 }
 
 /* ---- lines ---- */
@@ -307,8 +247,8 @@ static void test_lines_csv_and_profiles(void **state)
     NEED_BIN();
     char pdir[400];
     snprintf(pdir, sizeof pdir, "%s/prof/nested", dir); /* created with its parent */
-    assert_int_equal(run("'%s' lines '%s' --csv - --profiles '%s'", bin, small, pdir), 0);
-    char *cur = out, *line = next_line(&cur);
+    assert_int_equal(HF_TEST_RUN(&quiet, "lines", small, "--csv", "-", "--profiles", pdir), 0);
+    char *cur = out, *line = hf_test_line_next(&cur);
     assert_non_null(line);
     const char *want = "line,status,fairlead_tension_kN,fairlead_horizontal_kN,"
                        "fairlead_vertical_kN,top_angle_deg,anchor_tension_kN,anchor_vertical_kN,"
@@ -316,10 +256,10 @@ static void test_lines_csv_and_profiles(void **state)
     assert_int_equal(strncmp(line, want, strlen(want)), 0);
     double tension[4], hor[4], ver[4];
     for (int i = 0; i < 4; i++) {
-        line = next_line(&cur);
+        line = hf_test_line_next(&cur);
         assert_non_null(line);
         char *f[20] = {0};
-        assert_true(fields(line, f, 20) >= 12);
+        assert_true(hf_test_csv_split(line, f, 20) >= 12);
         tension[i] = strtod(f[2], NULL);
         hor[i] = strtod(f[3], NULL);
         ver[i] = strtod(f[4], NULL);
@@ -329,7 +269,7 @@ static void test_lines_csv_and_profiles(void **state)
         double u = strtod(f[11], NULL);
         assert_true(fabs(u - tension[i] / 4730.0) < 1e-7); /* T/MBL, MBL 4.73 MN */
     }
-    assert_null(next_line(&cur));
+    assert_null(hf_test_line_next(&cur));
     /* Profiles: global coordinates from the anchor on the seabed (z = -42.5)
      * to the fairlead (z = -2.1 at the rest pose), ending at the fairlead tension. */
     for (int i = 0; i < 4; i++) {
@@ -342,7 +282,7 @@ static void test_lines_csv_and_profiles(void **state)
         assert_string_equal(buf, "arc_m,x_m,y_m,z_m,tension_kN\n");
         assert_non_null(fgets(buf, sizeof buf, fp));
         char *f[8] = {0};
-        assert_int_equal(fields(buf, f, 8), 5);
+        assert_int_equal(hf_test_csv_split(buf, f, 8), 5);
         assert_true(fabs(strtod(f[0], NULL)) < 1e-9);
         assert_true(fabs(strtod(f[1], NULL) - anchors[i][0]) < 1e-6);
         assert_true(fabs(strtod(f[2], NULL) - anchors[i][1]) < 1e-6);
@@ -354,7 +294,7 @@ static void test_lines_csv_and_profiles(void **state)
         }
         fclose(fp);
         assert_true(n > 50);
-        assert_int_equal(fields(lastbuf, f, 8), 5);
+        assert_int_equal(hf_test_csv_split(lastbuf, f, 8), 5);
         double a = 3.5 * M_PI / 180.0;
         double x = 1.25 + cos(a) * fairleads[i][0] - sin(a) * fairleads[i][1];
         double y = -0.75 + sin(a) * fairleads[i][0] + cos(a) * fairleads[i][1];
@@ -365,7 +305,7 @@ static void test_lines_csv_and_profiles(void **state)
         assert_true(fabs(strtod(f[4], NULL) - tension[i]) < 1e-6 * tension[i]);
     }
     /* readable table with the caution */
-    assert_int_equal(run("'%s' lines '%s' --offset -3.5,2.25,-4", bin, small), 0);
+    assert_int_equal(HF_TEST_RUN(&quiet, "lines", small, "--offset", "-3.5,2.25,-4"), 0);
     assert_non_null(strstr(out, "bow-stbd"));
     assert_non_null(strstr(out, "touchdown"));
     assert_non_null(strstr(out, "CAUTION"));
@@ -405,19 +345,14 @@ static void test_usage_errors(void **state)
         {"stiffness /nonexistent/case.yaml", 2, NULL},
     };
     for (size_t i = 0; i < sizeof t / sizeof t[0]; i++) {
-        char args[512];
-        const char *src = t[i].args;
-        size_t k = 0;
-        while (*src && k + 340 < sizeof args) { /* SMALL -> the case path */
-            if (!strncmp(src, "SMALL", 5)) {
-                k += (size_t)snprintf(args + k, sizeof args - k, "'%s'", small);
-                src += 5;
-            } else {
-                args[k++] = *src++;
-            }
-        }
-        args[k] = '\0';
-        int rc = run("'%s' %s 2>&1", bin, args);
+        char words[128];
+        const char *argv[16] = {bin};
+        size_t n = 1;
+        snprintf(words, sizeof words, "%s", t[i].args);
+        for (char *w = strtok(words, " "); w && n < 15; w = strtok(NULL, " "))
+            argv[n++] = strcmp(w, "SMALL") ? w : small; /* SMALL -> the case path */
+        argv[n] = NULL;
+        int rc = hf_test_run(argv, &both);
         if (rc != t[i].code || (t[i].says && !strstr(out, t[i].says)))
             fail_msg("holdfast %s: exit %d (want %d), output:\n%s", t[i].args, rc, t[i].code, out);
     }
@@ -431,13 +366,14 @@ static void test_numerical_failure(void **state)
     NEED_BIN();
     char csv[400];
     snprintf(csv, sizeof csv, "%s/never.csv", dir);
-    assert_int_equal(run("'%s' lines '%s' 2>&1", bin, buoyed), 3);
+    assert_int_equal(HF_TEST_RUN(&both, "lines", buoyed), 3);
     assert_non_null(strstr(out, "'lifted'"));
     assert_non_null(strstr(out, "failed"));
-    assert_int_equal(run("'%s' stiffness '%s' --csv '%s' 2>&1", bin, buoyed, csv), 3);
+    assert_int_equal(HF_TEST_RUN(&both, "stiffness", buoyed, "--csv", csv), 3);
     assert_non_null(strstr(out, "'lifted'"));
     assert_int_equal(
-        run("'%s' curve '%s' --direction 0 --range 0:2:1 --csv '%s' 2>&1", bin, buoyed, csv), 3);
+        HF_TEST_RUN(&both, "curve", buoyed, "--direction", "0", "--range", "0:2:1", "--csv", csv),
+        3);
     assert_non_null(strstr(out, "offset 0 m"));
     struct stat sb;
     assert_int_not_equal(stat(csv, &sb), 0);

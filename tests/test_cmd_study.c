@@ -18,6 +18,7 @@
 #include <time.h>
 #include <unistd.h>
 #include <cmocka.h>
+#include "support.h"
 
 /* wait4 is BSD/GNU, not X/Open: declared here (glibc provides it). */
 pid_t wait4(pid_t pid, int *status, int options, struct rusage *rusage);
@@ -28,34 +29,9 @@ static const char *watch; /* directory where run() waits for a temporary file */
 
 static int count_named(const char *d, const char *part);
 
-/* Fictional three-line buoy mooring (invented site): three sections and a
- * clump per line, one load case, studies of every kind. */
-static const char case_head[] =
-    "title: Tri-line buoy at Quarrel Point (fictional)\n"
-    "site: {depth: 62 m}\n"
-    "components:\n"
-    "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n"
-    "  wire64: {type: spiral_strand, diameter: 64 mm}\n"
-    "lines:\n"
-    "  - name: north\n"
-    "    anchor: [0 m, 420 m]\n"
-    "    fairlead: [0 m, 4 m, -8 m]\n"
-    "    sections: [{component: chain76, length: 160 m}, {clump: 60 kN},\n"
-    "               {component: wire64, length: 160 m}, {component: chain76, length: 112 m}]\n"
-    "  - name: southwest\n"
-    "    anchor: [-363.7 m, -210 m]\n"
-    "    fairlead: [-3.46 m, -2 m, -8 m]\n"
-    "    sections: [{component: chain76, length: 160 m}, {clump: 60 kN},\n"
-    "               {component: wire64, length: 160 m}, {component: chain76, length: 112 m}]\n"
-    "  - name: southeast\n"
-    "    anchor: [363.7 m, -210 m]\n"
-    "    fairlead: [3.46 m, -2 m, -8 m]\n"
-    "    sections: [{component: chain76, length: 160 m}, {clump: 60 kN},\n"
-    "               {component: wire64, length: 160 m}, {component: chain76, length: 112 m}]\n"
-    "loads:\n"
-    "  - {name: gale, force: 400 kN, direction: 30 deg}\n"
-    "criteria: {preset: api-rp-2sk}\n";
-
+/* Writes a, then b unless NULL, to path.  The case files here are the
+ * fictional three-line buoy mooring hf_test_case_quarrel (support.h: three
+ * sections and a clump per line, one load case) with studies appended. */
 static void write_file(const char *path, const char *a, const char *b)
 {
     FILE *f = fopen(path, "w");
@@ -129,21 +105,17 @@ static int exit_code(int status)
     return WIFEXITED(status) ? WEXITSTATUS(status) : -1;
 }
 
-static char *slurp(const char *path, size_t *len)
+/* The file at a (malloc'd), after checking that the file at b holds the same bytes. */
+static char *read_same(const char *a, const char *b)
 {
-    FILE *f = fopen(path, "rb");
-    if (!f)
-        return NULL;
-    fseek(f, 0, SEEK_END);
-    long n = ftell(f);
-    fseek(f, 0, SEEK_SET);
-    char *buf = malloc((size_t)n + 1);
-    assert_non_null(buf);
-    assert_int_equal(fread(buf, 1, (size_t)n, f), (size_t)n);
-    buf[n] = '\0';
-    fclose(f);
-    *len = (size_t)n;
-    return buf;
+    size_t na, nb;
+    char *ta = hf_test_file_read(a, &na), *tb = hf_test_file_read(b, &nb);
+    assert_non_null(ta);
+    assert_non_null(tb);
+    assert_int_equal(na, nb);
+    assert_memory_equal(ta, tb, na);
+    free(tb);
+    return ta;
 }
 
 /* Number of directory entries whose name contains `part`. */
@@ -169,19 +141,16 @@ static int setup(void **s)
         fprintf(stderr, "test_cmd_study: HF_BIN is not set (run through make check)\n");
         return -1;
     }
-    snprintf(dir, sizeof dir, "/tmp/hf-study-XXXXXX");
-    if (!mkdtemp(dir))
+    if (hf_test_tmpdir_make(dir, sizeof dir, "study") != 0)
         return -1;
-    write_file(path_in("quarrel.yaml"), case_head, NULL);
+    write_file(path_in("quarrel.yaml"), hf_test_case_quarrel, NULL);
     return 0;
 }
 
 static int teardown(void **s)
 {
     (void)s;
-    char cmd[600];
-    snprintf(cmd, sizeof cmd, "rm -rf '%s'", dir);
-    return system(cmd) == 0 ? 0 : -1;
+    return hf_test_tmpdir_remove(dir) == 0 ? 0 : -1;
 }
 
 #define SWEEP_ARGS                                                                               \
@@ -198,12 +167,7 @@ static void test_jobs_identical(void **s)
                      0);
     assert_int_equal(exit_code(run(NULL, 0, 0, NULL, SWEEP_ARGS, "--jobs", "2", "--csv", b, NULL)),
                      0);
-    size_t na, nb;
-    char *ta = slurp(a, &na), *tb = slurp(b, &nb);
-    assert_non_null(ta);
-    assert_non_null(tb);
-    assert_int_equal(na, nb);
-    assert_memory_equal(ta, tb, na);
+    char *ta = read_same(a, b);
     /* 301 x 3 cases and a header, every case solved. */
     int rows = 0;
     for (char *p = ta; (p = strchr(p, '\n')) != NULL; p++)
@@ -212,7 +176,6 @@ static void test_jobs_identical(void **s)
     assert_null(strstr(ta, ",no_convergence,"));
     assert_null(strstr(ta, ",invalid,"));
     free(ta);
-    free(tb);
 }
 
 static void test_shards_concatenate(void **s)
@@ -232,7 +195,7 @@ static void test_shards_concatenate(void **s)
                           shard[k], "--csv", part, NULL)),
             0);
         size_t n;
-        char *t = slurp(part, &n);
+        char *t = hf_test_file_read(part, &n);
         assert_non_null(t);
         /* Only the first part carries the header. */
         assert_true((k == 0) == (strncmp(t, "site.water_level_m,", 19) == 0));
@@ -240,12 +203,7 @@ static void test_shards_concatenate(void **s)
         free(t);
     }
     fclose(fc);
-    size_t na, nb;
-    char *ta = slurp(full, &na), *tb = slurp(cat, &nb);
-    assert_int_equal(na, nb);
-    assert_memory_equal(ta, tb, na);
-    free(ta);
-    free(tb);
+    free(read_same(full, cat));
 }
 
 static void test_sweep_interrupted(void **s)
@@ -281,7 +239,7 @@ static void test_run_interrupted_and_complete(void **s)
         "      - {path: site.water_level, range: [-1.5 m, 1.5 m, 0.0000025 m]}\n"
         "      - {path: \"lines[north].sections[3].length\", values: [110 m, 112 m, 113 m]}\n";
     char *c = path_in("big-run.yaml"), *out = path_in("big-out");
-    write_file(c, case_head, studies_big);
+    write_file(c, hf_test_case_quarrel, studies_big);
     watch = out;
     int st = run(NULL, 0.2, SIGTERM, NULL, "run", c, "--out", out, "--jobs", "2", "--quiet",
                  NULL);
@@ -315,7 +273,7 @@ static void test_run_interrupted_and_complete(void **s)
         "    target: {output: fairlead_tension, line: north, value: 300 kN}\n";
     c = path_in("full-run.yaml");
     out = path_in("full-out");
-    write_file(c, case_head, studies);
+    write_file(c, hf_test_case_quarrel, studies);
     assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "run", c, "--out", out, "--quiet", NULL)), 1);
     const char *files[] = {"rest.csv", "k.csv", "surge.csv", "storm.csv", "tide.csv",
                            "pretension.csv", "summary.txt", "report.html"};
@@ -326,7 +284,7 @@ static void test_run_interrupted_and_complete(void **s)
     }
     snprintf(p, sizeof p, "%s/pretension.csv", out);
     size_t n;
-    char *t = slurp(p, &n);
+    char *t = hf_test_file_read(p, &n);
     /* target 300 kN, achieved within 1e-6 relative (field 6 of the row) */
     char *row = strchr(t, '\n') + 1;
     const char *f = row;
@@ -336,13 +294,13 @@ static void test_run_interrupted_and_complete(void **s)
     assert_true(fabs(achieved - 300.0) <= 1e-6 * 300.0);
     free(t);
     snprintf(p, sizeof p, "%s/summary.txt", out);
-    t = slurp(p, &n);
+    t = hf_test_file_read(p, &n);
     assert_non_null(strstr(t, "CAUTION"));
     free(t);
     /* The report: complete, with the caution, a section per study and figures
      * (its XML well-formedness is checked by the report module's tests). */
     snprintf(p, sizeof p, "%s/report.html", out);
-    t = slurp(p, &n);
+    t = hf_test_file_read(p, &n);
     assert_non_null(strstr(t, "CAUTION"));
     assert_non_null(strstr(t, "Sweep: tide"));
     assert_non_null(strstr(t, "Design inversion: pretension"));
@@ -375,7 +333,7 @@ static void test_run_interrupted_and_complete(void **s)
         assert_true(WIFEXITED(stc));
         snprintf(p, sizeof p, "%s/%s", out, same[i].file);
         size_t na, nb;
-        char *ta = slurp(p, &na), *tb = slurp(cmdcsv, &nb);
+        char *ta = hf_test_file_read(p, &na), *tb = hf_test_file_read(cmdcsv, &nb);
         assert_non_null(ta);
         assert_non_null(tb);
         if (na != nb || memcmp(ta, tb, na))
@@ -391,7 +349,7 @@ static void test_run_interrupted_and_complete(void **s)
                               "    vary: [{path: site.water_level, values: [0 m, 1 m]}]\n"
                               "    outputs: [tension_of_everything]\n";
     c = path_in("bad-run.yaml");
-    write_file(c, case_head, bad);
+    write_file(c, hf_test_case_quarrel, bad);
     assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "run", c, "--out", path_in("bad-out"),
                                    "--quiet", NULL)),
                      2);
@@ -446,7 +404,7 @@ static void test_cli_errors(void **s)
                                    "fairlead_horizontal:north=150.35kN", "--csv", o, NULL)),
                      0);
     size_t n;
-    char *t = slurp(o, &n);
+    char *t = hf_test_file_read(o, &n);
     assert_non_null(strstr(t, "lines[north].anchor_radius,"));
     assert_non_null(strstr(t, ",150.35,"));
     free(t);
@@ -484,14 +442,7 @@ static void test_slurm_scripts(void **s)
     assert_int_equal(stat(merged, &sb), -1);
     snprintf(cmd, sizeof cmd, "sh '%s/scripts/merge-shards.sh' '%s' 3 '%s'", root, parts, merged);
     assert_int_equal(system(cmd), 0);
-    size_t na, nb;
-    char *ta = slurp(full, &na), *tb = slurp(merged, &nb);
-    assert_non_null(ta);
-    assert_non_null(tb);
-    assert_int_equal(na, nb);
-    assert_memory_equal(ta, tb, na);
-    free(ta);
-    free(tb);
+    free(read_same(full, merged));
 }
 
 /* Runs `holdfast sweep` with stderr on a pseudo-terminal and returns what
@@ -565,7 +516,7 @@ static void test_progress_bar(void **s)
     int st;
     assert_true(waitpid(pid, &st, 0) == pid);
     size_t n;
-    t = slurp(err, &n);
+    t = hf_test_file_read(err, &n);
     assert_null(strstr(t, "cases")); /* no bar in a file */
     assert_non_null(strstr(t, "CAUTION"));
     free(t);

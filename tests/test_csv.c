@@ -8,6 +8,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <cmocka.h>
+#include "support.h"
 #include "holdfast/csv.h"
 
 /* xorshift64*: deterministic, high-entropy test inputs (Vigna 2016). */
@@ -188,19 +189,6 @@ static void test_format_nonfinite(void **state)
     assert_string_equal(b, "");
 }
 
-/* Reads the whole of f into a malloc'ed string. */
-static char *slurp(FILE *f)
-{
-    long n = ftell(f);
-    assert_true(n >= 0);
-    rewind(f);
-    char *s = malloc((size_t)n + 1);
-    assert_non_null(s);
-    assert_int_equal(fread(s, 1, (size_t)n, f), (size_t)n);
-    s[n] = '\0';
-    return s;
-}
-
 /* RFC 4180 section 2: fields with commas, quotes or line breaks are enclosed
  * in double quotes; a quote inside is written twice. */
 static void test_writer_rows_and_quoting(void **state)
@@ -231,7 +219,7 @@ static void test_writer_rows_and_quoting(void **state)
     assert_int_equal(hf_csv_flush(&c), 0);
     assert_int_equal(c.rows, 5);
     assert_int_equal(c.nonfinite, 2);
-    char *s = slurp(f);
+    char *s = hf_test_stream_read(f, 0);
     assert_string_equal(s, "line,tension_kN,note\n"
                            "bow-port,1234.56789,plain\n"
                            "\"a,b\",,\"say \"\"hi\"\"\nnext\"\n"
@@ -262,7 +250,7 @@ static void test_writer_long_rows(void **state)
     }
     hf_csv_field_str(&c, big);
     hf_csv_end_row(&c);
-    char *s = slurp(f);
+    char *s = hf_test_stream_read(f, 0);
     char *p = s;
     double back = 0;
     for (int i = 0; i < 700; i++) {
@@ -291,7 +279,7 @@ static void test_quote_direct(void **state)
     assert_int_equal(hf_csv_quote(f, "plain"), 0);
     assert_int_equal(hf_csv_quote(f, "trail "), 0);
     assert_int_equal(hf_csv_quote(f, "cr\r"), 0);
-    char *s = slurp(f);
+    char *s = hf_test_stream_read(f, 0);
     assert_string_equal(s, "\"x\"\"y\"plain\"trail \"\"cr\r\"");
     free(s);
     fclose(f);

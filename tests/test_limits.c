@@ -27,6 +27,7 @@
 #include <time.h>
 #include <unistd.h>
 #include <cmocka.h>
+#include "support.h"
 #include "holdfast/case.h"
 #include "holdfast/line.h"
 #include "holdfast/model.h"
@@ -54,6 +55,19 @@ typedef struct {
     size_t n, cap;
 } buf;
 
+/* Grows b (doubling, from 4096 bytes) to hold k more bytes and a NUL. */
+static void reserve(buf *b, size_t k)
+{
+    size_t cap = b->cap ? b->cap * 2 : 4096;
+    while (cap < b->n + k + 1)
+        cap *= 2;
+    char *q = realloc(b->p, cap);
+    if (!q)
+        abort();
+    b->p = q;
+    b->cap = cap;
+}
+
 static void put(buf *b, const char *fmt, ...)
 {
     va_list ap;
@@ -67,14 +81,7 @@ static void put(buf *b, const char *fmt, ...)
             b->n += (size_t)k;
             return;
         }
-        size_t cap = b->cap ? b->cap * 2 : 4096;
-        while (cap < b->n + (size_t)k + 1)
-            cap *= 2;
-        char *q = realloc(b->p, cap);
-        if (!q)
-            abort();
-        b->p = q;
-        b->cap = cap;
+        reserve(b, (size_t)k);
     }
 }
 
@@ -82,16 +89,8 @@ static void repeat(buf *b, const char *s, size_t times)
 {
     size_t k = strlen(s);
     for (size_t i = 0; i < times; i++) {
-        if (b->n + k + 1 > b->cap) {
-            size_t cap = b->cap ? b->cap * 2 : 4096;
-            while (cap < b->n + k + 1)
-                cap *= 2;
-            char *q = realloc(b->p, cap);
-            if (!q)
-                abort();
-            b->p = q;
-            b->cap = cap;
-        }
+        if (b->n + k + 1 > b->cap)
+            reserve(b, k);
         memcpy(b->p + b->n, s, k);
         b->n += k;
         b->p[b->n] = '\0';
@@ -522,7 +521,7 @@ static void fuzz_regressions(void **state)
     (void)state;
     const char *root = getenv("HF_ROOT");
     char dir[1024];
-    snprintf(dir, sizeof dir, "%s/fuzz/regressions", root && *root ? root : ".");
+    hf_test_root_path(dir, sizeof dir, "fuzz/regressions");
     DIR *d = opendir(dir);
     if (!d)
         fail_msg("cannot open %s (HF_ROOT=%s)", dir, root ? root : "(unset)");
@@ -576,21 +575,6 @@ static int run_cli(const char *bin, const char *casefile, const char *out, doubl
     return WEXITSTATUS(ws);
 }
 
-static long file_bytes(const char *path, char **data)
-{
-    FILE *f = fopen(path, "rb");
-    if (!f)
-        return -1;
-    fseek(f, 0, SEEK_END);
-    long n = ftell(f);
-    rewind(f);
-    *data = malloc((size_t)n + 1);
-    if (!*data || fread(*data, 1, (size_t)n, f) != (size_t)n)
-        abort();
-    fclose(f);
-    return n;
-}
-
 /* Every regular file in `dir` (recursively) must be complete: byte-equal to
  * the same file of the complete run in `ref` for CSV and SVG; other files
  * non-empty.  No temporary file may remain.  Returns the files checked. */
@@ -615,8 +599,9 @@ static int check_tree(const char *dir, const char *ref)
             n += check_tree(p, q);
             continue;
         }
-        char *a = NULL, *b = NULL;
-        long na = file_bytes(p, &a), nb = file_bytes(q, &b);
+        size_t la = 0, lb = 0;
+        char *a = hf_test_file_read(p, &la), *b = hf_test_file_read(q, &lb);
+        long na = a ? (long)la : -1, nb = b ? (long)lb : -1;
         if (nb < 0)
             fail_msg("%s exists but the complete run has no such file", p);
         const char *ext = strrchr(e->d_name, '.');
@@ -633,27 +618,6 @@ static int check_tree(const char *dir, const char *ref)
     }
     closedir(d);
     return n;
-}
-
-static void rm_tree(const char *dir)
-{
-    DIR *d = opendir(dir);
-    if (!d)
-        return;
-    struct dirent *e;
-    while ((e = readdir(d)) != NULL) {
-        if (!strcmp(e->d_name, ".") || !strcmp(e->d_name, ".."))
-            continue;
-        char p[2048];
-        snprintf(p, sizeof p, "%s/%s", dir, e->d_name);
-        struct stat st;
-        if (lstat(p, &st) == 0 && S_ISDIR(st.st_mode))
-            rm_tree(p);
-        else
-            unlink(p);
-    }
-    closedir(d);
-    rmdir(dir);
 }
 
 static double wall(void)
@@ -696,9 +660,9 @@ static void killed_runs(const char *bin, const char *casefile, const char *tmp, 
         if (sig)
             killed++;
         checked += check_tree(out, ref);
-        rm_tree(out);
+        hf_test_tmpdir_remove(out);
     }
-    rm_tree(ref);
+    hf_test_tmpdir_remove(ref);
     printf("limits: %s: run takes %.2f s (exit %d), %d files; 8 runs SIGTERMed at 5..89 %% "
            "(%d were still running): %d files checked, none half-written\n",
            strrchr(casefile, '/') + 1, full, want < 0 ? 0 : want, files, killed, checked);
@@ -710,8 +674,8 @@ static void killed_run_leaves_whole_files(void **state)
     const char *bin = getenv("HF_BIN"), *root = getenv("HF_ROOT");
     if (!bin || !root)
         fail_msg("HF_BIN and HF_ROOT must be set (make check sets them)");
-    char tmp[] = "/tmp/hf-killed-XXXXXX", casefile[1100];
-    assert_non_null(mkdtemp(tmp));
+    char tmp[256], casefile[1100];
+    assert_int_equal(hf_test_tmpdir_make(tmp, sizeof tmp, "killed"), 0);
 
     /* The barge demo: a short run that succeeds. */
     snprintf(casefile, sizeof casefile, "%s/cases/barge.yaml", root);
@@ -722,10 +686,10 @@ static void killed_run_leaves_whole_files(void **state)
      * inversion whose bracket misses the target (exit 3, no CSV for it). */
     char seed[1100];
     snprintf(seed, sizeof seed, "%s/fuzz/seeds/full.yaml", root);
-    char *text = NULL;
-    long n = file_bytes(seed, &text);
+    size_t n = 0;
+    char *text = hf_test_file_read(seed, &n);
+    assert_non_null(text);
     assert_true(n > 0);
-    text[n] = '\0';
     const char *from = "range: [20 m, 26 m, 1 m]";
     char *at = strstr(text, from);
     assert_non_null(at);
@@ -737,7 +701,7 @@ static void killed_run_leaves_whole_files(void **state)
     free(text);
     killed_runs(bin, casefile, tmp, 3, "find-length.csv");
     unlink(casefile);
-    rm_tree(tmp);
+    hf_test_tmpdir_remove(tmp);
 }
 
 int main(void)

@@ -11,6 +11,7 @@
 #include <cmocka.h>
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_odeiv2.h>
+#include "support.h"
 #include "holdfast/line.h"
 
 #define RELERR(a, b) (fabs((a) - (b)) / fmax(fabs(b), 1e-300))
@@ -35,9 +36,7 @@ static void no_nan(const hf_line_state *s)
 static hf_line one(double L, double w, double ea, double mu)
 {
     hf_line l;
-    memset(&l, 0, sizeof l);
-    l.n = 1;
-    l.sec[0] = (hf_section){L, w, ea, 5e6, mu};
+    hf_test_line_one(&l, L, w, ea, 5e6, mu);
     return l;
 }
 

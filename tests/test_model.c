@@ -7,16 +7,10 @@
 #include <stdio.h>
 #include <string.h>
 #include <cmocka.h>
+#include "support.h"
 #include "holdfast/alloc.h"
 #include "holdfast/case.h"
 #include "holdfast/model.h"
-
-#define assert_near(a, b, tol)                                                                     \
-    do {                                                                                           \
-        double a_ = (a), b_ = (b);                                                                 \
-        if (!(fabs(a_ - b_) <= (tol)))                                                             \
-            fail_msg("%s = %.12g, expected %.12g (tolerance %g)", #a, a_, b_, (double)(tol));      \
-    } while (0)
 
 #define G_N 9.80665 /* standard gravity, m/s^2 (NIST SP 811) */
 
@@ -64,11 +58,11 @@ static void init_free_and_finds(void **state)
     hf_model m;
     hf_model_init(&m);
     assert_int_equal(m.nlines, 0);
-    assert_near(m.site.water_density, 1025.0, 0);
+    HF_TEST_ASSERT_NEAR(m.site.water_density, 1025.0, 0);
     hf_model_free(&m);
     hf_model_free(NULL);
     load(&m);
-    assert_near(hf_model_water_height(&m), 64.2, 1e-12);
+    HF_TEST_ASSERT_NEAR(hf_model_water_height(&m), 64.2, 1e-12);
     assert_int_equal(hf_model_line_find(&m, "west"), 1);
     assert_int_equal(hf_model_line_find(&m, "West"), (size_t)-1);
     assert_int_equal(hf_model_line_find(&m, NULL), (size_t)-1);
@@ -89,14 +83,14 @@ static void resolve_builds_lines(void **state)
     load(&m);
     const hf_line *l = &m.lines[0].line;
     assert_int_equal(l->n, 3);
-    assert_near(l->joint[0].load, 45e3, 1e-9);
-    assert_near(l->joint[1].load, -12.5e3, 1e-9);
-    assert_near(l->joint[1].friction, 0.3, 1e-15);
-    assert_near(l->sec[1].mbl, 3.9e6, 1e-6);
+    HF_TEST_ASSERT_NEAR(l->joint[0].load, 45e3, 1e-9);
+    HF_TEST_ASSERT_NEAR(l->joint[1].load, -12.5e3, 1e-9);
+    HF_TEST_ASSERT_NEAR(l->joint[1].friction, 0.3, 1e-15);
+    HF_TEST_ASSERT_NEAR(l->sec[1].mbl, 3.9e6, 1e-6);
     /* chain wet weight = 0.0199 d^2 g (1 - 1025/7850) (REFERENCE.md section 3:
      * catalogue mass, steel 7850 kg/m^3 from memory, sea water 1025 kg/m^3) */
-    assert_near(l->sec[0].weight, 0.0199 * 76 * 76 * G_N * (1 - 1025.0 / 7850.0), 1e-6);
-    assert_near(hf_line_length(l), 630.0, 1e-9);
+    HF_TEST_ASSERT_NEAR(l->sec[0].weight, 0.0199 * 76 * 76 * G_N * (1 - 1025.0 / 7850.0), 1e-6);
+    HF_TEST_ASSERT_NEAR(hf_line_length(l), 630.0, 1e-9);
 
     /* hand-made changes to the pieces are validated by resolve */
     m.lines[1].pieces[0].length = -4.25;
@@ -150,16 +144,16 @@ static void copy_is_deep(void **state)
     assert_string_equal(b.title, a.title);
     assert_string_equal(b.criteria.preset, "iso-19901-7");
     assert_string_equal(b.studies[0].vary[0].path, "lines[east].sections[1].clump");
-    assert_near(b.studies[0].vary[0].values[1], 20e3, 1e-9);
+    HF_TEST_ASSERT_NEAR(b.studies[0].vary[0].values[1], 20e3, 1e-9);
     assert_string_equal(b.studies[0].outputs[0], "max_utilisation");
-    assert_near(b.loads[0].moment, 1.5e6, 1e-6);
-    assert_near(b.lines[0].line.joint[0].load, 45e3, 1e-9);
+    HF_TEST_ASSERT_NEAR(b.loads[0].moment, 1.5e6, 1e-6);
+    HF_TEST_ASSERT_NEAR(b.lines[0].line.joint[0].load, 45e3, 1e-9);
     /* changing the copy leaves the source alone */
     hf_param p;
     assert_int_equal(hf_model_param_lookup(&b, "lines[east].sections[1].clump", &p, &err), HF_OK);
     assert_int_equal(hf_model_param_set(&b, &p, 61.5e3, &err), HF_OK);
-    assert_near(b.lines[0].line.joint[0].load, 61.5e3, 1e-9);
-    assert_near(a.lines[0].line.joint[0].load, 45e3, 1e-9);
+    HF_TEST_ASSERT_NEAR(b.lines[0].line.joint[0].load, 61.5e3, 1e-9);
+    HF_TEST_ASSERT_NEAR(a.lines[0].line.joint[0].load, 45e3, 1e-9);
     hf_model_free(&b);
 
     /* every allocation failure: HF_ENOMEM and an empty destination */
@@ -302,56 +296,56 @@ static void set_rederives(void **state)
      * (DNV-OS-E302 / IACS UR W22, REFERENCE.md section 3; 84 mm) */
     assert_int_equal(set(&m, "components.ch.diameter", 0.084, &err), HF_OK);
     double mbl84 = 0.0223 * 84 * 84 * (44 - 0.08 * 84) * 1e3;
-    assert_near(m.components[0].comp.value[HF_PROP_MBL], mbl84, 1e-6);
-    assert_near(m.lines[0].line.sec[0].mbl, mbl84, 1e-6);
-    assert_near(m.lines[1].line.sec[0].mbl, mbl84, 1e-6);
-    assert_near(m.lines[0].line.sec[2].mbl, mbl84, 1e-6);
-    assert_near(m.lines[0].line.sec[1].mbl, 3.9e6, 1e-6); /* the wire is not the chain */
+    HF_TEST_ASSERT_NEAR(m.components[0].comp.value[HF_PROP_MBL], mbl84, 1e-6);
+    HF_TEST_ASSERT_NEAR(m.lines[0].line.sec[0].mbl, mbl84, 1e-6);
+    HF_TEST_ASSERT_NEAR(m.lines[1].line.sec[0].mbl, mbl84, 1e-6);
+    HF_TEST_ASSERT_NEAR(m.lines[0].line.sec[2].mbl, mbl84, 1e-6);
+    HF_TEST_ASSERT_NEAR(m.lines[0].line.sec[1].mbl, 3.9e6, 1e-6); /* the wire is not the chain */
 
     /* a given mass stays given; the wet weight is derived from it */
     assert_int_equal(set(&m, "components.ch.mass", 152.75, &err), HF_OK);
     assert_true(m.components[0].comp.given & (1u << HF_PROP_MASS));
-    assert_near(m.lines[1].line.sec[0].weight, 152.75 * G_N * (1 - 1025.0 / 7850.0), 1e-6);
+    HF_TEST_ASSERT_NEAR(m.lines[1].line.sec[0].weight, 152.75 * G_N * (1 - 1025.0 / 7850.0), 1e-6);
     assert_int_equal(set(&m, "components.ch.diameter", 0.0735, &err), HF_OK);
-    assert_near(get(&m, "components.ch.mass"), 152.75, 1e-12);
+    HF_TEST_ASSERT_NEAR(get(&m, "components.ch.mass"), 152.75, 1e-12);
 
     assert_int_equal(set(&m, "components.wr.wet_weight", 318.5, &err), HF_OK);
-    assert_near(m.lines[0].line.sec[1].weight, 318.5, 1e-12);
+    HF_TEST_ASSERT_NEAR(m.lines[0].line.sec[1].weight, 318.5, 1e-12);
     assert_int_equal(set(&m, "components.wr.axial_stiffness", 3.45e8, &err), HF_OK);
-    assert_near(m.lines[0].line.sec[1].ea, 3.45e8, 1e-3);
+    HF_TEST_ASSERT_NEAR(m.lines[0].line.sec[1].ea, 3.45e8, 1e-3);
     assert_int_equal(set(&m, "components.wr.seabed_friction", 0.0, &err), HF_OK);
-    assert_near(m.lines[0].line.sec[1].friction, 0.0, 0);
+    HF_TEST_ASSERT_NEAR(m.lines[0].line.sec[1].friction, 0.0, 0);
     assert_int_equal(set(&m, "components.wr.breaking_load", 4.15e6, &err), HF_OK);
-    assert_near(m.lines[0].line.sec[1].mbl, 4.15e6, 1e-6);
+    HF_TEST_ASSERT_NEAR(m.lines[0].line.sec[1].mbl, 4.15e6, 1e-6);
 
     /* water density changes every derived wet weight: w = m g (1 - rho/7850) */
     assert_int_equal(set(&m, "site.water_density", 1000.0, &err), HF_OK);
-    assert_near(m.lines[1].line.sec[0].weight, 152.75 * G_N * (1 - 1000.0 / 7850.0), 1e-6);
-    assert_near(m.lines[0].line.sec[1].weight, 318.5, 1e-12); /* given stays */
+    HF_TEST_ASSERT_NEAR(m.lines[1].line.sec[0].weight, 152.75 * G_N * (1 - 1000.0 / 7850.0), 1e-6);
+    HF_TEST_ASSERT_NEAR(m.lines[0].line.sec[1].weight, 318.5, 1e-12); /* given stays */
 
     /* sections, clumps and buoys */
     assert_int_equal(set(&m, "lines[east].sections[2].length", 287.25, &err), HF_OK);
-    assert_near(m.lines[0].line.sec[1].length, 287.25, 1e-12);
+    HF_TEST_ASSERT_NEAR(m.lines[0].line.sec[1].length, 287.25, 1e-12);
     assert_int_equal(set(&m, "lines[east].sections[3].buoy", 7.75e3, &err), HF_OK);
-    assert_near(m.lines[0].line.joint[1].load, -7.75e3, 1e-9);
+    HF_TEST_ASSERT_NEAR(m.lines[0].line.joint[1].load, -7.75e3, 1e-9);
 
     /* anchor radius moves the anchor along its bearing from the hull reference point */
     assert_int_equal(set(&m, "lines[west].anchor_radius", 512.5, &err), HF_OK);
-    assert_near(m.lines[1].anchor[0], 3.0 - 512.5, 1e-9);
-    assert_near(m.lines[1].anchor[1], 4.0, 1e-9);
-    assert_near(get(&m, "lines[west].anchor_radius"), 512.5, 1e-9);
+    HF_TEST_ASSERT_NEAR(m.lines[1].anchor[0], 3.0 - 512.5, 1e-9);
+    HF_TEST_ASSERT_NEAR(m.lines[1].anchor[1], 4.0, 1e-9);
+    HF_TEST_ASSERT_NEAR(get(&m, "lines[west].anchor_radius"), 512.5, 1e-9);
 
     assert_int_equal(set(&m, "site.depth", 71.25, &err), HF_OK);
-    assert_near(hf_model_water_height(&m), 72.95, 1e-12);
+    HF_TEST_ASSERT_NEAR(hf_model_water_height(&m), 72.95, 1e-12);
     assert_int_equal(set(&m, "lines[0].fairlead.z", -2.5, &err), HF_OK);
     assert_int_equal(set(&m, "lines[0].anchor.y", 17.0, &err), HF_OK);
     assert_int_equal(set(&m, "loads[storm].force", 0.0, &err), HF_OK);
     assert_int_equal(set(&m, "loads[storm].direction", -1.25, &err), HF_OK);
     assert_int_equal(set(&m, "loads[storm].moment", -3.5e5, &err), HF_OK);
     assert_int_equal(set(&m, "hull.heading", 0.35, &err), HF_OK);
-    assert_near(m.hull.heading, 0.35, 0);
+    HF_TEST_ASSERT_NEAR(m.hull.heading, 0.35, 0);
     assert_int_equal(set(&m, "hull.position.y", -8.0, &err), HF_OK);
-    assert_near(m.hull.position[1], -8.0, 0);
+    HF_TEST_ASSERT_NEAR(m.hull.position[1], -8.0, 0);
     hf_model_free(&m);
 }
 
@@ -393,11 +387,11 @@ static void set_refuses_invalid_values(void **state)
             fail_msg("%s = %g: status %d, message \"%s\", expected \"%s\"", bad[i].path,
                      bad[i].value, (int)st, err.text, bad[i].frag);
         /* the model is unchanged and still resolves */
-        assert_near(get(&m, bad[i].path), before, 0);
+        HF_TEST_ASSERT_NEAR(get(&m, bad[i].path), before, 0);
         assert_int_equal(hf_model_resolve(&m, &err), HF_OK);
     }
-    assert_near(m.lines[0].line.sec[0].length, 240.0, 0);
-    assert_near(m.lines[0].line.joint[0].load, 45e3, 0);
+    HF_TEST_ASSERT_NEAR(m.lines[0].line.sec[0].length, 240.0, 0);
+    HF_TEST_ASSERT_NEAR(m.lines[0].line.joint[0].load, 45e3, 0);
 
     /* an anchor right under the reference point has no radial direction */
     assert_int_equal(set(&m, "lines[west].anchor.x", 3.0, &err), HF_OK);

@@ -16,6 +16,7 @@
 #include <time.h>
 #include <unistd.h>
 #include <cmocka.h>
+#include "support.h"
 #include "holdfast/alloc.h"
 #include "holdfast/outfile.h"
 
@@ -30,9 +31,7 @@ static int setup(void **state)
     fixture *fx = calloc(1, sizeof *fx);
     if (!fx)
         return -1;
-    const char *tmp = getenv("TMPDIR");
-    snprintf(fx->dir, sizeof fx->dir, "%s/hf-outfile-XXXXXX", tmp && *tmp ? tmp : "/tmp");
-    if (!mkdtemp(fx->dir)) {
+    if (hf_test_tmpdir_make(fx->dir, sizeof fx->dir, "outfile") != 0) {
         free(fx);
         return -1;
     }
@@ -45,22 +44,19 @@ static int setup(void **state)
 static int teardown(void **state)
 {
     fixture *fx = *state;
-    DIR *d = opendir(fx->dir);
-    if (d) {
-        struct dirent *e;
-        char p[600];
-        while ((e = readdir(d)) != NULL) {
-            if (!strcmp(e->d_name, ".") || !strcmp(e->d_name, ".."))
-                continue;
-            snprintf(p, sizeof p, "%s/%s", fx->dir, e->d_name);
-            unlink(p);
-        }
-        closedir(d);
-    }
-    rmdir(fx->dir);
+    hf_test_tmpdir_remove(fx->dir);
     hf_alloc_fail_at(0, 0);
     free(fx);
     return 0;
+}
+
+/* Waits for the child pid, which must exit with status 0. */
+static void expect_exit_0(pid_t pid)
+{
+    int ws;
+    assert_int_equal(waitpid(pid, &ws, 0), pid);
+    assert_true(WIFEXITED(ws));
+    assert_int_equal(WEXITSTATUS(ws), 0);
 }
 
 /* Number of entries in dir (without . and ..); names the first in *first. */
@@ -81,26 +77,6 @@ static int count_entries(const char *dir, char *first, size_t cap)
     }
     closedir(d);
     return n;
-}
-
-/* Reads a whole (small) file into buf; returns its length or -1. */
-static long slurp(const char *path, char *buf, size_t cap)
-{
-    FILE *f = fopen(path, "rb");
-    if (!f)
-        return -1;
-    size_t n = fread(buf, 1, cap - 1, f);
-    buf[n] = '\0';
-    fclose(f);
-    return (long)n;
-}
-
-static void put(const char *path, const char *text)
-{
-    FILE *f = fopen(path, "w");
-    assert_non_null(f);
-    fputs(text, f);
-    assert_int_equal(fclose(f), 0);
 }
 
 static void commit_makes_the_file_appear_whole(void **state)
@@ -131,7 +107,7 @@ static void commit_makes_the_file_appear_whole(void **state)
     assert_true(S_ISREG(st.st_mode));
     assert_int_equal(st.st_mode & 0777, 0644);
     static char buf[1 << 16];
-    long n = slurp(fx->path, buf, sizeof buf);
+    long n = hf_test_file_read_into(fx->path, buf, sizeof buf);
     assert_true(n > 0);
     assert_non_null(strstr(buf, "1999,4767.615\n"));
     assert_int_equal(buf[n - 1], '\n');
@@ -140,17 +116,17 @@ static void commit_makes_the_file_appear_whole(void **state)
 static void commit_replaces_an_old_file_only_at_the_end(void **state)
 {
     fixture *fx = *state;
-    put(fx->path, "old results\n");
+    hf_test_file_write(fx->path, "old results\n");
     hf_error err;
     hf_outfile *o = hf_outfile_open(fx->path, &err);
     assert_non_null(o);
     fputs("new results 2.385\n", hf_outfile_stream(o));
     fflush(hf_outfile_stream(o));
     char buf[64];
-    assert_int_equal(slurp(fx->path, buf, sizeof buf), 12);
+    assert_int_equal(hf_test_file_read_into(fx->path, buf, sizeof buf), 12);
     assert_string_equal(buf, "old results\n");
     assert_int_equal(hf_outfile_commit(o, &err), HF_OK);
-    assert_int_equal(slurp(fx->path, buf, sizeof buf), 18);
+    assert_int_equal(hf_test_file_read_into(fx->path, buf, sizeof buf), 18);
     assert_string_equal(buf, "new results 2.385\n");
     assert_int_equal(count_entries(fx->dir, NULL, 0), 1);
 }
@@ -167,13 +143,13 @@ static void abort_leaves_nothing_behind(void **state)
     hf_outfile_abort(NULL);
 
     /* Aborting over an existing file keeps the old one intact. */
-    put(fx->path, "kept\n");
+    hf_test_file_write(fx->path, "kept\n");
     o = hf_outfile_open(fx->path, &err);
     assert_non_null(o);
     fputs("replacement that never lands", hf_outfile_stream(o));
     hf_outfile_abort(o);
     char buf[64];
-    assert_int_equal(slurp(fx->path, buf, sizeof buf), 5);
+    assert_int_equal(hf_test_file_read_into(fx->path, buf, sizeof buf), 5);
     assert_string_equal(buf, "kept\n");
     assert_int_equal(count_entries(fx->dir, NULL, 0), 1);
 }
@@ -195,10 +171,10 @@ static void several_files_at_once(void **state)
     hf_outfile_abort(o[1]);
     assert_int_equal(hf_outfile_commit(o[0], &err), HF_OK);
     char buf[32];
-    assert_int_equal(slurp(p[0], buf, sizeof buf), 7);
+    assert_int_equal(hf_test_file_read_into(p[0], buf, sizeof buf), 7);
     assert_string_equal(buf, "part 0\n");
-    assert_int_equal(slurp(p[1], buf, sizeof buf), -1);
-    assert_int_equal(slurp(p[2], buf, sizeof buf), 7);
+    assert_int_equal(hf_test_file_read_into(p[1], buf, sizeof buf), -1);
+    assert_int_equal(hf_test_file_read_into(p[2], buf, sizeof buf), 7);
     assert_int_equal(count_entries(fx->dir, NULL, 0), 2);
 }
 
@@ -216,7 +192,7 @@ static void relative_path_in_the_current_directory(void **state)
         ok = hf_outfile_commit(o, &err) == HF_OK;
     }
     char buf[32];
-    long n = slurp("plain.csv", buf, sizeof buf);
+    long n = hf_test_file_read_into("plain.csv", buf, sizeof buf);
     assert_int_equal(chdir(cwd), 0);
     assert_true(ok);
     assert_int_equal(n, 10);
@@ -282,10 +258,7 @@ static void failed_write_leaves_nothing(void **state)
             _exit(12);
         _exit(0);
     }
-    int ws;
-    assert_int_equal(waitpid(pid, &ws, 0), pid);
-    assert_true(WIFEXITED(ws));
-    assert_int_equal(WEXITSTATUS(ws), 0);
+    expect_exit_0(pid);
     assert_int_equal(count_entries(fx->dir, NULL, 0), 0);
 }
 
@@ -354,15 +327,12 @@ static void fifo_is_written_in_place(void **state)
     for (int i = 0; i < 3000; i++) /* more than a pipe buffer */
         fprintf(hf_outfile_stream(o), "row %d\n", i);
     assert_int_equal(hf_outfile_commit(o, &err), HF_OK);
-    int ws;
-    assert_int_equal(waitpid(pid, &ws, 0), pid);
-    assert_true(WIFEXITED(ws));
-    assert_int_equal(WEXITSTATUS(ws), 0);
+    expect_exit_0(pid);
     struct stat st;
     assert_int_equal(stat(fifo, &st), 0);
     assert_true(S_ISFIFO(st.st_mode));
     static char buf[1 << 16];
-    long n = slurp(got, buf, sizeof buf);
+    long n = hf_test_file_read_into(got, buf, sizeof buf);
     assert_int_equal(n, 10 * 6 + 90 * 7 + 900 * 8 + 2000 * 9); /* "row N\n" for N < 3000 */
     assert_non_null(strstr(buf, "row 2999\n"));
     assert_int_equal(count_entries(fx->dir, NULL, 0), 2);
@@ -393,12 +363,9 @@ static void dash_is_standard_output(void **state)
             _exit(5);
         _exit(0);
     }
-    int ws;
-    assert_int_equal(waitpid(pid, &ws, 0), pid);
-    assert_true(WIFEXITED(ws));
-    assert_int_equal(WEXITSTATUS(ws), 0);
+    expect_exit_0(pid);
     char buf[128];
-    assert_true(slurp(fx->path, buf, sizeof buf) > 0);
+    assert_true(hf_test_file_read_into(fx->path, buf, sizeof buf) > 0);
     assert_string_equal(buf, "tension_kN\n1234.5678\nstill open\n");
     assert_int_equal(count_entries(fx->dir, NULL, 0), 1);
 }
@@ -420,10 +387,7 @@ static void dash_write_failure_is_reported(void **state)
         hf_status st = hf_outfile_commit(o, &err);
         _exit(st == HF_EIO && err.status == HF_EIO ? 0 : 3);
     }
-    int ws;
-    assert_int_equal(waitpid(pid, &ws, 0), pid);
-    assert_true(WIFEXITED(ws));
-    assert_int_equal(WEXITSTATUS(ws), 0);
+    expect_exit_0(pid);
 }
 
 /* A child opens two outputs (one over an existing file), writes, tells the
@@ -432,7 +396,7 @@ static void killed_before_commit(fixture *fx, int sig)
 {
     char second[400];
     snprintf(second, sizeof second, "%s/summary.txt", fx->dir);
-    put(second, "previous summary\n");
+    hf_test_file_write(second, "previous summary\n");
     int ready[2];
     assert_int_equal(pipe(ready), 0);
     pid_t pid = fork();
@@ -469,7 +433,7 @@ static void killed_before_commit(fixture *fx, int sig)
     struct stat st;
     assert_int_equal(stat(fx->path, &st), -1);
     char buf[64];
-    assert_int_equal(slurp(second, buf, sizeof buf), 17);
+    assert_int_equal(hf_test_file_read_into(second, buf, sizeof buf), 17);
     assert_string_equal(buf, "previous summary\n");
     if (sig == SIGKILL) {
         /* SIGKILL cannot be caught: the two temporary files stay, hidden. */
@@ -563,7 +527,7 @@ static void sigterm_at_random_moments(void **state)
         }
         closedir(d);
         char buf[64];
-        long n = slurp(fx->path, buf, sizeof buf);
+        long n = hf_test_file_read_into(fx->path, buf, sizeof buf);
         if (n >= 0 && strcmp(buf, "complete,2.385\n") != 0)
             partial++;
         unlink(fx->path);

@@ -9,6 +9,7 @@
 #include <string.h>
 #include <unistd.h>
 #include <cmocka.h>
+#include "support.h"
 #include "xml_check.h"
 #include "holdfast/alloc.h"
 #include "holdfast/case.h"
@@ -16,29 +17,6 @@
 #include "holdfast/report.h"
 #include "holdfast/spread.h"
 #include "holdfast/svg.h"
-
-/* The same checker as tests/test_svg.c (kept in step by hand; a shared
- * tests/ support file would serve both). */
-static void assert_well_formed(const char *doc)
-{
-    const char *m = hf_test_xml_check(doc);
-    if (m) {
-        print_error("not well-formed XML: %s\n", m);
-        fail();
-    }
-}
-
-static char *slurp(FILE *f)
-{
-    long n = ftell(f);
-    assert_true(n > 0);
-    rewind(f);
-    char *s = malloc((size_t)n + 1);
-    assert_non_null(s);
-    assert_int_equal(fread(s, 1, (size_t)n, f), (size_t)n);
-    s[n] = '\0';
-    return s;
-}
 
 static size_t count(const char *s, const char *what)
 {
@@ -145,7 +123,7 @@ static char *write_report(hf_model *m, int fail_one, hf_report *r)
     hf_report_paragraph(r, "Plain words & <brackets>.");
     assert_int_equal(hf_report_end(r, &err), HF_OK);
     hf_spread_free(ws);
-    char *s = slurp(f);
+    char *s = hf_test_stream_read(f, 1);
     fclose(f);
     return s;
 }
@@ -166,7 +144,7 @@ static void test_report_complete_and_well_formed(void **state)
         fputs(html, d);
         fclose(d);
     }
-    assert_well_formed(html);
+    hf_test_assert_xml(html);
     /* the case summary, components with sources, lines, results, figures */
     assert_non_null(strstr(html, "<!DOCTYPE html>"));
     assert_non_null(strstr(html, "Test &lt;pontoon&gt; &amp; &quot;quay&quot;"));
@@ -214,7 +192,7 @@ static void test_report_failed_check_is_plain(void **state)
     load_case(&m);
     hf_report r;
     char *html = write_report(&m, 1, &r);
-    assert_well_formed(html);
+    hf_test_assert_xml(html);
     assert_int_equal(r.nfailed, 1);
     assert_non_null(strstr(html, "1 of 3 criteria checks FAILED."));
     assert_int_equal(count(html, ">FAIL<"), 1);
@@ -233,8 +211,8 @@ static void test_report_empty_and_no_checks(void **state)
     hf_report_table_row(&r, NULL); /* no table open: ignored, page stays valid */
     hf_report_section(&r, "Empty", NULL);
     assert_int_equal(hf_report_end(&r, NULL), HF_OK);
-    char *html = slurp(f);
-    assert_well_formed(html);
+    char *html = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(html);
     assert_non_null(strstr(html, "No criteria checks were made."));
     free(html);
     fclose(f);
@@ -348,9 +326,9 @@ static void test_cmd_plot(void **state)
         FILE *g = fopen(outp, "r");
         assert_non_null(g);
         fseek(g, 0, SEEK_END);
-        char *svg = slurp(g);
+        char *svg = hf_test_stream_read(g, 1);
         fclose(g);
-        assert_well_formed(svg);
+        hf_test_assert_xml(svg);
         if (!strstr(svg, want[k])) {
             print_error("figure %zu lacks \"%s\"\n", k, want[k]);
             fail();

@@ -8,6 +8,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include "support.h"
 #include "holdfast/alloc.h"
 #include "holdfast/spread.h"
 
@@ -20,19 +21,6 @@ typedef struct {
     hf_model_line lines[MAXL];
     char names[MAXL][32];
 } fixture;
-
-/* One-section line. */
-static void one_section(hf_line *l, double length, double weight, double ea, double mbl,
-                        double friction)
-{
-    memset(l, 0, sizeof *l);
-    l->n = 1;
-    l->sec[0].length = length;
-    l->sec[0].weight = weight;
-    l->sec[0].ea = ea;
-    l->sec[0].mbl = mbl;
-    l->sec[0].friction = friction;
-}
 
 /* n lines at azimuths az[] (deg): anchors at radius ra on the seabed, fairleads at
  * hull-frame radius rf and height zf, all with the same one-section line. */
@@ -54,7 +42,7 @@ static void radial(fixture *fx, size_t n, const double *az, double depth, double
         ml->fairlead[0] = rf * cos(a);
         ml->fairlead[1] = rf * sin(a);
         ml->fairlead[2] = zf;
-        one_section(&ml->line, length, weight, ea, 8.5e6, friction);
+        hf_test_line_one(&ml->line, length, weight, ea, 8.5e6, friction);
     }
 }
 

@@ -148,6 +148,30 @@ static uint64_t mix(uint64_t h, const void *p, size_t n)
 }
 #define MIX(h, v) ((h) = mix((h), &(v), sizeof(v)))
 
+/* The whole-line double outputs of a state, in a fixed order. */
+#define STATE_DOUBLES 17
+static void state_doubles(const hf_line_state *s, double d[STATE_DOUBLES])
+{
+    const double v[STATE_DOUBLES] = {s->x,
+                                     s->z,
+                                     s->h,
+                                     s->v,
+                                     s->tension,
+                                     s->anchor_h,
+                                     s->anchor_v,
+                                     s->anchor_tension,
+                                     s->anchor_angle,
+                                     s->touchdown_x,
+                                     s->grounded,
+                                     s->stiffness[0][0],
+                                     s->stiffness[0][1],
+                                     s->stiffness[1][0],
+                                     s->stiffness[1][1],
+                                     s->residual,
+                                     s->max_utilisation};
+    memcpy(d, v, sizeof v);
+}
+
 /* Hashes every output field (not padding) of a state.  Sections from n on
  * are not outputs: the solver leaves them as they were (it does not clear
  * the whole array on the hot path). */
@@ -160,23 +184,8 @@ static uint64_t state_hash(const hf_line_state *s)
     MIX(h, s->iterations);
     MIX(h, s->evaluations);
     h = mix(h, s->message, strlen(s->message));
-    const double d[] = {s->x,
-                        s->z,
-                        s->h,
-                        s->v,
-                        s->tension,
-                        s->anchor_h,
-                        s->anchor_v,
-                        s->anchor_tension,
-                        s->anchor_angle,
-                        s->touchdown_x,
-                        s->grounded,
-                        s->stiffness[0][0],
-                        s->stiffness[0][1],
-                        s->stiffness[1][0],
-                        s->stiffness[1][1],
-                        s->residual,
-                        s->max_utilisation};
+    double d[STATE_DOUBLES];
+    state_doubles(s, d);
     h = mix(h, d, sizeof d);
     MIX(h, s->max_section);
     MIX(h, s->n);
@@ -191,23 +200,8 @@ static uint64_t state_hash(const hf_line_state *s)
 /* Every double in the state is finite (sections up to n). */
 static int all_finite(const hf_line_state *s)
 {
-    const double d[] = {s->x,
-                        s->z,
-                        s->h,
-                        s->v,
-                        s->tension,
-                        s->anchor_h,
-                        s->anchor_v,
-                        s->anchor_tension,
-                        s->anchor_angle,
-                        s->touchdown_x,
-                        s->grounded,
-                        s->stiffness[0][0],
-                        s->stiffness[0][1],
-                        s->stiffness[1][0],
-                        s->stiffness[1][1],
-                        s->residual,
-                        s->max_utilisation};
+    double d[STATE_DOUBLES];
+    state_doubles(s, d);
     for (size_t i = 0; i < sizeof d / sizeof d[0]; i++)
         if (!isfinite(d[i]))
             return 0;

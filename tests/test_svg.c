@@ -10,17 +10,9 @@
 #include <stdlib.h>
 #include <string.h>
 #include <cmocka.h>
+#include "support.h"
 #include "holdfast/svg.h"
 #include "xml_check.h"
-
-static void assert_well_formed(const char *doc)
-{
-    const char *m = hf_test_xml_check(doc);
-    if (m) {
-        print_error("not well-formed XML: %s\n", m);
-        fail();
-    }
-}
 
 /* The checker itself must reject broken documents, or the checks above
  * could not fail. */
@@ -55,18 +47,6 @@ static void test_xml_checker_rejects(void **state)
 }
 
 /* ---- reading an SVG back --------------------------------------------------- */
-
-static char *slurp(FILE *f)
-{
-    long n = ftell(f);
-    assert_true(n > 0);
-    rewind(f);
-    char *s = malloc((size_t)n + 1);
-    assert_non_null(s);
-    assert_int_equal(fread(s, 1, (size_t)n, f), (size_t)n);
-    s[n] = '\0';
-    return s;
-}
 
 /* Value of attribute `name` in the tag starting at tag (up to its '>'). */
 static int attr(const char *tag, const char *name, char *buf, size_t cap)
@@ -411,8 +391,8 @@ static void test_polyline_points_within_half_pixel(void **state)
     hf_svg_begin(f, 700, 500, "t", 1);
     hf_svg_polyline(f, &a, x, 1, y, 1, N, hf_svg_colour(0), 2, "");
     hf_svg_end(f);
-    char *svg = slurp(f);
-    assert_well_formed(svg);
+    char *svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
     long n0 = polyline_points(svg, NULL, 0, px, py, N);
     long n1 = polyline_points(svg, NULL, 1, px + 700, py + 700, N - 700);
     assert_int_equal(n0, 700);
@@ -452,8 +432,8 @@ static void test_polyline_dense_keeps_envelope(void **state)
     hf_svg_begin(f, 700, 500, NULL, 1);
     hf_svg_polyline(f, &a, x, 1, y, 1, N, "#000000", 1, "");
     hf_svg_end(f);
-    char *svg = slurp(f);
-    assert_well_formed(svg);
+    char *svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
     long m = polyline_points(svg, NULL, 0, px, py, N);
     assert_true(m > 540 && m <= 4 * 542);
     static double lo[700], hi[700], dlo[700], dhi[700];
@@ -506,8 +486,8 @@ static void test_escape_and_text(void **state)
     hf_svg_text(f, 10, 20, 's', 12, 0, 0, "a<b & c>d \x01\x7f tab\there");
     hf_svg_text(f, 10, 40, 'm', 12, 1, -90, "déjà vu, 30°");
     hf_svg_end(f);
-    char *svg = slurp(f);
-    assert_well_formed(svg);
+    char *svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
     assert_non_null(strstr(svg, "<title>R&amp;D &lt;&quot;quoted&quot;&gt; &#39;x&#39;</title>"));
     assert_non_null(strstr(svg, ">a&lt;b &amp; c&gt;d ?? tab\there</text>"));
     assert_non_null(strstr(svg, "déjà vu, 30°"));
@@ -595,8 +575,8 @@ static void test_figure_elevation(void **state)
     assert_non_null(f);
     hf_error err;
     assert_int_equal(hf_svg_figure_elevation(f, &e, 1, &err), HF_OK);
-    char *svg = slurp(f);
-    assert_well_formed(svg);
+    char *svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
     assert_non_null(strstr(svg, "Line &quot;bow-port&quot; &amp; co &lt;rest&gt;"));
     assert_non_null(strstr(svg, ">still water level<"));
     assert_non_null(strstr(svg, ">touchdown<"));
@@ -698,8 +678,8 @@ static void test_figure_plan(void **state)
     FILE *f = tmpfile();
     assert_non_null(f);
     assert_int_equal(hf_svg_figure_plan(f, &p, 1, NULL), HF_OK);
-    char *svg = slurp(f);
-    assert_well_formed(svg);
+    char *svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
     assert_non_null(strstr(svg, "L01 &lt;g0&gt;"));
     assert_non_null(strstr(svg, "L05 &lt;g1&gt; (broken)"));
     assert_non_null(strstr(svg, "load: storm &amp; swell"));
@@ -755,8 +735,8 @@ static void test_figure_plan_outline_and_errors(void **state)
     FILE *f = tmpfile();
     assert_non_null(f);
     assert_int_equal(hf_svg_figure_plan(f, &p, 0, NULL), HF_OK);
-    char *svg = slurp(f);
-    assert_well_formed(svg);
+    char *svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
     assert_null(strstr(svg, "<?xml")); /* inline form */
     assert_non_null(strstr(svg, ">line 2<"));
     assert_non_null(strstr(svg, "Grey: hull outline"));
@@ -816,8 +796,8 @@ static void test_figure_curve(void **state)
     FILE *f = tmpfile();
     assert_non_null(f);
     assert_int_equal(hf_svg_figure_curve(f, &c, 1, NULL), HF_OK);
-    char *svg = slurp(f);
-    assert_well_formed(svg);
+    char *svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
     assert_non_null(strstr(svg, ">limit 60 % (factor 1.67)<"));
     assert_non_null(strstr(svg, ">allowed 2100 kN<"));
     assert_non_null(strstr(svg, ">allowed 3400 kN<"));
@@ -841,8 +821,8 @@ static void test_figure_curve(void **state)
     hf_svg_curve c1 = {"Force only", N, off, force, NULL, 0, NULL, NULL, NULL, 0, NULL, NULL};
     f = tmpfile();
     assert_int_equal(hf_svg_figure_curve(f, &c1, 1, NULL), HF_OK);
-    svg = slurp(f);
-    assert_well_formed(svg);
+    svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
     assert_null(strstr(svg, "Stiffness"));
     free(svg);
     fclose(f);
@@ -878,8 +858,8 @@ static void test_figure_sweep(void **state)
     FILE *f = tmpfile();
     assert_non_null(f);
     assert_int_equal(hf_svg_figure_sweep(f, &s, 1, NULL), HF_OK);
-    char *svg = slurp(f);
-    assert_well_formed(svg);
+    char *svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
     assert_non_null(strstr(svg, ">depth = 75 m<"));
     assert_non_null(strstr(svg, ">water depth<"));
     fit fx = axis_fit(svg, 1, -1, 0, 0), fy = axis_fit(svg, 0, -1, 0, 0);
@@ -895,8 +875,8 @@ static void test_figure_sweep(void **state)
     hf_svg_sweep one = {"One", "x (m)", "y (N)", 1, 1, x, y, NULL, NULL, 0, 0, NULL};
     f = tmpfile();
     assert_int_equal(hf_svg_figure_sweep(f, &one, 1, NULL), HF_OK);
-    svg = slurp(f);
-    assert_well_formed(svg);
+    svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
     free(svg);
     fclose(f);
 }
@@ -911,8 +891,8 @@ static void test_figures_degenerate(void **state)
     hf_svg_elevation e = {"hanging", v, 3, 12.5, 0, 0, 0};
     FILE *f = tmpfile();
     assert_int_equal(hf_svg_figure_elevation(f, &e, 1, NULL), HF_OK);
-    char *svg = slurp(f);
-    assert_well_formed(svg);
+    char *svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
     free(svg);
     fclose(f);
 
@@ -920,8 +900,8 @@ static void test_figures_degenerate(void **state)
     hf_svg_curve c = {"flat", 4, off, zero, zero, 1, NULL, t, zero, 0.5, NULL, NULL};
     f = tmpfile();
     assert_int_equal(hf_svg_figure_curve(f, &c, 1, NULL), HF_OK);
-    svg = slurp(f);
-    assert_well_formed(svg);
+    svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
     free(svg);
     fclose(f);
 
@@ -943,8 +923,8 @@ static void test_figures_degenerate(void **state)
                      NULL};
     f = tmpfile();
     assert_int_equal(hf_svg_figure_plan(f, &p, 1, NULL), HF_OK);
-    svg = slurp(f);
-    assert_well_formed(svg);
+    svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
     assert_null(strstr(svg, "<title>")); /* no title given: none written */
     free(svg);
     fclose(f);

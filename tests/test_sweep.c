@@ -8,40 +8,16 @@
 #include <stdlib.h>
 #include <string.h>
 #include <cmocka.h>
+#include "support.h"
 #include "holdfast/alloc.h"
 #include "holdfast/case.h"
 #include "holdfast/invert.h"
 #include "holdfast/spread.h"
 #include "holdfast/sweep.h"
 
-/* A fictional three-line buoy mooring (invented site "Quarrel Point"):
- * three-section lines (chain, wire, chain) with a clump at the first joint. */
-static const char case_text[] =
-    "title: Tri-line buoy at Quarrel Point (fictional)\n"
-    "site: {depth: 62 m}\n"
-    "components:\n"
-    "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n"
-    "  wire64: {type: spiral_strand, diameter: 64 mm}\n"
-    "lines:\n"
-    "  - name: north\n"
-    "    anchor: [0 m, 420 m]\n"
-    "    fairlead: [0 m, 4 m, -8 m]\n"
-    "    sections: [{component: chain76, length: 160 m}, {clump: 60 kN},\n"
-    "               {component: wire64, length: 160 m}, {component: chain76, length: 112 m}]\n"
-    "  - name: southwest\n"
-    "    anchor: [-363.7 m, -210 m]\n"
-    "    fairlead: [-3.46 m, -2 m, -8 m]\n"
-    "    sections: [{component: chain76, length: 160 m}, {clump: 60 kN},\n"
-    "               {component: wire64, length: 160 m}, {component: chain76, length: 112 m}]\n"
-    "  - name: southeast\n"
-    "    anchor: [363.7 m, -210 m]\n"
-    "    fairlead: [3.46 m, -2 m, -8 m]\n"
-    "    sections: [{component: chain76, length: 160 m}, {clump: 60 kN},\n"
-    "               {component: wire64, length: 160 m}, {component: chain76, length: 112 m}]\n"
-    "loads:\n"
-    "  - {name: gale, force: 400 kN, direction: 30 deg}\n"
-    "criteria: {preset: api-rp-2sk}\n";
-
+/* The model: hf_test_case_quarrel (support.h), a fictional three-line buoy
+ * mooring (invented site "Quarrel Point"): three-section lines (chain, wire,
+ * chain) with a clump at the first joint. */
 static hf_model model;
 
 static int setup(void **s)
@@ -49,7 +25,8 @@ static int setup(void **s)
     (void)s;
     hf_model_init(&model);
     hf_error e;
-    if (hf_case_load_buffer(case_text, strlen(case_text), "quarrel.yaml", &model, &e) != HF_OK) {
+    const char *text = hf_test_case_quarrel;
+    if (hf_case_load_buffer(text, strlen(text), "quarrel.yaml", &model, &e) != HF_OK) {
         fprintf(stderr, "%s\n", e.text);
         return -1;
     }
