@@ -361,24 +361,28 @@ hf_status hf_spread_stiffness(hf_spread *ws, const hf_pose *pose, double K[6][6]
             G[2][a] = -kzx * u[a];
         }
         G[2][2] = -kzz;
-        for (int k = 0; k < 6; k++) {
-            double J[3] = {0.0, 0.0, 0.0};  /* d(fairlead)/dq_k */
-            double dr[3] = {0.0, 0.0, 0.0}; /* d(arm)/dq_k */
-            if (k < 3) {
-                J[k] = 1.0;
-            } else {
-                cross(axis[k - 3], r, J);
-                dr[0] = J[0], dr[1] = J[1], dr[2] = J[2];
-            }
-            double df[3];
-            for (int a = 0; a < 3; a++)
-                df[a] = G[a][0] * J[0] + G[a][1] * J[1] + G[a][2] * J[2];
-            double m1[3], m2[3];
-            cross(dr, f, m1);
+        /* Translations q_k (k < 3): the fairlead moves by e_k, the arm not:
+         * dF = G e_k, dM = r x dF. */
+        for (int k = 0; k < 3; k++) {
+            double df[3] = {G[0][k], G[1][k], G[2][k]}, m2[3];
             cross(r, df, m2);
             for (int a = 0; a < 3; a++) {
                 K[a][k] -= df[a];
-                K[3 + a][k] -= m1[a] + m2[a];
+                K[3 + a][k] -= m2[a];
+            }
+        }
+        /* Rotations: fairlead and arm move by J = axis x r;
+         * dF = G J, dM = J x f + r x dF. */
+        for (int j = 0; j < 3; j++) {
+            double J[3], df[3], m1[3], m2[3];
+            cross(axis[j], r, J);
+            for (int a = 0; a < 3; a++)
+                df[a] = G[a][0] * J[0] + G[a][1] * J[1] + G[a][2] * J[2];
+            cross(J, f, m1);
+            cross(r, df, m2);
+            for (int a = 0; a < 3; a++) {
+                K[a][3 + j] -= df[a];
+                K[3 + a][3 + j] -= m1[a] + m2[a];
             }
         }
     }
