@@ -143,13 +143,6 @@ hf_status hf_study_shard_parse(const char *text, unsigned *k, unsigned *n, hf_er
     return HF_OK;
 }
 
-int hf_study_format_number(char *buf, size_t cap, double v)
-{
-    if (v == 0.0)
-        v = 0.0; /* -0 prints as 0 */
-    return snprintf(buf, cap, "%.10g", v);
-}
-
 int hf_study_default_jobs(void)
 {
     int n = omp_get_num_procs();

@@ -185,20 +185,6 @@ static void test_shard_parse(void **s)
         assert_int_equal(hf_study_shard_parse(bad[i], &k, &n, &e), HF_EINVAL);
 }
 
-static void test_format(void **s)
-{
-    (void)s;
-    char b[32];
-    hf_study_format_number(b, sizeof b, -0.0);
-    assert_string_equal(b, "0");
-    hf_study_format_number(b, sizeof b, 1.0 / 3.0);
-    assert_string_equal(b, "0.3333333333"); /* 10 significant digits */
-    hf_study_format_number(b, sizeof b, 2.385e-7);
-    assert_string_equal(b, "2.385e-07");
-    hf_study_format_number(b, sizeof b, 900000.0);
-    assert_string_equal(b, "900000");
-}
-
 /* A synthetic row function whose value depends on the warm-start history of
  * its chain, as a real solver's last bits can: a wrong chain rebuild or a
  * thread-dependent history changes the text. */
@@ -375,7 +361,6 @@ int main(void)
         cmocka_unit_test(test_grid_errors),
         cmocka_unit_test(test_shard_range),
         cmocka_unit_test(test_shard_parse),
-        cmocka_unit_test(test_format),
         cmocka_unit_test(test_stream_order_and_jobs),
         cmocka_unit_test(test_stream_shards_concatenate),
         cmocka_unit_test(test_stream_errors),

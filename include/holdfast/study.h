@@ -71,10 +71,6 @@ void hf_study_shard_range(uint64_t total, unsigned k, unsigned n, uint64_t *begi
  * HF_EINVAL with a message otherwise. */
 hf_status hf_study_shard_parse(const char *text, unsigned *k, unsigned *n, hf_error *err);
 
-/* Formats an SI number for CSV into buf (cap >= 32): shortest "%.*g" form with
- * 10 significant digits ("-0" printed as "0").  Returns the length. */
-int hf_study_format_number(char *buf, size_t cap, double v);
-
 /* A row function formats case k into buf (capacity cap, including the final
  * '\0'), ending with '\n', and returns the number of bytes written (without
  * the '\0').  It must return a value >= cap (or < 0) only when the row does
