@@ -79,7 +79,7 @@ tests: $(TEST_BIN) $(BIN)
 
 # Every test binary runs even when one fails; the summary line counts them.
 check: tests
-	@HF_BIN=$(abspath $(BIN)) HF_ROOT=$(CURDIR) sh scripts/run-tests.sh $(TEST_BIN)
+	@HF_BIN=$(abspath $(BIN)) HF_ROOT=$(CURDIR) sh scripts/run-tests.sh $(TEST_BIN) tests/golden.sh
 
 demo: $(BIN)
 	./$(BIN) run cases/barge.yaml --out barge-results
