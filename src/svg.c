@@ -663,20 +663,23 @@ void hf_svg_legend(FILE *out, double x, double y, const char *const *names, cons
 
 /* ---- figure helpers ----------------------------------------------------- */
 
-/* The figure title at the top left, shortened with "..." to the width
- * available (bold 15 px DejaVu Sans averages under 0.62 em a character);
- * the cut never splits a UTF-8 sequence. */
-static void title(FILE *out, double width, const char *text)
+/* Text at (x, y), anchored at its start, shortened with "..." to fit the
+ * width from x to `right` - 20 px (DejaVu Sans averages under 0.62 em a
+ * character); the cut never splits a UTF-8 sequence. */
+static void clipped(FILE *out, double x, double y, double size, int bold, double right,
+                    const char *text)
 {
     char buf[512];
-    size_t max = (size_t)((width - 40) / (0.62 * TITLE_PX));
+    size_t max = (size_t)((right - x - 20) / (0.62 * size));
     if (!text)
         return;
     if (max > sizeof buf - 4)
         max = sizeof buf - 4;
+    if (max < 4)
+        max = 4;
     size_t n = strlen(text);
     if (n <= max) {
-        hf_svg_text(out, 20, 28, 's', TITLE_PX, 1, 0, text);
+        hf_svg_text(out, x, y, 's', size, bold, 0, text);
         return;
     }
     n = max - 3;
@@ -684,7 +687,13 @@ static void title(FILE *out, double width, const char *text)
         n--;
     memcpy(buf, text, n);
     memcpy(buf + n, "...", 4);
-    hf_svg_text(out, 20, 28, 's', TITLE_PX, 1, 0, buf);
+    hf_svg_text(out, x, y, 's', size, bold, 0, buf);
+}
+
+/* The figure title at the top left, shortened to the figure's width. */
+static void title(FILE *out, double width, const char *text)
+{
+    clipped(out, 20, 28, TITLE_PX, 1, width, text);
 }
 
 /* Range of n values at stride st, skipping non-finite ones; returns the
@@ -721,19 +730,140 @@ static void caption(FILE *out, double x, double y, const char *text)
     hf_svg_text(out, x, y, 's', TICK_PX, 0, 0, text);
 }
 
+/* ---- label placement and overload marks ------------------------------------ */
+
+/* A pixel rectangle. */
+typedef struct {
+    double x0, y0, x1, y1;
+} rect;
+
+/* The box a text of `size` px takes at (x, y) with the given anchor, from
+ * the same 0.62 em a character estimate as the axes, with 2 px to spare. */
+static rect text_rect(double x, double y, char anchor, double size, const char *s)
+{
+    double w = 0.62 * size * (double)strlen(s);
+    double x0 = anchor == 'e' ? x - w : anchor == 'm' ? x - 0.5 * w : x;
+    rect r = {x0 - 2, y - 0.8 * size - 1, x0 + w + 2, y + 0.25 * size + 1};
+    return r;
+}
+
+/* 1 when the segment (x0, y0)-(x1, y1) meets r (Liang & Barsky (1984)
+ * parametric clipping). */
+static int seg_meets(rect r, double x0, double y0, double x1, double y1)
+{
+    double t0 = 0, t1 = 1, dx = x1 - x0, dy = y1 - y0;
+    double p[4] = {-dx, dx, -dy, dy}, q[4] = {x0 - r.x0, r.x1 - x0, y0 - r.y0, r.y1 - y0};
+    for (int i = 0; i < 4; i++) {
+        if (p[i] == 0) {
+            if (q[i] < 0)
+                return 0;
+            continue;
+        }
+        double t = q[i] / p[i];
+        if (p[i] < 0 && t > t0)
+            t0 = t;
+        if (p[i] > 0 && t < t1)
+            t1 = t;
+        if (t0 > t1)
+            return 0;
+    }
+    return 1;
+}
+
+/* A label test: 1 when box r is clear of whatever ctx describes. */
+typedef int (*clear_fn)(const void *ctx, rect r);
+
+/* The label of a reference line at pixel row py across panel a: end-anchored
+ * at the first of nine positions from the right end to the left end, above
+ * the line, then below it, whose box is inside the panel and clear (ok);
+ * when none is, written under the panel's axis label as "dash-dot line: ...",
+ * one row of 14 px per `slot` (the caller's count of such lines). */
+static void ref_label(FILE *out, const hf_svg_axes *a, double py, const char *lab, clear_fn ok,
+                      const void *ctx, int slot)
+{
+    double w = 0.62 * TICK_PX * (double)strlen(lab) + 8, right = a->left + a->width - 4;
+    double room = a->width - w > 0 ? a->width - w : 0;
+    for (int below = 0; below < 2; below++)
+        for (int k = 0; k <= 8; k++) {
+            double xe = right - k * room / 8, y = below ? py + 15 : py - 5;
+            rect r = text_rect(xe, y, 'e', TICK_PX, lab);
+            if (r.y0 >= a->top - 4 && r.y1 <= a->top + a->height && ok(ctx, r)) {
+                text_ex(out, xe, y, 'e', TICK_PX, 0, 0, 1, lab);
+                return;
+            }
+        }
+    char buf[96];
+    snprintf(buf, sizeof buf, "dash-dot line: %s", lab);
+    hf_svg_text(out, a->left, a->top + a->height + 58 + 14.0 * slot, 's', TICK_PX, 0, 0, buf);
+}
+
+/* A cross (x) of half-size r px centred on (px, py), black on a white halo:
+ * the mark of an overloaded point. */
+static void cross(FILE *out, double px, double py, double r)
+{
+    for (int k = 0; k < 2; k++) {
+        fputs("<path d=\"M", out);
+        putnum(out, clampp(px - r));
+        putc(' ', out);
+        putnum(out, clampp(py - r));
+        fputs("L", out);
+        putnum(out, clampp(px + r));
+        putc(' ', out);
+        putnum(out, clampp(py + r));
+        fputs("M", out);
+        putnum(out, clampp(px - r));
+        putc(' ', out);
+        putnum(out, clampp(py + r));
+        fputs("L", out);
+        putnum(out, clampp(px + r));
+        putc(' ', out);
+        putnum(out, clampp(py - r));
+        fprintf(out, "\" stroke=\"%s\" stroke-width=\"%s\" stroke-linecap=\"round\"/>\n",
+                k ? INK : "#ffffff", k ? "2.2" : "5");
+    }
+}
+
+/* The key entry of the overload mark at pixel (x, y) (top left). */
+static void key_overloaded(FILE *out, double x, double y)
+{
+    cross(out, x + 13, y + 9, 5);
+    hf_svg_text(out, x + 32, y + 13, 's', TICK_PX, 0, 0, "overloaded");
+    hf_svg_text(out, x + 32, y + 29, 's', 11, 0, 0, "(tension >= MBL)");
+}
+
 /* ---- (1) elevation -------------------------------------------------------- */
 
 #define EL_W 880.0
-#define EL_H 640.0
+#define EL_H 680.0
 #define EL_BINS 48
+#define EL_LOW_H 170.0 /* tension panel height, px */
+#define EL_BAR_X 730.0 /* colour bar (and legend) column */
 
 /* The elevation's layout, worked out once before anything is written. */
 typedef struct {
     hf_svg_axes top, low; /* the line's panel and the tension panel */
-    double tmin, tmax;    /* tension range along the line, N */
-    double tl;            /* allowed tension, kN (0 = none) */
-    int limit_on_scale;   /* 1: the limit is drawn on the tension panel */
+    double tmin, tmax;    /* tension range along the line(s), N */
+    const hf_svg_elevation *e; /* the lines drawn (1, or n overlaid) */
+    size_t n;
 } elev;
+
+/* Section of profile point p: the first whose end is not before it. */
+static size_t section_of(const hf_svg_elevation *e, const hf_line_point *p)
+{
+    size_t s = 0;
+    while (s + 1 < e->nsections && p->arc > e->sections[s].end_arc * (1 + 1e-12) + 1e-9)
+        s++;
+    return s;
+}
+
+/* 1 when point i of e is overloaded: tension >= the MBL of its section. */
+static int overloaded(const hf_svg_elevation *e, size_t i)
+{
+    if (!e->nsections)
+        return 0;
+    double mbl = e->sections[section_of(e, &e->pts[i])].mbl;
+    return mbl > 0 && e->pts[i].tension >= mbl;
+}
 
 /* Validates e; HF_OK or HF_EINVAL with a message. */
 static hf_status elev_check(const hf_svg_elevation *e, hf_error *err)
@@ -747,6 +877,17 @@ static hf_status elev_check(const hf_svg_elevation *e, hf_error *err)
     if (!isfinite(e->tension_limit) || e->tension_limit < 0.0 ||
         (e->has_touchdown && !isfinite(e->touchdown_x)))
         return hf_error_set(err, HF_EINVAL, "elevation figure: limit or touchdown not finite");
+    if (e->nsections && !e->sections)
+        return hf_error_set(err, HF_EINVAL, "elevation figure: sections missing");
+    for (size_t s = 0; s < e->nsections; s++) {
+        const hf_svg_section *q = &e->sections[s];
+        if (!isfinite(q->end_arc) || !isfinite(q->mbl) || q->mbl < 0 || !isfinite(q->allowed) ||
+            q->allowed < 0 || (s && !(q->end_arc > e->sections[s - 1].end_arc)))
+            return hf_error_set(err, HF_EINVAL,
+                                "elevation figure: section %zu: expected increasing ends and "
+                                "finite MBL and allowed tension >= 0",
+                                s);
+    }
     for (size_t i = 0; i < e->npts; i++) {
         const hf_line_point *p = &e->pts[i];
         if (!isfinite(p->x) || !isfinite(p->z) || !isfinite(p->tension) || !isfinite(p->arc))
@@ -756,40 +897,92 @@ static hf_status elev_check(const hf_svg_elevation *e, hf_error *err)
     return HF_OK;
 }
 
-/* The two panels' axes: the line over the water depth, the tension below
- * sharing its horizontal axis. */
-static hf_status elev_layout(const hf_svg_elevation *e, elev *L, hf_error *err)
+/* Largest allowed tension of e, N (0 = none). */
+static double elev_allowed_max(const hf_svg_elevation *e)
 {
-    double xmin = 0, xmax = 0, zmin = 0, zmax = e->water_height;
-    for (size_t i = 0; i < e->npts; i++) {
-        const hf_line_point *p = &e->pts[i];
-        xmin = fmin(xmin, p->x);
-        xmax = fmax(xmax, p->x);
-        zmin = fmin(zmin, p->z);
-        zmax = fmax(zmax, p->z);
-        L->tmin = i ? fmin(L->tmin, p->tension) : p->tension;
-        L->tmax = i ? fmax(L->tmax, p->tension) : p->tension;
+    double m = e->nsections ? 0.0 : e->tension_limit;
+    for (size_t s = 0; s < e->nsections; s++)
+        m = fmax(m, e->sections[s].allowed);
+    return m;
+}
+
+/* The two panels' axes over every line drawn: the lines over the water
+ * depth from `top` px down, the tension below sharing the horizontal axis
+ * and reaching the largest allowed tension, so every limit is drawn. */
+static hf_status elev_layout(elev *L, double top, hf_error *err)
+{
+    double xmin = 0, xmax = 0, zmin = 0, zmax = L->e[0].water_height, amax = 0;
+    int first = 1;
+    for (size_t k = 0; k < L->n; k++) {
+        const hf_svg_elevation *e = &L->e[k];
+        for (size_t i = 0; i < e->npts; i++, first = 0) {
+            const hf_line_point *p = &e->pts[i];
+            xmin = fmin(xmin, p->x);
+            xmax = fmax(xmax, p->x);
+            zmin = fmin(zmin, p->z);
+            zmax = fmax(zmax, p->z);
+            L->tmin = first ? p->tension : fmin(L->tmin, p->tension);
+            L->tmax = first ? p->tension : fmax(L->tmax, p->tension);
+        }
+        amax = fmax(amax, elev_allowed_max(e));
     }
     /* The seabed is the bottom of the panel (z = 0 unless the profile dips). */
-    hf_status s = hf_svg_axes_init(&L->top, 90, 84, 600, 270, xmin, xmax, zmin, zmax * 1.04, 0, err);
+    hf_status s = hf_svg_axes_init(&L->top, 90, top, 600, 270, xmin, xmax, zmin, zmax * 1.04, 0, err);
     if (s != HF_OK)
         return s;
-    L->tl = e->tension_limit / 1e3;
-    /* A limit far above the tensions would flatten the curve: then it is
-     * stated in words instead of drawn. */
-    L->limit_on_scale = L->tl > 0 && L->tl <= 2.5 * L->tmax / 1e3;
-    double t1 = fmax(L->tmax / 1e3, L->limit_on_scale ? L->tl : 0.0) * 1.05;
+    double t1 = fmax(L->tmax, amax) / 1e3 * 1.05;
     if (t1 <= 0.0)
         t1 = 1.0;
-    s = hf_svg_axes_init(&L->low, 90, 430, 600, 140, L->top.xt.lo, L->top.xt.hi, 0.0, t1, 0, err);
+    s = hf_svg_axes_init(&L->low, 90, top + 346, 600, EL_LOW_H, L->top.xt.lo, L->top.xt.hi, 0.0,
+                         t1, 0, err);
     /* Share the horizontal axis exactly. */
     L->low.xt = L->top.xt;
     return s;
 }
 
+/* 1 when a label box r in the top panel is clear of the still water level,
+ * the seabed, every line drawn, and the colour bar column. */
+static int elev_clear(const elev *L, rect r)
+{
+    const hf_svg_axes *a = &L->top;
+    double sw = hf_svg_axes_py(a, L->e[0].water_height), sb = hf_svg_axes_py(a, 0.0);
+    double xl = a->left, xr = a->left + a->width;
+    if (r.x1 > EL_BAR_X - 8 || r.x0 < 4 || r.y0 < a->top - 20)
+        return 0;
+    if (seg_meets(r, xl, sw, xr, sw) || seg_meets(r, xl, sb - 2, xr, sb - 2))
+        return 0;
+    for (size_t k = 0; k < L->n; k++) {
+        const hf_line_point *p = L->e[k].pts;
+        for (size_t i = 0; i + 1 < L->e[k].npts; i++)
+            if (seg_meets(r, hf_svg_axes_px(a, p[i].x), hf_svg_axes_py(a, p[i].z),
+                          hf_svg_axes_px(a, p[i + 1].x), hf_svg_axes_py(a, p[i + 1].z)))
+                return 0;
+    }
+    return 1;
+}
+
+/* A label offset from pixel (px, py): the first of the candidate spots
+ * (dx, dy, anchor) whose box is clear (elev_clear), else the first. */
+typedef struct {
+    double dx, dy;
+    char anchor;
+} spot;
+
+static void elev_label(FILE *out, const elev *L, double px, double py, const spot *c, size_t nc,
+                       const char *text)
+{
+    size_t k = 0;
+    for (size_t i = 0; i < nc; i++)
+        if (elev_clear(L, text_rect(px + c[i].dx, py + c[i].dy, c[i].anchor, TICK_PX, text))) {
+            k = i;
+            break;
+        }
+    text_ex(out, px + c[k].dx, py + c[k].dy, c[k].anchor, TICK_PX, 0, 0, 1, text);
+}
+
 /* Caption, seabed (a sand band under it when the axis reaches below), the
- * elevation axes and the still water level. */
-static void elev_ground(FILE *out, const hf_svg_elevation *e, const elev *L)
+ * elevation axes and the still water level, with their labels. */
+static void elev_ground(FILE *out, const elev *L)
 {
     const hf_svg_axes *top = &L->top;
     double hx = top->width / (top->xt.hi - top->xt.lo), hz = top->height / (top->yt.hi - top->yt.lo);
@@ -815,11 +1008,14 @@ static void elev_ground(FILE *out, const hf_svg_elevation *e, const elev *L)
     }
     hf_svg_axes_draw(out, top, "horizontal distance from the anchor (m)",
                      "height above the seabed (m)", "Elevation");
-    seg(out, top->left, sb, top->left + top->width, sb, SEABED, 4, "");
-    text_ex(out, top->left + top->width - 4, sb - 8, 'e', TICK_PX, 0, 0, 1, "seabed");
-    double sw = hf_svg_axes_py(top, e->water_height);
-    seg(out, top->left, sw, top->left + top->width, sw, WATER, 1.5, "9 4");
-    text_ex(out, top->left + 6, sw - 6, 's', TICK_PX, 0, 0, 1, "still water level");
+    double xr = top->left + top->width;
+    seg(out, top->left, sb, xr, sb, SEABED, 4, "");
+    double sw = hf_svg_axes_py(top, L->e[0].water_height);
+    seg(out, top->left, sw, xr, sw, WATER, 1.5, "9 4");
+    static const spot sbs[] = {{-4, -8, 'e'}, {-150, -8, 'e'}, {-300, -8, 'e'}, {-4, 16, 'e'}};
+    elev_label(out, L, xr, sb, sbs, 4, "seabed");
+    static const spot sws[] = {{6, -6, 's'}, {6, 16, 's'}, {200, -6, 's'}, {200, 16, 's'}};
+    elev_label(out, L, top->left, sw, sws, 4, "still water level");
 }
 
 /* The line coloured by tension: consecutive segments of one colour bin share
@@ -856,16 +1052,31 @@ static void elev_line(FILE *out, const hf_svg_elevation *e, const elev *L)
     fputs("\"/>\n", out);
 }
 
-/* Anchor, touchdown and fairlead markers. */
-static void elev_marks(FILE *out, const hf_svg_elevation *e, const elev *L)
+/* Label spots around a marker, the preferred first. */
+static const spot anchor_spots[] = {{10, -10, 's'}, {10, 18, 's'}, {-10, -10, 'e'}};
+static const spot touch_spots[] = {{-8, -10, 'e'}, {8, 18, 's'}, {-8, 18, 'e'}, {8, -10, 's'}};
+static const spot fair_spots[] = {{-10, -8, 'e'},  {-12, 4, 'e'},  {-10, 18, 'e'},
+                                  {-10, -20, 'e'}, {-40, -8, 'e'}, {-40, 20, 'e'}};
+
+/* Anchor, touchdown and fairlead markers of e, labelled when `labels`. */
+static void elev_marks(FILE *out, const hf_svg_elevation *e, const elev *L, int labels)
 {
     const hf_line_point *an = &e->pts[0], *fl = &e->pts[e->npts - 1];
-    hf_svg_marker(out, &L->top, an->x, an->z, HF_SVG_SQUARE, 11, INK, "anchor", 10, -10);
-    if (e->has_touchdown && e->touchdown_x > an->x)
-        /* labelled up and to the left: the line rises to the right */
-        hf_svg_marker(out, &L->top, e->touchdown_x, 0.0, HF_SVG_TRIANGLE, 12, "#ffffff",
-                      "touchdown", -8, -10);
-    hf_svg_marker(out, &L->top, fl->x, fl->z, HF_SVG_CIRCLE, 11, "#ffffff", "fairlead", -10, -8);
+    const hf_svg_axes *a = &L->top;
+    hf_svg_marker(out, a, an->x, an->z, HF_SVG_SQUARE, 11, INK, NULL, 0, 0);
+    if (labels)
+        elev_label(out, L, hf_svg_axes_px(a, an->x), hf_svg_axes_py(a, an->z), anchor_spots, 3,
+                   "anchor");
+    if (e->has_touchdown && e->touchdown_x > an->x) {
+        hf_svg_marker(out, a, e->touchdown_x, 0.0, HF_SVG_TRIANGLE, 12, "#ffffff", NULL, 0, 0);
+        if (labels)
+            elev_label(out, L, hf_svg_axes_px(a, e->touchdown_x), hf_svg_axes_py(a, 0.0),
+                       touch_spots, 4, "touchdown");
+    }
+    hf_svg_marker(out, a, fl->x, fl->z, HF_SVG_CIRCLE, 11, "#ffffff", NULL, 0, 0);
+    if (labels)
+        elev_label(out, L, hf_svg_axes_px(a, fl->x), hf_svg_axes_py(a, fl->z), fair_spots, 6,
+                   "fairlead");
 }
 
 /* The tension colour bar right of the elevation: its ends (tmin, tmax) and
@@ -873,7 +1084,7 @@ static void elev_marks(FILE *out, const hf_svg_elevation *e, const elev *L)
  * labels. */
 static void elev_colourbar(FILE *out, const elev *L)
 {
-    double bx = 730, by = L->top.top, bh = L->top.height, bw = 16, tr = L->tmax - L->tmin;
+    double bx = EL_BAR_X, by = L->top.top, bh = L->top.height, bw = 16, tr = L->tmax - L->tmin;
     char colour[8], lab[96];
     hf_svg_text(out, bx - 6, by - 12, 's', LABEL_PX, 1, 0, "tension (kN)");
     for (int k = 0; k < EL_BINS; k++) {
@@ -913,34 +1124,119 @@ static void elev_colourbar(FILE *out, const elev *L)
     }
 }
 
-/* A limit too far above the tensions to draw, stated in words: top right,
- * unless the curve runs through that corner, then top left (the label's band
- * is its estimated width by 20 px). */
-static void elev_limit_words(FILE *out, const hf_svg_elevation *e, const elev *L)
+/* 1 when a label box on the tension panel is clear of every tension curve. */
+static int low_clear(const elev *L, rect r)
 {
-    const hf_svg_axes *low = &L->low;
-    char lab[96];
-    snprintf(lab, sizeof lab, "allowed tension %.4g kN (%.2g times the largest here)", L->tl,
-             L->tl / (L->tmax / 1e3));
-    double wlab = 0.62 * TICK_PX * (double)strlen(lab) + 8.0;
-    int hit_right = 0, hit_left = 0;
-    for (size_t i = 0; i < e->npts; i++) {
-        double px = hf_svg_axes_px(low, e->pts[i].x);
-        double py = hf_svg_axes_py(low, e->pts[i].tension / 1e3);
-        if (py > low->top + 22.0)
-            continue;
-        if (px >= low->left + low->width - wlab)
-            hit_right = 1;
-        if (px <= low->left + wlab)
-            hit_left = 1;
+    const hf_svg_axes *a = &L->low;
+    if (r.x0 < a->left || r.x1 > a->left + a->width || r.y0 < a->top - 4)
+        return 0;
+    for (size_t k = 0; k < L->n; k++) {
+        const hf_line_point *p = L->e[k].pts;
+        for (size_t i = 0; i + 1 < L->e[k].npts; i++)
+            if (seg_meets(r, hf_svg_axes_px(a, p[i].x), hf_svg_axes_py(a, p[i].tension / 1e3),
+                          hf_svg_axes_px(a, p[i + 1].x),
+                          hf_svg_axes_py(a, p[i + 1].tension / 1e3)))
+                return 0;
     }
-    if (hit_right && !hit_left)
-        text_ex(out, low->left + 4, low->top + 14, 's', TICK_PX, 0, 0, 1, lab);
-    else
-        text_ex(out, low->left + low->width - 4, low->top + 14, 'e', TICK_PX, 0, 0, 1, lab);
+    return 1;
 }
 
-/* The tension panel, its title carrying the end tensions, and the limit. */
+/* One step of the allowed-tension line: allowed (kN) from pixel x0 to x1 on
+ * the tension panel, labelled with its value above or below when the label
+ * fits and is clear of the curves. */
+static void elev_step(FILE *out, const elev *L, double x0, double x1, double kn)
+{
+    double py = hf_svg_axes_py(&L->low, kn);
+    seg(out, x0, py, x1, py, REFLINE, 1.5, "8 3 2 3");
+    char lab[64];
+    snprintf(lab, sizeof lab, "allowed %.4g kN", kn);
+    double cx = 0.5 * (x0 + x1);
+    for (int k = 0; k < 2; k++) {
+        double y = k ? py + 15 : py - 5;
+        rect r = text_rect(cx, y, 'm', TICK_PX, lab);
+        if (r.x0 >= x0 - 2 && r.x1 <= x1 + 2 && low_clear(L, r)) {
+            text_ex(out, cx, y, 'm', TICK_PX, 0, 0, 1, lab);
+            return;
+        }
+    }
+}
+
+/* The allowed tension of each section (runs of equal value merged) as a
+ * dashed step line over the horizontal extent of the section's points;
+ * returns 1 when anything was drawn. */
+static int elev_allowed(FILE *out, const hf_svg_elevation *e, const elev *L)
+{
+    const hf_svg_axes *a = &L->low;
+    int drawn = 0;
+    double run = -1, x0 = 0, x1 = 0;
+    for (size_t i = 0; i <= e->npts; i++) {
+        double v = -1;
+        if (i < e->npts)
+            v = e->nsections ? e->sections[section_of(e, &e->pts[i])].allowed : e->tension_limit;
+        double px = i < e->npts ? hf_svg_axes_px(a, e->pts[i].x) : 0;
+        if (i < e->npts && v == run) {
+            x0 = fmin(x0, px);
+            x1 = fmax(x1, px);
+            continue;
+        }
+        if (run > 0 && x1 > x0) {
+            elev_step(out, L, x0, x1, run / 1e3);
+            drawn = 1;
+        }
+        run = v;
+        x0 = x1 = px;
+    }
+    return drawn;
+}
+
+/* Crosses on both panels at the overloaded points of e: every point of a
+ * run shorter than 3, else its first point and its largest tension.
+ * Returns the number of overloaded points. */
+static size_t elev_overloads(FILE *out, const hf_svg_elevation *e, const elev *L)
+{
+    size_t count = 0;
+    for (size_t i = 0; i < e->npts;) {
+        if (!overloaded(e, i)) {
+            i++;
+            continue;
+        }
+        size_t j = i, top = i;
+        while (j < e->npts && overloaded(e, j)) {
+            if (e->pts[j].tension > e->pts[top].tension)
+                top = j;
+            j++;
+        }
+        count += j - i;
+        for (size_t k = i; k < j; k++) {
+            if (j - i >= 3 && k != i && k != top)
+                continue;
+            const hf_line_point *p = &e->pts[k];
+            cross(out, hf_svg_axes_px(&L->top, p->x), hf_svg_axes_py(&L->top, p->z), 5);
+            cross(out, hf_svg_axes_px(&L->low, p->x), hf_svg_axes_py(&L->low, p->tension / 1e3),
+                  5);
+        }
+        i = j;
+    }
+    return count;
+}
+
+/* The key under the colour bar: the allowed-tension line and the overload
+ * mark, each when drawn. */
+static void elev_key(FILE *out, const elev *L, int allowed, int over)
+{
+    double x = EL_BAR_X - 16, y = L->low.top;
+    if (allowed) {
+        seg(out, x, y + 9, x + 26, y + 9, REFLINE, 1.5, "8 3 2 3");
+        hf_svg_text(out, x + 32, y + 13, 's', TICK_PX, 0, 0, "allowed tension");
+        hf_svg_text(out, x + 32, y + 29, 's', 11, 0, 0, "(MBL / factor)");
+        y += 40;
+    }
+    if (over)
+        key_overloaded(out, x, y);
+}
+
+/* The tension panel, its title carrying the end tensions, the allowed
+ * tensions and the overload marks, and the key. */
 static void elev_tension(FILE *out, const hf_svg_elevation *e, const elev *L)
 {
     char lab[96];
@@ -959,32 +1255,193 @@ static void elev_tension(FILE *out, const hf_svg_elevation *e, const elev *L)
         putnum(out, hf_svg_axes_py(&L->low, e->pts[i].tension / 1e3));
     }
     fputs("\"/>\n", out);
-    if (L->limit_on_scale) {
-        snprintf(lab, sizeof lab, "allowed tension %.4g kN", L->tl);
-        hf_svg_hline(out, &L->low, L->tl, lab);
-    } else if (L->tl > 0) {
-        elev_limit_words(out, e, L);
+    int allowed = elev_allowed(out, e, L);
+    size_t over = elev_overloads(out, e, L);
+    elev_key(out, L, allowed, over > 0);
+}
+
+/* Figure (1), with the names of the lines it stands for when n > 0 (the
+ * panels then start 16 px lower, under a caption listing them). */
+static hf_status elev_figure(FILE *out, const hf_svg_elevation *e, const char *const *names,
+                             size_t n, int standalone, hf_error *err)
+{
+    elev L = {.e = e, .n = 1};
+    double dy = n ? 16.0 : 0.0;
+    hf_status s = elev_check(e, err);
+    if (s == HF_OK)
+        s = elev_layout(&L, 84 + dy, err);
+    if (s != HF_OK)
+        return s;
+    hf_svg_begin(out, EL_W, EL_H + dy, e->title, standalone);
+    title(out, EL_W, e->title);
+    if (n) {
+        char buf[512];
+        int k = snprintf(buf, sizeof buf, "Drawn once for %zu line%s of the same make-up and "
+                                          "geometry:", n, n == 1 ? "" : "s");
+        for (size_t i = 0; i < n && k > 0 && (size_t)k < sizeof buf; i++)
+            k += snprintf(buf + k, sizeof buf - (size_t)k, "%s %s", i ? "," : "", names[i]);
+        clipped(out, 20, 64, TICK_PX, 0, EL_W, buf);
     }
+    elev_ground(out, &L);
+    elev_line(out, e, &L);
+    elev_marks(out, e, &L, 1);
+    elev_colourbar(out, &L);
+    elev_tension(out, e, &L);
+    hf_svg_end(out);
+    return HF_OK;
 }
 
 hf_status hf_svg_figure_elevation(FILE *out, const hf_svg_elevation *e, int standalone,
                                   hf_error *err)
 {
-    elev L;
-    hf_status s = elev_check(e, err);
-    if (s == HF_OK)
-        s = elev_layout(e, &L, err);
+    return elev_figure(out, e, NULL, 0, standalone, err);
+}
+
+hf_status hf_svg_figure_elevation_group(FILE *out, const hf_svg_elevation *e,
+                                        const char *const *names, size_t n, int standalone,
+                                        hf_error *err)
+{
+    if (!names || n < 1)
+        return hf_error_set(err, HF_EINVAL, "elevation figure: expected >= 1 line name");
+    for (size_t i = 0; i < n; i++)
+        if (!names[i])
+            return hf_error_set(err, HF_EINVAL, "elevation figure: line name %zu missing", i);
+    return elev_figure(out, e, names, n, standalone, err);
+}
+
+/* A profile as one series on axes a: height (tension 0) or tension in kN
+ * (tension 1) against horizontal distance, through the shared polyline
+ * writer. */
+static void profile_series(FILE *out, const hf_svg_axes *a, const hf_svg_elevation *e,
+                           int tension, const char *colour, double width, const char *dash)
+{
+    pline l = {out, colour, dash, width, 0, 0, 0, 0, {0}, {0}, {0}};
+    l.dense = (double)e->npts > 4.0 * a->width;
+    for (size_t i = 0; i < e->npts; i++) {
+        const hf_line_point *p = &e->pts[i];
+        pl_add(&l, i, hf_svg_axes_px(a, p->x),
+               hf_svg_axes_py(a, tension ? p->tension / 1e3 : p->z));
+    }
+    pl_close(&l);
+}
+
+static int low_clear_cb(const void *ctx, rect r)
+{
+    return low_clear((const elev *)ctx, r);
+}
+
+/* An allowed tension (kN) across the tension panel, its label placed clear
+ * of every tension curve (ref_label). */
+static void low_hline(FILE *out, const elev *L, double kn, int slot)
+{
+    const hf_svg_axes *a = &L->low;
+    double py = hf_svg_axes_py(a, kn);
+    seg(out, a->left, py, a->left + a->width, py, REFLINE, 1.5, "8 3 2 3");
+    char lab[64];
+    snprintf(lab, sizeof lab, "allowed %.4g kN", kn);
+    ref_label(out, a, py, lab, low_clear_cb, L, slot);
+}
+
+/* The overlay's tension panel: every line's tension in its series style,
+ * the distinct allowed tensions (up to 4) as reference lines, overload
+ * crosses; returns the number of overloaded points. */
+static size_t overlay_tension(FILE *out, const elev *L)
+{
+    hf_svg_axes_draw(out, &L->low, "horizontal distance from the anchor (m)", "tension (kN)",
+                     "Tension along each line");
+    double seen[4];
+    int ns = 0;
+    size_t over = 0;
+    for (size_t k = 0; k < L->n; k++) {
+        const hf_svg_elevation *e = &L->e[k];
+        profile_series(out, &L->low, e, 1, hf_svg_colour(k), 2, hf_svg_dash(k));
+        for (size_t s = 0; s < (e->nsections ? e->nsections : 1); s++) {
+            double v = e->nsections ? e->sections[s].allowed : e->tension_limit;
+            int dup = !(v > 0) || ns == 4;
+            for (int q = 0; q < ns; q++)
+                dup |= fabs(seen[q] - v) <= 1e-9 * v;
+            if (dup)
+                continue;
+            seen[ns++] = v;
+            low_hline(out, L, v / 1e3, ns - 1);
+        }
+    }
+    for (size_t k = 0; k < L->n; k++)
+        over += elev_overloads(out, &L->e[k], L);
+    return over;
+}
+
+hf_status hf_svg_figure_elevation_overlay(FILE *out, const char *title_text,
+                                          const hf_svg_elevation *e, const char *const *names,
+                                          size_t n, int standalone, hf_error *err)
+{
+    if (!e || n < 1)
+        return hf_error_set(err, HF_EINVAL, "elevation overlay: expected >= 1 line");
+    for (size_t k = 0; k < n; k++) {
+        hf_error sub;
+        hf_error_clear(&sub);
+        hf_status s = elev_check(&e[k], &sub);
+        if (s != HF_OK)
+            return hf_error_set(err, s, "elevation overlay, line %zu: %s", k + 1, sub.text);
+    }
+    elev L = {.e = e, .n = n};
+    hf_status s = elev_layout(&L, 84, err);
     if (s != HF_OK)
         return s;
-    hf_svg_begin(out, EL_W, EL_H, e->title, standalone);
-    title(out, EL_W, e->title);
-    elev_ground(out, e, &L);
-    elev_line(out, e, &L);
-    elev_marks(out, e, &L);
-    elev_colourbar(out, &L);
-    elev_tension(out, e, &L);
+    hf_svg_begin(out, EL_W, EL_H, title_text, standalone);
+    title(out, EL_W, title_text);
+    elev_ground(out, &L);
+    for (size_t k = 0; k < n; k++)
+        profile_series(out, &L.top, &e[k], 0, hf_svg_colour(k), 2.5, hf_svg_dash(k));
+    for (size_t k = 0; k < n; k++)
+        elev_marks(out, &e[k], &L, 0);
+    size_t over = overlay_tension(out, &L);
+    hf_svg_text(out, EL_BAR_X - 6, L.top.top - 12, 's', LABEL_PX, 1, 0, "Lines");
+    /* marker key under the legend (the markers are not labelled one by one) */
+    size_t fit = (size_t)((L.top.height - 60) / 18.0), shown = n < fit ? n : fit;
+    double ky = L.top.top + 18.0 * (double)shown + 12;
+    if (shown < n) {
+        char more[48];
+        snprintf(more, sizeof more, "... and %zu more", n - shown);
+        hf_svg_text(out, EL_BAR_X - 6, ky, 's', TICK_PX, 0, 0, more);
+        ky += 10;
+    }
+    static const char *const mk[3] = {"anchor", "touchdown", "fairlead"};
+    static const hf_svg_shape sh[3] = {HF_SVG_SQUARE, HF_SVG_TRIANGLE, HF_SVG_CIRCLE};
+    for (int q = 0; q < 3; q++) {
+        mark(out, EL_BAR_X + 7, ky + 9 + 18 * q, sh[q], 10, q ? "#ffffff" : INK);
+        hf_svg_text(out, EL_BAR_X + 26, ky + 13 + 18 * q, 's', TICK_PX, 0, 0, mk[q]);
+    }
+    hf_svg_legend(out, EL_BAR_X - 6, L.top.top, names, NULL, shown);
+    if (!names)
+        for (size_t k = 0; k < shown; k++) {
+            char lab[32];
+            snprintf(lab, sizeof lab, "line %zu", k + 1);
+            hf_svg_text(out, EL_BAR_X + 26, L.top.top + 18.0 * (double)k + 13, 's', TICK_PX, 0, 0,
+                        lab);
+        }
+    elev_key(out, &L, 0, over > 0);
     hf_svg_end(out);
     return HF_OK;
+}
+
+void hf_svg_direction_label(double rad, char *buf, size_t cap)
+{
+    if (!isfinite(rad)) {
+        snprintf(buf, cap, "?");
+        return;
+    }
+    /* reduce in degrees (exact fmod), then fold [-360, 0) up and -0 to 0 */
+    double d = fmod(rad * (180.0 / M_PI), 360.0);
+    if (d < 0)
+        d += 360.0;
+    if (d >= 360.0 || d == 0.0)
+        d = 0.0;
+    char tmp[32];
+    snprintf(tmp, sizeof tmp, "%.4g", d);
+    if (!strcmp(tmp, "360"))
+        snprintf(tmp, sizeof tmp, "0");
+    snprintf(buf, cap, "%s deg", tmp);
 }
 
 /* ---- (2) plan ------------------------------------------------------------- */
@@ -1133,15 +1590,15 @@ static void inset_lines(FILE *out, const hf_svg_plan *p, const hf_svg_axes *h)
              HF_SVG_CIRCLE, 6, "#ffffff");
 }
 
-/* A scale bar in the bottom-left corner of h: a round length of about a
- * third of the frame. */
+/* A scale bar under the frame of h, outside it so that no line crosses it:
+ * a round length of about a third of the frame. */
 static void scale_bar(FILE *out, const hf_svg_axes *h)
 {
     hf_svg_ticks sb;
     if (hf_svg_ticks_choose(0, (h->xt.hi - h->xt.lo) / 3, 2, &sb, NULL) != HF_OK)
         return;
     double L = sb.step, px = L / (h->xt.hi - h->xt.lo) * h->width;
-    double bx = h->left + 8, by = h->top + h->height - 10;
+    double bx = h->left, by = h->top + h->height + 12;
     seg(out, bx, by, bx + px, by, INK, 2.5, "");
     seg(out, bx, by - 4, bx, by + 2, INK, 1.5, "");
     seg(out, bx + px, by - 4, bx + px, by + 2, INK, 1.5, "");
@@ -1155,13 +1612,13 @@ static void scale_bar(FILE *out, const hf_svg_axes *h)
 /* The hull detail: the hull, its fairleads and the first part of each line
  * at a scale that shows them (the main plan is usually too small for that),
  * with a scale bar, the hull at rest dashed and the offset when given. */
-static void inset(FILE *out, const hf_svg_plan *p)
+static void inset(FILE *out, const hf_svg_plan *p, double y)
 {
     double b[4];
     inset_extent(p, b);
     double ext = fmax(fmax(b[1] - b[0], b[3] - b[2]), 1.0), pad = 0.3 * ext;
     hf_svg_axes h;
-    if (hf_svg_axes_init(&h, PL_KEY_X, PL_INSET_Y, PL_INSET, PL_INSET, b[0] - pad, b[1] + pad,
+    if (hf_svg_axes_init(&h, PL_KEY_X, y, PL_INSET, PL_INSET, b[0] - pad, b[1] + pad,
                          b[2] - pad, b[3] + pad, 1, NULL) != HF_OK)
         return;
     /* the title just above the (equal-scale) frame */
@@ -1185,7 +1642,7 @@ static void inset(FILE *out, const hf_svg_plan *p)
     if (p->has_load)
         arrow(out, rx, ry, cos(p->load_direction), -sin(p->load_direction), 40);
     scale_bar(out, &h);
-    double ty = h.top + h.height + 16;
+    double ty = h.top + h.height + 36;
     if (p->has_rest && finite_all(p->rest_reference, 2)) {
         char lab[96];
         snprintf(
@@ -1277,8 +1734,25 @@ static void plan_lines(FILE *out, const hf_svg_plan *p, const hf_svg_axes *a)
     }
 }
 
-/* The key at the top of the right-hand column. */
-static void plan_key(FILE *out, const hf_svg_plan *p)
+/* One entry of the plan's line key at (x, y): a sample drawn as line i is
+ * drawn, and its name. */
+static void key_line(FILE *out, const hf_svg_plan *p, size_t i, double x, double y)
+{
+    int broken = p->broken && p->broken[i];
+    seg(out, x, y + 9, x + 26, y + 9, broken ? "#999999" : hf_svg_colour(i), broken ? 1.5 : 2.5,
+        broken ? "3 3" : hf_svg_dash(i));
+    char name[160];
+    if (p->names)
+        snprintf(name, sizeof name, "%s%s", p->names[i], broken ? " (broken)" : "");
+    else
+        snprintf(name, sizeof name, "line %zu%s", i + 1, broken ? " (broken)" : "");
+    clipped(out, x + 32, y + 13, TICK_PX, 0, PL_W, name);
+}
+
+/* The key at the top of the right-hand column: markers, the load with its
+ * direction (0-360 deg, counter-clockwise from global x), and every line
+ * with its colour and dash.  Returns the y below the key. */
+static double plan_key(FILE *out, const hf_svg_plan *p)
 {
     double kx = PL_KEY_X, ky = 90;
     hf_svg_text(out, kx, ky, 's', LABEL_PX, 1, 0, "Key");
@@ -1288,12 +1762,33 @@ static void plan_key(FILE *out, const hf_svg_plan *p)
     hf_svg_text(out, kx + 18, ky + 42, 's', TICK_PX, 0, 0, "fairlead");
     mark(out, kx + 6, ky + 58, HF_SVG_DIAMOND, 9, INK);
     hf_svg_text(out, kx + 18, ky + 62, 's', TICK_PX, 0, 0, "hull reference point");
-    if (p->has_load) {
-        arrow(out, kx, ky + 78, 1, 0, 22);
-        hf_svg_text(out, kx + 28, ky + 82, 's', TICK_PX, 1, 0, "mean load toward");
-        hf_svg_text(out, kx + 28, ky + 98, 's', TICK_PX, 0, 0,
-                    p->load_label ? p->load_label : "load");
+    double y = ky + 70;
+    if (!p->noutline && p->nlines >= 3) { /* the hull drawn dashed through the fairleads */
+        fputs("<rect x=\"", out);
+        putnum(out, kx);
+        fputs("\" y=\"", out);
+        putnum(out, y + 3);
+        fputs("\" width=\"12\" height=\"10\" fill=\"" HULL_FILL "\" stroke=\"" INK
+              "\" stroke-width=\"1.5\" stroke-dasharray=\"3 2\"/>\n",
+              out);
+        hf_svg_text(out, kx + 18, y + 12, 's', TICK_PX, 0, 0, "hull through the fairleads");
+        y += 20;
     }
+    if (p->has_load) {
+        char dir[48], lab[80];
+        hf_svg_direction_label(p->load_direction, dir, sizeof dir);
+        snprintf(lab, sizeof lab, "load toward %s", dir);
+        arrow(out, kx, y + 8, 1, 0, 22);
+        hf_svg_text(out, kx + 28, y + 12, 's', TICK_PX, 1, 0, lab);
+        clipped(out, kx + 28, y + 28, TICK_PX, 0, PL_W, p->load_label ? p->load_label : "load");
+        hf_svg_text(out, kx + 28, y + 43, 's', 11, 0, 0, "(deg counter-clockwise from x)");
+        y += 54;
+    }
+    hf_svg_text(out, kx, y + 18, 's', LABEL_PX, 1, 0, "Lines");
+    y += 24;
+    for (size_t i = 0; i < p->nlines; i++, y += 16)
+        key_line(out, p, i, kx, y);
+    return y;
 }
 
 hf_status hf_svg_figure_plan(FILE *out, const hf_svg_plan *p, int standalone, hf_error *err)
@@ -1305,7 +1800,10 @@ hf_status hf_svg_figure_plan(FILE *out, const hf_svg_plan *p, int standalone, hf
         s = plan_axes(&a, b, err);
     if (s != HF_OK)
         return s;
-    double H = fmax(a.top + a.height + 60, PL_INSET_Y + PL_INSET + 90);
+    /* the hull detail under the key; its frame, scale bar and notes below */
+    double iy = fmax(PL_INSET_Y, 90 + 70 + (!p->noutline && p->nlines >= 3 ? 20 : 0) +
+                                     (p->has_load ? 54 : 0) + 24 + 16.0 * p->nlines + 40);
+    double H = fmax(a.top + a.height + 60, iy + PL_INSET + 90);
     hf_svg_begin(out, PL_W, H, p->title, standalone);
     title(out, PL_W, p->title);
     caption(out, 20, 48,
@@ -1320,7 +1818,7 @@ hf_status hf_svg_figure_plan(FILE *out, const hf_svg_plan *p, int standalone, hf
     if (p->has_load)
         arrow(out, rx, ry, cos(p->load_direction), -sin(p->load_direction), 80); /* y down */
     plan_key(out, p);
-    inset(out, p);
+    inset(out, p, iy);
     hf_svg_end(out);
     return HF_OK;
 }
@@ -1376,6 +1874,46 @@ static void curve_range(const hf_svg_curve *c, int k, double *lo, double *hi, co
     }
 }
 
+/* A curve panel's series for the label test: v (n x nlines) scaled. */
+typedef struct {
+    const hf_svg_axes *a;
+    const hf_svg_curve *c;
+    const double *v;
+    double scale;
+} panel_data;
+
+/* 1 when label box r is clear of every line's series of the panel. */
+static int series_clear(const void *ctx, rect r)
+{
+    const panel_data *d = ctx;
+    const hf_svg_curve *c = d->c;
+    for (size_t j = 0; j < c->nlines; j++)
+        for (size_t i = 0; i + 1 < c->n; i++) {
+            double x0 = c->offset[i], x1 = c->offset[i + 1];
+            double y0 = d->v[i * c->nlines + j] * d->scale;
+            double y1 = d->v[(i + 1) * c->nlines + j] * d->scale;
+            if (!isfinite(x0) || !isfinite(x1) || !isfinite(y0) || !isfinite(y1))
+                continue;
+            if (seg_meets(r, hf_svg_axes_px(d->a, x0), hf_svg_axes_py(d->a, y0),
+                          hf_svg_axes_px(d->a, x1), hf_svg_axes_py(d->a, y1)))
+                return 0;
+        }
+    return 1;
+}
+
+/* A reference line across panel a at y (plotted units), its label placed
+ * clear of the panel's curves (v, scaled; ref_label). */
+static void curve_hline(FILE *out, const hf_svg_axes *a, const hf_svg_curve *c, const double *v,
+                        double scale, double y, const char *lab, int slot)
+{
+    if (!isfinite(y))
+        return;
+    double py = hf_svg_axes_py(a, y);
+    seg(out, a->left, py, a->left + a->width, py, REFLINE, 1.5, "8 3 2 3");
+    panel_data d = {a, c, v, scale};
+    ref_label(out, a, py, lab, series_clear, &d, slot);
+}
+
 /* One reference line per distinct per-line allowed tension (up to 4). */
 static void curve_tension_limits(FILE *out, const hf_svg_axes *a, const hf_svg_curve *c)
 {
@@ -1391,7 +1929,50 @@ static void curve_tension_limits(FILE *out, const hf_svg_axes *a, const hf_svg_c
         seen[ns++] = v;
         char lab[64];
         snprintf(lab, sizeof lab, "allowed %.4g kN", v / 1e3);
-        hf_svg_hline(out, a, v / 1e3, lab);
+        curve_hline(out, a, c, c->tension, 1e-3, v / 1e3, lab, ns - 1);
+    }
+}
+
+/* 1 when line j is overloaded at offset i: utilisation >= 1 (T >= MBL). */
+static int curve_over(const hf_svg_curve *c, size_t i, size_t j)
+{
+    double u = c->utilisation[i * c->nlines + j];
+    return isfinite(u) && u >= 1.0;
+}
+
+/* Number of overloaded (offset, line) points of c (0 without utilisations). */
+static size_t curve_over_count(const hf_svg_curve *c)
+{
+    size_t k = 0;
+    for (size_t i = 0; c->utilisation && i < c->n; i++)
+        for (size_t j = 0; j < c->nlines; j++)
+            k += curve_over(c, i, j);
+    return k;
+}
+
+/* Crosses at the overloaded points on panel k (2 tension, 3 utilisation):
+ * every one when n <= 60, else the first and the largest of each run. */
+static void curve_overloads(FILE *out, const hf_svg_axes *a, const hf_svg_curve *c, int k)
+{
+    for (size_t j = 0; c->utilisation && j < c->nlines; j++) {
+        for (size_t i = 0; i < c->n;) {
+            if (!curve_over(c, i, j)) {
+                i++;
+                continue;
+            }
+            size_t e = i, top = i;
+            for (; e < c->n && curve_over(c, e, j); e++)
+                if (c->utilisation[e * c->nlines + j] > c->utilisation[top * c->nlines + j])
+                    top = e;
+            for (size_t q = i; q < e; q++) {
+                double v = k == 2 ? c->tension[q * c->nlines + j] / 1e3
+                                  : c->utilisation[q * c->nlines + j] * 100;
+                if ((c->n > 60 && q != i && q != top) || !isfinite(v) || !isfinite(c->offset[q]))
+                    continue;
+                cross(out, hf_svg_axes_px(a, c->offset[q]), hf_svg_axes_py(a, v), 4.5);
+            }
+            i = e;
+        }
     }
 }
 
@@ -1406,14 +1987,16 @@ static void curve_data(FILE *out, const hf_svg_axes *a, const hf_svg_curve *c, i
         line_series(out, a, c->offset, c->tension, c->n, c->nlines, 1e-3);
         if (c->tension_limit)
             curve_tension_limits(out, a, c);
+        curve_overloads(out, a, c, k);
     } else {
         line_series(out, a, c->offset, c->utilisation, c->n, c->nlines, 100.0);
         if (c->utilisation_limit > 0) {
             char lab[64];
             snprintf(lab, sizeof lab, "limit %.4g %% (factor %.3g)", c->utilisation_limit * 100,
                      1.0 / c->utilisation_limit);
-            hf_svg_hline(out, a, c->utilisation_limit * 100, lab);
+            curve_hline(out, a, c, c->utilisation, 100.0, c->utilisation_limit * 100, lab, 0);
         }
+        curve_overloads(out, a, c, k);
     }
 }
 
@@ -1438,6 +2021,8 @@ static void curve_legend(FILE *out, const hf_svg_curve *c, double H)
     /* symmetric spreads draw equal curves on top of each other */
     hf_svg_text(out, lx, ny + 8, 's', 11, 0, 0, "Equal curves overlap:");
     hf_svg_text(out, lx, ny + 22, 's', 11, 0, 0, "the last listed is on top.");
+    if (curve_over_count(c))
+        key_overloaded(out, lx, ny + 32);
 }
 
 hf_status hf_svg_figure_curve(FILE *out, const hf_svg_curve *c, int standalone, hf_error *err)

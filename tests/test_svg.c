@@ -559,6 +559,90 @@ static size_t make_profile(hf_line_point *p, size_t cap)
     return n;
 }
 
+/* The k-th (0-based) <line> element with stroke `colour`, or NULL. */
+static const char *find_line(const char *svg, const char *colour, int k)
+{
+    char b[32];
+    for (const char *p = strstr(svg, "<line "); p; p = strstr(p + 1, "<line "))
+        if (attr(p, "stroke", b, sizeof b) && !strcmp(b, colour) && k-- == 0)
+            return p;
+    return NULL;
+}
+
+/* The <text> element whose content is exactly s, or NULL. */
+static const char *find_text(const char *svg, const char *s)
+{
+    size_t n = strlen(s);
+    for (const char *p = strstr(svg, "<text "); p; p = strstr(p + 1, "<text ")) {
+        const char *b = strchr(p, '>') + 1;
+        if (!strncmp(b, s, n) && !strncmp(b + n, "</text>", 7))
+            return p;
+    }
+    return NULL;
+}
+
+/* Number of occurrences of s in svg. */
+static size_t count_of(const char *svg, const char *s)
+{
+    size_t k = 0;
+    for (const char *p = strstr(svg, s); p; p = strstr(p + 1, s))
+        k++;
+    return k;
+}
+
+/* The box a text element covers, from its position, anchor and font size:
+ * DejaVu Sans glyphs rise about 0.75 em above the baseline and descend
+ * 0.25 em, and lower-case text averages about 0.55 em a character (a
+ * generous estimate independent of svg.c's 0.62 em). */
+typedef struct {
+    double x0, y0, x1, y1;
+} box;
+
+static box text_box(const char *tag)
+{
+    char anchor[16];
+    attr(tag, "text-anchor", anchor, sizeof anchor);
+    double x = attr_num(tag, "x"), y = attr_num(tag, "y"), size = attr_num(tag, "font-size");
+    const char *b = strchr(tag, '>') + 1;
+    double w = 0.55 * size * (double)(strstr(b, "</text>") - b);
+    double x0 = !strcmp(anchor, "end") ? x - w : !strcmp(anchor, "middle") ? x - 0.5 * w : x;
+    return (box){x0, y - 0.75 * size, x0 + w, y + 0.25 * size};
+}
+
+/* 1 when the segment (x0, y0)-(x1, y1) passes through box b (sampled every
+ * 0.25 px: a different method from svg.c's parametric clipping). */
+static int seg_in_box(box b, double x0, double y0, double x1, double y1)
+{
+    int n = 1 + (int)(4 * hypot(x1 - x0, y1 - y0));
+    for (int i = 0; i <= n; i++) {
+        double x = x0 + (x1 - x0) * i / n, y = y0 + (y1 - y0) * i / n;
+        if (x >= b.x0 && x <= b.x1 && y >= b.y0 && y <= b.y1)
+            return 1;
+    }
+    return 0;
+}
+
+/* 1 when box b meets the horizontal rule drawn by <line> tag l. */
+static int rule_in_box(box b, const char *l)
+{
+    return seg_in_box(b, attr_num(l, "x1"), attr_num(l, "y1"), attr_num(l, "x2"),
+                      attr_num(l, "y2"));
+}
+
+/* 1 when box b meets any polyline that carries `must_have`. */
+static int polylines_in_box(const char *svg, const char *must_have, box b)
+{
+    static double px[2048], py[2048];
+    for (int k = 0;; k++) {
+        long m = polyline_points(svg, must_have, k, px, py, 2048);
+        if (m < 0)
+            return 0;
+        for (long i = 0; i + 1 < m && i + 1 < 2048; i++)
+            if (seg_in_box(b, px[i], py[i], px[i + 1], py[i + 1]))
+                return 1;
+    }
+}
+
 /* Pixel distance between a plotted point and where the axis fits put the data. */
 static double miss(const fit *fx, const fit *fy, double x, double y, double px, double py)
 {
@@ -570,7 +654,7 @@ static void test_figure_elevation(void **state)
     (void)state;
     hf_line_point pts[200];
     size_t n = make_profile(pts, 200);
-    hf_svg_elevation e = {"Line \"bow-port\" & co <rest>", pts, n, 58.25, 1, 420.0, 640e3};
+    hf_svg_elevation e = {"Line \"bow-port\" & co <rest>", pts, n, 58.25, 1, 420.0, 640e3, 0, NULL};
     FILE *f = tmpfile();
     assert_non_null(f);
     hf_error err;
@@ -582,11 +666,21 @@ static void test_figure_elevation(void **state)
     assert_non_null(strstr(svg, ">touchdown<"));
     assert_non_null(strstr(svg, ">tension (kN)<"));
     assert_non_null(strstr(svg, "exaggerated"));
-    /* Layout of svg.c: top panel 90,84 600x270; tension panel 90,430 600x140. */
+    /* Layout of svg.c: top panel 90,84 600x270; tension panel 90,430 600x170. */
     fit fx = axis_fit(svg, 1, 84 + 270 + 19, 0, 0);
     fit fz = axis_fit(svg, 0, 82, 80, 84 + 270 + 6);
-    fit gx = axis_fit(svg, 1, 430 + 140 + 19, 0, 0);
-    fit gt = axis_fit(svg, 0, 82, 426, 430 + 140 + 6);
+    fit gx = axis_fit(svg, 1, 430 + 170 + 19, 0, 0);
+    fit gt = axis_fit(svg, 0, 82, 426, 430 + 170 + 6);
+    /* the allowed tension (640 kN, over twice the largest tension) is drawn:
+     * a dashed reference line at its height across the panel */
+    const char *al = find_line(svg, "#404040", 0);
+    assert_non_null(al);
+    assert_true(fabs(fit_px(&gt, 640.0) - attr_num(al, "y1")) <= 0.5);
+    assert_true(fabs(fit_px(&gx, pts[0].x) - attr_num(al, "x1")) <= 0.5);
+    assert_true(fabs(fit_px(&gx, pts[n - 1].x) - attr_num(al, "x2")) <= 0.5);
+    assert_non_null(strstr(svg, ">allowed 640 kN<"));
+    assert_non_null(strstr(svg, ">allowed tension<"));
+    assert_null(strstr(svg, ">overloaded<")); /* no section data: nothing to flag */
     /* the line: coloured polylines (stroke width 3.5) joined end to end */
     static double px[400], py[400];
     size_t got = 0;
@@ -798,9 +892,11 @@ static void test_figure_curve(void **state)
     assert_int_equal(hf_svg_figure_curve(f, &c, 1, NULL), HF_OK);
     char *svg = hf_test_stream_read(f, 1);
     hf_test_assert_xml(svg);
-    assert_non_null(strstr(svg, ">limit 60 % (factor 1.67)<"));
-    assert_non_null(strstr(svg, ">allowed 2100 kN<"));
-    assert_non_null(strstr(svg, ">allowed 3400 kN<"));
+    /* reference labels: on their line where a spot clear of the curves
+     * exists, else under the panel ("dash-dot line: ...") */
+    assert_non_null(strstr(svg, "limit 60 % (factor 1.67)<"));
+    assert_non_null(strstr(svg, "allowed 2100 kN<"));
+    assert_non_null(strstr(svg, "allowed 3400 kN<"));
     assert_non_null(strstr(svg, ">line-9<"));
     /* first panel (force): plot area 90,90 300x200, x labels at row 309;
      * the force series is split in two by the NaN */
@@ -881,6 +977,352 @@ static void test_figure_sweep(void **state)
     fclose(f);
 }
 
+/* A fixture like a spread's weather line at rest (fictional numbers): the
+ * fairlead 2.9 m below a 104.1 m still water level, so a label put just
+ * above and left of it, as before issue 13, would sit on the water line. */
+static size_t make_steep(hf_line_point *p, size_t cap)
+{
+    size_t n = 0;
+    for (int i = 0; i <= 40 && n < cap; i++, n++) {
+        double s = 300.0 * i / 40;
+        p[n] = (hf_line_point){s, s, 0.0, 194e3 + 1150.0 * s};
+    }
+    double a = 900.0;
+    for (int i = 1; i <= 120 && n < cap; i++, n++) {
+        double u = 500.0 * i / 120;
+        double x = 300.0 + u, z = a * (cosh(u / a) - 1.0) * 101.2 / (900.0 * (cosh(500.0 / a) - 1));
+        p[n] = (hf_line_point){300.0 + a * sinh(u / a), x, z, 545e3 + 2300.0 * z};
+    }
+    return n;
+}
+
+/* Issue 13: the labels of the elevation sit on no other line (the still
+ * water level, the seabed, the line itself). */
+static void test_elevation_labels_clear(void **state)
+{
+    (void)state;
+    static hf_line_point pts[200];
+    size_t n = make_steep(pts, 200);
+    assert_true(104.1 - pts[n - 1].z > 2.8 && 104.1 - pts[n - 1].z < 3.0);
+    hf_svg_elevation e = {"Line weather-a (fictional)", pts, n, 104.1, 1, 300.0, 2.933e6, 0, NULL};
+    FILE *f = tmpfile();
+    assert_int_equal(hf_svg_figure_elevation(f, &e, 1, NULL), HF_OK);
+    char *svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
+    const char *water = find_line(svg, "#0072b2", 0), *seabed = find_line(svg, "#8a7650", 0);
+    assert_non_null(water);
+    assert_non_null(seabed);
+    static const char *const labels[] = {"fairlead", "touchdown", "anchor", "still water level",
+                                         "seabed"};
+    for (size_t i = 0; i < 5; i++) {
+        const char *t = find_text(svg, labels[i]);
+        assert_non_null(t);
+        box b = text_box(t);
+        if (i != 3 && rule_in_box(b, water)) {
+            print_error("label '%s' sits on the still water level\n", labels[i]);
+            fail();
+        }
+        if (i != 4 && rule_in_box(b, seabed)) {
+            print_error("label '%s' sits on the seabed\n", labels[i]);
+            fail();
+        }
+        if (polylines_in_box(svg, "stroke-width=\"3.5\"", b)) {
+            print_error("label '%s' sits on the line\n", labels[i]);
+            fail();
+        }
+    }
+    /* the fairlead label stays next to its marker (within 60 px) */
+    const char *c = strstr(svg, "<circle ");
+    box fb = text_box(find_text(svg, "fairlead"));
+    double cx = attr_num(c, "cx"), cy = attr_num(c, "cy");
+    assert_true(fabs(0.5 * (fb.y0 + fb.y1) - cy) < 30 && fb.x1 <= cx && cx - fb.x1 < 60);
+    free(svg);
+    fclose(f);
+}
+
+/* Issue 13: each section's allowed tension is drawn as a step at its value
+ * over the section's horizontal extent, and points with tension >= their
+ * section's MBL are crossed on both panels with an "overloaded" key entry. */
+static void test_elevation_sections_overload(void **state)
+{
+    (void)state;
+    hf_line_point pts[200];
+    size_t n = make_profile(pts, 200);
+    /* make_profile: 420 m grounded (180-220 kN), then suspended to 287 kN.
+     * Sections: chain to arc 300 m (MBL 2,385 kN, allowed 795 kN), a weak
+     * insert to arc 600 m (MBL 225 kN, allowed 75 kN: its suspended points
+     * above 225 kN are overloaded), chain to the end (MBL 2,385 kN). */
+    hf_svg_section sec[3] = {{300, 2.385e6, 795e3}, {600, 225e3, 75e3}, {1e9, 2.385e6, 795e3}};
+    hf_svg_elevation e = {"sections", pts, n, 58.25, 1, 420.0, 0, 3, sec};
+    size_t over = 0, first = 0;
+    for (size_t i = 0; i < n; i++)
+        if (pts[i].arc > 300 && pts[i].arc <= 600 && pts[i].tension >= 225e3 && !over++)
+            first = i;
+    assert_true(over >= 3); /* the fixture does overload the insert */
+    FILE *f = tmpfile();
+    assert_int_equal(hf_svg_figure_elevation(f, &e, 1, NULL), HF_OK);
+    char *svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
+    fit gx = axis_fit(svg, 1, 430 + 170 + 19, 0, 0);
+    fit gt = axis_fit(svg, 0, 82, 426, 430 + 170 + 6);
+    fit fx = axis_fit(svg, 1, 84 + 270 + 19, 0, 0);
+    fit fz = axis_fit(svg, 0, 82, 80, 84 + 270 + 6);
+    /* three steps: 795, 75, 795 kN; the middle one spans the insert's x */
+    const char *s0 = find_line(svg, "#404040", 0), *s1 = find_line(svg, "#404040", 1);
+    const char *s2 = find_line(svg, "#404040", 2);
+    assert_non_null(s2);
+    assert_true(fabs(attr_num(s0, "y1") - fit_px(&gt, 795)) <= 0.5);
+    assert_true(fabs(attr_num(s1, "y1") - fit_px(&gt, 75)) <= 0.5);
+    assert_true(fabs(attr_num(s2, "y1") - fit_px(&gt, 795)) <= 0.5);
+    size_t a = 0, b = 0;
+    for (size_t i = 0; i < n; i++) {
+        if (pts[i].arc <= 300 + 1e-9)
+            a = i + 1; /* first point of the insert */
+        if (pts[i].arc <= 600 + 1e-9)
+            b = i;
+    }
+    assert_true(fabs(attr_num(s1, "x1") - fit_px(&gx, pts[a].x)) <= 0.5);
+    assert_true(fabs(attr_num(s1, "x2") - fit_px(&gx, pts[b].x)) <= 0.5);
+    assert_non_null(strstr(svg, ">allowed 75 kN<"));
+    /* crosses: a run of `over` points is marked at its first point and its
+     * largest tension, on both panels: 2 x 2 marks, and one in the key; each
+     * a halo and a stroke */
+    assert_int_equal(count_of(svg, "<path d=\"M"), 2 * (4 + 1));
+    assert_non_null(strstr(svg, ">overloaded<"));
+    /* the first cross is centred on the first overloaded point (top panel) */
+    const char *x = strstr(svg, "<path d=\"M");
+    double x0 = strtod(x + 10, NULL);
+    const char *sp = strchr(x + 10, ' ');
+    double y0 = strtod(sp + 1, NULL);
+    assert_true(miss(&fx, &fz, pts[first].x, pts[first].z, x0 + 5, y0 + 5) <= 0.5);
+    free(svg);
+    fclose(f);
+    /* a stronger insert: nothing overloaded, no crosses, no key entry */
+    sec[1].mbl = 2.385e6;
+    f = tmpfile();
+    assert_int_equal(hf_svg_figure_elevation(f, &e, 1, NULL), HF_OK);
+    svg = hf_test_stream_read(f, 1);
+    assert_null(strstr(svg, "<path d=\"M"));
+    assert_null(strstr(svg, ">overloaded<"));
+    free(svg);
+    fclose(f);
+    /* sections out of order or negative: refused before writing */
+    f = tmpfile();
+    sec[1].end_arc = 200;
+    assert_int_equal(hf_svg_figure_elevation(f, &e, 1, NULL), HF_EINVAL);
+    sec[1].end_arc = 600;
+    sec[2].allowed = -1;
+    hf_error err;
+    hf_error_clear(&err);
+    assert_int_equal(hf_svg_figure_elevation(f, &e, 1, &err), HF_EINVAL);
+    assert_non_null(strstr(err.text, "section 2"));
+    assert_int_equal(ftell(f), 0);
+    fclose(f);
+}
+
+/* Issue 13: identical lines share one elevation that names them all; all
+ * lines overlaid in one elevation, each in its series style. */
+static void test_elevation_group_and_overlay(void **state)
+{
+    (void)state;
+    static hf_line_point p1[200], p2[200];
+    size_t n1 = make_profile(p1, 200), n2 = make_steep(p2, 200);
+    hf_svg_elevation e = {"Lines bow-a, bow-b", p1, n1, 58.25, 1, 420.0, 640e3, 0, NULL};
+    const char *names[3] = {"bow-a", "bow-b <port>", "stern-a"};
+    FILE *f = tmpfile();
+    assert_int_equal(hf_svg_figure_elevation_group(f, &e, names, 2, 1, NULL), HF_OK);
+    char *svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
+    assert_non_null(strstr(svg, "Drawn once for 2 lines of the same make-up and geometry: "
+                                "bow-a, bow-b &lt;port&gt;<"));
+    /* the panels moved down 16 px under the extra caption; data still exact */
+    fit fx = axis_fit(svg, 1, 100 + 270 + 19, 0, 0);
+    fit fz = axis_fit(svg, 0, 82, 96, 100 + 270 + 6);
+    double px[400], py[400];
+    long m = polyline_points(svg, "stroke-width=\"3.5\"", 0, px, py, 400);
+    assert_true(m >= 2);
+    assert_true(miss(&fx, &fz, p1[0].x, p1[0].z, px[0], py[0]) <= 0.5);
+    free(svg);
+    fclose(f);
+    f = tmpfile();
+    assert_int_equal(hf_svg_figure_elevation_group(f, &e, names, 0, 1, NULL), HF_EINVAL);
+    assert_int_equal(ftell(f), 0);
+    fclose(f);
+
+    hf_svg_elevation all[2] = {e, e};
+    all[1].pts = p2;
+    all[1].npts = n2;
+    f = tmpfile();
+    assert_int_equal(hf_svg_figure_elevation_overlay(f, "All lines", all, names, 2, 1, NULL),
+                     HF_OK);
+    svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
+    assert_non_null(strstr(svg, ">bow-b &lt;port&gt;<"));
+    assert_non_null(strstr(svg, ">fairlead<")); /* marker key */
+    fx = axis_fit(svg, 1, 84 + 270 + 19, 0, 0);
+    fz = axis_fit(svg, 0, 82, 80, 84 + 270 + 6);
+    /* one polyline per line in its series colour, every point on the data */
+    static double qx[400], qy[400];
+    const hf_line_point *pp[2] = {p1, p2};
+    size_t nn[2] = {n1, n2};
+    for (int k = 0; k < 2; k++) {
+        char want[64];
+        snprintf(want, sizeof want, "stroke=\"%s\" stroke-width=\"2.5\"", hf_svg_colour((size_t)k));
+        m = polyline_points(svg, want, 0, qx, qy, 400);
+        assert_int_equal(m, (long)nn[k]);
+        for (size_t i = 0; i < nn[k]; i++)
+            assert_true(miss(&fx, &fz, pp[k][i].x, pp[k][i].z, qx[i], qy[i]) <= 0.5);
+    }
+    free(svg);
+    fclose(f);
+    /* a bad line is named in the message */
+    all[1].water_height = NAN;
+    hf_error err;
+    hf_error_clear(&err);
+    f = tmpfile();
+    assert_int_equal(hf_svg_figure_elevation_overlay(f, "x", all, NULL, 2, 1, &err), HF_EINVAL);
+    assert_non_null(strstr(err.text, "line 2"));
+    assert_int_equal(ftell(f), 0);
+    fclose(f);
+}
+
+/* Issue 13: one convention for directions, 0-360 deg counter-clockwise
+ * from x; angles reduced exactly in degrees. */
+static void test_direction_label(void **state)
+{
+    (void)state;
+    char b[32];
+    static const struct {
+        double rad;
+        const char *want;
+    } c[] = {
+        {-M_PI / 2, "270 deg"}, {0.0, "0 deg"},         {-0.0, "0 deg"},
+        {2 * M_PI, "0 deg"},    {-2 * M_PI, "0 deg"},   {M_PI / 6, "30 deg"},
+        {-M_PI / 6, "330 deg"}, {7 * M_PI / 2, "270 deg"}, {-1e-12, "0 deg"},
+        {123.4 * M_PI / 180, "123.4 deg"},
+    };
+    for (size_t i = 0; i < sizeof c / sizeof c[0]; i++) {
+        hf_svg_direction_label(c[i].rad, b, sizeof b);
+        if (strcmp(b, c[i].want)) {
+            print_error("%.17g rad: got '%s', expected '%s'\n", c[i].rad, b, c[i].want);
+            fail();
+        }
+    }
+    hf_svg_direction_label(NAN, b, sizeof b);
+    assert_string_equal(b, "?");
+    hf_svg_direction_label(INFINITY, b, sizeof b);
+    assert_string_equal(b, "?");
+}
+
+/* Issue 13: the plan's key names every line with its style (the eighth
+ * line repeats the first colour dashed), the load direction in the one
+ * convention, and the scale bar lies outside the hull detail's frame, where
+ * no line can cross it. */
+static void test_plan_key_and_scale_bar(void **state)
+{
+    (void)state;
+    enum { L = 8 };
+    double anchor[L][2], fair[L][2];
+    const char *names[L];
+    char nb[L][24];
+    for (int i = 0; i < L; i++) {
+        double ang = (22.5 + 45.0 * i) * M_PI / 180;
+        fair[i][0] = 55 * cos(ang);
+        fair[i][1] = 18 * sin(ang);
+        anchor[i][0] = 850 * cos(ang);
+        anchor[i][1] = 850 * sin(ang);
+        snprintf(nb[i], sizeof nb[i], "pt-%d", i + 1);
+        names[i] = nb[i];
+    }
+    hf_svg_plan p = {"Plan", L,        names, (const double(*)[2])anchor, (const double(*)[2])fair,
+                     NULL,   0,        NULL,  {0, 0},                     1,
+                     -M_PI / 2, "gale: 550 kN", 0, {0, 0},                NULL};
+    FILE *f = tmpfile();
+    assert_int_equal(hf_svg_figure_plan(f, &p, 1, NULL), HF_OK);
+    char *svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
+    assert_non_null(strstr(svg, ">load toward 270 deg<"));
+    assert_non_null(strstr(svg, ">Lines<"));
+    /* every line has a key entry: a sample in its colour and dash beside its name */
+    for (int i = 0; i < L; i++) {
+        const char *t = find_text(strstr(svg, ">Lines<"), names[i]); /* the key's, not the plan's */
+        int found = 0;
+        for (const char *q = strstr(svg, "<line "); q && !found; q = strstr(q + 1, "<line ")) {
+            char col[16], dash[16] = "";
+            attr(q, "stroke", col, sizeof col);
+            attr(q, "stroke-dasharray", dash, sizeof dash);
+            found = !strcmp(col, hf_svg_colour((size_t)i)) &&
+                    !strcmp(dash, hf_svg_dash((size_t)i)) &&
+                    fabs(attr_num(q, "x2") + 6 - attr_num(t, "x")) < 0.01 &&
+                    fabs(attr_num(q, "y1") + 4 - attr_num(t, "y")) < 0.01;
+        }
+        if (!found) {
+            print_error("no key entry for %s\n", names[i]);
+            fail();
+        }
+    }
+    assert_string_equal(hf_svg_dash(7), "7 4"); /* the eighth line is the dashed one */
+    /* the scale bar (2.5 px black rule) lies below the hull detail's frame */
+    const char *fr = strstr(svg, ">Hull detail<");
+    assert_non_null(fr);
+    fr = strstr(fr, "<rect ");
+    double fb = attr_num(fr, "y") + attr_num(fr, "height");
+    const char *sb = NULL;
+    for (const char *q = strstr(svg, "<line "); q; q = strstr(q + 1, "<line ")) {
+        char col[16], w[16];
+        attr(q, "stroke", col, sizeof col);
+        attr(q, "stroke-width", w, sizeof w);
+        if (!strcmp(col, "#000000") && !strcmp(w, "2.5") && q > fr)
+            sb = q;
+    }
+    assert_non_null(sb);
+    assert_true(attr_num(sb, "y1") > fb + 4);
+    free(svg);
+    fclose(f);
+}
+
+/* Issue 13: overloaded points (utilisation >= 1) are crossed in the curve
+ * figure's tension and utilisation panels, with an "overloaded" key entry. */
+static void test_curve_overloads(void **state)
+{
+    (void)state;
+    enum { N = 21, L = 2 };
+    double off[N], force[N], ten[N * L], util[N * L];
+    const char *names[L] = {"weather", "lee"};
+    for (int i = 0; i < N; i++) {
+        off[i] = 2.5 * i;
+        force[i] = -3.1e4 * off[i];
+        ten[i * L] = 4.2e5 + 9.6e4 * off[i];
+        ten[i * L + 1] = 4.2e5 - 4.0e3 * off[i];
+        util[i * L] = ten[i * L] / 3.75e6; /* >= 1 from offset 35 m: 7 points */
+        util[i * L + 1] = ten[i * L + 1] / 3.75e6;
+    }
+    hf_svg_curve c = {"Overloads", N, off, force, NULL, L, names, ten, util, 0.6, NULL, NULL};
+    FILE *f = tmpfile();
+    assert_int_equal(hf_svg_figure_curve(f, &c, 1, NULL), HF_OK);
+    char *svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
+    size_t over = 0;
+    for (int i = 0; i < N; i++)
+        over += util[i * L] >= 1.0;
+    assert_int_equal(over, 7);
+    /* n <= 60: every overloaded point, on two panels, and the key's cross;
+     * halo + stroke each */
+    assert_int_equal(count_of(svg, "<path d=\"M"), 2 * (2 * over + 1));
+    assert_non_null(strstr(svg, ">overloaded<"));
+    free(svg);
+    fclose(f);
+    for (int i = 0; i < N * L; i++)
+        util[i] *= 0.5;
+    f = tmpfile();
+    assert_int_equal(hf_svg_figure_curve(f, &c, 1, NULL), HF_OK);
+    svg = hf_test_stream_read(f, 1);
+    assert_null(strstr(svg, "<path d=\"M"));
+    assert_null(strstr(svg, ">overloaded<"));
+    free(svg);
+    fclose(f);
+}
+
 /* Degenerate but valid inputs still give well-formed figures: a line
  * hanging straight down (one x value) with uniform tension, a flat curve, a
  * single-line plan with anchor and fairlead at the same x. */
@@ -888,7 +1330,7 @@ static void test_figures_degenerate(void **state)
 {
     (void)state;
     hf_line_point v[3] = {{0, 0, 0, 2385.0}, {5, 0, 5, 2385.0}, {10, 0, 10, 2385.0}};
-    hf_svg_elevation e = {"hanging", v, 3, 12.5, 0, 0, 0};
+    hf_svg_elevation e = {"hanging", v, 3, 12.5, 0, 0, 0, 0, NULL};
     FILE *f = tmpfile();
     assert_int_equal(hf_svg_figure_elevation(f, &e, 1, NULL), HF_OK);
     char *svg = hf_test_stream_read(f, 1);
@@ -949,6 +1391,12 @@ int main(void)
         cmocka_unit_test(test_figure_curve),
         cmocka_unit_test(test_figure_sweep),
         cmocka_unit_test(test_figures_degenerate),
+        cmocka_unit_test(test_elevation_labels_clear),
+        cmocka_unit_test(test_elevation_sections_overload),
+        cmocka_unit_test(test_elevation_group_and_overlay),
+        cmocka_unit_test(test_direction_label),
+        cmocka_unit_test(test_plan_key_and_scale_bar),
+        cmocka_unit_test(test_curve_overloads),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
 }

@@ -173,12 +173,24 @@ void hf_svg_legend(FILE *out, double x, double y, const char *const *names, cons
 
 /* ---- figures ---------------------------------------------------------- */
 
+/* One section of a line, for the elevation figure: where it ends along the
+ * line and its strength. */
+typedef struct {
+    double end_arc; /* unstretched arc length from the anchor where the section ends, m */
+    double mbl;     /* minimum breaking load, N (> 0), or 0 when not known */
+    double allowed; /* allowed tension (MBL / required factor), N, or 0 = none */
+} hf_svg_section;
+
 /* (1) Elevation of one line in its vertical plane.  Top panel: the line
  * (coloured by tension on the sequential scale, with a labelled colour bar),
  * seabed, still water level, anchor, fairlead, touchdown.  Bottom panel:
- * tension (kN) against horizontal distance, with the limit when given (a
- * limit above 2.5 times the largest tension is stated in words, not drawn,
- * so the curve keeps its height).
+ * tension (kN) against horizontal distance, with the allowed tension of each
+ * section drawn as a dashed step line (its axis reaches the largest allowed
+ * tension) and labelled with its value where there is room.  Points where
+ * the tension reaches the MBL of their section (utilisation >= 1) are marked
+ * with a cross on both panels, and a key entry "overloaded" is drawn.
+ * Marker labels (anchor, touchdown, fairlead) are placed clear of the still
+ * water level, the seabed and the line.
  * The vertical scale is exaggerated when the span is much longer than
  * deep (stated on the figure). */
 typedef struct {
@@ -188,24 +200,56 @@ typedef struct {
     double water_height;      /* still water level above the seabed, m (> 0) */
     int has_touchdown;        /* 1: mark touchdown at touchdown_x */
     double touchdown_x;       /* m from the anchor */
-    double tension_limit;     /* N: allowed tension (MBL / factor) drawn on the
-                               * tension panel; 0 = none */
+    double tension_limit;     /* N: one allowed tension (MBL / factor) for the whole
+                               * line, used when nsections is 0; 0 = none */
+    size_t nsections;               /* 0: no section data */
+    const hf_svg_section *sections; /* nsections, anchor first, end_arc increasing;
+                                     * points beyond the last end belong to it */
 } hf_svg_elevation;
 
 /* Writes figure (1).  standalone as in hf_svg_begin.  HF_EINVAL when a
- * value is not finite, npts < 2, or water_height <= 0. */
+ * value is not finite, npts < 2, water_height <= 0, or a section has a
+ * negative MBL or allowed tension or its ends do not increase. */
 hf_status hf_svg_figure_elevation(FILE *out, const hf_svg_elevation *e, int standalone,
                                   hf_error *err);
+
+/* Figure (1) for a group of lines that share it (same make-up and geometry
+ * up to a rotation about the vertical): e describes any one of them; the
+ * figure states that it stands for each of the n names (escaped, n >= 1).
+ * Statuses as hf_svg_figure_elevation, and HF_EINVAL for no names. */
+hf_status hf_svg_figure_elevation_group(FILE *out, const hf_svg_elevation *e,
+                                        const char *const *names, size_t n, int standalone,
+                                        hf_error *err);
+
+/* All lines overlaid in one elevation: each line in its own vertical plane,
+ * anchor at distance 0, drawn in its series colour and dash (hf_svg_colour,
+ * hf_svg_dash) with a legend of names; fairleads and touchdowns marked; a
+ * tension panel with every line's tension against distance; overloaded
+ * points (tension >= the section's MBL, from each e[i].sections) crossed,
+ * with a key entry.  The still water level is e[0].water_height (the lines
+ * share one site).  n >= 1; names NULL gives "line 1", ...  Statuses as
+ * hf_svg_figure_elevation for each e[i] (the message names the line). */
+hf_status hf_svg_figure_elevation_overlay(FILE *out, const char *title,
+                                          const hf_svg_elevation *e, const char *const *names,
+                                          size_t n, int standalone, hf_error *err);
+
+/* A direction as figures print it: the angle in degrees reduced to
+ * [0, 360), counter-clockwise from global x, "%.4g deg" ("270 deg" for
+ * -pi/2); "?" for a non-finite angle.  cap >= 16. */
+void hf_svg_direction_label(double rad, char *buf, size_t cap);
 
 /* (2) Plan of a spread seen from above, global axes, equal scale: the hull
  * outline (polygon, light grey), or when none is given the convex hull of the
  * fairleads (drawn dashed, captioned); the lines as straight segments anchor
  * -> fairlead (a line's plane projects to a straight segment); anchors as
  * squares with names; broken lines dashed grey; the load direction as an
- * arrow from the reference point when given.  A "hull detail" panel at the
- * right shows the hull, its fairleads and the first part of each line at a
- * scale that shows them, with a scale bar, and the hull at rest (dashed) and
- * the offset from rest when has_rest is set. */
+ * arrow from the reference point when given.  The key at the right lists
+ * every line with its colour and dash, the broken-line and hull styles in
+ * use, and the load direction in degrees (0-360, counter-clockwise from
+ * global x).  A "hull detail" panel below the key shows the hull, its
+ * fairleads and the first part of each line at a scale that shows them, with
+ * a scale bar under its frame (where no line crosses it), and the hull at
+ * rest (dashed) and the offset from rest when has_rest is set. */
 typedef struct {
     const char *title;
     size_t nlines;               /* >= 1 */
@@ -230,7 +274,11 @@ hf_status hf_svg_figure_plan(FILE *out, const hf_svg_plan *p, int standalone, hf
  * (kN), stiffness (kN/m), the tension of each line (kN) and its utilisation
  * (%) - sharing the offset axis, one legend for the lines.  The criterion
  * limit is drawn as a horizontal line on the utilisation panel (and on the
- * tension panel for each distinct per-line limit, up to 4). */
+ * tension panel for each distinct per-line limit, up to 4).  Where a line's
+ * utilisation reaches 1 (tension >= MBL) the point is crossed on the tension
+ * and utilisation panels: every such point when n <= 60, else the first
+ * point and the largest of each run of overloaded points; the legend then
+ * gains an "overloaded" entry. */
 typedef struct {
     const char *title;
     size_t n;                    /* offsets, >= 2 */
@@ -243,7 +291,8 @@ typedef struct {
     const double *utilisation;   /* n x nlines, -, or NULL (panel omitted) */
     double utilisation_limit;    /* -, e.g. 1 / 1.67; 0 = none */
     const double *tension_limit; /* nlines allowed tensions, N, or NULL */
-    const char *direction_label; /* e.g. "direction 30 deg", or NULL */
+    const char *direction_label; /* e.g. "direction 30 deg" (format the angle with
+                                  * hf_svg_direction_label), or NULL */
 } hf_svg_curve;
 
 hf_status hf_svg_figure_curve(FILE *out, const hf_svg_curve *c, int standalone, hf_error *err);
