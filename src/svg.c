@@ -845,7 +845,31 @@ typedef struct {
     double tmin, tmax;    /* tension range along the line(s), N */
     const hf_svg_elevation *e; /* the lines drawn (1, or n overlaid) */
     size_t n;
+    rect taken[16]; /* labels and markers placed so far in the top panel */
+    size_t ntaken;
 } elev;
+
+/* Records box r as taken (labels after it keep clear of it). */
+static void elev_take(elev *L, rect r)
+{
+    if (L->ntaken < sizeof L->taken / sizeof L->taken[0])
+        L->taken[L->ntaken++] = r;
+}
+
+size_t hf_svg_sections_from_line(const hf_line *line, double required, hf_svg_section *out,
+                                 size_t cap)
+{
+    if (!line)
+        return 0;
+    double end = 0.0;
+    for (size_t s = 0; s < line->n && s < cap; s++) {
+        end += line->sec[s].length;
+        out[s].end_arc = end;
+        out[s].mbl = line->sec[s].mbl;
+        out[s].allowed = required > 0.0 ? line->sec[s].mbl / required : 0.0;
+    }
+    return line->n;
+}
 
 /* Section of profile point p: the first whose end is not before it. */
 static size_t section_of(const hf_svg_elevation *e, const hf_line_point *p)
@@ -947,8 +971,12 @@ static int elev_clear(const elev *L, rect r)
     const hf_svg_axes *a = &L->top;
     double sw = hf_svg_axes_py(a, L->e[0].water_height), sb = hf_svg_axes_py(a, 0.0);
     double xl = a->left, xr = a->left + a->width;
-    if (r.x1 > EL_BAR_X - 8 || r.x0 < 4 || r.y0 < a->top - 20)
+    if (r.x1 > EL_BAR_X - 8 || r.x0 < 4 || r.y0 < a->top - 20 || r.y1 > a->top + a->height)
         return 0;
+    for (size_t k = 0; k < L->ntaken; k++)
+        if (r.x0 < L->taken[k].x1 && L->taken[k].x0 < r.x1 && r.y0 < L->taken[k].y1 &&
+            L->taken[k].y0 < r.y1)
+            return 0;
     if (seg_meets(r, xl, sw, xr, sw) || seg_meets(r, xl, sb - 2, xr, sb - 2))
         return 0;
     for (size_t k = 0; k < L->n; k++) {
@@ -962,13 +990,14 @@ static int elev_clear(const elev *L, rect r)
 }
 
 /* A label offset from pixel (px, py): the first of the candidate spots
- * (dx, dy, anchor) whose box is clear (elev_clear), else the first. */
+ * (dx, dy, anchor) whose box is clear (elev_clear), else the first; its box
+ * is then taken. */
 typedef struct {
     double dx, dy;
     char anchor;
 } spot;
 
-static void elev_label(FILE *out, const elev *L, double px, double py, const spot *c, size_t nc,
+static void elev_label(FILE *out, elev *L, double px, double py, const spot *c, size_t nc,
                        const char *text)
 {
     size_t k = 0;
@@ -978,11 +1007,12 @@ static void elev_label(FILE *out, const elev *L, double px, double py, const spo
             break;
         }
     text_ex(out, px + c[k].dx, py + c[k].dy, c[k].anchor, TICK_PX, 0, 0, 1, text);
+    elev_take(L, text_rect(px + c[k].dx, py + c[k].dy, c[k].anchor, TICK_PX, text));
 }
 
 /* Caption, seabed (a sand band under it when the axis reaches below), the
  * elevation axes and the still water level, with their labels. */
-static void elev_ground(FILE *out, const elev *L)
+static void elev_ground(FILE *out, elev *L)
 {
     const hf_svg_axes *top = &L->top;
     double hx = top->width / (top->xt.hi - top->xt.lo), hz = top->height / (top->yt.hi - top->yt.lo);
@@ -1053,30 +1083,44 @@ static void elev_line(FILE *out, const hf_svg_elevation *e, const elev *L)
 }
 
 /* Label spots around a marker, the preferred first. */
-static const spot anchor_spots[] = {{10, -10, 's'}, {10, 18, 's'}, {-10, -10, 'e'}};
-static const spot touch_spots[] = {{-8, -10, 'e'}, {8, 18, 's'}, {-8, 18, 'e'}, {8, -10, 's'}};
+static const spot anchor_spots[] = {{10, -10, 's'}, {10, -24, 's'}, {-10, -10, 'e'},
+                                    {2, -26, 's'}};
+static const spot touch_spots[] = {{-8, -10, 'e'}, {8, -10, 's'}, {-8, -24, 'e'},
+                                   {8, -24, 's'},  {40, -10, 's'}, {40, -24, 's'}};
 static const spot fair_spots[] = {{-10, -8, 'e'},  {-12, 4, 'e'},  {-10, 18, 'e'},
                                   {-10, -20, 'e'}, {-40, -8, 'e'}, {-40, 20, 'e'}};
 
-/* Anchor, touchdown and fairlead markers of e, labelled when `labels`. */
-static void elev_marks(FILE *out, const hf_svg_elevation *e, const elev *L, int labels)
+/* A marker's box (size px across) at pixel (px, py), taken. */
+static void take_marker(elev *L, double px, double py, double size)
+{
+    double r = 0.5 * size;
+    elev_take(L, (rect){px - r, py - r, px + r, py + r});
+}
+
+/* Anchor, touchdown and fairlead markers of e, then, when `labels`, their
+ * labels clear of every marker and of the labels placed before. */
+static void elev_marks(FILE *out, const hf_svg_elevation *e, elev *L, int labels)
 {
     const hf_line_point *an = &e->pts[0], *fl = &e->pts[e->npts - 1];
     const hf_svg_axes *a = &L->top;
+    double ax = hf_svg_axes_px(a, an->x), ay = hf_svg_axes_py(a, an->z);
+    double tx = hf_svg_axes_px(a, e->touchdown_x), ty = hf_svg_axes_py(a, 0.0);
+    double fx = hf_svg_axes_px(a, fl->x), fy = hf_svg_axes_py(a, fl->z);
+    int td = e->has_touchdown && e->touchdown_x > an->x;
     hf_svg_marker(out, a, an->x, an->z, HF_SVG_SQUARE, 11, INK, NULL, 0, 0);
-    if (labels)
-        elev_label(out, L, hf_svg_axes_px(a, an->x), hf_svg_axes_py(a, an->z), anchor_spots, 3,
-                   "anchor");
-    if (e->has_touchdown && e->touchdown_x > an->x) {
+    if (td)
         hf_svg_marker(out, a, e->touchdown_x, 0.0, HF_SVG_TRIANGLE, 12, "#ffffff", NULL, 0, 0);
-        if (labels)
-            elev_label(out, L, hf_svg_axes_px(a, e->touchdown_x), hf_svg_axes_py(a, 0.0),
-                       touch_spots, 4, "touchdown");
-    }
     hf_svg_marker(out, a, fl->x, fl->z, HF_SVG_CIRCLE, 11, "#ffffff", NULL, 0, 0);
-    if (labels)
-        elev_label(out, L, hf_svg_axes_px(a, fl->x), hf_svg_axes_py(a, fl->z), fair_spots, 6,
-                   "fairlead");
+    if (!labels)
+        return;
+    take_marker(L, ax, ay, 11);
+    if (td)
+        take_marker(L, tx, ty, 12);
+    take_marker(L, fx, fy, 11);
+    elev_label(out, L, ax, ay, anchor_spots, 4, "anchor");
+    if (td)
+        elev_label(out, L, tx, ty, touch_spots, 6, "touchdown");
+    elev_label(out, L, fx, fy, fair_spots, 6, "fairlead");
 }
 
 /* The tension colour bar right of the elevation: its ends (tmin, tmax) and

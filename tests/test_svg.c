@@ -1031,11 +1031,37 @@ static void test_elevation_labels_clear(void **state)
             fail();
         }
     }
+    /* labels never overlap one another */
+    for (size_t i = 0; i < 5; i++)
+        for (size_t j = i + 1; j < 5; j++) {
+            box p = text_box(find_text(svg, labels[i])), q = text_box(find_text(svg, labels[j]));
+            if (p.x0 < q.x1 && q.x0 < p.x1 && p.y0 < q.y1 && q.y0 < p.y1) {
+                print_error("labels '%s' and '%s' overlap\n", labels[i], labels[j]);
+                fail();
+            }
+        }
     /* the fairlead label stays next to its marker (within 60 px) */
     const char *c = strstr(svg, "<circle ");
     box fb = text_box(find_text(svg, "fairlead"));
     double cx = attr_num(c, "cx"), cy = attr_num(c, "cy");
     assert_true(fabs(0.5 * (fb.y0 + fb.y1) - cy) < 30 && fb.x1 <= cx && cx - fb.x1 < 60);
+    free(svg);
+    fclose(f);
+
+    /* touchdown 60 m from the anchor (about 45 px): the two labels, placed
+     * side by side as before, would overlap; they and the markers stay apart */
+    e.touchdown_x = 60.0;
+    f = tmpfile();
+    assert_int_equal(hf_svg_figure_elevation(f, &e, 1, NULL), HF_OK);
+    svg = hf_test_stream_read(f, 1);
+    box an = text_box(find_text(svg, "anchor")), td = text_box(find_text(svg, "touchdown"));
+    assert_false(an.x0 < td.x1 && td.x0 < an.x1 && an.y0 < td.y1 && td.y0 < an.y1);
+    const char *tri = strstr(svg, "<polygon points=\"");
+    assert_non_null(tri);
+    /* first vertex: the top-left corner of the triangle's 12 px box */
+    char *end;
+    double tx = strtod(tri + 17, &end), ty = strtod(end + 1, NULL);
+    assert_false(an.x0 < tx + 12 && tx < an.x1 && an.y0 < ty + 12 && ty < an.y1);
     free(svg);
     fclose(f);
 }
@@ -1118,6 +1144,31 @@ static void test_elevation_sections_overload(void **state)
     assert_non_null(strstr(err.text, "section 2"));
     assert_int_equal(ftell(f), 0);
     fclose(f);
+}
+
+/* Section records from a line: running ends, MBLs, MBL / factor. */
+static void test_sections_from_line(void **state)
+{
+    (void)state;
+    hf_line line;
+    memset(&line, 0, sizeof line);
+    line.n = 3;
+    double len[3] = {275.5, 412.25, 96.75}, mbl[3] = {6.43e6, 4.85e6, 6.43e6};
+    for (int i = 0; i < 3; i++) {
+        line.sec[i].length = len[i];
+        line.sec[i].mbl = mbl[i];
+    }
+    hf_svg_section sec[3];
+    assert_int_equal(hf_svg_sections_from_line(&line, 1.67, NULL, 0), 3);
+    assert_int_equal(hf_svg_sections_from_line(&line, 1.67, sec, 3), 3);
+    assert_float_equal(sec[0].end_arc, 275.5, 1e-12);
+    assert_float_equal(sec[1].end_arc, 687.75, 1e-12);
+    assert_float_equal(sec[2].end_arc, 784.5, 1e-12);
+    assert_float_equal(sec[1].mbl, 4.85e6, 0.0);
+    assert_float_equal(sec[1].allowed, 4.85e6 / 1.67, 1e-6);
+    assert_int_equal(hf_svg_sections_from_line(&line, 0.0, sec, 2), 3); /* no check: 0 */
+    assert_float_equal(sec[0].allowed, 0.0, 0.0);
+    assert_int_equal(hf_svg_sections_from_line(NULL, 1.67, sec, 3), 0);
 }
 
 /* Issue 13: identical lines share one elevation that names them all; all
@@ -1394,6 +1445,7 @@ int main(void)
         cmocka_unit_test(test_elevation_labels_clear),
         cmocka_unit_test(test_elevation_sections_overload),
         cmocka_unit_test(test_elevation_group_and_overlay),
+        cmocka_unit_test(test_sections_from_line),
         cmocka_unit_test(test_direction_label),
         cmocka_unit_test(test_plan_key_and_scale_bar),
         cmocka_unit_test(test_curve_overloads),

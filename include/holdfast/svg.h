@@ -181,6 +181,15 @@ typedef struct {
     double allowed; /* allowed tension (MBL / required factor), N, or 0 = none */
 } hf_svg_section;
 
+/* Fills out[0..min(n, cap)) from a line's sections, anchor first: end_arc
+ * the running sum of the unstretched lengths (m), mbl the section's MBL, and
+ * allowed = mbl / required when required > 0 (the condition's required
+ * factor MBL/T, hf_criteria_required), else 0.  Bookkeeping only, no
+ * solving.  Returns the line's section count n (0 for a NULL line), so a
+ * caller can size out; out may be NULL when cap is 0. */
+size_t hf_svg_sections_from_line(const hf_line *line, double required, hf_svg_section *out,
+                                 size_t cap);
+
 /* (1) Elevation of one line in its vertical plane.  Top panel: the line
  * (coloured by tension on the sequential scale, with a labelled colour bar),
  * seabed, still water level, anchor, fairlead, touchdown.  Bottom panel:
