@@ -42,7 +42,10 @@ void hf_env_workspace_free(hf_env_workspace *ws)
     hf_free(ws);
 }
 
-gsl_integration_workspace *hf_env_workspace_inner(hf_env_workspace *ws) { return ws->inner; }
+gsl_integration_workspace *hf_env_workspace_inner(hf_env_workspace *ws)
+{
+    return ws->inner;
+}
 
 void hf_environment_default(hf_environment *e)
 {
@@ -59,37 +62,75 @@ void hf_env_hull_default(hf_env_hull *h)
     h->heading_gap = HF_TABLE_HEADING_GAP_DEFAULT;
 }
 
-static const char *ename(const hf_environment *e) { return e->name ? e->name : "(unnamed)"; }
+static const char *ename(const hf_environment *e)
+{
+    return e->name ? e->name : "(unnamed)";
+}
 
 /* ---- integrals over the wave spectrum ---------------------------------- */
-
-/* Integral over (0, inf) of f, split at the spectral peak wp: QAG
- * (21-point) on [0, wp], QAGIU on [wp, inf). */
-static hf_status spec_integral(double (*fn)(double, void *), void *p, double wp,
-                               gsl_integration_workspace *ws, double epsrel, double *out,
-                               const char *what, hf_error *err)
-{
-    gsl_function f = {fn, p};
-    double a, b, ea, eb;
-    int rc = gsl_integration_qag(&f, 0.0, wp, 0.0, epsrel, ws->limit, GSL_INTEG_GAUSS21, ws, &a,
-                                 &ea);
-    if (rc == 0)
-        rc = gsl_integration_qagiu(&f, wp, 0.0, epsrel, ws->limit, ws, &b, &eb);
-    if (rc != 0 || !isfinite(a + b))
-        return hf_error_set(err, HF_ENOCONV, "%s: quadrature failed: %s", what,
-                            rc ? gsl_strerror(rc) : "non-finite integrand");
-    *out = a + b;
-    return HF_OK;
-}
 
 typedef struct {
     const hf_spectrum *s;
     const hf_table *t;
     double heading; /* relative, rad */
     int dof;
-    int power;   /* w^power weight (0 or 2) */
-    double mu;   /* difference frequency, rad/s (slow drift) */
+    int power; /* w^power weight (0 or 2) */
+    double mu; /* difference frequency, rad/s (slow drift) */
 } spec_params;
+
+/* Integral over (0, inf) of fn, an integrand made of the spectrum and a
+ * table linear between its frequencies.  The integrand is smooth between
+ * breakpoints: the table's frequencies shifted by -shift (Newman's
+ * D(w + mu/2) has its kinks at f_i - mu/2), the peak wp and, for the slow
+ * drift, wp - mu.  Each piece from lo (below which the spectrum holds less
+ * than 1e-14 of its energy) to the last breakpoint goes to GSL QAG
+ * (21-point Gauss-Kronrod), the rest to QAGIU.  Tolerances: epsrel, and an
+ * absolute tolerance per piece of epsrel times a first estimate of the
+ * integral of |fn| (one 21-point rule per piece) over the number of pieces,
+ * so that pieces holding nothing do not chase relative accuracy. */
+static hf_status spec_integral(double (*fn)(double, void *), spec_params *sp, double shift,
+                               gsl_integration_workspace *ws, double epsrel, double *out,
+                               const char *what, hf_error *err)
+{
+    gsl_function f = {fn, sp};
+    const double *fr = hf_table_freqs(sp->t);
+    size_t nf = hf_table_nfreq(sp->t);
+    double lo, hi, extra[2] = {sp->s->wp - sp->mu, sp->s->wp}, est = 0.0, sum = 0.0, r, e, r1, r2;
+    hf_spectrum_band(sp->s, 1e-14, &lo, &hi);
+    hi = fmax(fmax(fr[nf - 1] - shift, 2.0 * sp->s->wp), lo);
+    int rc = 0;
+    for (int pass = 0, npiece = 0; pass < 2 && rc == 0; pass++) {
+        double a = lo, epsabs = pass ? epsrel * est / npiece : 0.0;
+        size_t i = 0;
+        int j = 0;
+        while (a < hi && rc == 0) {
+            while (i < nf && fr[i] - shift <= a)
+                i++;
+            while (j < 2 && extra[j] <= a)
+                j++;
+            double b = fmin(hi, fmin(i < nf ? fr[i] - shift : hi, j < 2 ? extra[j] : hi));
+            if (pass == 0) {
+                gsl_integration_qk21(&f, a, b, &r, &e, &r1, &r2);
+                est += r1; /* integral of |fn| by the same rule */
+                npiece++;
+            } else {
+                rc = gsl_integration_qag(&f, a, b, epsabs, epsrel, ws->limit, GSL_INTEG_GAUSS21, ws,
+                                         &r, &e);
+                sum += r;
+            }
+            a = b;
+        }
+        if (pass == 1 && rc == 0) {
+            rc = gsl_integration_qagiu(&f, hi, epsabs, epsrel, ws->limit, ws, &r, &e);
+            sum += r;
+        }
+    }
+    if (rc != 0 || !isfinite(sum))
+        return hf_error_set(err, HF_ENOCONV, "%s: quadrature failed: %s", what,
+                            rc ? gsl_strerror(rc) : "non-finite integrand");
+    *out = sum;
+    return HF_OK;
+}
 
 /* S(w) D(w), D the drift coefficient of one DOF (mean wave drift). */
 static double drift_f(double w, void *p)
@@ -135,7 +176,7 @@ hf_status hf_env_slow_drift_spectrum(const hf_spectrum *s, const hf_table *drift
         return hf_error_set(err, HF_EINVAL, "slow drift: bad DOF %d or frequency %g", dof, mu);
     spec_params sp = {s, drift, heading, dof, 0, mu};
     double v;
-    hf_status st = spec_integral(newman_f, &sp, s->wp, ws->inner, HF_ENV_EPSREL_INNER, &v,
+    hf_status st = spec_integral(newman_f, &sp, 0.5 * mu, ws->inner, HF_ENV_EPSREL_INNER, &v,
                                  "slow-drift force spectrum", err);
     if (st == HF_OK)
         *sf = 8.0 * v; /* Newman (1974) */
@@ -189,8 +230,7 @@ static hf_status check_band(const hf_environment *e, const hf_spectrum *s, const
     return HF_OK;
 }
 
-static hf_status check_hull_dynamics(const hf_env_hull *h, const hf_environment *e,
-                                     hf_error *err)
+static hf_status check_hull_dynamics(const hf_env_hull *h, const hf_environment *e, hf_error *err)
 {
     for (int i = 0; i < 3; i++) {
         if (!(h->inertia[i] > 0.0) || !isfinite(h->inertia[i]))
@@ -219,8 +259,8 @@ static hf_status check_waves(const hf_env_hull *h, const hf_environment *e, doub
     if (!isfinite(e->waves.direction))
         return hf_error_set(err, HF_EINVAL, "environment %s: waves: direction is not finite",
                             ename(e));
-    hf_status st = hf_spectrum_jonswap_init(&s, e->waves.hs, e->waves.tp, e->waves.gamma,
-                                            ws->inner, &sub);
+    hf_status st =
+        hf_spectrum_jonswap_init(&s, e->waves.hs, e->waves.tp, e->waves.gamma, ws->inner, &sub);
     if (st != HF_OK)
         return hf_error_set(err, st, "environment %s: %s", ename(e), sub.text);
     if ((st = check_hull_dynamics(h, e, err)) != HF_OK)
@@ -255,8 +295,8 @@ hf_status hf_env_check(const hf_env_hull *h, const hf_environment *e, double yaw
                             ename(e), e->duration);
     hf_status st = HF_OK;
     if (e->has_wind)
-        st = check_flow(e, "wind", &e->wind, h->wind, h->wind_area, h->length, h->air_density,
-                        yaw, h->heading_gap, err);
+        st = check_flow(e, "wind", &e->wind, h->wind, h->wind_area, h->length, h->air_density, yaw,
+                        h->heading_gap, err);
     if (st == HF_OK && e->has_current)
         st = check_flow(e, "current", &e->current, h->current, h->current_area, h->length,
                         h->water_density, yaw, h->heading_gap, err);
@@ -293,13 +333,12 @@ hf_status hf_env_mean_load(const hf_env_hull *h, const hf_environment *e, double
                   out->current);
     if (e->has_waves) {
         hf_spectrum s;
-        st = hf_spectrum_jonswap_init(&s, e->waves.hs, e->waves.tp, e->waves.gamma, ws->inner,
-                                      err);
+        st = hf_spectrum_jonswap_init(&s, e->waves.hs, e->waves.tp, e->waves.gamma, ws->inner, err);
         for (int i = 0; st == HF_OK && i < 3; i++) {
             spec_params sp = {&s, h->drift, e->waves.direction - yaw, i, 0, 0.0};
             double v = 0.0;
-            st = spec_integral(drift_f, &sp, s.wp, ws->inner, HF_ENV_EPSREL, &v,
-                               "mean wave drift", err);
+            st = spec_integral(drift_f, &sp, 0.0, ws->inner, HF_ENV_EPSREL, &v, "mean wave drift",
+                               err);
             out->drift[i] = 2.0 * v; /* Faltinsen (1990), ch. 5 */
         }
         if (st != HF_OK)
@@ -314,7 +353,7 @@ hf_status hf_env_mean_load(const hf_env_hull *h, const hf_environment *e, double
     return HF_OK;
 }
 
-void hf_env_stiffness_hull(const double K[6][6], double yaw, double k[3])
+void hf_env_stiffness_hull(double K[6][6], double yaw, double k[3])
 {
     double c = cos(yaw), s = sin(yaw), cross = K[0][1] + K[1][0];
     k[0] = c * c * K[0][0] + c * s * cross + s * s * K[1][1];
@@ -329,9 +368,8 @@ hf_status hf_env_most_probable_max(double sigma, double duration, double period,
 {
     if (!(sigma >= 0.0) || !isfinite(sigma) || !(duration > 0.0) || !isfinite(duration) ||
         !(period > 0.0) || !isfinite(period))
-        return hf_error_set(err, HF_EINVAL,
-                            "extremes: bad sigma %g, duration %g s or period %g s", sigma,
-                            duration, period);
+        return hf_error_set(err, HF_EINVAL, "extremes: bad sigma %g, duration %g s or period %g s",
+                            sigma, duration, period);
     double n = duration / period;
     if (n < 1.0)
         return hf_error_set(err, HF_EINVAL,
@@ -371,8 +409,8 @@ hf_status hf_env_oscillator_variance(const hf_env_fspec *sf, double k, double m,
     double wn = sqrt(k / m), edge[4] = {0.0, 0.5 * wn, wn, 2.0 * wn}, sum = 0.0, r, e;
     int rc = 0;
     for (int i = 0; rc == 0 && i < 3; i++) {
-        rc = gsl_integration_qag(&f, edge[i], edge[i + 1], 0.0, epsrel, w->limit,
-                                 GSL_INTEG_GAUSS21, w, &r, &e);
+        rc = gsl_integration_qag(&f, edge[i], edge[i + 1], 0.0, epsrel, w->limit, GSL_INTEG_GAUSS21,
+                                 w, &r, &e);
         sum += r;
     }
     if (rc == 0)
@@ -407,8 +445,8 @@ static double newman_eval(double mu, void *p)
 {
     newman_params *np = p;
     double v = 0.0;
-    hf_status st = hf_env_slow_drift_spectrum(np->s, np->drift, np->heading, np->dof, mu, np->ws,
-                                              &v, np->err);
+    hf_status st =
+        hf_env_slow_drift_spectrum(np->s, np->drift, np->heading, np->dof, mu, np->ws, &v, np->err);
     if (st != HF_OK) {
         if (np->st == HF_OK)
             np->st = st;
@@ -446,13 +484,13 @@ static hf_status wf_dof(const hf_spectrum *s, const hf_env_hull *h, const hf_env
 {
     spec_params sp = {s, h->raos, rel, i, 0, 0.0};
     double m2 = 0.0;
-    hf_status st = spec_integral(rao_f, &sp, s->wp, ws->inner, HF_ENV_EPSREL, &d->wf_var,
+    hf_status st = spec_integral(rao_f, &sp, 0.0, ws->inner, HF_ENV_EPSREL, &d->wf_var,
                                  "wave-frequency response", err);
     if (st != HF_OK || d->wf_var == 0.0)
         return st;
     sp.power = 2;
-    st = spec_integral(rao_f, &sp, s->wp, ws->inner, HF_ENV_EPSREL, &m2,
-                       "wave-frequency response", err);
+    st = spec_integral(rao_f, &sp, 0.0, ws->inner, HF_ENV_EPSREL, &m2, "wave-frequency response",
+                       err);
     if (st != HF_OK)
         return st;
     d->wf_tz = 2.0 * M_PI * sqrt(d->wf_var / m2);

@@ -66,9 +66,10 @@ static hf_status integrate(const hf_spectrum *s, double scale, int n, double lo,
                                      GSL_INTEG_GAUSS21, ws, &b, &eb);
     }
     if (rc != 0)
-        return hf_error_set(err, HF_ENOCONV,
-                            "spectrum: quadrature of moment %d failed (Hs %g m, Tp %g s, gamma %g): %s",
-                            n, s->hs, s->tp, s->gamma, gsl_strerror(rc));
+        return hf_error_set(
+            err, HF_ENOCONV,
+            "spectrum: quadrature of moment %d failed (Hs %g m, Tp %g s, gamma %g): %s", n, s->hs,
+            s->tp, s->gamma, gsl_strerror(rc));
     *out = a + b;
     return HF_OK;
 }
@@ -104,8 +105,8 @@ hf_status hf_spectrum_jonswap_init(hf_spectrum *s, double hs, double tp, double 
     return HF_OK;
 }
 
-hf_status hf_spectrum_moment(const hf_spectrum *s, int n, gsl_integration_workspace *ws,
-                             double *m, hf_error *err)
+hf_status hf_spectrum_moment(const hf_spectrum *s, int n, gsl_integration_workspace *ws, double *m,
+                             hf_error *err)
 {
     if (n < -2 || n > 3)
         return hf_error_set(err, HF_EINVAL, "spectrum: moment %d not available (-2 .. 3)", n);

@@ -36,18 +36,27 @@ typedef struct {
 static const kind_info kinds[HF_TABLE_KIND_COUNT] = {
     [HF_TABLE_RAO] = {"raos",
                       "frequency_rad_s,heading_deg,surge_m_per_m,sway_m_per_m,yaw_deg_per_m",
-                      5, 2,
+                      5,
+                      2,
                       {"frequency_rad_s", "heading_deg", "surge_m_per_m", "sway_m_per_m",
                        "yaw_deg_per_m"},
-                      {1.0, 1.0, DEG}, 1},
+                      {1.0, 1.0, DEG},
+                      1},
     [HF_TABLE_DRIFT] = {"drift",
                         "frequency_rad_s,heading_deg,surge_kN_per_m2,sway_kN_per_m2,yaw_kNm_per_m2",
-                        5, 2,
+                        5,
+                        2,
                         {"frequency_rad_s", "heading_deg", "surge_kN_per_m2", "sway_kN_per_m2",
                          "yaw_kNm_per_m2"},
-                        {1e3, 1e3, 1e3}, 0},
-    [HF_TABLE_COEF] = {"coefficients", "heading_deg,cx,cy,cmz", 4, 1,
-                       {"heading_deg", "cx", "cy", "cmz"}, {1.0, 1.0, 1.0}, 0},
+                        {1e3, 1e3, 1e3},
+                        0},
+    [HF_TABLE_COEF] = {"coefficients",
+                       "heading_deg,cx,cy,cmz",
+                       4,
+                       1,
+                       {"heading_deg", "cx", "cy", "cmz"},
+                       {1.0, 1.0, 1.0},
+                       0},
 };
 
 const char *hf_table_kind_name(hf_table_kind k)
@@ -71,10 +80,27 @@ void hf_table_free(hf_table *t)
     hf_free(t);
 }
 
-hf_table_kind hf_table_kind_of(const hf_table *t) { return t->kind; }
-const char *hf_table_name(const hf_table *t) { return t->name; }
-size_t hf_table_nfreq(const hf_table *t) { return t->kind == HF_TABLE_COEF ? 0 : t->nf; }
-size_t hf_table_nheading(const hf_table *t) { return t->nh; }
+hf_table_kind hf_table_kind_of(const hf_table *t)
+{
+    return t->kind;
+}
+const char *hf_table_name(const hf_table *t)
+{
+    return t->name;
+}
+size_t hf_table_nfreq(const hf_table *t)
+{
+    return t->kind == HF_TABLE_COEF ? 0 : t->nf;
+}
+size_t hf_table_nheading(const hf_table *t)
+{
+    return t->nh;
+}
+
+const double *hf_table_freqs(const hf_table *t)
+{
+    return t->freq;
+}
 
 void hf_table_freq_range(const hf_table *t, double *lo, double *hi)
 {
@@ -89,8 +115,8 @@ typedef struct {
     hf_table_kind kind;
     int map[NCOL_MAX]; /* file field i holds documented column map[i] */
     size_t nrow, cap;
-    double *rows;  /* nrow * ncol values in file units, documented order */
-    long *line;    /* file line of each row */
+    double *rows; /* nrow * ncol values in file units, documented order */
+    long *line;   /* file line of each row */
 } reader;
 
 /* One field of a line: [start, end) trimmed, column (1-based) of its start. */
@@ -145,15 +171,15 @@ static hf_status header(reader *r, char *buf, long ln, hf_error *err)
                                 "%s:%ld:%d: unknown column \"%s\"; a %s table has the columns %s",
                                 r->name, ln, f[i].col, f[i].s, ki->name, ki->header);
         if (seen[c]++)
-            return hf_error_set(err, HF_EINVAL, "%s:%ld:%d: column %s appears twice", r->name,
-                                ln, f[i].col, ki->col[c]);
+            return hf_error_set(err, HF_EINVAL, "%s:%ld:%d: column %s appears twice", r->name, ln,
+                                f[i].col, ki->col[c]);
         r->map[i] = c;
     }
     for (int c = 0; c < ki->ncol; c++)
         if (!seen[c])
             return hf_error_set(err, HF_EINVAL,
-                                "%s:%ld: missing column %s; a %s table has the columns %s",
-                                r->name, ln, ki->col[c], ki->name, ki->header);
+                                "%s:%ld: missing column %s; a %s table has the columns %s", r->name,
+                                ln, ki->col[c], ki->name, ki->header);
     return HF_OK;
 }
 
@@ -169,8 +195,8 @@ static hf_status check_value(const reader *r, int c, double v, const field *f, l
                             r->name, ln, f->col, col, f->s);
     if (ki->nonneg && c >= ki->nkey && v < 0.0)
         return hf_error_set(err, HF_EINVAL,
-                            "%s:%ld:%d: column %s: expected an amplitude >= 0, got \"%s\"",
-                            r->name, ln, f->col, col, f->s);
+                            "%s:%ld:%d: column %s: expected an amplitude >= 0, got \"%s\"", r->name,
+                            ln, f->col, col, f->s);
     return HF_OK;
 }
 
@@ -358,8 +384,7 @@ done:
     return st;
 }
 
-hf_status hf_table_read(FILE *in, const char *name, hf_table_kind k, hf_table **out,
-                        hf_error *err)
+hf_status hf_table_read(FILE *in, const char *name, hf_table_kind k, hf_table **out, hf_error *err)
 {
     if (out)
         *out = NULL;
@@ -389,8 +414,8 @@ hf_status hf_table_load(const char *path, hf_table_kind k, hf_table **out, hf_er
 }
 
 hf_status hf_table_from_values(hf_table_kind k, const char *name, size_t nf, const double *freq,
-                               size_t nh, const double *head, const double *values,
-                               hf_table **out, hf_error *err)
+                               size_t nh, const double *head, const double *values, hf_table **out,
+                               hf_error *err)
 {
     if (out)
         *out = NULL;

@@ -44,8 +44,11 @@ static double simpson_m0(const hf_spectrum *s)
 static void test_m0(void **state)
 {
     (void)state;
-    const double cases[][3] = {{2.385, 9.37, 1.0}, {4.71, 11.3, 3.3}, {7.13, 13.9, 6.85},
-                               {0.613, 4.27, 2.17}, {13.2, 16.8, 1.43}};
+    const double cases[][3] = {{2.385, 9.37, 1.0},
+                               {4.71, 11.3, 3.3},
+                               {7.13, 13.9, 6.85},
+                               {0.613, 4.27, 2.17},
+                               {13.2, 16.8, 1.43}};
     for (size_t i = 0; i < sizeof cases / sizeof cases[0]; i++) {
         hf_spectrum s = make(cases[i][0], cases[i][1], cases[i][2]);
         double want = cases[i][0] * cases[i][0] / 16.0, m0 = -1.0;
@@ -91,8 +94,8 @@ static void test_pierson_moskowitz(void **state)
     assert_true(fabs(s.scale_closed - 1.0) <= 1e-15);
     const double w[] = {0.21, 0.38, wp, 0.731, 1.17, 2.93};
     for (size_t i = 0; i < 6; i++) {
-        double pm = 5.0 / 16.0 * hs * hs * pow(wp, 4) * pow(w[i], -5) *
-                    exp(-1.25 * pow(wp / w[i], 4));
+        double pm =
+            5.0 / 16.0 * hs * hs * pow(wp, 4) * pow(w[i], -5) * exp(-1.25 * pow(wp / w[i], 4));
         assert_true(fabs(hf_spectrum_eval(&s, w[i]) - pm) <= 1e-9 * pm + 1e-300);
     }
 }
@@ -164,8 +167,8 @@ static void test_outside(void **state)
     const double band[][2] = {{0.3, 2.5}, {0.45, 1.1}, {0.0, 4.0}, {0.6, INFINITY}, {0.5, 0.5}};
     for (size_t i = 0; i < 5; i++) {
         double lo = band[i][0], hi = band[i][1];
-        double want = exp(-1.25 * pow(wp / lo, 4)) + 1.0 -
-                      (isinf(hi) ? 1.0 : exp(-1.25 * pow(wp / hi, 4)));
+        double want =
+            exp(-1.25 * pow(wp / lo, 4)) + 1.0 - (isinf(hi) ? 1.0 : exp(-1.25 * pow(wp / hi, 4)));
         assert_int_equal(hf_spectrum_outside(&s, lo, hi, ws, &frac, &e), HF_OK);
         if (!(fabs(frac - want) <= 1e-9))
             fail_msg("band [%g, %g]: %.12g, want %.12g", lo, hi, frac, want);
@@ -243,10 +246,14 @@ static void test_eval_edges(void **state)
 int main(void)
 {
     const struct CMUnitTest tests[] = {
-        cmocka_unit_test(test_m0),         cmocka_unit_test(test_peak),
-        cmocka_unit_test(test_pierson_moskowitz), cmocka_unit_test(test_closed_form_factor),
-        cmocka_unit_test(test_periods),    cmocka_unit_test(test_outside),
-        cmocka_unit_test(test_refusals),   cmocka_unit_test(test_eval_edges),
+        cmocka_unit_test(test_m0),
+        cmocka_unit_test(test_peak),
+        cmocka_unit_test(test_pierson_moskowitz),
+        cmocka_unit_test(test_closed_form_factor),
+        cmocka_unit_test(test_periods),
+        cmocka_unit_test(test_outside),
+        cmocka_unit_test(test_refusals),
+        cmocka_unit_test(test_eval_edges),
     };
     hf_gsl_handler_install();
     ws = gsl_integration_workspace_alloc(HF_SPECTRUM_LIMIT);

@@ -95,8 +95,8 @@ static void test_interpolation(void **state)
     for (int i = 0; i < 4; i++)
         for (int j = 0; j < 4; j++)
             for (int c = 0; c < 3; c++)
-                val[(i * 4 + j) * 3 + c] = 1.5 + c + 2.25 * fr[i] + 0.75 * hd[j] +
-                                           0.4 * fr[i] * hd[j];
+                val[(i * 4 + j) * 3 + c] =
+                    1.5 + c + 2.25 * fr[i] + 0.75 * hd[j] + 0.4 * fr[i] * hd[j];
     hf_table *t = NULL;
     hf_error e;
     assert_int_equal(hf_table_from_values(HF_TABLE_RAO, "grid", 4, fr, 4, hd, val, &t, &e), HF_OK);
@@ -206,8 +206,7 @@ static void test_errors(void **state)
 
     hf_table *t = NULL;
     hf_error e;
-    assert_int_equal(hf_table_load("/nonexistent/holdfast/raos.csv", HF_TABLE_RAO, &t, &e),
-                     HF_EIO);
+    assert_int_equal(hf_table_load("/nonexistent/holdfast/raos.csv", HF_TABLE_RAO, &t, &e), HF_EIO);
     assert_null(t);
     assert_non_null(strstr(e.text, "/nonexistent/holdfast/raos.csv: cannot open"));
     assert_int_equal(hf_table_read(NULL, "x", HF_TABLE_RAO, &t, &e), HF_EINVAL);
@@ -218,8 +217,7 @@ static void test_errors(void **state)
     const double negv[3] = {0.1, -0.2, 0.3};
     assert_int_equal(hf_table_from_values(HF_TABLE_RAO, "v", 1, fr, 1, hd, negv, &t, &e),
                      HF_EINVAL);
-    assert_int_equal(hf_table_from_values(HF_TABLE_DRIFT, "v", 1, fr, 1, hd, negv, &t, &e),
-                     HF_OK);
+    assert_int_equal(hf_table_from_values(HF_TABLE_DRIFT, "v", 1, fr, 1, hd, negv, &t, &e), HF_OK);
     hf_table_free(t);
     const double nanv[3] = {0.1, NAN, 0.3};
     assert_int_equal(hf_table_from_values(HF_TABLE_DRIFT, "v", 1, fr, 1, hd, nanv, &t, &e),
@@ -246,7 +244,7 @@ static void test_heading_coverage(void **state)
     covered(r, 345.0, 45.0, 1, NULL); /* between 330 and 360 */
     covered(r, -721.3, 45.0, 1, NULL);
     covered(r, 45.0, 20.0, 0, "neighbours 30 and 60 deg are 30 deg apart"); /* gap 30 > 20 */
-    covered(r, 60.0, 20.0, 1, NULL);      /* a tabulated heading */
+    covered(r, 60.0, 20.0, 1, NULL); /* a tabulated heading */
     hf_table_free(r);
     hf_table *t = NULL;
     hf_error e;
@@ -258,9 +256,8 @@ static void test_heading_coverage(void **state)
     covered(t, 180.0, 45.0, 1, NULL);
     covered(t, 181.0, 45.0, 0, "180 and 0 deg are 180 deg apart");
     hf_table_free(t);
-    assert_int_equal(hf_table_from_values(HF_TABLE_COEF, "one.csv", 1, NULL, 1, hd + 2, val, &t,
-                                          &e),
-                     HF_OK);
+    assert_int_equal(
+        hf_table_from_values(HF_TABLE_COEF, "one.csv", 1, NULL, 1, hd + 2, val, &t, &e), HF_OK);
     covered(t, 90.0, 45.0, 1, NULL);
     covered(t, 90.5, 45.0, 0, "one.csv tabulates heading 90 deg only");
     hf_error_clear(&e);

@@ -94,15 +94,15 @@ typedef struct {
 
 /* Low- and wave-frequency response of one degree of freedom. */
 typedef struct {
-    double stiffness;   /* k, N/m or N m/rad */
-    double inertia;     /* M, kg or kg m^2 */
-    double damping;     /* c = 2 zeta sqrt(k M), N s/m or N m s/rad */
-    double lf_period;   /* natural period T_n = 2 pi sqrt(M / k), s */
-    double lf_var;      /* variance, full integral, m^2 or rad^2 */
-    double lf_var_white;/* variance, white-noise approximation, m^2 or rad^2 */
+    double stiffness;                /* k, N/m or N m/rad */
+    double inertia;                  /* M, kg or kg m^2 */
+    double damping;                  /* c = 2 zeta sqrt(k M), N s/m or N m s/rad */
+    double lf_period;                /* natural period T_n = 2 pi sqrt(M / k), s */
+    double lf_var;                   /* variance, full integral, m^2 or rad^2 */
+    double lf_var_white;             /* variance, white-noise approximation, m^2 or rad^2 */
     double lf_sigma, lf_sig, lf_max; /* sigma, 2 sigma, sigma sqrt(2 ln(duration / T_n)) */
-    double wf_var;      /* variance, m^2 or rad^2 */
-    double wf_tz;       /* zero-crossing period 2 pi sqrt(m0 / m2), s (0 when wf_var is 0) */
+    double wf_var;                   /* variance, m^2 or rad^2 */
+    double wf_tz; /* zero-crossing period 2 pi sqrt(m0 / m2), s (0 when wf_var is 0) */
     double wf_sigma, wf_sig, wf_max; /* sigma, 2 sigma, sigma sqrt(2 ln(duration / T_z)) */
 } hf_env_dof;
 
@@ -114,17 +114,17 @@ typedef struct {
 
 /* Design offset along a direction, and in yaw. */
 typedef struct {
-    double direction;    /* rad, global: of the mean offset (or the fallback) */
-    int from_fallback;   /* 1 when the mean offset was too small to give one */
-    double mean;         /* |mean horizontal offset|, m */
+    double direction;                      /* rad, global: of the mean offset (or the fallback) */
+    int from_fallback;                     /* 1 when the mean offset was too small to give one */
+    double mean;                           /* |mean horizontal offset|, m */
     double lf_sig, lf_max, wf_sig, wf_max; /* motions along direction, m */
-    double combo_lf_max; /* LF max + WF significant, m */
-    double combo_wf_max; /* LF significant + WF max, m */
-    double offset;       /* mean + the larger combination, m */
-    double offset_xy[2]; /* design offset vector from rest, global, m */
-    double yaw_mean;     /* mean yaw from rest, rad */
+    double combo_lf_max;                   /* LF max + WF significant, m */
+    double combo_wf_max;                   /* LF significant + WF max, m */
+    double offset;                         /* mean + the larger combination, m */
+    double offset_xy[2];                   /* design offset vector from rest, global, m */
+    double yaw_mean;                       /* mean yaw from rest, rad */
     double yaw_combo_lf_max, yaw_combo_wf_max; /* the same combinations in yaw, rad */
-    double yaw;          /* design yaw from rest, rad, in the sense of the mean yaw */
+    double yaw; /* design yaw from rest, rad, in the sense of the mean yaw */
 } hf_env_design;
 
 /* Quadrature workspace of the module (two GSL workspaces of HF_ENV_LIMIT
@@ -162,7 +162,7 @@ hf_status hf_env_mean_load(const hf_env_hull *h, const hf_environment *e, double
  * sway, heave, roll, pitch, yaw; spread.h) at hull yaw `yaw`:
  * k[0] = ex.K.ex, k[1] = ey.K.ey (ex, ey the hull's horizontal axes, over
  * the translational block), k[2] = K[5][5]. */
-void hf_env_stiffness_hull(const double K[6][6], double yaw, double k[3]);
+void hf_env_stiffness_hull(double K[6][6], double yaw, double k[3]); /* K is only read */
 
 /* Motions at hull yaw `yaw` with stiffness k (hull axes, from
  * hf_env_stiffness_hull).  Without waves every motion is 0.  With waves:

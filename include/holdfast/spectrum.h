@@ -27,9 +27,9 @@
 #include <gsl/gsl_integration.h>
 #include "holdfast/status.h"
 
-#define HF_SPECTRUM_EPSREL 1e-10   /* relative tolerance of the moment integrals */
-#define HF_SPECTRUM_LIMIT 200      /* intervals the caller's workspace must hold */
-#define HF_SPECTRUM_GAMMA_MAX 10.0 /* largest peak enhancement factor accepted */
+#define HF_SPECTRUM_EPSREL 1e-10              /* relative tolerance of the moment integrals */
+#define HF_SPECTRUM_LIMIT 200                 /* intervals the caller's workspace must hold */
+#define HF_SPECTRUM_GAMMA_MAX 10.0            /* largest peak enhancement factor accepted */
 #define HF_SPECTRUM_STEEPNESS_MAX (1.0 / 7.0) /* Hs / Lp refused above (breaking) */
 
 /* A JONSWAP sea state.  Filled by hf_spectrum_jonswap_init; read-only after. */
@@ -59,8 +59,8 @@ double hf_spectrum_eval(const hf_spectrum *s, double w);
 /* Spectral moment m_n = integral over (0, inf) of w^n S(w) dw, units
  * m^2 (rad/s)^n, for n in -2 .. 3 (m_4 diverges for a w^-5 tail).
  * HF_EINVAL for another n; HF_ENOCONV when the quadrature fails. */
-hf_status hf_spectrum_moment(const hf_spectrum *s, int n, gsl_integration_workspace *ws,
-                             double *m, hf_error *err);
+hf_status hf_spectrum_moment(const hf_spectrum *s, int n, gsl_integration_workspace *ws, double *m,
+                             hf_error *err);
 
 /* Fraction of the spectrum's energy (m0) lying outside the band [lo, hi]
  * (rad/s, 0 <= lo <= hi; hi may be INFINITY), in [0, 1].

@@ -66,8 +66,7 @@ const char *hf_table_columns(hf_table_kind k);
  * <= 0, a negative RAO, a repeated (frequency, heading) pair or an
  * incomplete grid, no data rows; HF_ELIMIT for too many rows or too long a
  * line; HF_EIO on a read error; HF_ENOMEM.  *out is NULL on failure. */
-hf_status hf_table_read(FILE *in, const char *name, hf_table_kind k, hf_table **out,
-                        hf_error *err);
+hf_status hf_table_read(FILE *in, const char *name, hf_table_kind k, hf_table **out, hf_error *err);
 
 /* Opens `path` and reads it with hf_table_read (name = path).  HF_EIO with
  * the system's reason when the file cannot be opened. */
@@ -79,8 +78,8 @@ hf_status hf_table_load(const char *path, hf_table_kind k, hf_table **out, hf_er
  * values[(i_f * nh + i_h) * 3 + c] for c = x, y, yaw.  Same checks and
  * statuses as hf_table_read; name is copied for messages. */
 hf_status hf_table_from_values(hf_table_kind k, const char *name, size_t nf, const double *freq,
-                               size_t nh, const double *head, const double *values,
-                               hf_table **out, hf_error *err);
+                               size_t nh, const double *head, const double *values, hf_table **out,
+                               hf_error *err);
 
 /* Frees a table; NULL is allowed. */
 void hf_table_free(hf_table *t);
@@ -89,6 +88,9 @@ hf_table_kind hf_table_kind_of(const hf_table *t);
 const char *hf_table_name(const hf_table *t);
 size_t hf_table_nfreq(const hf_table *t);
 size_t hf_table_nheading(const hf_table *t);
+/* The tabulated frequencies, rad/s, increasing, hf_table_nfreq of them
+ * (NULL for HF_TABLE_COEF); owned by the table. */
+const double *hf_table_freqs(const hf_table *t);
 /* Tabulated frequency range, rad/s (both 0 for HF_TABLE_COEF). */
 void hf_table_freq_range(const hf_table *t, double *lo, double *hi);
 
