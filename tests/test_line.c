@@ -666,11 +666,13 @@ static double lrand(double lo, double hi)
 }
 
 /* 10,000 random physically valid lines: 100 % convergence, residual within
- * 1e-9, no NaN, and the solution reproduces the span through the forward map. */
+ * 1e-9, no NaN, and the solution reproduces the span through the forward map.
+ * Every miss fails at once with its own message (case, line, span, status);
+ * the closing checks are on what the sample must cover. */
 static void test_random(void **state)
 {
     (void)state;
-    int ok = 0, total = 10000;
+    int total = 10000;
     double worst = 0.0;
     int regimes[5] = {0};
     long evals = 0;
@@ -705,6 +707,9 @@ static void test_random(void **state)
             fail_msg("case %d: n=%zu X=%.17g Z=%.17g status %s: %s", c, line.n, X, Z,
                      hf_status_str(st), s.message);
         }
+        if (!(s.residual <= 1e-9))
+            fail_msg("case %d: n=%zu X=%.17g Z=%.17g residual %.3e above 1e-9", c, line.n, X, Z,
+                     s.residual);
         no_nan(&s);
         regimes[s.regime]++;
         evals += s.evaluations;
@@ -717,14 +722,17 @@ static void test_random(void **state)
             if (fabs(x - X) > 1e-9 * scale || fabs(z - Z) > 1e-9 * scale)
                 fail_msg("case %d: forward map misses by %.3e, %.3e", c, x - X, z - Z);
         }
-        ok++;
     }
-    print_message("random lines: %d/%d converged, largest residual %.3e; regimes susp %d "
+    print_message("random lines: %d converged, largest residual %.3e; regimes susp %d "
                   "touchdown %d slack %d vertical %d laid %d; evaluations mean %.1f max %d\n",
-                  ok, total, worst, regimes[0], regimes[1], regimes[2], regimes[3], regimes[4],
+                  total, worst, regimes[0], regimes[1], regimes[2], regimes[3], regimes[4],
                   (double)evals / total, max_evals);
-    assert_int_equal(ok, total);
-    assert_true(worst <= 1e-9);
+    /* the sample must exercise the three regimes random spans reach */
+    if (regimes[HF_LINE_SUSPENDED] < 1000 || regimes[HF_LINE_TOUCHDOWN] < 1000 ||
+        regimes[HF_LINE_SLACK] < 1000)
+        fail_msg("random sample too narrow: suspended %d, touchdown %d, slack %d (want >= 1000 "
+                 "each)",
+                 regimes[0], regimes[1], regimes[2]);
 }
 
 int main(void)
