@@ -654,6 +654,13 @@ static void test_refusals(void **state)
     refused(&h, &e, 0.0, HF_EINVAL, "positive hull wind_area", NULL);
     h.wind_area = 612.0;
     OK(hf_env_check(&h, &e, 0.0, ws, NULL, E_));
+    /* a finite but absurd wind: the load overflows and is refused, not printed */
+    hf_env_mean mn;
+    e.wind.speed = 1e160;
+    hf_error_clear(&er);
+    assert_int_equal(hf_env_mean_load(&h, &e, 0.0, ws, &mn, &er), HF_EINVAL);
+    assert_non_null(strstr(er.text, "overflows"));
+    e.wind.speed = 23.0;
     /* motions: stiffness must be positive; the storm longer than a period */
     hf_env_motion_result m;
     const double k0[3] = {9.2e4, -1.0, 4.4e9};
