@@ -5,6 +5,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include "holdfast/alloc.h"
+#include "holdfast/case.h"
 #include "holdfast/cli.h"
 #include "holdfast/criteria.h"
 #include "holdfast/outfile.h"
@@ -247,8 +248,10 @@ int hf_cmd_plot(int argc, char **argv)
     if (offset && hf_cli_parse_offset(offset, offs, &err) != HF_OK)
         return hf_cli_fail(&err);
     hf_model m;
+    hf_study_list sl;
     hf_model_init(&m);
-    if (hf_cli_load(path, &m, &err) != HF_OK)
+    hf_study_list_init(&sl);
+    if (hf_case_load_with_studies(path, &m, &sl, &err) != HF_OK)
         return hf_cli_fail(&err);
 
     hf_status s = HF_OK;
@@ -266,12 +269,12 @@ int hf_cmd_plot(int argc, char **argv)
             ld = &m.loads[k];
     }
     if (kind == 2) {
-        for (size_t k = 0; k < m.nstudies; k++)
-            if (m.studies[k].kind == HF_STUDY_CURVE) {
-                dir = m.studies[k].direction;
-                from = m.studies[k].from;
-                to = m.studies[k].to;
-                step = m.studies[k].step;
+        for (size_t k = 0; k < sl.n; k++)
+            if (sl.v[k].kind == HF_STUDY_CURVE) {
+                dir = sl.v[k].direction;
+                from = sl.v[k].from;
+                to = sl.v[k].to;
+                step = sl.v[k].step;
                 break;
             }
         if (direction && !degrees(direction, &dir))
@@ -304,6 +307,7 @@ int hf_cmd_plot(int argc, char **argv)
         else
             hf_outfile_abort(of);
     }
+    hf_study_list_free(&sl);
     hf_model_free(&m);
     if (s != HF_OK)
         return hf_cli_fail(&err);

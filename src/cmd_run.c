@@ -7,6 +7,7 @@
 #include <sys/stat.h>
 #include "holdfast/alloc.h"
 #include "holdfast/balance.h"
+#include "holdfast/case.h"
 #include "holdfast/cli.h"
 #include "holdfast/invert.h"
 #include "holdfast/outfile.h"
@@ -608,7 +609,7 @@ static hf_status run_invert(const hf_model *m, const hf_study *s, int jobs, FILE
     char text[2 * HF_MODEL_MAX_NAME + 64];
     hf_invert_target_text(s->target_output, s->target_line, text, sizeof text);
     hf_output o;
-    hf_status st = hf_sweep_output_parse(m, text, &o, err);
+    hf_status st = hf_output_parse(m, text, &o, err);
     if (st != HF_OK || s->nvary != 1)
         return st != HF_OK ? st : hf_error_set(err, HF_EINVAL, "invert study needs one parameter");
     hf_invert_result res;
@@ -626,7 +627,7 @@ static hf_status run_invert(const hf_model *m, const hf_study *s, int jobs, FILE
     char para[HF_ERROR_TEXT];
     double sc = 1e-3;
     const char *ou = "kN";
-    switch (hf_invert_output_dim(&o)) {
+    switch (hf_output_dim(&o)) {
     case HF_DIM_NONE:
         sc = 1.0;
         ou = "";
@@ -733,15 +734,17 @@ int hf_cmd_run(int argc, char **argv)
     if (jobs == 0)
         jobs = hf_study_default_jobs();
     hf_model m;
+    hf_study_list sl;
     hf_model_init(&m);
+    hf_study_list_init(&sl);
     hf_error err;
     hf_error_clear(&err);
     int rc = HF_EXIT_OK;
     outcome *oc = NULL;
     char dbuf[4096], path[8192];
-    if (hf_cli_load(case_path, &m, &err) != HF_OK)
+    if (hf_case_load_with_studies(case_path, &m, &sl, &err) != HF_OK)
         goto fail;
-    if (m.nstudies == 0) {
+    if (sl.n == 0) {
         hf_error_set(&err, HF_EINVAL, "%s: the case has no studies: section; nothing to run",
                      case_path);
         goto fail;
@@ -752,7 +755,7 @@ int hf_cmd_run(int argc, char **argv)
     }
     if (make_dir(dir, &err) != HF_OK)
         goto fail;
-    oc = hf_calloc(m.nstudies, sizeof *oc);
+    oc = hf_calloc(sl.n, sizeof *oc);
     if (!oc) {
         hf_error_set(&err, HF_ENOMEM, "out of memory");
         goto fail;
@@ -767,8 +770,8 @@ int hf_cmd_run(int argc, char **argv)
     hf_report_begin(&rep, hf_outfile_stream(rf), &m, command);
     report_rest(&rep, &m);
     int worst = 0, crit = 0;
-    for (size_t k = 0; k < m.nstudies; k++) {
-        const hf_study *s = &m.studies[k];
+    for (size_t k = 0; k < sl.n; k++) {
+        const hf_study *s = &sl.v[k];
         snprintf(path, sizeof path, "%s/%s.csv", dir, s->name);
         hf_error e;
         hf_error_clear(&e);
@@ -811,8 +814,8 @@ int hf_cmd_run(int argc, char **argv)
     if (m.title)
         fprintf(out, "case: %s\n", m.title);
     fprintf(out, "\n");
-    for (size_t k = 0; k < m.nstudies; k++)
-        fprintf(out, "%-24s %-9s %-8s %s\n", m.studies[k].name, kind_name[m.studies[k].kind],
+    for (size_t k = 0; k < sl.n; k++)
+        fprintf(out, "%-24s %-9s %-8s %s\n", sl.v[k].name, kind_name[sl.v[k].kind],
                 oc[k].status != HF_OK    ? "failed"
                 : oc[k].criterion_failed ? "criterion"
                                          : "ok",
@@ -828,6 +831,7 @@ fail:
     rc = hf_cli_fail(&err);
 done:
     hf_free(oc);
+    hf_study_list_free(&sl);
     hf_model_free(&m);
     return rc;
 }

@@ -20,13 +20,8 @@ static hf_test_io io = {.out = out, .out_cap = sizeof out, .err = err, .err_cap 
 static int setup(void **state)
 {
     (void)state;
-    bin = hf_test_bin();
     root = hf_test_root();
-    if (!bin || access(bin, X_OK) != 0) {
-        bin = NULL;
-        return 0;
-    }
-    return hf_test_tmpdir_make(dir, sizeof dir, "cmd-check");
+    return hf_test_cli_setup(&bin, dir, sizeof dir, "cmd-check");
 }
 
 static int teardown(void **state)
