@@ -4,7 +4,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include "holdfast/alloc.h"
-#include "holdfast/cli.h"
+#include "holdfast/caution.h"
 #include "holdfast/criteria.h"
 #include "holdfast/report.h"
 #include "holdfast/svg.h"
@@ -65,10 +65,10 @@ static void caution(hf_report *r)
 {
     fputs("<div class=\"caution\">", r->out);
     char buf[512];
-    size_t n = strlen(hf_cli_caution);
+    size_t n = strlen(hf_caution_text);
     if (n >= sizeof buf)
         n = sizeof buf - 1;
-    memcpy(buf, hf_cli_caution, n);
+    memcpy(buf, hf_caution_text, n);
     buf[n] = '\0';
     while (n > 0 && buf[n - 1] == '\n')
         buf[--n] = '\0';
@@ -671,5 +671,41 @@ hf_status hf_report_svg_elevation(FILE *out, const hf_model *m, size_t i, const 
         e.tension_limit = line->sec[st->max_section].mbl / f;
     hf_status s = hf_svg_figure_elevation(out, &e, standalone, err);
     hf_free(pts);
+    return s;
+}
+
+hf_status hf_report_svg_curve(FILE *out, const hf_model *m, const hf_analysis_curve *c,
+                              const char *title, const char *label, int tension_limits,
+                              int standalone, hf_error *err)
+{
+    size_t nl = m->nlines;
+    const char **names = hf_malloc((nl ? nl : 1) * sizeof *names);
+    double *lim = tension_limits ? hf_malloc((nl ? nl : 1) * sizeof *lim) : NULL;
+    if (!names || (tension_limits && !lim)) {
+        hf_free(names);
+        hf_free(lim);
+        return hf_error_set(err, HF_ENOMEM, "curve figure: out of memory");
+    }
+    for (size_t j = 0; j < nl; j++) {
+        names[j] = m->lines[j].name;
+        if (lim)
+            lim[j] = hf_analysis_allowed_tension(m, j);
+    }
+    double f = hf_criteria_required(&m->criteria, 0);
+    hf_svg_curve cv = {title,
+                       c->n,
+                       c->offset,
+                       c->restoring,
+                       c->stiffness,
+                       nl,
+                       names,
+                       c->line_tension,
+                       c->utilisation,
+                       f > 0 ? 1.0 / f : 0.0,
+                       f > 0 ? lim : NULL,
+                       label};
+    hf_status s = hf_svg_figure_curve(out, &cv, standalone, err);
+    hf_free(names);
+    hf_free(lim);
     return s;
 }

@@ -329,7 +329,9 @@ static void test_usage_errors(void **state)
         {"stiffness", 2, "missing the CASE"},
         {"curve SMALL --range 0:5:1", 2, "--direction"},
         {"curve SMALL --direction 10", 2, "--range"},
-        {"curve SMALL --direction ten --range 0:5:1", 2, "finite angle"},
+        {"curve SMALL --direction ten --range 0:5:1", 2, "--direction: expected an angle"},
+        {"curve SMALL --direction 0x10 --range 0:5:1", 2, "--direction"}, /* hex refused */
+        {"curve SMALL --direction 30deg --range 0m:5m:1m --csv=", 2, "empty name"},
         {"curve SMALL --direction 1e309 --range 0:5:1", 2, "finite angle"},
         {"curve SMALL --direction nan --range 0:5:1", 2, "finite angle"},
         {"curve SMALL --direction 10 --range 0:5:-1", 2, "STEP"},
