@@ -96,6 +96,39 @@ const char *hf_balance_criterion_name(hf_balance_criterion c)
     return "unknown";
 }
 
+hf_status hf_drag_force(const hf_drag *d, double *q, double *fx, double *fy, hf_error *err)
+{
+    if (q)
+        *q = 0.0;
+    if (fx)
+        *fx = 0.0;
+    if (fy)
+        *fy = 0.0;
+    if (!d)
+        return hf_error_set(err, HF_EINVAL, "no drag term given");
+    if (!isfinite(d->density) || d->density < 0.0 || !isfinite(d->coefficient) ||
+        d->coefficient < 0.0 || !isfinite(d->area) || d->area < 0.0 || !isfinite(d->speed) ||
+        d->speed < 0.0 || !isfinite(d->direction))
+        return hf_error_set(err, HF_EINVAL,
+                            "expected finite density, coefficient, area and speed >= 0 and a "
+                            "finite direction");
+    /* the drag equation 1/2 rho C A V^2 (classical; e.g. White, Fluid Mechanics,
+     * ch. 7 - from memory), toward its direction, fixed in the global frame */
+    double f = 0.5 * d->density * d->coefficient * d->area * d->speed * d->speed;
+    if (!isfinite(f))
+        return hf_error_set(err, HF_EINVAL,
+                            "the drag force 1/2 rho C A V^2 overflows (rho %.6g kg/m^3, C %.6g, "
+                            "A %.6g m^2, V %.6g m/s)",
+                            d->density, d->coefficient, d->area, d->speed);
+    if (q)
+        *q = f;
+    if (fx)
+        *fx = f * cos(d->direction);
+    if (fy)
+        *fy = f * sin(d->direction);
+    return HF_OK;
+}
+
 hf_status hf_balance_load_force(const hf_load *load, double f[3], hf_error *err)
 {
     f[0] = f[1] = f[2] = 0.0;
@@ -111,18 +144,13 @@ hf_status hf_balance_load_force(const hf_load *load, double f[3], hf_error *err)
     double fx = load->force * cos(load->direction);
     double fy = load->force * sin(load->direction);
     for (size_t k = 0; k < load->ndrag; k++) {
-        const hf_drag *d = &load->drag[k];
-        if (!isfinite(d->density) || d->density < 0.0 || !isfinite(d->coefficient) ||
-            d->coefficient < 0.0 || !isfinite(d->area) || d->area < 0.0 || !isfinite(d->speed) ||
-            d->speed < 0.0 || !isfinite(d->direction))
-            return hf_error_set(err, HF_EINVAL,
-                                "loads[%s].drag[%zu]: expected finite density, coefficient, area "
-                                "and speed >= 0 and a finite direction",
-                                name, k);
-        /* drag force 1/2 rho C A V^2, toward its direction (fixed in the global frame) */
-        double q = 0.5 * d->density * d->coefficient * d->area * d->speed * d->speed;
-        fx += q * cos(d->direction);
-        fy += q * sin(d->direction);
+        double dx, dy;
+        hf_error e;
+        hf_error_clear(&e);
+        if (hf_drag_force(&load->drag[k], NULL, &dx, &dy, &e) != HF_OK)
+            return hf_error_set(err, HF_EINVAL, "loads[%s].drag[%zu]: %s", name, k, e.text);
+        fx += dx;
+        fy += dy;
     }
     if (!isfinite(fx) || !isfinite(fy))
         return hf_error_set(err, HF_EINVAL, "loads[%s]: the total force is not finite", name);

@@ -32,6 +32,19 @@ void hf_line_options_default(hf_line_options *o)
 {
     o->rtol = 1e-10;
     o->max_iter = 40;
+    o->max_backtrack = 40;
+    o->max_bracket = 200;
+    o->max_shrink = 60;
+    o->max_polish = 20;
+    o->max_laid = 200;
+}
+
+/* Options in range: rtol finite in (0, 1e-2), every limit >= 1. */
+static int options_ok(const hf_line_options *o)
+{
+    return isfinite(o->rtol) && o->rtol > 0.0 && o->rtol < 1e-2 && o->max_iter >= 1 &&
+           o->max_backtrack >= 1 && o->max_bracket >= 1 && o->max_shrink >= 1 &&
+           o->max_polish >= 1 && o->max_laid >= 1;
 }
 
 /* sqrt(a^2 + b^2) without glibc hypot's cost; hypot only where squaring
@@ -559,6 +572,7 @@ typedef struct {
     walk_t *trial;       /* scratch for the line search; swapped with w on acceptance */
     double f;            /* merit: (rx^2 + rz^2) / scale^2 */
     int evals;
+    int max_backtrack;   /* line-search halvings per iteration (options) */
 } newton_t;
 
 static double merit(const newton_t *s, const walk_t *w)
@@ -603,7 +617,7 @@ static hf_status newton_iterate(newton_t *s)
         a = fmin(a, 0.9 * s->H / -dH); /* keep H > 0 */
     if (s->Z > 0.0 && s->V > 0.0 && s->V + a * dV < 0.1 * s->V)
         a = fmin(a, 0.9 * s->V / -dV); /* stay where the line is lifted */
-    for (int i = 0; i < 40; i++, a *= 0.5) {
+    for (int i = 0; i < s->max_backtrack; i++, a *= 0.5) {
         double H = s->H + a * dH, V = s->V + a * dV;
         s->evals++;
         if (walk(s->line, H, V, s->trial) != HF_OK)
@@ -626,12 +640,42 @@ static hf_status newton_iterate(newton_t *s)
 /* ------------------------------------------------------------------------
  * Fallback: z is non-decreasing in V for fixed H and the span x(H, V(H)) is
  * increasing in H, so nested bracketing always finds the root.
+ *
+ * The two GSL Brent solvers live in storage inside the solve's own stack
+ * frame (brent_t): gsl_root_fsolver is a public struct (gsl_roots.h) whose
+ * state block has the size the solver type declares, so it is set up here
+ * exactly as gsl_root_fsolver_alloc would, without the heap.  The solver
+ * therefore allocates nothing at all and can never run out of memory.
  * ---------------------------------------------------------------------- */
+
+typedef struct {
+    gsl_root_fsolver s;
+    union {
+        double d[32];
+        void *p[32];
+        long double ld[16];
+    } state; /* GSL's Brent state is 8 doubles in GSL 2.x: room to spare */
+} brent_t;
+
+/* Sets up b as a Brent solver.  -1 when this GSL's Brent state does not fit
+ * (a different GSL build: reported, never a silent wrong result). */
+static int brent_init(brent_t *b)
+{
+    const gsl_root_fsolver_type *T = gsl_root_fsolver_brent;
+    if (T->size > sizeof b->state)
+        return -1;
+    b->s.type = T;
+    b->s.function = NULL;
+    b->s.root = b->s.x_lower = b->s.x_upper = 0.0;
+    b->s.state = &b->state;
+    return 0;
+}
 
 typedef struct {
     newton_t *s;
     double H;
     gsl_root_fsolver *inner; /* Brent solver for V at fixed H */
+    const hf_line_options *opt;
 } inner_t;
 
 static double inner_f(double V, void *p)
@@ -645,11 +689,11 @@ static double inner_f(double V, void *p)
 }
 
 static int brent(gsl_root_fsolver *r, gsl_function *F, double lo, double hi, double xtol,
-                 double *root)
+                 int max_iter, double *root)
 {
     if (gsl_root_fsolver_set(r, F, lo, hi) != GSL_SUCCESS)
         return -1;
-    for (int i = 0; i < 200; i++) {
+    for (int i = 0; i < max_iter; i++) {
         if (gsl_root_fsolver_iterate(r) != GSL_SUCCESS)
             return -1;
         double a = gsl_root_fsolver_x_lower(r), b = gsl_root_fsolver_x_upper(r);
@@ -664,11 +708,11 @@ static int brent(gsl_root_fsolver *r, gsl_function *F, double lo, double hi, dou
 static int solve_v(inner_t *base, double H, double *V)
 {
     newton_t *s = base->s;
-    inner_t in = {s, H, base->inner};
+    inner_t in = {s, H, base->inner, base->opt};
     gsl_function F = {inner_f, &in};
     double lo = 0.0, hi = fmax(fabs(hf_line_weight(s->line)), 1.0);
     double fhi = inner_f(hi, &in);
-    for (int i = 0; i < 200 && !(fhi >= 0.0); i++) {
+    for (int i = 0; i < base->opt->max_bracket && !(fhi >= 0.0); i++) {
         lo = hi;
         hi *= 2.0;
         fhi = inner_f(hi, &in);
@@ -679,7 +723,7 @@ static int solve_v(inner_t *base, double H, double *V)
         *V = hi;
         return 0;
     }
-    return brent(in.inner, &F, lo, hi, 1e-14 * hi, V);
+    return brent(in.inner, &F, lo, hi, 1e-14 * hi, base->opt->max_bracket, V);
 }
 
 static double outer_f(double H, void *p)
@@ -698,45 +742,40 @@ static double outer_f(double H, void *p)
 
 static hf_status bracket(newton_t *s, inner_t *base, gsl_root_fsolver *outer)
 {
+    const hf_line_options *o = base->opt;
     gsl_function F = {outer_f, base};
     double wmax = 0.0;
     for (size_t k = 0; k < s->line->n; k++)
         wmax = fmax(wmax, s->line->sec[k].weight);
     double lo = 1e-9 * wmax * s->scale, hi = fmax(s->H, lo * 10.0);
     double flo = outer_f(lo, base);
-    for (int i = 0; i < 60 && !(flo < 0.0); i++) {
+    for (int i = 0; i < o->max_shrink && !(flo < 0.0); i++) {
         lo *= 1e-3;
         flo = outer_f(lo, base);
     }
     double fhi = outer_f(hi, base);
-    for (int i = 0; i < 200 && !(fhi > 0.0); i++) {
+    for (int i = 0; i < o->max_bracket && !(fhi > 0.0); i++) {
         hi *= 2.0;
         fhi = outer_f(hi, base);
     }
     if (!(flo < 0.0) || !(fhi > 0.0))
         return HF_ENOCONV;
     double H, V;
-    if (brent(outer, &F, lo, hi, 1e-13 * hi, &H) != 0 || solve_v(base, H, &V) != 0)
+    if (brent(outer, &F, lo, hi, 1e-13 * hi, o->max_bracket, &H) != 0 ||
+        solve_v(base, H, &V) != 0)
         return HF_ENOCONV;
     return newton_set(s, H, V);
 }
 
-/* The fallback allocates its two small GSL solvers; it runs rarely, never in
- * the Newton loop. */
-static hf_status fallback(newton_t *s)
+/* The bracketing fallback.  HF_OK (s at the root), HF_ENOCONV, or HF_ENOMEM
+ * when this GSL's Brent state does not fit the storage reserved for it. */
+static hf_status fallback(newton_t *s, const hf_line_options *opt)
 {
-    gsl_root_fsolver *outer = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
-    gsl_root_fsolver *inner = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
-    hf_status st = HF_ENOMEM;
-    if (outer && inner) {
-        inner_t base = {s, 0.0, inner};
-        st = bracket(s, &base, outer);
-    }
-    if (inner)
-        gsl_root_fsolver_free(inner);
-    if (outer)
-        gsl_root_fsolver_free(outer);
-    return st;
+    brent_t outer, inner;
+    if (brent_init(&outer) != 0 || brent_init(&inner) != 0)
+        return HF_ENOMEM;
+    inner_t base = {s, 0.0, &inner.s, opt};
+    return bracket(s, &base, &outer.s);
 }
 
 /* Weight hanging below the fairlead over the top `ls` metres of line, N
@@ -908,11 +947,13 @@ static hf_status solve_vertical(const hf_line *line, double Z, hf_line_state *st
 
 /* Z = 0, X beyond the unstretched length: the whole line lies taut on the
  * seabed.  x = L + stretch(H), solved by Newton on H (monotone, convex). */
-static hf_status solve_laid(const hf_line *line, double X, double tol, hf_line_state *st)
+static hf_status solve_laid(const hf_line *line, double X, double tol, int max_iter,
+                            hf_line_state *st)
 {
     double H = fmax(line->sec[line->n - 1].ea * (X / hf_line_length(line) - 1.0), 1e-3);
     walk_t w;
-    for (int i = 0; i < 200; i++) {
+    w.x = INFINITY; /* no walk yet: not converged */
+    for (int i = 0; i < max_iter; i++) {
         if (walk(line, H, 0.0, &w) != HF_OK)
             break;
         st->evaluations++;
@@ -948,38 +989,21 @@ static hf_status solve_laid(const hf_line *line, double X, double tol, hf_line_s
 }
 
 /* ------------------------------------------------------------------------
- * The driver.
+ * The driver: closed forms, start, Newton (with fallback), state.
  * ---------------------------------------------------------------------- */
 
-hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_state *guess,
-                        const hf_line_options *opt, hf_line_state *st)
+/* The regimes solved without iterating on (H, V): hanging with H = 0
+ * (slack), fully laid and slack, vertical (X = 0), laid and taut (Z = 0).
+ * Returns 1 with *rc set when one of them applies, else 0; *slack_buoy is
+ * set when a slack column exists only with a buoy in it. */
+static int closed_forms(const hf_line *line, double X, double Z, double tol,
+                        const hf_line_options *opt, hf_line_state *st, hf_status *rc,
+                        int *slack_buoy)
 {
-    hf_line_options defaults;
-    if (!opt) {
-        hf_line_options_default(&defaults);
-        opt = &defaults;
-    }
-    clear_state(st, line && line->n <= NMAX ? line->n : NMAX);
-    st->message = "";
-    st->x = isfinite(X) ? X : 0.0;
-    st->z = isfinite(Z) ? Z : 0.0;
-    if (hf_line_check(line, NULL) != HF_OK)
-        return fail(st, HF_EINVAL, "invalid line data (check lengths, weights, EA, MBL)");
-    st->n = line->n;
-    if (!isfinite(X) || !isfinite(Z) || X < 0.0)
-        return fail(st, HF_EINVAL, "the span must be finite with X >= 0");
-    if (Z < 0.0)
-        return fail(st, HF_EINVAL, "the fairlead is below the seabed (Z < 0)");
     double L = hf_line_length(line);
-    double span = mag(X, Z);
-    double scale = L > span ? L : span;
-    double tol = opt->rtol * scale;
-    hf_status rc = HF_OK;
-    int slack_buoy = 0;
-
-    /* H = 0 regimes first: could the line hang from the fairlead with at
-     * least X metres of it laid on the seabed?  Cheap bound first:
-     * laid length <= L - Z / (1 + max strain). */
+    /* Could the line hang from the fairlead with at least X metres of it
+     * laid on the seabed?  Cheap bound first: laid length <= L - Z / (1 +
+     * max strain). */
     double wabs = 0.0, eamin = INFINITY;
     for (size_t k = 0; k < line->n; k++) {
         wabs += line->sec[k].weight * line->sec[k].length + fabs(pload(line, k));
@@ -990,95 +1014,110 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
         hang(line, Z, &hg);
         if (hg.found && X <= hg.s_t + tol) {
             if (!hg.bad) {
-                rc = solve_slack(line, &hg, st);
-                goto done;
+                *rc = solve_slack(line, &hg, st);
+                return 1;
             }
-            slack_buoy = 1; /* no valid H = 0 column: look for a lifted (H > 0) shape */
+            *slack_buoy = 1; /* no valid H = 0 column: look for a lifted (H > 0) shape */
         }
     }
     if (Z == 0.0 && X <= L + tol) {
         hang_t hg = {.found = 1, .s_t = L, .foot = line->n - 1,
                      .kvv = line->sec[line->n - 1].weight};
-        rc = solve_slack(line, &hg, st); /* fully laid and slack: zero tension */
-        goto done;
+        *rc = solve_slack(line, &hg, st); /* fully laid and slack: zero tension */
+        return 1;
     }
     if (X == 0.0) {
-        rc = solve_vertical(line, Z, st);
-        goto done;
+        *rc = solve_vertical(line, Z, st);
+        return 1;
     }
     if (Z == 0.0) {
-        rc = solve_laid(line, X, tol, st);
-        goto done;
+        *rc = solve_laid(line, X, tol, opt->max_laid, st);
+        return 1;
     }
+    return 0;
+}
 
-    newton_t s; /* not zero-initialised: its walks are large and filled before use */
-    s.line = line;
-    s.X = X;
-    s.Z = Z;
-    s.tol = tol;
-    s.scale = scale;
-    s.evals = 0;
-    s.H = s.V = s.f = 0.0;
-    s.w = &s.buf[0];
-    s.trial = &s.buf[1];
-    double H0, V0;
+/* Starting forces: a first-order predictor from a previous solution of the
+ * same line, else the touchdown catenary, else Peyrot and Goulois. */
+static void newton_start(const hf_line *line, double X, double Z, const hf_line_state *guess,
+                         double *H0, double *V0)
+{
     if (guess && guess->status == HF_OK && guess->h > 0.0 && isfinite(guess->h) &&
         isfinite(guess->v) && guess->n == line->n &&
         (guess->regime == HF_LINE_SUSPENDED || guess->regime == HF_LINE_TOUCHDOWN)) {
         /* First-order predictor from the previous solution's stiffness. */
         double dX = X - guess->x, dZ = Z - guess->z;
-        H0 = guess->h + guess->stiffness[0][0] * dX + guess->stiffness[0][1] * dZ;
-        V0 = guess->v + guess->stiffness[1][0] * dX + guess->stiffness[1][1] * dZ;
-        if (!(H0 > 0.1 * guess->h) || !isfinite(H0) || !isfinite(V0)) {
-            H0 = guess->h;
-            V0 = guess->v;
+        *H0 = guess->h + guess->stiffness[0][0] * dX + guess->stiffness[0][1] * dZ;
+        *V0 = guess->v + guess->stiffness[1][0] * dX + guess->stiffness[1][1] * dZ;
+        if (!(*H0 > 0.1 * guess->h) || !isfinite(*H0) || !isfinite(*V0)) {
+            *H0 = guess->h;
+            *V0 = guess->v;
         }
-    } else if (!touchdown_start(line, X, Z, &H0, &V0)) {
-        peyrot(line, X, Z, &H0, &V0);
+    } else if (!touchdown_start(line, X, Z, H0, V0)) {
+        peyrot(line, X, Z, H0, V0);
     }
-    int it = 0;
-    hf_status ns = newton_set(&s, H0, V0);
+}
+
+/* Damped Newton from (H0, V0); when it fails, the bracketing fallback and
+ * Newton polishing to full accuracy.  HF_OK with s at the solution, HF_ENOCONV,
+ * or HF_ENOMEM (fallback storage, see brent_init).  *it counts iterations. */
+static hf_status newton_solve(newton_t *s, const hf_line_options *opt, double H0, double V0,
+                              int *it)
+{
+    hf_status ns = newton_set(s, H0, V0);
     if (ns != HF_OK) {
-        peyrot(line, X, Z, &H0, &V0);
-        ns = newton_set(&s, H0, V0);
+        peyrot(s->line, s->X, s->Z, &H0, &V0);
+        ns = newton_set(s, H0, V0);
     }
-    while (ns == HF_OK && newton_test(&s) == HF_CONTINUE && it < opt->max_iter) {
-        ns = newton_iterate(&s);
-        it++;
+    while (ns == HF_OK && newton_test(s) == HF_CONTINUE && *it < opt->max_iter) {
+        ns = newton_iterate(s);
+        (*it)++;
     }
-    if (ns != HF_OK || newton_test(&s) != HF_OK) {
-        /* Robust path, then Newton polishing to full accuracy. */
-        ns = fallback(&s);
-        for (int j = 0; ns == HF_OK && newton_test(&s) == HF_CONTINUE && j < 20; j++, it++)
-            if (newton_iterate(&s) != HF_OK)
-                break;
-        if (ns != HF_OK || newton_test(&s) != HF_OK) {
-            st->iterations = it;
-            st->evaluations = s.evals;
-            if (slack_buoy)
-                return fail(st, HF_EUNSUPPORTED, msg_slack_buoy);
-            for (size_t k = 0; k + 1 < line->n; k++)
-                if (line->joint[k].load < 0.0)
-                    return fail(st, HF_EUNSUPPORTED, msg_buoy_search);
-            return fail(st, HF_ENOCONV, "the line solver did not converge");
-        }
-    }
-    st->iterations = it;
-    st->evaluations = s.evals;
-    const walk_t *w = s.w;
+    if (ns == HF_OK && newton_test(s) == HF_OK)
+        return HF_OK;
+    ns = fallback(s, opt);
+    for (int j = 0; ns == HF_OK && newton_test(s) == HF_CONTINUE && j < opt->max_polish;
+         j++, (*it)++)
+        if (newton_iterate(s) != HF_OK)
+            break;
+    if (ns == HF_OK && newton_test(s) != HF_OK)
+        ns = HF_ENOCONV;
+    return ns;
+}
+
+/* Why the Newton path failed, for a line that has the shape searched for. */
+static hf_status newton_failure(const hf_line *line, hf_status ns, int slack_buoy,
+                                hf_line_state *st)
+{
+    if (ns == HF_ENOMEM)
+        return fail(st, HF_ENOMEM,
+                    "the line solver's fallback has no room for this GSL's Brent solver state");
+    if (slack_buoy)
+        return fail(st, HF_EUNSUPPORTED, msg_slack_buoy);
+    for (size_t k = 0; k + 1 < line->n; k++)
+        if (line->joint[k].load < 0.0)
+            return fail(st, HF_EUNSUPPORTED, msg_buoy_search);
+    return fail(st, HF_ENOCONV, "the line solver did not converge");
+}
+
+/* Fills st from the converged walk of a suspended or touchdown line. */
+static hf_status state_from_walk(const hf_line *line, const newton_t *s, int slack_buoy,
+                                 hf_line_state *st)
+{
+    const walk_t *w = s->w;
     if (w->buoy_down)
         return fail(st, HF_EUNSUPPORTED, slack_buoy ? msg_slack_buoy : msg_buoy);
-    if (w->sag_min < -tol)
+    if (w->sag_min < -s->tol)
         return fail(st, HF_EUNSUPPORTED, slack_buoy ? msg_slack_buoy : msg_sag);
     st->regime = w->grounded ? HF_LINE_TOUCHDOWN : HF_LINE_SUSPENDED;
-    st->h = s.H;
-    st->v = s.V;
-    st->tension = mag(s.H, s.V);
+    st->h = s->H;
+    st->v = s->V;
+    st->tension = mag(s->H, s->V);
     if (w->grounded) {
         st->anchor_h = w->anchor_t;
         st->anchor_v = 0.0;
     } else {
-        st->anchor_h = s.H;
+        st->anchor_h = s->H;
         st->anchor_v = w->vb[0];
     }
     if (st->anchor_v == 0.0) {
@@ -1093,12 +1132,67 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
         gl += w->gl[k];
     st->grounded = gl;
     if (w->grounded)
-        st->touchdown_x = fmax(X - w->x_susp, 0.0); /* stretched grounded length */
-    sections_from_walk(line, w, s.H, st);
+        st->touchdown_x = fmax(s->X - w->x_susp, 0.0); /* stretched grounded length */
+    sections_from_walk(line, w, s->H, st);
     stiffness_from_flex(w->J, st);
-    st->residual = fmax(fabs(w->x - X), fabs(w->z - Z)) / scale;
+    st->residual = fmax(fabs(w->x - s->X), fabs(w->z - s->Z)) / s->scale;
+    return HF_OK;
+}
 
-done:
+/* Suspended or touchdown line: Newton on (H, V) from a start. */
+static hf_status solve_general(const hf_line *line, double X, double Z, double scale,
+                               const hf_line_state *guess, const hf_line_options *opt,
+                               int slack_buoy, hf_line_state *st)
+{
+    newton_t s; /* not zero-initialised: its walks are large and filled before use */
+    s.line = line;
+    s.X = X;
+    s.Z = Z;
+    s.tol = opt->rtol * scale;
+    s.scale = scale;
+    s.evals = 0;
+    s.max_backtrack = opt->max_backtrack;
+    s.H = s.V = s.f = 0.0;
+    s.w = &s.buf[0];
+    s.trial = &s.buf[1];
+    double H0, V0;
+    int it = 0;
+    newton_start(line, X, Z, guess, &H0, &V0);
+    hf_status ns = newton_solve(&s, opt, H0, V0, &it);
+    st->iterations = it;
+    st->evaluations = s.evals;
+    if (ns != HF_OK)
+        return newton_failure(line, ns, slack_buoy, st);
+    return state_from_walk(line, &s, slack_buoy, st);
+}
+
+hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_state *guess,
+                        const hf_line_options *opt, hf_line_state *st)
+{
+    hf_line_options defaults;
+    if (!opt) {
+        hf_line_options_default(&defaults);
+        opt = &defaults;
+    }
+    clear_state(st, line && line->n <= NMAX ? line->n : NMAX);
+    st->message = "";
+    st->x = isfinite(X) ? X : 0.0;
+    st->z = isfinite(Z) ? Z : 0.0;
+    if (!options_ok(opt))
+        return fail(st, HF_EINVAL, "invalid line solver options (rtol in (0, 0.01), limits >= 1)");
+    if (hf_line_check(line, NULL) != HF_OK)
+        return fail(st, HF_EINVAL, "invalid line data (check lengths, weights, EA, MBL)");
+    st->n = line->n;
+    if (!isfinite(X) || !isfinite(Z) || X < 0.0)
+        return fail(st, HF_EINVAL, "the span must be finite with X >= 0");
+    if (Z < 0.0)
+        return fail(st, HF_EINVAL, "the fairlead is below the seabed (Z < 0)");
+    double L = hf_line_length(line), span = mag(X, Z);
+    double scale = L > span ? L : span;
+    hf_status rc = HF_OK;
+    int slack_buoy = 0;
+    if (!closed_forms(line, X, Z, opt->rtol * scale, opt, st, &rc, &slack_buoy))
+        rc = solve_general(line, X, Z, scale, guess, opt, slack_buoy, st);
     if (rc != HF_OK)
         return rc;
     finish_sections(line, st);

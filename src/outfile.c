@@ -182,3 +182,22 @@ void hf_outfile_abort(hf_outfile *f)
     }
     release(f);
 }
+
+int hf_outfile_same_file(const char *out, const char *in)
+{
+    if (!out || !in || strcmp(out, "-") == 0)
+        return 0;
+    struct stat so, si;
+    if (stat(out, &so) != 0 || stat(in, &si) != 0)
+        return 0;
+    return so.st_dev == si.st_dev && so.st_ino == si.st_ino;
+}
+
+hf_status hf_outfile_check_not_input(const char *out, const char *in, hf_error *err)
+{
+    if (!hf_outfile_same_file(out, in))
+        return HF_OK;
+    return hf_error_set(err, HF_EINVAL,
+                        "%s: output is the same file as the input %s; choose another output path",
+                        out, in);
+}

@@ -400,6 +400,37 @@ static double convert(const char *s, size_t len, int *range)
     return v;
 }
 
+double hf_units_deg_to_rad(double deg)
+{
+    /* fmod returns x - n y with the sign of x and |result| < |y| (C11
+     * 7.12.10.1); in IEEE 754 arithmetic that value is representable, so the
+     * reduction adds no rounding and |deg| < 360 is returned unchanged. */
+    return fmod(deg, 360.0) * DEG;
+}
+
+/* An angle in radians reduced by whole turns when |v| >= 2 pi: sin and cos
+ * of the C library reduce their argument accurately, so atan2(sin v, cos v)
+ * is v's direction in (-pi, pi]; it is moved to the sign of v (like fmod). */
+static double rad_reduce(double v)
+{
+    if (fabs(v) < 2.0 * M_PI)
+        return v;
+    double r = atan2(sin(v), cos(v));
+    if (v > 0.0 && r < 0.0)
+        r += 2.0 * M_PI;
+    else if (v < 0.0 && r > 0.0)
+        r -= 2.0 * M_PI;
+    return r;
+}
+
+/* SI value of v written in unit u (angles reduced by whole turns). */
+static double to_si(double v, const unit *u)
+{
+    if (u->dim != HF_DIM_ANGLE)
+        return v * u->factor;
+    return u->factor == 1.0 ? rad_reduce(v) : hf_units_deg_to_rad(v);
+}
+
 hf_status hf_units_parse(const char *text, hf_dim want, double *out, hf_error *err)
 {
     char shown[80], norm[64], hint[64];
@@ -449,7 +480,7 @@ hf_status hf_units_parse(const char *text, hf_dim want, double *out, hf_error *e
 
     if (ulen == 0) {
         /* A plain number is SI, except that angles are given in degrees. */
-        *out = want == HF_DIM_ANGLE ? v * DEG : v;
+        *out = want == HF_DIM_ANGLE ? hf_units_deg_to_rad(v) : v;
         return HF_OK;
     }
 
@@ -497,7 +528,7 @@ hf_status hf_units_parse(const char *text, hf_dim want, double *out, hf_error *e
                             names[want], shown, article(found->dim), names[found->dim], hint);
     }
 
-    v *= found->factor;
+    v = to_si(v, found);
     if (!isfinite(v))
         return hf_error_set(err, HF_EINVAL,
                             "expected a finite %s, got \"%s\" (out of range in SI units)",

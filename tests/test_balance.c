@@ -157,6 +157,47 @@ static void test_load_force(void **state)
     assert_int_equal(hf_balance_load_force(NULL, f, &e), HF_EINVAL);
 }
 
+static void test_drag_force(void **state)
+{
+    (void)state;
+    /* The drag equation F = 1/2 rho C A V^2 (classical; hand calculation):
+     * 0.5 x 1025 x 0.83 x 96.4 x 1.35^2 = 74,733.7 N (see test_load_force),
+     * toward 137.5 deg: Fx = F cos 137.5, Fy = F sin 137.5. */
+    hf_drag d = {1025.0, 0.83, 96.4, 1.35, 137.5 * DEG};
+    double q = -1.0, fx = -1.0, fy = -1.0;
+    hf_error e;
+    hf_error_clear(&e);
+    assert_int_equal(hf_drag_force(&d, &q, &fx, &fy, &e), HF_OK);
+    assert_float_equal(q, 74733.7, 0.05);
+    assert_float_equal(fx, 74733.7 * cos(137.5 * DEG), 0.05);
+    assert_float_equal(fy, 74733.7 * sin(137.5 * DEG), 0.05);
+    /* NULL outputs are allowed */
+    assert_int_equal(hf_drag_force(&d, NULL, NULL, &fy, NULL), HF_OK);
+    assert_float_equal(fy, 74733.7 * sin(137.5 * DEG), 0.05);
+    /* every field validated; outputs zeroed on failure */
+    const double bad[] = {-1.0, NAN, INFINITY};
+    for (int field = 0; field < 5; field++) {
+        for (size_t k = 0; k < sizeof bad / sizeof bad[0]; k++) {
+            hf_drag b = d;
+            double *v[5] = {&b.density, &b.coefficient, &b.area, &b.speed, &b.direction};
+            if (field == 4 && bad[k] < 0.0)
+                continue; /* a negative direction is a valid angle */
+            *v[field] = bad[k];
+            q = fx = fy = 5.0;
+            hf_error_clear(&e);
+            if (hf_drag_force(&b, &q, &fx, &fy, &e) != HF_EINVAL)
+                fail_msg("field %d = %g accepted", field, bad[k]);
+            assert_true(q == 0.0 && fx == 0.0 && fy == 0.0);
+            assert_non_null(strstr(e.text, "expected finite"));
+        }
+    }
+    /* overflow of the product is refused, not returned as inf */
+    hf_drag big = {1025.0, 1.0, 1e300, 1e200, 0.0};
+    assert_int_equal(hf_drag_force(&big, &q, &fx, &fy, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "overflows"));
+    assert_int_equal(hf_drag_force(NULL, &q, &fx, &fy, &e), HF_EINVAL);
+}
+
 static void test_zero_load(void **state)
 {
     (void)state;
@@ -603,6 +644,7 @@ int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_load_force),
+        cmocka_unit_test(test_drag_force),
         cmocka_unit_test(test_zero_load),
         cmocka_unit_test(test_load_along_x),
         cmocka_unit_test(test_broken_conditions),

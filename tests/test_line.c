@@ -12,6 +12,7 @@
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_odeiv2.h>
 #include "support.h"
+#include "holdfast/alloc.h"
 #include "holdfast/line.h"
 
 #define RELERR(a, b) (fabs((a) - (b)) / fmax(fabs(b), 1e-300))
@@ -607,6 +608,49 @@ static void test_profile(void **state)
     assert_int_equal(hf_line_profile(&line, &s, NAN, pts, 200), 0);
 }
 
+/* Options: every limit is a documented option, out-of-range values are
+ * refused, and the bracketing fallback (forced by max_iter = 1) reaches the
+ * same solution as Newton with no allocation: with every allocation through
+ * the project allocator made to fail, the solve still succeeds (the Brent
+ * solvers live on the stack; issue 11 item 5). */
+static void test_options_and_fallback(void **state)
+{
+    (void)state;
+    hf_line_options o;
+    hf_line_options_default(&o);
+    assert_true(o.rtol == 1e-10 && o.max_iter == 40 && o.max_backtrack == 40 &&
+                o.max_bracket == 200 && o.max_shrink == 60 && o.max_polish == 20 &&
+                o.max_laid == 200);
+    hf_line line = three_with_clump(0.6);
+    hf_line_state ref, s;
+    assert_int_equal(hf_line_solve(&line, 742.35, 96.8, NULL, NULL, &ref), HF_OK);
+    o.max_iter = 1;
+    hf_alloc_fail_at(1, 1);
+    hf_status st = hf_line_solve(&line, 742.35, 96.8, NULL, &o, &s);
+    long calls = hf_alloc_count();
+    hf_alloc_fail_at(0, 0);
+    assert_int_equal(st, HF_OK);
+    assert_int_equal(calls, 0);
+    assert_true(s.evaluations > 10); /* the fallback ran */
+    assert_true(RELERR(s.h, ref.h) < 1e-9 && RELERR(s.v, ref.v) < 1e-9);
+    /* out-of-range options are refused, never used */
+    hf_line_options bad[7];
+    for (int k = 0; k < 7; k++)
+        hf_line_options_default(&bad[k]);
+    bad[0].rtol = 0.0;
+    bad[1].rtol = NAN;
+    bad[2].max_iter = 0;
+    bad[3].max_backtrack = 0;
+    bad[4].max_bracket = -1;
+    bad[5].max_shrink = 0;
+    bad[6].max_laid = 0;
+    for (int k = 0; k < 7; k++) {
+        if (hf_line_solve(&line, 742.35, 96.8, NULL, &bad[k], &s) != HF_EINVAL)
+            fail_msg("bad options %d accepted", k);
+        assert_non_null(strstr(s.message, "options"));
+    }
+}
+
 /* Deterministic generator (xorshift64*), so failures reproduce. */
 static uint64_t rng = 0x9E3779B97F4A7C15ull;
 static double urand(void)
@@ -706,6 +750,7 @@ int main(void)
         cmocka_unit_test(test_stiffness),
         cmocka_unit_test(test_warm_start),
         cmocka_unit_test(test_profile),
+        cmocka_unit_test(test_options_and_fallback),
         cmocka_unit_test(test_random),
     };
     return cmocka_run_group_tests_name("line", tests, NULL, NULL);

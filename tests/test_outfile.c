@@ -573,6 +573,78 @@ static void allocation_failures_on_open(void **state)
     }
 }
 
+/* An output naming the input (issue 12 item 10): the same path, another
+ * spelling of it, a hard link and a symbolic link are the same file (POSIX
+ * stat: a file is identified by st_dev and st_ino); a copy with the same
+ * bytes, a path that does not exist yet and "-" are not.  Nothing is
+ * created or changed by asking. */
+static void same_file_is_recognised(void **state)
+{
+    fixture *fx = *state;
+    char in[400], dotted[400], hard[400], soft[400], copy[400], absent[400];
+    snprintf(in, sizeof in, "%s/case.yaml", fx->dir);
+    snprintf(dotted, sizeof dotted, "%s/./case.yaml", fx->dir);
+    snprintf(hard, sizeof hard, "%s/hard.yaml", fx->dir);
+    snprintf(soft, sizeof soft, "%s/soft.yaml", fx->dir);
+    snprintf(copy, sizeof copy, "%s/copy.yaml", fx->dir);
+    snprintf(absent, sizeof absent, "%s/new.csv", fx->dir);
+    hf_test_file_write(in, "site: {depth: 23.85 m}\n");
+    hf_test_file_write(copy, "site: {depth: 23.85 m}\n");
+    assert_int_equal(link(in, hard), 0);
+    assert_int_equal(symlink("case.yaml", soft), 0);
+
+    assert_int_equal(hf_outfile_same_file(in, in), 1);
+    assert_int_equal(hf_outfile_same_file(dotted, in), 1);
+    assert_int_equal(hf_outfile_same_file(hard, in), 1);
+    assert_int_equal(hf_outfile_same_file(soft, in), 1);
+    assert_int_equal(hf_outfile_same_file(in, soft), 1);
+    assert_int_equal(hf_outfile_same_file(copy, in), 0);
+    assert_int_equal(hf_outfile_same_file(absent, in), 0);
+    assert_int_equal(hf_outfile_same_file(in, absent), 0);
+    assert_int_equal(hf_outfile_same_file("-", in), 0);
+    assert_int_equal(hf_outfile_same_file(NULL, in), 0);
+    assert_int_equal(hf_outfile_same_file(in, NULL), 0);
+    assert_int_equal(count_entries(fx->dir, NULL, 0), 4);
+
+    /* A relative spelling from inside the directory. */
+    char cwd[1024];
+    assert_non_null(getcwd(cwd, sizeof cwd));
+    assert_int_equal(chdir(fx->dir), 0);
+    int rel = hf_outfile_same_file("case.yaml", in);
+    int rel_copy = hf_outfile_same_file("copy.yaml", "./case.yaml");
+    assert_int_equal(chdir(cwd), 0);
+    assert_int_equal(rel, 1);
+    assert_int_equal(rel_copy, 0);
+}
+
+static void output_over_input_is_refused(void **state)
+{
+    fixture *fx = *state;
+    char in[400], soft[400];
+    snprintf(in, sizeof in, "%s/case.yaml", fx->dir);
+    snprintf(soft, sizeof soft, "%s/out.csv", fx->dir);
+    hf_test_file_write(in, "lines: []\n");
+    assert_int_equal(symlink(in, soft), 0);
+    hf_error err;
+    hf_error_clear(&err);
+    assert_int_equal(hf_outfile_check_not_input(soft, in, &err), HF_EINVAL);
+    assert_int_equal(err.status, HF_EINVAL);
+    assert_non_null(strstr(err.text, soft)); /* names the output ... */
+    assert_non_null(strstr(err.text, in));   /* ... and the input */
+    assert_non_null(strstr(err.text, "same file"));
+    assert_int_equal(hf_outfile_check_not_input(soft, in, NULL), HF_EINVAL);
+
+    /* A distinct output is accepted and leaves err as it was. */
+    hf_error_set(&err, HF_EIO, "earlier");
+    assert_int_equal(hf_outfile_check_not_input(fx->path, in, &err), HF_OK);
+    assert_int_equal(err.status, HF_EIO);
+    assert_string_equal(err.text, "earlier");
+    assert_int_equal(hf_outfile_check_not_input("-", in, &err), HF_OK);
+    char buf[32];
+    assert_int_equal(hf_test_file_read_into(in, buf, sizeof buf), 10);
+    assert_string_equal(buf, "lines: []\n");
+}
+
 int main(void)
 {
 #define T(f) cmocka_unit_test_setup_teardown(f, setup, teardown)
@@ -596,6 +668,8 @@ int main(void)
         T(sigkill_before_commit),
         T(sigterm_at_random_moments),
         T(allocation_failures_on_open),
+        T(same_file_is_recognised),
+        T(output_over_input_is_refused),
     };
 #undef T
     return cmocka_run_group_tests(tests, NULL, NULL);

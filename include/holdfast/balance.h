@@ -120,6 +120,17 @@ void hf_balance_reset(hf_balance *b);
  * value is out of range (non-finite, ftol <= 0, max_iter < 1, ...). */
 hf_status hf_balance_set_options(hf_balance *b, const hf_balance_options *opt, hf_error *err);
 
+/* The drag equation F = 1/2 rho C A V^2 for one wind or current term of a
+ * load case, validated: density, coefficient, area and speed finite and
+ * >= 0, direction finite.  Writes the magnitude *q (N) and its global
+ * components *fx = q cos(direction), *fy = q sin(direction) (N); any of q,
+ * fx, fy may be NULL.  Returns HF_OK, or HF_EINVAL with a message (without
+ * a location: the caller prefixes it, e.g. "loads[gale].drag[1]: ") when a
+ * value is out of range or the product overflows; the outputs are then 0.
+ * This is the one implementation of the formula in holdfast: every caller
+ * (balance, commands, report) uses it. */
+hf_status hf_drag_force(const hf_drag *d, double *q, double *fx, double *fy, hf_error *err);
+
 /* The resultant external load of a load case in global axes: f[0] Fx, f[1]
  * Fy (N), f[2] Mz (N m): the direct force plus every drag term
  * 1/2 rho C A V^2 toward its direction.  HF_EINVAL with a message naming the

@@ -29,4 +29,17 @@ hf_status hf_outfile_commit(hf_outfile *f, hf_error *err);
 /* Discards the output: removes the temporary file and frees f.  NULL is ok. */
 void hf_outfile_abort(hf_outfile *f);
 
+/* 1 when the output path `out` names the same existing file as the input
+ * path `in` (equal st_dev and st_ino after following symbolic links, so a
+ * second hard link, a symbolic link or "./case.yaml" for "case.yaml" all
+ * count); 0 otherwise, in particular when `out` is "-" or does not exist
+ * yet, or either path is NULL or cannot be stat()ed.  Touches no file. */
+int hf_outfile_same_file(const char *out, const char *in);
+
+/* Refuses an output that would overwrite an input: HF_EINVAL with the
+ * message "OUT: output is the same file as the input IN; choose another
+ * output path" when hf_outfile_same_file(out, in), else HF_OK (err is then
+ * left as it was).  err may be NULL.  Call it before hf_outfile_open(). */
+hf_status hf_outfile_check_not_input(const char *out, const char *in, hf_error *err);
+
 #endif
