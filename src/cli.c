@@ -353,13 +353,10 @@ hf_status hf_cli_check_output(const char *option, const char *out, const char *i
                                             "got an empty name", option);
     if (!strcmp(out, "-") || !input)
         return HF_OK;
-    /* The same file under another name counts too: compare device and inode
-     * (a minimal check until the output-file layer offers one). */
-    struct stat a, b;
-    if (stat(out, &a) == 0 && stat(input, &b) == 0 && a.st_dev == b.st_dev && a.st_ino == b.st_ino)
-        return hf_error_set(err, HF_EINVAL,
-                            "%s: '%s' is the input file %s; refusing to overwrite it", option, out,
-                            input);
+    hf_error e;
+    hf_error_clear(&e);
+    if (hf_outfile_check_not_input(out, input, &e) != HF_OK)
+        return hf_error_set(err, HF_EINVAL, "%s: %s", option, e.text);
     return HF_OK;
 }
 

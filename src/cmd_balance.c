@@ -183,7 +183,8 @@ static void print_load(FILE *out, const hf_load *l, const double f[3])
                 l->direction * RAD2DEG);
     for (size_t k = 0; k < l->ndrag; k++) {
         const hf_drag *d = &l->drag[k];
-        double q = 0.5 * d->density * d->coefficient * d->area * d->speed * d->speed;
+        double q = 0.0;
+        (void)hf_drag_force(d, &q, NULL, NULL, NULL); /* the load was checked: valid */
         fprintf(out,
                 "   drag 1/2 rho C A V^2 = 1/2 x %.4g x %.4g x %.4g m^2 x (%.4g m/s)^2 = "
                 "%.1f kN toward %.1f deg\n",

@@ -4,6 +4,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include "holdfast/alloc.h"
+#include "holdfast/balance.h"
 #include "holdfast/caution.h"
 #include "holdfast/criteria.h"
 #include "holdfast/report.h"
@@ -356,14 +357,10 @@ static void case_section(hf_report *r, const hf_model *m)
         hf_report_table_begin(r, "Load cases (mean loads on the hull)", cols, 7);
         for (size_t i = 0; i < m->nloads; i++) {
             const hf_load *ld = &m->loads[i];
-            double fx = ld->force * cos(ld->direction), fy = ld->force * sin(ld->direction);
-            for (size_t k = 0; k < ld->ndrag; k++) {
-                const hf_drag *d = &ld->drag[k];
-                /* drag load 1/2 rho C A V^2 (model.h) */
-                double f = 0.5 * d->density * d->coefficient * d->area * d->speed * d->speed;
-                fx += f * cos(d->direction);
-                fy += f * sin(d->direction);
-            }
+            /* the resultant: direct force plus every drag term (balance.h) */
+            double lf[3] = {0.0, 0.0, 0.0};
+            (void)hf_balance_load_force(ld, lf, NULL); /* a case that loaded is valid */
+            double fx = lf[0], fy = lf[1];
             char f1[48], f2[48], f3[48], f4[16], f5[48], f6[48];
             hf_report_number(f1, sizeof f1, ld->force / 1e3, 4);
             hf_report_number(f2, sizeof f2, ld->direction * 180 / M_PI, 4);
@@ -605,13 +602,9 @@ hf_status hf_report_svg_plan(FILE *out, const hf_model *m, const hf_pose *pose,
     p.reference[0] = pose->surge;
     p.reference[1] = pose->sway;
     if (load) {
-        double fx = load->force * cos(load->direction), fy = load->force * sin(load->direction);
-        for (size_t k = 0; k < load->ndrag; k++) {
-            const hf_drag *d = &load->drag[k];
-            double f = 0.5 * d->density * d->coefficient * d->area * d->speed * d->speed;
-            fx += f * cos(d->direction);
-            fy += f * sin(d->direction);
-        }
+        double lf[3] = {0.0, 0.0, 0.0};
+        (void)hf_balance_load_force(load, lf, NULL); /* resultant, balance.h */
+        double fx = lf[0], fy = lf[1];
         if (hypot(fx, fy) > 0) {
             p.has_load = 1;
             p.load_direction = atan2(fy, fx);

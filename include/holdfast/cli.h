@@ -209,8 +209,8 @@ hf_status hf_cli_parse_range(const char *text, double *from, double *to, double 
 
 /* Checks an output path given to `option` before anything is computed or
  * printed: an empty name is refused, "-" (standard output) is fine, and a
- * path that is the same file as `input` (same device and inode, whatever
- * the spelling; input may be NULL) is refused so that an output never
+ * path that is the same file as `input` (hf_outfile_check_not_input: same
+ * device and inode, whatever the spelling; input may be NULL) is refused so that an output never
  * replaces the case file.  HF_OK, or HF_EINVAL with a message naming the
  * option. */
 hf_status hf_cli_check_output(const char *option, const char *out, const char *input,
