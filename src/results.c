@@ -124,9 +124,9 @@ static hf_status check_names(const hf_model *m, hf_error *err)
     return HF_OK;
 }
 
-/* A header row: head[0..nhead-1], T_<line>_kN per line of m, tail[0..ntail-1]. */
+/* A header row: head[0..nhead-1], <per>_<line>_kN per line of m, tail[0..ntail-1]. */
 static hf_status header(FILE *out, const hf_model *m, const char *const *head, size_t nhead,
-                        const char *const *tail, size_t ntail, hf_error *err)
+                        const char *per, const char *const *tail, size_t ntail, hf_error *err)
 {
     hf_status s = check_names(m, err);
     if (s != HF_OK)
@@ -137,7 +137,7 @@ static hf_status header(FILE *out, const hf_model *m, const char *const *head, s
         hf_csv_field_str(&c, head[j]);
     for (size_t i = 0; i < m->nlines; i++) {
         char name[HF_MODEL_MAX_NAME + 16];
-        snprintf(name, sizeof name, "T_%s_kN", hf_results_line_name(m, i));
+        snprintf(name, sizeof name, "%s_%s_kN", per, hf_results_line_name(m, i));
         hf_csv_field_str(&c, name);
     }
     for (size_t j = 0; j < ntail; j++)
@@ -148,7 +148,7 @@ static hf_status header(FILE *out, const hf_model *m, const char *const *head, s
 
 hf_status hf_results_curve_header_write(FILE *out, const hf_model *m, hf_error *err)
 {
-    return header(out, m, hf_results_curve_columns, HF_RESULTS_CURVE_FIXED, NULL, 0, err);
+    return header(out, m, hf_results_curve_columns, HF_RESULTS_CURVE_FIXED, "T", NULL, 0, err);
 }
 
 size_t hf_results_curve_row_write(FILE *out, const hf_model *m, const hf_analysis_curve *c,
@@ -209,8 +209,10 @@ double hf_results_balance_min_factor(const hf_balance_result *r)
 
 hf_status hf_results_balance_header_write(FILE *out, const hf_model *m, hf_error *err)
 {
-    return header(out, m, hf_results_balance_head, HF_RESULTS_BALANCE_HEAD, hf_results_balance_tail,
-                  HF_RESULTS_BALANCE_TAIL, err);
+    /* Tmax: the largest tension along the line, not the fairlead tension
+     * that T_<line>_kN means in the curve and sweep CSVs (issue 11 item 2) */
+    return header(out, m, hf_results_balance_head, HF_RESULTS_BALANCE_HEAD, "Tmax",
+                  hf_results_balance_tail, HF_RESULTS_BALANCE_TAIL, err);
 }
 
 /* A positive number, or an empty field for 0 (= not checked / none); NaN

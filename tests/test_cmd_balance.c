@@ -126,8 +126,8 @@ static void test_pass_csv(void **state)
     char *cur = out, *line = hf_test_line_next(&cur);
     assert_non_null(line);
     const char *head = "load,condition,status,surge_m,sway_m,yaw_deg,max_tension_kN,"
-                       "max_tension_line,max_utilisation,criterion,passed,T_ne_kN,T_nw_kN,"
-                       "T_sw_kN,T_se_kN,";
+                       "max_tension_line,max_utilisation,criterion,passed,Tmax_ne_kN,Tmax_nw_kN,"
+                       "Tmax_sw_kN,Tmax_se_kN,";
     assert_memory_equal(line, head, strlen(head));
     /* 2 loads x (intact + 4 broken) rows, in order */
     static const char *const cond[5] = {"intact", "broken:ne", "broken:nw", "broken:sw",

@@ -239,8 +239,8 @@ static void test_headers_exact(void **state)
     assert_int_equal(hf_results_balance_header_write(c.f, &fx.m, &err), HF_OK);
     cap_close(&c);
     assert_string_equal(c.buf, "load,condition,status,surge_m,sway_m,yaw_deg,max_tension_kN,"
-                               "max_tension_line,max_utilisation,criterion,passed,T_north_kN,"
-                               "T_south-east_kN,T_w_3_kN,horizontal_m,max_utilisation_line,"
+                               "max_tension_line,max_utilisation,criterion,passed,Tmax_north_kN,"
+                               "Tmax_south-east_kN,Tmax_w_3_kN,horizontal_m,max_utilisation_line,"
                                "min_line_factor,required_line_factor,message\n");
     cap_free(&c);
 }

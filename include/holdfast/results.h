@@ -34,7 +34,7 @@
 #define HF_RESULTS_LINES_COLUMNS 16
 #define HF_RESULTS_STIFFNESS_COLUMNS 7
 /* Fixed columns of the curve CSV before T_<line>_kN, and of the balance CSV
- * before and after T_<line>_kN. */
+ * before and after Tmax_<line>_kN. */
 #define HF_RESULTS_CURVE_FIXED 9
 #define HF_RESULTS_BALANCE_HEAD 11
 #define HF_RESULTS_BALANCE_TAIL 5
@@ -118,7 +118,7 @@ void hf_results_balance_criterion(const hf_model *m, const hf_balance_result *r,
 /* Smallest MBL/T over the lines of r that carry load, or 0 when none does. */
 double hf_results_balance_min_factor(const hf_balance_result *r);
 
-/* Writes the balance CSV header: hf_results_balance_head, T_<line>_kN per
+/* Writes the balance CSV header: hf_results_balance_head, Tmax_<line>_kN per
  * line of m, hf_results_balance_tail.  HF_OK, or HF_ELIMIT as
  * hf_results_curve_header_write. */
 hf_status hf_results_balance_header_write(FILE *out, const hf_model *m, hf_error *err);
