@@ -173,7 +173,40 @@ hf_status hf_analysis_curve_compute(hf_analysis_curve *c, const hf_model *m, dou
 
 /* ---- balance ---- */
 
-/* Solves every condition of load l with b and hands the results to sink. */
+/* The state of one load case's run, for the visitor. */
+typedef struct {
+    const hf_analysis_balance_sink *sink;
+    const hf_load *load;
+    hf_analysis_balance_count *count;
+    size_t total;
+    hf_status status;     /* a sink's failure, else HF_OK */
+    hf_error *err;
+    hf_status intact;     /* the intact condition's status */
+    double intact_u[3];   /* and its offset (surge m, sway m, yaw rad) */
+} visit_ctx;
+
+static int visit(void *ctx, size_t cond, const hf_balance_result *r)
+{
+    visit_ctx *v = ctx;
+    hf_analysis_balance_count *n = v->count;
+    if (cond == 0) {
+        v->intact = r->status;
+        memcpy(v->intact_u, r->offset, sizeof v->intact_u);
+    }
+    n->conditions++;
+    n->passed += r->passed != 0;
+    n->failed += r->passed == 0;
+    n->noresult += r->status != HF_OK;
+    if (v->sink->condition &&
+        (v->status = v->sink->condition(v->sink->ctx, v->load, r, v->err)) != HF_OK)
+        return 1;
+    if (v->sink->progress)
+        v->sink->progress(v->sink->ctx, n->conditions, v->total);
+    return 0;
+}
+
+/* Solves every condition of load l with b (hf_balance_run_each: one result
+ * at a time, memory linear in the lines) and hands the results to sink. */
 static hf_status run_load(hf_balance *b, const hf_load *l, const hf_analysis_balance_sink *sink,
                           hf_analysis_balance_count *count, size_t total, hf_error *err)
 {
@@ -183,23 +216,14 @@ static hf_status run_load(hf_balance *b, const hf_load *l, const hf_analysis_bal
         return s;
     if (sink->load_begin && (s = sink->load_begin(sink->ctx, l, f, err)) != HF_OK)
         return s;
-    for (size_t cnd = 0; cnd < hf_balance_ncond(b); cnd++) {
-        hf_error e;
-        hf_error_clear(&e);
-        (void)hf_balance_solve(b, l, cnd, &e); /* the status is in the result */
-        const hf_balance_result *r = hf_balance_result_at(b, cnd);
-        count->conditions++;
-        count->passed += r->passed != 0;
-        count->failed += r->passed == 0;
-        count->noresult += r->status != HF_OK;
-        if (sink->condition && (s = sink->condition(sink->ctx, l, r, err)) != HF_OK)
-            return s;
-        if (sink->progress)
-            sink->progress(sink->ctx, count->conditions, total);
-    }
+    visit_ctx v = {sink, l, count, total, HF_OK, err, HF_EINVAL, {0.0, 0.0, 0.0}};
+    hf_error e;
+    hf_error_clear(&e);
+    (void)hf_balance_run_each(b, l, visit, &v, &e); /* statuses are in the results */
+    if (v.status != HF_OK)
+        return v.status;
     count->loads++;
-    if (sink->load_end && (s = sink->load_end(sink->ctx, l, hf_balance_result_at(b, 0), err)) !=
-                              HF_OK)
+    if (sink->load_end && (s = sink->load_end(sink->ctx, l, v.intact, v.intact_u, err)) != HF_OK)
         return s;
     return HF_OK;
 }

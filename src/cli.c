@@ -191,6 +191,17 @@ int hf_cli_case_load(const char *path, hf_model *m)
     return HF_CLI_CONTINUE;
 }
 
+int hf_cli_case_load_studies(const char *path, hf_model *m, hf_study_list *sl)
+{
+    hf_error err;
+    hf_error_clear(&err);
+    hf_model_init(m);
+    hf_study_list_init(sl);
+    if (hf_case_load_with_studies(path, m, sl, &err) != HF_OK)
+        return hf_cli_fail(&err);
+    return HF_CLI_CONTINUE;
+}
+
 int hf_cli_pose_cmd_begin(hf_cli_pose_cmd *pc, int argc, char **argv, const char *cmd,
                           const char *usage, const hf_cli_opt *extra, size_t nextra)
 {

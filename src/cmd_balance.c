@@ -258,11 +258,11 @@ static hf_status on_condition(void *ctx, const hf_load *l, const hf_balance_resu
     return HF_OK;
 }
 
-static hf_status on_load_end(void *ctx, const hf_load *l, const hf_balance_result *r,
-                             hf_error *err)
+static hf_status on_load_end(void *ctx, const hf_load *l, hf_status intact,
+                             const double offset[3], hf_error *err)
 {
     sink_ctx *c = ctx;
-    (void)l, (void)r, (void)err;
+    (void)l, (void)intact, (void)offset, (void)err;
     if (c->out)
         fprintf(c->out, "\n%s", hf_caution_text);
     return HF_OK;

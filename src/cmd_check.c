@@ -152,7 +152,7 @@ static void print_loads(const hf_model *m)
     }
 }
 
-static void print_rest(const hf_model *m)
+static void print_rest(const hf_model *m, const hf_study_list *sl)
 {
     const hf_hull *h = &m->hull;
     printf("\nhull: reference point at (%.2f, %.2f) m, heading %.2f deg", h->position[0],
@@ -173,10 +173,10 @@ static void print_rest(const hf_model *m)
     if (c->max_offset > 0.0)
         printf(", offset limit %.2f m", c->max_offset);
     printf("\n  source: %s\n", c->source ? c->source : "none");
-    if (list_heading("studies", m->nstudies) == 0)
+    if (list_heading("studies", sl->n) == 0)
         return;
-    for (size_t i = 0; i < m->nstudies; i++) {
-        const hf_study *s = &m->studies[i];
+    for (size_t i = 0; i < sl->n; i++) {
+        const hf_study *s = &sl->v[i];
         printf("  %-20s %-9s", s->name, study_kinds[s->kind]);
         if (s->kind == HF_STUDY_SWEEP || s->kind == HF_STUDY_INVERT)
             for (size_t k = 0; k < s->nvary; k++)
@@ -195,7 +195,8 @@ int hf_cmd_check(int argc, char **argv)
     if (rc != HF_CLI_CONTINUE)
         return rc;
     hf_model m;
-    rc = hf_cli_case_load(path, &m);
+    hf_study_list sl;
+    rc = hf_cli_case_load_studies(path, &m, &sl);
     if (rc != HF_CLI_CONTINUE)
         return rc;
     printf("case: %s\n", path);
@@ -206,9 +207,10 @@ int hf_cmd_check(int argc, char **argv)
            m.site.depth, m.site.water_level, hf_model_water_height(&m), m.site.water_density);
     print_components(&m);
     print_lines(&m);
-    print_rest(&m);
+    print_rest(&m, &sl);
     printf("\nthe case is valid: %zu components, %zu lines, %zu load cases, %zu studies\n\n%s",
-           m.ncomponents, m.nlines, m.nloads, m.nstudies, hf_caution_text);
+           m.ncomponents, m.nlines, m.nloads, sl.n, hf_caution_text);
+    hf_study_list_free(&sl);
     hf_model_free(&m);
     return HF_EXIT_OK;
 }

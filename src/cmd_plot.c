@@ -151,19 +151,19 @@ static int parse_args(int argc, char **argv, const char *cmd, plot_args *a)
 
 /* The curve's direction and range: the options, else the case's first
  * curve study, else 0 deg and -20:20:0.5. */
-static hf_status curve_setup(const hf_model *m, const plot_args *a, double *dir, double *from,
-                             double *step, size_t *n, hf_error *err)
+static hf_status curve_setup(const hf_study_list *sl, const plot_args *a, double *dir,
+                             double *from, double *step, size_t *n, hf_error *err)
 {
     double to = 20;
     *dir = 0;
     *from = -20;
     *step = 0.5;
-    for (size_t k = 0; k < m->nstudies; k++)
-        if (m->studies[k].kind == HF_STUDY_CURVE) {
-            *dir = m->studies[k].direction;
-            *from = m->studies[k].from;
-            to = m->studies[k].to;
-            *step = m->studies[k].step;
+    for (size_t k = 0; k < sl->n; k++)
+        if (sl->v[k].kind == HF_STUDY_CURVE) {
+            *dir = sl->v[k].direction;
+            *from = sl->v[k].from;
+            to = sl->v[k].to;
+            *step = sl->v[k].step;
             break;
         }
     if (a->direction && hf_cli_parse_value("--direction", a->direction, HF_DIM_ANGLE, dir, err) !=
@@ -177,7 +177,8 @@ static hf_status curve_setup(const hf_model *m, const plot_args *a, double *dir,
 }
 
 /* Draws the figure of a into out. */
-static hf_status draw(FILE *out, const hf_model *m, const plot_args *a, hf_error *err)
+static hf_status draw(FILE *out, const hf_model *m, const hf_study_list *sl, const plot_args *a,
+                      hf_error *err)
 {
     double offs[3] = {0, 0, 0};
     if (a->offset && hf_cli_parse_offset(a->offset, offs, err) != HF_OK)
@@ -200,7 +201,7 @@ static hf_status draw(FILE *out, const hf_model *m, const plot_args *a, hf_error
         return plot_elevation(out, m, offs, a->line, err);
     double dir, from, step;
     size_t n = 0;
-    hf_status s = curve_setup(m, a, &dir, &from, &step, &n, err);
+    hf_status s = curve_setup(sl, a, &dir, &from, &step, &n, err);
     return s == HF_OK ? plot_curve(out, m, dir, from, step, n, err) : s;
 }
 
@@ -216,18 +217,21 @@ int hf_cmd_plot(int argc, char **argv)
     if (a.offset && hf_cli_parse_offset(a.offset, offs, &err) != HF_OK)
         return hf_cli_fail(&err);
     hf_model m;
-    rc = hf_cli_case_load(a.path, &m);
+    hf_study_list sl;
+    rc = hf_cli_case_load_studies(a.path, &m, &sl);
     if (rc != HF_CLI_CONTINUE)
         return rc;
     hf_outfile *of = hf_outfile_open(a.out, &err);
     hf_status s = of ? HF_OK : err.status;
     if (of) {
-        s = draw(hf_outfile_stream(of), &m, &a, &err);
+        s = draw(hf_outfile_stream(of), &m, &sl, &a, &err);
         if (s == HF_OK)
             s = hf_outfile_commit(of, &err);
         else
             hf_outfile_abort(of);
     }
+    hf_study_list_free(&sl);
+    hf_study_list_free(&sl);
     hf_model_free(&m);
     return s == HF_OK ? HF_EXIT_OK : hf_cli_fail(&err);
 }

@@ -8,6 +8,7 @@
 #include "holdfast/alloc.h"
 #include "holdfast/analysis.h"
 #include "holdfast/balance.h"
+#include "holdfast/case.h"
 #include "holdfast/cli.h"
 #include "holdfast/invert.h"
 #include "holdfast/outfile.h"
@@ -481,16 +482,16 @@ static hf_status balance_row(void *ctx, const hf_load *l, const hf_balance_resul
 }
 
 /* After a load case: the plan at its intact equilibrium. */
-static hf_status balance_plan(void *ctx, const hf_load *l, const hf_balance_result *r0,
-                              hf_error *err)
+static hf_status balance_plan(void *ctx, const hf_load *l, hf_status intact,
+                              const double offset[3], hf_error *err)
 {
     balance_ctx *c = ctx;
     (void)err;
-    if (!r0 || r0->status != HF_OK)
+    if (intact != HF_OK)
         return HF_OK;
     hf_pose pose;
     hf_spread_pose_rest(c->m, &pose);
-    hf_spread_pose_offset(&pose, r0->offset);
+    hf_spread_pose_offset(&pose, offset);
     hf_error fe;
     hf_error_clear(&fe);
     FILE *f = hf_report_figure_begin(c->rep);
@@ -567,7 +568,7 @@ static hf_status run_invert(const hf_model *m, const hf_study *s, int jobs, FILE
     char text[2 * HF_MODEL_MAX_NAME + 64];
     hf_invert_target_text(s->target_output, s->target_line, text, sizeof text);
     hf_output o;
-    hf_status st = hf_sweep_output_parse(m, text, &o, err);
+    hf_status st = hf_output_parse(m, text, &o, err);
     if (st != HF_OK || s->nvary != 1)
         return st != HF_OK ? st : hf_error_set(err, HF_EINVAL, "invert study needs one parameter");
     hf_invert_result res;
@@ -585,7 +586,7 @@ static hf_status run_invert(const hf_model *m, const hf_study *s, int jobs, FILE
     char para[HF_ERROR_TEXT];
     double sc = 1e-3;
     const char *ou = "kN";
-    switch (hf_invert_output_dim(&o)) {
+    switch (hf_output_dim(&o)) {
     case HF_DIM_NONE:
         sc = 1.0;
         ou = "";
@@ -682,10 +683,9 @@ static int parse_args(int argc, char **argv, run_args *a)
 }
 
 /* Runs study k of m into dir (its CSV and its report section); fills oc. */
-static void run_study(const hf_model *m, size_t k, const char *dir, const run_args *a,
+static void run_study(const hf_model *m, const hf_study *s, const char *dir, const run_args *a,
                       hf_report *rep, outcome *oc)
 {
-    const hf_study *s = &m->studies[k];
     char path[HF_RUNFOLDER_PATH_MAX + 2 * HF_MODEL_MAX_NAME + 64];
     snprintf(path, sizeof path, "%s/%s.csv", dir, s->name);
     hf_error e;
@@ -715,8 +715,8 @@ static void run_study(const hf_model *m, size_t k, const char *dir, const run_ar
 }
 
 /* summary.txt: one line per study; written last, so it describes the folder. */
-static hf_status write_summary(const hf_model *m, const char *dir, const run_args *a,
-                               const outcome *oc, hf_error *err)
+static hf_status write_summary(const hf_model *m, const hf_study_list *sl, const char *dir,
+                               const run_args *a, const outcome *oc, hf_error *err)
 {
     char path[HF_RUNFOLDER_PATH_MAX + 64];
     hf_outfile *of = open_in(dir, "summary.txt", path, sizeof path, err);
@@ -727,8 +727,8 @@ static hf_status write_summary(const hf_model *m, const char *dir, const run_arg
     if (m->title)
         fprintf(out, "case: %s\n", m->title);
     fprintf(out, "\n");
-    for (size_t k = 0; k < m->nstudies; k++)
-        fprintf(out, "%-24s %-9s %-8s %s\n", m->studies[k].name, kind_name[m->studies[k].kind],
+    for (size_t k = 0; k < sl->n; k++)
+        fprintf(out, "%-24s %-9s %-8s %s\n", sl->v[k].name, kind_name[sl->v[k].kind],
                 oc[k].status != HF_OK    ? "failed"
                 : oc[k].criterion_failed ? "criterion"
                                          : "ok",
@@ -740,8 +740,8 @@ static hf_status write_summary(const hf_model *m, const char *dir, const run_arg
 /* Every study, the report and the summary into dir.  Returns the exit
  * status the studies call for; *st is the status of the report and summary
  * files (their message in err). */
-static int run_all(const hf_model *m, const char *dir, const run_args *a, outcome *oc,
-                   hf_status *st, hf_error *err)
+static int run_all(const hf_model *m, const hf_study_list *sl, const char *dir,
+                   const run_args *a, outcome *oc, hf_status *st, hf_error *err)
 {
     char path[HF_RUNFOLDER_PATH_MAX + 64];
     /* The report is written alongside the studies and committed last. */
@@ -756,8 +756,8 @@ static int run_all(const hf_model *m, const char *dir, const run_args *a, outcom
     hf_report_begin(&rep, hf_outfile_stream(rf), m, command);
     report_rest(&rep, m);
     int worst = 0, crit = 0;
-    for (size_t k = 0; k < m->nstudies; k++) {
-        run_study(m, k, dir, a, &rep, &oc[k]);
+    for (size_t k = 0; k < sl->n; k++) {
+        run_study(m, &sl->v[k], dir, a, &rep, &oc[k]);
         if (severity(oc[k].status) > worst)
             worst = severity(oc[k].status);
         crit |= oc[k].criterion_failed;
@@ -768,7 +768,7 @@ static int run_all(const hf_model *m, const char *dir, const run_args *a, outcom
     else
         hf_outfile_abort(rf);
     if (*st == HF_OK)
-        *st = write_summary(m, dir, a, oc, err);
+        *st = write_summary(m, sl, dir, a, oc, err);
     return worst == 3 ? HF_EXIT_USAGE : worst == 2 ? HF_EXIT_NUMERIC : crit ? HF_EXIT_CRITERION : 0;
 }
 
@@ -779,7 +779,8 @@ int hf_cmd_run(int argc, char **argv)
     if (rc != HF_CLI_CONTINUE)
         return rc;
     hf_model m;
-    rc = hf_cli_case_load(a.case_path, &m);
+    hf_study_list sl;
+    rc = hf_cli_case_load_studies(a.case_path, &m, &sl);
     if (rc != HF_CLI_CONTINUE)
         return rc;
     hf_error err;
@@ -788,7 +789,7 @@ int hf_cmd_run(int argc, char **argv)
     outcome *oc = NULL;
     hf_runfolder rf;
     hf_status st = HF_OK;
-    if (m.nstudies == 0) {
+    if (sl.n == 0) {
         st = hf_error_set(&err, HF_EINVAL, "%s: the case has no studies: section; nothing to run",
                           a.case_path);
     } else {
@@ -796,10 +797,10 @@ int hf_cmd_run(int argc, char **argv)
             default_dir(a.case_path, dbuf, sizeof dbuf);
             a.dir = dbuf;
         }
-        if (!(oc = hf_calloc(m.nstudies, sizeof *oc)))
+        if (!(oc = hf_calloc(sl.n, sizeof *oc)))
             st = hf_error_set(&err, HF_ENOMEM, "out of memory");
         else if ((st = hf_runfolder_begin(&rf, a.dir, &err)) == HF_OK) {
-            rc = run_all(&m, hf_runfolder_path(&rf), &a, oc, &st, &err);
+            rc = run_all(&m, &sl, hf_runfolder_path(&rf), &a, oc, &st, &err);
             if (st == HF_OK)
                 st = hf_runfolder_commit(&rf, &err);
             else
@@ -811,6 +812,7 @@ int hf_cmd_run(int argc, char **argv)
     else if (!a.quiet)
         printf("results in %s/\n%s", rf.dir, hf_caution_text);
     hf_free(oc);
+    hf_study_list_free(&sl);
     hf_model_free(&m);
     return rc;
 }

@@ -229,6 +229,117 @@ typedef struct {
     double tg_lo[NMAX], tg_hi[NMAX]; /* tension at the lower / upper end of grounded pieces */
 } walk_t;
 
+/* Touchdown: the first point, going up from the anchor, where V becomes
+ * positive (vt, vb: V at the top and bottom of each section).  Below it V
+ * <= 0 (the line lies on the seabed); above it the line is suspended, with
+ * sags where V changes sign again.  Sets w->grounded, td_sec, td_joint,
+ * buoy_down and returns the first (partly) suspended section. */
+static size_t find_touchdown(const hf_line *line, const double *vt, const double *vb, walk_t *w)
+{
+    size_t n = line->n;
+    if (vb[0] > 0.0) {
+        w->grounded = 0;
+        return 0;
+    }
+    w->grounded = 1;
+    int td_joint = 0;
+    size_t k = 0;
+    for (;;) {
+        if (line->sec[k].weight > 0.0 && vt[k] > 0.0)
+            break; /* touchdown inside section k */
+        if (k + 1 >= n) {
+            k = n; /* fully laid: touchdown at the fairlead */
+            break;
+        }
+        if (pload(line, k) < 0.0)
+            w->buoy_down = 1;
+        if (vb[k + 1] > 0.0) {
+            td_joint = 1; /* touchdown exactly at the clump on joint k */
+            break;
+        }
+        k++;
+    }
+    w->td_sec = k;
+    w->td_joint = td_joint;
+    return td_joint ? k + 1 : k;
+}
+
+/* The suspended part from section k0 up, walked upward so sag heights are
+ * known: adds into *x, *z, J and records V and the lowest sag in w. */
+static void walk_suspended(const hf_line *line, double H, const double *vt, const double *vb,
+                           size_t k0, walk_t *w, double *x, double *z, double J[2][2])
+{
+    for (size_t k = k0; k < line->n; k++) {
+        const hf_section *s = &line->sec[k];
+        double zb = *z;
+        if (w->grounded && !w->td_joint && k == k0) {
+            touchdown_piece(H, s->weight, s->ea, vt[k], x, z, J);
+            w->vb[k] = 0.0;
+        } else {
+            if (k > k0 && vt[k - 1] <= 0.0 && vb[k] > 0.0)
+                w->sag_min = fmin(w->sag_min, zb); /* kink minimum at a clump */
+            suspended(H, s->weight, s->length, s->ea, vt[k], vb[k], x, z, J);
+            w->vb[k] = vb[k];
+            if (vb[k] < 0.0 && vt[k] > 0.0) {
+                /* a sag's lowest point inside the section, where V = 0 */
+                double xs = 0.0, zs = 0.0, Js[2][2] = {{0, 0}, {0, 0}};
+                double lb = -vb[k] / s->weight;
+                suspended(H, s->weight, lb, s->ea, 0.0, vb[k], &xs, &zs, Js);
+                w->sag_min = fmin(w->sag_min, zb + zs);
+            }
+        }
+        w->vt[k] = vt[k];
+    }
+}
+
+/* One whole grounded section k (and the joint below it, unless k = 0). */
+static void ground_section(const hf_line *line, size_t k, ground_t *g, walk_t *w, double *xg)
+{
+    const hf_section *s = &line->sec[k];
+    w->gl[k] = s->length;
+    w->tg_hi[k] = g->t;
+    ground_piece(g, s->length, 0.0, s->friction * s->weight, s->ea);
+    w->tg_lo[k] = g->t;
+    *xg += s->length;
+    if (k > 0)
+        ground_point(g, line->joint[k - 1].friction, pos(pload(line, k - 1)), 0.0);
+}
+
+/* The grounded part, walked from touchdown down to the anchor: tension,
+ * stretch and their derivatives in *g, grounded length *xg (d/dV *xg_v). */
+static void walk_grounded(const hf_line *line, const double *vt, walk_t *w, ground_t *g,
+                          double *xg, double *xg_v)
+{
+    size_t k = w->td_sec, n = line->n;
+    if (k >= n) {
+        k = n - 1; /* fully laid: start with the top section, whole */
+    } else if (w->td_joint) {
+        /* The clump carries part of its weight on the seabed: N = P - V_above. */
+        ground_point(g, line->joint[k].friction, -vt[k], -1.0);
+    } else {
+        const hf_section *s = &line->sec[k];
+        double l = s->length - vt[k] / s->weight;
+        w->gl[k] = l;
+        w->tg_hi[k] = g->t;
+        ground_piece(g, l, -1.0 / s->weight, s->friction * s->weight, s->ea);
+        w->tg_lo[k] = g->t;
+        *xg += l;
+        *xg_v += -1.0 / s->weight;
+        if (k == 0) {
+            w->anchor_t = g->t;
+            return;
+        }
+        ground_point(g, line->joint[k - 1].friction, pos(pload(line, k - 1)), 0.0);
+        k--;
+    }
+    for (;; k--) {
+        ground_section(line, k, g, w, xg);
+        if (k == 0)
+            break;
+    }
+    w->anchor_t = g->t;
+}
+
 /* The forward map.  Returns HF_OK, or HF_EINVAL when h is not > 0 and finite. */
 static hf_status walk(const hf_line *line, double H, double VF, walk_t *w)
 {
@@ -250,97 +361,14 @@ static hf_status walk(const hf_line *line, double H, double VF, walk_t *w)
     w->sag_min = INFINITY;
     for (size_t k = 0; k < n; k++)
         w->vb[k] = w->vt[k] = w->gl[k] = w->tg_lo[k] = w->tg_hi[k] = 0.0;
-    /* Touchdown: the first point, going up from the anchor, where V becomes
-     * positive.  Below it V <= 0 (the line lies on the seabed); above it the
-     * line is suspended, with sags where V changes sign again. */
-    size_t k0 = 0;       /* first section (partly) suspended */
-    int td_joint = 0;
-    if (vb[0] > 0.0) {
-        w->grounded = 0;
-    } else {
-        w->grounded = 1;
-        size_t k = 0;
-        for (;;) {
-            if (line->sec[k].weight > 0.0 && vt[k] > 0.0)
-                break; /* touchdown inside section k */
-            if (k + 1 >= n) {
-                k = n; /* fully laid: touchdown at the fairlead */
-                break;
-            }
-            if (pload(line, k) < 0.0)
-                w->buoy_down = 1;
-            if (vb[k + 1] > 0.0) {
-                td_joint = 1; /* touchdown exactly at the clump on joint k */
-                break;
-            }
-            k++;
-        }
-        w->td_sec = k;
-        w->td_joint = td_joint;
-        k0 = td_joint ? k + 1 : k;
-    }
-    /* Suspended part, walked upward so sag heights are known. */
+    size_t k0 = find_touchdown(line, vt, vb, w);
     double x = 0.0, z = 0.0;
     double J[2][2] = {{0.0, 0.0}, {0.0, 0.0}};
-    for (size_t k = k0; k < n; k++) {
-        const hf_section *s = &line->sec[k];
-        double zb = z;
-        if (w->grounded && !td_joint && k == k0) {
-            touchdown_piece(H, s->weight, s->ea, vt[k], &x, &z, J);
-            w->vb[k] = 0.0;
-        } else {
-            if (k > k0 && vt[k - 1] <= 0.0 && vb[k] > 0.0)
-                w->sag_min = fmin(w->sag_min, zb); /* kink minimum at a clump */
-            suspended(H, s->weight, s->length, s->ea, vt[k], vb[k], &x, &z, J);
-            w->vb[k] = vb[k];
-            if (vb[k] < 0.0 && vt[k] > 0.0) {
-                /* a sag's lowest point inside the section, where V = 0 */
-                double xs = 0.0, zs = 0.0, Js[2][2] = {{0, 0}, {0, 0}};
-                double lb = -vb[k] / s->weight;
-                suspended(H, s->weight, lb, s->ea, 0.0, vb[k], &xs, &zs, Js);
-                w->sag_min = fmin(w->sag_min, zb + zs);
-            }
-        }
-        w->vt[k] = vt[k];
-    }
-    /* Grounded part, walked from touchdown down to the anchor. */
+    walk_suspended(line, H, vt, vb, k0, w, &x, &z, J);
     ground_t g = {H, 1.0, 0.0, 0.0, 0.0, 0.0};
     double xg = 0.0, xg_v = 0.0;
-    if (w->grounded) {
-        size_t k = w->td_sec;
-        if (k >= n) {
-            k = n - 1; /* fully laid: start with the top section, whole */
-        } else if (td_joint) {
-            /* The clump carries part of its weight on the seabed: N = P - V_above. */
-            ground_point(&g, line->joint[k].friction, -vt[k], -1.0);
-        } else {
-            const hf_section *s = &line->sec[k];
-            double l = s->length - vt[k] / s->weight;
-            w->gl[k] = l;
-            w->tg_hi[k] = g.t;
-            ground_piece(&g, l, -1.0 / s->weight, s->friction * s->weight, s->ea);
-            w->tg_lo[k] = g.t;
-            xg += l;
-            xg_v += -1.0 / s->weight;
-            if (k == 0)
-                goto anchor;
-            ground_point(&g, line->joint[k - 1].friction, pos(pload(line, k - 1)), 0.0);
-            k--;
-        }
-        for (;; k--) {
-            const hf_section *s = &line->sec[k];
-            w->gl[k] = s->length;
-            w->tg_hi[k] = g.t;
-            ground_piece(&g, s->length, 0.0, s->friction * s->weight, s->ea);
-            w->tg_lo[k] = g.t;
-            xg += s->length;
-            if (k == 0)
-                break;
-            ground_point(&g, line->joint[k - 1].friction, pos(pload(line, k - 1)), 0.0);
-        }
-    anchor:
-        w->anchor_t = g.t;
-    }
+    if (w->grounded)
+        walk_grounded(line, vt, w, &g, &xg, &xg_v);
     w->x_susp = x;
     w->x = x + xg + g.s;
     w->z = z;
@@ -1234,105 +1262,115 @@ static size_t steps(double len, double spacing)
     return (size_t)n;
 }
 
-size_t hf_line_profile(const hf_line *line, const hf_line_state *st, double spacing,
-                       hf_line_point *pts, size_t cap)
+/* Slack line: the laid part's true shape on the seabed is unknown, it is
+ * drawn straight from the anchor to the point below the fairlead; the
+ * hanging column above it is vertical. */
+static void profile_slack(const hf_line *line, const hf_line_state *st, double spacing,
+                          sink_t *k)
 {
-    if (!st || st->status != HF_OK || !(spacing > 0.0) || !isfinite(spacing))
-        return 0;
-    sink_t k = {pts, cap, 0};
-    size_t n = line->n;
-    double arc = 0.0, x = 0.0, z = 0.0;
-    if (st->regime == HF_LINE_SLACK) {
-        /* The laid part's true shape on the seabed is unknown (slack): it is
-         * drawn straight from the anchor to the point below the fairlead. */
-        double sx = st->grounded > 0.0 ? st->x / st->grounded : 0.0;
-        emit(&k, 0.0, 0.0, 0.0, 0.0);
-        for (size_t i = 0; i < n; i++) {
-            const hf_section *s = &line->sec[i];
-            const hf_section_result *r = &st->section[i];
-            size_t m = steps(s->length, spacing);
-            double gl = r->grounded;
-            for (size_t j = 1; j <= m; j++) {
-                double u = s->length * (double)j / (double)m;
-                double a = arc + u;
-                if (u <= gl) {
-                    emit(&k, a, a * sx, 0.0, 0.0);
-                } else {
-                    double h = u - gl, v0 = r->t_lower;
-                    double v = v0 + s->weight * h;
-                    double zz = z + h + (v0 + v) * h / (2.0 * s->ea);
-                    emit(&k, a, st->x, zz, v);
-                }
-            }
-            double h = s->length - gl;
-            if (h > 0.0)
-                z += h + (r->t_lower + r->t_upper) * h / (2.0 * s->ea);
-            arc += s->length;
-        }
-        return k.count;
-    }
-    walk_t w;
-    double H = st->h;
-    if (st->regime == HF_LINE_VERTICAL) {
-        emit(&k, 0.0, 0.0, 0.0, st->anchor_tension);
-        for (size_t i = 0; i < n; i++) {
-            const hf_section *s = &line->sec[i];
-            double vb = st->section[i].t_lower;
-            size_t m = steps(s->length, spacing);
-            for (size_t j = 1; j <= m; j++) {
-                double u = s->length * (double)j / (double)m;
-                double v = vb + s->weight * u;
-                emit(&k, arc + u, 0.0, z + u + (vb + v) * u / (2.0 * s->ea), v);
-            }
-            z += s->length + (vb + st->section[i].t_upper) * s->length / (2.0 * s->ea);
-            arc += s->length;
-        }
-        return k.count;
-    }
-    if (walk(line, H, st->v, &w) != HF_OK)
-        return 0;
-    emit(&k, 0.0, 0.0, 0.0, st->anchor_tension);
-    for (size_t i = 0; i < n; i++) {
+    double arc = 0.0, z = 0.0;
+    double sx = st->grounded > 0.0 ? st->x / st->grounded : 0.0;
+    emit(k, 0.0, 0.0, 0.0, 0.0);
+    for (size_t i = 0; i < line->n; i++) {
         const hf_section *s = &line->sec[i];
-        double gl = w.gl[i];
-        double r = s->friction * s->weight;
+        const hf_section_result *r = &st->section[i];
         size_t m = steps(s->length, spacing);
-        /* Grounded piece: tension rises from tg_lo toward touchdown. */
-        double thi = w.tg_hi[i];
-        double xg0 = x;
+        double gl = r->grounded;
         for (size_t j = 1; j <= m; j++) {
             double u = s->length * (double)j / (double)m;
+            double a = arc + u;
             if (u <= gl) {
-                /* T(u) = max(0, thi - r (gl - u)); stretch integrated from 0 */
-                double t = fmax(0.0, thi - r * (gl - u));
-                double u0 = r > 0.0 ? fmax(0.0, gl - thi / r) : 0.0; /* start of tension */
-                double st0 = 0.0;
-                if (u > u0) {
-                    double t0 = fmax(0.0, thi - r * (gl - u0));
-                    st0 = (t0 + t) * (u - u0) / (2.0 * s->ea);
-                }
-                emit(&k, arc + u, xg0 + u + st0, 0.0, t);
+                emit(k, a, a * sx, 0.0, 0.0);
             } else {
-                double xs = 0.0, zs = 0.0, Js[2][2] = {{0, 0}, {0, 0}};
-                double h = u - gl;
-                double vb = w.vb[i];
-                suspended(H, s->weight, h, s->ea, vb + s->weight * h, vb, &xs, &zs, Js);
-                double xbase = xg0, zbase = z;
-                if (gl > 0.0) {
-                    double u0 = r > 0.0 ? fmax(0.0, gl - thi / r) : 0.0;
-                    double t0 = fmax(0.0, thi - r * (gl - u0));
-                    xbase += gl + (t0 + thi) * (gl - u0) / (2.0 * s->ea);
-                }
-                emit(&k, arc + u, xbase + xs, zbase + zs, hypot(H, vb + s->weight * h));
+                double h = u - gl, v0 = r->t_lower;
+                double v = v0 + s->weight * h;
+                double zz = z + h + (v0 + v) * h / (2.0 * s->ea);
+                emit(k, a, st->x, zz, v);
             }
         }
-        /* advance to the section's upper end */
-        double xe = xg0, ze = z;
-        if (gl > 0.0) {
-            double u0 = r > 0.0 ? fmax(0.0, gl - thi / r) : 0.0;
-            double t0 = fmax(0.0, thi - r * (gl - u0));
-            xe += gl + (t0 + thi) * (gl - u0) / (2.0 * s->ea);
+        double h = s->length - gl;
+        if (h > 0.0)
+            z += h + (r->t_lower + r->t_upper) * h / (2.0 * s->ea);
+        arc += s->length;
+    }
+}
+
+/* Vertical line: straight up from the anchor. */
+static void profile_vertical(const hf_line *line, const hf_line_state *st, double spacing,
+                             sink_t *k)
+{
+    double arc = 0.0, z = 0.0;
+    emit(k, 0.0, 0.0, 0.0, st->anchor_tension);
+    for (size_t i = 0; i < line->n; i++) {
+        const hf_section *s = &line->sec[i];
+        double vb = st->section[i].t_lower;
+        size_t m = steps(s->length, spacing);
+        for (size_t j = 1; j <= m; j++) {
+            double u = s->length * (double)j / (double)m;
+            double v = vb + s->weight * u;
+            emit(k, arc + u, 0.0, z + u + (vb + v) * u / (2.0 * s->ea), v);
         }
+        z += s->length + (vb + st->section[i].t_upper) * s->length / (2.0 * s->ea);
+        arc += s->length;
+    }
+}
+
+/* Horizontal position where the grounded piece of length gl (tension thi at
+ * its upper end, friction slope r) ends, starting from x0: gl plus the
+ * stretch of its tensioned part. */
+static double ground_end(double x0, double gl, double thi, double r, double ea)
+{
+    double u0 = r > 0.0 ? fmax(0.0, gl - thi / r) : 0.0; /* start of tension */
+    double t0 = fmax(0.0, thi - r * (gl - u0));
+    return x0 + (gl + (t0 + thi) * (gl - u0) / (2.0 * ea));
+}
+
+/* One sample at unstretched distance u from the lower end of section i,
+ * whose lower end is at (x0, z0): on the grounded piece or the suspended one. */
+static void profile_point(const hf_line *line, const walk_t *w, double H, size_t i, double u,
+                          double x0, double z0, double arc, sink_t *k)
+{
+    const hf_section *s = &line->sec[i];
+    double gl = w->gl[i], r = s->friction * s->weight, thi = w->tg_hi[i];
+    if (u <= gl) {
+        /* T(u) = max(0, thi - r (gl - u)); stretch integrated from 0 */
+        double t = fmax(0.0, thi - r * (gl - u));
+        double u0 = r > 0.0 ? fmax(0.0, gl - thi / r) : 0.0; /* start of tension */
+        double st0 = 0.0;
+        if (u > u0) {
+            double t0 = fmax(0.0, thi - r * (gl - u0));
+            st0 = (t0 + t) * (u - u0) / (2.0 * s->ea);
+        }
+        emit(k, arc + u, x0 + u + st0, 0.0, t);
+        return;
+    }
+    double xs = 0.0, zs = 0.0, Js[2][2] = {{0, 0}, {0, 0}};
+    double h = u - gl, vb = w->vb[i];
+    suspended(H, s->weight, h, s->ea, vb + s->weight * h, vb, &xs, &zs, Js);
+    double xbase = gl > 0.0 ? ground_end(x0, gl, thi, r, s->ea) : x0;
+    emit(k, arc + u, xbase + xs, z0 + zs, hypot(H, vb + s->weight * h));
+}
+
+/* Suspended or touchdown line: the walk at the solved forces, section by
+ * section, grounded piece first (tension rising from tg_lo toward touchdown). */
+static size_t profile_catenary(const hf_line *line, const hf_line_state *st, double spacing,
+                               sink_t *k)
+{
+    walk_t w;
+    double H = st->h, arc = 0.0, x = 0.0, z = 0.0;
+    if (walk(line, H, st->v, &w) != HF_OK)
+        return 0;
+    emit(k, 0.0, 0.0, 0.0, st->anchor_tension);
+    for (size_t i = 0; i < line->n; i++) {
+        const hf_section *s = &line->sec[i];
+        double gl = w.gl[i];
+        size_t m = steps(s->length, spacing);
+        for (size_t j = 1; j <= m; j++)
+            profile_point(line, &w, H, i, s->length * (double)j / (double)m, x, z, arc, k);
+        /* advance to the section's upper end */
+        double xe = x, ze = z;
+        if (gl > 0.0)
+            xe = ground_end(x, gl, w.tg_hi[i], s->friction * s->weight, s->ea);
         if (s->length - gl > 0.0) {
             double Js[2][2] = {{0, 0}, {0, 0}};
             suspended(H, s->weight, s->length - gl, s->ea, w.vt[i], w.vb[i], &xe, &ze, Js);
@@ -1341,5 +1379,22 @@ size_t hf_line_profile(const hf_line *line, const hf_line_state *st, double spac
         z = ze;
         arc += s->length;
     }
-    return k.count;
+    return k->count;
+}
+
+size_t hf_line_profile(const hf_line *line, const hf_line_state *st, double spacing,
+                       hf_line_point *pts, size_t cap)
+{
+    if (!st || st->status != HF_OK || !(spacing > 0.0) || !isfinite(spacing))
+        return 0;
+    sink_t k = {pts, cap, 0};
+    if (st->regime == HF_LINE_SLACK) {
+        profile_slack(line, st, spacing, &k);
+        return k.count;
+    }
+    if (st->regime == HF_LINE_VERTICAL) {
+        profile_vertical(line, st, spacing, &k);
+        return k.count;
+    }
+    return profile_catenary(line, st, spacing, &k);
 }

@@ -431,9 +431,59 @@ static double to_si(double v, const unit *u)
     return u->factor == 1.0 ? rad_reduce(v) : hf_units_deg_to_rad(v);
 }
 
+/* The message for a unit text u[0..ulen) that is no known unit. */
+static hf_status unknown_unit(const char *u, size_t ulen, hf_dim want, const char *shown,
+                              hf_error *err)
+{
+    char unit_shown[80], raw[64], norm[64], hint[64];
+    size_t k = ulen < sizeof raw - 1 ? ulen : sizeof raw - 1;
+    const unit *close = NULL;
+    memcpy(raw, u, k);
+    raw[k] = '\0';
+    quote(unit_shown, sizeof unit_shown, raw);
+    if (u[0] == ',' && isdigit((unsigned char)u[1]))
+        return hf_error_set(err, HF_EINVAL,
+                            "expected %s %s, got \"%s\" (write decimals with a point: "
+                            "\"%s\")",
+                            article(want), names[want], shown, examples[want]);
+    if (want == HF_DIM_NONE)
+        return hf_error_set(err, HF_EINVAL, "expected a plain number without a unit, got \"%s\"",
+                            shown);
+    if (normalise(u, ulen, norm, sizeof norm))
+        close = suggest(norm, want, 1);
+    hint[0] = '\0';
+    if (close) {
+        char d[32];
+        display(d, sizeof d, close->name);
+        snprintf(hint, sizeof hint, "; did you mean %s?", d);
+    }
+    return hf_error_set(err, HF_EINVAL, "unknown unit \"%s\" in \"%s\" (%s %s takes %s)%s",
+                        unit_shown, shown, article(want), names[want], spellings[want], hint);
+}
+
+/* The message for a known unit of another dimension than `want`. */
+static hf_status wrong_dimension(const char *norm, const unit *found, hf_dim want,
+                                 const char *shown, hf_error *err)
+{
+    char hint[64];
+    const unit *close = suggest(norm, want, 0);
+    hint[0] = '\0';
+    if (close) {
+        char d[32];
+        display(d, sizeof d, close->name);
+        snprintf(hint, sizeof hint, "; did you mean %s?", d);
+    }
+    if (want == HF_DIM_NONE)
+        return hf_error_set(err, HF_EINVAL,
+                            "expected a plain number without a unit, got \"%s\" (%s %s)", shown,
+                            article(found->dim), names[found->dim]);
+    return hf_error_set(err, HF_EINVAL, "expected %s %s, got \"%s\" (%s %s%s)", article(want),
+                        names[want], shown, article(found->dim), names[found->dim], hint);
+}
+
 hf_status hf_units_parse(const char *text, hf_dim want, double *out, hf_error *err)
 {
-    char shown[80], norm[64], hint[64];
+    char shown[80], norm[64];
     const char *s, *u;
     size_t n, ulen;
     const unit *found;
@@ -485,48 +535,10 @@ hf_status hf_units_parse(const char *text, hf_dim want, double *out, hf_error *e
     }
 
     found = normalise(u, ulen, norm, sizeof norm) ? find(norm) : NULL;
-    if (!found) {
-        char unit_shown[80], raw[64];
-        size_t k = ulen < sizeof raw - 1 ? ulen : sizeof raw - 1;
-        const unit *close = NULL;
-        memcpy(raw, u, k);
-        raw[k] = '\0';
-        quote(unit_shown, sizeof unit_shown, raw);
-        if (u[0] == ',' && isdigit((unsigned char)u[1]))
-            return hf_error_set(err, HF_EINVAL,
-                                "expected %s %s, got \"%s\" (write decimals with a point: "
-                                "\"%s\")",
-                                article(want), names[want], shown, examples[want]);
-        if (want == HF_DIM_NONE)
-            return hf_error_set(err, HF_EINVAL,
-                                "expected a plain number without a unit, got \"%s\"", shown);
-        if (normalise(u, ulen, norm, sizeof norm))
-            close = suggest(norm, want, 1);
-        hint[0] = '\0';
-        if (close) {
-            char d[32];
-            display(d, sizeof d, close->name);
-            snprintf(hint, sizeof hint, "; did you mean %s?", d);
-        }
-        return hf_error_set(err, HF_EINVAL, "unknown unit \"%s\" in \"%s\" (%s %s takes %s)%s",
-                            unit_shown, shown, article(want), names[want], spellings[want], hint);
-    }
-
-    if (found->dim != want) {
-        const unit *close = suggest(norm, want, 0);
-        hint[0] = '\0';
-        if (close) {
-            char d[32];
-            display(d, sizeof d, close->name);
-            snprintf(hint, sizeof hint, "; did you mean %s?", d);
-        }
-        if (want == HF_DIM_NONE)
-            return hf_error_set(err, HF_EINVAL,
-                                "expected a plain number without a unit, got \"%s\" (%s %s)", shown,
-                                article(found->dim), names[found->dim]);
-        return hf_error_set(err, HF_EINVAL, "expected %s %s, got \"%s\" (%s %s%s)", article(want),
-                            names[want], shown, article(found->dim), names[found->dim], hint);
-    }
+    if (!found)
+        return unknown_unit(u, ulen, want, shown, err);
+    if (found->dim != want)
+        return wrong_dimension(norm, found, want, shown, err);
 
     v = to_si(v, found);
     if (!isfinite(v))

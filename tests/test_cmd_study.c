@@ -163,12 +163,7 @@ static const char *partial(const char *out)
 static int setup(void **s)
 {
     (void)s;
-    bin = getenv("HF_BIN");
-    if (!bin) {
-        fprintf(stderr, "test_cmd_study: HF_BIN is not set (run through make check)\n");
-        return -1;
-    }
-    if (hf_test_tmpdir_make(dir, sizeof dir, "study") != 0)
+    if (hf_test_cli_setup(&bin, dir, sizeof dir, "cmd-study") != 0)
         return -1;
     write_file(path_in("quarrel.yaml"), hf_test_case_quarrel, NULL);
     return 0;

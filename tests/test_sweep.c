@@ -171,21 +171,21 @@ static void test_output_names(void **s)
     (void)s;
     hf_output o;
     hf_error e;
-    assert_int_equal(hf_sweep_output_parse(&model, "fairlead_tension:southeast", &o, &e), HF_OK);
+    assert_int_equal(hf_output_parse(&model, "fairlead_tension:southeast", &o, &e), HF_OK);
     assert_int_equal(o.kind, HF_OUT_FAIRLEAD_TENSION);
     assert_int_equal(o.line, 2);
-    assert_true(hf_sweep_output_is_scalar(&o));
-    assert_int_equal(hf_sweep_output_parse(&model, "utilisation", &o, &e), HF_OK);
-    assert_false(hf_sweep_output_is_scalar(&o));
-    assert_int_equal(hf_sweep_output_parse(&model, "offset_gale", &o, &e), HF_OK);
+    assert_true(hf_output_is_scalar(&o));
+    assert_int_equal(hf_output_parse(&model, "utilisation", &o, &e), HF_OK);
+    assert_false(hf_output_is_scalar(&o));
+    assert_int_equal(hf_output_parse(&model, "offset_gale", &o, &e), HF_OK);
     assert_int_equal(o.kind, HF_OUT_OFFSET);
-    assert_int_equal(hf_sweep_output_parse(&model, "offset_calm", &o, &e), HF_EINVAL);
+    assert_int_equal(hf_output_parse(&model, "offset_calm", &o, &e), HF_EINVAL);
     assert_non_null(strstr(e.text, "calm"));
-    assert_int_equal(hf_sweep_output_parse(&model, "stiffness_surge:north", &o, &e), HF_EINVAL);
-    assert_int_equal(hf_sweep_output_parse(&model, "fairlead_tension:west", &o, &e), HF_EINVAL);
-    assert_int_equal(hf_sweep_output_parse(&model, "tension", &o, &e), HF_EINVAL);
+    assert_int_equal(hf_output_parse(&model, "stiffness_surge:north", &o, &e), HF_EINVAL);
+    assert_int_equal(hf_output_parse(&model, "fairlead_tension:west", &o, &e), HF_EINVAL);
+    assert_int_equal(hf_output_parse(&model, "tension", &o, &e), HF_EINVAL);
     assert_non_null(strstr(e.text, "fairlead_tension"));
-    assert_int_equal(hf_sweep_output_parse(&model, "", &o, &e), HF_EINVAL);
+    assert_int_equal(hf_output_parse(&model, "", &o, &e), HF_EINVAL);
 }
 
 static void test_vary_parse(void **s)
@@ -250,7 +250,7 @@ static void test_invert_hits_target(void **s)
     hf_error e;
     hf_invert_result res;
     /* Section length for a 300 kN pretension of line north. */
-    assert_int_equal(hf_sweep_output_parse(&model, "fairlead_tension:north", &o, &e), HF_OK);
+    assert_int_equal(hf_output_parse(&model, "fairlead_tension:north", &o, &e), HF_OK);
     assert_int_equal(hf_invert_solve(&model, "lines[north].sections[3].length", 100.0, 125.0, &o,
                                      300e3, &res, &e),
                      HF_OK);
@@ -258,14 +258,14 @@ static void test_invert_hits_target(void **s)
     double t = check_output("lines[north].sections[3].length", res.value, "tension");
     assert_true(fabs(t - 300e3) <= 1e-6 * 300e3);
     /* Anchor radius for a 150.35 kN horizontal fairlead force. */
-    assert_int_equal(hf_sweep_output_parse(&model, "fairlead_horizontal:north", &o, &e), HF_OK);
+    assert_int_equal(hf_output_parse(&model, "fairlead_horizontal:north", &o, &e), HF_OK);
     assert_int_equal(hf_invert_solve(&model, "lines[north].anchor_radius", 400.0, 425.0, &o,
                                      150.35e3, &res, &e),
                      HF_OK);
     double h = check_output("lines[north].anchor_radius", res.value, "h_north");
     assert_true(fabs(h - 150.35e3) <= 1e-6 * 150.35e3);
     /* A surge stiffness of 21.7 kN/m from the wire length of line north. */
-    assert_int_equal(hf_sweep_output_parse(&model, "stiffness_surge", &o, &e), HF_OK);
+    assert_int_equal(hf_output_parse(&model, "stiffness_surge", &o, &e), HF_OK);
     assert_int_equal(hf_invert_solve(&model, "lines[north].sections[2].length", 140.0, 160.0, &o,
                                      21.7e3, &res, &e),
                      HF_OK);
@@ -298,7 +298,7 @@ static void test_invert_clump_for_stiffness(void **s)
     assert_int_equal(hf_case_load_buffer(clump_text, strlen(clump_text), "carrow.yaml", &one, &e),
                      HF_OK);
     hf_output o;
-    assert_int_equal(hf_sweep_output_parse(&one, "stiffness_surge", &o, &e), HF_OK);
+    assert_int_equal(hf_output_parse(&one, "stiffness_surge", &o, &e), HF_OK);
     hf_invert_result res;
     assert_int_equal(hf_invert_solve(&one, "lines[bow].sections[2].clump", 10e3, 300e3, &o,
                                      13.385e3, &res, &e),
@@ -346,7 +346,7 @@ static void test_invert_published_catenary(void **s)
     hf_error e;
     assert_int_equal(hf_case_load_buffer(mit_text, strlen(mit_text), "mit.yaml", &mit, &e), HF_OK);
     hf_output o;
-    assert_int_equal(hf_sweep_output_parse(&mit, "fairlead_tension:one", &o, &e), HF_OK);
+    assert_int_equal(hf_output_parse(&mit, "fairlead_tension:one", &o, &e), HF_OK);
     hf_invert_result res;
     assert_int_equal(
         hf_invert_solve(&mit, "lines[one].anchor_radius", 370.0, 399.0, &o, 1510e3, &res, &e),
@@ -375,7 +375,7 @@ static void test_invert_not_bracketed(void **s)
     hf_output o;
     hf_error e;
     hf_invert_result res;
-    assert_int_equal(hf_sweep_output_parse(&model, "fairlead_tension:north", &o, &e), HF_OK);
+    assert_int_equal(hf_output_parse(&model, "fairlead_tension:north", &o, &e), HF_OK);
     assert_int_equal(hf_invert_solve(&model, "lines[north].sections[3].length", 111.0, 125.0, &o,
                                      5e6, &res, &e),
                      HF_ERANGE);

@@ -110,9 +110,10 @@ typedef struct {
     /* one condition's result (valid during the call) */
     hf_status (*condition)(void *ctx, const hf_load *l, const hf_balance_result *r,
                            hf_error *err);
-    /* every condition of the load is done; intact = its intact result */
-    hf_status (*load_end)(void *ctx, const hf_load *l, const hf_balance_result *intact,
-                          hf_error *err);
+    /* every condition of the load is done: the intact condition's status and
+     * offset (surge m, sway m, yaw rad from the rest pose) */
+    hf_status (*load_end)(void *ctx, const hf_load *l, hf_status intact,
+                          const double offset[3], hf_error *err);
     /* conditions done so far of the total, called after each condition */
     void (*progress)(void *ctx, size_t done, size_t total);
 } hf_analysis_balance_sink;

@@ -15,6 +15,7 @@
 #include "holdfast/model.h"
 #include "holdfast/outfile.h"
 #include "holdfast/spread.h"
+#include "holdfast/study.h"
 #include "holdfast/units.h"
 
 #define HF_EXIT_OK 0
@@ -124,6 +125,10 @@ int hf_cli_parse_case_args(int argc, char **argv, const char *cmd, const char *u
  * HF_CLI_CONTINUE, or after printing the message (hf_cli_fail) its exit
  * status, m then empty. */
 int hf_cli_case_load(const char *path, hf_model *m);
+
+/* As hf_cli_case_load, and the case's studies into sl (initialised here;
+ * hf_study_list_free it; empty after a failure). */
+int hf_cli_case_load_studies(const char *path, hf_model *m, hf_study_list *sl);
 
 /* A command on one hull pose (lines, stiffness):
  *   holdfast <cmd> CASE [--offset X,Y,HEADING] [--csv FILE|-] [extra options]
