@@ -341,18 +341,17 @@ hf_status hf_cli_parse_range(const char *text, double *from, double *to, double 
                               dims, 3, v, err);
     if (s != HF_OK)
         return s;
-    double span = v[1] - v[0];
-    if (v[2] == 0.0 || (span != 0.0 && (span > 0) != (v[2] > 0)))
+    size_t n = hf_study_range_count(v[0], v[1], v[2], max_points); /* the one range rule */
+    if (n == 0)
         return hf_error_set(err, HF_EINVAL,
                             "range \"%s\": STEP must be non-zero and point from FROM to TO", text);
-    double n = floor(span / v[2] + 1e-9) + 1.0;
-    if (!(n >= 1.0) || n > (double)max_points)
-        return hf_error_set(err, HF_ELIMIT, "range \"%s\" has %.0f points; the limit is %zu", text,
-                            n, max_points);
+    if (n > max_points)
+        return hf_error_set(err, HF_ELIMIT, "range \"%s\" has more than %zu points (the limit)",
+                            text, max_points);
     *from = v[0];
     *to = v[1];
     *step = v[2];
-    *count = (size_t)n;
+    *count = n;
     return HF_OK;
 }
 

@@ -17,6 +17,7 @@
 #include "holdfast/results.h"
 #include "holdfast/svg.h"
 #include "holdfast/spread.h"
+#include "holdfast/outputs.h"
 #include "holdfast/study.h"
 #include "holdfast/sweep.h"
 
@@ -48,6 +49,7 @@ typedef struct {
     hf_status status;              /* HF_OK or why the study failed */
     int criterion_failed;          /* balance: some condition failed a criterion */
     char note[HF_ERROR_TEXT + 64]; /* one line for the summary */
+    hf_sweep_table *table;         /* sweep: the rows kept for the report, then NULL */
 } outcome;
 
 /* ---- report pieces ---- */
@@ -114,71 +116,151 @@ static void fmt(char *buf, double v)
     hf_report_number(buf, 32, v, 4);
 }
 
-/* Splits one CSV line in place into at most `max` fields (RFC 4180 quotes
- * removed); returns the number of fields. */
-static size_t split_csv(char *line, char **fields, size_t max)
-{
-    size_t n = 0;
-    char *p = line;
-    line[strcspn(line, "\n")] = '\0';
-    while (n < max) {
-        char *w = p;
-        fields[n++] = w;
-        if (*p == '"') {
-            p++;
-            for (;;) {
-                if (*p == '"' && p[1] == '"') {
-                    *w++ = '"';
-                    p += 2;
-                } else if (*p == '"' || *p == '\0') {
-                    if (*p)
-                        p++;
-                    break;
-                } else {
-                    *w++ = *p++;
-                }
-            }
-            char *next = strchr(p, ',');
-            *w = '\0';
-            if (!next)
-                break;
-            p = next + 1;
-        } else {
-            char *next = strchr(p, ',');
-            if (!next)
-                break;
-            *next = '\0';
-            p = next + 1;
-        }
-    }
-    return n;
-}
-
-/* "T_north_kN" -> "T_north (kN)" for an axis. */
-static void axis_label(const char *name, char *buf, size_t cap)
-{
-    static const char *const suffix[][2] = {{"_kN_per_m", "kN/m"}, {"_kNm_per_rad", "kN m/rad"},
-                                            {"_kN", "kN"},         {"_deg", "deg"},
-                                            {"_m", "m"},           {"_N", "N"},
-                                            {"_N_per_m", "N/m"},   {"_kg_per_m", "kg/m"}};
-    size_t n = strlen(name);
-    for (size_t i = 0; i < sizeof suffix / sizeof suffix[0]; i++) {
-        size_t k = strlen(suffix[i][0]);
-        if (n > k && !strcmp(name + n - k, suffix[i][0])) {
-            snprintf(buf, cap, "%.*s (%s)", (int)(n - k), name, suffix[i][1]);
-            return;
-        }
-    }
-    snprintf(buf, cap, "%s", name);
-}
-
 #define REPORT_SWEEP_MAX_CASES 20000
 #define REPORT_SWEEP_MAX_CURVES 10
-#define REPORT_LINE_MAX 65536
 
-/* The sweep's figure: its first output against one varied parameter, one
- * curve per value of a second one, read back from the CSV just written. */
-static void report_sweep(hf_report *rep, const hf_model *m, const hf_study *s, const char *path)
+/* "<stem> (<unit for people>)" for a column named <stem>_<unit>, else the
+ * name: "T_north_kN" -> "T_north (kN)", "site.depth_m" -> "site.depth (m)". */
+static void axis_label(const char *name, const char *unit, const char *people, char *buf,
+                       size_t cap)
+{
+    size_t n = strlen(name), k = strlen(unit);
+    if (k && n > k + 1 && name[n - k - 1] == '_' && !strcmp(name + n - k, unit))
+        snprintf(buf, cap, "%.*s (%s)", (int)(n - k - 1), name, people);
+    else
+        snprintf(buf, cap, "%s", name);
+}
+
+/* Axis label of output column 0 of t, from the output catalogue. */
+static void output_label(const hf_sweep_table *t, char *buf, size_t cap)
+{
+    const hf_output_column *c = &t->cols[0];
+    const hf_output_info *info = hf_output_info_of(c->kind);
+    if (c->kind == HF_OUT_OFFSET && c->sub == 2)
+        axis_label(t->col_names[0], "deg", "deg", buf, cap);
+    else
+        axis_label(t->col_names[0], info ? info->unit : "", info ? info->unit_text : "", buf,
+                   cap);
+}
+
+/* Axis label of varied parameter j of t: the column's unit after the path
+ * ("site.depth_m", "..._N_per_m"), read for people ("N/m"). */
+static void vary_label(const hf_sweep_table *t, const hf_study *s, size_t j, char *buf,
+                       size_t cap)
+{
+    const char *name = t->vary_names[j];
+    size_t np = strlen(s->vary[j].path);
+    if (strncmp(name, s->vary[j].path, np) != 0 || name[np] != '_') {
+        snprintf(buf, cap, "%s", name);
+        return;
+    }
+    char people[64];
+    const char *u = name + np + 1;
+    size_t o = 0;
+    for (size_t i = 0; u[i] && o + 4 < sizeof people; i++) {
+        if (!strncmp(u + i, "_per_", 5)) {
+            people[o++] = '/';
+            i += 4;
+        } else if (!strncmp(u + i, "kNm", 3) && u[i + 3] != '_' && u[i + 3]) {
+            people[o++] = u[i];
+        } else {
+            people[o++] = u[i] == '_' ? ' ' : u[i];
+        }
+    }
+    people[o] = '\0';
+    axis_label(name, u, people, buf, cap);
+}
+
+/* Shape of the sweep figure: x parameter ix, curve parameter ic, ncurves
+ * curves of n points.  0 when no figure is drawn (too many cases or curves). */
+static int sweep_shape(const hf_study *s, const hf_study_grid *g, size_t *ix, size_t *ic,
+                       size_t *ncurves, size_t *n)
+{
+    *ix = *ic = 0;
+    *ncurves = 1;
+    *n = (size_t)g->ncases;
+    if (!s->zip && s->nvary == 2) {
+        *ix = g->count[1] >= g->count[0] ? 1 : 0;
+        *ic = 1 - *ix;
+        *ncurves = g->count[*ic];
+        *n = g->count[*ix];
+    }
+    return g->ncases <= REPORT_SWEEP_MAX_CASES && (s->zip || s->nvary <= 2) &&
+           *ncurves <= REPORT_SWEEP_MAX_CURVES;
+}
+
+/* Legend entries of the curves: the values of parameter ic, for people
+ * (degrees for angles, kN for forces), into names (96 bytes each). */
+static void sweep_legend(const hf_study *s, size_t ic, size_t ncurves, char *names,
+                         const char **cn)
+{
+    hf_dim d = s->vary[ic].dim;
+    double scale = d == HF_DIM_ANGLE ? 180.0 / M_PI : d == HF_DIM_FORCE ? 1e-3 : 1.0;
+    const char *u = d == HF_DIM_ANGLE ? "deg" : d == HF_DIM_FORCE ? "kN" : hf_dim_si(d);
+    for (size_t c = 0; c < ncurves; c++) {
+        char v[32];
+        fmt(v, hf_study_vary_value(&s->vary[ic], c) * scale);
+        snprintf(names + 96 * c, 96, "%s %s", v, u);
+        cn[c] = names + 96 * c;
+    }
+}
+
+/* Draws the figure of sweep s from the rows of t (the sweep's in-memory
+ * table, never its CSV read back). */
+static void sweep_figure(hf_report *rep, const hf_model *m, const hf_study *s,
+                         const hf_study_grid *g, const hf_sweep_table *t, size_t ix, size_t ic,
+                         size_t ncurves, size_t n)
+{
+    double *x = hf_malloc(n * sizeof *x), *y = hf_malloc(ncurves * n * sizeof *y);
+    char *names = hf_malloc(ncurves * 96);
+    const char **cn = hf_calloc(ncurves, sizeof *cn);
+    if (x && y && names && cn && t->ncols > 0) {
+        for (size_t i = 0; i < ncurves * n; i++)
+            y[i] = NAN;
+        size_t idx[HF_STUDY_MAX_VARY];
+        for (uint64_t k = 0; k < t->nrows && k < g->ncases; k++) {
+            hf_study_grid_index(g, k, idx);
+            size_t i = ncurves > 1 ? idx[ix] : (size_t)k, c = ncurves > 1 ? idx[ic] : 0;
+            x[i] = t->vary[k * t->nvary + ix];
+            y[c * n + i] = t->out[k * t->ncols];
+        }
+        char xl[256], yl[256], buf[1024];
+        vary_label(t, s, ix, xl, sizeof xl);
+        output_label(t, yl, sizeof yl);
+        sweep_legend(s, ic, ncurves, names, cn);
+        hf_output_kind k0 = t->cols[0].kind;
+        int util = k0 == HF_OUT_UTILISATION || k0 == HF_OUT_MAX_UTILISATION;
+        /* Legend title: the last part of the curve parameter's path ("length");
+         * the caption names the whole path. */
+        const char *lt = strrchr(s->vary[ic].path, '.');
+        lt = lt ? lt + 1 : s->vary[ic].path;
+        double fi = m->criteria.factor_intact;
+        hf_svg_sweep sw = {s->name, xl, yl, n, ncurves, x, y, ncurves > 1 ? cn : NULL,
+                           ncurves > 1 ? lt : NULL, util && fi > 0, fi > 0 ? 1.0 / fi : 0.0,
+                           "intact limit 1/factor"};
+        hf_error e;
+        hf_error_clear(&e);
+        FILE *fig = hf_report_figure_begin(rep);
+        hf_status st = hf_svg_figure_sweep(fig, &sw, 0, &e);
+        if (ncurves > 1)
+            snprintf(buf, sizeof buf, "%s against %s, one curve per value of %s.", yl, xl,
+                     s->vary[ic].path);
+        else
+            snprintf(buf, sizeof buf, "%s against %s.", yl, xl);
+        hf_report_figure_end(rep, buf);
+        if (st != HF_OK)
+            report_fail_note(rep, "The sweep figure", &e);
+    }
+    hf_free(x);
+    hf_free(y);
+    hf_free(names);
+    hf_free(cn);
+}
+
+/* The sweep's section: its size and a figure of its first output against
+ * one varied parameter, one curve per value of a second one. */
+static void report_sweep(hf_report *rep, const hf_model *m, const hf_study *s,
+                         const hf_sweep_table *t)
 {
     char head[HF_MODEL_MAX_NAME + 64], buf[1024];
     snprintf(head, sizeof head, "Sweep: %s", s->name);
@@ -191,97 +273,14 @@ static void report_sweep(hf_report *rep, const hf_model *m, const hf_study *s, c
              (unsigned long long)g.ncases, s->zip ? "zipped lists" : "full grid", s->nvary,
              s->name);
     hf_report_paragraph(rep, buf);
-    size_t ix = 0, ic = 0, ncurves = 1, n = (size_t)g.ncases;
-    if (!s->zip && s->nvary == 2) {
-        ix = g.count[1] >= g.count[0] ? 1 : 0;
-        ic = 1 - ix;
-        ncurves = g.count[ic];
-        n = g.count[ix];
-    }
-    if (g.ncases > REPORT_SWEEP_MAX_CASES || (!s->zip && s->nvary > 2) ||
-        ncurves > REPORT_SWEEP_MAX_CURVES) {
+    size_t ix, ic, ncurves, n;
+    if (!sweep_shape(s, &g, &ix, &ic, &ncurves, &n) || !t) {
         hf_report_paragraph(rep, "No figure: figures are drawn for sweeps of up to 20,000 cases "
                                  "over one parameter, zipped lists, or two parameters with at "
                                  "most 10 values of one of them.");
         return;
     }
-    double *x = hf_malloc(n * sizeof *x), *y = hf_malloc(ncurves * n * sizeof *y);
-    char *line = hf_malloc(REPORT_LINE_MAX), *names = hf_malloc(ncurves * 96);
-    const char **cn = hf_calloc(ncurves, sizeof *cn);
-    char **fields = hf_calloc(s->nvary + 2, sizeof *fields);
-    FILE *f = fopen(path, "r");
-    if (!x || !y || !line || !names || !cn || !fields || !f)
-        goto done;
-    for (size_t i = 0; i < ncurves * n; i++)
-        y[i] = NAN;
-    char xl[256], yl[256], ylabel_raw[256];
-    if (!fgets(line, REPORT_LINE_MAX, f) || split_csv(line, fields, s->nvary + 2) < s->nvary + 2)
-        goto done;
-    axis_label(fields[ix], xl, sizeof xl);
-    snprintf(ylabel_raw, sizeof ylabel_raw, "%s", fields[s->nvary + 1]);
-    axis_label(ylabel_raw, yl, sizeof yl);
-    size_t idx[HF_STUDY_MAX_VARY];
-    for (uint64_t k = 0; k < g.ncases && fgets(line, REPORT_LINE_MAX, f); k++) {
-        if (split_csv(line, fields, s->nvary + 2) < s->nvary + 2)
-            continue;
-        double xv = strtod(fields[ix], NULL);
-        char *end;
-        double yv = strtod(fields[s->nvary + 1], &end);
-        if (end == fields[s->nvary + 1])
-            yv = NAN;
-        hf_study_grid_index(&g, k, idx);
-        size_t i = ncurves > 1 ? idx[ix] : (size_t)k, c = ncurves > 1 ? idx[ic] : 0;
-        x[i] = xv;
-        y[c * n + i] = yv;
-    }
-    for (size_t c = 0; c < ncurves; c++) {
-        /* Legend values for people: degrees for angles, kN for forces. */
-        char v[32];
-        hf_dim d = s->vary[ic].dim;
-        double scale = d == HF_DIM_ANGLE ? 180.0 / M_PI : d == HF_DIM_FORCE ? 1e-3 : 1.0;
-        const char *u = d == HF_DIM_ANGLE ? "deg" : d == HF_DIM_FORCE ? "kN" : hf_dim_si(d);
-        fmt(v, hf_study_vary_value(&s->vary[ic], c) * scale);
-        snprintf(names + 96 * c, 96, "%s %s", v, u);
-        cn[c] = names + 96 * c;
-    }
-    int util = !strncmp(ylabel_raw, "U_", 2) || !strcmp(ylabel_raw, "max_utilisation");
-    /* Legend title: the last part of the curve parameter's path ("length");
-     * the caption names the whole path. */
-    const char *lt = strrchr(s->vary[ic].path, '.');
-    lt = lt ? lt + 1 : s->vary[ic].path;
-    double fi = m->criteria.factor_intact;
-    hf_svg_sweep sw = {s->name,
-                       xl,
-                       yl,
-                       n,
-                       ncurves,
-                       x,
-                       y,
-                       ncurves > 1 ? cn : NULL,
-                       ncurves > 1 ? lt : NULL,
-                       util && fi > 0,
-                       fi > 0 ? 1.0 / fi : 0.0,
-                       "intact limit 1/factor"};
-    hf_error_clear(&e);
-    FILE *fig = hf_report_figure_begin(rep);
-    hf_status st = hf_svg_figure_sweep(fig, &sw, 0, &e);
-    if (ncurves > 1)
-        snprintf(buf, sizeof buf, "%s against %s, one curve per value of %s.", yl, xl,
-                 s->vary[ic].path);
-    else
-        snprintf(buf, sizeof buf, "%s against %s.", yl, xl);
-    hf_report_figure_end(rep, buf);
-    if (st != HF_OK)
-        report_fail_note(rep, "The sweep figure", &e);
-done:
-    if (f)
-        fclose(f);
-    hf_free(x);
-    hf_free(y);
-    hf_free(line);
-    hf_free(names);
-    hf_free(cn);
-    hf_free(fields);
+    sweep_figure(rep, m, s, &g, t, ix, ic, ncurves, n);
 }
 
 /* ---- per-kind studies through the library API; the CSV layouts are those of
@@ -552,9 +551,13 @@ static hf_status run_sweep(const hf_model *m, const hf_study *s, int jobs, FILE 
     hf_sweep_range r;
     memset(&r, 0, sizeof r);
     r.end = hf_sweep_ncases(sw);
-    hf_status st = hf_sweep_write_header(sw, out, err);
+    /* The rows the report's figure can use stay in memory (at most
+     * REPORT_SWEEP_MAX_CASES; the CSV receives every row). */
+    uint64_t cap = r.end < REPORT_SWEEP_MAX_CASES ? r.end : REPORT_SWEEP_MAX_CASES;
+    oc->table = hf_sweep_table_alloc(sw, cap ? cap : 1, err);
+    hf_status st = oc->table ? hf_sweep_write_header(sw, out, err) : err->status;
     if (st == HF_OK)
-        st = hf_sweep_write_rows(sw, &r, out, err);
+        st = hf_sweep_run(sw, &r, out, oc->table, err);
     if (st == HF_OK)
         snprintf(oc->note, sizeof oc->note, "%llu cases, %llu did not solve",
                  (unsigned long long)r.end, (unsigned long long)hf_sweep_failed_count(sw));
@@ -699,7 +702,9 @@ static void run_study(const hf_model *m, const hf_study *s, const char *dir, con
         else
             hf_outfile_abort(of);
         if (st == HF_OK && s->kind == HF_STUDY_SWEEP)
-            report_sweep(rep, m, s, path);
+            report_sweep(rep, m, s, oc->table);
+        hf_sweep_table_free(oc->table);
+        oc->table = NULL;
     }
     oc->status = st;
     if (st != HF_OK) {

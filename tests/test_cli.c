@@ -117,6 +117,11 @@ static void test_units_hex_suggest(void **state)
     assert_int_equal(hf_cli_parse_range("0 m:5m:1m", &a, &b, &s, 100, &n, &e), HF_OK);
     assert_int_equal(n, 6);
     assert_int_equal(hf_cli_parse_range("0:0x10:1", &a, &b, &s, 100, &n, &e), HF_EINVAL);
+    /* issue 12 item 5: the end point of a tiny step relative to the values
+     * (10 values before the one range rule; 366 + 10 x 0.00001 = 366.0001) */
+    assert_int_equal(hf_cli_parse_range("366:366.0001:0.00001", &a, &b, &s, 100, &n, &e), HF_OK);
+    assert_int_equal(n, 11);
+    assert_int_equal(hf_cli_parse_range("0:10:1", &a, &b, &s, 10, &n, &e), HF_ELIMIT);
     assert_int_equal(hf_cli_parse_value("--direction", "0x10", HF_DIM_ANGLE, &a, &e), HF_EINVAL);
     assert_non_null(strstr(e.text, "--direction"));
     assert_int_equal(hf_cli_parse_value("--direction", "0.5 rad", HF_DIM_ANGLE, &a, &e), HF_OK);

@@ -206,8 +206,9 @@ hf_status hf_cli_parse_value(const char *option, const char *text, hf_dim dim, d
 hf_status hf_cli_parse_offset(const char *text, double offset[3], hf_error *err);
 
 /* Parses "FROM:TO:STEP" (lengths; plain numbers in m, units allowed) with
- * step != 0 of the right sign and at most `max_points` points (TO is
- * included when it lies on the grid up to 1e-9 of a step).  Sets *count.
+ * step != 0 of the right sign and at most `max_points` points, counted by
+ * the one range rule of holdfast (hf_study_range_count: TO is included when
+ * it lies on the grid up to rounding).  Sets *count.
  * HF_EINVAL (malformed) or HF_ELIMIT (too many points) with a message. */
 hf_status hf_cli_parse_range(const char *text, double *from, double *to, double *step,
                              size_t max_points, size_t *count, hf_error *err);
