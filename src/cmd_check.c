@@ -23,8 +23,6 @@ static const char help[] =
     "exit status: 0 the case is valid, 2 bad input or usage (the message names\n"
     "FILE:LINE:COLUMN, the key path and what was expected)\n";
 
-static const char *const study_kinds[] = {"lines", "curve", "stiffness", "balance", "sweep",
-                                          "invert"};
 static const char *const anchor_kinds[] = {"drag", "gravity", "pile", "plate"};
 
 /* A property value in the unit people read it in. */
@@ -177,7 +175,7 @@ static void print_rest(const hf_model *m, const hf_study_list *sl)
         return;
     for (size_t i = 0; i < sl->n; i++) {
         const hf_study *s = &sl->v[i];
-        printf("  %-20s %-9s", s->name, study_kinds[s->kind]);
+        printf("  %-20s %-9s", s->name, hf_study_kind_name(s->kind));
         if (s->kind == HF_STUDY_SWEEP || s->kind == HF_STUDY_INVERT)
             for (size_t k = 0; k < s->nvary; k++)
                 printf("%s%s", k ? ", " : " varies ", s->vary[k].path);

@@ -41,9 +41,6 @@ static const char usage_text[] =
     "study, 2 bad input or an output that could not be written, 3 numerical\n"
     "failure (other studies still run), 4 out of memory.\n";
 
-static const char *const kind_name[] = {"lines",   "curve", "stiffness",
-                                        "balance", "sweep", "invert"};
-
 /* Outcome of one study, for the summary and the exit status. */
 typedef struct {
     hf_status status;              /* HF_OK or why the study failed */
@@ -618,7 +615,7 @@ static hf_status run_invert(const hf_model *m, const hf_study *s, int jobs, FILE
     return hf_invert_write_csv(out, m, s->vary[0].path, &o, s->target_value, &res, err);
 }
 
-/* The study of each kind, indexed by hf_study_kind (the order of kind_name).
+/* The study of each kind, indexed by hf_study_kind (the order of hf_study_kind_name).
  * Every one writes its CSV to out and its report section to rep (a sweep's
  * figure comes after its file is committed: report_sweep); jobs is used by
  * sweeps only. */
@@ -711,11 +708,11 @@ static void run_study(const hf_model *m, const hf_study *s, const char *dir, con
         snprintf(oc->note, sizeof oc->note, "FAILED (%s): %s", hf_status_str(st), e.text);
         fprintf(stderr, "holdfast run: study %s: %s\n", s->name, e.text);
         char head[HF_MODEL_MAX_NAME + 64];
-        snprintf(head, sizeof head, "Study %s (%s): failed", s->name, kind_name[s->kind]);
+        snprintf(head, sizeof head, "Study %s (%s): failed", s->name, hf_study_kind_name(s->kind));
         hf_report_section(rep, head, NULL);
         hf_report_note(rep, "warning", oc->note);
     } else if (!a->quiet) {
-        printf("%-24s %-9s %s\n", s->name, kind_name[s->kind], oc->note);
+        printf("%-24s %-9s %s\n", s->name, hf_study_kind_name(s->kind), oc->note);
     }
 }
 
@@ -733,7 +730,7 @@ static hf_status write_summary(const hf_model *m, const hf_study_list *sl, const
         fprintf(out, "case: %s\n", m->title);
     fprintf(out, "\n");
     for (size_t k = 0; k < sl->n; k++)
-        fprintf(out, "%-24s %-9s %-8s %s\n", sl->v[k].name, kind_name[sl->v[k].kind],
+        fprintf(out, "%-24s %-9s %-8s %s\n", sl->v[k].name, hf_study_kind_name(sl->v[k].kind),
                 oc[k].status != HF_OK    ? "failed"
                 : oc[k].criterion_failed ? "criterion"
                                          : "ok",
