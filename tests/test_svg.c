@@ -1374,6 +1374,54 @@ static void test_curve_overloads(void **state)
     fclose(f);
 }
 
+/* Issue 13: a reference line's label sits on no curve: where the curves
+ * pass the right end of the limit line the label moves along it; where they
+ * leave no room at all it is written under the panel. */
+static void test_curve_reference_labels_clear(void **state)
+{
+    (void)state;
+    enum { N = 41, L = 2 };
+    double off[N], force[N], ten[N * L], util[N * L];
+    const char *names[L] = {"a", "b"};
+    for (int i = 0; i < N; i++) {
+        off[i] = -10 + 0.5 * i;
+        force[i] = -2.385e4 * off[i];
+        /* both lines cross the 50 % limit near the right end only */
+        ten[i * L] = 1.2e6 + 1.1e5 * off[i];
+        ten[i * L + 1] = 1.25e6 + 1.0e5 * off[i];
+        util[i * L] = ten[i * L] / 3.6e6;
+        util[i * L + 1] = ten[i * L + 1] / 3.6e6;
+    }
+    hf_svg_curve c = {"Labels", N, off, force, NULL, L, names, ten, util, 0.5, NULL, NULL};
+    FILE *f = tmpfile();
+    assert_int_equal(hf_svg_figure_curve(f, &c, 1, NULL), HF_OK);
+    char *svg = hf_test_stream_read(f, 1);
+    hf_test_assert_xml(svg);
+    const char *t = find_text(svg, "limit 50 % (factor 2)");
+    assert_non_null(t);
+    box b = text_box(t);
+    assert_false(polylines_in_box(svg, "stroke-width=\"2\"", b));
+    /* it stays on its line: within 20 px of the limit's row */
+    const char *lim = find_line(svg, "#404040", 0);
+    assert_non_null(lim);
+    assert_true(fabs(attr_num(t, "y") - attr_num(lim, "y1")) <= 20);
+    free(svg);
+    fclose(f);
+    /* curves everywhere around the limit: the label goes under the panel */
+    for (int i = 0; i < N; i++) {
+        util[i * L] = 0.5 + 0.4 * ((i % 2) ? 1 : -1);
+        util[i * L + 1] = 0.5 - 0.4 * ((i % 2) ? 1 : -1);
+    }
+    f = tmpfile();
+    assert_int_equal(hf_svg_figure_curve(f, &c, 1, NULL), HF_OK);
+    svg = hf_test_stream_read(f, 1);
+    t = find_text(svg, "dash-dot line: limit 50 % (factor 2)");
+    assert_non_null(t);
+    assert_false(polylines_in_box(svg, "stroke-width=\"2\"", text_box(t)));
+    free(svg);
+    fclose(f);
+}
+
 /* Degenerate but valid inputs still give well-formed figures: a line
  * hanging straight down (one x value) with uniform tension, a flat curve, a
  * single-line plan with anchor and fairlead at the same x. */
@@ -1449,6 +1497,7 @@ int main(void)
         cmocka_unit_test(test_direction_label),
         cmocka_unit_test(test_plan_key_and_scale_bar),
         cmocka_unit_test(test_curve_overloads),
+        cmocka_unit_test(test_curve_reference_labels_clear),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
 }
