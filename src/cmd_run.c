@@ -803,7 +803,11 @@ int hf_cmd_run(int argc, char **argv)
         if (oc[k].criterion_failed)
             crit = 1;
     }
-    if (hf_report_end(&rep, &err) != HF_OK || hf_outfile_commit(rf, &err) != HF_OK)
+    if (hf_report_end(&rep, &err) != HF_OK) {
+        hf_outfile_abort(rf); /* a failed report leaves neither file nor leak */
+        goto fail;
+    }
+    if (hf_outfile_commit(rf, &err) != HF_OK)
         goto fail;
     /* The summary goes last, so it describes what is in the folder. */
     hf_outfile *of = open_in(dir, "summary.txt", path, sizeof path, &err);
