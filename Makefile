@@ -139,7 +139,7 @@ help:
 	@echo 'make debug        -O0 -g3 build and tests in build-debug/'
 	@echo 'make install      install into $$(DESTDIR)$$(PREFIX) (now $(DESTDIR)$(PREFIX))'
 	@echo 'make uninstall    remove what install put there'
-	@echo 'make lint         list functions of src/*.c over 100 lines (fails if any)'
+	@echo 'make lint         functions of src/*.c over 100 lines, library files using cli.h'
 	@echo 'make format       reformat sources with .clang-format'
 	@echo 'make format-check list files that differ from .clang-format (fails if any)'
 	@echo 'make bench | sanitize | valgrind | fuzz   see mk/*.mk and docs/hardening.md'

@@ -1,6 +1,7 @@
 # mk/format.mk - source checks that build nothing (no packages needed):
 #
-#   make lint           functions of src/*.c over 100 lines (scripts/function-lengths.sh)
+#   make lint           functions of src/*.c over 100 lines (scripts/function-lengths.sh),
+#                       and library sources that include the command layer's header
 #   make format         rewrite every C source and header with .clang-format
 #   make format-check   list the files clang-format would change, fail if any
 #
@@ -13,8 +14,14 @@ FORMAT_FILES  = $(sort $(wildcard src/*.c src/*.h include/holdfast/*.h tests/*.c
 
 .PHONY: lint format format-check
 
+# The library (LIB_SRC, see the Makefile) must not use the program: no
+# library source includes holdfast/cli.h.  Both checks run; either fails it.
 lint:
-	@sh scripts/function-lengths.sh
+	@rc=0; sh scripts/function-lengths.sh || rc=1; \
+	up=$$(grep -l '^#include "holdfast/cli.h"' $(LIB_SRC)); \
+	for f in $$up; do echo "layers: $$f (library) includes holdfast/cli.h (program)"; done; \
+	echo "layers: $$(echo $$up | wc -w) library sources include the command layer's header"; \
+	[ -z "$$up" ] || rc=1; exit $$rc
 
 format:
 	@command -v $(CLANG_FORMAT) >/dev/null || { echo "format: $(CLANG_FORMAT) not found (apt-get install clang-format)"; exit 2; }

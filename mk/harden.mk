@@ -33,10 +33,13 @@ HARDEN_ASAN_ENV = ASAN_OPTIONS=detect_leaks=1:abort_on_error=0:allocator_may_ret
 .PHONY: sanitize valgrind fuzz fuzz-build fuzz-regress
 
 # gcc's ASan and libgomp get on: OpenMP stays on, so the thread-count tests
-# run instrumented too.
+# run instrumented too.  Warnings are shown but not fatal here: at -O1 with
+# instrumentation gcc's flow-dependent warnings (-Wformat-truncation, ...)
+# differ from the normal -O2 build, which is the one that polices them
+# (-Werror); this target is about what the sanitizers find at run time.
 sanitize:
 	$(HARDEN_ASAN_ENV) $(MAKE) --no-print-directory BUILD=$(ASAN_BUILD) \
-	    SANITIZE=address,undefined OPT='-O1 -g' check
+	    SANITIZE=address,undefined OPT='-O1 -g' WERROR= check
 
 valgrind:
 	$(MAKE) --no-print-directory BUILD=$(VG_BUILD) OPT='-O1 -g' $(VG_BUILD)/holdfast

@@ -4,6 +4,7 @@
 #include <stdio.h>
 #include <string.h>
 #include "holdfast/cli.h"
+#include "holdfast/outfile.h"
 
 static const struct {
     const char *name;
@@ -56,6 +57,10 @@ static int stdout_closed(int rc)
 int main(int argc, char **argv)
 {
     hf_gsl_handler_install();
+    /* SIGXFSZ ignored from the start: at a file size limit (ulimit -f)
+     * writes to standard output fail and are reported (exit 2) instead of
+     * the signal killing the process (issue 12 item 11). */
+    hf_outfile_signals_install();
     if (argc < 2) {
         usage(stderr);
         return HF_EXIT_USAGE;

@@ -670,7 +670,8 @@ static hf_model_line *ring(hf_model *m, size_t n, char (*names)[16])
     m->lines = lines;
     for (size_t i = 0; i < n; i++) {
         double a = 2.0 * M_PI * ((double)i + 0.37) / (double)n;
-        snprintf(names[i], 16, "R%zu", i + 1);
+        int len = snprintf(names[i], 16, "R%zu", i + 1);
+        assert_true(len > 0 && len < 16); /* the name fits */
         lines[i].name = names[i];
         lines[i].fairlead[0] = 31.4 * cos(a);
         lines[i].fairlead[1] = 31.4 * sin(a);

@@ -709,8 +709,10 @@ static void killed_run_leaves_whole_files(void **state)
 /* Runs argv (argv[0] a path) in a fresh process under RLIMIT_FSIZE = limit
  * bytes with SIGXFSZ at its default action (as a shell leaves it), standard
  * output to /dev/null and standard error into errbuf.  Returns the exit
- * status, or 128 + the signal that ended it. */
-static int run_size_limited(const char *const argv[], rlim_t limit, char *errbuf, size_t cap)
+ * status, or 128 + the signal that ended it.  With stdout_path, standard
+ * output goes to that file (created or truncated) instead. */
+static int run_size_limited(const char *const argv[], rlim_t limit, const char *stdout_path,
+                            char *errbuf, size_t cap)
 {
     int p[2];
     assert_int_equal(pipe(p), 0);
@@ -720,7 +722,8 @@ static int run_size_limited(const char *const argv[], rlim_t limit, char *errbuf
         close(p[0]);
         signal(SIGXFSZ, SIG_DFL); /* exec keeps an ignored signal ignored */
         struct rlimit rl = {limit, limit};
-        int nul = open("/dev/null", O_WRONLY);
+        int nul = stdout_path ? open(stdout_path, O_WRONLY | O_CREAT | O_TRUNC, 0644)
+                              : open("/dev/null", O_WRONLY);
         if (setrlimit(RLIMIT_FSIZE, &rl) != 0 || nul < 0)
             _exit(120);
         dup2(nul, 1);
@@ -789,7 +792,7 @@ static void file_size_limit_cli(void **state)
     /* A 20,001-row sweep CSV (about 2 MB) under a 64 KiB limit. */
     const char *sweep[] = {bin,   "sweep", casefile, "--vary", "site.water_level=-1:1:0.0001",
                            "--csv", csv,   "--quiet", NULL};
-    int rc = run_size_limited(sweep, 65536, err, sizeof err);
+    int rc = run_size_limited(sweep, 65536, NULL, err, sizeof err);
     if (rc != 2)
         fail_msg("sweep under ulimit -f: exit %d, expected 2; stderr: %s", rc, err);
     assert_non_null(strstr(err, "holdfast"));
@@ -800,23 +803,37 @@ static void file_size_limit_cli(void **state)
 
     /* Line profiles (one CSV per line) under a 4 KiB limit. */
     const char *lines[] = {bin, "lines", casefile, "--profiles", prof, NULL};
-    rc = run_size_limited(lines, 4096, err, sizeof err);
+    rc = run_size_limited(lines, 4096, NULL, err, sizeof err);
     if (rc != 2)
         fail_msg("lines --profiles under ulimit -f: exit %d, expected 2; stderr: %s", rc, err);
     assert_non_null(strstr(err, "file size limit"));
 
     /* A whole run folder under a 64 KiB limit (the report is larger). */
     const char *runargv[] = {bin, "run", casefile, "--out", run, "--quiet", NULL};
-    rc = run_size_limited(runargv, 65536, err, sizeof err);
+    rc = run_size_limited(runargv, 65536, NULL, err, sizeof err);
     if (rc != 2)
         fail_msg("run under ulimit -f: exit %d, expected 2; stderr: %s", rc, err);
     assert_true(err[0] != '\0');
 
+    /* Standard output redirected to a file under a 1 KiB limit: the text
+     * of `check` and `lines` is longer (main ignores SIGXFSZ at start). */
+    char text[1100];
+    snprintf(text, sizeof text, "%s/stdout.txt", tmp);
+    const char *check[] = {bin, "check", casefile, NULL};
+    rc = run_size_limited(check, 1024, text, err, sizeof err);
+    if (rc != 2)
+        fail_msg("check > file under ulimit -f: exit %d, expected 2; stderr: %s", rc, err);
+    assert_non_null(strstr(err, "standard output"));
+    const char *table[] = {bin, "lines", casefile, NULL};
+    rc = run_size_limited(table, 1024, text, err, sizeof err);
+    if (rc != 2)
+        fail_msg("lines > file under ulimit -f: exit %d, expected 2; stderr: %s", rc, err);
+
     int left = count_tmp(tmp);
     if (left)
         fail_msg("%d temporary files left under %s", left, tmp);
-    printf("limits: sweep, lines --profiles and run under a file size limit: exit 2, "
-           "no temporary file left\n");
+    printf("limits: sweep, lines --profiles, run, check and lines to standard output under a "
+           "file size limit: exit 2, no temporary file left\n");
     hf_test_tmpdir_remove(tmp);
 }
 
