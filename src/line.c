@@ -227,6 +227,8 @@ typedef struct {
     double x_susp;         /* horizontal extent of the suspended part, m */
     int buoy_down;         /* a buoy lies on the seabed below touchdown */
     double sag_min;        /* lowest sag point above the seabed, m (+inf if none) */
+    double z_max;          /* highest point above the seabed, m: a section top (the
+                            * fairlead or a buoy, where V drops going up) */
     double vb[NMAX], vt[NMAX];   /* V at the lower / upper end of each suspended piece */
     double gl[NMAX];             /* grounded length of each section */
     double tg_lo[NMAX], tg_hi[NMAX]; /* tension at the lower / upper end of grounded pieces */
@@ -292,6 +294,8 @@ static void walk_suspended(const hf_line *line, double H, const double *vt, cons
             }
         }
         w->vt[k] = vt[k];
+        if (*z > w->z_max) /* V grows going up inside a section: maxima sit at its top */
+            w->z_max = *z;
     }
 }
 
@@ -362,6 +366,7 @@ static hf_status walk(const hf_line *line, double H, double VF, walk_t *w)
     w->td_sec = 0;
     w->anchor_t = 0.0;
     w->sag_min = INFINITY;
+    w->z_max = 0.0;
     for (size_t k = 0; k < n; k++)
         w->vb[k] = w->vt[k] = w->gl[k] = w->tg_lo[k] = w->tg_hi[k] = 0.0;
     size_t k0 = find_touchdown(line, vt, vb, w);
@@ -1228,6 +1233,7 @@ static hf_status state_from_walk(const hf_line *line, const newton_t *s, int sla
     sections_from_walk(line, w, s->H, st);
     stiffness_from_flex(w->J, st);
     st->residual = fmax(fabs(w->x - s->X), fabs(w->z - s->Z)) / s->scale;
+    st->z_max = w->z_max;
     double fe = force_error(s, w);
     st->force_error = isfinite(fe) ? fe : 1.0;
     return HF_OK;
@@ -1290,6 +1296,8 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
     if (rc != HF_OK)
         return rc;
     finish_sections(line, st);
+    if (st->z_max < st->z)
+        st->z_max = st->z; /* the fairlead is a point of the line */
     st->status = HF_OK;
     if (!st->message)
         st->message = "";

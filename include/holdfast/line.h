@@ -77,6 +77,8 @@ typedef struct {
     double anchor_angle;   /* uplift angle of the line at the anchor above horizontal, rad */
     double touchdown_x;    /* horizontal distance anchor -> touchdown, m (0 when suspended) */
     double grounded;       /* unstretched length resting on the seabed, m */
+    double z_max;          /* highest point of the line above the anchor (seabed), m: the
+                            * fairlead height z, or more where buoys lift the line above it */
     double stiffness[2][2];/* d(h,v)/d(x,z), N/m: [0][0]=dH/dX [0][1]=dH/dZ [1][0]=dV/dX [1][1]=dV/dZ */
     double residual;       /* forward-map residual at exit, relative to the line's length scale */
     double force_error;    /* estimated relative error of the forces at exit: the remaining
