@@ -593,7 +593,8 @@ static const char msg_buoy_search[] =
     "no shape with a single touchdown fits this line with its buoys (the buoys can lift "
     "stretches of it off the seabed in more than one way); not supported";
 static const char msg_slack_buoy[] =
-    "a buoy in a slack line would be lifted with part of the line; not supported";
+    "no shape fits: hanging slack, the line's buoy would lift part of it (a second seabed "
+    "contact), and no taut shape with a single touchdown was found; not supported";
 
 /* ------------------------------------------------------------------------
  * Newton on (H, V) with a backtracking line search; the driver owns the loop.
@@ -815,6 +816,18 @@ static int solve_v(inner_t *base, double H, double *V)
     if (fhi == 0.0) {
         *V = hi;
         return 0;
+    }
+    if (lo == 0.0) {
+        /* The bracket must straddle the root: GSL reports an error otherwise
+         * (and aborts a program that kept GSL's default handler).  z(H, 0) > Z
+         * would need V < 0, which this search does not cover. */
+        double flo = inner_f(0.0, &in);
+        if (flo == 0.0) {
+            *V = 0.0;
+            return 0;
+        }
+        if (!(flo < 0.0))
+            return -1;
     }
     return brent(in.inner, &F, lo, hi, 1e-14 * hi, base->opt->max_bracket, V);
 }
@@ -1197,15 +1210,25 @@ static hf_status newton_failure(const hf_line *line, hf_status ns, int slack_buo
     return fail(st, HF_ENOCONV, "the line solver did not converge");
 }
 
+/* A shape was found but is outside the model: the status and message say
+ * why, and h, v keep the forces of that shape so callers can say what was
+ * found (issue 12 item 15). */
+static hf_status refuse_found(hf_line_state *st, const char *msg, double H, double V)
+{
+    fail(st, HF_EUNSUPPORTED, msg);
+    st->h = H;
+    st->v = V;
+    return HF_EUNSUPPORTED;
+}
+
 /* Fills st from the converged walk of a suspended or touchdown line. */
-static hf_status state_from_walk(const hf_line *line, const newton_t *s, int slack_buoy,
-                                 hf_line_state *st)
+static hf_status state_from_walk(const hf_line *line, const newton_t *s, hf_line_state *st)
 {
     const walk_t *w = s->w;
     if (w->buoy_down)
-        return fail(st, HF_EUNSUPPORTED, slack_buoy ? msg_slack_buoy : msg_buoy);
+        return refuse_found(st, msg_buoy, s->H, s->V);
     if (w->sag_min < -s->tol)
-        return fail(st, HF_EUNSUPPORTED, slack_buoy ? msg_slack_buoy : msg_sag);
+        return refuse_found(st, msg_sag, s->H, s->V);
     st->regime = w->grounded ? HF_LINE_TOUCHDOWN : HF_LINE_SUSPENDED;
     st->h = s->H;
     st->v = s->V;
@@ -1263,7 +1286,7 @@ static hf_status solve_general(const hf_line *line, double X, double Z, double s
     st->evaluations = s.evals;
     if (ns != HF_OK)
         return newton_failure(line, ns, slack_buoy, st);
-    return state_from_walk(line, &s, slack_buoy, st);
+    return state_from_walk(line, &s, st);
 }
 
 hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_state *guess,

@@ -272,6 +272,13 @@ static hf_status line_at_pose(hf_spread *ws, size_t i, int report, hf_error *err
     }
     hf_status s = solve_line(ws, i);
     const hf_line_state *st = &ws->states[i];
+    if (s != HF_OK && st->h > 0.0) /* a shape was found and refused: say which */
+        return report ? hf_error_set(err, s,
+                                     "line '%s': %s (horizontal span %.6g m, height %.6g m; "
+                                     "shape found: H %.4g kN, V %.4g kN at the fairlead)",
+                                     line_name(m, i, buf), st->message, g->x, g->z,
+                                     st->h / 1e3, st->v / 1e3)
+                      : s;
     if (s != HF_OK)
         return report ? hf_error_set(err, s, "line '%s': %s (horizontal span %.6g m, height %.6g m)",
                                      line_name(m, i, buf),

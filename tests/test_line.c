@@ -460,7 +460,8 @@ static void test_buoy_unsupported(void **state)
     assert_int_equal(st, HF_EUNSUPPORTED);
     assert_int_equal(s.status, HF_EUNSUPPORTED);
     assert_non_null(strstr(s.message, "buoy"));
-    assert_true(s.h == 0.0 && s.tension == 0.0);
+    /* results zeroed; h, v keep the refused shape's forces (line.h) */
+    assert_true(s.tension == 0.0 && s.anchor_tension == 0.0 && s.h > 0.0);
     /* lifted clear of the seabed the same buoy is fine */
     st = hf_line_solve(&line, 785.0, 96.5, NULL, NULL, &s);
     assert_int_equal(st, HF_OK);
@@ -755,6 +756,38 @@ static void test_nearly_laid(void **state)
     assert_true(s.force_error > 1e-7); /* and the estimate says so */
 }
 
+/* Issue 12 item 15: a buoy line whose hanging (slack) column is invalid but
+ * whose taut shape the solver does find, with H in the hundreds of kN, was
+ * refused as "a buoy in a slack line".  The message now says what was found
+ * (a sag into the seabed), and h, v carry that shape's forces, which the
+ * forward map confirms reach the fairlead. */
+static void test_refusal_says_what_was_found(void **state)
+{
+    (void)state;
+    hf_line l;
+    memset(&l, 0, sizeof l);
+    l.n = 2;
+    l.sec[0] = (hf_section){103.7, 987.5, 4.9e8, 5e6, 0.5};
+    l.sec[1] = (hf_section){546.3, 987.5, 4.9e8, 5e6, 0.5};
+    l.joint[0] = (hf_joint){-693.4e3, 0.5};
+    hf_line_state s;
+    assert_int_equal(hf_line_solve(&l, 431.2, 94.6, NULL, NULL, &s), HF_EUNSUPPORTED);
+    if (strstr(s.message, "slack") || !strstr(s.message, "sag into the seabed"))
+        fail_msg("message \"%s\" does not say what was found", s.message);
+    assert_true(s.h > 1e4 && isfinite(s.v));
+    double x, z, J[2][2];
+    assert_int_equal(hf_line_span(&l, s.h, s.v, &x, &z, J), HF_OK);
+    assert_float_equal(x, 431.2, 1e-6);
+    assert_float_equal(z, 94.6, 1e-6);
+    /* where no taut shape exists either, the message says both */
+    l.sec[0].length = 512.9;
+    l.sec[1].length = 137.1;
+    assert_int_equal(hf_line_solve(&l, 431.2, 94.6, NULL, NULL, &s), HF_EUNSUPPORTED);
+    if (!strstr(s.message, "no taut shape"))
+        fail_msg("message \"%s\"", s.message);
+    assert_true(s.h == 0.0);
+}
+
 /* Deterministic generator (xorshift64*), so failures reproduce. */
 static uint64_t rng = 0x9E3779B97F4A7C15ull;
 static double urand(void)
@@ -868,6 +901,7 @@ int main(void)
         cmocka_unit_test(test_profile),
         cmocka_unit_test(test_options_and_fallback),
         cmocka_unit_test(test_nearly_laid),
+        cmocka_unit_test(test_refusal_says_what_was_found),
         cmocka_unit_test(test_random),
     };
     return cmocka_run_group_tests_name("line", tests, NULL, NULL);

@@ -42,7 +42,7 @@
 #include "holdfast/status.h"
 
 #define HF_BALANCE_NONE ((size_t)-1)
-#define HF_BALANCE_MESSAGE 256
+#define HF_BALANCE_MESSAGE 512 /* room for a line's refusal and the load reached */
 
 typedef struct {
     double ftol;       /* converged when |Fx|,|Fy| <= ftol * F and |Mz| <= ftol * F * Lref,

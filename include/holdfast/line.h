@@ -139,7 +139,10 @@ hf_status hf_line_span(const hf_line *line, double h, double v,
  * opt: NULL for defaults.  On success fills *out completely and returns
  * HF_OK.  On failure returns the status (also in out->status) and a message
  * in out->message; no field of *out is ever NaN or Inf (section[k] for k >= n
- * is not written: read the first out->n entries only).
+ * is not written: read the first out->n entries only).  Results are zero on
+ * failure, except that when HF_EUNSUPPORTED refuses a shape the solver did
+ * find (a buoy resting on the seabed, a sag into it), out->h and out->v hold
+ * that shape's fairlead forces, for messages only.
  *   HF_EINVAL       bad line, span (z < 0, non-finite values) or options
  *   HF_EUNSUPPORTED a buoy would rest on the seabed below touchdown, or a sag
  *                   of the line would cut into the seabed
