@@ -523,18 +523,24 @@ static void sections_from_walk(const hf_line *line, const walk_t *w, double H, h
     }
 }
 
-static void finish_sections(const hf_line *line, hf_line_state *st)
+/* Utilisations T_max / MBL and the most loaded section.  Returns 0 when a
+ * utilisation cannot be represented (an MBL so small that T / MBL
+ * overflows): the solve then refuses the line rather than print inf. */
+static int finish_sections(const hf_line *line, hf_line_state *st)
 {
     st->max_utilisation = 0.0;
     st->max_section = 0;
     for (size_t k = 0; k < line->n; k++) {
         hf_section_result *r = &st->section[k];
         r->utilisation = r->t_max / line->sec[k].mbl;
+        if (!isfinite(r->utilisation))
+            return 0;
         if (r->utilisation > st->max_utilisation) {
             st->max_utilisation = r->utilisation;
             st->max_section = k;
         }
     }
+    return 1;
 }
 
 static void stiffness_from_flex(const double J[2][2], hf_line_state *st)
@@ -1318,7 +1324,10 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
         rc = solve_general(line, X, Z, scale, guess, opt, slack_buoy, st);
     if (rc != HF_OK)
         return rc;
-    finish_sections(line, st);
+    if (!finish_sections(line, st))
+        return fail(st, HF_EINVAL,
+                    "a section's MBL is too small for its tension: the utilisation T/MBL "
+                    "overflows (check the breaking loads)");
     if (st->z_max < st->z)
         st->z_max = st->z; /* the fairlead is a point of the line */
     st->status = HF_OK;

@@ -788,6 +788,23 @@ static void test_refusal_says_what_was_found(void **state)
     assert_true(s.h == 0.0);
 }
 
+/* Issue 12 item 6: an MBL so small that T / MBL overflows (1e-305 N: a
+ * normal double, but 1e5 N / 1e-305 N is beyond DBL_MAX = 1.8e308, C11
+ * 5.2.4.2.2) is refused, never reported as an infinite utilisation. */
+static void test_unrepresentable_utilisation(void **state)
+{
+    (void)state;
+    hf_line line = three_with_clump(0.6);
+    line.sec[1].mbl = 1e-305;
+    hf_line_state s;
+    assert_int_equal(hf_line_solve(&line, 742.35, 96.8, NULL, NULL, &s), HF_EINVAL);
+    assert_non_null(strstr(s.message, "utilisation"));
+    no_nan(&s);
+    line.sec[1].mbl = 1e-3; /* tiny but representable: solved, utilisation finite */
+    assert_int_equal(hf_line_solve(&line, 742.35, 96.8, NULL, NULL, &s), HF_OK);
+    assert_true(isfinite(s.max_utilisation) && s.max_utilisation > 1e6);
+}
+
 /* Deterministic generator (xorshift64*), so failures reproduce. */
 static uint64_t rng = 0x9E3779B97F4A7C15ull;
 static double urand(void)
@@ -902,6 +919,7 @@ int main(void)
         cmocka_unit_test(test_options_and_fallback),
         cmocka_unit_test(test_nearly_laid),
         cmocka_unit_test(test_refusal_says_what_was_found),
+        cmocka_unit_test(test_unrepresentable_utilisation),
         cmocka_unit_test(test_random),
     };
     return cmocka_run_group_tests_name("line", tests, NULL, NULL);

@@ -143,7 +143,8 @@ hf_status hf_line_span(const hf_line *line, double h, double v,
  * failure, except that when HF_EUNSUPPORTED refuses a shape the solver did
  * find (a buoy resting on the seabed, a sag into it), out->h and out->v hold
  * that shape's fairlead forces, for messages only.
- *   HF_EINVAL       bad line, span (z < 0, non-finite values) or options
+ *   HF_EINVAL       bad line, span (z < 0, non-finite values) or options, or
+ *                   an MBL so small that the utilisation T/MBL overflows
  *   HF_EUNSUPPORTED a buoy would rest on the seabed below touchdown, or a sag
  *                   of the line would cut into the seabed
  *   HF_ENOCONV      no convergence (not expected for valid input)

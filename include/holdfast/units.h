@@ -39,8 +39,9 @@ const char *hf_dim_si(hf_dim d);
  * to within rounding), so any finite angle is accepted and a huge one is
  * never a different direction than its remainder.
  * Rejects: empty text, trailing garbage, non-finite numbers (nan, inf,
- * 1e309), unknown units, and units of another dimension ("3 kN" for a
- * length).  On failure returns HF_EINVAL and a message such as
+ * 1e309), non-zero values below 2.2e-308 (DBL_MIN) as written or in SI
+ * units ("1e-320", "1e-300 mm": subnormal, their reciprocals overflow),
+ * unknown units, and units of another dimension ("3 kN" for a length).  On failure returns HF_EINVAL and a message such as
  * `expected a length, got "3 kN" (a force)` in err. */
 hf_status hf_units_parse(const char *text, hf_dim want, double *out, hf_error *err);
 
