@@ -805,6 +805,39 @@ static void test_unrepresentable_utilisation(void **state)
     assert_true(isfinite(s.max_utilisation) && s.max_utilisation > 1e6);
 }
 
+/* Issue 12 item 16: a clump and a buoy at one grounded joint (the
+ * fictional "Dunmore" line: 120 kN clump with friction 0.8 under a 70 kN
+ * buoy).  The rule (docs/theory.md, "Point loads on the seabed"): the seabed
+ * carries the net normal force N = 120 - 70 = 50 kN under the clump, the
+ * floating buoy touches nothing, so the tension drops by mu_clump N =
+ * 0.8 x 50 kN = 40 kN across the joint (Coulomb friction on a block, any
+ * statics text), not by 0.8 x 120 kN nor by a load-weighted mean of the two
+ * coefficients times N (0.533 x 50 kN, what a weighting over clump and buoy
+ * gives).  The model layer passes the joint the net load and the clumps'
+ * friction; here the line is given them directly. */
+static void test_clump_and_buoy_on_seabed(void **state)
+{
+    (void)state;
+    hf_line l;
+    memset(&l, 0, sizeof l);
+    l.n = 2;
+    l.sec[0] = (hf_section){300.0, 903.7, 5.2e8, 6e6, 0.1};
+    l.sec[1] = (hf_section){560.0, 903.7, 5.2e8, 6e6, 0.1};
+    l.joint[0] = (hf_joint){120e3 - 70e3, 0.8};
+    hf_line_state s;
+    assert_int_equal(hf_line_solve(&l, 838.6, 71.3, NULL, NULL, &s), HF_OK);
+    assert_int_equal(s.regime, HF_LINE_TOUCHDOWN);
+    /* the whole first section and the joint on the seabed, touchdown in section 1 */
+    assert_true(s.section[0].grounded == 300.0);
+    assert_true(s.section[1].grounded > 0.0 && s.section[1].grounded < 560.0);
+    /* drop across the joint: mu_clump x net load */
+    assert_float_equal(s.section[1].t_lower - s.section[0].t_upper, 0.8 * 50e3, 1e-6);
+    /* and the anchor by hand: H, less mu w per grounded metre, less the joint */
+    double hand = s.h - 0.1 * 903.7 * s.section[1].grounded - 0.8 * 50e3 - 0.1 * 903.7 * 300.0;
+    assert_true(hand > 0.0);
+    assert_float_equal(s.anchor_tension, hand, 1e-6 * s.h);
+}
+
 /* Deterministic generator (xorshift64*), so failures reproduce. */
 static uint64_t rng = 0x9E3779B97F4A7C15ull;
 static double urand(void)
@@ -920,6 +953,7 @@ int main(void)
         cmocka_unit_test(test_nearly_laid),
         cmocka_unit_test(test_refusal_says_what_was_found),
         cmocka_unit_test(test_unrepresentable_utilisation),
+        cmocka_unit_test(test_clump_and_buoy_on_seabed),
         cmocka_unit_test(test_random),
     };
     return cmocka_run_group_tests_name("line", tests, NULL, NULL);
