@@ -8,9 +8,10 @@
 #include <yaml.h>
 #include "holdfast/alloc.h"
 #include "holdfast/case.h"
-#include "holdfast/invert.h"
 #include "holdfast/criteria.h"
-#include "holdfast/sweep.h"
+#include "holdfast/hint.h"
+#include "holdfast/outputs.h"
+#include "holdfast/study.h"
 
 /* Largest number of points of one range written in a case file. */
 #define MAX_RANGE_POINTS 100000000.0
@@ -62,6 +63,7 @@ static int node_add(node *parent, node *kid)
 typedef struct {
     const char *file;
     hf_model *m;
+    hf_study_list *studies;  /* the case's studies: filled beside the model */
     hf_error *err;
     char path[512];
     size_t plen;
@@ -166,51 +168,6 @@ static const char *got(const node *n, char *buf, size_t cap)
 
 #define GOT(n) got((n), gotbuf, sizeof gotbuf)
 
-/* Levenshtein distance, or a large number for long strings. */
-static size_t distance(const char *a, const char *b)
-{
-    size_t la = strlen(a), lb = strlen(b);
-    if (la > 64 || lb > 64)
-        return 1000;
-    size_t row[65], prev[65];
-    for (size_t j = 0; j <= lb; j++)
-        prev[j] = j;
-    for (size_t i = 1; i <= la; i++) {
-        row[0] = i;
-        for (size_t j = 1; j <= lb; j++) {
-            size_t sub = prev[j - 1] + (a[i - 1] != b[j - 1]);
-            size_t del = prev[j] + 1, ins = row[j - 1] + 1;
-            row[j] = sub < del ? (sub < ins ? sub : ins) : (del < ins ? del : ins);
-        }
-        memcpy(prev, row, (lb + 1) * sizeof *row);
-    }
-    return prev[lb];
-}
-
-/* Appends `; did you mean "X"?` to buf when one candidate is close to word. */
-typedef struct {
-    const char *best;
-    size_t d;
-} hint;
-
-static void hint_try(hint *h, const char *word, const char *cand)
-{
-    size_t d = distance(word, cand);
-    size_t len = strlen(word) > strlen(cand) ? strlen(word) : strlen(cand);
-    if (d > 0 && d <= (len + 2) / 3 && (!h->best || d < h->d)) {
-        h->best = cand;
-        h->d = d;
-    }
-}
-
-static const char *hint_text(const hint *h, char *buf, size_t cap)
-{
-    if (!h->best)
-        return "";
-    snprintf(buf, cap, "; did you mean \"%s\"?", h->best);
-    return buf;
-}
-
 /* "a" or "an" before a word. */
 static const char *article(const char *w)
 {
@@ -249,11 +206,11 @@ static hf_status map_check(ctx *c, const node *n, const char *what, const char *
         if (!keys)
             continue;
         int known = 0;
-        hint h = {NULL, 0};
+        hf_hint h = {NULL, 0};
         for (const char *const *q = keys; *q; q++) {
             if (!strcmp(*q, k->text))
                 known = 1;
-            hint_try(&h, k->text, *q);
+            hf_hint_try(&h, k->text, *q);
         }
         if (!known) {
             char list[400];
@@ -262,7 +219,7 @@ static hf_status map_check(ctx *c, const node *n, const char *what, const char *
             for (const char *const *q = keys; *q && len < sizeof list - 40; q++)
                 len += (size_t)snprintf(list + len, sizeof list - len, "%s%s", len ? ", " : "", *q);
             return fail(c, k, "expected a key of %s (%s), got \"%s\"%s", what, list, k->text,
-                        hint_text(&h, hb, sizeof hb));
+                        hf_hint_text(&h, hb, sizeof hb));
         }
     }
     return HF_OK;
@@ -421,7 +378,7 @@ static hf_status choose(ctx *c, const node *n, const char *what, const char *con
     hf_status s = text(c, n, what, &t);
     if (s != HF_OK)
         return s;
-    hint h = {NULL, 0};
+    hf_hint h = {NULL, 0};
     char list[300], hb[96];
     size_t len = 0;
     list[0] = '\0';
@@ -430,12 +387,12 @@ static hf_status choose(ctx *c, const node *n, const char *what, const char *con
             *out = i;
             return HF_OK;
         }
-        hint_try(&h, t, names[i]);
+        hf_hint_try(&h, t, names[i]);
         if (len < sizeof list - 40)
             len += (size_t)snprintf(list + len, sizeof list - len, "%s%s", len ? ", " : "",
                                     names[i]);
     }
-    return fail(c, n, "expected %s (%s), got \"%s\"%s", what, list, t, hint_text(&h, hb, sizeof hb));
+    return fail(c, n, "expected %s (%s), got \"%s\"%s", what, list, t, hf_hint_text(&h, hb, sizeof hb));
 }
 
 /* ---- site ---- */
@@ -602,18 +559,18 @@ static hf_status load_piece(ctx *c, const node *n, hf_piece *p)
         if (st == HF_OK) {
             p->component = hf_model_component_find(c->m, name);
             if (p->component == (size_t)-1) {
-                hint h = {NULL, 0};
+                hf_hint h = {NULL, 0};
                 char list[300], hb[96];
                 size_t len = 0;
                 list[0] = '\0';
                 for (size_t i = 0; i < c->m->ncomponents; i++) {
-                    hint_try(&h, name, c->m->components[i].name);
+                    hf_hint_try(&h, name, c->m->components[i].name);
                     if (len < sizeof list - 40)
                         len += (size_t)snprintf(list + len, sizeof list - len, "%s%s",
                                                 len ? ", " : "", c->m->components[i].name);
                 }
                 st = fail(c, cn, "expected the name of a component (%s), got \"%s\"%s", list, name,
-                          hint_text(&h, hb, sizeof hb));
+                          hf_hint_text(&h, hb, sizeof hb));
             }
         }
         pop(c, mark);
@@ -1072,8 +1029,8 @@ static const char *const vary_keys[] = {"path", "range", "values", NULL};
 static const char *const invert_vary_keys[] = {"path", "range", NULL};
 static const char *const target_keys[] = {"output", "line", "value", NULL};
 
-
-/* Range [from, to, step] of dimension dim; counts its points into *count. */
+/* Range [from, to, step] of dimension dim (the range rule of
+ * hf_study_range_count); counts its points into *count. */
 static hf_status range3(ctx *c, const node *n, hf_dim dim, double *from, double *to, double *step,
                         double *count)
 {
@@ -1082,27 +1039,27 @@ static hf_status range3(ctx *c, const node *n, hf_dim dim, double *from, double 
     hf_status st = vector(c, n, 3, d3, "a range [from, to, step]", v);
     if (st != HF_OK)
         return st;
-    double span = v[1] - v[0];
-    if (v[2] == 0.0 || (span != 0.0 && (span > 0) != (v[2] > 0))) {
+    size_t k = hf_study_range_count(v[0], v[1], v[2], (size_t)MAX_RANGE_POINTS);
+    if (k == 0) {
         size_t mark = push(c, "[2]");
         st = fail(c, n->kids[2], "expected a non-zero step pointing from %s to %s, got \"%s\"",
                   n->kids[0]->text, n->kids[1]->text, n->kids[2]->text);
         pop(c, mark);
         return st;
     }
-    double k = floor(span / v[2] + 1e-9) + 1.0;
-    if (!(k <= MAX_RANGE_POINTS))
-        return fail_limit(c, n, "expected at most %.0f points in a range, got %.0f",
-                          MAX_RANGE_POINTS, k);
+    if (k > (size_t)MAX_RANGE_POINTS)
+        return fail_limit(c, n, "expected at most %.0f points in a range, got more",
+                          MAX_RANGE_POINTS);
     *from = v[0];
     *to = v[1];
     *step = v[2];
     if (count)
-        *count = k;
+        *count = (double)k;
     return HF_OK;
 }
 
-static hf_status param_path(ctx *c, const node *map, hf_vary *v)
+/* The vary entry's path, checked on the model; the parameter into *p. */
+static hf_status param_path(ctx *c, const node *map, hf_vary *v, hf_param *p)
 {
     const node *pn = get(map, "path");
     if (!pn)
@@ -1111,13 +1068,12 @@ static hf_status param_path(ctx *c, const node *map, hf_vary *v)
     const char *t;
     hf_status st = text(c, pn, "a parameter path such as site.depth", &t);
     if (st == HF_OK) {
-        hf_param p;
         hf_error sub;
         hf_error_clear(&sub);
-        if (hf_model_param_lookup(c->m, t, &p, &sub) != HF_OK) {
+        if (hf_model_param_lookup(c->m, t, p, &sub) != HF_OK) {
             st = fail(c, pn, "%s", sub.text);
         } else {
-            v->dim = p.dim;
+            v->dim = p->dim;
             v->path = hf_strdup(t);
             if (!v->path)
                 st = nomem(c);
@@ -1127,44 +1083,44 @@ static hf_status param_path(ctx *c, const node *map, hf_vary *v)
     return st;
 }
 
-static hf_status load_vary(ctx *c, const node *n, hf_vary *v, double *count)
+static hf_status vary_values(ctx *c, const node *vn, hf_vary *v, double *count)
 {
     char gotbuf[96];
+    if (vn->type != N_SEQ || vn->n == 0)
+        return fail(c, vn, "expected a non-empty list of values, got %s",
+                    vn->type == N_SEQ ? "an empty list" : GOT(vn));
+    if (vn->n > MAX_RANGE_POINTS)
+        return fail_limit(c, vn, "expected at most %.0f values, got %zu", MAX_RANGE_POINTS, vn->n);
+    v->values = hf_calloc(vn->n, sizeof *v->values);
+    if (!v->values)
+        return nomem(c);
+    v->nvalues = vn->n;
+    hf_status st = HF_OK;
+    for (size_t i = 0; st == HF_OK && i < vn->n; i++) {
+        size_t m2 = push(c, "[%zu]", i);
+        st = quantity(c, vn->kids[i], v->dim, &v->values[i]);
+        pop(c, m2);
+    }
+    *count = (double)vn->n;
+    return st;
+}
+
+static hf_status load_vary(ctx *c, const node *n, hf_vary *v, hf_param *p, double *count)
+{
     hf_status st = map_check(c, n, "a varied parameter", vary_keys, "key");
     if (st == HF_OK)
-        st = param_path(c, n, v);
+        st = param_path(c, n, v, p);
     if (st != HF_OK)
         return st;
     const node *rn = get(n, "range"), *vn = get(n, "values");
     if ((rn != NULL) == (vn != NULL))
         return fail(c, n, "expected either range: [from, to, step] or values: [...], got %s",
                     rn ? "both" : "neither");
-    if (rn) {
-        size_t mark = pushkey(c, "range");
+    size_t mark = pushkey(c, rn ? "range" : "values");
+    if (rn)
         st = range3(c, rn, v->dim, &v->from, &v->to, &v->step, count);
-        pop(c, mark);
-        return st;
-    }
-    size_t mark = pushkey(c, "values");
-    if (vn->type != N_SEQ || vn->n == 0) {
-        st = fail(c, vn, "expected a non-empty list of values, got %s",
-                  vn->type == N_SEQ ? "an empty list" : GOT(vn));
-    } else if (vn->n > MAX_RANGE_POINTS) {
-        st = fail_limit(c, vn, "expected at most %.0f values, got %zu", MAX_RANGE_POINTS, vn->n);
-    } else {
-        v->values = hf_calloc(vn->n, sizeof *v->values);
-        if (!v->values) {
-            st = nomem(c);
-        } else {
-            v->nvalues = vn->n;
-            for (size_t i = 0; st == HF_OK && i < vn->n; i++) {
-                size_t m2 = push(c, "[%zu]", i);
-                st = quantity(c, vn->kids[i], v->dim, &v->values[i]);
-                pop(c, m2);
-            }
-            *count = (double)vn->n;
-        }
-    }
+    else
+        st = vary_values(c, vn, v, count);
     pop(c, mark);
     return st;
 }
@@ -1189,221 +1145,296 @@ static hf_status name_list(ctx *c, const node *n, const char *what, char ***out,
     return HF_OK;
 }
 
-static hf_status load_study_body(ctx *c, const node *n, hf_study *s)
+/* lines and stiffness studies: an optional offset [x, y, heading]. */
+static hf_status study_offset(ctx *c, const node *n, hf_study *s)
+{
+    static const hf_dim off3[3] = {HF_DIM_LENGTH, HF_DIM_LENGTH, HF_DIM_ANGLE};
+    if (!get(n, "offset"))
+        return HF_OK;
+    size_t mark = pushkey(c, "offset");
+    hf_status st = vector(c, get(n, "offset"), 3, off3, "an offset [x, y, heading]", s->offset);
+    pop(c, mark);
+    return st;
+}
+
+static hf_status study_curve(ctx *c, const node *n, hf_study *s)
+{
+    hf_status st = req_quantity(c, n, "direction", HF_DIM_ANGLE, ANY, &s->direction);
+    if (st != HF_OK)
+        return st;
+    if (!get(n, "range"))
+        return missing(c, n, "range", "a range of offsets [from, to, step]");
+    size_t mark = pushkey(c, "range");
+    st = range3(c, get(n, "range"), HF_DIM_LENGTH, &s->from, &s->to, &s->step, NULL);
+    pop(c, mark);
+    return st;
+}
+
+static hf_status study_balance(ctx *c, const node *n, hf_study *s)
 {
     char gotbuf[96];
     hf_model *m = c->m;
-    hf_status st = HF_OK;
-    size_t mark;
-    static const hf_dim off3[3] = {HF_DIM_LENGTH, HF_DIM_LENGTH, HF_DIM_ANGLE};
-    switch (s->kind) {
-    case HF_STUDY_LINES:
-    case HF_STUDY_STIFFNESS:
-        if (get(n, "offset")) {
-            mark = pushkey(c, "offset");
-            st = vector(c, get(n, "offset"), 3, off3, "an offset [x, y, heading]", s->offset);
-            pop(c, mark);
-        }
-        return st;
-    case HF_STUDY_CURVE:
-        st = req_quantity(c, n, "direction", HF_DIM_ANGLE, ANY, &s->direction);
-        if (st != HF_OK)
-            return st;
-        if (!get(n, "range"))
-            return missing(c, n, "range", "a range of offsets [from, to, step]");
-        mark = pushkey(c, "range");
-        st = range3(c, get(n, "range"), HF_DIM_LENGTH, &s->from, &s->to, &s->step, NULL);
-        pop(c, mark);
-        return st;
-    case HF_STUDY_BALANCE: {
-        const node *ln = get(n, "loads");
-        if (m->nloads == 0)
-            return fail(c, ln ? ln : n, "expected load cases in a loads: section for a balance "
-                                        "study, got none");
-        if (!ln)
-            return HF_OK;
-        mark = pushkey(c, "loads");
-        st = name_list(c, ln, "load names", &s->loads, &s->nloads);
-        for (size_t i = 0; st == HF_OK && i < s->nloads; i++)
-            if (hf_model_load_find(m, s->loads[i]) == (size_t)-1) {
-                hint h = {NULL, 0};
-                char hb[96];
-                for (size_t j = 0; j < m->nloads; j++)
-                    hint_try(&h, s->loads[i], m->loads[j].name);
-                size_t m2 = push(c, "[%zu]", i);
-                st = fail(c, ln->kids[i], "expected the name of a load case, got %s%s",
-                          GOT(ln->kids[i]), hint_text(&h, hb, sizeof hb));
-                pop(c, m2);
-            }
-        pop(c, mark);
-        return st;
-    }
-    case HF_STUDY_SWEEP: {
-        const node *vn = get(n, "vary");
-        if (!vn)
-            return missing(c, n, "vary", "a list of varied parameters");
-        mark = pushkey(c, "vary");
-        if (vn->type != N_SEQ || vn->n == 0)
-            st = fail(c, vn, "expected a non-empty list of {path, range | values}, got %s",
-                      vn->type == N_SEQ ? "an empty list" : GOT(vn));
-        double counts[2] = {0, 0};
-        if (st == HF_OK) {
-            s->vary = hf_calloc(vn->n, sizeof *s->vary);
-            if (!s->vary)
-                st = nomem(c);
-            else
-                s->nvary = vn->n;
-        }
-        for (size_t i = 0; st == HF_OK && i < vn->n; i++) {
+    const node *ln = get(n, "loads");
+    if (m->nloads == 0)
+        return fail(c, ln ? ln : n, "expected load cases in a loads: section for a balance "
+                                    "study, got none");
+    if (!ln)
+        return HF_OK;
+    size_t mark = pushkey(c, "loads");
+    hf_status st = name_list(c, ln, "load names", &s->loads, &s->nloads);
+    for (size_t i = 0; st == HF_OK && i < s->nloads; i++)
+        if (hf_model_load_find(m, s->loads[i]) == (size_t)-1) {
+            hf_hint h = {NULL, 0};
+            char hb[96];
+            for (size_t j = 0; j < m->nloads; j++)
+                hf_hint_try(&h, s->loads[i], m->loads[j].name);
             size_t m2 = push(c, "[%zu]", i);
-            double k = 0;
-            st = load_vary(c, vn->kids[i], &s->vary[i], &k);
-            if (i == 0)
-                counts[0] = k;
-            else if (k != counts[0] && counts[1] == 0)
-                counts[1] = k;
+            st = fail(c, ln->kids[i], "expected the name of a load case, got %s%s",
+                      GOT(ln->kids[i]), hf_hint_text(&h, hb, sizeof hb));
             pop(c, m2);
         }
-        pop(c, mark);
-        if (st != HF_OK)
+    pop(c, mark);
+    return st;
+}
+
+/* Refuses a parameter varied twice (the same value through two spellings,
+ * or two paths that move the same thing: hf_model_param_same). */
+static hf_status vary_unique(ctx *c, const node *vn, const hf_vary *v, const hf_param *p,
+                             size_t i)
+{
+    for (size_t j = 0; j < i; j++)
+        if (hf_model_param_same(&p[j], &p[i])) {
+            size_t m2 = push(c, "[%zu].path", i);
+            hf_status st = fail(c, get(vn->kids[i], "path"),
+                                "expected each parameter varied once, got \"%s\", which sets the "
+                                "same value as \"%s\" (vary[%zu])",
+                                v[i].path, v[j].path, j);
+            pop(c, m2);
             return st;
-        const node *cn = get(n, "combine");
-        if (cn) {
-            static const char *const combine[] = {"grid", "zip"};
-            size_t k;
-            mark = pushkey(c, "combine");
-            st = choose(c, cn, "a way to combine the parameters", combine, 2, &k);
-            s->zip = (int)k;
-            if (st == HF_OK && s->zip && counts[1] != 0)
-                st = fail(c, cn, "expected lists of equal length for zip, got %.0f and %.0f values",
-                          counts[0], counts[1]);
-            pop(c, mark);
-            if (st != HF_OK)
-                return st;
         }
-        const node *on = get(n, "outputs");
-        if (on) {
-            mark = pushkey(c, "outputs");
-            if (on->type != N_SEQ || on->n == 0) {
-                st = fail(c, on, "expected a non-empty list of output names, got %s",
-                          on->type == N_SEQ ? "an empty list" : GOT(on));
-            } else if (!(s->outputs = hf_calloc(on->n, sizeof *s->outputs))) {
-                st = nomem(c);
-            } else {
-                s->noutputs = on->n;
-                for (size_t i = 0; st == HF_OK && i < on->n; i++) {
-                    size_t m2 = push(c, "[%zu]", i);
-                    const char *t;
-                    hf_output o;
-                    hf_error sub;
-                    hf_error_clear(&sub);
-                    st = text(c, on->kids[i], "an output name", &t);
-                    if (st == HF_OK && hf_sweep_output_parse(m, t, &o, &sub) != HF_OK)
-                        st = fail(c, on->kids[i], "%s", sub.text);
-                    if (st == HF_OK && !(s->outputs[i] = hf_strdup(t)))
-                        st = nomem(c);
-                    pop(c, m2);
-                }
-            }
-            pop(c, mark);
-        }
-        return st;
-    }
-    case HF_STUDY_INVERT: {
-        const node *vn = get(n, "vary"), *tn = get(n, "target");
-        if (!vn)
-            return missing(c, n, "vary", "the varied parameter {path, range: [lo, hi]}");
-        s->vary = hf_calloc(1, sizeof *s->vary);
-        if (!s->vary)
-            return nomem(c);
-        s->nvary = 1;
-        hf_vary *v = s->vary;
-        mark = pushkey(c, "vary");
-        st = map_check(c, vn, "the varied parameter", invert_vary_keys, "key");
+    return HF_OK;
+}
+
+static hf_status sweep_vary(ctx *c, const node *vn, hf_study *s, double counts[2])
+{
+    char gotbuf[96];
+    if (vn->type != N_SEQ || vn->n == 0)
+        return fail(c, vn, "expected a non-empty list of {path, range | values}, got %s",
+                    vn->type == N_SEQ ? "an empty list" : GOT(vn));
+    if (vn->n > HF_STUDY_MAX_VARY)
+        return fail_limit(c, vn, "expected at most %d varied parameters (HF_STUDY_MAX_VARY), "
+                                 "got %zu",
+                          HF_STUDY_MAX_VARY, vn->n);
+    s->vary = hf_calloc(vn->n, sizeof *s->vary);
+    if (!s->vary)
+        return nomem(c);
+    s->nvary = vn->n;
+    hf_param p[HF_STUDY_MAX_VARY];
+    hf_status st = HF_OK;
+    for (size_t i = 0; st == HF_OK && i < vn->n; i++) {
+        size_t m2 = push(c, "[%zu]", i);
+        double k = 0;
+        st = load_vary(c, vn->kids[i], &s->vary[i], &p[i], &k);
+        if (i == 0)
+            counts[0] = k;
+        else if (k != counts[0] && counts[1] == 0)
+            counts[1] = k;
+        pop(c, m2);
         if (st == HF_OK)
-            st = param_path(c, vn, v);
-        if (st == HF_OK && !get(vn, "range"))
-            st = missing(c, vn, "range", "a bracket [lo, hi]");
-        if (st == HF_OK) {
-            const node *rn = get(vn, "range");
-            const hf_dim d2[2] = {v->dim, v->dim};
-            double r[2];
-            size_t m2 = pushkey(c, "range");
-            st = vector(c, rn, 2, d2, "a bracket [lo, hi]", r);
-            if (st == HF_OK && !(r[0] < r[1]))
-                st = fail(c, rn, "expected a bracket [lo, hi] with lo < hi, got [%s, %s]",
-                          rn->kids[0]->text, rn->kids[1]->text);
-            v->from = r[0];
-            v->to = r[1];
-            pop(c, m2);
-        }
-        pop(c, mark);
-        if (st != HF_OK)
-            return st;
-        if (!tn)
-            return missing(c, n, "target", "a target {output, line, value}");
-        mark = pushkey(c, "target");
-        st = map_check(c, tn, "the target", target_keys, "key");
-        const node *on = st == HF_OK ? get(tn, "output") : NULL;
-        if (st == HF_OK && !on)
-            st = missing(c, tn, "output", "an output name");
-        const node *ln = st == HF_OK ? get(tn, "line") : NULL;
-        const char *ot = NULL, *lt = NULL;
-        if (st == HF_OK) {
-            size_t m2 = pushkey(c, "output");
-            st = text(c, on, "an output name", &ot);
-            pop(c, m2);
-        }
-        if (st == HF_OK && ln) {
-            size_t m2 = pushkey(c, "line");
-            st = name_check(c, ln, "a line name");
-            lt = ln->text;
-            if (st == HF_OK && hf_model_line_find(m, lt) == (size_t)-1) {
-                hint h = {NULL, 0};
-                char hb[96];
-                for (size_t j = 0; j < m->nlines; j++)
-                    hint_try(&h, lt, m->lines[j].name);
-                st = fail(c, ln, "expected the name of a line, got %s%s", GOT(ln),
-                          hint_text(&h, hb, sizeof hb));
-            }
-            pop(c, m2);
-        }
-        hf_output o;
-        if (st == HF_OK) {
-            char full[2 * HF_MODEL_MAX_NAME + 8];
-            hf_error sub;
-            hf_error_clear(&sub);
-            if (strlen(ot) > HF_MODEL_MAX_NAME)
-                st = fail(c, on, "expected an output name, got %s", GOT(on));
-            snprintf(full, sizeof full, "%s%s%s", ot, lt ? ":" : "", lt ? lt : "");
-            size_t m2 = pushkey(c, "output");
-            if (st == HF_OK && hf_sweep_output_parse(m, full, &o, &sub) != HF_OK)
-                st = fail(c, on, "%s", sub.text);
-            if (st == HF_OK && !hf_sweep_output_is_scalar(&o))
-                st = fail(c, on,
-                          "expected an output that is one number (give line: for a per-line "
-                          "output), got \"%s\"",
-                          full);
-            pop(c, m2);
-        }
-        if (st == HF_OK && !(s->target_output = hf_strdup(ot)))
-            st = nomem(c);
-        if (st == HF_OK && lt && !(s->target_line = hf_strdup(lt)))
-            st = nomem(c);
-        if (st == HF_OK)
-            st = req_quantity(c, tn, "value", hf_invert_output_dim(&o), ANY, &s->target_value);
-        pop(c, mark);
-        return st;
-    }
+            st = vary_unique(c, vn, s->vary, p, i);
     }
     return st;
 }
 
-static hf_status load_study(ctx *c, const node *n, size_t index)
+/* A sweep study's outputs, each checked against the output catalogue. */
+static hf_status sweep_outputs(ctx *c, const node *on, hf_study *s)
+{
+    char gotbuf[96];
+    if (on->type != N_SEQ || on->n == 0)
+        return fail(c, on, "expected a non-empty list of output names, got %s",
+                    on->type == N_SEQ ? "an empty list" : GOT(on));
+    if (!(s->outputs = hf_calloc(on->n, sizeof *s->outputs)))
+        return nomem(c);
+    s->noutputs = on->n;
+    hf_status st = HF_OK;
+    for (size_t i = 0; st == HF_OK && i < on->n; i++) {
+        size_t m2 = push(c, "[%zu]", i);
+        const char *t;
+        hf_output o;
+        hf_error sub;
+        hf_error_clear(&sub);
+        st = text(c, on->kids[i], "an output name", &t);
+        if (st == HF_OK && hf_output_parse(c->m, t, &o, &sub) != HF_OK)
+            st = fail(c, on->kids[i], "%s", sub.text);
+        if (st == HF_OK && !(s->outputs[i] = hf_strdup(t)))
+            st = nomem(c);
+        pop(c, m2);
+    }
+    return st;
+}
+
+static hf_status study_sweep(ctx *c, const node *n, hf_study *s)
+{
+    const node *vn = get(n, "vary");
+    if (!vn)
+        return missing(c, n, "vary", "a list of varied parameters");
+    double counts[2] = {0, 0};
+    size_t mark = pushkey(c, "vary");
+    hf_status st = sweep_vary(c, vn, s, counts);
+    pop(c, mark);
+    if (st != HF_OK)
+        return st;
+    const node *cn = get(n, "combine");
+    if (cn) {
+        static const char *const combine[] = {"grid", "zip"};
+        size_t k;
+        mark = pushkey(c, "combine");
+        st = choose(c, cn, "a way to combine the parameters", combine, 2, &k);
+        s->zip = (int)k;
+        if (st == HF_OK && s->zip && counts[1] != 0)
+            st = fail(c, cn, "expected lists of equal length for zip, got %.0f and %.0f values",
+                      counts[0], counts[1]);
+        pop(c, mark);
+        if (st != HF_OK)
+            return st;
+    }
+    const node *on = get(n, "outputs");
+    if (!on)
+        return HF_OK;
+    mark = pushkey(c, "outputs");
+    st = sweep_outputs(c, on, s);
+    pop(c, mark);
+    return st;
+}
+
+/* An invert study's vary: {path, range: [lo, hi]}. */
+static hf_status invert_vary(ctx *c, const node *vn, hf_vary *v)
+{
+    hf_param p;
+    hf_status st = map_check(c, vn, "the varied parameter", invert_vary_keys, "key");
+    if (st == HF_OK)
+        st = param_path(c, vn, v, &p);
+    if (st == HF_OK && !get(vn, "range"))
+        st = missing(c, vn, "range", "a bracket [lo, hi]");
+    if (st != HF_OK)
+        return st;
+    const node *rn = get(vn, "range");
+    const hf_dim d2[2] = {v->dim, v->dim};
+    double r[2];
+    size_t m2 = pushkey(c, "range");
+    st = vector(c, rn, 2, d2, "a bracket [lo, hi]", r);
+    if (st == HF_OK && !(r[0] < r[1]))
+        st = fail(c, rn, "expected a bracket [lo, hi] with lo < hi, got [%s, %s]",
+                  rn->kids[0]->text, rn->kids[1]->text);
+    v->from = r[0];
+    v->to = r[1];
+    pop(c, m2);
+    return st;
+}
+
+/* The target's line: name of a line of the case. */
+static hf_status target_line(ctx *c, const node *ln, const char **lt)
 {
     char gotbuf[96];
     hf_model *m = c->m;
-    hf_study *s = &m->studies[index];
+    size_t m2 = pushkey(c, "line");
+    hf_status st = name_check(c, ln, "a line name");
+    *lt = ln->text;
+    if (st == HF_OK && hf_model_line_find(m, *lt) == (size_t)-1) {
+        hf_hint h = {NULL, 0};
+        char hb[96];
+        for (size_t j = 0; j < m->nlines; j++)
+            hf_hint_try(&h, *lt, m->lines[j].name);
+        st = fail(c, ln, "expected the name of a line, got %s%s", GOT(ln),
+                  hf_hint_text(&h, hb, sizeof hb));
+    }
+    pop(c, m2);
+    return st;
+}
+
+/* The target's output (with its line): one number of the output catalogue. */
+static hf_status target_output(ctx *c, const node *on, const char *ot, const char *lt,
+                               hf_output *o)
+{
+    char gotbuf[96], full[2 * HF_MODEL_MAX_NAME + 8];
+    hf_status st = HF_OK;
+    hf_error sub;
+    hf_error_clear(&sub);
+    if (strlen(ot) > HF_MODEL_MAX_NAME)
+        st = fail(c, on, "expected an output name, got %s", GOT(on));
+    snprintf(full, sizeof full, "%s%s%s", ot, lt ? ":" : "", lt ? lt : "");
+    size_t m2 = pushkey(c, "output");
+    if (st == HF_OK && hf_output_parse(c->m, full, o, &sub) != HF_OK)
+        st = fail(c, on, "%s", sub.text);
+    if (st == HF_OK && !hf_output_is_scalar(o))
+        st = fail(c, on,
+                  "expected an output that is one number (give line: for a per-line output), "
+                  "got \"%s\"",
+                  full);
+    pop(c, m2);
+    return st;
+}
+
+static hf_status invert_target(ctx *c, const node *tn, hf_study *s)
+{
+    hf_status st = map_check(c, tn, "the target", target_keys, "key");
+    const node *on = st == HF_OK ? get(tn, "output") : NULL;
+    if (st == HF_OK && !on)
+        st = missing(c, tn, "output", "an output name");
+    const node *ln = st == HF_OK ? get(tn, "line") : NULL;
+    const char *ot = NULL, *lt = NULL;
+    if (st == HF_OK) {
+        size_t m2 = pushkey(c, "output");
+        st = text(c, on, "an output name", &ot);
+        pop(c, m2);
+    }
+    if (st == HF_OK && ln)
+        st = target_line(c, ln, &lt);
+    hf_output o;
+    if (st == HF_OK)
+        st = target_output(c, on, ot, lt, &o);
+    if (st == HF_OK && !(s->target_output = hf_strdup(ot)))
+        st = nomem(c);
+    if (st == HF_OK && lt && !(s->target_line = hf_strdup(lt)))
+        st = nomem(c);
+    if (st == HF_OK)
+        st = req_quantity(c, tn, "value", hf_output_dim(&o), ANY, &s->target_value);
+    return st;
+}
+
+static hf_status study_invert(ctx *c, const node *n, hf_study *s)
+{
+    const node *vn = get(n, "vary"), *tn = get(n, "target");
+    if (!vn)
+        return missing(c, n, "vary", "the varied parameter {path, range: [lo, hi]}");
+    s->vary = hf_calloc(1, sizeof *s->vary);
+    if (!s->vary)
+        return nomem(c);
+    s->nvary = 1;
+    size_t mark = pushkey(c, "vary");
+    hf_status st = invert_vary(c, vn, s->vary);
+    pop(c, mark);
+    if (st != HF_OK)
+        return st;
+    if (!tn)
+        return missing(c, n, "target", "a target {output, line, value}");
+    mark = pushkey(c, "target");
+    st = invert_target(c, tn, s);
+    pop(c, mark);
+    return st;
+}
+
+/* One loader per study kind, indexed by hf_study_kind. */
+typedef hf_status (*study_loader)(ctx *, const node *, hf_study *);
+static const study_loader study_body[] = {study_offset, study_curve,  study_offset,
+                                          study_balance, study_sweep, study_invert};
+_Static_assert(sizeof study_body / sizeof study_body[0] == HF_STUDY_INVERT + 1,
+               "one loader per hf_study_kind");
+
+static hf_status load_study(ctx *c, const node *n, size_t index)
+{
+    char gotbuf[96];
+    hf_study *s = &c->studies->v[index];
     if (!n || n->type != N_MAP)
         return fail(c, n, "expected a study (a mapping with name and kind), got %s", GOT(n));
     const node *kn = get(n, "kind");
@@ -1425,12 +1456,12 @@ static hf_status load_study(ctx *c, const node *n, size_t index)
     mark = pushkey(c, "name");
     st = name_dup(c, nn, "a study name", &s->name);
     for (size_t j = 0; st == HF_OK && j < index; j++)
-        if (!strcmp(m->studies[j].name, s->name))
+        if (!strcmp(c->studies->v[j].name, s->name))
             st = fail(c, nn, "expected a unique study name, got \"%s\" again", s->name);
     pop(c, mark);
     if (st != HF_OK)
         return st;
-    return load_study_body(c, n, s);
+    return study_body[k](c, n, s);
 }
 
 static hf_status load_studies(ctx *c, const node *n)
@@ -1440,10 +1471,10 @@ static hf_status load_studies(ctx *c, const node *n)
         return fail(c, n, "expected a list of studies, got %s", GOT(n));
     if (n->n == 0)
         return HF_OK;
-    c->m->studies = hf_calloc(n->n, sizeof *c->m->studies);
-    if (!c->m->studies)
+    c->studies->v = hf_calloc(n->n, sizeof *c->studies->v);
+    if (!c->studies->v)
         return nomem(c);
-    c->m->nstudies = n->n;
+    c->studies->n = n->n;
     for (size_t i = 0; i < n->n; i++) {
         size_t mark = push(c, "[%zu]", i);
         hf_status st = load_study(c, n->kids[i], i);
@@ -1794,12 +1825,16 @@ static hf_status parse_tree(ctx *c, const char *textbuf, size_t len, node **root
     return st;
 }
 
-hf_status hf_case_load_buffer(const char *textbuf, size_t len, const char *name, hf_model *m,
-                              hf_error *err)
+hf_status hf_case_load_buffer_with_studies(const char *textbuf, size_t len, const char *name,
+                                           hf_model *m, hf_study_list *studies, hf_error *err)
 {
-    ctx c = {.file = name ? name : "<case>", .m = m, .err = err};
+    hf_study_list own;
+    hf_study_list_init(&own);
+    ctx c = {.file = name ? name : "<case>", .m = m, .studies = studies ? studies : &own,
+             .err = err};
     c.path[0] = '\0';
     hf_model_free(m);
+    hf_study_list_free(studies);
     if (len > HF_CASE_MAX_BYTES)
         return hf_error_set(err, HF_ELIMIT,
                             "%s: expected a case file of at most %u bytes (HF_CASE_MAX_BYTES), "
@@ -1812,14 +1847,30 @@ hf_status hf_case_load_buffer(const char *textbuf, size_t len, const char *name,
         st = m->source_path ? load_root(&c, root) : nomem(&c);
     }
     node_free(root);
-    if (st != HF_OK)
+    hf_study_list_free(&own);
+    if (st != HF_OK) {
         hf_model_free(m);
+        hf_study_list_free(studies);
+    }
     return st;
+}
+
+hf_status hf_case_load_buffer(const char *textbuf, size_t len, const char *name, hf_model *m,
+                              hf_error *err)
+{
+    return hf_case_load_buffer_with_studies(textbuf, len, name, m, NULL, err);
 }
 
 hf_status hf_case_load(const char *path, hf_model *m, hf_error *err)
 {
+    return hf_case_load_with_studies(path, m, NULL, err);
+}
+
+hf_status hf_case_load_with_studies(const char *path, hf_model *m, hf_study_list *studies,
+                                    hf_error *err)
+{
     hf_model_free(m);
+    hf_study_list_free(studies);
     if (!path)
         return hf_error_set(err, HF_EINVAL, "no case file given");
     FILE *f = fopen(path, "rb");
@@ -1861,7 +1912,7 @@ hf_status hf_case_load(const char *path, hf_model *m, hf_error *err)
                           path, (unsigned)HF_CASE_MAX_BYTES);
     fclose(f);
     if (st == HF_OK)
-        st = hf_case_load_buffer(buf, len, path, m, err);
+        st = hf_case_load_buffer_with_studies(buf, len, path, m, studies, err);
     hf_free(buf);
     return st;
 }

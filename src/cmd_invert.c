@@ -80,13 +80,13 @@ int hf_cmd_invert(int argc, char **argv)
         rc = hf_cli_fail(&err);
         goto done;
     }
-    if (hf_sweep_output_parse(&m, oname, &o, &err) != HF_OK) {
+    if (hf_output_parse(&m, oname, &o, &err) != HF_OK) {
         rc = hf_cli_fail(&err);
         goto done;
     }
     hf_error sub;
     hf_error_clear(&sub);
-    if (hf_units_parse(eq + 1, hf_invert_output_dim(&o), &target, &sub) != HF_OK) {
+    if (hf_units_parse(eq + 1, hf_output_dim(&o), &target, &sub) != HF_OK) {
         hf_error_set(&err, HF_EINVAL, "--target %s: %s", target_text, sub.text);
         rc = hf_cli_fail(&err);
         goto done;

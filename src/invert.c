@@ -10,43 +10,12 @@
 #include "holdfast/invert.h"
 #include "holdfast/spread.h"
 
-hf_dim hf_invert_output_dim(const hf_output *o)
-{
-    switch (o->kind) {
-    case HF_OUT_UTILISATION:
-    case HF_OUT_MAX_UTILISATION:
-        return HF_DIM_NONE;
-    case HF_OUT_STIFFNESS_SURGE:
-    case HF_OUT_STIFFNESS_SWAY:
-    case HF_OUT_STIFFNESS_HEAVE:
-        return HF_DIM_FORCE_PER_LENGTH;
-    case HF_OUT_STIFFNESS_YAW:
-        return HF_DIM_MOMENT;
-    case HF_OUT_OFFSET:
-        return HF_DIM_LENGTH;
-    default:
-        return HF_DIM_FORCE;
-    }
-}
-
-/* Column unit of an output and the factor from SI to it. */
+/* Column unit of an output and the factor from SI to it (the catalogue's). */
 static const char *out_unit(const hf_output *o, double *scale)
 {
-    *scale = 1e-3;
-    switch (hf_invert_output_dim(o)) {
-    case HF_DIM_NONE:
-        *scale = 1.0;
-        return "-";
-    case HF_DIM_FORCE_PER_LENGTH:
-        return "kN/m";
-    case HF_DIM_MOMENT:
-        return "kN m/rad";
-    case HF_DIM_LENGTH:
-        *scale = 1.0;
-        return "m";
-    default:
-        return "kN";
-    }
+    const hf_output_info *in = hf_output_info_of(o->kind);
+    *scale = in ? in->scale : 1.0;
+    return in ? in->unit_text : "-";
 }
 
 typedef struct {
@@ -73,6 +42,8 @@ static hf_status output_at(problem *p, double x, double *y)
     hf_status st = hf_model_param_set(&p->model, &p->param, x, &p->err);
     if (st != HF_OK)
         return st;
+    if (p->bal)
+        hf_balance_refresh(p->bal); /* the rest pose of this value */
     return hf_sweep_output_eval(&p->model, p->ws, p->bal, p->o, y, &p->err);
 }
 
@@ -110,11 +81,11 @@ hf_status hf_invert_solve(const hf_model *m, const char *path, double lo, double
     memset(res, 0, sizeof *res);
     if (!m || !path || !o)
         return hf_error_set(err, HF_EINVAL, "invert: no model, path or output");
-    if (!hf_sweep_output_is_scalar(o))
+    if (!hf_output_is_scalar(o))
         return hf_error_set(err, HF_EINVAL,
                             "invert: the target %s must be one value (give :LINE for a per-line "
                             "output)",
-                            hf_sweep_output_name(o->kind));
+                            hf_output_name(o->kind));
     if (!isfinite(lo) || !isfinite(hi) || !(lo < hi))
         return hf_error_set(err, HF_EINVAL, "invert: %s: expected a bracket LO < HI, got %g:%g",
                             path, lo, hi);
@@ -154,6 +125,7 @@ hf_status hf_invert_solve(const hf_model *m, const char *path, double lo, double
     double ends[2] = {lo, hi}, f[2];
     for (int i = 0; i < 2; i++) {
         hf_spread_reset(p.ws);
+        hf_balance_reset(p.bal);
         hf_status s = output_at(&p, ends[i], &f[i]);
         if (s != HF_OK) {
             st = hf_error_set(err, HF_ERANGE,
@@ -172,7 +144,7 @@ hf_status hf_invert_solve(const hf_model *m, const char *path, double lo, double
         st = hf_error_set(err, HF_ERANGE,
                           "invert: the target %s = %s is not reached for %s in [%.10g, %.10g]: "
                           "it gives %s at %.10g and %s at %.10g; widen or move the bracket",
-                          hf_sweep_output_name(o->kind), t, path, lo, hi, a, lo, b, hi);
+                          hf_output_name(o->kind), t, path, lo, hi, a, lo, b, hi);
         goto done;
     }
     double scale = fmax(fabs(target), fmax(fabs(f[0]), fabs(f[1])));
@@ -212,6 +184,7 @@ hf_status hf_invert_solve(const hf_model *m, const char *path, double lo, double
     }
     /* Verify from a cold start: the value must meet the target on its own. */
     hf_spread_reset(p.ws);
+    hf_balance_reset(p.bal);
     double y;
     hf_status s = output_at(&p, root, &y);
     if (s != HF_OK) {
@@ -255,12 +228,7 @@ hf_status hf_invert_write_csv(FILE *out, const hf_model *m, const char *path,
     double scale, vs = d == HF_DIM_ANGLE ? 180.0 / M_PI : 1.0;
     const char *u = out_unit(o, &scale);
     char name[2 * HF_MODEL_MAX_NAME + 32];
-    if (hf_sweep_output_is_scalar(o) && o->kind <= HF_OUT_UTILISATION)
-        snprintf(name, sizeof name, "%s:%s", hf_sweep_output_name(o->kind), m->lines[o->line].name);
-    else if (o->kind == HF_OUT_OFFSET)
-        snprintf(name, sizeof name, "offset_%s", m->loads[o->load].name);
-    else
-        snprintf(name, sizeof name, "%s", hf_sweep_output_name(o->kind));
+    hf_output_text(m, o, name, sizeof name);
     hf_csv c;
     hf_csv_init(&c, out, 0);
     hf_csv_header(&c, "parameter", "value", "value_unit", "output", "target", "achieved",

@@ -19,25 +19,6 @@ void hf_model_init(hf_model *m)
     m->criteria.analysis = HF_ANALYSIS_QUASI_STATIC;
 }
 
-static void study_clear(hf_study *s)
-{
-    hf_free(s->name);
-    for (size_t i = 0; i < s->nloads; i++)
-        hf_free(s->loads[i]);
-    hf_free(s->loads);
-    for (size_t i = 0; i < s->nvary; i++) {
-        hf_free(s->vary[i].path);
-        hf_free(s->vary[i].values);
-    }
-    hf_free(s->vary);
-    for (size_t i = 0; i < s->noutputs; i++)
-        hf_free(s->outputs[i]);
-    hf_free(s->outputs);
-    hf_free(s->target_output);
-    hf_free(s->target_line);
-    memset(s, 0, sizeof *s);
-}
-
 void hf_model_free(hf_model *m)
 {
     if (!m)
@@ -59,9 +40,6 @@ void hf_model_free(hf_model *m)
     }
     hf_free(m->loads);
     hf_free(m->criteria.preset);
-    for (size_t i = 0; i < m->nstudies; i++)
-        study_clear(&m->studies[i]);
-    hf_free(m->studies);
     hf_model_init(m);
 }
 
@@ -85,55 +63,6 @@ static int dupmem(void *dst, const void *src, size_t n, size_t size)
     if (!*d)
         return 0;
     memcpy(*d, src, n * size);
-    return 1;
-}
-
-static int dupstrs(char ***dst, char *const *src, size_t n)
-{
-    *dst = NULL;
-    if (!src || n == 0)
-        return 1;
-    *dst = hf_calloc(n, sizeof **dst);
-    if (!*dst)
-        return 0;
-    for (size_t i = 0; i < n; i++)
-        if (!dupstr(&(*dst)[i], src[i]))
-            return 0;
-    return 1;
-}
-
-static int study_copy(hf_study *d, const hf_study *s)
-{
-    *d = *s;
-    d->name = NULL;
-    d->loads = NULL;
-    d->vary = NULL;
-    d->outputs = NULL;
-    d->target_output = d->target_line = NULL;
-    d->nloads = d->nvary = d->noutputs = 0;
-    if (!dupstr(&d->name, s->name) || !dupstr(&d->target_output, s->target_output) ||
-        !dupstr(&d->target_line, s->target_line))
-        return 0;
-    if (!dupstrs(&d->loads, s->loads, s->nloads))
-        return d->nloads = d->loads ? s->nloads : 0, 0;
-    d->nloads = s->nloads;
-    if (!dupstrs(&d->outputs, s->outputs, s->noutputs))
-        return d->noutputs = d->outputs ? s->noutputs : 0, 0;
-    d->noutputs = s->noutputs;
-    if (s->nvary) {
-        d->vary = hf_calloc(s->nvary, sizeof *d->vary);
-        if (!d->vary)
-            return 0;
-        d->nvary = s->nvary;
-        for (size_t i = 0; i < s->nvary; i++) {
-            d->vary[i] = s->vary[i];
-            d->vary[i].path = NULL;
-            d->vary[i].values = NULL;
-            if (!dupstr(&d->vary[i].path, s->vary[i].path) ||
-                !dupmem(&d->vary[i].values, s->vary[i].values, s->vary[i].nvalues, sizeof(double)))
-                return 0;
-        }
-    }
     return 1;
 }
 
@@ -192,15 +121,6 @@ static int copy_all(hf_model *d, const hf_model *s)
                 !dupmem(&d->loads[i].drag, s->loads[i].drag, s->loads[i].ndrag, sizeof(hf_drag)))
                 return 0;
         }
-    }
-    if (s->nstudies) {
-        d->studies = hf_calloc(s->nstudies, sizeof *d->studies);
-        if (!d->studies)
-            return 0;
-        d->nstudies = s->nstudies;
-        for (size_t i = 0; i < s->nstudies; i++)
-            if (!study_copy(&d->studies[i], &s->studies[i]))
-                return 0;
     }
     return 1;
 }
@@ -651,11 +571,38 @@ static double anchor_radius(const hf_model *m, const hf_model_line *l)
     return hypot(l->anchor[0] - m->hull.position[0], l->anchor[1] - m->hull.position[1]);
 }
 
-double hf_model_param_get(const hf_model *m, const hf_param *p)
+hf_status hf_model_param_get(const hf_model *m, const hf_param *p, double *value, hf_error *err)
 {
-    if (p->kind == P_ANCHOR_RADIUS)
-        return anchor_radius(m, &m->lines[p->index]);
-    return p->value ? *p->value : 0.0;
+    if (!m || !p || p->kind == 0)
+        return hf_error_set(err, HF_EINVAL, "parameter: not looked up");
+    if (p->kind == P_ANCHOR_RADIUS) {
+        if (p->index >= m->nlines)
+            return hf_error_set(err, HF_EINVAL, "parameter: line %zu outside the model", p->index);
+        *value = anchor_radius(m, &m->lines[p->index]);
+        return HF_OK;
+    }
+    if (!p->value)
+        return hf_error_set(err, HF_EINVAL, "parameter: no value to read");
+    *value = *p->value;
+    return HF_OK;
+}
+
+/* The parameters a path can move, for hf_model_param_same: anchor_radius
+ * moves both anchor coordinates. */
+static int moves_anchor(const hf_param *p, int coord)
+{
+    return p->kind == P_ANCHOR_RADIUS || p->kind == (coord ? P_ANCHOR_Y : P_ANCHOR_X);
+}
+
+int hf_model_param_same(const hf_param *a, const hf_param *b)
+{
+    if (a->kind == b->kind)
+        return a->index == b->index && a->sub == b->sub;
+    int anchors = (a->kind == P_ANCHOR_RADIUS || a->kind == P_ANCHOR_X || a->kind == P_ANCHOR_Y) &&
+                  (b->kind == P_ANCHOR_RADIUS || b->kind == P_ANCHOR_X || b->kind == P_ANCHOR_Y);
+    if (!anchors || a->index != b->index)
+        return 0;
+    return (moves_anchor(a, 0) && moves_anchor(b, 0)) || (moves_anchor(a, 1) && moves_anchor(b, 1));
 }
 
 hf_status hf_model_param_set(hf_model *m, const hf_param *p, double value, hf_error *err)

@@ -1,5 +1,6 @@
 /* study.c - case spaces (grid, zip), shards and the ordered parallel row stream. */
 #include <errno.h>
+#include <float.h>
 #include <math.h>
 #include <omp.h>
 #include <stdio.h>
@@ -8,30 +9,90 @@
 #include "holdfast/alloc.h"
 #include "holdfast/study.h"
 
+/* ---- the study list ---- */
+
+void hf_study_list_init(hf_study_list *l)
+{
+    if (l)
+        memset(l, 0, sizeof *l);
+}
+
+static void study_clear(hf_study *s)
+{
+    hf_free(s->name);
+    for (size_t i = 0; i < s->nloads; i++)
+        hf_free(s->loads[i]);
+    hf_free(s->loads);
+    for (size_t i = 0; i < s->nvary; i++) {
+        hf_free(s->vary[i].path);
+        hf_free(s->vary[i].values);
+    }
+    hf_free(s->vary);
+    for (size_t i = 0; i < s->noutputs; i++)
+        hf_free(s->outputs[i]);
+    hf_free(s->outputs);
+    hf_free(s->target_output);
+    hf_free(s->target_line);
+}
+
+void hf_study_list_free(hf_study_list *l)
+{
+    if (!l)
+        return;
+    for (size_t i = 0; i < l->n; i++)
+        study_clear(&l->v[i]);
+    hf_free(l->v);
+    hf_study_list_init(l);
+}
+
+const char *hf_study_kind_name(hf_study_kind k)
+{
+    static const char *const names[] = {"lines", "curve", "stiffness", "balance", "sweep",
+                                        "invert"};
+    return (unsigned)k < sizeof names / sizeof names[0] ? names[k] : "?";
+}
+
+/* ---- ranges ---- */
+
+/* The tolerance of the range rule, in steps: 1e-9 of a step for rounding
+ * in the division, plus 64 ulps of the values' magnitude (the rounding of
+ * TO - FROM, which grows with the values, not with the step). */
+static double range_tol(double from, double to, double step)
+{
+    return 1e-9 + 64.0 * DBL_EPSILON * fmax(fabs(from), fabs(to)) / fabs(step);
+}
+
+size_t hf_study_range_count(double from, double to, double step, size_t max)
+{
+    if (!isfinite(from) || !isfinite(to) || !isfinite(step) || step == 0.0)
+        return 0;
+    double span = to - from;
+    if (!isfinite(span) || (span != 0.0 && (span > 0) != (step > 0)))
+        return 0;
+    double n = floor(span / step + range_tol(from, to, step)) + 1.0;
+    if (!(n >= 1.0))
+        return 0;
+    if (n > (double)max)
+        return max + 1;
+    return (size_t)n;
+}
+
 size_t hf_study_vary_count(const hf_vary *v)
 {
     if (v->nvalues > 0)
         return v->nvalues;
-    double span = v->to - v->from;
-    if (!isfinite(v->from) || !isfinite(v->to) || !isfinite(v->step) || v->step == 0.0)
-        return 0;
-    if (span != 0.0 && (span > 0) != (v->step > 0))
-        return 0;
-    /* Same rule as hf_cli_parse_range: TO is included when it lies on the grid
-     * up to rounding (1e-9 of a step). */
-    double n = floor(span / v->step + 1e-9) + 1.0;
-    if (!(n >= 1.0))
-        return 0;
-    if (n > (double)HF_STUDY_MAX_VALUES)
-        return (size_t)HF_STUDY_MAX_VALUES + 1;
-    return (size_t)n;
+    return hf_study_range_count(v->from, v->to, v->step, HF_STUDY_MAX_VALUES);
 }
 
 double hf_study_vary_value(const hf_vary *v, size_t i)
 {
     if (v->nvalues > 0)
         return v->values[i];
-    return v->from + (double)i * v->step;
+    double x = v->from + (double)i * v->step;
+    /* The end point lies on the grid up to rounding: give TO itself. */
+    if (fabs(x - v->to) <= range_tol(v->from, v->to, v->step) * fabs(v->step))
+        return v->to;
+    return x;
 }
 
 hf_status hf_study_grid_init(hf_study_grid *g, const hf_vary *vary, size_t nvary, int zip,
@@ -202,6 +263,8 @@ static int run_chain(const block_job *b, const slab *sl, uint64_t c0, long c, in
 /* Writes a computed slab's rows in case order; 0 on success. */
 static int write_slab(const block_job *b, const slab *sl, FILE *out)
 {
+    if (!out)
+        return 0; /* rows kept in memory only (the row function's business) */
     for (uint64_t k = sl->b0; k < sl->b1; k++) {
         size_t n = (size_t)sl->len[k - sl->b0];
         if (n && fwrite(sl->buf + (size_t)(k - sl->b0) * b->row_cap, 1, n, out) != n)
@@ -237,7 +300,7 @@ static int step(const block_job *b, const slab *next, const slab *done, FILE *ou
 hf_status hf_study_stream(uint64_t begin, uint64_t end, void **states, hf_study_row_fn row,
                           const hf_study_stream_options *opt, FILE *out, hf_error *err)
 {
-    if (!opt || opt->jobs < 1 || opt->row_cap < 2 || !states || !row || !out || begin > end)
+    if (!opt || opt->jobs < 1 || opt->row_cap < 2 || !states || !row || begin > end)
         return hf_error_set(err, HF_EINVAL, "hf_study_stream: invalid arguments");
     size_t block = opt->block;
     if (block == 0) {

@@ -2,45 +2,13 @@
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
+#include <stdint.h>
 #include <string.h>
 #include "holdfast/alloc.h"
 #include "holdfast/csv.h"
 #include "holdfast/sweep.h"
 
 #define NONE ((size_t)-1)
-
-static const struct {
-    const char *name;
-    int per_line;
-} kinds[HF_OUT_COUNT] = {
-    [HF_OUT_FAIRLEAD_TENSION] = {"fairlead_tension", 1},
-    [HF_OUT_FAIRLEAD_HORIZONTAL] = {"fairlead_horizontal", 1},
-    [HF_OUT_FAIRLEAD_VERTICAL] = {"fairlead_vertical", 1},
-    [HF_OUT_ANCHOR_TENSION] = {"anchor_tension", 1},
-    [HF_OUT_UTILISATION] = {"utilisation", 1},
-    [HF_OUT_MAX_TENSION] = {"max_tension", 0},
-    [HF_OUT_MAX_UTILISATION] = {"max_utilisation", 0},
-    [HF_OUT_STIFFNESS_SURGE] = {"stiffness_surge", 0},
-    [HF_OUT_STIFFNESS_SWAY] = {"stiffness_sway", 0},
-    [HF_OUT_STIFFNESS_HEAVE] = {"stiffness_heave", 0},
-    [HF_OUT_STIFFNESS_YAW] = {"stiffness_yaw", 0},
-    [HF_OUT_VERTICAL_LOAD] = {"vertical_load", 0},
-    [HF_OUT_OFFSET] = {"offset_", 0},
-};
-
-static const char names_list[] =
-    "fairlead_tension[:LINE], fairlead_horizontal[:LINE], fairlead_vertical[:LINE], "
-    "anchor_tension[:LINE], utilisation[:LINE], max_tension, max_utilisation, "
-    "stiffness_surge, stiffness_sway, stiffness_heave, stiffness_yaw, vertical_load, "
-    "offset_<load>";
-
-static const char *const default_outputs[] = {"fairlead_tension", "utilisation",
-                                              "max_utilisation", "stiffness_surge"};
-
-const char *hf_sweep_output_name(hf_output_kind k)
-{
-    return (unsigned)k < HF_OUT_COUNT ? kinds[k].name : "?";
-}
 
 const char *hf_sweep_status_word(hf_status s)
 {
@@ -60,69 +28,13 @@ const char *hf_sweep_status_word(hf_status s)
     }
 }
 
-hf_status hf_sweep_output_parse(const hf_model *m, const char *text, hf_output *out,
-                                hf_error *err)
-{
-    memset(out, 0, sizeof *out);
-    out->line = HF_OUTPUT_ALL;
-    out->load = NONE;
-    const char *colon = strchr(text, ':');
-    size_t n = colon ? (size_t)(colon - text) : strlen(text);
-    if (n > 7 && !strncmp(text, "offset_", 7) && !colon) {
-        char name[HF_MODEL_MAX_NAME + 1];
-        if (n - 7 > HF_MODEL_MAX_NAME)
-            return hf_error_set(err, HF_EINVAL, "output \"%s\": load name too long", text);
-        memcpy(name, text + 7, n - 7);
-        name[n - 7] = '\0';
-        size_t li = hf_model_load_find(m, name);
-        if (li == NONE)
-            return hf_error_set(err, HF_EINVAL,
-                                "output \"%s\": the case has no load named \"%s\" (offset_<load> "
-                                "takes a name from the loads: list)",
-                                text, name);
-        out->kind = HF_OUT_OFFSET;
-        out->load = li;
-        return HF_OK;
-    }
-    for (int k = 0; k < HF_OUT_COUNT; k++) {
-        if (k == HF_OUT_OFFSET || strlen(kinds[k].name) != n || strncmp(kinds[k].name, text, n))
-            continue;
-        out->kind = (hf_output_kind)k;
-        if (!colon)
-            return HF_OK;
-        if (!kinds[k].per_line)
-            return hf_error_set(err, HF_EINVAL,
-                                "output \"%s\": %s is one value for the spread and takes no "
-                                ":LINE",
-                                text, kinds[k].name);
-        size_t li = hf_model_line_find(m, colon + 1);
-        if (li == NONE)
-            return hf_error_set(err, HF_EINVAL, "output \"%s\": the case has no line named \"%s\"",
-                                text, colon + 1);
-        out->line = li;
-        return HF_OK;
-    }
-    return hf_error_set(err, HF_EINVAL, "unknown output \"%s\"; expected one of %s", text,
-                        names_list);
-}
-
-int hf_sweep_output_is_scalar(const hf_output *o)
-{
-    if ((unsigned)o->kind >= HF_OUT_COUNT)
-        return 0;
-    if (kinds[o->kind].per_line)
-        return o->line != HF_OUTPUT_ALL;
-    return 1;
-}
-
 /* ---- evaluation ---- */
 
-/* One CSV column of outputs. */
+/* One CSV column of outputs: the catalogue's column and, for an offset,
+ * the slot of its load among the distinct loads solved per case. */
 typedef struct {
-    hf_output_kind kind;
-    size_t line;   /* per-line kinds */
-    size_t slot;   /* HF_OUT_OFFSET: index into the distinct loads */
-    int sub;       /* 0 value; 1 line name (max_tension/max_utilisation); offset: 0..2 */
+    hf_output_column c;
+    size_t slot;
 } column;
 
 typedef struct {
@@ -136,6 +48,7 @@ typedef struct {
     hf_status solved;            /* spread status of the current case */
     hf_status *bal_status;       /* per distinct load */
     double (*bal_offset)[3];     /* per distinct load: surge, sway (m), yaw (rad) */
+    double *vals;                /* ncols: the current row's outputs, column units */
     uint64_t failed;             /* emitted cases whose status was not ok */
     hf_error err;
 } thread_state;
@@ -154,6 +67,7 @@ struct hf_sweep {
     int jobs;
     thread_state **th;
     size_t row_cap;
+    hf_sweep_table *table;       /* during hf_sweep_run: where rows are kept, or NULL */
 };
 
 static void thread_free(thread_state *t)
@@ -165,6 +79,7 @@ static void thread_free(thread_state *t)
     hf_model_free(&t->model);
     hf_free(t->bal_status);
     hf_free(t->bal_offset);
+    hf_free(t->vals);
     hf_free(t);
 }
 
@@ -187,6 +102,11 @@ static thread_state *thread_alloc(const hf_sweep *s, hf_error *err)
     t->ws = hf_spread_alloc(&t->model, err);
     if (!t->ws)
         goto fail;
+    t->vals = hf_calloc(s->ncols ? s->ncols : 1, sizeof *t->vals);
+    if (!t->vals) {
+        hf_error_set(err, HF_ENOMEM, "out of memory for a sweep thread");
+        goto fail;
+    }
     if (s->nbal) {
         t->bal = hf_balance_alloc(&t->model, err);
         t->bal_status = hf_calloc(s->nbal, sizeof *t->bal_status);
@@ -234,6 +154,10 @@ static hf_status evaluate(thread_state *t, uint64_t k)
     hf_status st = t->solved;
     if (st != HF_OK)
         return st;
+    /* The balance starts from the rest pose of this case (hull.heading and
+     * position, anchors and fairleads may be varied). */
+    if (t->bal)
+        hf_balance_refresh(t->bal);
     for (size_t b = 0; b < s->nbal; b++) {
         hf_status bs = HF_ENOMEM;
         const hf_balance_result *r = NULL;
@@ -310,10 +234,43 @@ static double spread_value(const thread_state *t, hf_output_kind kind)
     }
 }
 
-/* SI -> the column's unit: kN for forces, kN/m, kN m/rad, deg. */
-static double column_scale(hf_output_kind kind)
+/* The varied values of case k in their column units (deg for angles). */
+static void vary_values(const hf_sweep *s, uint64_t k, double *v)
 {
-    return kind == HF_OUT_UTILISATION || kind == HF_OUT_MAX_UTILISATION ? 1.0 : 1e-3;
+    hf_study_grid_values(&s->grid, k, v);
+    for (size_t j = 0; j < s->grid.nvary; j++)
+        if (s->dim[j] == HF_DIM_ANGLE)
+            v[j] *= 180.0 / M_PI;
+}
+
+/* The value of one output column of the solved case, in the column's unit;
+ * NAN for an empty cell.  Line-name columns give the line's index. */
+static double column_value(const thread_state *t, const column *col)
+{
+    const hf_output_column *c = &col->c;
+    if (c->kind == HF_OUT_OFFSET) {
+        if (t->bal_status[col->slot] != HF_OK)
+            return NAN;
+        return t->bal_offset[col->slot][c->sub] * hf_output_column_scale(c);
+    }
+    if (hf_output_column_is_line(c)) {
+        size_t li = c->kind == HF_OUT_MAX_TENSION ? t->res.max_tension_line
+                                                  : t->res.max_utilisation_line;
+        return li < t->plan->base->nlines ? (double)li : NAN;
+    }
+    if (hf_output_info_of(c->kind)->per_line)
+        return line_value(t, c->kind, c->line) * hf_output_column_scale(c);
+    return spread_value(t, c->kind) * hf_output_column_scale(c);
+}
+
+/* Every output of the case into t->vals: all empty (NAN) unless the case
+ * solved in full (status ok), so a row whose status says a load case found
+ * no equilibrium carries no rest-pose numbers either. */
+static void row_values(thread_state *t, hf_status st)
+{
+    const hf_sweep *s = t->plan;
+    for (size_t c = 0; c < s->ncols; c++)
+        t->vals[c] = st == HF_OK ? column_value(t, &s->cols[c]) : NAN;
 }
 
 static int format_row(thread_state *t, uint64_t k, hf_status st, char *buf, size_t cap)
@@ -322,45 +279,21 @@ static int format_row(thread_state *t, uint64_t k, hf_status st, char *buf, size
     if (cap < s->row_cap)
         return (int)cap;
     double v[HF_STUDY_MAX_VARY];
-    hf_study_grid_values(&s->grid, k, v);
+    vary_values(s, k, v);
     char *p = buf;
-    for (size_t j = 0; j < s->grid.nvary; j++) {
-        double x = s->dim[j] == HF_DIM_ANGLE ? v[j] * (180.0 / M_PI) : v[j];
-        p = put_num(p, x);
-    }
+    for (size_t j = 0; j < s->grid.nvary; j++)
+        p = put_num(p, v[j]);
     /* The first field has no leading comma: shift the row left by one. */
     memmove(buf, buf + 1, (size_t)(p - buf - 1));
     p--;
     p = put_text(p, hf_sweep_status_word(st));
-    int solved = t->solved == HF_OK;
+    row_values(t, st);
     for (size_t c = 0; c < s->ncols; c++) {
-        const column *col = &s->cols[c];
-        if (col->kind == HF_OUT_OFFSET) {
-            if (t->bal_status[col->slot] != HF_OK || !solved) {
-                *p++ = ',';
-                continue;
-            }
-            double x = t->bal_offset[col->slot][col->sub];
-            p = put_num(p, col->sub == 2 ? x * (180.0 / M_PI) : x);
-            continue;
-        }
-        if (!solved) {
-            *p++ = ',';
-            continue;
-        }
-        if (kinds[col->kind].per_line) {
-            p = put_num(p, line_value(t, col->kind, col->line) * column_scale(col->kind));
-        } else if (col->sub == 1) {
-            size_t li = col->kind == HF_OUT_MAX_TENSION ? t->res.max_tension_line
-                                                        : t->res.max_utilisation_line;
-            *p++ = ',';
-            if (li < s->base->nlines) {
-                size_t n = strlen(s->qname[li]);
-                memcpy(p, s->qname[li], n);
-                p += n;
-            }
+        double x = t->vals[c];
+        if (hf_output_column_is_line(&s->cols[c].c)) {
+            p = put_text(p, isfinite(x) ? s->qname[(size_t)x] : "");
         } else {
-            p = put_num(p, spread_value(t, col->kind) * column_scale(col->kind));
+            p = put_num(p, x);
         }
     }
     *p++ = '\n';
@@ -368,25 +301,34 @@ static int format_row(thread_state *t, uint64_t k, hf_status st, char *buf, size
     return (int)(p - buf);
 }
 
+/* Keeps case k's row in the table when it has room (cases are distinct, so
+ * threads write distinct rows; the counters are per thread, summed after). */
+static void keep_row(thread_state *t, uint64_t k, hf_status st)
+{
+    hf_sweep_table *tb = t->plan->table;
+    if (!tb || k < tb->first || k - tb->first >= tb->cap)
+        return;
+    uint64_t i = k - tb->first;
+    vary_values(t->plan, k, tb->vary + i * tb->nvary);
+    tb->status[i] = st;
+    memcpy(tb->out + i * tb->ncols, t->vals, tb->ncols * sizeof *t->vals);
+}
+
 static int sweep_row(void *state, uint64_t k, int start, int emit, char *buf, size_t cap)
 {
     thread_state *t = state;
     if (start) {
         hf_spread_reset(t->ws);
-        /* hf_balance keeps warm starts with no public reset: a fresh workspace
-         * per chain keeps the offsets independent of thread and shard (one
-         * allocation per HF_STUDY_CHAIN cases, only with offset outputs). */
-        if (t->plan->nbal) {
-            hf_balance_free(t->bal);
-            t->bal = hf_balance_alloc(&t->model, NULL);
-        }
+        hf_balance_reset(t->bal); /* NULL without offset outputs */
     }
     hf_status st = evaluate(t, k);
     if (!emit)
         return 0;
     if (st != HF_OK)
         t->failed++;
-    return format_row(t, k, st, buf, cap);
+    int n = format_row(t, k, st, buf, cap);
+    keep_row(t, k, st);
+    return n;
 }
 
 /* ---- set-up ---- */
@@ -433,56 +375,81 @@ static hf_status add_column(hf_sweep *s, size_t *cap, column c)
     return HF_OK;
 }
 
+/* The slot of load li among the distinct loads of offset outputs. */
+static size_t balance_slot(hf_sweep *s, size_t li)
+{
+    size_t b = 0;
+    while (b < s->nbal && s->bal_load[b] != li)
+        b++;
+    if (b == s->nbal)
+        s->bal_load[s->nbal++] = li;
+    return b;
+}
+
+/* Appends the catalogue's columns of output o (slot: its load's slot). */
+static hf_status add_columns(hf_sweep *s, const hf_output *o, size_t slot, size_t *cap)
+{
+    size_t n = hf_output_columns(s->base, o, NULL, 0);
+    hf_output_column *oc = hf_calloc(n ? n : 1, sizeof *oc);
+    if (!oc)
+        return HF_ENOMEM;
+    hf_output_columns(s->base, o, oc, n);
+    hf_status st = HF_OK;
+    for (size_t i = 0; i < n && st == HF_OK; i++) {
+        column c = {oc[i], slot};
+        st = add_column(s, cap, c);
+    }
+    hf_free(oc);
+    return st;
+}
+
 static hf_status plan_outputs(hf_sweep *s, const char *const *outputs, size_t noutputs,
                               hf_error *err)
 {
-    const hf_model *m = s->base;
-    if (noutputs == 0) {
-        outputs = default_outputs;
-        noutputs = sizeof default_outputs / sizeof default_outputs[0];
-    }
+    if (noutputs == 0)
+        outputs = hf_output_defaults(&noutputs);
     s->bal_load = hf_calloc(noutputs, sizeof *s->bal_load);
     if (!s->bal_load)
         return hf_error_set(err, HF_ENOMEM, "out of memory planning the sweep outputs");
     size_t cap = 0;
     for (size_t o = 0; o < noutputs; o++) {
         hf_output out;
-        hf_status st = hf_sweep_output_parse(m, outputs[o], &out, err);
+        hf_status st = hf_output_parse(s->base, outputs[o], &out, err);
         if (st != HF_OK)
             return st;
-        column c = {out.kind, 0, 0, 0};
         if (out.kind >= HF_OUT_STIFFNESS_SURGE && out.kind <= HF_OUT_STIFFNESS_YAW)
             s->need_k = 1;
-        if (out.kind == HF_OUT_OFFSET) {
-            size_t b = 0;
-            while (b < s->nbal && s->bal_load[b] != out.load)
-                b++;
-            if (b == s->nbal)
-                s->bal_load[s->nbal++] = out.load;
-            c.slot = b;
-            for (int k = 0; k < 3 && st == HF_OK; k++) {
-                c.sub = k;
-                st = add_column(s, &cap, c);
-            }
-        } else if (kinds[out.kind].per_line) {
-            size_t lo = out.line == HF_OUTPUT_ALL ? 0 : out.line;
-            size_t hi = out.line == HF_OUTPUT_ALL ? m->nlines : out.line + 1;
-            for (size_t i = lo; i < hi && st == HF_OK; i++) {
-                c.line = i;
-                st = add_column(s, &cap, c);
-            }
-        } else {
-            st = add_column(s, &cap, c);
-            if (st == HF_OK &&
-                (out.kind == HF_OUT_MAX_TENSION || out.kind == HF_OUT_MAX_UTILISATION)) {
-                c.sub = 1;
-                st = add_column(s, &cap, c);
-            }
-        }
-        if (st != HF_OK)
+        size_t slot = out.kind == HF_OUT_OFFSET ? balance_slot(s, out.load) : 0;
+        if (add_columns(s, &out, slot, &cap) != HF_OK)
             return hf_error_set(err, HF_ENOMEM, "out of memory planning the sweep outputs");
     }
     return HF_OK;
+}
+
+/* Checks every path on (a copy of) the model first, for a clear message,
+ * records their dimensions and refuses a parameter varied twice (also
+ * through another spelling or an overlapping path: hf_model_param_same). */
+static hf_status check_paths(hf_sweep *s, const hf_model *m, const hf_vary *vary, size_t nvary,
+                             hf_error *err)
+{
+    hf_model probe;
+    hf_model_init(&probe);
+    if (hf_model_copy(&probe, m) != HF_OK)
+        return hf_error_set(err, HF_ENOMEM, "out of memory preparing the sweep");
+    hf_param p[HF_STUDY_MAX_VARY];
+    hf_status st = HF_OK;
+    for (size_t j = 0; j < nvary && st == HF_OK; j++) {
+        st = hf_model_param_lookup(&probe, vary[j].path, &p[j], err);
+        s->dim[j] = p[j].dim;
+        for (size_t i = 0; i < j && st == HF_OK; i++)
+            if (hf_model_param_same(&p[i], &p[j]))
+                st = hf_error_set(err, HF_EINVAL,
+                                  "the parameter %s is varied twice: \"%s\" sets the same value "
+                                  "as \"%s\"; vary each parameter once",
+                                  vary[j].path, vary[j].path, vary[i].path);
+    }
+    hf_model_free(&probe);
+    return st;
 }
 
 hf_sweep *hf_sweep_alloc(const hf_model *m, const hf_vary *vary, size_t nvary, int zip,
@@ -505,24 +472,8 @@ hf_sweep *hf_sweep_alloc(const hf_model *m, const hf_vary *vary, size_t nvary, i
     s->vary = vary;
     if (hf_study_grid_init(&s->grid, vary, nvary, zip, err) != HF_OK)
         goto fail;
-    /* Check every path on the model first, for a clear message. */
-    {
-        hf_model probe;
-        hf_model_init(&probe);
-        if (hf_model_copy(&probe, m) != HF_OK) {
-            hf_error_set(err, HF_ENOMEM, "out of memory preparing the sweep");
-            goto fail;
-        }
-        hf_status st = HF_OK;
-        for (size_t j = 0; j < nvary && st == HF_OK; j++) {
-            hf_param p;
-            st = hf_model_param_lookup(&probe, vary[j].path, &p, err);
-            s->dim[j] = p.dim;
-        }
-        hf_model_free(&probe);
-        if (st != HF_OK)
-            goto fail;
-    }
+    if (check_paths(s, m, vary, nvary, err) != HF_OK)
+        goto fail;
     if (plan_outputs(s, outputs, noutputs, err) != HF_OK)
         goto fail;
     s->qname = hf_calloc(m->nlines, sizeof *s->qname);
@@ -587,54 +538,26 @@ const hf_study_grid *hf_sweep_grid(const hf_sweep *s)
     return &s->grid;
 }
 
-static const char *unit_suffix(hf_output_kind kind)
+/* The column name of varied parameter j: its path and unit ("site.depth_m"). */
+static void vary_name(const hf_sweep *s, size_t j, char *buf, size_t cap)
 {
-    switch (kind) {
-    case HF_OUT_UTILISATION:
-    case HF_OUT_MAX_UTILISATION:
-        return "";
-    case HF_OUT_STIFFNESS_SURGE:
-    case HF_OUT_STIFFNESS_SWAY:
-    case HF_OUT_STIFFNESS_HEAVE:
-        return "_kN_per_m";
-    case HF_OUT_STIFFNESS_YAW:
-        return "_kNm_per_rad";
-    default:
-        return "_kN";
-    }
+    char u[32];
+    hf_output_unit_for_column(s->dim[j], u, sizeof u);
+    snprintf(buf, cap, "%s%s%s", s->vary[j].path, *u ? "_" : "", u);
 }
 
 hf_status hf_sweep_write_header(const hf_sweep *s, FILE *out, hf_error *err)
 {
-    const hf_model *m = s->base;
     hf_csv c;
     hf_csv_init(&c, out, 0);
     char name[2 * HF_MODEL_MAX_NAME + 4096];
     for (size_t j = 0; j < s->grid.nvary; j++) {
-        hf_dim d = s->dim[j];
-        const char *u = d == HF_DIM_ANGLE ? "deg" : hf_dim_si(d);
-        snprintf(name, sizeof name, "%s%s%s", s->vary[j].path, *u ? "_" : "", u);
+        vary_name(s, j, name, sizeof name);
         hf_csv_field_str(&c, name);
     }
     hf_csv_field_str(&c, "status");
-    static const char *const line_prefix[] = {
-        [HF_OUT_FAIRLEAD_TENSION] = "T_", [HF_OUT_FAIRLEAD_HORIZONTAL] = "H_",
-        [HF_OUT_FAIRLEAD_VERTICAL] = "V_", [HF_OUT_ANCHOR_TENSION] = "anchor_T_",
-        [HF_OUT_UTILISATION] = "U_"};
-    static const char *const off_name[] = {"surge_m", "sway_m", "yaw_deg"};
     for (size_t i = 0; i < s->ncols; i++) {
-        const column *col = &s->cols[i];
-        if (col->kind == HF_OUT_OFFSET)
-            snprintf(name, sizeof name, "offset_%s_%s", m->loads[s->bal_load[col->slot]].name,
-                     off_name[col->sub]);
-        else if (kinds[col->kind].per_line)
-            snprintf(name, sizeof name, "%s%s%s", line_prefix[col->kind], m->lines[col->line].name,
-                     unit_suffix(col->kind));
-        else if (col->sub == 1)
-            snprintf(name, sizeof name, "%s",
-                     col->kind == HF_OUT_MAX_TENSION ? "max_tension_line" : "worst_line");
-        else
-            snprintf(name, sizeof name, "%s%s", kinds[col->kind].name, unit_suffix(col->kind));
+        hf_output_column_name(s->base, &s->cols[i].c, name, sizeof name);
         hf_csv_field_str(&c, name);
     }
     hf_csv_end_row(&c);
@@ -643,11 +566,105 @@ hf_status hf_sweep_write_header(const hf_sweep *s, FILE *out, hf_error *err)
     return HF_OK;
 }
 
-hf_status hf_sweep_write_rows(hf_sweep *s, const hf_sweep_range *r, FILE *out, hf_error *err)
+/* ---- rows in memory ---- */
+
+void hf_sweep_table_free(hf_sweep_table *t)
+{
+    if (!t)
+        return;
+    for (size_t j = 0; t->vary_names && j < t->nvary; j++)
+        hf_free(t->vary_names[j]);
+    for (size_t c = 0; t->col_names && c < t->ncols; c++)
+        hf_free(t->col_names[c]);
+    hf_free(t->vary_names);
+    hf_free(t->col_names);
+    hf_free(t->vary_dim);
+    hf_free(t->cols);
+    hf_free(t->vary);
+    hf_free(t->status);
+    hf_free(t->out);
+    hf_free(t);
+}
+
+/* The table's column names and kinds, copied from the sweep; 0 on failure. */
+static int table_columns(hf_sweep_table *t, const hf_sweep *s)
+{
+    char name[2 * HF_MODEL_MAX_NAME + 4096];
+    t->vary_names = hf_calloc(t->nvary, sizeof *t->vary_names);
+    t->vary_dim = hf_calloc(t->nvary, sizeof *t->vary_dim);
+    t->col_names = hf_calloc(t->ncols ? t->ncols : 1, sizeof *t->col_names);
+    t->cols = hf_calloc(t->ncols ? t->ncols : 1, sizeof *t->cols);
+    if (!t->vary_names || !t->vary_dim || !t->col_names || !t->cols)
+        return 0;
+    for (size_t j = 0; j < t->nvary; j++) {
+        vary_name(s, j, name, sizeof name);
+        t->vary_dim[j] = s->dim[j];
+        if (!(t->vary_names[j] = hf_strdup(name)))
+            return 0;
+    }
+    for (size_t c = 0; c < t->ncols; c++) {
+        t->cols[c] = s->cols[c].c;
+        hf_output_column_name(s->base, &s->cols[c].c, name, sizeof name);
+        if (!(t->col_names[c] = hf_strdup(name)))
+            return 0;
+    }
+    return 1;
+}
+
+hf_sweep_table *hf_sweep_table_alloc(const hf_sweep *s, uint64_t cap, hf_error *err)
+{
+    if (!s || cap == 0) {
+        hf_error_set(err, HF_EINVAL, "a sweep table needs a sweep and room for a row");
+        return NULL;
+    }
+    size_t width = s->grid.nvary + s->ncols + 1;
+    if (cap > SIZE_MAX / (width * sizeof(double) + sizeof(hf_status))) {
+        hf_error_set(err, HF_ENOMEM, "a sweep table of %llu rows does not fit in memory",
+                     (unsigned long long)cap);
+        return NULL;
+    }
+    hf_sweep_table *t = hf_calloc(1, sizeof *t);
+    if (t) {
+        t->nvary = s->grid.nvary;
+        t->ncols = s->ncols;
+        t->cap = cap;
+        t->vary = hf_calloc((size_t)cap * (t->nvary ? t->nvary : 1), sizeof *t->vary);
+        t->out = hf_calloc((size_t)cap * (t->ncols ? t->ncols : 1), sizeof *t->out);
+        t->status = hf_calloc((size_t)cap, sizeof *t->status);
+    }
+    if (!t || !t->vary || !t->out || !t->status || !table_columns(t, s)) {
+        hf_sweep_table_free(t);
+        hf_error_set(err, HF_ENOMEM, "out of memory for a sweep table of %llu rows",
+                     (unsigned long long)cap);
+        return NULL;
+    }
+    return t;
+}
+
+/* Counts what the table holds after a run of [begin, end). */
+static void table_close(hf_sweep_table *t, uint64_t begin, uint64_t end)
+{
+    t->total = end - begin;
+    t->nrows = t->total < t->cap ? t->total : t->cap;
+    t->failed = 0;
+    for (uint64_t i = 0; i < t->nrows; i++)
+        t->failed += t->status[i] != HF_OK;
+}
+
+hf_status hf_sweep_run(hf_sweep *s, const hf_sweep_range *r, FILE *out, hf_sweep_table *t,
+                       hf_error *err)
 {
     if (!r || r->begin > r->end || r->end > s->grid.ncases)
         return hf_error_set(err, HF_EINVAL, "sweep: case range outside 0..%llu",
                             (unsigned long long)s->grid.ncases);
+    if (!out && !t)
+        return hf_error_set(err, HF_EINVAL, "sweep: neither a CSV stream nor a table to fill");
+    if (t && (t->nvary != s->grid.nvary || t->ncols != s->ncols))
+        return hf_error_set(err, HF_EINVAL, "sweep: the table was made for another sweep");
+    if (t) {
+        t->first = r->begin;
+        t->nrows = t->total = t->failed = 0;
+    }
     hf_study_stream_options o;
     memset(&o, 0, sizeof o);
     o.jobs = s->jobs;
@@ -655,7 +672,19 @@ hf_status hf_sweep_write_rows(hf_sweep *s, const hf_sweep_range *r, FILE *out, h
     o.progress = r->progress;
     o.progress_ctx = r->progress_ctx;
     o.stop = r->stop;
-    return hf_study_stream(r->begin, r->end, (void **)s->th, sweep_row, &o, out, err);
+    s->table = t;
+    hf_status st = hf_study_stream(r->begin, r->end, (void **)s->th, sweep_row, &o, out, err);
+    s->table = NULL;
+    if (t && st == HF_OK)
+        table_close(t, r->begin, r->end);
+    return st;
+}
+
+hf_status hf_sweep_write_rows(hf_sweep *s, const hf_sweep_range *r, FILE *out, hf_error *err)
+{
+    if (!out)
+        return hf_error_set(err, HF_EINVAL, "sweep: no stream to write the rows to");
+    return hf_sweep_run(s, r, out, NULL, err);
 }
 
 hf_status hf_sweep_case_row(hf_sweep *s, uint64_t k, char *buf, size_t cap, hf_error *err)
@@ -667,10 +696,7 @@ hf_status hf_sweep_case_row(hf_sweep *s, uint64_t k, char *buf, size_t cap, hf_e
         return hf_error_set(err, HF_ELIMIT, "sweep: a row needs up to %zu bytes", s->row_cap);
     thread_state *t = s->th[0];
     hf_spread_reset(t->ws);
-    if (s->nbal) {
-        hf_balance_free(t->bal);
-        t->bal = hf_balance_alloc(&t->model, NULL);
-    }
+    hf_balance_reset(t->bal);
     hf_status st = evaluate(t, k);
     format_row(t, k, st, buf, cap);
     return HF_OK;
@@ -680,9 +706,9 @@ hf_status hf_sweep_output_eval(const hf_model *m, hf_spread *ws, hf_balance *bal
                                const hf_output *o, double *value, hf_error *err)
 {
     *value = 0.0;
-    if (!hf_sweep_output_is_scalar(o))
+    if (!hf_output_is_scalar(o))
         return hf_error_set(err, HF_EINVAL, "output %s is not a single value",
-                            hf_sweep_output_name(o->kind));
+                            hf_output_name(o->kind));
     hf_pose pose;
     hf_spread_pose_rest(m, &pose);
     if (o->kind == HF_OUT_OFFSET) {
@@ -702,7 +728,7 @@ hf_status hf_sweep_output_eval(const hf_model *m, hf_spread *ws, hf_balance *bal
         st = hf_spread_solve(ws, &pose, &t.res, err);
     if (st != HF_OK)
         return st;
-    *value = kinds[o->kind].per_line ? line_value(&t, o->kind, o->line)
+    *value = hf_output_info_of(o->kind)->per_line ? line_value(&t, o->kind, o->line)
                                      : spread_value(&t, o->kind);
     return HF_OK;
 }

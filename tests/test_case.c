@@ -278,7 +278,16 @@ static void minimal_case_is_valid(void **state)
     assert_string_equal(m.source_path, "t.yaml");
     assert_null(m.criteria.preset);
     assert_int_equal(m.nloads, 0);
-    assert_int_equal(m.nstudies, 0);
+    hf_model_free(&m);
+    /* no studies: section gives an empty study list */
+    hf_study_list sl;
+    hf_study_list_init(&sl);
+    assert_int_equal(hf_case_load_buffer_with_studies(VALID, strlen(VALID), "t.yaml", &m, &sl,
+                                                      &err),
+                     HF_OK);
+    assert_int_equal(sl.n, 0);
+    assert_null(sl.v);
+    hf_study_list_free(&sl);
     hf_model_free(&m);
 }
 
@@ -492,7 +501,10 @@ static void full_case_loads(void **state)
     hf_model m;
     hf_error err;
     hf_model_init(&m);
-    hf_status st = hf_case_load_buffer(full_case, strlen(full_case), "full.yaml", &m, &err);
+    hf_study_list sl;
+    hf_study_list_init(&sl);
+    hf_status st = hf_case_load_buffer_with_studies(full_case, strlen(full_case), "full.yaml", &m,
+                                                    &sl, &err);
     if (st != HF_OK)
         fail_msg("%s", err.text);
     const double deg = M_PI / 180.0;
@@ -574,8 +586,8 @@ static void full_case_loads(void **state)
     HF_TEST_ASSERT_NEAR(m.criteria.max_offset, 25 * 0.3048, 1e-12);
     assert_non_null(m.criteria.source);
 
-    assert_int_equal(m.nstudies, 8);
-    const hf_study *s = m.studies;
+    assert_int_equal(sl.n, 8);
+    const hf_study *s = sl.v;
     assert_int_equal(s[0].kind, HF_STUDY_LINES);
     HF_TEST_ASSERT_NEAR(s[0].offset[1], -2.0, 1e-12);
     HF_TEST_ASSERT_NEAR(s[0].offset[2], 3 * deg, 1e-12);
@@ -603,6 +615,9 @@ static void full_case_loads(void **state)
     HF_TEST_ASSERT_NEAR(s[6].target_value, 150e3, 1e-9);
     assert_null(s[7].target_line);
     HF_TEST_ASSERT_NEAR(s[7].target_value, 25e3, 1e-9); /* kN/m -> N/m */
+    hf_study_list_free(&sl);
+    hf_study_list_free(&sl); /* twice is fine: free re-initialises */
+    hf_study_list_free(NULL);
     hf_model_free(&m);
     hf_model_free(&m); /* twice is fine: free re-initialises */
 }
@@ -645,17 +660,19 @@ static void demo_cases_load(void **state)
     hf_error err;
     hf_model_init(&m);
 
+    hf_study_list sl;
+    hf_study_list_init(&sl);
     hf_test_root_path(path, sizeof path, "cases/barge.yaml");
-    if (hf_case_load(path, &m, &err) != HF_OK)
+    if (hf_case_load_with_studies(path, &m, &sl, &err) != HF_OK)
         fail_msg("%s", err.text);
     assert_int_equal(m.nlines, 8);
     assert_int_equal(m.nloads, 3);
-    assert_int_equal(m.nstudies, 6);
+    assert_int_equal(sl.n, 6);
     assert_string_equal(m.criteria.preset, "api-rp-2sk");
     assert_true(m.hull.noutline >= 3);
     int kinds = 0;
-    for (size_t i = 0; i < m.nstudies; i++)
-        kinds |= 1 << m.studies[i].kind;
+    for (size_t i = 0; i < sl.n; i++)
+        kinds |= 1 << sl.v[i].kind;
     assert_int_equal(kinds, 0x3f); /* every study kind appears */
     for (size_t i = 0; i < m.nlines; i++) {
         assert_int_equal(m.lines[i].line.n, 3);       /* chain - wire - chain */
@@ -667,7 +684,7 @@ static void demo_cases_load(void **state)
     hf_model_free(&m);
 
     hf_test_root_path(path, sizeof path, "cases/marina.yaml");
-    if (hf_case_load(path, &m, &err) != HF_OK)
+    if (hf_case_load_with_studies(path, &m, &sl, &err) != HF_OK)
         fail_msg("%s", err.text);
     assert_int_equal(m.nlines, 4);
     assert_true(hf_model_water_height(&m) >= 4.0 && m.site.depth <= 8.0);
@@ -675,11 +692,11 @@ static void demo_cases_load(void **state)
         assert_int_equal(m.lines[i].anchor_spec.kind, HF_ANCHOR_GRAVITY);
     assert_string_equal(m.criteria.preset, "ufc-4-159-03");
     int tide = 0;
-    for (size_t i = 0; i < m.nstudies; i++)
-        if (m.studies[i].kind == HF_STUDY_SWEEP &&
-            !strcmp(m.studies[i].vary[0].path, "site.water_level"))
+    for (size_t i = 0; i < sl.n; i++)
+        if (sl.v[i].kind == HF_STUDY_SWEEP && !strcmp(sl.v[i].vary[0].path, "site.water_level"))
             tide = 1;
     assert_true(tide);
+    hf_study_list_free(&sl);
     hf_model_free(&m);
 
     hf_test_root_path(path, sizeof path, "cases/student.yaml");

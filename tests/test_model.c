@@ -143,9 +143,6 @@ static void copy_is_deep(void **state)
     assert_string_equal(b.lines[0].name, "east");
     assert_string_equal(b.title, a.title);
     assert_string_equal(b.criteria.preset, "iso-19901-7");
-    assert_string_equal(b.studies[0].vary[0].path, "lines[east].sections[1].clump");
-    HF_TEST_ASSERT_NEAR(b.studies[0].vary[0].values[1], 20e3, 1e-9);
-    assert_string_equal(b.studies[0].outputs[0], "max_utilisation");
     HF_TEST_ASSERT_NEAR(b.loads[0].moment, 1.5e6, 1e-6);
     HF_TEST_ASSERT_NEAR(b.lines[0].line.joint[0].load, 45e3, 1e-9);
     /* changing the copy leaves the source alone */
@@ -168,7 +165,9 @@ static void copy_is_deep(void **state)
         assert_int_equal(b.nlines, 0);
         assert_null(b.title);
     }
-    assert_true(n > 15);
+    /* 13 blocks: title, path, preset, the component, line and load arrays
+     * with their names, pieces and drag terms: every one was made to fail */
+    assert_true(n > 13);
     hf_model_free(&b);
     hf_model_free(&a);
 
@@ -229,7 +228,9 @@ static void lookup_every_path_form(void **state)
             fail_msg("%s: %s", ok[i].path, err.text);
         if (p.dim != ok[i].dim)
             fail_msg("%s: dimension %d, expected %d", ok[i].path, (int)p.dim, (int)ok[i].dim);
-        double v = hf_model_param_get(&m, &p);
+        double v = 0.0;
+        if (hf_model_param_get(&m, &p, &v, &err) != HF_OK)
+            fail_msg("%s: %s", ok[i].path, err.text);
         if (!(fabs(v - ok[i].value) <= 1e-9 * fmax(1.0, fabs(ok[i].value))))
             fail_msg("%s = %.12g, expected %.12g", ok[i].path, v, ok[i].value);
     }
@@ -275,7 +276,10 @@ static double get(hf_model *m, const char *path)
     hf_error err;
     if (hf_model_param_lookup(m, path, &p, &err) != HF_OK)
         fail_msg("%s", err.text);
-    return hf_model_param_get(m, &p);
+    double v = 0.0;
+    if (hf_model_param_get(m, &p, &v, &err) != HF_OK)
+        fail_msg("%s: %s", path, err.text);
+    return v;
 }
 
 static hf_status set(hf_model *m, const char *path, double v, hf_error *err)

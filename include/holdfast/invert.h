@@ -3,7 +3,7 @@
  * Flow: case -> model -> line solve -> spread -> **studies** -> writers.
  * Finds the value of one model parameter (a path of hf_model_param_lookup)
  * inside a bracket [lo, hi] for which one scalar output at the rest pose
- * (sweep.h names: fairlead_tension:LINE, fairlead_horizontal:LINE,
+ * (output catalogue names, outputs.h: fairlead_tension:LINE, fairlead_horizontal:LINE,
  * stiffness_surge, ...) equals a target, with GSL's Brent bracketing solver
  * (gsl_root_fsolver_brent; Brent, "Algorithms for Minimization without
  * Derivatives", 1973).  Examples: a section length for a pretension, the
@@ -31,12 +31,8 @@ typedef struct {
     double f_lo, f_hi;     /* the output at lo and hi, SI */
 } hf_invert_result;
 
-/* The dimension of a scalar output's value: force, force per length,
- * moment (stiffness_yaw, N m/rad), none (utilisation), length (offset). */
-hf_dim hf_invert_output_dim(const hf_output *o);
-
 /* Solves for the value of parameter `path` of model m (borrowed, not changed)
- * in [lo, hi] (SI, lo < hi) such that output o (hf_sweep_output_is_scalar)
+ * in [lo, hi] (SI, lo < hi) such that output o (hf_output_is_scalar)
  * equals target (SI).  Returns:
  *   HF_OK      res filled, relative error <= HF_INVERT_RTOL
  *   HF_EINVAL  bad path, bracket or output (message)
@@ -49,7 +45,7 @@ hf_status hf_invert_solve(const hf_model *m, const char *path, double lo, double
                           const hf_output *o, double target, hf_invert_result *res,
                           hf_error *err);
 
-/* Text of a study's target for hf_sweep_output_parse: "output" or
+/* Text of a study's target for hf_output_parse: "output" or
  * "output:line" into buf (cap bytes). */
 void hf_invert_target_text(const char *output, const char *line, char *buf, size_t cap);
 

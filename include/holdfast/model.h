@@ -1,5 +1,6 @@
-/* model.h - the parsed case: site, components, lines, hull, loads, criteria,
- * studies, all in SI units.
+/* model.h - the physical model of a case: site, components, lines, hull,
+ * loads, criteria, all in SI units.  The case's studies are not part of it:
+ * they are a list of their own (study.h, hf_study_list).
  *
  * Flow: case loader -> **model** -> line solve / spread / balance / studies.
  * The loader fills the "spec" fields; hf_model_resolve() derives component
@@ -103,38 +104,6 @@ typedef struct {
     const char *source;       /* static text: where the factors come from */
 } hf_criteria;
 
-typedef enum {
-    HF_STUDY_LINES = 0, HF_STUDY_CURVE, HF_STUDY_STIFFNESS, HF_STUDY_BALANCE,
-    HF_STUDY_SWEEP, HF_STUDY_INVERT
-} hf_study_kind;
-
-/* One varied parameter: a range (from, to, step) or a list of values. */
-typedef struct {
-    char *path;            /* e.g. "lines[bow-port].sections[2].length" */
-    hf_dim dim;
-    size_t nvalues;        /* list form: number of values, else 0 */
-    double *values;        /* list form, SI */
-    double from, to, step; /* range form (nvalues == 0), SI; also invert's bracket */
-} hf_vary;
-
-typedef struct {
-    char *name;            /* names the CSV file: <name>.csv */
-    hf_study_kind kind;
-    double offset[3];      /* lines, stiffness: x, y (m), heading (rad) offsets */
-    double direction;      /* curve: rad */
-    double from, to, step; /* curve: offsets, m */
-    size_t nloads;         /* balance: load names, 0 = all */
-    char **loads;
-    size_t nvary;          /* sweep: parameters; invert: exactly one */
-    hf_vary *vary;
-    int zip;               /* sweep: 1 = zipped lists, 0 = full factorial grid */
-    size_t noutputs;       /* sweep: chosen output names, 0 = defaults */
-    char **outputs;
-    char *target_output;   /* invert: "fairlead_tension", "fairlead_horizontal", "stiffness_surge", ... */
-    char *target_line;     /* invert: line name, where the output is per line */
-    double target_value;   /* invert: SI */
-} hf_study;
-
 typedef struct {
     char *title;
     char *source_path;     /* the case file's path, for messages and reports */
@@ -147,8 +116,6 @@ typedef struct {
     size_t nloads;
     hf_load *loads;
     hf_criteria criteria;
-    size_t nstudies;
-    hf_study *studies;
 } hf_model;
 
 /* Empty model (no lines); hf_model_free() works on it. */
@@ -190,9 +157,22 @@ typedef struct {
  * was expected when the path is unknown. */
 hf_status hf_model_param_lookup(hf_model *m, const char *path, hf_param *p, hf_error *err);
 
-/* Reads / sets the parameter's SI value; set re-resolves what depends on it
- * and returns HF_EINVAL when the value makes the model invalid. */
-double hf_model_param_get(const hf_model *m, const hf_param *p);
+/* Reads the parameter's SI value into *value.  HF_OK, or HF_EINVAL with a
+ * message (and *value untouched) for a parameter that was not looked up or
+ * whose value cannot be read (an index outside the model). */
+hf_status hf_model_param_get(const hf_model *m, const hf_param *p, double *value,
+                             hf_error *err);
+
+/* Sets the parameter's SI value; re-resolves what depends on it and returns
+ * HF_EINVAL when the value makes the model invalid (the model is then left
+ * as it was). */
 hf_status hf_model_param_set(hf_model *m, const hf_param *p, double value, hf_error *err);
+
+/* 1 when setting one parameter changes the value of the other: the same
+ * parameter (whatever the spelling: lines[0] / lines[NAME],
+ * components.NAME / components[NAME]) or overlapping ones (a line's
+ * anchor_radius with its anchor.x or anchor.y).  A sweep or a study must
+ * vary each parameter once. */
+int hf_model_param_same(const hf_param *a, const hf_param *b);
 
 #endif

@@ -26,14 +26,81 @@
 #define HF_STUDY_MAX_CASES 1000000000000ull  /* cases in one sweep (1e12) */
 #define HF_STUDY_MAX_SHARDS 1000000u         /* N of --shard K/N */
 
+/* ---- the study list of a case ----
+ *
+ * A case file's `studies:` section, loaded by the case loader beside the
+ * model (hf_case_load_with_studies) and validated there against the model
+ * and the output catalogue (outputs.h).  It is a list of its own: the model
+ * holds only the physical model.  Units SI (angles in rad). */
+
+typedef enum {
+    HF_STUDY_LINES = 0, HF_STUDY_CURVE, HF_STUDY_STIFFNESS, HF_STUDY_BALANCE,
+    HF_STUDY_SWEEP, HF_STUDY_INVERT
+} hf_study_kind;
+
+/* One varied parameter: a range (from, to, step) or a list of values. */
+typedef struct {
+    char *path;            /* e.g. "lines[bow-port].sections[2].length" */
+    hf_dim dim;
+    size_t nvalues;        /* list form: number of values, else 0 */
+    double *values;        /* list form, SI */
+    double from, to, step; /* range form (nvalues == 0), SI; also invert's bracket */
+} hf_vary;
+
+typedef struct {
+    char *name;            /* names the CSV file: <name>.csv */
+    hf_study_kind kind;
+    double offset[3];      /* lines, stiffness: x, y (m), heading (rad) offsets */
+    double direction;      /* curve: rad */
+    double from, to, step; /* curve: offsets, m */
+    size_t nloads;         /* balance: load names, 0 = all */
+    char **loads;
+    size_t nvary;          /* sweep: parameters; invert: exactly one */
+    hf_vary *vary;
+    int zip;               /* sweep: 1 = zipped lists, 0 = full factorial grid */
+    size_t noutputs;       /* sweep: chosen output names, 0 = defaults */
+    char **outputs;
+    char *target_output;   /* invert: "fairlead_tension", "fairlead_horizontal", "stiffness_surge", ... */
+    char *target_line;     /* invert: line name, where the output is per line */
+    double target_value;   /* invert: SI */
+} hf_study;
+
+/* The studies of a case, in file order.  Owns everything it points to. */
+typedef struct {
+    size_t n;
+    hf_study *v;
+} hf_study_list;
+
+/* Empty list. */
+void hf_study_list_init(hf_study_list *l);
+
+/* Releases everything the list owns and re-initialises it.  NULL is allowed. */
+void hf_study_list_free(hf_study_list *l);
+
+/* Stable name of a study kind ("lines", "curve", ..., "invert"); "?" out of range. */
+const char *hf_study_kind_name(hf_study_kind k);
+
+/* ---- ranges ---- */
+
+/* The one range rule of holdfast (case files, --vary, --range): the number
+ * of values FROM, FROM + STEP, ... up to TO.  TO is included when it lies on
+ * the grid up to rounding: the tolerance is 1e-9 of a step plus 64 units in
+ * the last place of the largest of |FROM| and |TO| (in steps), so a step
+ * that is tiny relative to the values (366:366.0001:0.00001, 11 values) does
+ * not lose its end point.  Returns 0 for an invalid range (a non-finite
+ * number, step 0, a step pointing away from TO) and `max + 1` when the count
+ * exceeds max (so the caller can name the limit). */
+size_t hf_study_range_count(double from, double to, double step, size_t max);
+
 /* Number of values of a varied parameter: its list length, or for a range
- * FROM:TO:STEP the count floor((TO - FROM)/STEP + 1e-9) + 1 (the same rule as
- * hf_cli_parse_range).  0 for an invalid range (step 0, pointing away from
- * TO, non-finite). */
+ * hf_study_range_count(from, to, step, HF_STUDY_MAX_VALUES).  0 for an
+ * invalid range. */
 size_t hf_study_vary_count(const hf_vary *v);
 
 /* Value i (< count) of a varied parameter, SI: list entry i, or FROM + i*STEP
- * (computed by one multiplication, not accumulated, so it never drifts). */
+ * (computed by one multiplication, not accumulated, so it never drifts); the
+ * last value of a range whose end lies on the grid (within the tolerance of
+ * hf_study_range_count) is TO itself. */
 double hf_study_vary_value(const hf_vary *v, size_t i);
 
 /* The case space of a sweep.  Borrows the vary array (it must outlive it). */
@@ -110,7 +177,9 @@ typedef struct {
 
 /* Evaluates cases [begin, end) with `row` on opt->jobs OpenMP threads, thread
  * t using states[t], and writes the rows to out in case order: the bytes
- * written are the same for any number of threads.  Allocates one block
+ * written are the same for any number of threads (out may be NULL: the
+ * rows are evaluated and their text dropped, for row functions that keep
+ * their results in memory).  Allocates one block
  * buffer (block * row_cap bytes) up front and nothing per case.  Returns
  * HF_OK, HF_ENOMEM, HF_ELIMIT (a row did not fit in row_cap: a bug or a huge
  * line count), HF_EIO (a write to out failed, or stopped). */

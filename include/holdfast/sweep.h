@@ -8,28 +8,18 @@
  * status, then the outputs.  Each thread works on its own copy of the model
  * with its own solver workspaces, allocated once; no case allocates.
  *
- * Output names (`--output NAME` / a study's `outputs:` list); per-line ones
- * take ":LINE" for one line, else give one column per line:
- *   fairlead_tension[:LINE]     T_<line>_kN        fairlead tension, kN
- *   fairlead_horizontal[:LINE]  H_<line>_kN        horizontal fairlead force, kN
- *   fairlead_vertical[:LINE]    V_<line>_kN        vertical fairlead force, kN
- *   anchor_tension[:LINE]       anchor_T_<line>_kN line tension at the anchor, kN
- *   utilisation[:LINE]          U_<line>           T/MBL of the most loaded section, -
- *   max_tension                 max_tension_kN, max_tension_line
- *   max_utilisation             max_utilisation, worst_line
- *   stiffness_surge             stiffness_surge_kN_per_m    K11 at rest
- *   stiffness_sway              stiffness_sway_kN_per_m     K22
- *   stiffness_heave             stiffness_heave_kN_per_m    K33
- *   stiffness_yaw               stiffness_yaw_kNm_per_rad   K66
- *   vertical_load               vertical_load_kN   downward mooring load on the hull
- *   offset_<load>               offset_<load>_surge_m, _sway_m, _yaw_deg: intact mean
- *                               equilibrium under that load case (balance.h)
- * Defaults: fairlead_tension, utilisation, max_utilisation, stiffness_surge.
+ * Outputs: the names of the output catalogue (outputs.h; `holdfast sweep
+ * --help` lists them with their columns, units and meanings).  Defaults:
+ * fairlead_tension, utilisation, max_utilisation, stiffness_surge.
+ *
+ * Results go to a CSV stream, to a table in memory (hf_sweep_table, for
+ * `run` and the report: nothing re-reads a file), or both in one pass.
  *
  * Status column: ok, invalid (a parameter value the model refuses),
  * unsupported, no_convergence, no_equilibrium, failed (other).  A case that
- * fails keeps its varied values and status; the outputs it could not compute
- * are left empty (never NaN or made-up numbers). */
+ * fails keeps its varied values and status and all its outputs are left
+ * empty (never NaN, never the rest-pose numbers of a case whose equilibrium
+ * under a load was not found). */
 #ifndef HOLDFAST_SWEEP_H
 #define HOLDFAST_SWEEP_H
 
@@ -38,36 +28,10 @@
 #include <stdio.h>
 #include "holdfast/balance.h"
 #include "holdfast/model.h"
+#include "holdfast/outputs.h"
 #include "holdfast/spread.h"
 #include "holdfast/status.h"
 #include "holdfast/study.h"
-
-typedef enum {
-    HF_OUT_FAIRLEAD_TENSION = 0, HF_OUT_FAIRLEAD_HORIZONTAL, HF_OUT_FAIRLEAD_VERTICAL,
-    HF_OUT_ANCHOR_TENSION, HF_OUT_UTILISATION, HF_OUT_MAX_TENSION, HF_OUT_MAX_UTILISATION,
-    HF_OUT_STIFFNESS_SURGE, HF_OUT_STIFFNESS_SWAY, HF_OUT_STIFFNESS_HEAVE, HF_OUT_STIFFNESS_YAW,
-    HF_OUT_VERTICAL_LOAD, HF_OUT_OFFSET, HF_OUT_COUNT
-} hf_output_kind;
-
-#define HF_OUTPUT_ALL ((size_t)-1)
-
-/* One parsed output name. */
-typedef struct {
-    hf_output_kind kind;
-    size_t line;   /* per-line kinds: line index, or HF_OUTPUT_ALL */
-    size_t load;   /* HF_OUT_OFFSET: load index */
-} hf_output;
-
-/* Parses "NAME" or "NAME:LINE" against model m.  HF_EINVAL with a message
- * listing the valid names (unknown name, unknown line or load, ":LINE" on an
- * output that has none). */
-hf_status hf_sweep_output_parse(const hf_model *m, const char *text, hf_output *out,
-                                hf_error *err);
-
-/* 1 when the output is one number (a per-line output with one line, or a
- * scalar output other than the names max_tension_line/worst_line): the
- * outputs an inversion can aim at. */
-int hf_sweep_output_is_scalar(const hf_output *o);
 
 /* A prepared sweep: the grid, the outputs, one evaluation state per thread. */
 typedef struct hf_sweep hf_sweep;
@@ -104,15 +68,61 @@ typedef struct {
  * threads given to hf_sweep_alloc.  Identical bytes for any thread count and
  * any split into ranges.  Returns HF_OK, HF_EINVAL (bad range), HF_EIO
  * (write failed or stopped), HF_ENOMEM, HF_ELIMIT.  A failing case is not an
- * error (see the status column). */
+ * error (see the status column).  The same as hf_sweep_run(s, r, out, NULL). */
 hf_status hf_sweep_write_rows(hf_sweep *s, const hf_sweep_range *r, FILE *out, hf_error *err);
+
+/* ---- rows in memory ----
+ *
+ * A table of sweep rows: the same numbers as the CSV, as doubles, with the
+ * column names and units of the output catalogue.  Memory is bounded by the
+ * caller: the table holds at most `cap` rows (the first cap cases of the
+ * range run; `total` counts every case run), so a report that draws a figure
+ * asks for the rows it can draw (e.g. 20,000) whatever the size of the
+ * sweep, while the CSV still receives every row.  Values are in the column
+ * units (kN, kN/m, kN m/rad, m, deg, -; varied angles in deg), exactly the
+ * numbers the CSV prints; an empty CSV cell is NAN.  The line-name columns
+ * (hf_output_column_is_line) hold the line's index (0-based, as a double) or
+ * NAN. */
+typedef struct {
+    size_t nvary;               /* varied parameters */
+    char **vary_names;          /* nvary column names with units ("site.depth_m") */
+    hf_dim *vary_dim;           /* nvary dimensions of the varied parameters */
+    size_t ncols;               /* output columns */
+    char **col_names;           /* ncols column names with units ("T_bow_kN") */
+    hf_output_column *cols;     /* ncols: what each output column is (outputs.h) */
+    uint64_t cap;               /* rows the table can hold */
+    uint64_t first;             /* case number of row 0 (the range's begin) */
+    uint64_t nrows;             /* rows held: min(cap, cases run) */
+    uint64_t total;             /* cases run into the table (may exceed nrows) */
+    uint64_t failed;            /* rows held whose status is not HF_OK */
+    double *vary;               /* nrows x nvary: row i, parameter j at [i * nvary + j] */
+    hf_status *status;          /* nrows statuses (hf_sweep_status_word gives the word) */
+    double *out;                /* nrows x ncols: row i, column c at [i * ncols + c] */
+} hf_sweep_table;
+
+/* A table for sweep s (column names and kinds copied from it) holding at
+ * most cap rows (cap >= 1; storage for cap rows is allocated here, once).
+ * NULL with err: HF_EINVAL (cap 0), HF_ENOMEM (cap too large for memory:
+ * choose a smaller cap). */
+hf_sweep_table *hf_sweep_table_alloc(const hf_sweep *s, uint64_t cap, hf_error *err);
+
+/* Releases a table.  NULL is allowed. */
+void hf_sweep_table_free(hf_sweep_table *t);
+
+/* Evaluates cases [r->begin, r->end) on the sweep's threads in one pass:
+ * writes their CSV rows to out (NULL: no CSV) and keeps the first t->cap of
+ * them in t (NULL: no table; t is reset first: nrows, total and failed start
+ * at 0, first = r->begin).  out and t may not both be NULL.  Returns as
+ * hf_sweep_write_rows; the table is valid after HF_OK. */
+hf_status hf_sweep_run(hf_sweep *s, const hf_sweep_range *r, FILE *out, hf_sweep_table *t,
+                       hf_error *err);
 
 /* Evaluates one case k on thread state 0 (cold start) and returns its row
  * text in buf (cap bytes).  For tests and small tools.  HF_ELIMIT when the
  * row does not fit, HF_EINVAL for k out of range. */
 hf_status hf_sweep_case_row(hf_sweep *s, uint64_t k, char *buf, size_t cap, hf_error *err);
 
-/* Evaluates one scalar output (hf_sweep_output_is_scalar) of model m at its
+/* Evaluates one scalar output (hf_output_is_scalar) of model m at its
  * rest pose with the workspace ws (borrowing m; warm starts are used).
  * bal may be NULL unless o is HF_OUT_OFFSET (then the surge offset is
  * returned).  Fills *value in SI (N, N/m, N m/rad, -, m).  Returns HF_OK or
@@ -120,9 +130,6 @@ hf_status hf_sweep_case_row(hf_sweep *s, uint64_t k, char *buf, size_t cap, hf_e
  * HF_ENOEQUIL) with a message. */
 hf_status hf_sweep_output_eval(const hf_model *m, hf_spread *ws, hf_balance *bal,
                                const hf_output *o, double *value, hf_error *err);
-
-/* Short name of an output kind ("fairlead_tension", ...). */
-const char *hf_sweep_output_name(hf_output_kind k);
 
 /* The status word of the status column: "ok", "invalid", "unsupported",
  * "no_convergence", "no_equilibrium", "failed". */
