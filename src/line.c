@@ -616,6 +616,7 @@ typedef struct {
     double f;            /* merit: (rx^2 + rz^2) / scale^2 */
     int evals;
     int max_backtrack;   /* line-search halvings per iteration (options) */
+    double ferr;         /* estimated relative force error at the solution */
 } newton_t;
 
 static double merit(const newton_t *s, const walk_t *w)
@@ -656,17 +657,13 @@ static int newton_dir(const newton_t *s, const walk_t *w, double *dH, double *dV
     return isfinite(*dH) && isfinite(*dV);
 }
 
-/* Estimated relative error of the forces: the remaining Newton correction
- * over the fairlead tension, max(|dH| / H, |dV| / T) (H relative to itself:
- * a nearly laid line has tiny H that matters to its anchor).  +inf when the
- * correction is unknown. */
-static double force_error(const newton_t *s, const walk_t *w)
+/* Estimated relative error of the forces from the Newton correction (dH,
+ * dV): max(|dH| / H, |dV| / T), T the fairlead tension (H relative to itself:
+ * a nearly laid line has a tiny H that matters to its anchor). */
+static double rel_error(const newton_t *s, double dH, double dV)
 {
-    double dH, dV;
-    if (!newton_dir(s, w, &dH, &dV))
-        return INFINITY;
-    double T = mag(s->H, s->V);
-    return fmax(fabs(dH) / s->H, fabs(dV) / T);
+    double eh = fabs(dH) / s->H, ev = fabs(dV) / mag(s->H, s->V);
+    return eh > ev ? eh : ev;
 }
 
 /* Converging on the forces as well as on the span (issue 12 item 14): where
@@ -674,12 +671,17 @@ static double force_error(const newton_t *s, const walk_t *w)
  * by almost nothing) the span test holds while H is still off.  Full Newton
  * steps are taken while the estimated force error exceeds ftol and the span
  * stays within tolerance, at most max_refine of them; at the rounding floor
- * the correction is noise and the loop ends on the limit. */
+ * the correction is noise and the loop ends on the limit.  Leaves the
+ * estimate at the final walk in s->ferr (+inf when J is singular). */
 static void refine_forces(newton_t *s, double ftol, int max_refine)
 {
-    for (int i = 0; i < max_refine; i++) {
+    for (int i = 0;; i++) {
         double dH, dV;
-        if (force_error(s, s->w) <= ftol || !newton_dir(s, s->w, &dH, &dV))
+        s->ferr = INFINITY;
+        if (!newton_dir(s, s->w, &dH, &dV))
+            return;
+        s->ferr = rel_error(s, dH, dV);
+        if (s->ferr <= ftol || i >= max_refine)
             return;
         double H = s->H + dH, V = s->V + dV;
         if (!(H > 0.0))
@@ -1263,8 +1265,7 @@ static hf_status state_from_walk(const hf_line *line, const newton_t *s, hf_line
     stiffness_from_flex(w->J, st);
     st->residual = fmax(fabs(w->x - s->X), fabs(w->z - s->Z)) / s->scale;
     st->z_max = w->z_max;
-    double fe = force_error(s, w);
-    st->force_error = isfinite(fe) ? fe : 1.0;
+    st->force_error = isfinite(s->ferr) ? s->ferr : 1.0;
     return HF_OK;
 }
 
@@ -1282,6 +1283,7 @@ static hf_status solve_general(const hf_line *line, double X, double Z, double s
     s.evals = 0;
     s.max_backtrack = opt->max_backtrack;
     s.H = s.V = s.f = 0.0;
+    s.ferr = INFINITY;
     s.w = &s.buf[0];
     s.trial = &s.buf[1];
     double H0, V0;
