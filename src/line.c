@@ -46,8 +46,8 @@ static int options_ok(const hf_line_options *o)
 {
     return isfinite(o->rtol) && o->rtol > 0.0 && o->rtol < 1e-2 && isfinite(o->ftol) &&
            o->ftol > 0.0 && o->ftol < 1e-2 && o->max_iter >= 1 && o->max_backtrack >= 1 &&
-           o->max_bracket >= 1 && o->max_shrink >= 1 && o->max_polish >= 1 &&
-           o->max_laid >= 1 && o->max_refine >= 0;
+           o->max_bracket >= 1 && o->max_shrink >= 1 && o->max_polish >= 1 && o->max_laid >= 1 &&
+           o->max_refine >= 0;
 }
 
 /* sqrt(a^2 + b^2) without glibc hypot's cost; hypot only where squaring
@@ -83,8 +83,7 @@ hf_status hf_line_check(const hf_line *line, hf_error *err)
         if (!finite_pos(s->mbl))
             return hf_error_set(err, HF_EINVAL, "section %zu: MBL must be finite and > 0", i);
         if (!isfinite(s->friction) || s->friction < 0.0)
-            return hf_error_set(err, HF_EINVAL, "section %zu: friction must be finite and >= 0",
-                                i);
+            return hf_error_set(err, HF_EINVAL, "section %zu: friction must be finite and >= 0", i);
         if (i + 1 < line->n) {
             const hf_joint *j = &line->joint[i];
             if (!isfinite(j->load))
@@ -150,7 +149,7 @@ static void suspended(double H, double w, double L, double EA, double Vt, double
         A = (log((Vt + Tt) / H) + log((Tb - Vb) / H)) / w;
         Q = (Vt / Tt - Vb / Tb) / w;
     }
-    double S = L * (Vt + Vb) / (Tt + Tb); /* = (Tt - Tb) / w */
+    double S = L * (Vt + Vb) / (Tt + Tb);                  /* = (Tt - Tb) / w */
     double C = -H * L * (Vt + Vb) / ((Tt + Tb) * Tt * Tb); /* = (H/w)(1/Tt - 1/Tb) */
     *x += H * A + H * L / EA;
     *z += S + L * (Vt + Vb) / (2.0 * EA);
@@ -178,8 +177,8 @@ static void touchdown_piece(double H, double w, double EA, double Vt, double *x,
 
 /* Tension and its derivatives carried along the grounded part. */
 typedef struct {
-    double t, t_h, t_v;   /* tension and d/dH, d/dV */
-    double s, s_h, s_v;   /* accumulated stretch and derivatives */
+    double t, t_h, t_v; /* tension and d/dH, d/dV */
+    double s, s_h, s_v; /* accumulated stretch and derivatives */
 } ground_t;
 
 /* A grounded piece of length l (dl/dV = l_v) with friction slope r = mu w:
@@ -220,17 +219,17 @@ static void ground_point(ground_t *g, double mu, double N, double n_v)
 /* Everything the walk learns, for the final state and the profile. */
 typedef struct {
     double x, z, J[2][2];
-    int grounded;          /* 1 when part of the line rests on the seabed */
-    int td_joint;          /* touchdown exactly at joint td_sec (clump), else 0 */
-    size_t td_sec;         /* section holding the touchdown (or joint index) */
-    double anchor_t;       /* tension at the anchor after friction, N */
-    double x_susp;         /* horizontal extent of the suspended part, m */
-    int buoy_down;         /* a buoy lies on the seabed below touchdown */
-    double sag_min;        /* lowest sag point above the seabed, m (+inf if none) */
-    double z_max;          /* highest point above the seabed, m: a section top (the
-                            * fairlead or a buoy, where V drops going up) */
-    double vb[NMAX], vt[NMAX];   /* V at the lower / upper end of each suspended piece */
-    double gl[NMAX];             /* grounded length of each section */
+    int grounded;                    /* 1 when part of the line rests on the seabed */
+    int td_joint;                    /* touchdown exactly at joint td_sec (clump), else 0 */
+    size_t td_sec;                   /* section holding the touchdown (or joint index) */
+    double anchor_t;                 /* tension at the anchor after friction, N */
+    double x_susp;                   /* horizontal extent of the suspended part, m */
+    int buoy_down;                   /* a buoy lies on the seabed below touchdown */
+    double sag_min;                  /* lowest sag point above the seabed, m (+inf if none) */
+    double z_max;                    /* highest point above the seabed, m: a section top (the
+                                      * fairlead or a buoy, where V drops going up) */
+    double vb[NMAX], vt[NMAX];       /* V at the lower / upper end of each suspended piece */
+    double gl[NMAX];                 /* grounded length of each section */
     double tg_lo[NMAX], tg_hi[NMAX]; /* tension at the lower / upper end of grounded pieces */
 } walk_t;
 
@@ -314,8 +313,8 @@ static void ground_section(const hf_line *line, size_t k, ground_t *g, walk_t *w
 
 /* The grounded part, walked from touchdown down to the anchor: tension,
  * stretch and their derivatives in *g, grounded length *xg (d/dV *xg_v). */
-static void walk_grounded(const hf_line *line, const double *vt, walk_t *w, ground_t *g,
-                          double *xg, double *xg_v)
+static void walk_grounded(const hf_line *line, const double *vt, walk_t *w, ground_t *g, double *xg,
+                          double *xg_v)
 {
     size_t k = w->td_sec, n = line->n;
     if (k >= n) {
@@ -408,8 +407,8 @@ hf_status hf_line_span(const hf_line *line, double h, double v, double *x, doubl
  * of section k with vertical force v0 at its foot.  Returns the column's
  * height, the fairlead force *vf, the smallest force in it *vmin and
  * B = sum(length / EA) (dheight/dv0). */
-static double column(const hf_line *line, size_t k, double l, double v0, double *vf,
-                     double *vmin, double *B)
+static double column(const hf_line *line, size_t k, double l, double v0, double *vf, double *vmin,
+                     double *B)
 {
     const hf_section *s = &line->sec[k];
     double v = v0, h = 0.0, b = 0.0, vm = v0;
@@ -431,15 +430,15 @@ static double column(const hf_line *line, size_t k, double l, double v0, double 
 }
 
 typedef struct {
-    int found;       /* 1: the line can hang with its foot on the seabed */
-    double s_t;      /* grounded (laid) unstretched length below the column, m */
-    double vf;       /* fairlead vertical force, N */
-    double kvv;      /* dV/dZ, N/m */
-    int bad;         /* the column would be in compression somewhere (buoy) */
-    size_t foot;     /* section holding the column's foot (or joint index when at_joint) */
-    int at_joint;    /* the foot is the clump on joint `foot`, partly on the seabed */
-    double foot_l;   /* hanging length of section `foot`, m (not at a joint) */
-    double foot_p;   /* part of the clump's weight the column carries, N (at a joint) */
+    int found;     /* 1: the line can hang with its foot on the seabed */
+    double s_t;    /* grounded (laid) unstretched length below the column, m */
+    double vf;     /* fairlead vertical force, N */
+    double kvv;    /* dV/dZ, N/m */
+    int bad;       /* the column would be in compression somewhere (buoy) */
+    size_t foot;   /* section holding the column's foot (or joint index when at_joint) */
+    int at_joint;  /* the foot is the clump on joint `foot`, partly on the seabed */
+    double foot_l; /* hanging length of section `foot`, m (not at a joint) */
+    double foot_p; /* part of the clump's weight the column carries, N (at a joint) */
 } hang_t;
 
 /* Finds the hanging configuration reaching height Z (Z > 0) with H = 0. */
@@ -610,13 +609,13 @@ typedef struct {
     const hf_line *line;
     double X, Z, tol, scale;
     double H, V;
-    walk_t buf[2];       /* storage of the two walks below */
-    walk_t *w;           /* the walk at (H, V) */
-    walk_t *trial;       /* scratch for the line search; swapped with w on acceptance */
-    double f;            /* merit: (rx^2 + rz^2) / scale^2 */
+    walk_t buf[2]; /* storage of the two walks below */
+    walk_t *w;     /* the walk at (H, V) */
+    walk_t *trial; /* scratch for the line search; swapped with w on acceptance */
+    double f;      /* merit: (rx^2 + rz^2) / scale^2 */
     int evals;
-    int max_backtrack;   /* line-search halvings per iteration (options) */
-    double ferr;         /* estimated relative force error at the solution */
+    int max_backtrack; /* line-search halvings per iteration (options) */
+    double ferr;       /* estimated relative force error at the solution */
 } newton_t;
 
 static double merit(const newton_t *s, const walk_t *w)
@@ -639,8 +638,7 @@ static hf_status newton_set(newton_t *s, double H, double V)
 /* Convergence test: both residuals within tol (absolute, metres). */
 static hf_status newton_test(const newton_t *s)
 {
-    return (fabs(s->w->x - s->X) <= s->tol && fabs(s->w->z - s->Z) <= s->tol) ? HF_OK
-                                                                              : HF_CONTINUE;
+    return (fabs(s->w->x - s->X) <= s->tol && fabs(s->w->z - s->Z) <= s->tol) ? HF_OK : HF_CONTINUE;
 }
 
 /* The Newton correction (dH, dV) = -J^-1 r at the current walk.  Returns 0
@@ -875,8 +873,7 @@ static hf_status bracket(newton_t *s, inner_t *base, gsl_root_fsolver *outer)
     if (!(flo < 0.0) || !(fhi > 0.0))
         return HF_ENOCONV;
     double H, V;
-    if (brent(outer, &F, lo, hi, 1e-13 * hi, o->max_bracket, &H) != 0 ||
-        solve_v(base, H, &V) != 0)
+    if (brent(outer, &F, lo, hi, 1e-13 * hi, o->max_bracket, &H) != 0 || solve_v(base, H, &V) != 0)
         return HF_ENOCONV;
     return newton_set(s, H, V);
 }
@@ -1135,8 +1132,8 @@ static int closed_forms(const hf_line *line, double X, double Z, double tol,
         }
     }
     if (Z == 0.0 && X <= L + tol) {
-        hang_t hg = {.found = 1, .s_t = L, .foot = line->n - 1,
-                     .kvv = line->sec[line->n - 1].weight};
+        hang_t hg = {
+            .found = 1, .s_t = L, .foot = line->n - 1, .kvv = line->sec[line->n - 1].weight};
         *rc = solve_slack(line, &hg, st); /* fully laid and slack: zero tension */
         return 1;
     }
@@ -1310,7 +1307,8 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
     st->x = isfinite(X) ? X : 0.0;
     st->z = isfinite(Z) ? Z : 0.0;
     if (!options_ok(opt))
-        return fail(st, HF_EINVAL, "invalid line solver options (rtol, ftol in (0, 0.01), limits >= 1)");
+        return fail(st, HF_EINVAL,
+                    "invalid line solver options (rtol, ftol in (0, 0.01), limits >= 1)");
     if (hf_line_check(line, NULL) != HF_OK)
         return fail(st, HF_EINVAL, "invalid line data (check lengths, weights, EA, MBL)");
     st->n = line->n;
@@ -1373,8 +1371,7 @@ static size_t steps(double len, double spacing)
 /* Slack line: the laid part's true shape on the seabed is unknown, it is
  * drawn straight from the anchor to the point below the fairlead; the
  * hanging column above it is vertical. */
-static void profile_slack(const hf_line *line, const hf_line_state *st, double spacing,
-                          sink_t *k)
+static void profile_slack(const hf_line *line, const hf_line_state *st, double spacing, sink_t *k)
 {
     double arc = 0.0, z = 0.0;
     double sx = st->grounded > 0.0 ? st->x / st->grounded : 0.0;

@@ -276,16 +276,16 @@ static hf_status line_at_pose(hf_spread *ws, size_t i, int report, hf_error *err
         return report ? hf_error_set(err, s,
                                      "line '%s': %s (horizontal span %.6g m, height %.6g m; "
                                      "shape found: H %.4g kN, V %.4g kN at the fairlead)",
-                                     line_name(m, i, buf), st->message, g->x, g->z,
-                                     st->h / 1e3, st->v / 1e3)
+                                     line_name(m, i, buf), st->message, g->x, g->z, st->h / 1e3,
+                                     st->v / 1e3)
                       : s;
     if (s != HF_OK)
-        return report ? hf_error_set(err, s, "line '%s': %s (horizontal span %.6g m, height %.6g m)",
-                                     line_name(m, i, buf),
-                                     st->message && st->message[0] ? st->message
-                                                                   : hf_status_str(s),
-                                     g->x, g->z)
-                      : s;
+        return report
+                   ? hf_error_set(err, s, "line '%s': %s (horizontal span %.6g m, height %.6g m)",
+                                  line_name(m, i, buf),
+                                  st->message && st->message[0] ? st->message : hf_status_str(s),
+                                  g->x, g->z)
+                   : s;
     if (st->z_max > water + 1e-9 * fmax(water, 1.0)) {
         double above = st->z_max - water;
         line_unsolved(ws, i, HF_EUNSUPPORTED, "a buoy lifts the line above the still water level");

@@ -100,7 +100,7 @@ static const unit units[] = {
     {"mm2", HF_DIM_AREA, 1e-6},
     {"cm2", HF_DIM_AREA, 1e-4},
     {"m2", HF_DIM_AREA, 1.0},
-    {"ft2", HF_DIM_AREA, FT * FT},
+    {"ft2", HF_DIM_AREA, FT *FT},
 
     {"N*m", HF_DIM_MOMENT, 1.0},
     {"Nm", HF_DIM_MOMENT, 1.0},
@@ -109,8 +109,8 @@ static const unit units[] = {
     {"MN*m", HF_DIM_MOMENT, 1e6},
     {"MNm", HF_DIM_MOMENT, 1e6},
     {"tf*m", HF_DIM_MOMENT, 1e3 * GN},
-    {"lbf*ft", HF_DIM_MOMENT, LBF * FT},
-    {"kip*ft", HF_DIM_MOMENT, 1e3 * LBF * FT},
+    {"lbf*ft", HF_DIM_MOMENT, LBF *FT},
+    {"kip*ft", HF_DIM_MOMENT, 1e3 * LBF *FT},
 };
 #define NUNITS (sizeof units / sizeof units[0])
 

@@ -19,10 +19,23 @@
 
 static void no_nan(const hf_line_state *s)
 {
-    const double *v[] = {&s->x, &s->z, &s->h, &s->v, &s->tension, &s->anchor_h, &s->anchor_v,
-                         &s->anchor_tension, &s->anchor_angle, &s->touchdown_x, &s->grounded,
-                         &s->residual, &s->max_utilisation, &s->stiffness[0][0],
-                         &s->stiffness[0][1], &s->stiffness[1][0], &s->stiffness[1][1]};
+    const double *v[] = {&s->x,
+                         &s->z,
+                         &s->h,
+                         &s->v,
+                         &s->tension,
+                         &s->anchor_h,
+                         &s->anchor_v,
+                         &s->anchor_tension,
+                         &s->anchor_angle,
+                         &s->touchdown_x,
+                         &s->grounded,
+                         &s->residual,
+                         &s->max_utilisation,
+                         &s->stiffness[0][0],
+                         &s->stiffness[0][1],
+                         &s->stiffness[1][0],
+                         &s->stiffness[1][1]};
     for (size_t i = 0; i < sizeof v / sizeof v[0]; i++)
         if (!isfinite(*v[i]))
             fail_msg("output field %zu is not finite (%g)", i, *v[i]);
@@ -96,8 +109,8 @@ static void test_touchdown_hand_calculation(void **state)
 {
     (void)state;
     const double w = 828.0, T = 1510e3, d = 25.0;
-    double a = T / w - d;                     /* T = w (a + d), directrix identity */
-    double sus = sqrt(d * d + 2.0 * a * d);   /* suspended length */
+    double a = T / w - d;                   /* T = w (a + d), directrix identity */
+    double sus = sqrt(d * d + 2.0 * a * d); /* suspended length */
     double L = 600.0;
     double X = (L - sus) + a * asinh(sus / a);
     hf_line line = one(L, w, 1e22, 0.0);
@@ -255,10 +268,10 @@ static hf_line three_with_clump(double mu)
     hf_line l;
     memset(&l, 0, sizeof l);
     l.n = 3;
-    l.sec[0] = (hf_section){312.5, 1136.0, 5.46e8, 6.1e6, mu};  /* chain */
-    l.sec[1] = (hf_section){438.2, 165.3, 3.71e8, 5.3e6, 0.6};  /* wire */
-    l.sec[2] = (hf_section){41.7, 1136.0, 5.46e8, 6.1e6, mu};   /* chain */
-    l.joint[0] = (hf_joint){78.4e3, 1.0};                       /* clump */
+    l.sec[0] = (hf_section){312.5, 1136.0, 5.46e8, 6.1e6, mu}; /* chain */
+    l.sec[1] = (hf_section){438.2, 165.3, 3.71e8, 5.3e6, 0.6}; /* wire */
+    l.sec[2] = (hf_section){41.7, 1136.0, 5.46e8, 6.1e6, mu};  /* chain */
+    l.joint[0] = (hf_joint){78.4e3, 1.0};                      /* clump */
     return l;
 }
 
@@ -553,8 +566,8 @@ static void test_jacobian(void **state)
             for (int r = 0; r < 2; r++)
                 for (int c = 0; c < 2; c++)
                     if (fabs(J[r][c] - fd[r][c]) > 1e-6 * norm)
-                        fail_msg("line %d point %d J[%d][%d] = %.9e, differences %.9e", li, i,
-                                 r, c, J[r][c], fd[r][c]);
+                        fail_msg("line %d point %d J[%d][%d] = %.9e, differences %.9e", li, i, r, c,
+                                 J[r][c], fd[r][c]);
         }
 }
 
@@ -679,7 +692,8 @@ static long double ref_z(const ref_line *r, long double H, long double ls)
 static long double ref_x(const ref_line *r, long double H, long double ls)
 {
     long double a = H / r->w, lg = r->L - ls, f = r->mu * r->w;
-    long double sg = H >= f * lg ? (H * lg - 0.5L * f * lg * lg) / r->ea : H * H / (2.0L * f * r->ea);
+    long double sg =
+        H >= f * lg ? (H * lg - 0.5L * f * lg * lg) / r->ea : H * H / (2.0L * f * r->ea);
     return lg + sg + a * asinhl(ls / a) + H * ls / r->ea;
 }
 

@@ -71,7 +71,7 @@ static void test_exponent(void **state)
     ok("7.5e+2 mm", HF_DIM_LENGTH, 0.75);
     ok("-2.5e2 m", HF_DIM_LENGTH, -250.0);
     ok("1e308", HF_DIM_LENGTH, 1e308);
-    ok("2.5e-308 m", HF_DIM_LENGTH, 2.5e-308); /* normal: accepted */
+    ok("2.5e-308 m", HF_DIM_LENGTH, 2.5e-308);     /* normal: accepted */
     bad("4.9e-324 m", HF_DIM_LENGTH, "too small"); /* subnormal: refused (test_too_small) */
 }
 
@@ -195,13 +195,13 @@ static void test_angle_reduction(void **state)
 static void test_too_small(void **state)
 {
     (void)state;
-    bad("1e-320", HF_DIM_FORCE, "too small");     /* breaking_load: 1e-320 */
-    bad("1e-400 kN", HF_DIM_FORCE, "too small");  /* underflows to 0 as written */
+    bad("1e-320", HF_DIM_FORCE, "too small");    /* breaking_load: 1e-320 */
+    bad("1e-400 kN", HF_DIM_FORCE, "too small"); /* underflows to 0 as written */
     bad("-4e-310 N", HF_DIM_FORCE, "too small");
     bad("1e-306 mm", HF_DIM_LENGTH, "too small"); /* normal as written, subnormal in SI */
     bad("1e-310 deg", HF_DIM_ANGLE, "too small");
-    ok("2.3e-308", HF_DIM_FORCE, 2.3e-308);       /* the smallest normal range is fine */
-    ok("0", HF_DIM_FORCE, 0.0);                   /* zero is zero */
+    ok("2.3e-308", HF_DIM_FORCE, 2.3e-308); /* the smallest normal range is fine */
+    ok("0", HF_DIM_FORCE, 0.0);             /* zero is zero */
     ok("0e-400", HF_DIM_FORCE, 0.0);
     ok("0.0 kN", HF_DIM_FORCE, 0.0);
 }
