@@ -287,13 +287,13 @@ static hf_status line_at_pose(hf_spread *ws, size_t i, int report, hf_error *err
                                   g->x, g->z)
                    : s;
     if (st->z_max > water + 1e-9 * fmax(water, 1.0)) {
-        double above = st->z_max - water;
+        double top = st->z_max, above = top - water; /* read before the state is cleared */
         line_unsolved(ws, i, HF_EUNSUPPORTED, "a buoy lifts the line above the still water level");
         return report ? hf_error_set(err, HF_EUNSUPPORTED,
                                      "line '%s': its buoys would lift the line %.4g m above the "
                                      "still water level (highest point %.6g m above the seabed, "
                                      "water %.6g m deep); a line out of the water is not modelled",
-                                     line_name(m, i, buf), above, st->z_max, water)
+                                     line_name(m, i, buf), above, top, water)
                       : HF_EUNSUPPORTED;
     }
     return HF_OK;
