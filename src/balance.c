@@ -42,9 +42,9 @@ struct hf_balance {
     double *full_tension, *full_util;
     hf_line_criterion *full_lines;
     hf_anchor_criterion *full_anchors;
-    int full;      /* the full arrays exist */
-    size_t last;   /* condition last solved into the scratch arrays, or HF_BALANCE_NONE */
-    size_t bytes;  /* bytes allocated by this workspace (spread workspace excluded) */
+    int full;     /* the full arrays exist */
+    size_t last;  /* condition last solved into the scratch arrays, or HF_BALANCE_NONE */
+    size_t bytes; /* bytes allocated by this workspace (spread workspace excluded) */
     /* the last successful intact solution: start of the broken conditions */
     const hf_load *intact_load;
     double intact_u[3];
@@ -246,8 +246,10 @@ static hf_status alloc_full(hf_balance *b, hf_error *err)
     size_t cells = b->ncond * b->n;
     size_t per = 2 * sizeof(double) + sizeof(hf_line_criterion) + sizeof(hf_anchor_criterion);
     if (cells / b->ncond != b->n || cells > ((size_t)-1) / per)
-        return hf_error_set(err, HF_ELIMIT, "balance: too many lines (%zu) to keep every "
-                            "condition's results", b->n);
+        return hf_error_set(err, HF_ELIMIT,
+                            "balance: too many lines (%zu) to keep every "
+                            "condition's results",
+                            b->n);
     b->full_tension = hf_calloc(cells, sizeof(double));
     b->full_util = hf_calloc(cells, sizeof(double));
     b->full_lines = hf_calloc(cells, sizeof(hf_line_criterion));
@@ -791,8 +793,7 @@ static hf_status diagnose(hf_balance *b, const solve_ctx *cx, hf_balance_result 
 
 /* The solved condition: lines at the solution, offsets, residual, criteria. */
 static hf_status finish_condition(hf_balance *b, hf_balance_result *r, const hf_load *load,
-                                  size_t cond, const double u[3], const double f[3],
-                                  hf_error *err)
+                                  size_t cond, const double u[3], const double f[3], hf_error *err)
 {
     hf_pose p;
     hf_spread_result sr;
@@ -865,8 +866,8 @@ static void refuse_load(hf_balance *b, hf_status s, const hf_error *err)
     }
 }
 
-hf_status hf_balance_run_each(hf_balance *b, const hf_load *load, hf_balance_visit visit,
-                              void *ctx, hf_error *err)
+hf_status hf_balance_run_each(hf_balance *b, const hf_load *load, hf_balance_visit visit, void *ctx,
+                              hf_error *err)
 {
     double f[3];
     hf_status s = hf_balance_load_force(load, f, err);

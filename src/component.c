@@ -117,91 +117,135 @@ typedef struct {
 #define ENTER "approximate: enter manufacturer catalogue data"
 
 static const kind kinds[HF_COMP_TYPE_COUNT] = {
-    [HF_COMP_STUDLESS_CHAIN] = {
-        .label = "studless chain", .dmin = 0.005, .dmax = 0.300, .rho = RHO_STEEL,
-        .mass_k = 0.0199, .friction = 1.0,
-        .mass_src = "derived: 0.0199 d^2 kg/m, studless chain catalogue practice (secondary)",
-        .mass_w_src = "derived from the given wet weight: " STEEL_MASS,
-        .wet_src = "derived: " STEEL_WET,
-        .wet_m_src = "derived from the given mass: " STEEL_WET,
-        .fric_src = "default: chain on the seabed 1.0 (static value, from memory)",
-    },
-    [HF_COMP_STUDLINK_CHAIN] = {
-        .label = "studlink chain", .dmin = 0.005, .dmax = 0.300, .rho = RHO_STEEL,
-        .mass_k = 0.0219, .friction = 1.0,
-        .mass_src = "derived: 0.0219 d^2 kg/m, studlink chain catalogue practice (secondary)",
-        .mass_w_src = "derived from the given wet weight: " STEEL_MASS,
-        .wet_src = "derived: " STEEL_WET,
-        .wet_m_src = "derived from the given mass: " STEEL_WET,
-        /* EA = 1.01e11 d^2 N, d in m (from memory: the value quoted in open
-         * mooring design literature for studlink chain). */
-        .ea_src_k = "approximate, from memory: studlink EA = 1.01e11 d^2 N (d in m); "
-                    "enter manufacturer data",
-        .fric_src = "default: chain on the seabed 1.0 (static value, from memory)",
-    },
-    [HF_COMP_SIX_STRAND] = {
-        .label = "six-strand wire rope", .dmin = 0.005, .dmax = 0.200, .rho = RHO_STEEL,
-        .mass_k = 0.0040, .mbl_k = 0.7, .ea_k = 45.0, .friction = 0.6, .approx = true,
-        .mass_src = ENTER " (six-strand mass 0.0040 d^2 kg/m, from memory)",
-        .mass_w_src = "derived from the given wet weight: " WIRE_MASS,
-        .wet_src = ENTER " (" WIRE_WET ")",
-        .wet_m_src = "derived from the given mass: " WIRE_WET,
-        .mbl_src_k = ENTER " (six-strand MBL 0.7 d^2 kN, from memory)",
-        .ea_src_k = ENTER " (six-strand EA 45 d^2 kN, from memory)",
-        .fric_src = "default: wire on the seabed 0.6 (static value, from memory)",
-    },
-    [HF_COMP_SPIRAL_STRAND] = {
-        .label = "spiral-strand wire rope", .dmin = 0.005, .dmax = 0.200, .rho = RHO_STEEL,
-        .mass_k = 0.0050, .mbl_k = 0.95, .ea_k = 95.0, .friction = 0.6, .approx = true,
-        .mass_src = ENTER " (spiral-strand mass 0.0050 d^2 kg/m, from memory)",
-        .mass_w_src = "derived from the given wet weight: " WIRE_MASS,
-        .wet_src = ENTER " (" WIRE_WET ")",
-        .wet_m_src = "derived from the given mass: " WIRE_WET,
-        .mbl_src_k = ENTER " (spiral-strand MBL 0.95 d^2 kN, from memory)",
-        .ea_src_k = ENTER " (spiral-strand EA 95 d^2 kN, from memory)",
-        .fric_src = "default: wire on the seabed 0.6 (static value, from memory)",
-    },
+    [HF_COMP_STUDLESS_CHAIN] =
+        {
+            .label = "studless chain",
+            .dmin = 0.005,
+            .dmax = 0.300,
+            .rho = RHO_STEEL,
+            .mass_k = 0.0199,
+            .friction = 1.0,
+            .mass_src = "derived: 0.0199 d^2 kg/m, studless chain catalogue practice (secondary)",
+            .mass_w_src = "derived from the given wet weight: " STEEL_MASS,
+            .wet_src = "derived: " STEEL_WET,
+            .wet_m_src = "derived from the given mass: " STEEL_WET,
+            .fric_src = "default: chain on the seabed 1.0 (static value, from memory)",
+        },
+    [HF_COMP_STUDLINK_CHAIN] =
+        {
+            .label = "studlink chain",
+            .dmin = 0.005,
+            .dmax = 0.300,
+            .rho = RHO_STEEL,
+            .mass_k = 0.0219,
+            .friction = 1.0,
+            .mass_src = "derived: 0.0219 d^2 kg/m, studlink chain catalogue practice (secondary)",
+            .mass_w_src = "derived from the given wet weight: " STEEL_MASS,
+            .wet_src = "derived: " STEEL_WET,
+            .wet_m_src = "derived from the given mass: " STEEL_WET,
+            /* EA = 1.01e11 d^2 N, d in m (from memory: the value quoted in open
+             * mooring design literature for studlink chain). */
+            .ea_src_k = "approximate, from memory: studlink EA = 1.01e11 d^2 N (d in m); "
+                        "enter manufacturer data",
+            .fric_src = "default: chain on the seabed 1.0 (static value, from memory)",
+        },
+    [HF_COMP_SIX_STRAND] =
+        {
+            .label = "six-strand wire rope",
+            .dmin = 0.005,
+            .dmax = 0.200,
+            .rho = RHO_STEEL,
+            .mass_k = 0.0040,
+            .mbl_k = 0.7,
+            .ea_k = 45.0,
+            .friction = 0.6,
+            .approx = true,
+            .mass_src = ENTER " (six-strand mass 0.0040 d^2 kg/m, from memory)",
+            .mass_w_src = "derived from the given wet weight: " WIRE_MASS,
+            .wet_src = ENTER " (" WIRE_WET ")",
+            .wet_m_src = "derived from the given mass: " WIRE_WET,
+            .mbl_src_k = ENTER " (six-strand MBL 0.7 d^2 kN, from memory)",
+            .ea_src_k = ENTER " (six-strand EA 45 d^2 kN, from memory)",
+            .fric_src = "default: wire on the seabed 0.6 (static value, from memory)",
+        },
+    [HF_COMP_SPIRAL_STRAND] =
+        {
+            .label = "spiral-strand wire rope",
+            .dmin = 0.005,
+            .dmax = 0.200,
+            .rho = RHO_STEEL,
+            .mass_k = 0.0050,
+            .mbl_k = 0.95,
+            .ea_k = 95.0,
+            .friction = 0.6,
+            .approx = true,
+            .mass_src = ENTER " (spiral-strand mass 0.0050 d^2 kg/m, from memory)",
+            .mass_w_src = "derived from the given wet weight: " WIRE_MASS,
+            .wet_src = ENTER " (" WIRE_WET ")",
+            .wet_m_src = "derived from the given mass: " WIRE_WET,
+            .mbl_src_k = ENTER " (spiral-strand MBL 0.95 d^2 kN, from memory)",
+            .ea_src_k = ENTER " (spiral-strand EA 95 d^2 kN, from memory)",
+            .fric_src = "default: wire on the seabed 0.6 (static value, from memory)",
+        },
     /* Fibre: mass = fill x rho_fibre x pi d^2/4 with a fill factor of about
      * 0.65 (polyester) and 0.67 (nylon) of the nominal circle; MBL per d^2
      * and EA/MBL ratios from memory (polyester EA is 12-30 x MBL and load
      * dependent per open textbook practice; 20 chosen).  Friction 0.6: no
      * published value found; fibre rope should not lie on the seabed. */
-    [HF_COMP_POLYESTER] = {
-        .label = "polyester rope", .dmin = 0.010, .dmax = 0.400, .rho = RHO_POLYESTER,
-        .mass_k = 0.00070, .mbl_k = 0.25, .ea_k = 20.0, .friction = 0.6, .approx = true,
-        .mass_src = ENTER " (polyester mass 0.00070 d^2 kg/m, from memory)",
-        .mass_w_src = "derived from the given wet weight: m = w / (g (1 - rho_water/1380)), "
-                      "polyester 1380 kg/m^3 (from memory)",
-        .wet_src = ENTER " (w = m g (1 - rho_water/1380), polyester 1380 kg/m^3, from memory)",
-        .wet_m_src = "derived from the given mass: w = m g (1 - rho_water/1380), polyester "
-                     "1380 kg/m^3 (from memory)",
-        .mbl_src_k = ENTER " (polyester MBL 0.25 d^2 kN, from memory)",
-        .ea_src_k = ENTER " (polyester EA 20 x MBL; 12-30 x MBL, load dependent)",
-        .ea_src_m = "approximate: polyester EA 20 x the given MBL (12-30 x MBL, load "
-                    "dependent); enter manufacturer catalogue data",
-        .fric_src = "default: fibre rope 0.6 (holdfast choice, as wire; keep fibre off the "
-                    "seabed)",
-    },
-    [HF_COMP_NYLON] = {
-        .label = "nylon rope", .dmin = 0.010, .dmax = 0.400, .rho = RHO_NYLON,
-        .mass_k = 0.00060, .mbl_k = 0.20, .ea_k = 5.0, .friction = 0.6, .approx = true,
-        .mass_src = ENTER " (nylon mass 0.00060 d^2 kg/m, from memory)",
-        .mass_w_src = "derived from the given wet weight: m = w / (g (1 - rho_water/1140)), "
-                      "nylon 1140 kg/m^3 (from memory)",
-        .wet_src = ENTER " (w = m g (1 - rho_water/1140), nylon 1140 kg/m^3, from memory)",
-        .wet_m_src = "derived from the given mass: w = m g (1 - rho_water/1140), nylon "
-                     "1140 kg/m^3 (from memory)",
-        .mbl_src_k = ENTER " (nylon MBL 0.20 d^2 kN, from memory)",
-        .ea_src_k = ENTER " (nylon EA 5 x MBL, from memory; strongly load dependent)",
-        .ea_src_m = "approximate: nylon EA 5 x the given MBL (from memory; strongly load "
-                    "dependent); enter manufacturer catalogue data",
-        .fric_src = "default: fibre rope 0.6 (holdfast choice, as wire; keep fibre off the "
-                    "seabed)",
-    },
-    [HF_COMP_CUSTOM] = {
-        .label = "custom component", .friction = 1.0,
-        .fric_src = "default: 1.0 (holdfast choice, as chain; give seabed_friction)",
-    },
+    [HF_COMP_POLYESTER] =
+        {
+            .label = "polyester rope",
+            .dmin = 0.010,
+            .dmax = 0.400,
+            .rho = RHO_POLYESTER,
+            .mass_k = 0.00070,
+            .mbl_k = 0.25,
+            .ea_k = 20.0,
+            .friction = 0.6,
+            .approx = true,
+            .mass_src = ENTER " (polyester mass 0.00070 d^2 kg/m, from memory)",
+            .mass_w_src = "derived from the given wet weight: m = w / (g (1 - rho_water/1380)), "
+                          "polyester 1380 kg/m^3 (from memory)",
+            .wet_src = ENTER " (w = m g (1 - rho_water/1380), polyester 1380 kg/m^3, from memory)",
+            .wet_m_src = "derived from the given mass: w = m g (1 - rho_water/1380), polyester "
+                         "1380 kg/m^3 (from memory)",
+            .mbl_src_k = ENTER " (polyester MBL 0.25 d^2 kN, from memory)",
+            .ea_src_k = ENTER " (polyester EA 20 x MBL; 12-30 x MBL, load dependent)",
+            .ea_src_m = "approximate: polyester EA 20 x the given MBL (12-30 x MBL, load "
+                        "dependent); enter manufacturer catalogue data",
+            .fric_src = "default: fibre rope 0.6 (holdfast choice, as wire; keep fibre off the "
+                        "seabed)",
+        },
+    [HF_COMP_NYLON] =
+        {
+            .label = "nylon rope",
+            .dmin = 0.010,
+            .dmax = 0.400,
+            .rho = RHO_NYLON,
+            .mass_k = 0.00060,
+            .mbl_k = 0.20,
+            .ea_k = 5.0,
+            .friction = 0.6,
+            .approx = true,
+            .mass_src = ENTER " (nylon mass 0.00060 d^2 kg/m, from memory)",
+            .mass_w_src = "derived from the given wet weight: m = w / (g (1 - rho_water/1140)), "
+                          "nylon 1140 kg/m^3 (from memory)",
+            .wet_src = ENTER " (w = m g (1 - rho_water/1140), nylon 1140 kg/m^3, from memory)",
+            .wet_m_src = "derived from the given mass: w = m g (1 - rho_water/1140), nylon "
+                         "1140 kg/m^3 (from memory)",
+            .mbl_src_k = ENTER " (nylon MBL 0.20 d^2 kN, from memory)",
+            .ea_src_k = ENTER " (nylon EA 5 x MBL, from memory; strongly load dependent)",
+            .ea_src_m = "approximate: nylon EA 5 x the given MBL (from memory; strongly load "
+                        "dependent); enter manufacturer catalogue data",
+            .fric_src = "default: fibre rope 0.6 (holdfast choice, as wire; keep fibre off the "
+                        "seabed)",
+        },
+    [HF_COMP_CUSTOM] =
+        {
+            .label = "custom component",
+            .friction = 1.0,
+            .fric_src = "default: 1.0 (holdfast choice, as chain; give seabed_friction)",
+        },
 };
 
 const char *hf_component_type_name(hf_component_type t)
@@ -358,10 +402,9 @@ static hf_status check_kind(const hf_component *c, double rho, hf_error *err)
 static hf_status check_diameter(const hf_component *c, const kind *k, hf_error *err)
 {
     bool chain = hf_component_is_chain(c->type);
-    bool need_d = (!has(c, HF_PROP_MASS) && !has(c, HF_PROP_WET_WEIGHT)) ||
-                  !has(c, HF_PROP_MBL) ||
-                  (!has(c, HF_PROP_EA) && (chain || c->type == HF_COMP_SIX_STRAND ||
-                                           c->type == HF_COMP_SPIRAL_STRAND));
+    bool need_d = (!has(c, HF_PROP_MASS) && !has(c, HF_PROP_WET_WEIGHT)) || !has(c, HF_PROP_MBL) ||
+                  (!has(c, HF_PROP_EA) &&
+                   (chain || c->type == HF_COMP_SIX_STRAND || c->type == HF_COMP_SPIRAL_STRAND));
     if (c->diameter == 0.0 && !need_d)
         return HF_OK;
     if (c->diameter == 0.0)
@@ -440,8 +483,8 @@ static void resolve_ea(hf_component *c, const kind *k, bool *approx)
         c->value[HF_PROP_EA] =
             (ea_a[c->grade] - ea_b[c->grade] * dmm) * 1e10 * 2.0 * M_PI * dm * dm / 4.0;
         c->source[HF_PROP_EA] = ea_src[c->grade];
-        *approx = *approx || c->grade == HF_GRADE_1 || c->grade == HF_GRADE_2 ||
-                  c->grade == HF_GRADE_3;
+        *approx =
+            *approx || c->grade == HF_GRADE_1 || c->grade == HF_GRADE_2 || c->grade == HF_GRADE_3;
         break;
     case HF_COMP_STUDLINK_CHAIN:
         c->value[HF_PROP_EA] = 1.01e11 * dm * dm; /* from memory, approximate */

@@ -46,8 +46,8 @@ static int options_ok(const hf_line_options *o)
 {
     return isfinite(o->rtol) && o->rtol > 0.0 && o->rtol < 1e-2 && isfinite(o->ftol) &&
            o->ftol > 0.0 && o->ftol < 1e-2 && o->max_iter >= 1 && o->max_backtrack >= 1 &&
-           o->max_bracket >= 1 && o->max_shrink >= 1 && o->max_polish >= 1 &&
-           o->max_laid >= 1 && o->max_refine >= 0;
+           o->max_bracket >= 1 && o->max_shrink >= 1 && o->max_polish >= 1 && o->max_laid >= 1 &&
+           o->max_refine >= 0;
 }
 
 /* sqrt(a^2 + b^2) without glibc hypot's cost; hypot only where squaring
@@ -83,8 +83,7 @@ hf_status hf_line_check(const hf_line *line, hf_error *err)
         if (!finite_pos(s->mbl))
             return hf_error_set(err, HF_EINVAL, "section %zu: MBL must be finite and > 0", i);
         if (!isfinite(s->friction) || s->friction < 0.0)
-            return hf_error_set(err, HF_EINVAL, "section %zu: friction must be finite and >= 0",
-                                i);
+            return hf_error_set(err, HF_EINVAL, "section %zu: friction must be finite and >= 0", i);
         if (i + 1 < line->n) {
             const hf_joint *j = &line->joint[i];
             if (!isfinite(j->load))
@@ -150,7 +149,7 @@ static void suspended(double H, double w, double L, double EA, double Vt, double
         A = (log((Vt + Tt) / H) + log((Tb - Vb) / H)) / w;
         Q = (Vt / Tt - Vb / Tb) / w;
     }
-    double S = L * (Vt + Vb) / (Tt + Tb); /* = (Tt - Tb) / w */
+    double S = L * (Vt + Vb) / (Tt + Tb);                  /* = (Tt - Tb) / w */
     double C = -H * L * (Vt + Vb) / ((Tt + Tb) * Tt * Tb); /* = (H/w)(1/Tt - 1/Tb) */
     *x += H * A + H * L / EA;
     *z += S + L * (Vt + Vb) / (2.0 * EA);
@@ -178,8 +177,8 @@ static void touchdown_piece(double H, double w, double EA, double Vt, double *x,
 
 /* Tension and its derivatives carried along the grounded part. */
 typedef struct {
-    double t, t_h, t_v;   /* tension and d/dH, d/dV */
-    double s, s_h, s_v;   /* accumulated stretch and derivatives */
+    double t, t_h, t_v; /* tension and d/dH, d/dV */
+    double s, s_h, s_v; /* accumulated stretch and derivatives */
 } ground_t;
 
 /* A grounded piece of length l (dl/dV = l_v) with friction slope r = mu w:
@@ -220,15 +219,17 @@ static void ground_point(ground_t *g, double mu, double N, double n_v)
 /* Everything the walk learns, for the final state and the profile. */
 typedef struct {
     double x, z, J[2][2];
-    int grounded;          /* 1 when part of the line rests on the seabed */
-    int td_joint;          /* touchdown exactly at joint td_sec (clump), else 0 */
-    size_t td_sec;         /* section holding the touchdown (or joint index) */
-    double anchor_t;       /* tension at the anchor after friction, N */
-    double x_susp;         /* horizontal extent of the suspended part, m */
-    int buoy_down;         /* a buoy lies on the seabed below touchdown */
-    double sag_min;        /* lowest sag point above the seabed, m (+inf if none) */
-    double vb[NMAX], vt[NMAX];   /* V at the lower / upper end of each suspended piece */
-    double gl[NMAX];             /* grounded length of each section */
+    int grounded;                    /* 1 when part of the line rests on the seabed */
+    int td_joint;                    /* touchdown exactly at joint td_sec (clump), else 0 */
+    size_t td_sec;                   /* section holding the touchdown (or joint index) */
+    double anchor_t;                 /* tension at the anchor after friction, N */
+    double x_susp;                   /* horizontal extent of the suspended part, m */
+    int buoy_down;                   /* a buoy lies on the seabed below touchdown */
+    double sag_min;                  /* lowest sag point above the seabed, m (+inf if none) */
+    double z_max;                    /* highest point above the seabed, m: a section top (the
+                                      * fairlead or a buoy, where V drops going up) */
+    double vb[NMAX], vt[NMAX];       /* V at the lower / upper end of each suspended piece */
+    double gl[NMAX];                 /* grounded length of each section */
     double tg_lo[NMAX], tg_hi[NMAX]; /* tension at the lower / upper end of grounded pieces */
 } walk_t;
 
@@ -292,6 +293,8 @@ static void walk_suspended(const hf_line *line, double H, const double *vt, cons
             }
         }
         w->vt[k] = vt[k];
+        if (*z > w->z_max) /* V grows going up inside a section: maxima sit at its top */
+            w->z_max = *z;
     }
 }
 
@@ -310,8 +313,8 @@ static void ground_section(const hf_line *line, size_t k, ground_t *g, walk_t *w
 
 /* The grounded part, walked from touchdown down to the anchor: tension,
  * stretch and their derivatives in *g, grounded length *xg (d/dV *xg_v). */
-static void walk_grounded(const hf_line *line, const double *vt, walk_t *w, ground_t *g,
-                          double *xg, double *xg_v)
+static void walk_grounded(const hf_line *line, const double *vt, walk_t *w, ground_t *g, double *xg,
+                          double *xg_v)
 {
     size_t k = w->td_sec, n = line->n;
     if (k >= n) {
@@ -362,6 +365,7 @@ static hf_status walk(const hf_line *line, double H, double VF, walk_t *w)
     w->td_sec = 0;
     w->anchor_t = 0.0;
     w->sag_min = INFINITY;
+    w->z_max = 0.0;
     for (size_t k = 0; k < n; k++)
         w->vb[k] = w->vt[k] = w->gl[k] = w->tg_lo[k] = w->tg_hi[k] = 0.0;
     size_t k0 = find_touchdown(line, vt, vb, w);
@@ -403,8 +407,8 @@ hf_status hf_line_span(const hf_line *line, double h, double v, double *x, doubl
  * of section k with vertical force v0 at its foot.  Returns the column's
  * height, the fairlead force *vf, the smallest force in it *vmin and
  * B = sum(length / EA) (dheight/dv0). */
-static double column(const hf_line *line, size_t k, double l, double v0, double *vf,
-                     double *vmin, double *B)
+static double column(const hf_line *line, size_t k, double l, double v0, double *vf, double *vmin,
+                     double *B)
 {
     const hf_section *s = &line->sec[k];
     double v = v0, h = 0.0, b = 0.0, vm = v0;
@@ -426,15 +430,15 @@ static double column(const hf_line *line, size_t k, double l, double v0, double 
 }
 
 typedef struct {
-    int found;       /* 1: the line can hang with its foot on the seabed */
-    double s_t;      /* grounded (laid) unstretched length below the column, m */
-    double vf;       /* fairlead vertical force, N */
-    double kvv;      /* dV/dZ, N/m */
-    int bad;         /* the column would be in compression somewhere (buoy) */
-    size_t foot;     /* section holding the column's foot (or joint index when at_joint) */
-    int at_joint;    /* the foot is the clump on joint `foot`, partly on the seabed */
-    double foot_l;   /* hanging length of section `foot`, m (not at a joint) */
-    double foot_p;   /* part of the clump's weight the column carries, N (at a joint) */
+    int found;     /* 1: the line can hang with its foot on the seabed */
+    double s_t;    /* grounded (laid) unstretched length below the column, m */
+    double vf;     /* fairlead vertical force, N */
+    double kvv;    /* dV/dZ, N/m */
+    int bad;       /* the column would be in compression somewhere (buoy) */
+    size_t foot;   /* section holding the column's foot (or joint index when at_joint) */
+    int at_joint;  /* the foot is the clump on joint `foot`, partly on the seabed */
+    double foot_l; /* hanging length of section `foot`, m (not at a joint) */
+    double foot_p; /* part of the clump's weight the column carries, N (at a joint) */
 } hang_t;
 
 /* Finds the hanging configuration reaching height Z (Z > 0) with H = 0. */
@@ -518,18 +522,24 @@ static void sections_from_walk(const hf_line *line, const walk_t *w, double H, h
     }
 }
 
-static void finish_sections(const hf_line *line, hf_line_state *st)
+/* Utilisations T_max / MBL and the most loaded section.  Returns 0 when a
+ * utilisation cannot be represented (an MBL so small that T / MBL
+ * overflows): the solve then refuses the line rather than print inf. */
+static int finish_sections(const hf_line *line, hf_line_state *st)
 {
     st->max_utilisation = 0.0;
     st->max_section = 0;
     for (size_t k = 0; k < line->n; k++) {
         hf_section_result *r = &st->section[k];
         r->utilisation = r->t_max / line->sec[k].mbl;
+        if (!isfinite(r->utilisation))
+            return 0;
         if (r->utilisation > st->max_utilisation) {
             st->max_utilisation = r->utilisation;
             st->max_section = k;
         }
     }
+    return 1;
 }
 
 static void stiffness_from_flex(const double J[2][2], hf_line_state *st)
@@ -588,7 +598,8 @@ static const char msg_buoy_search[] =
     "no shape with a single touchdown fits this line with its buoys (the buoys can lift "
     "stretches of it off the seabed in more than one way); not supported";
 static const char msg_slack_buoy[] =
-    "a buoy in a slack line would be lifted with part of the line; not supported";
+    "no shape fits: hanging slack, the line's buoy would lift part of it (a second seabed "
+    "contact), and no taut shape with a single touchdown was found; not supported";
 
 /* ------------------------------------------------------------------------
  * Newton on (H, V) with a backtracking line search; the driver owns the loop.
@@ -598,12 +609,13 @@ typedef struct {
     const hf_line *line;
     double X, Z, tol, scale;
     double H, V;
-    walk_t buf[2];       /* storage of the two walks below */
-    walk_t *w;           /* the walk at (H, V) */
-    walk_t *trial;       /* scratch for the line search; swapped with w on acceptance */
-    double f;            /* merit: (rx^2 + rz^2) / scale^2 */
+    walk_t buf[2]; /* storage of the two walks below */
+    walk_t *w;     /* the walk at (H, V) */
+    walk_t *trial; /* scratch for the line search; swapped with w on acceptance */
+    double f;      /* merit: (rx^2 + rz^2) / scale^2 */
     int evals;
-    int max_backtrack;   /* line-search halvings per iteration (options) */
+    int max_backtrack; /* line-search halvings per iteration (options) */
+    double ferr;       /* estimated relative force error at the solution */
 } newton_t;
 
 static double merit(const newton_t *s, const walk_t *w)
@@ -626,8 +638,7 @@ static hf_status newton_set(newton_t *s, double H, double V)
 /* Convergence test: both residuals within tol (absolute, metres). */
 static hf_status newton_test(const newton_t *s)
 {
-    return (fabs(s->w->x - s->X) <= s->tol && fabs(s->w->z - s->Z) <= s->tol) ? HF_OK
-                                                                              : HF_CONTINUE;
+    return (fabs(s->w->x - s->X) <= s->tol && fabs(s->w->z - s->Z) <= s->tol) ? HF_OK : HF_CONTINUE;
 }
 
 /* The Newton correction (dH, dV) = -J^-1 r at the current walk.  Returns 0
@@ -644,17 +655,13 @@ static int newton_dir(const newton_t *s, const walk_t *w, double *dH, double *dV
     return isfinite(*dH) && isfinite(*dV);
 }
 
-/* Estimated relative error of the forces: the remaining Newton correction
- * over the fairlead tension, max(|dH| / H, |dV| / T) (H relative to itself:
- * a nearly laid line has tiny H that matters to its anchor).  +inf when the
- * correction is unknown. */
-static double force_error(const newton_t *s, const walk_t *w)
+/* Estimated relative error of the forces from the Newton correction (dH,
+ * dV): max(|dH| / H, |dV| / T), T the fairlead tension (H relative to itself:
+ * a nearly laid line has a tiny H that matters to its anchor). */
+static double rel_error(const newton_t *s, double dH, double dV)
 {
-    double dH, dV;
-    if (!newton_dir(s, w, &dH, &dV))
-        return INFINITY;
-    double T = mag(s->H, s->V);
-    return fmax(fabs(dH) / s->H, fabs(dV) / T);
+    double eh = fabs(dH) / s->H, ev = fabs(dV) / mag(s->H, s->V);
+    return eh > ev ? eh : ev;
 }
 
 /* Converging on the forces as well as on the span (issue 12 item 14): where
@@ -662,12 +669,17 @@ static double force_error(const newton_t *s, const walk_t *w)
  * by almost nothing) the span test holds while H is still off.  Full Newton
  * steps are taken while the estimated force error exceeds ftol and the span
  * stays within tolerance, at most max_refine of them; at the rounding floor
- * the correction is noise and the loop ends on the limit. */
+ * the correction is noise and the loop ends on the limit.  Leaves the
+ * estimate at the final walk in s->ferr (+inf when J is singular). */
 static void refine_forces(newton_t *s, double ftol, int max_refine)
 {
-    for (int i = 0; i < max_refine; i++) {
+    for (int i = 0;; i++) {
         double dH, dV;
-        if (force_error(s, s->w) <= ftol || !newton_dir(s, s->w, &dH, &dV))
+        s->ferr = INFINITY;
+        if (!newton_dir(s, s->w, &dH, &dV))
+            return;
+        s->ferr = rel_error(s, dH, dV);
+        if (s->ferr <= ftol || i >= max_refine)
             return;
         double H = s->H + dH, V = s->V + dV;
         if (!(H > 0.0))
@@ -811,6 +823,18 @@ static int solve_v(inner_t *base, double H, double *V)
         *V = hi;
         return 0;
     }
+    if (lo == 0.0) {
+        /* The bracket must straddle the root: GSL reports an error otherwise
+         * (and aborts a program that kept GSL's default handler).  z(H, 0) > Z
+         * would need V < 0, which this search does not cover. */
+        double flo = inner_f(0.0, &in);
+        if (flo == 0.0) {
+            *V = 0.0;
+            return 0;
+        }
+        if (!(flo < 0.0))
+            return -1;
+    }
     return brent(in.inner, &F, lo, hi, 1e-14 * hi, base->opt->max_bracket, V);
 }
 
@@ -849,8 +873,7 @@ static hf_status bracket(newton_t *s, inner_t *base, gsl_root_fsolver *outer)
     if (!(flo < 0.0) || !(fhi > 0.0))
         return HF_ENOCONV;
     double H, V;
-    if (brent(outer, &F, lo, hi, 1e-13 * hi, o->max_bracket, &H) != 0 ||
-        solve_v(base, H, &V) != 0)
+    if (brent(outer, &F, lo, hi, 1e-13 * hi, o->max_bracket, &H) != 0 || solve_v(base, H, &V) != 0)
         return HF_ENOCONV;
     return newton_set(s, H, V);
 }
@@ -1109,8 +1132,8 @@ static int closed_forms(const hf_line *line, double X, double Z, double tol,
         }
     }
     if (Z == 0.0 && X <= L + tol) {
-        hang_t hg = {.found = 1, .s_t = L, .foot = line->n - 1,
-                     .kvv = line->sec[line->n - 1].weight};
+        hang_t hg = {
+            .found = 1, .s_t = L, .foot = line->n - 1, .kvv = line->sec[line->n - 1].weight};
         *rc = solve_slack(line, &hg, st); /* fully laid and slack: zero tension */
         return 1;
     }
@@ -1192,15 +1215,25 @@ static hf_status newton_failure(const hf_line *line, hf_status ns, int slack_buo
     return fail(st, HF_ENOCONV, "the line solver did not converge");
 }
 
+/* A shape was found but is outside the model: the status and message say
+ * why, and h, v keep the forces of that shape so callers can say what was
+ * found (issue 12 item 15). */
+static hf_status refuse_found(hf_line_state *st, const char *msg, double H, double V)
+{
+    fail(st, HF_EUNSUPPORTED, msg);
+    st->h = H;
+    st->v = V;
+    return HF_EUNSUPPORTED;
+}
+
 /* Fills st from the converged walk of a suspended or touchdown line. */
-static hf_status state_from_walk(const hf_line *line, const newton_t *s, int slack_buoy,
-                                 hf_line_state *st)
+static hf_status state_from_walk(const hf_line *line, const newton_t *s, hf_line_state *st)
 {
     const walk_t *w = s->w;
     if (w->buoy_down)
-        return fail(st, HF_EUNSUPPORTED, slack_buoy ? msg_slack_buoy : msg_buoy);
+        return refuse_found(st, msg_buoy, s->H, s->V);
     if (w->sag_min < -s->tol)
-        return fail(st, HF_EUNSUPPORTED, slack_buoy ? msg_slack_buoy : msg_sag);
+        return refuse_found(st, msg_sag, s->H, s->V);
     st->regime = w->grounded ? HF_LINE_TOUCHDOWN : HF_LINE_SUSPENDED;
     st->h = s->H;
     st->v = s->V;
@@ -1228,8 +1261,8 @@ static hf_status state_from_walk(const hf_line *line, const newton_t *s, int sla
     sections_from_walk(line, w, s->H, st);
     stiffness_from_flex(w->J, st);
     st->residual = fmax(fabs(w->x - s->X), fabs(w->z - s->Z)) / s->scale;
-    double fe = force_error(s, w);
-    st->force_error = isfinite(fe) ? fe : 1.0;
+    st->z_max = w->z_max;
+    st->force_error = isfinite(s->ferr) ? s->ferr : 1.0;
     return HF_OK;
 }
 
@@ -1247,6 +1280,7 @@ static hf_status solve_general(const hf_line *line, double X, double Z, double s
     s.evals = 0;
     s.max_backtrack = opt->max_backtrack;
     s.H = s.V = s.f = 0.0;
+    s.ferr = INFINITY;
     s.w = &s.buf[0];
     s.trial = &s.buf[1];
     double H0, V0;
@@ -1257,7 +1291,7 @@ static hf_status solve_general(const hf_line *line, double X, double Z, double s
     st->evaluations = s.evals;
     if (ns != HF_OK)
         return newton_failure(line, ns, slack_buoy, st);
-    return state_from_walk(line, &s, slack_buoy, st);
+    return state_from_walk(line, &s, st);
 }
 
 hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_state *guess,
@@ -1273,7 +1307,8 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
     st->x = isfinite(X) ? X : 0.0;
     st->z = isfinite(Z) ? Z : 0.0;
     if (!options_ok(opt))
-        return fail(st, HF_EINVAL, "invalid line solver options (rtol, ftol in (0, 0.01), limits >= 1)");
+        return fail(st, HF_EINVAL,
+                    "invalid line solver options (rtol, ftol in (0, 0.01), limits >= 1)");
     if (hf_line_check(line, NULL) != HF_OK)
         return fail(st, HF_EINVAL, "invalid line data (check lengths, weights, EA, MBL)");
     st->n = line->n;
@@ -1289,7 +1324,12 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
         rc = solve_general(line, X, Z, scale, guess, opt, slack_buoy, st);
     if (rc != HF_OK)
         return rc;
-    finish_sections(line, st);
+    if (!finish_sections(line, st))
+        return fail(st, HF_EINVAL,
+                    "a section's MBL is too small for its tension: the utilisation T/MBL "
+                    "overflows (check the breaking loads)");
+    if (st->z_max < st->z)
+        st->z_max = st->z; /* the fairlead is a point of the line */
     st->status = HF_OK;
     if (!st->message)
         st->message = "";
@@ -1331,8 +1371,7 @@ static size_t steps(double len, double spacing)
 /* Slack line: the laid part's true shape on the seabed is unknown, it is
  * drawn straight from the anchor to the point below the fairlead; the
  * hanging column above it is vertical. */
-static void profile_slack(const hf_line *line, const hf_line_state *st, double spacing,
-                          sink_t *k)
+static void profile_slack(const hf_line *line, const hf_line_state *st, double spacing, sink_t *k)
 {
     double arc = 0.0, z = 0.0;
     double sx = st->grounded > 0.0 ? st->x / st->grounded : 0.0;

@@ -230,6 +230,75 @@ static hf_status solve_line(hf_spread *ws, size_t i)
     return s;
 }
 
+/* Marks line i unsolved with status s and a static reason. */
+static void line_unsolved(hf_spread *ws, size_t i, hf_status s, const char *why)
+{
+    hf_line_state *st = &ws->states[i];
+    memset(st, 0, sizeof *st);
+    st->status = s;
+    st->message = why;
+    st->n = ws->m->lines[i].line.n;
+    ws->warm[i] = 0;
+}
+
+/* Solves line i at its geometry (ws->geom[i]) with the checks the line
+ * solver cannot make, since it knows nothing of the water: the fairlead must
+ * be between the seabed and the still water level, and no point of the
+ * solved line above the water (a buoy can lift a line out of it; the model
+ * uses wet weights and does not cover a line in air: issue 12 item 2).
+ * Returns HF_OK or the status, with the message in err when `report`. */
+static hf_status line_at_pose(hf_spread *ws, size_t i, int report, hf_error *err)
+{
+    const hf_model *m = ws->m;
+    const hf_spread_geom *g = &ws->geom[i];
+    double water = hf_model_water_height(m); /* still water level above the seabed, m */
+    char buf[32];
+    if (!(g->z >= 0.0)) {
+        line_unsolved(ws, i, HF_EINVAL, "fairlead below the seabed at this pose");
+        return report ? hf_error_set(err, HF_EINVAL,
+                                     "line '%s': the fairlead is %.6g m below the seabed at this "
+                                     "hull pose",
+                                     line_name(m, i, buf), -g->z)
+                      : HF_EINVAL;
+    }
+    if (g->fairlead[2] > 0.0) {
+        line_unsolved(ws, i, HF_EUNSUPPORTED, "fairlead above the still water level at this pose");
+        return report ? hf_error_set(err, HF_EUNSUPPORTED,
+                                     "line '%s': the fairlead is %.6g m above the still water "
+                                     "level at this hull pose; a line in air is not modelled "
+                                     "(its weight would be taken as the wet weight)",
+                                     line_name(m, i, buf), g->fairlead[2])
+                      : HF_EUNSUPPORTED;
+    }
+    hf_status s = solve_line(ws, i);
+    const hf_line_state *st = &ws->states[i];
+    if (s != HF_OK && st->h > 0.0) /* a shape was found and refused: say which */
+        return report ? hf_error_set(err, s,
+                                     "line '%s': %s (horizontal span %.6g m, height %.6g m; "
+                                     "shape found: H %.4g kN, V %.4g kN at the fairlead)",
+                                     line_name(m, i, buf), st->message, g->x, g->z, st->h / 1e3,
+                                     st->v / 1e3)
+                      : s;
+    if (s != HF_OK)
+        return report
+                   ? hf_error_set(err, s, "line '%s': %s (horizontal span %.6g m, height %.6g m)",
+                                  line_name(m, i, buf),
+                                  st->message && st->message[0] ? st->message : hf_status_str(s),
+                                  g->x, g->z)
+                   : s;
+    if (st->z_max > water + 1e-9 * fmax(water, 1.0)) {
+        double top = st->z_max, above = top - water; /* read before the state is cleared */
+        line_unsolved(ws, i, HF_EUNSUPPORTED, "a buoy lifts the line above the still water level");
+        return report ? hf_error_set(err, HF_EUNSUPPORTED,
+                                     "line '%s': its buoys would lift the line %.4g m above the "
+                                     "still water level (highest point %.6g m above the seabed, "
+                                     "water %.6g m deep); a line out of the water is not modelled",
+                                     line_name(m, i, buf), above, top, water)
+                      : HF_EUNSUPPORTED;
+    }
+    return HF_OK;
+}
+
 hf_status hf_spread_solve(hf_spread *ws, const hf_pose *pose, hf_spread_result *res, hf_error *err)
 {
     const hf_model *m = ws->m;
@@ -261,31 +330,11 @@ hf_status hf_spread_solve(hf_spread *ws, const hf_pose *pose, hf_spread_result *
             st->n = m->lines[i].line.n;
             continue;
         }
-        char buf[32];
-        if (!(g->z >= 0.0)) {
-            memset(st, 0, sizeof *st);
-            st->status = HF_EINVAL;
-            st->message = "fairlead below the seabed at this pose";
-            st->n = m->lines[i].line.n;
-            ws->warm[i] = 0;
-            if (first == HF_OK) {
-                first = HF_EINVAL;
-                res->failed_line = i;
-                hf_error_set(err, HF_EINVAL,
-                             "line '%s': the fairlead is %.6g m below the seabed at this hull pose",
-                             line_name(m, i, buf), -g->z);
-            }
-            continue;
-        }
-        s = solve_line(ws, i);
+        s = line_at_pose(ws, i, first == HF_OK, err);
         if (s != HF_OK) {
             if (first == HF_OK) {
                 first = s;
                 res->failed_line = i;
-                hf_error_set(err, s, "line '%s': %s (horizontal span %.6g m, height %.6g m)",
-                             line_name(m, i, buf),
-                             st->message && st->message[0] ? st->message : hf_status_str(s), g->x,
-                             g->z);
             }
             continue;
         }

@@ -1,6 +1,7 @@
 /* units.c - parses quantities written with units ("76 mm") into SI values. */
 #include <ctype.h>
 #include <errno.h>
+#include <float.h>
 #include <locale.h>
 #include <math.h>
 #include <stdio.h>
@@ -99,7 +100,7 @@ static const unit units[] = {
     {"mm2", HF_DIM_AREA, 1e-6},
     {"cm2", HF_DIM_AREA, 1e-4},
     {"m2", HF_DIM_AREA, 1.0},
-    {"ft2", HF_DIM_AREA, FT * FT},
+    {"ft2", HF_DIM_AREA, FT *FT},
 
     {"N*m", HF_DIM_MOMENT, 1.0},
     {"Nm", HF_DIM_MOMENT, 1.0},
@@ -108,8 +109,8 @@ static const unit units[] = {
     {"MN*m", HF_DIM_MOMENT, 1e6},
     {"MNm", HF_DIM_MOMENT, 1e6},
     {"tf*m", HF_DIM_MOMENT, 1e3 * GN},
-    {"lbf*ft", HF_DIM_MOMENT, LBF * FT},
-    {"kip*ft", HF_DIM_MOMENT, 1e3 * LBF * FT},
+    {"lbf*ft", HF_DIM_MOMENT, LBF *FT},
+    {"kip*ft", HF_DIM_MOMENT, 1e3 * LBF *FT},
 };
 #define NUNITS (sizeof units / sizeof units[0])
 
@@ -377,12 +378,13 @@ static size_t scan_number(const char *s)
 /* Converts the scanned number with strtod.  holdfast never calls setlocale,
  * but should a program embedding the library do so, the locale's decimal
  * point replaces '.' first so the conversion means the same everywhere. */
-static double convert(const char *s, size_t len, int *range)
+static double convert(const char *s, size_t len, int *range, int *under)
 {
     char buf[128];
     const char *dp = localeconv()->decimal_point;
     char *end;
     double v;
+    *under = 0;
     if (len >= sizeof buf) {
         *range = 1;
         return 0.0;
@@ -397,6 +399,8 @@ static double convert(const char *s, size_t len, int *range)
     errno = 0;
     v = strtod(buf, &end);
     *range = !isfinite(v) || (errno == ERANGE && fabs(v) > 1.0) || *end != '\0';
+    /* underflow: a non-zero number written, zero or subnormal returned */
+    *under = errno == ERANGE && fabs(v) <= 1.0;
     return v;
 }
 
@@ -429,6 +433,23 @@ static double to_si(double v, const unit *u)
     if (u->dim != HF_DIM_ANGLE)
         return v * u->factor;
     return u->factor == 1.0 ? rad_reduce(v) : hf_units_deg_to_rad(v);
+}
+
+/* A non-zero value below the smallest normal double (DBL_MIN, 2.2e-308):
+ * subnormal, with few significant bits, and its reciprocal overflows (a
+ * breaking load of 1e-320 N gave an infinite utilisation).  Angles are
+ * exempt only as exact zero, like every other quantity. */
+static int tiny(double v)
+{
+    return v != 0.0 && fabs(v) < DBL_MIN;
+}
+
+static hf_status too_small(hf_dim want, const char *shown, hf_error *err)
+{
+    return hf_error_set(err, HF_EINVAL,
+                        "expected %s %s, got \"%s\" (too small to compute with: a non-zero value "
+                        "must be at least 2.2e-308 in SI units; write 0 for zero)",
+                        article(want), names[want], shown);
 }
 
 /* The message for a unit text u[0..ulen) that is no known unit. */
@@ -487,7 +508,7 @@ hf_status hf_units_parse(const char *text, hf_dim want, double *out, hf_error *e
     const char *s, *u;
     size_t n, ulen;
     const unit *found;
-    int range;
+    int range, under;
     double v;
 
     if ((unsigned)want >= HF_DIM_COUNT)
@@ -514,11 +535,13 @@ hf_status hf_units_parse(const char *text, hf_dim want, double *out, hf_error *e
                             names[want], want == HF_DIM_NONE ? " without a unit" : " and a unit",
                             examples[want], shown);
     }
-    v = convert(s, n, &range);
+    v = convert(s, n, &range, &under);
     if (range)
         return hf_error_set(err, HF_EINVAL,
                             "expected a finite %s, got \"%s\" (the number is out of range)",
                             names[want], shown);
+    if (under)
+        return too_small(want, shown, err);
 
     /* The unit: what follows the number, trimmed. */
     u = s + n;
@@ -530,7 +553,10 @@ hf_status hf_units_parse(const char *text, hf_dim want, double *out, hf_error *e
 
     if (ulen == 0) {
         /* A plain number is SI, except that angles are given in degrees. */
-        *out = want == HF_DIM_ANGLE ? hf_units_deg_to_rad(v) : v;
+        v = want == HF_DIM_ANGLE ? hf_units_deg_to_rad(v) : v;
+        if (tiny(v))
+            return too_small(want, shown, err);
+        *out = v;
         return HF_OK;
     }
 
@@ -540,11 +566,15 @@ hf_status hf_units_parse(const char *text, hf_dim want, double *out, hf_error *e
     if (found->dim != want)
         return wrong_dimension(norm, found, want, shown, err);
 
+    if (tiny(v))
+        return too_small(want, shown, err);
     v = to_si(v, found);
     if (!isfinite(v))
         return hf_error_set(err, HF_EINVAL,
                             "expected a finite %s, got \"%s\" (out of range in SI units)",
                             names[want], shown);
+    if (tiny(v))
+        return too_small(want, shown, err);
     *out = v;
     return HF_OK;
 }

@@ -223,6 +223,32 @@ static void test_zero_load(void **state)
     hf_balance_free(b);
 }
 
+/* hf_balance_refresh: after the model's hull position changes in place (as a
+ * sweep does), offsets are measured from the new rest pose.  Moving the hull
+ * of the symmetric four-line spread by (3.7, -2.1) m with no load, the
+ * equilibrium is still the centre of symmetry, so the offset from the new
+ * rest pose must be (-3.7, +2.1) m, yaw 0 (symmetry argument). */
+static void test_refresh(void **state)
+{
+    (void)state;
+    fixture fx;
+    four_line(&fx);
+    hf_error e;
+    hf_balance *b = hf_balance_alloc(&fx.m, &e);
+    assert_non_null(b);
+    hf_load l = load_of("calm", 0.0, 0.0, 0.0);
+    fx.m.hull.position[0] += 3.7;
+    fx.m.hull.position[1] -= 2.1;
+    hf_balance_refresh(b);
+    assert_int_equal(hf_balance_solve(b, &l, 0, &e), HF_OK);
+    const hf_balance_result *r = hf_balance_result_at(b, 0);
+    assert_float_equal(r->offset[0], -3.7, 1e-6);
+    assert_float_equal(r->offset[1], 2.1, 1e-6);
+    assert_float_equal(r->offset[2], 0.0, 1e-9);
+    check_residual(&fx.m, r, HF_BALANCE_NONE, 1e-3);
+    hf_balance_free(b);
+}
+
 static void test_load_along_x(void **state)
 {
     (void)state;
@@ -762,6 +788,7 @@ int main(void)
         cmocka_unit_test(test_load_force),
         cmocka_unit_test(test_drag_force),
         cmocka_unit_test(test_zero_load),
+        cmocka_unit_test(test_refresh),
         cmocka_unit_test(test_load_along_x),
         cmocka_unit_test(test_broken_conditions),
         cmocka_unit_test(test_symmetry_sway_and_yaw),

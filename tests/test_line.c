@@ -19,10 +19,23 @@
 
 static void no_nan(const hf_line_state *s)
 {
-    const double *v[] = {&s->x, &s->z, &s->h, &s->v, &s->tension, &s->anchor_h, &s->anchor_v,
-                         &s->anchor_tension, &s->anchor_angle, &s->touchdown_x, &s->grounded,
-                         &s->residual, &s->max_utilisation, &s->stiffness[0][0],
-                         &s->stiffness[0][1], &s->stiffness[1][0], &s->stiffness[1][1]};
+    const double *v[] = {&s->x,
+                         &s->z,
+                         &s->h,
+                         &s->v,
+                         &s->tension,
+                         &s->anchor_h,
+                         &s->anchor_v,
+                         &s->anchor_tension,
+                         &s->anchor_angle,
+                         &s->touchdown_x,
+                         &s->grounded,
+                         &s->residual,
+                         &s->max_utilisation,
+                         &s->stiffness[0][0],
+                         &s->stiffness[0][1],
+                         &s->stiffness[1][0],
+                         &s->stiffness[1][1]};
     for (size_t i = 0; i < sizeof v / sizeof v[0]; i++)
         if (!isfinite(*v[i]))
             fail_msg("output field %zu is not finite (%g)", i, *v[i]);
@@ -96,8 +109,8 @@ static void test_touchdown_hand_calculation(void **state)
 {
     (void)state;
     const double w = 828.0, T = 1510e3, d = 25.0;
-    double a = T / w - d;                     /* T = w (a + d), directrix identity */
-    double sus = sqrt(d * d + 2.0 * a * d);   /* suspended length */
+    double a = T / w - d;                   /* T = w (a + d), directrix identity */
+    double sus = sqrt(d * d + 2.0 * a * d); /* suspended length */
     double L = 600.0;
     double X = (L - sus) + a * asinh(sus / a);
     hf_line line = one(L, w, 1e22, 0.0);
@@ -255,10 +268,10 @@ static hf_line three_with_clump(double mu)
     hf_line l;
     memset(&l, 0, sizeof l);
     l.n = 3;
-    l.sec[0] = (hf_section){312.5, 1136.0, 5.46e8, 6.1e6, mu};  /* chain */
-    l.sec[1] = (hf_section){438.2, 165.3, 3.71e8, 5.3e6, 0.6};  /* wire */
-    l.sec[2] = (hf_section){41.7, 1136.0, 5.46e8, 6.1e6, mu};   /* chain */
-    l.joint[0] = (hf_joint){78.4e3, 1.0};                       /* clump */
+    l.sec[0] = (hf_section){312.5, 1136.0, 5.46e8, 6.1e6, mu}; /* chain */
+    l.sec[1] = (hf_section){438.2, 165.3, 3.71e8, 5.3e6, 0.6}; /* wire */
+    l.sec[2] = (hf_section){41.7, 1136.0, 5.46e8, 6.1e6, mu};  /* chain */
+    l.joint[0] = (hf_joint){78.4e3, 1.0};                      /* clump */
     return l;
 }
 
@@ -460,7 +473,8 @@ static void test_buoy_unsupported(void **state)
     assert_int_equal(st, HF_EUNSUPPORTED);
     assert_int_equal(s.status, HF_EUNSUPPORTED);
     assert_non_null(strstr(s.message, "buoy"));
-    assert_true(s.h == 0.0 && s.tension == 0.0);
+    /* results zeroed; h, v keep the refused shape's forces (line.h) */
+    assert_true(s.tension == 0.0 && s.anchor_tension == 0.0 && s.h > 0.0);
     /* lifted clear of the seabed the same buoy is fine */
     st = hf_line_solve(&line, 785.0, 96.5, NULL, NULL, &s);
     assert_int_equal(st, HF_OK);
@@ -552,8 +566,8 @@ static void test_jacobian(void **state)
             for (int r = 0; r < 2; r++)
                 for (int c = 0; c < 2; c++)
                     if (fabs(J[r][c] - fd[r][c]) > 1e-6 * norm)
-                        fail_msg("line %d point %d J[%d][%d] = %.9e, differences %.9e", li, i,
-                                 r, c, J[r][c], fd[r][c]);
+                        fail_msg("line %d point %d J[%d][%d] = %.9e, differences %.9e", li, i, r, c,
+                                 J[r][c], fd[r][c]);
         }
 }
 
@@ -678,7 +692,8 @@ static long double ref_z(const ref_line *r, long double H, long double ls)
 static long double ref_x(const ref_line *r, long double H, long double ls)
 {
     long double a = H / r->w, lg = r->L - ls, f = r->mu * r->w;
-    long double sg = H >= f * lg ? (H * lg - 0.5L * f * lg * lg) / r->ea : H * H / (2.0L * f * r->ea);
+    long double sg =
+        H >= f * lg ? (H * lg - 0.5L * f * lg * lg) / r->ea : H * H / (2.0L * f * r->ea);
     return lg + sg + a * asinhl(ls / a) + H * ls / r->ea;
 }
 
@@ -753,6 +768,88 @@ static void test_nearly_laid(void **state)
     long double H = ref_h(&r, 850.0 - 0.0009, 0.001);
     assert_true(fabsl((s.h - H) / H) > 1e-6);
     assert_true(s.force_error > 1e-7); /* and the estimate says so */
+}
+
+/* Issue 12 item 15: a buoy line whose hanging (slack) column is invalid but
+ * whose taut shape the solver does find, with H in the hundreds of kN, was
+ * refused as "a buoy in a slack line".  The message now says what was found
+ * (a sag into the seabed), and h, v carry that shape's forces, which the
+ * forward map confirms reach the fairlead. */
+static void test_refusal_says_what_was_found(void **state)
+{
+    (void)state;
+    hf_line l;
+    memset(&l, 0, sizeof l);
+    l.n = 2;
+    l.sec[0] = (hf_section){103.7, 987.5, 4.9e8, 5e6, 0.5};
+    l.sec[1] = (hf_section){546.3, 987.5, 4.9e8, 5e6, 0.5};
+    l.joint[0] = (hf_joint){-693.4e3, 0.5};
+    hf_line_state s;
+    assert_int_equal(hf_line_solve(&l, 431.2, 94.6, NULL, NULL, &s), HF_EUNSUPPORTED);
+    if (strstr(s.message, "slack") || !strstr(s.message, "sag into the seabed"))
+        fail_msg("message \"%s\" does not say what was found", s.message);
+    assert_true(s.h > 1e4 && isfinite(s.v));
+    double x, z, J[2][2];
+    assert_int_equal(hf_line_span(&l, s.h, s.v, &x, &z, J), HF_OK);
+    assert_float_equal(x, 431.2, 1e-6);
+    assert_float_equal(z, 94.6, 1e-6);
+    /* where no taut shape exists either, the message says both */
+    l.sec[0].length = 512.9;
+    l.sec[1].length = 137.1;
+    assert_int_equal(hf_line_solve(&l, 431.2, 94.6, NULL, NULL, &s), HF_EUNSUPPORTED);
+    if (!strstr(s.message, "no taut shape"))
+        fail_msg("message \"%s\"", s.message);
+    assert_true(s.h == 0.0);
+}
+
+/* Issue 12 item 6: an MBL so small that T / MBL overflows (1e-305 N: a
+ * normal double, but 1e5 N / 1e-305 N is beyond DBL_MAX = 1.8e308, C11
+ * 5.2.4.2.2) is refused, never reported as an infinite utilisation. */
+static void test_unrepresentable_utilisation(void **state)
+{
+    (void)state;
+    hf_line line = three_with_clump(0.6);
+    line.sec[1].mbl = 1e-305;
+    hf_line_state s;
+    assert_int_equal(hf_line_solve(&line, 742.35, 96.8, NULL, NULL, &s), HF_EINVAL);
+    assert_non_null(strstr(s.message, "utilisation"));
+    no_nan(&s);
+    line.sec[1].mbl = 1e-3; /* tiny but representable: solved, utilisation finite */
+    assert_int_equal(hf_line_solve(&line, 742.35, 96.8, NULL, NULL, &s), HF_OK);
+    assert_true(isfinite(s.max_utilisation) && s.max_utilisation > 1e6);
+}
+
+/* Issue 12 item 16: a clump and a buoy at one grounded joint (the
+ * fictional "Dunmore" line: 120 kN clump with friction 0.8 under a 70 kN
+ * buoy).  The rule (docs/theory.md, "Point loads on the seabed"): the seabed
+ * carries the net normal force N = 120 - 70 = 50 kN under the clump, the
+ * floating buoy touches nothing, so the tension drops by mu_clump N =
+ * 0.8 x 50 kN = 40 kN across the joint (Coulomb friction on a block, any
+ * statics text), not by 0.8 x 120 kN nor by a load-weighted mean of the two
+ * coefficients times N (0.533 x 50 kN, what a weighting over clump and buoy
+ * gives).  The model layer passes the joint the net load and the clumps'
+ * friction; here the line is given them directly. */
+static void test_clump_and_buoy_on_seabed(void **state)
+{
+    (void)state;
+    hf_line l;
+    memset(&l, 0, sizeof l);
+    l.n = 2;
+    l.sec[0] = (hf_section){300.0, 903.7, 5.2e8, 6e6, 0.1};
+    l.sec[1] = (hf_section){560.0, 903.7, 5.2e8, 6e6, 0.1};
+    l.joint[0] = (hf_joint){120e3 - 70e3, 0.8};
+    hf_line_state s;
+    assert_int_equal(hf_line_solve(&l, 838.6, 71.3, NULL, NULL, &s), HF_OK);
+    assert_int_equal(s.regime, HF_LINE_TOUCHDOWN);
+    /* the whole first section and the joint on the seabed, touchdown in section 1 */
+    assert_true(s.section[0].grounded == 300.0);
+    assert_true(s.section[1].grounded > 0.0 && s.section[1].grounded < 560.0);
+    /* drop across the joint: mu_clump x net load */
+    assert_float_equal(s.section[1].t_lower - s.section[0].t_upper, 0.8 * 50e3, 1e-6);
+    /* and the anchor by hand: H, less mu w per grounded metre, less the joint */
+    double hand = s.h - 0.1 * 903.7 * s.section[1].grounded - 0.8 * 50e3 - 0.1 * 903.7 * 300.0;
+    assert_true(hand > 0.0);
+    assert_float_equal(s.anchor_tension, hand, 1e-6 * s.h);
 }
 
 /* Deterministic generator (xorshift64*), so failures reproduce. */
@@ -868,6 +965,9 @@ int main(void)
         cmocka_unit_test(test_profile),
         cmocka_unit_test(test_options_and_fallback),
         cmocka_unit_test(test_nearly_laid),
+        cmocka_unit_test(test_refusal_says_what_was_found),
+        cmocka_unit_test(test_unrepresentable_utilisation),
+        cmocka_unit_test(test_clump_and_buoy_on_seabed),
         cmocka_unit_test(test_random),
     };
     return cmocka_run_group_tests_name("line", tests, NULL, NULL);

@@ -10,6 +10,7 @@
 #include <string.h>
 #include "support.h"
 #include "holdfast/alloc.h"
+#include "holdfast/case.h"
 #include "holdfast/spread.h"
 
 /* ---- models built directly in C (no case loader) ---- */
@@ -583,6 +584,108 @@ static void test_no_lines_and_alloc_failure(void **state)
     assert_true(failed >= 6); /* the failure branch was exercised, not skipped */
 }
 
+/* Issue 12 item 2: no point of a line above the still water level.  The
+ * fictional "Carrick float": 100 m of water, one line of 200 m + 450 m at
+ * 1 kN/m with a 700 kN buoy at the joint, fairlead 5 m below the water,
+ * anchor 520 m away.  The buoy lifts the line far out of the water; the
+ * height in the message is checked against the solved line's own profile
+ * (hf_line_profile, sampled every 0.5 m). */
+static void test_line_out_of_water(void **state)
+{
+    (void)state;
+    fixture fx;
+    static const double az[1] = {0.0};
+    radial(&fx, 1, az, 100.0, 520.0, 0.0, -5.0, 200.0, 1000.0, 5e8, 0.5);
+    hf_line *l = &fx.lines[0].line;
+    l->n = 2;
+    l->sec[0].length = 200.0;
+    l->sec[1] = l->sec[0];
+    l->sec[1].length = 450.0;
+    l->joint[0].load = -700e3;
+    l->joint[0].friction = 0.5;
+    /* the line alone, without the water: solved, and its profile rises above 100 m */
+    hf_line_state ls;
+    assert_int_equal(hf_line_solve(l, 520.0, 95.0, NULL, NULL, &ls), HF_OK);
+    static hf_line_point pts[4000];
+    size_t np = hf_line_profile(l, &ls, 0.5, pts, 4000);
+    assert_true(np > 100 && np <= 4000);
+    double top = 0.0;
+    for (size_t k = 0; k < np; k++)
+        top = fmax(top, pts[k].z);
+    assert_true(top > 100.0);
+    assert_float_equal(ls.z_max, top, 1e-6 * top);
+    /* in the spread: refused, naming the line and how far above the water */
+    hf_error e;
+    hf_spread *ws = hf_spread_alloc(&fx.m, &e);
+    assert_non_null(ws);
+    hf_pose p;
+    hf_spread_pose_rest(&fx.m, &p);
+    hf_spread_result r;
+    hf_error_clear(&e);
+    assert_int_equal(hf_spread_solve(ws, &p, &r, &e), HF_EUNSUPPORTED);
+    assert_int_equal(hf_status_exit_code(HF_EUNSUPPORTED), 3);
+    assert_int_equal(r.failed_line, 0);
+    char want[64], want2[64];
+    snprintf(want, sizeof want, "%.4g m above the still water level", top - 100.0);
+    snprintf(want2, sizeof want2, "highest point %.6g m above the seabed", top);
+    if (!strstr(e.text, "'L1'") || !strstr(e.text, want) || !strstr(e.text, want2))
+        fail_msg("message \"%s\" lacks the line, \"%s\" or \"%s\"", e.text, want, want2);
+    /* no buoy: the same line stays under water and solves */
+    l->joint[0].load = 0.0;
+    assert_int_equal(hf_spread_solve(ws, &p, &r, &e), HF_OK);
+    assert_true(r.states[0].z_max <= 95.0 + 1e-9);
+    /* a fairlead above the water is refused too (its line would be in air) */
+    fx.lines[0].fairlead[2] = 1.25;
+    hf_error_clear(&e);
+    assert_int_equal(hf_spread_solve(ws, &p, &r, &e), HF_EUNSUPPORTED);
+    if (!strstr(e.text, "'L1'") || !strstr(e.text, "1.25 m above the still water level"))
+        fail_msg("message \"%s\"", e.text);
+    /* at the water line exactly: allowed */
+    fx.lines[0].fairlead[2] = 0.0;
+    assert_int_equal(hf_spread_solve(ws, &p, &r, &e), HF_OK);
+    hf_spread_free(ws);
+}
+
+/* Issue 12 item 18: K is not symmetric even at a symmetric rest pose.  The
+ * barge demo (8 lines, symmetric about both hull axes) at rest: the
+ * analytic K(surge, pitch) and K(pitch, surge) differ by 0.6 %, and
+ * K(sway, roll), K(roll, sway) by 10 %; central differences of the mooring
+ * force (an outside check on the analytic matrix) confirm both entries of
+ * each pair, so the asymmetry is the physics (seabed friction, which makes
+ * the line forces path-dependent, and the load-stiffness terms (dr/dq) x f
+ * of the pretension), not an error.  docs/spread.md section 3 says so. */
+static void test_asymmetric_at_symmetric_rest(void **state)
+{
+    (void)state;
+    char path[4096];
+    hf_model m;
+    hf_error e;
+    hf_model_init(&m);
+    hf_test_root_path(path, sizeof path, "cases/barge.yaml");
+    if (hf_case_load(path, &m, &e) != HF_OK)
+        fail_msg("%s", e.text);
+    hf_pose p;
+    hf_spread_pose_rest(&m, &p);
+    check_fd(&m, &p); /* every entry of the analytic K against central differences */
+    hf_spread *ws = ws_for(&m);
+    double K[6][6];
+    hf_spread_result r;
+    assert_int_equal(hf_spread_stiffness(ws, &p, K, &r, &e), HF_OK);
+    print_message("barge rest: K(surge,pitch) %.6g, K(pitch,surge) %.6g kN; K(sway,roll) %.6g, "
+                  "K(roll,sway) %.6g kN\n",
+                  K[0][4] / 1e3, K[4][0] / 1e3, K[1][3] / 1e3, K[3][1] / 1e3);
+    /* the values reported in issue 12 (kN/rad and kN m/m), to 0.1 % */
+    assert_float_equal(K[0][4] / 1e3, 4226.53, 4.3);
+    assert_float_equal(K[4][0] / 1e3, 4251.45, 4.3);
+    assert_float_equal(K[1][3] / 1e3, 78.587, 0.08);
+    assert_float_equal(K[3][1] / 1e3, 71.374, 0.08);
+    /* asymmetric well beyond the differencing tolerance of check_fd (2e-5) */
+    assert_true(fabs(K[0][4] - K[4][0]) > 3e-3 * fabs(K[0][4]));
+    assert_true(fabs(K[1][3] - K[3][1]) > 5e-2 * fabs(K[1][3]));
+    hf_spread_free(ws);
+    hf_model_free(&m);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -593,6 +696,8 @@ int main(void)
         cmocka_unit_test(test_broken_mask),
         cmocka_unit_test(test_stiffness_vs_differences),
         cmocka_unit_test(test_symmetry),
+        cmocka_unit_test(test_line_out_of_water),
+        cmocka_unit_test(test_asymmetric_at_symmetric_rest),
         cmocka_unit_test(test_oc3_published),
         cmocka_unit_test(test_failures),
         cmocka_unit_test(test_warm_start_and_reset),

@@ -71,7 +71,8 @@ static void test_exponent(void **state)
     ok("7.5e+2 mm", HF_DIM_LENGTH, 0.75);
     ok("-2.5e2 m", HF_DIM_LENGTH, -250.0);
     ok("1e308", HF_DIM_LENGTH, 1e308);
-    ok("4.9e-324 m", HF_DIM_LENGTH, 4.9e-324); /* subnormal is finite: accepted */
+    ok("2.5e-308 m", HF_DIM_LENGTH, 2.5e-308);     /* normal: accepted */
+    bad("4.9e-324 m", HF_DIM_LENGTH, "too small"); /* subnormal: refused (test_too_small) */
 }
 
 /* Forces.  NIST SP 811 (2008) B.8/B.9 with exact definitions: kgf = 9.80665 N,
@@ -186,6 +187,23 @@ static void test_angle_reduction(void **state)
     assert_int_equal(hf_units_parse("-7 rad", HF_DIM_ANGLE, &v, &e), HF_OK);
     assert_true(v < 0.0 && v > -2.0 * M_PI);
     assert_float_equal(v, -7.0 + 2.0 * M_PI, 1e-14);
+}
+
+/* Issue 12 item 6: values whose results cannot be represented.  DBL_MIN =
+ * 2.2250738585072014e-308 is the smallest normal double (C11 5.2.4.2.2);
+ * below it a value is subnormal (few significant bits) and 1/v overflows. */
+static void test_too_small(void **state)
+{
+    (void)state;
+    bad("1e-320", HF_DIM_FORCE, "too small");    /* breaking_load: 1e-320 */
+    bad("1e-400 kN", HF_DIM_FORCE, "too small"); /* underflows to 0 as written */
+    bad("-4e-310 N", HF_DIM_FORCE, "too small");
+    bad("1e-306 mm", HF_DIM_LENGTH, "too small"); /* normal as written, subnormal in SI */
+    bad("1e-310 deg", HF_DIM_ANGLE, "too small");
+    ok("2.3e-308", HF_DIM_FORCE, 2.3e-308); /* the smallest normal range is fine */
+    ok("0", HF_DIM_FORCE, 0.0);             /* zero is zero */
+    ok("0e-400", HF_DIM_FORCE, 0.0);
+    ok("0.0 kN", HF_DIM_FORCE, 0.0);
 }
 
 static void test_density_speed_area(void **state)
@@ -419,6 +437,7 @@ int main(void)
         cmocka_unit_test(test_pressure),
         cmocka_unit_test(test_angle),
         cmocka_unit_test(test_angle_reduction),
+        cmocka_unit_test(test_too_small),
         cmocka_unit_test(test_density_speed_area),
         cmocka_unit_test(test_moment),
         cmocka_unit_test(test_dimensionless),

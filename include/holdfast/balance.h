@@ -42,7 +42,7 @@
 #include "holdfast/status.h"
 
 #define HF_BALANCE_NONE ((size_t)-1)
-#define HF_BALANCE_MESSAGE 256
+#define HF_BALANCE_MESSAGE 512 /* room for a line's refusal and the load reached */
 
 typedef struct {
     double ftol;       /* converged when |Fx|,|Fy| <= ftol * F and |Mz| <= ftol * F * Lref,
@@ -172,8 +172,8 @@ typedef int (*hf_balance_visit)(void *ctx, size_t cond, const hf_balance_result 
  * (HF_ENOEQUIL, HF_ENOCONV, HF_EUNSUPPORTED, HF_EINVAL): every condition is
  * still attempted and carries its own status and message.  When visit stops
  * the run: that first failure status, else HF_CONTINUE. */
-hf_status hf_balance_run_each(hf_balance *b, const hf_load *load, hf_balance_visit visit,
-                              void *ctx, hf_error *err);
+hf_status hf_balance_run_each(hf_balance *b, const hf_load *load, hf_balance_visit visit, void *ctx,
+                              hf_error *err);
 
 /* Like hf_balance_run_each without a visitor, but keeps the result of every
  * condition for hf_balance_result_at.  Its first call on a workspace

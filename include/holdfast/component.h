@@ -14,8 +14,8 @@
 typedef enum {
     HF_COMP_STUDLESS_CHAIN = 0,
     HF_COMP_STUDLINK_CHAIN,
-    HF_COMP_SIX_STRAND,      /* six-strand wire rope */
-    HF_COMP_SPIRAL_STRAND,   /* spiral-strand wire rope */
+    HF_COMP_SIX_STRAND,    /* six-strand wire rope */
+    HF_COMP_SPIRAL_STRAND, /* spiral-strand wire rope */
     HF_COMP_POLYESTER,
     HF_COMP_NYLON,
     HF_COMP_CUSTOM,
@@ -24,29 +24,35 @@ typedef enum {
 
 typedef enum {
     HF_GRADE_NONE = 0,
-    HF_GRADE_R3, HF_GRADE_R3S, HF_GRADE_R4, HF_GRADE_R4S, HF_GRADE_R5,
-    HF_GRADE_1, HF_GRADE_2, HF_GRADE_3,   /* ship anchor chain grades */
+    HF_GRADE_R3,
+    HF_GRADE_R3S,
+    HF_GRADE_R4,
+    HF_GRADE_R4S,
+    HF_GRADE_R5,
+    HF_GRADE_1,
+    HF_GRADE_2,
+    HF_GRADE_3, /* ship anchor chain grades */
     HF_GRADE_COUNT
 } hf_chain_grade;
 
 /* The resolvable properties, as bit positions in hf_component.given. */
 typedef enum {
-    HF_PROP_MASS = 0,       /* mass per metre in air, kg/m */
-    HF_PROP_WET_WEIGHT,     /* submerged weight per metre, N/m */
-    HF_PROP_EA,             /* axial stiffness, N */
-    HF_PROP_MBL,            /* minimum breaking load, N */
-    HF_PROP_FRICTION,       /* axial seabed friction coefficient, - */
+    HF_PROP_MASS = 0,   /* mass per metre in air, kg/m */
+    HF_PROP_WET_WEIGHT, /* submerged weight per metre, N/m */
+    HF_PROP_EA,         /* axial stiffness, N */
+    HF_PROP_MBL,        /* minimum breaking load, N */
+    HF_PROP_FRICTION,   /* axial seabed friction coefficient, - */
     HF_PROP_COUNT
 } hf_component_prop;
 
 typedef struct {
     hf_component_type type;
-    hf_chain_grade grade;     /* chain only; HF_GRADE_NONE otherwise */
-    double diameter;          /* nominal diameter, m (0 when not given) */
-    double value[HF_PROP_COUNT];        /* resolved values, SI units as listed above */
-    unsigned given;                     /* bit p set: value[p] was given by the user */
-    const char *source[HF_PROP_COUNT];  /* static text: where each value came from */
-    bool approximate;         /* true for wire and fibre: enter catalogue data */
+    hf_chain_grade grade;              /* chain only; HF_GRADE_NONE otherwise */
+    double diameter;                   /* nominal diameter, m (0 when not given) */
+    double value[HF_PROP_COUNT];       /* resolved values, SI units as listed above */
+    unsigned given;                    /* bit p set: value[p] was given by the user */
+    const char *source[HF_PROP_COUNT]; /* static text: where each value came from */
+    bool approximate;                  /* true for wire and fibre: enter catalogue data */
 } hf_component;
 
 /* Stable names: "studless_chain", "studlink_chain", "six_strand",

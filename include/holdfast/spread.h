@@ -129,8 +129,12 @@ int hf_spread_is_broken(const hf_spread *ws, size_t i);
  *   HF_EINVAL       pose not finite, or a fairlead below the seabed at this
  *                   pose, or a line the solver rejects (message names the line),
  *                   or the model's number of lines changed since hf_spread_alloc
- *   HF_EUNSUPPORTED a line in a configuration the model cannot represent
+ *   HF_EUNSUPPORTED a line in a configuration the model cannot represent,
+ *                   including a fairlead above the still water level at this
+ *                   pose or a line its buoys lift above it (message names the
+ *                   line and the height: the model uses wet weights only)
  *   HF_ENOCONV      a line solve did not converge
+ *   HF_ENOMEM       (from the line solver; not expected, see line.h)
  * On failure res->status and res->failed_line name the first failing line,
  * err says why ("line 'bow-port': ..."), and res->force is zero. */
 hf_status hf_spread_solve(hf_spread *ws, const hf_pose *pose, hf_spread_result *res, hf_error *err);

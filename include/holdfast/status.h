@@ -10,16 +10,16 @@
 #include <stddef.h>
 
 typedef enum {
-    HF_OK = 0,        /* success */
-    HF_CONTINUE,      /* an iterative solver has not converged yet (not an error) */
-    HF_EINVAL,        /* invalid input or usage: the caller's data is wrong */
-    HF_ENOMEM,        /* an allocation failed */
-    HF_EIO,           /* reading or writing a file failed */
-    HF_ENOCONV,       /* a solver did not converge within its limits */
-    HF_EUNSUPPORTED,  /* a configuration the model cannot represent (e.g. buoy on the seabed) */
-    HF_ENOEQUIL,      /* no static equilibrium exists (the spread cannot hold the load) */
-    HF_ERANGE,        /* a target cannot be reached within the allowed range */
-    HF_ELIMIT,        /* input exceeds a documented size limit */
+    HF_OK = 0,       /* success */
+    HF_CONTINUE,     /* an iterative solver has not converged yet (not an error) */
+    HF_EINVAL,       /* invalid input or usage: the caller's data is wrong */
+    HF_ENOMEM,       /* an allocation failed */
+    HF_EIO,          /* reading or writing a file failed */
+    HF_ENOCONV,      /* a solver did not converge within its limits */
+    HF_EUNSUPPORTED, /* a configuration the model cannot represent (e.g. buoy on the seabed) */
+    HF_ENOEQUIL,     /* no static equilibrium exists (the spread cannot hold the load) */
+    HF_ERANGE,       /* a target cannot be reached within the allowed range */
+    HF_ELIMIT,       /* input exceeds a documented size limit */
     HF_STATUS_COUNT
 } hf_status;
 

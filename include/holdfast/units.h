@@ -9,18 +9,18 @@
 #include "holdfast/status.h"
 
 typedef enum {
-    HF_DIM_NONE = 0,      /* dimensionless (friction coefficient, factor) */
-    HF_DIM_LENGTH,        /* m */
-    HF_DIM_FORCE,         /* N */
-    HF_DIM_MASS,          /* kg */
+    HF_DIM_NONE = 0,         /* dimensionless (friction coefficient, factor) */
+    HF_DIM_LENGTH,           /* m */
+    HF_DIM_FORCE,            /* N */
+    HF_DIM_MASS,             /* kg */
     HF_DIM_MASS_PER_LENGTH,  /* kg/m */
     HF_DIM_FORCE_PER_LENGTH, /* N/m */
-    HF_DIM_PRESSURE,      /* Pa */
-    HF_DIM_ANGLE,         /* rad internally; a plain number means degrees */
-    HF_DIM_DENSITY,       /* kg/m^3 */
-    HF_DIM_SPEED,         /* m/s */
-    HF_DIM_AREA,          /* m^2 */
-    HF_DIM_MOMENT,        /* N m */
+    HF_DIM_PRESSURE,         /* Pa */
+    HF_DIM_ANGLE,            /* rad internally; a plain number means degrees */
+    HF_DIM_DENSITY,          /* kg/m^3 */
+    HF_DIM_SPEED,            /* m/s */
+    HF_DIM_AREA,             /* m^2 */
+    HF_DIM_MOMENT,           /* N m */
     HF_DIM_COUNT
 } hf_dim;
 
@@ -39,9 +39,10 @@ const char *hf_dim_si(hf_dim d);
  * to within rounding), so any finite angle is accepted and a huge one is
  * never a different direction than its remainder.
  * Rejects: empty text, trailing garbage, non-finite numbers (nan, inf,
- * 1e309), unknown units, and units of another dimension ("3 kN" for a
- * length).  On failure returns HF_EINVAL and a message such as
- * `expected a length, got "3 kN" (a force)` in err. */
+ * 1e309), non-zero values below 2.2e-308 (DBL_MIN) as written or in SI
+ * units ("1e-320", "1e-300 mm": subnormal, their reciprocals overflow),
+ * unknown units, and units of another dimension ("3 kN" for a length).  On failure returns
+ * HF_EINVAL and a message such as `expected a length, got "3 kN" (a force)` in err. */
 hf_status hf_units_parse(const char *text, hf_dim want, double *out, hf_error *err);
 
 /* Degrees to radians with an exact reduction first: r = fmod(deg, 360)
