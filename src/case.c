@@ -1,4 +1,5 @@
 /* case.c - reads a YAML case file (libyaml events) into an hf_model, with located errors. */
+#include <ctype.h>
 #include <errno.h>
 #include <math.h>
 #include <stdarg.h>
@@ -212,6 +213,14 @@ static hf_status map_check(ctx *c, const node *n, const char *what, const char *
                 known = 1;
             hf_hint_try(&h, k->text, *q);
         }
+        if (!known && i >= 2 && isdigit((unsigned char)k->text[0]) && is_null(n->kids[i + 1]) &&
+            n->kids[i - 1]->type == N_SCALAR) {
+            const node *prev = n->kids[i - 1];
+            return fail(c, k, "expected a key of %s, got \"%s\": a decimal comma? in a {...} "
+                              "mapping a comma separates entries: write \"%s.%s\" (decimals "
+                              "with a point)",
+                        what, k->text, prev->text, k->text);
+        }
         if (!known) {
             char list[400];
             size_t len = 0;
@@ -256,6 +265,19 @@ static hf_status missing(ctx *c, const node *map, const char *key, const char *w
     return s;
 }
 
+/* When text reads as a number with a decimal comma ("76,5 mm"), the same
+ * with a point into buf and 1; else 0. */
+static int decimal_comma(const char *text, char *buf, size_t cap)
+{
+    const char *comma = strchr(text, ',');
+    if (!comma || comma == text || strchr(comma + 1, ',') || strlen(text) >= cap ||
+        !isdigit((unsigned char)comma[-1]) || !isdigit((unsigned char)comma[1]))
+        return 0;
+    strcpy(buf, text);
+    buf[comma - text] = '.';
+    return 1;
+}
+
 /* A quantity of dimension dim from a scalar node. */
 static hf_status quantity(ctx *c, const node *n, hf_dim dim, double *out)
 {
@@ -265,9 +287,14 @@ static hf_status quantity(ctx *c, const node *n, hf_dim dim, double *out)
         return fail(c, n, "expected %s %s, got %s", article(dn), dn, GOT(n));
     hf_error sub;
     hf_error_clear(&sub);
-    if (hf_units_parse(n->text, dim, out, &sub) != HF_OK)
-        return fail(c, n, "%s", sub.text);
-    return HF_OK;
+    if (hf_units_parse(n->text, dim, out, &sub) == HF_OK)
+        return HF_OK;
+    char fixed[HF_CASE_MAX_SCALAR + 1];
+    if (decimal_comma(n->text, fixed, sizeof fixed))
+        return fail(c, n, "expected %s %s, got %s: a decimal comma? write \"%s\" (decimals with "
+                          "a point)",
+                    article(dn), dn, GOT(n), fixed);
+    return fail(c, n, "%s", sub.text);
 }
 
 enum { ANY = 0, POSITIVE, NONNEG };
@@ -350,6 +377,10 @@ static hf_status name_check(ctx *c, const node *n, const char *what)
     if (s != HF_OK)
         return s;
     size_t len = strlen(t);
+    if (len == 0)
+        return fail(c, n, "expected %s of at least one letter, digit, '_' or '-', got an empty "
+                          "name",
+                    what);
     if (len > HF_MODEL_MAX_NAME)
         return fail_limit(c, n, "expected %s of at most %d bytes (HF_MODEL_MAX_NAME), got %zu bytes",
                           what, HF_MODEL_MAX_NAME, len);
@@ -637,35 +668,50 @@ static hf_status load_sections(ctx *c, const node *n, hf_model_line *l)
     return HF_OK;
 }
 
-static hf_status load_line(ctx *c, const node *n, size_t index)
+/* Refuses a name made of digits only: parameter paths take a line or a load
+ * by name or by index (lines[1], loads[0]), and such a name would shadow an
+ * index. */
+static hf_status not_a_number(ctx *c, const node *nn, const char *what, const char *form)
 {
     char gotbuf[96];
+    if (nn->text[strspn(nn->text, "0123456789")] != '\0')
+        return HF_OK;
+    return fail(c, nn, "expected %s with at least one letter, '_' or '-' (a number would be read "
+                       "as an index in %s), got %s",
+                what, form, GOT(nn));
+}
+
+/* A line's name: valid, unique, not empty and not a plain number (a line
+ * named "1" would shadow index 1 in parameter paths such as lines[1]). */
+static hf_status line_name(ctx *c, const node *n, size_t index)
+{
     hf_model *m = c->m;
     hf_model_line *l = &m->lines[index];
-    hf_status st = map_check(c, n, "a line", line_keys, "key");
-    if (st != HF_OK)
-        return st;
-    l->src_line = n->line;
-    l->src_col = n->col;
     const node *nn = get(n, "name");
     if (!nn)
         return missing(c, n, "name", "a line name");
     size_t mark = pushkey(c, "name");
-    st = name_dup(c, nn, "a line name", &l->name);
+    hf_status st = name_dup(c, nn, "a line name", &l->name);
+    if (st == HF_OK)
+        st = not_a_number(c, nn, "a line name", "lines[INDEX]");
     for (size_t j = 0; st == HF_OK && j < index; j++)
         if (!strcmp(m->lines[j].name, l->name))
             st = fail(c, nn, "expected a unique line name, got \"%s\" again (first at %d:%d)",
                       l->name, m->lines[j].src_line, m->lines[j].src_col);
     pop(c, mark);
-    if (st != HF_OK)
-        return st;
+    return st;
+}
 
+/* The anchor's global [x, y] and the fairlead's hull-frame [x, y, z]. */
+static hf_status line_ends(ctx *c, const node *n, hf_model_line *l)
+{
+    char gotbuf[96];
     static const hf_dim len3[3] = {HF_DIM_LENGTH, HF_DIM_LENGTH, HF_DIM_LENGTH};
     const node *an = get(n, "anchor"), *fl = get(n, "fairlead");
     if (!an)
         return missing(c, n, "anchor", "the anchor's global [x, y]");
-    mark = pushkey(c, "anchor");
-    st = vector(c, an, 2, len3, "the anchor's global [x, y]", l->anchor);
+    size_t mark = pushkey(c, "anchor");
+    hf_status st = vector(c, an, 2, len3, "the anchor's global [x, y]", l->anchor);
     pop(c, mark);
     if (st != HF_OK)
         return st;
@@ -673,7 +719,7 @@ static hf_status load_line(ctx *c, const node *n, size_t index)
         return missing(c, n, "fairlead", "the fairlead's hull-frame [x, y, z]");
     mark = pushkey(c, "fairlead");
     st = vector(c, fl, 3, len3, "the fairlead's hull-frame [x, y, z]", l->fairlead);
-    double seabed = -hf_model_water_height(m);
+    double seabed = -hf_model_water_height(c->m);
     if (st == HF_OK && l->fairlead[2] < seabed) {
         size_t m2 = push(c, "[2]");
         st = fail(c, fl->kids[2],
@@ -682,26 +728,19 @@ static hf_status load_line(ctx *c, const node *n, size_t index)
         pop(c, m2);
     }
     pop(c, mark);
-    if (st != HF_OK)
-        return st;
+    return st;
+}
 
-    const node *sn = get(n, "sections");
-    if (!sn)
-        return missing(c, n, "sections", "a list of sections from anchor to fairlead");
-    mark = pushkey(c, "sections");
-    st = load_sections(c, sn, l);
-    pop(c, mark);
-    if (st != HF_OK)
-        return st;
-
-    hf_anchor *a = &l->anchor_spec;
+/* anchor_kind and the keys that go with it. */
+static hf_status line_anchor(ctx *c, const node *n, hf_anchor *a)
+{
+    char gotbuf[96];
     a->kind = HF_ANCHOR_DRAG;
     a->friction = 0.5;
     const node *kn = get(n, "anchor_kind");
     if (kn) {
-        size_t k;
-        mark = pushkey(c, "anchor_kind");
-        st = choose(c, kn, "an anchor kind", anchor_kinds, 4, &k);
+        size_t k, mark = pushkey(c, "anchor_kind");
+        hf_status st = choose(c, kn, "an anchor kind", anchor_kinds, 4, &k);
         pop(c, mark);
         if (st != HF_OK)
             return st;
@@ -713,17 +752,16 @@ static hf_status load_line(ctx *c, const node *n, size_t index)
     } only[] = {{"block_weight", HF_ANCHOR_GRAVITY},
                 {"block_friction", HF_ANCHOR_GRAVITY},
                 {"max_uplift", HF_ANCHOR_DRAG}};
-    for (size_t i = 0; i < 3; i++) {
-        const node *v = get(n, only[i].key);
-        if (v && a->kind != only[i].kind) {
-            mark = pushkey(c, only[i].key);
-            st = fail(c, getkey(n, only[i].key),
-                      "expected %s only with anchor_kind: %s, got it for a %s anchor", only[i].key,
-                      anchor_kinds[only[i].kind], anchor_kinds[a->kind]);
+    for (size_t i = 0; i < 3; i++)
+        if (get(n, only[i].key) && a->kind != only[i].kind) {
+            size_t mark = pushkey(c, only[i].key);
+            hf_status st = fail(c, getkey(n, only[i].key),
+                                "expected %s only with anchor_kind: %s, got it for a %s anchor",
+                                only[i].key, anchor_kinds[only[i].kind], anchor_kinds[a->kind]);
             pop(c, mark);
             return st;
         }
-    }
+    hf_status st = HF_OK;
     if (a->kind == HF_ANCHOR_GRAVITY) {
         st = req_quantity(c, n, "block_weight", HF_DIM_FORCE, POSITIVE, &a->weight);
         if (st == HF_OK)
@@ -731,13 +769,34 @@ static hf_status load_line(ctx *c, const node *n, size_t index)
     } else if (a->kind == HF_ANCHOR_DRAG) {
         st = opt_quantity(c, n, "max_uplift", HF_DIM_ANGLE, NONNEG, &a->max_uplift_angle);
         if (st == HF_OK && !(a->max_uplift_angle < M_PI / 2)) {
-            mark = pushkey(c, "max_uplift");
+            size_t mark = pushkey(c, "max_uplift");
             st = fail(c, get(n, "max_uplift"), "expected an angle from 0 to below 90 deg, got %s",
                       GOT(get(n, "max_uplift")));
             pop(c, mark);
         }
     }
     return st;
+}
+
+static hf_status load_line(ctx *c, const node *n, size_t index)
+{
+    hf_model_line *l = &c->m->lines[index];
+    hf_status st = map_check(c, n, "a line", line_keys, "key");
+    if (st != HF_OK)
+        return st;
+    l->src_line = n->line;
+    l->src_col = n->col;
+    if ((st = line_name(c, n, index)) != HF_OK || (st = line_ends(c, n, l)) != HF_OK)
+        return st;
+    const node *sn = get(n, "sections");
+    if (!sn)
+        return missing(c, n, "sections", "a list of sections from anchor to fairlead");
+    size_t mark = pushkey(c, "sections");
+    st = load_sections(c, sn, l);
+    pop(c, mark);
+    if (st != HF_OK)
+        return st;
+    return line_anchor(c, n, &l->anchor_spec);
 }
 
 static hf_status load_lines(ctx *c, const node *n)
@@ -848,6 +907,8 @@ static hf_status load_load(ctx *c, const node *n, size_t index, int *lines, int 
         return missing(c, n, "name", "a load name");
     size_t mark = pushkey(c, "name");
     st = name_dup(c, nn, "a load name", &ld->name);
+    if (st == HF_OK)
+        st = not_a_number(c, nn, "a load name", "loads[INDEX]");
     for (size_t j = 0; st == HF_OK && j < index; j++)
         if (!strcmp(m->loads[j].name, ld->name))
             st = fail(c, nn, "expected a unique load name, got \"%s\" again (first at %d:%d)",
@@ -1628,196 +1689,213 @@ static node *node_copy(const node *n)
     return d;
 }
 
+/* ---- the node tree from libyaml events: one handler per event ---- */
+
+typedef struct {
+    ctx *c;
+    node *stack[HF_CASE_MAX_DEPTH + 1];  /* open sequences and mappings */
+    int depth, docs;
+    size_t nodes;                        /* every value built so far, alias copies included */
+    anchors al;
+    node **root;
+} builder;
+
+static hf_status syntax_error(ctx *c, const yaml_parser_t *parser)
+{
+    const yaml_mark_t *mk = &parser->problem_mark;
+    if (parser->error == YAML_MEMORY_ERROR)
+        return nomem(c);
+    if (parser->context)
+        return hf_error_set(c->err, HF_EINVAL, "%s:%zu:%zu: YAML syntax: %s (%s at %zu:%zu)",
+                            c->file, mk->line + 1, mk->column + 1,
+                            parser->problem ? parser->problem : "invalid YAML", parser->context,
+                            parser->context_mark.line + 1, parser->context_mark.column + 1);
+    return hf_error_set(c->err, HF_EINVAL, "%s:%zu:%zu: YAML syntax: %s", c->file, mk->line + 1,
+                        mk->column + 1, parser->problem ? parser->problem : "invalid YAML");
+}
+
+/* Hangs a finished node under the open collection (or makes it the root). */
+static hf_status attach(builder *b, node *nn)
+{
+    if (b->depth == 0) {
+        node_free(*b->root); /* only an alias at the top can replace a root */
+        *b->root = nn;
+        return HF_OK;
+    }
+    if (!node_add(b->stack[b->depth - 1], nn)) {
+        node_free(nn);
+        return nomem(b->c);
+    }
+    return HF_OK;
+}
+
+static hf_status on_document(builder *b, const node *at)
+{
+    if (++b->docs > 1)
+        return fail(b->c, at, "expected one YAML document in a case file, got a second one");
+    return HF_OK;
+}
+
+/* The node an alias names (the latest definition), checked to be finished. */
+static hf_status alias_target(builder *b, const node *at, const char *name, node **target)
+{
+    *target = NULL;
+    for (size_t i = b->al.n; i-- > 0;)
+        if (!strcmp(b->al.v[i].name, name)) {
+            *target = b->al.v[i].n;
+            break;
+        }
+    if (!*target)
+        return fail(b->c, at, "expected an alias to an anchor defined above (&%s), got *%s", name,
+                    name);
+    for (int i = 0; i < b->depth; i++)
+        if (b->stack[i] == *target)
+            return fail(b->c, at, "expected an alias to a finished value, got *%s inside the "
+                                  "value it names",
+                        name);
+    return HF_OK;
+}
+
+/* An alias stands for a copy of the node its anchor names; messages about
+ * the copy point at the anchored text.  The copies count against the
+ * nesting, node and alias-expansion limits. */
+static hf_status on_alias(builder *b, const yaml_event_t *ev, const node *at)
+{
+    const char *name = (const char *)ev->data.alias.anchor;
+    node *target;
+    hf_status st = alias_target(b, at, name, &target);
+    if (st != HF_OK)
+        return st;
+    int height;
+    size_t count = subtree(target, &height);
+    if (b->depth + height > HF_CASE_MAX_DEPTH)
+        return fail_limit(b->c, at, "expected at most %d nested levels (HF_CASE_MAX_DEPTH), got "
+                                    "deeper nesting through *%s",
+                          HF_CASE_MAX_DEPTH, name);
+    b->al.copied += count;
+    b->nodes += count;
+    if (b->nodes > HF_CASE_MAX_NODES)
+        return fail_limit(b->c, at, "expected at most %d values in a case file "
+                                    "(HF_CASE_MAX_NODES), got more at *%s",
+                          HF_CASE_MAX_NODES, name);
+    if (b->al.copied > MAX_ALIAS_NODES)
+        return fail_limit(b->c, at, "expected aliases to expand to at most %d values, got more "
+                                    "at *%s",
+                          MAX_ALIAS_NODES, name);
+    node *nn = node_copy(target);
+    return nn ? attach(b, nn) : nomem(b->c);
+}
+
+/* The limits a new value must respect before it is built. */
+static hf_status value_limits(builder *b, const yaml_event_t *ev, const node *at)
+{
+    if (ev->type != YAML_SCALAR_EVENT && b->depth >= HF_CASE_MAX_DEPTH)
+        return fail_limit(b->c, at, "expected at most %d nested levels (HF_CASE_MAX_DEPTH), got "
+                                    "deeper nesting",
+                          HF_CASE_MAX_DEPTH);
+    if (ev->type == YAML_SCALAR_EVENT) {
+        size_t n = ev->data.scalar.length;
+        if (n > HF_CASE_MAX_SCALAR)
+            return fail_limit(b->c, at, "expected a value of at most %d bytes "
+                                        "(HF_CASE_MAX_SCALAR), got %zu bytes",
+                              HF_CASE_MAX_SCALAR, n);
+        if (memchr(ev->data.scalar.value, '\0', n))
+            return fail(b->c, at, "expected text, got a value containing a NUL byte");
+    }
+    if (++b->nodes > HF_CASE_MAX_NODES)
+        return fail_limit(b->c, at, "expected at most %d values in a case file "
+                                    "(HF_CASE_MAX_NODES), got more",
+                          HF_CASE_MAX_NODES);
+    return HF_OK;
+}
+
+/* A scalar, or the start of a sequence or mapping: a new node, attached,
+ * remembered under its anchor, and opened when it is a collection. */
+static hf_status on_value(builder *b, const yaml_event_t *ev, const node *at)
+{
+    hf_status st = value_limits(b, ev, at);
+    if (st != HF_OK)
+        return st;
+    node *nn = hf_calloc(1, sizeof *nn);
+    if (!nn)
+        return nomem(b->c);
+    nn->line = at->line;
+    nn->col = at->col;
+    const yaml_char_t *anchor;
+    if (ev->type == YAML_SCALAR_EVENT) {
+        nn->type = N_SCALAR;
+        nn->plain = ev->data.scalar.style == YAML_PLAIN_SCALAR_STYLE;
+        nn->text = hf_strndup((const char *)ev->data.scalar.value, ev->data.scalar.length);
+        if (!nn->text) {
+            hf_free(nn);
+            return nomem(b->c);
+        }
+        anchor = ev->data.scalar.anchor;
+    } else if (ev->type == YAML_SEQUENCE_START_EVENT) {
+        nn->type = N_SEQ;
+        anchor = ev->data.sequence_start.anchor;
+    } else {
+        nn->type = N_MAP;
+        anchor = ev->data.mapping_start.anchor;
+    }
+    if ((st = attach(b, nn)) != HF_OK)
+        return st;
+    if (anchor && !anchors_add(&b->al, (const char *)anchor, nn))
+        return nomem(b->c);
+    if (nn->type != N_SCALAR)
+        b->stack[b->depth++] = nn;
+    return HF_OK;
+}
+
+static hf_status on_event(builder *b, const yaml_event_t *ev)
+{
+    node at = {.line = (int)ev->start_mark.line + 1, .col = (int)ev->start_mark.column + 1};
+    switch (ev->type) {
+    case YAML_DOCUMENT_START_EVENT:
+        return on_document(b, &at);
+    case YAML_ALIAS_EVENT:
+        return on_alias(b, ev, &at);
+    case YAML_SCALAR_EVENT:
+    case YAML_SEQUENCE_START_EVENT:
+    case YAML_MAPPING_START_EVENT:
+        return on_value(b, ev, &at);
+    case YAML_SEQUENCE_END_EVENT:
+    case YAML_MAPPING_END_EVENT:
+        if (b->depth > 0)
+            b->depth--;
+        return HF_OK;
+    default:
+        return HF_OK;
+    }
+}
+
 /* Builds the node tree from libyaml events.  *root is NULL for an empty stream. */
 static hf_status parse_tree(ctx *c, const char *textbuf, size_t len, node **root)
 {
     yaml_parser_t parser;
     yaml_event_t ev;
-    node *stack[HF_CASE_MAX_DEPTH + 1];
-    int depth = 0, docs = 0;
-    size_t nodes = 0; /* every value built so far, alias copies included */
-    hf_status st = HF_OK;
-    anchors al = {NULL, 0, 0, 0};
+    builder b;
+    memset(&b, 0, sizeof b);
+    b.c = c;
+    b.root = root;
     *root = NULL;
     if (!yaml_parser_initialize(&parser))
         return nomem(c);
     yaml_parser_set_input_string(&parser, (const unsigned char *)textbuf, len);
+    hf_status st = HF_OK;
     for (;;) {
         if (!yaml_parser_parse(&parser, &ev)) {
-            const yaml_mark_t *mk = &parser.problem_mark;
-            if (parser.error == YAML_MEMORY_ERROR) {
-                st = nomem(c);
-            } else if (parser.context) {
-                st = hf_error_set(c->err, HF_EINVAL,
-                                  "%s:%zu:%zu: YAML syntax: %s (%s at %zu:%zu)", c->file,
-                                  mk->line + 1, mk->column + 1,
-                                  parser.problem ? parser.problem : "invalid YAML", parser.context,
-                                  parser.context_mark.line + 1, parser.context_mark.column + 1);
-            } else {
-                st = hf_error_set(c->err, HF_EINVAL, "%s:%zu:%zu: YAML syntax: %s", c->file,
-                                  mk->line + 1, mk->column + 1,
-                                  parser.problem ? parser.problem : "invalid YAML");
-            }
+            st = syntax_error(c, &parser);
             break;
         }
         yaml_event_type_t type = ev.type;
-        int line = (int)ev.start_mark.line + 1, col = (int)ev.start_mark.column + 1;
-        node *nn = NULL;
-        switch (type) {
-        case YAML_DOCUMENT_START_EVENT:
-            if (++docs > 1) {
-                node at = {.line = line, .col = col};
-                st = fail(c, &at, "expected one YAML document in a case file, got a second one");
-            }
-            break;
-        case YAML_ALIAS_EVENT: {
-            /* An alias stands for a copy of the node its anchor names
-             * (the latest definition); messages about the copy point at
-             * the anchored text. */
-            node at = {.line = line, .col = col};
-            const char *name = (const char *)ev.data.alias.anchor;
-            node *target = NULL;
-            for (size_t i = al.n; i-- > 0;)
-                if (!strcmp(al.v[i].name, name)) {
-                    target = al.v[i].n;
-                    break;
-                }
-            for (int i = 0; target && i < depth; i++)
-                if (stack[i] == target) {
-                    st = fail(c, &at, "expected an alias to a finished value, got *%s inside the "
-                                      "value it names",
-                              name);
-                    break;
-                }
-            if (st != HF_OK)
-                break;
-            if (!target) {
-                st = fail(c, &at, "expected an alias to an anchor defined above (&%s), got *%s",
-                          name, name);
-                break;
-            }
-            int height;
-            size_t count = subtree(target, &height);
-            if (depth + height > HF_CASE_MAX_DEPTH) {
-                st = fail_limit(c, &at, "expected at most %d nested levels (HF_CASE_MAX_DEPTH), "
-                                        "got deeper nesting through *%s",
-                                HF_CASE_MAX_DEPTH, name);
-                break;
-            }
-            al.copied += count;
-            nodes += count;
-            if (nodes > HF_CASE_MAX_NODES) {
-                st = fail_limit(c, &at, "expected at most %d values in a case file "
-                                        "(HF_CASE_MAX_NODES), got more at *%s",
-                                HF_CASE_MAX_NODES, name);
-                break;
-            }
-            if (al.copied > MAX_ALIAS_NODES) {
-                st = fail_limit(c, &at, "expected aliases to expand to at most %d values, got "
-                                        "more at *%s",
-                                MAX_ALIAS_NODES, name);
-                break;
-            }
-            nn = node_copy(target);
-            if (!nn) {
-                st = nomem(c);
-                break;
-            }
-            if (depth == 0) {
-                node_free(*root);
-                *root = nn;
-            } else if (!node_add(stack[depth - 1], nn)) {
-                node_free(nn);
-                st = nomem(c);
-            }
-            break;
-        }
-        case YAML_SCALAR_EVENT:
-        case YAML_SEQUENCE_START_EVENT:
-        case YAML_MAPPING_START_EVENT:
-            if (type != YAML_SCALAR_EVENT && depth >= HF_CASE_MAX_DEPTH) {
-                node at = {.line = line, .col = col};
-                st = fail_limit(c, &at, "expected at most %d nested levels (HF_CASE_MAX_DEPTH), "
-                                        "got deeper nesting",
-                                HF_CASE_MAX_DEPTH);
-                break;
-            }
-            if (type == YAML_SCALAR_EVENT) {
-                size_t n = ev.data.scalar.length;
-                node at = {.line = line, .col = col};
-                if (n > HF_CASE_MAX_SCALAR) {
-                    st = fail_limit(c, &at, "expected a value of at most %d bytes "
-                                            "(HF_CASE_MAX_SCALAR), got %zu bytes",
-                                    HF_CASE_MAX_SCALAR, n);
-                    break;
-                }
-                if (memchr(ev.data.scalar.value, '\0', n)) {
-                    st = fail(c, &at, "expected text, got a value containing a NUL byte");
-                    break;
-                }
-            }
-            if (++nodes > HF_CASE_MAX_NODES) {
-                node at = {.line = line, .col = col};
-                st = fail_limit(c, &at, "expected at most %d values in a case file "
-                                        "(HF_CASE_MAX_NODES), got more",
-                                HF_CASE_MAX_NODES);
-                break;
-            }
-            nn = hf_calloc(1, sizeof *nn);
-            if (!nn) {
-                st = nomem(c);
-                break;
-            }
-            nn->line = line;
-            nn->col = col;
-            if (type == YAML_SCALAR_EVENT) {
-                nn->type = N_SCALAR;
-                nn->plain = ev.data.scalar.style == YAML_PLAIN_SCALAR_STYLE;
-                nn->text = hf_strndup((const char *)ev.data.scalar.value, ev.data.scalar.length);
-                if (!nn->text) {
-                    hf_free(nn);
-                    st = nomem(c);
-                    break;
-                }
-            } else {
-                nn->type = type == YAML_SEQUENCE_START_EVENT ? N_SEQ : N_MAP;
-            }
-            if (depth == 0) {
-                if (*root)
-                    node_free(*root); /* cannot happen: one document */
-                *root = nn;
-            } else if (!node_add(stack[depth - 1], nn)) {
-                node_free(nn);
-                st = nomem(c);
-                break;
-            }
-            {
-                const yaml_char_t *anchor = type == YAML_SCALAR_EVENT ? ev.data.scalar.anchor
-                                            : type == YAML_SEQUENCE_START_EVENT
-                                                ? ev.data.sequence_start.anchor
-                                                : ev.data.mapping_start.anchor;
-                if (anchor && !anchors_add(&al, (const char *)anchor, nn)) {
-                    st = nomem(c);
-                    break;
-                }
-            }
-            if (type != YAML_SCALAR_EVENT)
-                stack[depth++] = nn;
-            break;
-        case YAML_SEQUENCE_END_EVENT:
-        case YAML_MAPPING_END_EVENT:
-            if (depth > 0)
-                depth--;
-            break;
-        default:
-            break;
-        }
+        st = on_event(&b, &ev);
         yaml_event_delete(&ev);
         if (st != HF_OK || type == YAML_STREAM_END_EVENT)
             break;
     }
     yaml_parser_delete(&parser);
-    anchors_free(&al);
+    anchors_free(&b.al);
     if (st != HF_OK) {
         node_free(*root);
         *root = NULL;

@@ -130,6 +130,39 @@ static const bad_case bad[] = {
      "criteria.preset: expected a criteria preset (api-rp-2sk, "},
     {"safety factor below 1", VALID "criteria: {intact_factor: 0.8}\n", HF_EINVAL, 10, 27,
      "criteria.intact_factor: expected 0 (no check) or a safety factor >= 1, got \"0.8\""},
+    /* issue 12 item 17: clear messages for near misses */
+    {"abbreviated component type", "site: {depth: 85 m}\ncomponents:\n"
+     "  chain76: {type: studless, grade: R3, diameter: 76 mm}\n" LINEA, HF_EINVAL, 3, 19,
+     "components.chain76.type: expected a component type (studless_chain, studlink_chain, "
+     "six_strand, spiral_strand, polyester, nylon, custom), got \"studless\"; did you mean "
+     "\"studless_chain\"?"},
+    {"decimal comma in a block value", "site:\n  depth: 85,5 m\ncomponents:\n"
+     "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n" LINEA, HF_EINVAL, 2, 10,
+     "site.depth: expected a length, got \"85,5 m\": a decimal comma? write \"85.5 m\""},
+    {"decimal comma in a flow mapping", "site: {depth: 85,5 m}\ncomponents:\n"
+     "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n" LINEA, HF_EINVAL, 1, 18,
+     "site: expected a key of the site, got \"5 m\": a decimal comma? in a {...} mapping a "
+     "comma separates entries: write \"85.5 m\""},
+    /* issue 12 item 6: names that would write DIR/.csv or shadow an index */
+    {"empty line name", HEAD "lines:\n  - name: \"\"\n    anchor: [-500, 0]\n"
+     "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: 520 m}\n",
+     HF_EINVAL, 5, 11, "lines[0].name: expected a line name of at least one letter, digit, '_' "
+     "or '-', got an empty name"},
+    {"numeric line name", HEAD "lines:\n  - name: 7\n    anchor: [-500, 0]\n"
+     "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: 520 m}\n",
+     HF_EINVAL, 5, 11, "lines[0].name: expected a line name with at least one letter, '_' or '-' "
+     "(a number would be read as an index in lines[INDEX]), got \"7\""},
+    {"numeric load name", VALID "loads:\n  - name: 2\n    force: [1 kN, 0]\n", HF_EINVAL, 11, 11,
+     "loads[0].name: expected a load name with at least one letter"},
+    {"empty study name", VALID "studies:\n  - {name: '', kind: lines}\n", HF_EINVAL, 11, 12,
+     "studies[0].name: expected a study name of at least one letter"},
+    /* issue 12 item 3: one parameter varied twice, through an alias */
+    {"parameter varied twice in a study", VALID "studies:\n  - name: s\n    kind: sweep\n"
+     "    vary:\n      - {path: \"lines[0].sections[0].length\", values: [500 m]}\n"
+     "      - {path: \"lines[a].sections[0].length\", values: [510 m]}\n", HF_EINVAL, 15, 16,
+     "studies[0].vary[1].path: expected each parameter varied once, got "
+     "\"lines[a].sections[0].length\", which sets the same value as "
+     "\"lines[0].sections[0].length\" (vary[0])"},
     {"misspelt study kind", VALID "studies:\n  - {name: s, kind: sweeep}\n", HF_EINVAL, 11, 21,
      "studies[0].kind: expected a study kind (lines, curve, stiffness, balance, sweep, invert), "
      "got \"sweeep\"; did you mean \"sweep\"?"},

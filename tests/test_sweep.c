@@ -397,6 +397,20 @@ static void test_invert_not_bracketed(void **s)
                                      3e5, &res, &e),
                      HF_ERANGE);
     assert_non_null(strstr(e.text, "lower end"));
+    /* Messages name the output in full (its line or load) and give the
+     * parameter in the unit people read: degrees for angles (issue 12 item 17). */
+    assert_int_equal(hf_invert_solve(&model, "lines[north].sections[3].length", 111.0, 125.0, &o,
+                                     5e6, &res, &e),
+                     HF_ERANGE);
+    assert_non_null(strstr(e.text, "fairlead_tension:north = 5000 kN"));
+    assert_non_null(strstr(e.text, "[111 m, 125 m]"));
+    assert_int_equal(hf_output_parse(&model, "offset_gale", &o, &e), HF_OK);
+    const double deg = M_PI / 180.0;
+    assert_int_equal(hf_invert_solve(&model, "hull.heading", 10.0 * deg, 12.5 * deg, &o, 1e3,
+                                     &res, &e),
+                     HF_ERANGE);
+    assert_non_null(strstr(e.text, "offset_gale = 1000 m"));
+    assert_non_null(strstr(e.text, "[10 deg, 12.5 deg]"));
 }
 
 /* The table in memory holds the numbers the CSV prints (hf_csv's 10
