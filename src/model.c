@@ -664,7 +664,8 @@ int hf_model_param_same(const hf_param *a, const hf_param *b)
     return (moves_anchor(a, 0) && moves_anchor(b, 0)) || (moves_anchor(a, 1) && moves_anchor(b, 1));
 }
 
-hf_status hf_model_param_set(hf_model *m, const hf_param *p, double value, hf_error *err)
+/* The range a parameter's value must lie in, before anything is set. */
+static hf_status check_value(const hf_param *p, double value, hf_error *err)
 {
     if (!isfinite(value))
         return hf_error_set(err, HF_EINVAL, "parameter: expected a finite value, got %g", value);
@@ -701,6 +702,14 @@ hf_status hf_model_param_set(hf_model *m, const hf_param *p, double value, hf_er
     default:
         break;
     }
+    return HF_OK;
+}
+
+hf_status hf_model_param_set(hf_model *m, const hf_param *p, double value, hf_error *err)
+{
+    hf_status st = check_value(p, value, err);
+    if (st != HF_OK)
+        return st;
     if (p->kind == P_LOAD_DIRECTION) {
         load_turn(&m->loads[p->index], value);
         return HF_OK;
@@ -728,7 +737,7 @@ hf_status hf_model_param_set(hf_model *m, const hf_param *p, double value, hf_er
         hf_component_give(&m->components[p->index].comp, (hf_component_prop)p->sub, value);
     else
         *p->value = value;
-    hf_status st = HF_OK;
+    st = HF_OK;
     switch (p->kind) {
     case P_ANCHOR_X:
     case P_ANCHOR_Y:

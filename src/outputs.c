@@ -258,7 +258,8 @@ int hf_output_write_help(FILE *out, const char *indent)
         else
             snprintf(col, sizeof col, "%s%s%s%s", in->column, in->per_line ? "<line>" : "",
                      in->unit[0] ? "_" : "", in->unit);
-        if (fprintf(out, "%s%-27s %-38s %s\n", indent, name, col, in->meaning) < 0)
+        if (fprintf(out, "%s%-27s %s\n%s%-27s %s\n", indent, name, col, indent, "",
+                    in->meaning) < 0)
             return -1;
     }
     return 0;

@@ -538,6 +538,64 @@ const hf_study_grid *hf_sweep_grid(const hf_sweep *s)
     return &s->grid;
 }
 
+/* FNV-1a, 64 bits: offset basis 14695981039346656037, prime 1099511628211. */
+static uint64_t fnv(uint64_t h, const void *data, size_t n)
+{
+    const unsigned char *p = data;
+    for (size_t i = 0; i < n; i++) {
+        h ^= p[i];
+        h *= 1099511628211ull;
+    }
+    return h;
+}
+
+uint64_t hf_sweep_fingerprint(const hf_sweep *s, const void *extra, size_t n)
+{
+    uint64_t h = 14695981039346656037ull;
+    char name[2 * HF_MODEL_MAX_NAME + 4096];
+    for (size_t j = 0; j < s->grid.nvary; j++) {
+        const hf_vary *v = &s->vary[j];
+        h = fnv(h, v->path, strlen(v->path) + 1);
+        h = fnv(h, &s->dim[j], sizeof s->dim[j]);
+        h = fnv(h, &v->nvalues, sizeof v->nvalues);
+        if (v->nvalues)
+            h = fnv(h, v->values, v->nvalues * sizeof *v->values);
+        else {
+            const double r[3] = {v->from, v->to, v->step};
+            h = fnv(h, r, sizeof r);
+        }
+    }
+    h = fnv(h, &s->grid.zip, sizeof s->grid.zip);
+    h = fnv(h, &s->grid.ncases, sizeof s->grid.ncases);
+    for (size_t c = 0; c < s->ncols; c++) {
+        hf_output_column_name(s->base, &s->cols[c].c, name, sizeof name);
+        h = fnv(h, name, strlen(name) + 1);
+    }
+    return extra ? fnv(h, extra, n) : h;
+}
+
+uint64_t hf_sweep_estimate_bytes(const hf_sweep *s, uint64_t ncases)
+{
+    uint64_t per_row = 12u * (uint64_t)(s->grid.nvary + s->ncols) + 16u;
+    if (ncases > UINT64_MAX / per_row)
+        return UINT64_MAX;
+    return ncases * per_row;
+}
+
+hf_status hf_sweep_check_size(const hf_sweep *s, uint64_t ncases, int allow_large,
+                              const char *option, hf_error *err)
+{
+    uint64_t bytes = hf_sweep_estimate_bytes(s, ncases);
+    if (allow_large || bytes <= HF_SWEEP_MAX_BYTES)
+        return HF_OK;
+    return hf_error_set(err, HF_ELIMIT,
+                        "the sweep has %llu cases, about %.3g GB of CSV (more than the %.0f GB "
+                        "limit, HF_SWEEP_MAX_BYTES); check the ranges, split it with --shard, or "
+                        "pass %s to write it anyway",
+                        (unsigned long long)ncases, (double)bytes / 1e9,
+                        (double)HF_SWEEP_MAX_BYTES / 1e9, option);
+}
+
 /* The column name of varied parameter j: its path and unit ("site.depth_m"). */
 static void vary_name(const hf_sweep *s, size_t j, char *buf, size_t cap)
 {

@@ -53,6 +53,34 @@ void hf_sweep_free(hf_sweep *s);
 uint64_t hf_sweep_ncases(const hf_sweep *s);
 const hf_study_grid *hf_sweep_grid(const hf_sweep *s);
 
+/* Largest CSV a sweep writes without being asked explicitly (sweep
+ * --allow-large): 10 GB.  At the ~100 MB/s a sweep can write, that is about
+ * two minutes of disk filling; a mistyped range (0:1e6:1e-4 on four
+ * parameters) is refused before it starts. */
+#define HF_SWEEP_MAX_BYTES 10000000000ull
+
+/* Estimated CSV size of `ncases` rows of sweep s, in bytes: each field
+ * counted at 12 bytes (a 10-digit number with its sign, exponent or
+ * separator), plus the row's status word and newline.  An estimate, not a
+ * bound: the point is the order of magnitude. */
+uint64_t hf_sweep_estimate_bytes(const hf_sweep *s, uint64_t ncases);
+
+/* HF_OK when ncases rows of s are estimated at most HF_SWEEP_MAX_BYTES or
+ * allow_large is set; else HF_ELIMIT with a message giving the case count,
+ * the estimated size and the way to proceed (`option` names the switch,
+ * e.g. "--allow-large"). */
+hf_status hf_sweep_check_size(const hf_sweep *s, uint64_t ncases, int allow_large,
+                              const char *option, hf_error *err);
+
+/* A fingerprint of the sweep: 64-bit FNV-1a (Fowler, Noll and Vo; IETF
+ * draft-eastlake-fnv) over the varied parameters (paths, dimensions, every
+ * list value or the range's from, to and step as bit patterns), the way they
+ * combine, the number of cases, the output column names and `extra` (n
+ * bytes, may be NULL: e.g. the case file's bytes).  Two sweeps that would
+ * write different rows get different fingerprints (up to hash collisions);
+ * the parts of one sweep share it, so a merge can tell them apart. */
+uint64_t hf_sweep_fingerprint(const hf_sweep *s, const void *extra, size_t n);
+
 /* Writes the header row (column names with units) to out.  HF_EIO when the
  * write fails. */
 hf_status hf_sweep_write_header(const hf_sweep *s, FILE *out, hf_error *err);
