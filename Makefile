@@ -20,60 +20,94 @@ WERROR ?= -Werror
 
 BUILD ?= build
 
+# Goals that build nothing need no packages: the dependency check and
+# pkg-config run only when some other goal (or the default, all) is asked for.
+NOBUILD_GOALS = clean help uninstall format format-check lint
+BUILDING := $(filter-out $(NOBUILD_GOALS),$(or $(MAKECMDGOALS),all))
+
+ifneq ($(BUILDING),)
 # Missing development packages are reported (or installed, as root) here,
 # before any compiler error can hide the real cause.
 DEPS_OK := $(shell sh scripts/ensure-deps.sh >&2 && echo yes)
 ifneq ($(DEPS_OK),yes)
 $(error missing packages: see the message above)
 endif
-
 PKG_CFLAGS := $(shell pkg-config --cflags $(PKGS))
 PKG_LIBS   := $(shell pkg-config --libs $(PKGS))
 CMOCKA_CFLAGS := $(shell pkg-config --cflags cmocka)
 CMOCKA_LIBS   := $(shell pkg-config --libs cmocka)
-
-OMP ?= -fopenmp
-CPPFLAGS += -Iinclude -DHF_VERSION=\"$(VERSION)\"
-CFLAGS   += -std=c11 -D_XOPEN_SOURCE=700 $(OPT) $(WARN) $(WERROR) $(OMP) $(PKG_CFLAGS)
-ifneq ($(SANITIZE),)
-CFLAGS  += -fsanitize=$(SANITIZE) -fno-omit-frame-pointer -fno-sanitize-recover=all
-LDFLAGS += -fsanitize=$(SANITIZE)
 endif
-LDLIBS  += $(PKG_LIBS) $(OMP) -lm
 
-LIB_SRC  := $(filter-out src/main.c,$(wildcard src/*.c))
+# The project's own flags live in HF_* variables; the user's CPPFLAGS,
+# CFLAGS, OPT, LDFLAGS and LDLIBS are appended, so `make CFLAGS=-O0` changes
+# the optimisation but keeps C11, the warnings, -Werror and OpenMP.
+OMP ?= -fopenmp
+HF_CPPFLAGS = -Iinclude -DHF_VERSION=\"$(VERSION)\"
+HF_CFLAGS   = -std=c11 -D_XOPEN_SOURCE=700 $(WARN) $(WERROR) $(OMP) $(PKG_CFLAGS)
+HF_LDFLAGS  =
+HF_LDLIBS   = $(PKG_LIBS) $(OMP) -lm
+ifneq ($(SANITIZE),)
+HF_CFLAGS  += -fsanitize=$(SANITIZE) -fno-omit-frame-pointer -fno-sanitize-recover=all
+HF_LDFLAGS += -fsanitize=$(SANITIZE)
+endif
+ALL_CFLAGS  = $(HF_CPPFLAGS) $(CPPFLAGS) $(HF_CFLAGS) $(OPT) $(CFLAGS)
+ALL_LDFLAGS = $(HF_LDFLAGS) $(LDFLAGS)
+ALL_LDLIBS  = $(HF_LDLIBS) $(LDLIBS)
+
+# The program is src/main.c, src/cli.c and src/cmd_*.c (the only code that
+# prints); every other src/*.c is the library, build/libholdfast.a.  Test
+# programs link the library; those listed in CMD_TESTS also link the
+# command objects, explicitly.
+CMD_SRC  := src/cli.c $(wildcard src/cmd_*.c)
+CMD_OBJ  := $(CMD_SRC:src/%.c=$(BUILD)/obj/%.o)
+LIB_SRC  := $(filter-out src/main.c $(CMD_SRC),$(wildcard src/*.c))
 LIB_OBJ  := $(LIB_SRC:src/%.c=$(BUILD)/obj/%.o)
 TEST_SRC := $(wildcard tests/test_*.c)
 TEST_BIN := $(TEST_SRC:tests/%.c=$(BUILD)/%)
 TEST_SUPPORT := $(filter-out $(TEST_SRC),$(wildcard tests/*.c))
 TEST_SUPPORT_OBJ := $(TEST_SUPPORT:tests/%.c=$(BUILD)/tobj/%.o)
+CMD_TESTS = cli report
 LIB      := $(BUILD)/libholdfast.a
 BIN      := $(BUILD)/holdfast
 
-.PHONY: all check demo clean install uninstall debug tests
+# A target whose recipe fails is deleted, never left half-built.
+.DELETE_ON_ERROR:
+.PHONY: all check demo clean install uninstall debug tests help
 all: $(BIN)
 
-$(BUILD)/obj/%.o: src/%.c
-	@mkdir -p $(dir $@)
-	$(CC) $(CPPFLAGS) $(CFLAGS) -MMD -MP -c $< -o $@
+# Every object depends on $(BUILD)/flags, which changes only when the
+# compiler or a flag does: a build with other flags rebuilds everything.
+FLAGS_NOW := $(CC) $(ALL_CFLAGS) $(CMOCKA_CFLAGS) | $(ALL_LDFLAGS) | $(ALL_LDLIBS)
+ifneq ($(BUILDING),)
+ifneq ($(FLAGS_NOW),$(file <$(BUILD)/flags))
+$(shell mkdir -p $(BUILD))
+$(file >$(BUILD)/flags,$(FLAGS_NOW))
+endif
+endif
 
-$(BUILD)/tobj/%.o: tests/%.c
+# (Recreated here when a goal such as `clean all` removed it after parsing.)
+$(BUILD)/flags:
+	$(shell mkdir -p $(dir $@))$(file >$@,$(FLAGS_NOW))
+
+$(BUILD)/obj/%.o: src/%.c $(BUILD)/flags
 	@mkdir -p $(dir $@)
-	$(CC) $(CPPFLAGS) $(CFLAGS) $(CMOCKA_CFLAGS) -MMD -MP -c $< -o $@
+	$(CC) $(ALL_CFLAGS) -MMD -MP -c $< -o $@
+
+$(BUILD)/tobj/%.o: tests/%.c $(BUILD)/flags
+	@mkdir -p $(dir $@)
+	$(CC) $(ALL_CFLAGS) $(CMOCKA_CFLAGS) -MMD -MP -c $< -o $@
 
 $(LIB): $(LIB_OBJ)
 	@rm -f $@
 	$(AR) rcs $@ $^
 
-$(BIN): $(BUILD)/obj/main.o $(LIB)
-	$(CC) $(LDFLAGS) -o $@ $^ $(LDLIBS)
+$(BIN): $(BUILD)/obj/main.o $(CMD_OBJ) $(LIB)
+	$(CC) $(ALL_LDFLAGS) -o $@ $^ $(ALL_LDLIBS)
 
-$(BUILD)/obj/main.o: src/main.c
-	@mkdir -p $(dir $@)
-	$(CC) $(CPPFLAGS) $(CFLAGS) -MMD -MP -c $< -o $@
+$(CMD_TESTS:%=$(BUILD)/test_%): $(CMD_OBJ)
 
 $(BUILD)/test_%: $(BUILD)/tobj/test_%.o $(TEST_SUPPORT_OBJ) $(LIB)
-	$(CC) $(LDFLAGS) -o $@ $^ $(CMOCKA_LIBS) $(LDLIBS)
+	$(CC) $(ALL_LDFLAGS) -o $@ $(filter %.o,$^) $(LIB) $(CMOCKA_LIBS) $(ALL_LDLIBS)
 
 tests: $(TEST_BIN) $(BIN)
 
@@ -97,6 +131,20 @@ uninstall:
 
 clean:
 	rm -rf build build-* barge-results
+
+help:
+	@echo 'make [all]        build $(BIN)'
+	@echo 'make check        build and run every test (installs missing packages as root)'
+	@echo 'make demo         run the barge demo case into barge-results/'
+	@echo 'make debug        -O0 -g3 build and tests in build-debug/'
+	@echo 'make install      install into $$(DESTDIR)$$(PREFIX) (now $(DESTDIR)$(PREFIX))'
+	@echo 'make uninstall    remove what install put there'
+	@echo 'make lint         list functions of src/*.c over 100 lines (fails if any)'
+	@echo 'make format       reformat sources with .clang-format'
+	@echo 'make format-check list files that differ from .clang-format (fails if any)'
+	@echo 'make bench | sanitize | valgrind | fuzz   see mk/*.mk and docs/hardening.md'
+	@echo 'Flags: OPT (default $(OPT)), CFLAGS, CPPFLAGS, LDFLAGS, LDLIBS are appended'
+	@echo '       to the project flags; BUILD=dir builds elsewhere; WERROR= drops -Werror.'
 
 # Further targets (bench, sanitize, fuzz, valgrind...) live in mk/*.mk.
 -include $(wildcard mk/*.mk)

@@ -27,11 +27,11 @@ bench: bench-build
 	    --root $(CURDIR) --out $(abspath $(BENCH_BUILD))/bench-out $(BENCH_ARGS)
 
 # Built in whatever $(BUILD) the sub-make was given (the bench directory).
-$(BUILD)/bobj/%.o: bench/%.c
+$(BUILD)/bobj/%.o: bench/%.c $(BUILD)/flags
 	@mkdir -p $(dir $@)
-	$(CC) $(CPPFLAGS) $(CFLAGS) -DHF_BENCH_OPT='"$(OPT)"' -MMD -MP -c $< -o $@
+	$(CC) $(ALL_CFLAGS) -DHF_BENCH_OPT='"$(OPT)"' -MMD -MP -c $< -o $@
 
 $(BUILD)/holdfast-bench: $(BENCH_SRC:bench/%.c=$(BUILD)/bobj/%.o) $(LIB)
-	$(CC) $(LDFLAGS) -o $@ $^ $(LDLIBS)
+	$(CC) $(ALL_LDFLAGS) -o $@ $^ $(ALL_LDLIBS)
 
 -include $(wildcard $(BUILD)/bobj/*.d)

@@ -72,7 +72,7 @@ valgrind:
 fuzz-build:
 	$(MAKE) --no-print-directory BUILD=$(FUZZ_BUILD) CC=$(FUZZ_CC) WERROR= OPT='-O1 -g' \
 	    SANITIZE=fuzzer-no-link,address,undefined $(FUZZ_BUILD)/libholdfast.a
-	$(FUZZ_CC) $(CPPFLAGS) -std=c11 -D_XOPEN_SOURCE=700 -O1 -g $(WARN) \
+	$(FUZZ_CC) $(HF_CPPFLAGS) $(CPPFLAGS) -std=c11 -D_XOPEN_SOURCE=700 -O1 -g $(WARN) \
 	    -fsanitize=fuzzer,address,undefined -fno-sanitize-recover=all -fno-omit-frame-pointer \
 	    $(PKG_CFLAGS) fuzz/fuzz_case.c $(FUZZ_BUILD)/libholdfast.a -o $(FUZZ_BUILD)/fuzz_case \
 	    $(PKG_LIBS) $(OMP) -lm

@@ -34,9 +34,17 @@ struct hf_balance {
     double lref;   /* yaw length scale, m: largest hull-frame fairlead radius (>= 1 m) */
     double radius; /* default search radius, m */
     hf_balance_result *res;
+    /* per-line arrays of the results: one condition's worth (scratch, always)
+     * and, after the first hf_balance_run, one per condition (full) */
     double *tension, *util;
     hf_line_criterion *lines;
     hf_anchor_criterion *anchors;
+    double *full_tension, *full_util;
+    hf_line_criterion *full_lines;
+    hf_anchor_criterion *full_anchors;
+    int full;      /* the full arrays exist */
+    size_t last;   /* condition last solved into the scratch arrays, or HF_BALANCE_NONE */
+    size_t bytes;  /* bytes allocated by this workspace (spread workspace excluded) */
     /* the last successful intact solution: start of the broken conditions */
     const hf_load *intact_load;
     double intact_u[3];
@@ -96,6 +104,39 @@ const char *hf_balance_criterion_name(hf_balance_criterion c)
     return "unknown";
 }
 
+hf_status hf_drag_force(const hf_drag *d, double *q, double *fx, double *fy, hf_error *err)
+{
+    if (q)
+        *q = 0.0;
+    if (fx)
+        *fx = 0.0;
+    if (fy)
+        *fy = 0.0;
+    if (!d)
+        return hf_error_set(err, HF_EINVAL, "no drag term given");
+    if (!isfinite(d->density) || d->density < 0.0 || !isfinite(d->coefficient) ||
+        d->coefficient < 0.0 || !isfinite(d->area) || d->area < 0.0 || !isfinite(d->speed) ||
+        d->speed < 0.0 || !isfinite(d->direction))
+        return hf_error_set(err, HF_EINVAL,
+                            "expected finite density, coefficient, area and speed >= 0 and a "
+                            "finite direction");
+    /* the drag equation 1/2 rho C A V^2 (classical; e.g. White, Fluid Mechanics,
+     * ch. 7 - from memory), toward its direction, fixed in the global frame */
+    double f = 0.5 * d->density * d->coefficient * d->area * d->speed * d->speed;
+    if (!isfinite(f))
+        return hf_error_set(err, HF_EINVAL,
+                            "the drag force 1/2 rho C A V^2 overflows (rho %.6g kg/m^3, C %.6g, "
+                            "A %.6g m^2, V %.6g m/s)",
+                            d->density, d->coefficient, d->area, d->speed);
+    if (q)
+        *q = f;
+    if (fx)
+        *fx = f * cos(d->direction);
+    if (fy)
+        *fy = f * sin(d->direction);
+    return HF_OK;
+}
+
 hf_status hf_balance_load_force(const hf_load *load, double f[3], hf_error *err)
 {
     f[0] = f[1] = f[2] = 0.0;
@@ -111,18 +152,13 @@ hf_status hf_balance_load_force(const hf_load *load, double f[3], hf_error *err)
     double fx = load->force * cos(load->direction);
     double fy = load->force * sin(load->direction);
     for (size_t k = 0; k < load->ndrag; k++) {
-        const hf_drag *d = &load->drag[k];
-        if (!isfinite(d->density) || d->density < 0.0 || !isfinite(d->coefficient) ||
-            d->coefficient < 0.0 || !isfinite(d->area) || d->area < 0.0 || !isfinite(d->speed) ||
-            d->speed < 0.0 || !isfinite(d->direction))
-            return hf_error_set(err, HF_EINVAL,
-                                "loads[%s].drag[%zu]: expected finite density, coefficient, area "
-                                "and speed >= 0 and a finite direction",
-                                name, k);
-        /* drag force 1/2 rho C A V^2, toward its direction (fixed in the global frame) */
-        double q = 0.5 * d->density * d->coefficient * d->area * d->speed * d->speed;
-        fx += q * cos(d->direction);
-        fy += q * sin(d->direction);
+        double dx, dy;
+        hf_error e;
+        hf_error_clear(&e);
+        if (hf_drag_force(&load->drag[k], NULL, &dx, &dy, &e) != HF_OK)
+            return hf_error_set(err, HF_EINVAL, "loads[%s].drag[%zu]: %s", name, k, e.text);
+        fx += dx;
+        fy += dy;
     }
     if (!isfinite(fx) || !isfinite(fy))
         return hf_error_set(err, HF_EINVAL, "loads[%s]: the total force is not finite", name);
@@ -178,7 +214,63 @@ void hf_balance_free(hf_balance *b)
     hf_free(b->util);
     hf_free(b->lines);
     hf_free(b->anchors);
+    hf_free(b->full_tension);
+    hf_free(b->full_util);
+    hf_free(b->full_lines);
+    hf_free(b->full_anchors);
     hf_free(b);
+}
+
+size_t hf_balance_footprint(const hf_balance *b)
+{
+    return b ? b->bytes : 0;
+}
+
+/* Points the per-line arrays of result r (condition c) at its storage: the
+ * full arrays when they exist, else the scratch arrays (one condition). */
+static void bind_arrays(hf_balance *b, hf_balance_result *r, size_t c)
+{
+    size_t off = b->full ? c * b->n : 0;
+    r->tension = (b->full ? b->full_tension : b->tension) + off;
+    r->utilisation = (b->full ? b->full_util : b->util) + off;
+    r->line = (b->full ? b->full_lines : b->lines) + off;
+    r->anchor = (b->full ? b->full_anchors : b->anchors) + off;
+}
+
+/* Allocates the per-condition arrays hf_balance_run keeps: (1 + n) x n
+ * entries.  HF_OK (also when they exist already), HF_ELIMIT, HF_ENOMEM. */
+static hf_status alloc_full(hf_balance *b, hf_error *err)
+{
+    if (b->full)
+        return HF_OK;
+    size_t cells = b->ncond * b->n;
+    size_t per = 2 * sizeof(double) + sizeof(hf_line_criterion) + sizeof(hf_anchor_criterion);
+    if (cells / b->ncond != b->n || cells > ((size_t)-1) / per)
+        return hf_error_set(err, HF_ELIMIT, "balance: too many lines (%zu) to keep every "
+                            "condition's results", b->n);
+    b->full_tension = hf_calloc(cells, sizeof(double));
+    b->full_util = hf_calloc(cells, sizeof(double));
+    b->full_lines = hf_calloc(cells, sizeof(hf_line_criterion));
+    b->full_anchors = hf_calloc(cells, sizeof(hf_anchor_criterion));
+    if (!b->full_tension || !b->full_util || !b->full_lines || !b->full_anchors) {
+        hf_free(b->full_tension);
+        hf_free(b->full_util);
+        hf_free(b->full_lines);
+        hf_free(b->full_anchors);
+        b->full_tension = b->full_util = NULL;
+        b->full_lines = NULL;
+        b->full_anchors = NULL;
+        return hf_error_set(err, HF_ENOMEM,
+                            "balance: out of memory keeping the results of %zu conditions x %zu "
+                            "lines (%.3g MB); hf_balance_run_each needs memory linear in the "
+                            "number of lines",
+                            b->ncond, b->n, (double)cells * (double)per / 1e6);
+    }
+    b->full = 1;
+    b->bytes += cells * per;
+    for (size_t c = 0; c < b->ncond; c++)
+        bind_arrays(b, &b->res[c], c);
+    return HF_OK;
 }
 
 hf_balance *hf_balance_alloc(const hf_model *m, hf_error *err)
@@ -197,23 +289,27 @@ hf_balance *hf_balance_alloc(const hf_model *m, hf_error *err)
     b->m = m;
     b->n = m->nlines;
     b->ncond = b->n + 1;
+    b->last = HF_BALANCE_NONE;
     hf_balance_options_default(&b->opt);
-    size_t cells = b->ncond * b->n;
-    if (cells / b->ncond != b->n) {
+    if (b->ncond < b->n || b->ncond > ((size_t)-1) / sizeof *b->res) {
         hf_balance_free(b);
         hf_error_set(err, HF_ELIMIT, "balance: too many lines");
         return NULL;
     }
+    /* memory linear in the number of lines: the headers of every condition,
+     * per-line arrays for one condition (see hf_balance_run_each) */
     b->res = hf_calloc(b->ncond, sizeof *b->res);
-    b->tension = hf_calloc(cells, sizeof *b->tension);
-    b->util = hf_calloc(cells, sizeof *b->util);
-    b->lines = hf_calloc(cells, sizeof *b->lines);
-    b->anchors = hf_calloc(cells, sizeof *b->anchors);
+    b->tension = hf_calloc(b->n, sizeof *b->tension);
+    b->util = hf_calloc(b->n, sizeof *b->util);
+    b->lines = hf_calloc(b->n, sizeof *b->lines);
+    b->anchors = hf_calloc(b->n, sizeof *b->anchors);
     if (!b->res || !b->tension || !b->util || !b->lines || !b->anchors) {
         hf_balance_free(b);
         hf_error_set(err, HF_ENOMEM, "balance: out of memory");
         return NULL;
     }
+    b->bytes = sizeof *b + b->ncond * sizeof *b->res +
+               b->n * (2 * sizeof(double) + sizeof *b->lines + sizeof *b->anchors);
     b->sp = hf_spread_alloc(m, err);
     if (!b->sp) {
         hf_balance_free(b);
@@ -223,10 +319,7 @@ hf_balance *hf_balance_alloc(const hf_model *m, hf_error *err)
         hf_balance_result *r = &b->res[c];
         r->nlines = b->n;
         r->broken = c == 0 ? HF_BALANCE_NONE : c - 1;
-        r->tension = b->tension + c * b->n;
-        r->utilisation = b->util + c * b->n;
-        r->line = b->lines + c * b->n;
-        r->anchor = b->anchors + c * b->n;
+        bind_arrays(b, r, c);
         r->status = HF_CONTINUE;
         r->max_tension_line = r->max_utilisation_line = r->criterion_line = HF_BALANCE_NONE;
     }
@@ -270,7 +363,9 @@ size_t hf_balance_ncond(const hf_balance *b)
 
 const hf_balance_result *hf_balance_result_at(const hf_balance *b, size_t cond)
 {
-    return cond < b->ncond ? &b->res[cond] : NULL;
+    if (cond >= b->ncond || (!b->full && cond != b->last))
+        return NULL;
+    return &b->res[cond];
 }
 
 /* Pose for the solve variables u = (surge, sway, lref * yaw) relative to rest. */
@@ -565,17 +660,15 @@ static hf_status evaluate(hf_balance *b, hf_balance_result *r, const hf_spread_r
     return HF_OK;
 }
 
-hf_status hf_balance_solve(hf_balance *b, const hf_load *load, size_t cond, hf_error *err)
+/* Sets up the solve of one condition: the load (validated), the search
+ * limits, the broken line.  Returns HF_OK or the load's status (recorded in r). */
+static hf_status begin_condition(hf_balance *b, hf_balance_result *r, const hf_load *load,
+                                 size_t cond, solve_ctx *cx, double f[3], hf_error *err)
 {
-    if (cond >= b->ncond)
-        return hf_error_set(err, HF_EINVAL, "balance: condition %zu out of range (0..%zu)", cond,
-                            b->ncond - 1);
-    hf_balance_result *r = &b->res[cond];
+    bind_arrays(b, r, cond);
     zero_result(r);
     r->status = HF_CONTINUE;
-    solve_ctx cx;
-    memset(&cx, 0, sizeof cx);
-    double f[3];
+    memset(cx, 0, sizeof *cx);
     hf_status s = hf_balance_load_force(load, f, err);
     if (s != HF_OK) {
         r->status = s;
@@ -583,115 +676,130 @@ hf_status hf_balance_solve(hf_balance *b, const hf_load *load, size_t cond, hf_e
         r->criterion = HF_CRIT_EQUILIBRIUM;
         return s;
     }
-    memcpy(r->load, f, sizeof f);
-    cx.fext[0] = f[0];
-    cx.fext[1] = f[1];
-    cx.fext[2] = f[2] / b->lref;
-    cx.maxoff = b->opt.max_offset > 0.0 ? b->opt.max_offset : b->radius;
-    cx.maxyaw = b->opt.max_yaw;
-
+    memcpy(r->load, f, 3 * sizeof *f);
+    cx->fext[0] = f[0];
+    cx->fext[1] = f[1];
+    cx->fext[2] = f[2] / b->lref;
+    cx->maxoff = b->opt.max_offset > 0.0 ? b->opt.max_offset : b->radius;
+    cx->maxyaw = b->opt.max_yaw;
     hf_spread_clear_broken(b->sp);
     if (cond > 0)
         hf_spread_set_broken(b->sp, cond - 1, 1);
-    int alive = 0;
-    for (size_t i = 0; i < b->n; i++)
-        alive += !hf_spread_is_broken(b->sp, i);
+    return HF_OK;
+}
 
-    /* start point: rest (intact) or the intact equilibrium of this load */
-    double u[3] = {0.0, 0.0, 0.0};
+/* Start point u (rest for the intact spread, the intact equilibrium of this
+ * load for a broken line, rest again when that fails), its residual r0 and
+ * the force scale of the tolerance.  HF_OK or the spread's status. */
+static hf_status start_point(hf_balance *b, solve_ctx *cx, const hf_load *load, size_t cond,
+                             const double f[3], double u[3])
+{
+    u[0] = u[1] = u[2] = 0.0;
     if (cond > 0 && b->have_intact && b->intact_load == load)
-        memcpy(u, b->intact_u, sizeof u);
+        memcpy(u, b->intact_u, 3 * sizeof *u);
     double rs[3], ks[3][3], raw[3];
-    memset(cx.r0, 0, sizeof cx.r0);
-    s = eval(b, &cx, u, 1.0, rs, ks, raw);
+    memset(cx->r0, 0, sizeof cx->r0);
+    hf_status s = eval(b, cx, u, 1.0, rs, ks, raw);
     if (s != HF_OK && (u[0] != 0.0 || u[1] != 0.0 || u[2] != 0.0)) {
         u[0] = u[1] = u[2] = 0.0; /* the intact pose failed for this condition: try rest */
-        s = eval(b, &cx, u, 1.0, rs, ks, raw);
+        s = eval(b, cx, u, 1.0, rs, ks, raw);
     }
     if (s != HF_OK)
-        return fail(b, r, load, cond, s, err, "the lines cannot be solved at the start pose: %s",
-                    cx.line_msg);
-    memcpy(cx.r0, raw, sizeof raw);
+        return s;
+    memcpy(cx->r0, raw, sizeof raw);
     /* force scale: load, largest line tension at the start, 1 N */
-    {
-        hf_pose p;
-        hf_spread_result sr;
-        pose_of(b, u, &p);
-        double fs = fmax(1.0, fmax(hypot(f[0], f[1]), fabs(f[2]) / b->lref));
-        if (hf_spread_solve(b->sp, &p, &sr, NULL) == HF_OK)
-            for (size_t i = 0; i < b->n; i++)
-                fs = fmax(fs, sr.line_tension[i]);
-        cx.fscale = fs;
-    }
-    if (alive == 0 && !converged(&cx, b, cx.r0))
-        return fail(b, r, load, cond, HF_ENOEQUIL, err,
-                    "no equilibrium: no line is left to hold the load");
+    hf_pose p;
+    hf_spread_result sr;
+    pose_of(b, u, &p);
+    double fs = fmax(1.0, fmax(hypot(f[0], f[1]), fabs(f[2]) / b->lref));
+    if (hf_spread_solve(b->sp, &p, &sr, NULL) == HF_OK)
+        for (size_t i = 0; i < b->n; i++)
+            fs = fmax(fs, sr.line_tension[i]);
+    cx->fscale = fs;
+    return HF_OK;
+}
 
-    /* homotopy r(u) - (1 - t) r0 = 0 from t = 0 (u exact) to t = 1 */
-    double t = 0.0, dt = 1.0;
+/* Homotopy r(u) - (1 - t) r0 = 0 from t = 0 (u exact) to t = 1, with
+ * adaptive load steps.  Returns HF_OK with *t the load fraction reached
+ * (1 when solved), or HF_ENOEQUIL (already recorded) when the path leaves
+ * the search region. */
+static hf_status continuation(hf_balance *b, solve_ctx *cx, hf_balance_result *r,
+                              const hf_load *load, size_t cond, double u[3], double *t,
+                              hf_error *err)
+{
+    double dt = 1.0;
     int tries = 0;
-    while (t < 1.0) {
+    *t = 0.0;
+    while (*t < 1.0) {
         if (++tries > b->opt.max_steps)
             break;
-        double tn = fmin(1.0, t + dt);
+        double tn = fmin(1.0, *t + dt);
         double un[3] = {u[0], u[1], u[2]};
-        cx.singular = cx.capped = 0;
-        cx.svratio = 1.0;
-        s = newton(b, &cx, un, tn);
-        if (s == HF_OK) {
-            double horiz = hypot(un[0], un[1]), yaw = un[2] / b->lref;
-            if (horiz > cx.maxoff)
-                return fail(b, r, load, cond, HF_ENOEQUIL, err,
-                            "no equilibrium within the search region: at %.3g %% of the load "
-                            "the horizontal offset already reaches %.6g m, beyond the search "
-                            "radius %.6g m (the spread cannot hold the load)",
-                            100.0 * tn, horiz, cx.maxoff);
-            if (fabs(yaw) > cx.maxyaw)
-                return fail(b, r, load, cond, HF_ENOEQUIL, err,
-                            "no equilibrium within the search region: at %.3g %% of the load "
-                            "the yaw already reaches %.6g deg, beyond the limit %.6g deg (the "
-                            "spread cannot hold the load)",
-                            100.0 * tn, yaw * 180.0 / M_PI, cx.maxyaw * 180.0 / M_PI);
-            memcpy(u, un, sizeof un);
-            t = tn;
-            r->steps++;
-            dt = fmin(2.0 * dt, 1.0);
-        } else {
+        cx->singular = cx->capped = 0;
+        cx->svratio = 1.0;
+        if (newton(b, cx, un, tn) != HF_OK) {
             dt *= 0.5;
             if (dt < b->opt.min_step)
                 break;
+            continue;
         }
-    }
-    r->iterations = cx.iterations;
-    if (t < 1.0) {
-        double pct = 100.0 * t;
-        if (cx.singular || cx.capped)
+        double horiz = hypot(un[0], un[1]), yaw = un[2] / b->lref;
+        if (horiz > cx->maxoff)
             return fail(b, r, load, cond, HF_ENOEQUIL, err,
-                        "no equilibrium: the spread has no stiffness left against the load "
-                        "(reached %.3g %% of it; resisting lines broken or slack)",
-                        pct);
-        if (cx.svratio < FOLD_SV)
+                        "no equilibrium within the search region: at %.3g %% of the load "
+                        "the horizontal offset already reaches %.6g m, beyond the search "
+                        "radius %.6g m (the spread cannot hold the load)",
+                        100.0 * tn, horiz, cx->maxoff);
+        if (fabs(yaw) > cx->maxyaw)
             return fail(b, r, load, cond, HF_ENOEQUIL, err,
-                        "no equilibrium reached: on the way from the start position the "
-                        "spread's resistance peaks at %.3g %% of the load (a limit point: the "
-                        "hull would run away from there)",
-                        pct);
-        if (cx.line_status != HF_OK && cx.line_status != HF_ENOCONV)
-            return fail(b, r, load, cond, cx.line_status, err,
-                        "the lines cannot be solved on the way to equilibrium: %s (reached %.3g %% "
-                        "of the load)",
-                        cx.line_msg, pct);
-        return fail(b, r, load, cond, HF_ENOCONV, err,
-                    "the equilibrium search did not converge (reached %.3g %% of the load)", pct);
+                        "no equilibrium within the search region: at %.3g %% of the load "
+                        "the yaw already reaches %.6g deg, beyond the limit %.6g deg (the "
+                        "spread cannot hold the load)",
+                        100.0 * tn, yaw * 180.0 / M_PI, cx->maxyaw * 180.0 / M_PI);
+        memcpy(u, un, sizeof un);
+        *t = tn;
+        r->steps++;
+        dt = fmin(2.0 * dt, 1.0);
     }
+    return HF_OK;
+}
 
-    /* final state at the solution */
+/* Why the continuation stopped at load fraction t < 1 (recorded in r). */
+static hf_status diagnose(hf_balance *b, const solve_ctx *cx, hf_balance_result *r,
+                          const hf_load *load, size_t cond, double t, hf_error *err)
+{
+    double pct = 100.0 * t;
+    if (cx->singular || cx->capped)
+        return fail(b, r, load, cond, HF_ENOEQUIL, err,
+                    "no equilibrium: the spread has no stiffness left against the load "
+                    "(reached %.3g %% of it; resisting lines broken or slack)",
+                    pct);
+    if (cx->svratio < FOLD_SV)
+        return fail(b, r, load, cond, HF_ENOEQUIL, err,
+                    "no equilibrium reached: on the way from the start position the "
+                    "spread's resistance peaks at %.3g %% of the load (a limit point: the "
+                    "hull would run away from there)",
+                    pct);
+    if (cx->line_status != HF_OK && cx->line_status != HF_ENOCONV)
+        return fail(b, r, load, cond, cx->line_status, err,
+                    "the lines cannot be solved on the way to equilibrium: %s (reached %.3g %% "
+                    "of the load)",
+                    cx->line_msg, pct);
+    return fail(b, r, load, cond, HF_ENOCONV, err,
+                "the equilibrium search did not converge (reached %.3g %% of the load)", pct);
+}
+
+/* The solved condition: lines at the solution, offsets, residual, criteria. */
+static hf_status finish_condition(hf_balance *b, hf_balance_result *r, const hf_load *load,
+                                  size_t cond, const double u[3], const double f[3],
+                                  hf_error *err)
+{
     hf_pose p;
     hf_spread_result sr;
     hf_error e;
     hf_error_clear(&e);
     pose_of(b, u, &p);
-    s = hf_spread_solve(b->sp, &p, &sr, &e);
+    hf_status s = hf_spread_solve(b->sp, &p, &sr, &e);
     if (s != HF_OK)
         return fail(b, r, load, cond, s, err, "the lines cannot be solved at the solution: %s",
                     e.text);
@@ -709,24 +817,65 @@ hf_status hf_balance_solve(hf_balance *b, const hf_load *load, size_t cond, hf_e
     if (cond == 0) {
         b->have_intact = 1;
         b->intact_load = load;
-        memcpy(b->intact_u, u, sizeof u);
+        memcpy(b->intact_u, u, 3 * sizeof *u);
     }
     return HF_OK;
 }
 
-hf_status hf_balance_run(hf_balance *b, const hf_load *load, hf_error *err)
+hf_status hf_balance_solve(hf_balance *b, const hf_load *load, size_t cond, hf_error *err)
+{
+    if (cond >= b->ncond)
+        return hf_error_set(err, HF_EINVAL, "balance: condition %zu out of range (0..%zu)", cond,
+                            b->ncond - 1);
+    hf_balance_result *r = &b->res[cond];
+    b->last = cond;
+    solve_ctx cx;
+    double f[3], u[3], t;
+    hf_status s = begin_condition(b, r, load, cond, &cx, f, err);
+    if (s != HF_OK)
+        return s;
+    int alive = 0;
+    for (size_t i = 0; i < b->n; i++)
+        alive += !hf_spread_is_broken(b->sp, i);
+    s = start_point(b, &cx, load, cond, f, u);
+    if (s != HF_OK)
+        return fail(b, r, load, cond, s, err, "the lines cannot be solved at the start pose: %s",
+                    cx.line_msg);
+    if (alive == 0 && !converged(&cx, b, cx.r0))
+        return fail(b, r, load, cond, HF_ENOEQUIL, err,
+                    "no equilibrium: no line is left to hold the load");
+    s = continuation(b, &cx, r, load, cond, u, &t, err);
+    if (s != HF_OK)
+        return s;
+    r->iterations = cx.iterations;
+    if (t < 1.0)
+        return diagnose(b, &cx, r, load, cond, t, err);
+    return finish_condition(b, r, load, cond, u, f, err);
+}
+
+/* Records an invalid load in every condition's result (no stale results). */
+static void refuse_load(hf_balance *b, hf_status s, const hf_error *err)
+{
+    for (size_t c = 0; c < b->ncond; c++) {
+        bind_arrays(b, &b->res[c], c);
+        zero_result(&b->res[c]);
+        b->res[c].status = s;
+        b->res[c].criterion = HF_CRIT_EQUILIBRIUM;
+        copy_text(b->res[c].message, sizeof b->res[c].message, err ? err->text : "invalid load");
+    }
+}
+
+hf_status hf_balance_run_each(hf_balance *b, const hf_load *load, hf_balance_visit visit,
+                              void *ctx, hf_error *err)
 {
     double f[3];
     hf_status s = hf_balance_load_force(load, f, err);
     b->have_intact = 0;
     if (s != HF_OK) {
-        for (size_t c = 0; c < b->ncond; c++) { /* no stale results from an earlier load */
-            zero_result(&b->res[c]);
-            b->res[c].status = s;
-            b->res[c].criterion = HF_CRIT_EQUILIBRIUM;
-            copy_text(b->res[c].message, sizeof b->res[c].message,
-                      err ? err->text : "invalid load");
-        }
+        refuse_load(b, s, err);
+        b->last = 0;
+        if (visit)
+            (void)visit(ctx, 0, &b->res[0]);
         return s;
     }
     hf_status first = HF_OK;
@@ -739,7 +888,19 @@ hf_status hf_balance_run(hf_balance *b, const hf_load *load, hf_error *err)
             if (err)
                 *err = e;
         }
+        if (visit && visit(ctx, c, &b->res[c]) != 0) {
+            hf_spread_clear_broken(b->sp);
+            return first != HF_OK ? first : HF_CONTINUE;
+        }
     }
     hf_spread_clear_broken(b->sp);
     return first;
+}
+
+hf_status hf_balance_run(hf_balance *b, const hf_load *load, hf_error *err)
+{
+    hf_status s = alloc_full(b, err);
+    if (s != HF_OK)
+        return s;
+    return hf_balance_run_each(b, load, NULL, NULL, err);
 }

@@ -331,25 +331,18 @@ static hf_status resolve_custom(hf_component *c, hf_error *err)
     return HF_OK;
 }
 
-hf_status hf_component_resolve(hf_component *c, double rho, hf_error *err)
+/* Type, water density and grade: grade required for chain, refused elsewhere. */
+static hf_status check_kind(const hf_component *c, double rho, hf_error *err)
 {
-    const kind *k;
-    bool chain, need_d, approx = false;
-    double dmm, buoy;
-    hf_status st;
-
     if ((unsigned)c->type >= HF_COMP_TYPE_COUNT)
         return hf_error_set(err, HF_EINVAL, "unknown component type %d", (int)c->type);
-    k = &kinds[c->type];
-    chain = hf_component_is_chain(c->type);
-
+    const kind *k = &kinds[c->type];
+    bool chain = hf_component_is_chain(c->type);
     if (!(isfinite(rho) && rho > 0.0))
         return hf_error_set(err, HF_EINVAL,
                             "water density must be a positive number, got %g "
                             "kg/m^3",
                             rho);
-
-    /* Grade: required for chain, refused elsewhere. */
     if ((unsigned)c->grade >= HF_GRADE_COUNT)
         return hf_error_set(err, HF_EINVAL, "unknown chain grade %d", (int)c->grade);
     if (chain && c->grade == HF_GRADE_NONE)
@@ -358,7 +351,124 @@ hf_status hf_component_resolve(hf_component *c, double rho, hf_error *err)
     if (!chain && c->grade != HF_GRADE_NONE)
         return hf_error_set(err, HF_EINVAL, "grade %s applies to chain only, not to a %s",
                             grade_names[c->grade], k->label);
+    return HF_OK;
+}
 
+/* The diameter, needed unless every derived property is given. */
+static hf_status check_diameter(const hf_component *c, const kind *k, hf_error *err)
+{
+    bool chain = hf_component_is_chain(c->type);
+    bool need_d = (!has(c, HF_PROP_MASS) && !has(c, HF_PROP_WET_WEIGHT)) ||
+                  !has(c, HF_PROP_MBL) ||
+                  (!has(c, HF_PROP_EA) && (chain || c->type == HF_COMP_SIX_STRAND ||
+                                           c->type == HF_COMP_SPIRAL_STRAND));
+    if (c->diameter == 0.0 && !need_d)
+        return HF_OK;
+    if (c->diameter == 0.0)
+        return hf_error_set(err, HF_EINVAL,
+                            "a %s needs a diameter (or else mass or wet_weight, "
+                            "axial_stiffness and breaking_load)",
+                            k->label);
+    if (!isfinite(c->diameter) || c->diameter < k->dmin || c->diameter > k->dmax)
+        return hf_error_set(err, HF_EINVAL, "diameter %g mm is outside %g mm to %g mm for a %s",
+                            c->diameter * 1e3, k->dmin * 1e3, k->dmax * 1e3, k->label);
+    return HF_OK;
+}
+
+/* Mass and wet weight: each from the other when only one is given, both
+ * from the diameter when neither is.  buoy: submerged fraction of the
+ * weight in air.  Sets *approx when a catalogue estimate was used. */
+static hf_status resolve_weight(hf_component *c, const kind *k, double rho, double buoy,
+                                bool *approx, hf_error *err)
+{
+    double dmm = c->diameter * 1e3;
+    hf_status st;
+    if (!has(c, HF_PROP_MASS) && !has(c, HF_PROP_WET_WEIGHT)) {
+        c->value[HF_PROP_MASS] = k->mass_k * dmm * dmm;
+        c->source[HF_PROP_MASS] = k->mass_src;
+        c->value[HF_PROP_WET_WEIGHT] = c->value[HF_PROP_MASS] * G_N * buoy;
+        c->source[HF_PROP_WET_WEIGHT] = k->wet_src;
+        *approx = *approx || k->approx;
+    } else if (!has(c, HF_PROP_MASS)) {
+        c->value[HF_PROP_MASS] = c->value[HF_PROP_WET_WEIGHT] / (G_N * buoy);
+        c->source[HF_PROP_MASS] = k->mass_w_src;
+    } else if (!has(c, HF_PROP_WET_WEIGHT)) {
+        c->value[HF_PROP_WET_WEIGHT] = c->value[HF_PROP_MASS] * G_N * buoy;
+        c->source[HF_PROP_WET_WEIGHT] = k->wet_m_src;
+        *approx = *approx || k->approx;
+    }
+    if ((st = check_derived(c, HF_PROP_MASS, err)) != HF_OK ||
+        (st = check_derived(c, HF_PROP_WET_WEIGHT, err)) != HF_OK) {
+        if (buoy <= 0.0)
+            return hf_error_set(err, HF_EINVAL,
+                                "a %s (material density %g kg/m^3) does not sink in water of "
+                                "density %g kg/m^3; give both mass and wet_weight",
+                                k->label, k->rho, rho);
+        return st;
+    }
+    return HF_OK;
+}
+
+/* MBL from the diameter when not given. */
+static void resolve_mbl(hf_component *c, const kind *k, bool *approx)
+{
+    double dmm = c->diameter * 1e3;
+    if (has(c, HF_PROP_MBL))
+        return;
+    if (hf_component_is_chain(c->type)) {
+        /* DNV-OS-E302 / IACS UR W22 (offshore), IACS UR W18 (ship):
+         * MBL = c d^2 (44 - 0.08 d) kN, d in mm. */
+        c->value[HF_PROP_MBL] = mbl_c[c->grade] * dmm * dmm * (44.0 - 0.08 * dmm) * 1e3;
+        c->source[HF_PROP_MBL] = mbl_src[c->grade];
+    } else {
+        c->value[HF_PROP_MBL] = k->mbl_k * dmm * dmm * 1e3;
+        c->source[HF_PROP_MBL] = k->mbl_src_k;
+        *approx = true;
+    }
+}
+
+/* Axial stiffness EA from the diameter (or the MBL for fibre) when not given. */
+static void resolve_ea(hf_component *c, const kind *k, bool *approx)
+{
+    double dm = c->diameter, dmm = dm * 1e3;
+    if (has(c, HF_PROP_EA))
+        return;
+    switch (c->type) {
+    case HF_COMP_STUDLESS_CHAIN:
+        /* DNV-OS-E301: EA = E A, E = (a - b d) 1e10 Pa (d in mm),
+         * A = 2 pi d^2 / 4 (d in m), the two bars of a link. */
+        c->value[HF_PROP_EA] =
+            (ea_a[c->grade] - ea_b[c->grade] * dmm) * 1e10 * 2.0 * M_PI * dm * dm / 4.0;
+        c->source[HF_PROP_EA] = ea_src[c->grade];
+        *approx = *approx || c->grade == HF_GRADE_1 || c->grade == HF_GRADE_2 ||
+                  c->grade == HF_GRADE_3;
+        break;
+    case HF_COMP_STUDLINK_CHAIN:
+        c->value[HF_PROP_EA] = 1.01e11 * dm * dm; /* from memory, approximate */
+        c->source[HF_PROP_EA] = k->ea_src_k;
+        *approx = true;
+        break;
+    case HF_COMP_SIX_STRAND:
+    case HF_COMP_SPIRAL_STRAND:
+        c->value[HF_PROP_EA] = k->ea_k * dmm * dmm * 1e3;
+        c->source[HF_PROP_EA] = k->ea_src_k;
+        *approx = true;
+        break;
+    default: /* fibre: a multiple of MBL */
+        c->value[HF_PROP_EA] = k->ea_k * c->value[HF_PROP_MBL];
+        c->source[HF_PROP_EA] = has(c, HF_PROP_MBL) ? k->ea_src_m : k->ea_src_k;
+        *approx = true;
+        break;
+    }
+}
+
+hf_status hf_component_resolve(hf_component *c, double rho, hf_error *err)
+{
+    bool approx = false;
+    hf_status st = check_kind(c, rho, err);
+    if (st != HF_OK)
+        return st;
+    const kind *k = &kinds[c->type];
     for (int p = 0; p < HF_PROP_COUNT; p++)
         if (has(c, (hf_component_prop)p) &&
             (st = check_given(c, (hf_component_prop)p, err)) != HF_OK)
@@ -378,96 +488,16 @@ hf_status hf_component_resolve(hf_component *c, double rho, hf_error *err)
     }
     if (c->type == HF_COMP_CUSTOM)
         return resolve_custom(c, err);
-
-    /* The diameter is needed unless every derived property is given. */
-    need_d = (!has(c, HF_PROP_MASS) && !has(c, HF_PROP_WET_WEIGHT)) || !has(c, HF_PROP_MBL) ||
-             (!has(c, HF_PROP_EA) &&
-              (chain || c->type == HF_COMP_SIX_STRAND || c->type == HF_COMP_SPIRAL_STRAND));
-    if (c->diameter != 0.0 || need_d) {
-        if (c->diameter == 0.0)
-            return hf_error_set(err, HF_EINVAL,
-                                "a %s needs a diameter (or else mass or wet_weight, "
-                                "axial_stiffness and breaking_load)",
-                                k->label);
-        if (!isfinite(c->diameter) || c->diameter < k->dmin || c->diameter > k->dmax)
-            return hf_error_set(err, HF_EINVAL, "diameter %g mm is outside %g mm to %g mm for a %s",
-                                c->diameter * 1e3, k->dmin * 1e3, k->dmax * 1e3, k->label);
-    }
-    dmm = c->diameter * 1e3;
-    buoy = 1.0 - rho / k->rho; /* submerged fraction of the weight in air */
-
-    /* Mass and wet weight: each from the other when only one is given. */
-    if (!has(c, HF_PROP_MASS) && !has(c, HF_PROP_WET_WEIGHT)) {
-        c->value[HF_PROP_MASS] = k->mass_k * dmm * dmm;
-        c->source[HF_PROP_MASS] = k->mass_src;
-        c->value[HF_PROP_WET_WEIGHT] = c->value[HF_PROP_MASS] * G_N * buoy;
-        c->source[HF_PROP_WET_WEIGHT] = k->wet_src;
-        approx = approx || k->approx;
-    } else if (!has(c, HF_PROP_MASS)) {
-        c->value[HF_PROP_MASS] = c->value[HF_PROP_WET_WEIGHT] / (G_N * buoy);
-        c->source[HF_PROP_MASS] = k->mass_w_src;
-    } else if (!has(c, HF_PROP_WET_WEIGHT)) {
-        c->value[HF_PROP_WET_WEIGHT] = c->value[HF_PROP_MASS] * G_N * buoy;
-        c->source[HF_PROP_WET_WEIGHT] = k->wet_m_src;
-        approx = approx || k->approx;
-    }
-    if ((st = check_derived(c, HF_PROP_MASS, err)) != HF_OK ||
-        (st = check_derived(c, HF_PROP_WET_WEIGHT, err)) != HF_OK) {
-        if (buoy <= 0.0)
-            return hf_error_set(err, HF_EINVAL,
-                                "a %s (material density %g kg/m^3) does not sink in water of "
-                                "density %g kg/m^3; give both mass and wet_weight",
-                                k->label, k->rho, rho);
+    if ((st = check_diameter(c, k, err)) != HF_OK)
         return st;
-    }
-
-    if (!has(c, HF_PROP_MBL)) {
-        if (chain) {
-            /* DNV-OS-E302 / IACS UR W22 (offshore), IACS UR W18 (ship):
-             * MBL = c d^2 (44 - 0.08 d) kN, d in mm. */
-            c->value[HF_PROP_MBL] = mbl_c[c->grade] * dmm * dmm * (44.0 - 0.08 * dmm) * 1e3;
-            c->source[HF_PROP_MBL] = mbl_src[c->grade];
-        } else {
-            c->value[HF_PROP_MBL] = k->mbl_k * dmm * dmm * 1e3;
-            c->source[HF_PROP_MBL] = k->mbl_src_k;
-            approx = true;
-        }
-    }
-
-    if (!has(c, HF_PROP_EA)) {
-        double dm = c->diameter;
-        switch (c->type) {
-        case HF_COMP_STUDLESS_CHAIN:
-            /* DNV-OS-E301: EA = E A, E = (a - b d) 1e10 Pa (d in mm),
-             * A = 2 pi d^2 / 4 (d in m), the two bars of a link. */
-            c->value[HF_PROP_EA] =
-                (ea_a[c->grade] - ea_b[c->grade] * dmm) * 1e10 * 2.0 * M_PI * dm * dm / 4.0;
-            c->source[HF_PROP_EA] = ea_src[c->grade];
-            approx = approx || c->grade == HF_GRADE_1 || c->grade == HF_GRADE_2 ||
-                     c->grade == HF_GRADE_3;
-            break;
-        case HF_COMP_STUDLINK_CHAIN:
-            c->value[HF_PROP_EA] = 1.01e11 * dm * dm; /* from memory, approximate */
-            c->source[HF_PROP_EA] = k->ea_src_k;
-            approx = true;
-            break;
-        case HF_COMP_SIX_STRAND:
-        case HF_COMP_SPIRAL_STRAND:
-            c->value[HF_PROP_EA] = k->ea_k * dmm * dmm * 1e3;
-            c->source[HF_PROP_EA] = k->ea_src_k;
-            approx = true;
-            break;
-        default: /* fibre: a multiple of MBL */
-            c->value[HF_PROP_EA] = k->ea_k * c->value[HF_PROP_MBL];
-            c->source[HF_PROP_EA] = has(c, HF_PROP_MBL) ? k->ea_src_m : k->ea_src_k;
-            approx = true;
-            break;
-        }
-    }
+    double buoy = 1.0 - rho / k->rho; /* submerged fraction of the weight in air */
+    if ((st = resolve_weight(c, k, rho, buoy, &approx, err)) != HF_OK)
+        return st;
+    resolve_mbl(c, k, &approx);
+    resolve_ea(c, k, &approx);
     if ((st = check_derived(c, HF_PROP_MBL, err)) != HF_OK ||
         (st = check_derived(c, HF_PROP_EA, err)) != HF_OK)
         return st;
-
     c->approximate = approx;
     return HF_OK;
 }

@@ -21,6 +21,7 @@ static const hf_criteria_preset presets[] = {
         .source = "API RP 2SK 3rd ed. (2005), line tension safety factors: intact 2.00 "
                   "quasi-static / 1.67 dynamic, one line broken 1.43 / 1.25 (from memory)",
         .from_memory = 1,
+        .damaged_from_memory = 1,
         .uses_analysis = 1,
         .intact_qs = 2.00,
         .damaged_qs = 1.43,
@@ -34,6 +35,7 @@ static const hf_criteria_preset presets[] = {
                   "API RP 2SK: intact 2.00 quasi-static / 1.67 dynamic, one line broken "
                   "1.43 / 1.25 (from memory)",
         .from_memory = 1,
+        .damaged_from_memory = 1,
         .uses_analysis = 1,
         .intact_qs = 2.00,
         .damaged_qs = 1.43,
@@ -48,6 +50,7 @@ static const hf_criteria_preset presets[] = {
                   "Equivalent MBL/T = gamma_dyn / 0.95, whole quasi-static tension taken "
                   "as dynamic (holdfast's conservative choice)",
         .from_memory = 1,
+        .damaged_from_memory = 1,
         .uses_analysis = 0,
         .intact_qs = 1.50 / DNV_CAPACITY,
         .damaged_qs = 1.10 / DNV_CAPACITY,
@@ -67,6 +70,7 @@ static const hf_criteria_preset presets[] = {
                   "Equivalent MBL/T = gamma_dyn / 0.95, whole quasi-static tension taken "
                   "as dynamic (holdfast's conservative choice)",
         .from_memory = 1,
+        .damaged_from_memory = 1,
         .uses_analysis = 0,
         .intact_qs = 2.10 / DNV_CAPACITY,
         .damaged_qs = 1.10 / DNV_CAPACITY,
@@ -79,17 +83,33 @@ static const hf_criteria_preset presets[] = {
         .capacity = DNV_CAPACITY,
     },
     {
+        /* UFC 4-159-03 (3 Oct 2005), table 3-7 "Minimum Quasi-Static Factors
+         * of Safety", read in the published text: chain 3.0 (4.0 around
+         * bends), wire rope 3.0, synthetic 3.0 with wet nylon at 85 % of its
+         * break strength; holding capacity 1.5 stockless and balanced-fluke,
+         * 2.0 high-efficiency drag, 3.0 pile and plate, 1.0 ship's own
+         * anchoring.  The one-member-missing factor (75 % of intact) is NOT
+         * in that table: from memory until a clause is cited. */
         .name = "ufc-4-159-03",
         .title = "UFC 4-159-03 (2005), moorings, harbour and marina",
         .source = "UFC 4-159-03 (2005) table 3-7: chain, wire and synthetic lines, factor 3.0 "
-                  "on MBL; with one member missing keep at least 75 % of the intact factor "
-                  "(3.0 x 0.75 = 2.25)",
-        .from_memory = 0,
+                  "on MBL (published); one member missing: 75 % of the intact factor, "
+                  "3.0 x 0.75 = 2.25 (from memory: not in table 3-7, no clause cited)",
+        .from_memory = 1,
+        .damaged_from_memory = 1,
         .uses_analysis = 0,
         .intact_qs = 3.0,
         .damaged_qs = 0.75 * 3.0,
         .intact_dyn = 3.0,
         .damaged_dyn = 0.75 * 3.0,
+        .bend_factor = 4.0,
+        .wet_nylon_strength = 0.85,
+        .holding = {1.5, 2.0, 3.0, 1.0},
+        .table_source = "UFC 4-159-03 (2005) table 3-7 (published): chain around bends 4.0; "
+                        "wet nylon at 85 % of its break strength; ultimate holding capacity "
+                        "1.5 stockless and balanced-fluke anchors, 2.0 high-efficiency drag "
+                        "anchors, 3.0 pile and plate anchors, 1.0 a ship's own anchoring; "
+                        "deadweight anchors: no factor (use carefully)",
     },
 };
 #define NPRESETS (sizeof presets / sizeof presets[0])
@@ -298,5 +318,75 @@ hf_status hf_criteria_anchor_evaluate(const hf_anchor *a, double h, double v,
         memset(out, 0, sizeof *out);
         return hf_error_set(err, HF_EINVAL, "anchor check: unknown anchor kind %d", (int)a->kind);
     }
+    return HF_OK;
+}
+
+/* ---- further table values ------------------------------------------------ */
+
+static const char *const holding_names[HF_HOLDING_NCLASSES] = {"stockless", "high-efficiency",
+                                                                "pile-plate", "ship"};
+
+const char *hf_criteria_holding_class_name(hf_holding_class k)
+{
+    return (unsigned)k < HF_HOLDING_NCLASSES ? holding_names[k] : "unknown";
+}
+
+hf_status hf_criteria_holding_class_find(const char *name, hf_holding_class *out, hf_error *err)
+{
+    for (int k = 0; name && k < HF_HOLDING_NCLASSES; k++)
+        if (!strcmp(name, holding_names[k])) {
+            *out = (hf_holding_class)k;
+            return HF_OK;
+        }
+    return hf_error_set(err, HF_EINVAL,
+                        "anchor holding class: expected one of stockless, high-efficiency, "
+                        "pile-plate, ship, got \"%s\"",
+                        name ? name : "");
+}
+
+double hf_criteria_bend_required(const hf_criteria_preset *p, double required, int damaged)
+{
+    if (!p || !(p->bend_factor > 0.0) || !(p->intact_qs > 0.0) || !(required > 0.0))
+        return required;
+    /* UFC 4-159-03 table 3-7: 4.0 around bends against 3.0 straight (intact);
+     * a broken condition keeps the same ratio (holdfast's reading). */
+    double f = damaged ? p->bend_factor * p->damaged_qs / p->intact_qs : p->bend_factor;
+    return f > required ? f : required;
+}
+
+hf_status hf_criteria_effective_mbl(const hf_criteria_preset *p, double mbl, int wet_nylon,
+                                    double *out, hf_error *err)
+{
+    *out = 0.0;
+    if (!isfinite(mbl) || mbl <= 0.0)
+        return hf_error_set(err, HF_EINVAL, "effective strength: MBL must be finite and > 0, "
+                                            "got %.10g N",
+                            mbl);
+    /* UFC 4-159-03 table 3-7: wet nylon's effective strength reduced by 15 % */
+    *out = wet_nylon && p && p->wet_nylon_strength > 0.0 ? mbl * p->wet_nylon_strength : mbl;
+    return HF_OK;
+}
+
+hf_status hf_criteria_holding_evaluate(const hf_criteria_preset *p, hf_holding_class cls,
+                                       double capacity, double load, hf_holding_criterion *out,
+                                       hf_error *err)
+{
+    memset(out, 0, sizeof *out);
+    if ((unsigned)cls >= HF_HOLDING_NCLASSES)
+        return hf_error_set(err, HF_EINVAL, "holding check: unknown anchor class %d", (int)cls);
+    if (!isfinite(capacity) || capacity <= 0.0 || !isfinite(load) || load < 0.0)
+        return hf_error_set(err, HF_EINVAL,
+                            "holding check: capacity must be finite and > 0 and the load finite "
+                            "and >= 0, got capacity %.10g N, load %.10g N",
+                            capacity, load);
+    out->cls = cls;
+    out->capacity = capacity;
+    out->load = load;
+    out->has_factor = load > 0.0 && isfinite(capacity / load);
+    out->factor = out->has_factor ? capacity / load : 0.0;
+    out->required = p ? p->holding[cls] : 0.0;
+    out->checked = out->required > 0.0;
+    /* capacity / load >= required  <=>  capacity >= required * load */
+    out->passed = !out->checked || capacity >= out->required * load;
     return HF_OK;
 }

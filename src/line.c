@@ -32,6 +32,22 @@ void hf_line_options_default(hf_line_options *o)
 {
     o->rtol = 1e-10;
     o->max_iter = 40;
+    o->max_backtrack = 40;
+    o->max_bracket = 200;
+    o->max_shrink = 60;
+    o->max_polish = 20;
+    o->max_laid = 200;
+    o->ftol = 1e-7;
+    o->max_refine = 4;
+}
+
+/* Options in range: rtol finite in (0, 1e-2), every limit >= 1. */
+static int options_ok(const hf_line_options *o)
+{
+    return isfinite(o->rtol) && o->rtol > 0.0 && o->rtol < 1e-2 && isfinite(o->ftol) &&
+           o->ftol > 0.0 && o->ftol < 1e-2 && o->max_iter >= 1 && o->max_backtrack >= 1 &&
+           o->max_bracket >= 1 && o->max_shrink >= 1 && o->max_polish >= 1 &&
+           o->max_laid >= 1 && o->max_refine >= 0;
 }
 
 /* sqrt(a^2 + b^2) without glibc hypot's cost; hypot only where squaring
@@ -216,6 +232,117 @@ typedef struct {
     double tg_lo[NMAX], tg_hi[NMAX]; /* tension at the lower / upper end of grounded pieces */
 } walk_t;
 
+/* Touchdown: the first point, going up from the anchor, where V becomes
+ * positive (vt, vb: V at the top and bottom of each section).  Below it V
+ * <= 0 (the line lies on the seabed); above it the line is suspended, with
+ * sags where V changes sign again.  Sets w->grounded, td_sec, td_joint,
+ * buoy_down and returns the first (partly) suspended section. */
+static size_t find_touchdown(const hf_line *line, const double *vt, const double *vb, walk_t *w)
+{
+    size_t n = line->n;
+    if (vb[0] > 0.0) {
+        w->grounded = 0;
+        return 0;
+    }
+    w->grounded = 1;
+    int td_joint = 0;
+    size_t k = 0;
+    for (;;) {
+        if (line->sec[k].weight > 0.0 && vt[k] > 0.0)
+            break; /* touchdown inside section k */
+        if (k + 1 >= n) {
+            k = n; /* fully laid: touchdown at the fairlead */
+            break;
+        }
+        if (pload(line, k) < 0.0)
+            w->buoy_down = 1;
+        if (vb[k + 1] > 0.0) {
+            td_joint = 1; /* touchdown exactly at the clump on joint k */
+            break;
+        }
+        k++;
+    }
+    w->td_sec = k;
+    w->td_joint = td_joint;
+    return td_joint ? k + 1 : k;
+}
+
+/* The suspended part from section k0 up, walked upward so sag heights are
+ * known: adds into *x, *z, J and records V and the lowest sag in w. */
+static void walk_suspended(const hf_line *line, double H, const double *vt, const double *vb,
+                           size_t k0, walk_t *w, double *x, double *z, double J[2][2])
+{
+    for (size_t k = k0; k < line->n; k++) {
+        const hf_section *s = &line->sec[k];
+        double zb = *z;
+        if (w->grounded && !w->td_joint && k == k0) {
+            touchdown_piece(H, s->weight, s->ea, vt[k], x, z, J);
+            w->vb[k] = 0.0;
+        } else {
+            if (k > k0 && vt[k - 1] <= 0.0 && vb[k] > 0.0)
+                w->sag_min = fmin(w->sag_min, zb); /* kink minimum at a clump */
+            suspended(H, s->weight, s->length, s->ea, vt[k], vb[k], x, z, J);
+            w->vb[k] = vb[k];
+            if (vb[k] < 0.0 && vt[k] > 0.0) {
+                /* a sag's lowest point inside the section, where V = 0 */
+                double xs = 0.0, zs = 0.0, Js[2][2] = {{0, 0}, {0, 0}};
+                double lb = -vb[k] / s->weight;
+                suspended(H, s->weight, lb, s->ea, 0.0, vb[k], &xs, &zs, Js);
+                w->sag_min = fmin(w->sag_min, zb + zs);
+            }
+        }
+        w->vt[k] = vt[k];
+    }
+}
+
+/* One whole grounded section k (and the joint below it, unless k = 0). */
+static void ground_section(const hf_line *line, size_t k, ground_t *g, walk_t *w, double *xg)
+{
+    const hf_section *s = &line->sec[k];
+    w->gl[k] = s->length;
+    w->tg_hi[k] = g->t;
+    ground_piece(g, s->length, 0.0, s->friction * s->weight, s->ea);
+    w->tg_lo[k] = g->t;
+    *xg += s->length;
+    if (k > 0)
+        ground_point(g, line->joint[k - 1].friction, pos(pload(line, k - 1)), 0.0);
+}
+
+/* The grounded part, walked from touchdown down to the anchor: tension,
+ * stretch and their derivatives in *g, grounded length *xg (d/dV *xg_v). */
+static void walk_grounded(const hf_line *line, const double *vt, walk_t *w, ground_t *g,
+                          double *xg, double *xg_v)
+{
+    size_t k = w->td_sec, n = line->n;
+    if (k >= n) {
+        k = n - 1; /* fully laid: start with the top section, whole */
+    } else if (w->td_joint) {
+        /* The clump carries part of its weight on the seabed: N = P - V_above. */
+        ground_point(g, line->joint[k].friction, -vt[k], -1.0);
+    } else {
+        const hf_section *s = &line->sec[k];
+        double l = s->length - vt[k] / s->weight;
+        w->gl[k] = l;
+        w->tg_hi[k] = g->t;
+        ground_piece(g, l, -1.0 / s->weight, s->friction * s->weight, s->ea);
+        w->tg_lo[k] = g->t;
+        *xg += l;
+        *xg_v += -1.0 / s->weight;
+        if (k == 0) {
+            w->anchor_t = g->t;
+            return;
+        }
+        ground_point(g, line->joint[k - 1].friction, pos(pload(line, k - 1)), 0.0);
+        k--;
+    }
+    for (;; k--) {
+        ground_section(line, k, g, w, xg);
+        if (k == 0)
+            break;
+    }
+    w->anchor_t = g->t;
+}
+
 /* The forward map.  Returns HF_OK, or HF_EINVAL when h is not > 0 and finite. */
 static hf_status walk(const hf_line *line, double H, double VF, walk_t *w)
 {
@@ -237,97 +364,14 @@ static hf_status walk(const hf_line *line, double H, double VF, walk_t *w)
     w->sag_min = INFINITY;
     for (size_t k = 0; k < n; k++)
         w->vb[k] = w->vt[k] = w->gl[k] = w->tg_lo[k] = w->tg_hi[k] = 0.0;
-    /* Touchdown: the first point, going up from the anchor, where V becomes
-     * positive.  Below it V <= 0 (the line lies on the seabed); above it the
-     * line is suspended, with sags where V changes sign again. */
-    size_t k0 = 0;       /* first section (partly) suspended */
-    int td_joint = 0;
-    if (vb[0] > 0.0) {
-        w->grounded = 0;
-    } else {
-        w->grounded = 1;
-        size_t k = 0;
-        for (;;) {
-            if (line->sec[k].weight > 0.0 && vt[k] > 0.0)
-                break; /* touchdown inside section k */
-            if (k + 1 >= n) {
-                k = n; /* fully laid: touchdown at the fairlead */
-                break;
-            }
-            if (pload(line, k) < 0.0)
-                w->buoy_down = 1;
-            if (vb[k + 1] > 0.0) {
-                td_joint = 1; /* touchdown exactly at the clump on joint k */
-                break;
-            }
-            k++;
-        }
-        w->td_sec = k;
-        w->td_joint = td_joint;
-        k0 = td_joint ? k + 1 : k;
-    }
-    /* Suspended part, walked upward so sag heights are known. */
+    size_t k0 = find_touchdown(line, vt, vb, w);
     double x = 0.0, z = 0.0;
     double J[2][2] = {{0.0, 0.0}, {0.0, 0.0}};
-    for (size_t k = k0; k < n; k++) {
-        const hf_section *s = &line->sec[k];
-        double zb = z;
-        if (w->grounded && !td_joint && k == k0) {
-            touchdown_piece(H, s->weight, s->ea, vt[k], &x, &z, J);
-            w->vb[k] = 0.0;
-        } else {
-            if (k > k0 && vt[k - 1] <= 0.0 && vb[k] > 0.0)
-                w->sag_min = fmin(w->sag_min, zb); /* kink minimum at a clump */
-            suspended(H, s->weight, s->length, s->ea, vt[k], vb[k], &x, &z, J);
-            w->vb[k] = vb[k];
-            if (vb[k] < 0.0 && vt[k] > 0.0) {
-                /* a sag's lowest point inside the section, where V = 0 */
-                double xs = 0.0, zs = 0.0, Js[2][2] = {{0, 0}, {0, 0}};
-                double lb = -vb[k] / s->weight;
-                suspended(H, s->weight, lb, s->ea, 0.0, vb[k], &xs, &zs, Js);
-                w->sag_min = fmin(w->sag_min, zb + zs);
-            }
-        }
-        w->vt[k] = vt[k];
-    }
-    /* Grounded part, walked from touchdown down to the anchor. */
+    walk_suspended(line, H, vt, vb, k0, w, &x, &z, J);
     ground_t g = {H, 1.0, 0.0, 0.0, 0.0, 0.0};
     double xg = 0.0, xg_v = 0.0;
-    if (w->grounded) {
-        size_t k = w->td_sec;
-        if (k >= n) {
-            k = n - 1; /* fully laid: start with the top section, whole */
-        } else if (td_joint) {
-            /* The clump carries part of its weight on the seabed: N = P - V_above. */
-            ground_point(&g, line->joint[k].friction, -vt[k], -1.0);
-        } else {
-            const hf_section *s = &line->sec[k];
-            double l = s->length - vt[k] / s->weight;
-            w->gl[k] = l;
-            w->tg_hi[k] = g.t;
-            ground_piece(&g, l, -1.0 / s->weight, s->friction * s->weight, s->ea);
-            w->tg_lo[k] = g.t;
-            xg += l;
-            xg_v += -1.0 / s->weight;
-            if (k == 0)
-                goto anchor;
-            ground_point(&g, line->joint[k - 1].friction, pos(pload(line, k - 1)), 0.0);
-            k--;
-        }
-        for (;; k--) {
-            const hf_section *s = &line->sec[k];
-            w->gl[k] = s->length;
-            w->tg_hi[k] = g.t;
-            ground_piece(&g, s->length, 0.0, s->friction * s->weight, s->ea);
-            w->tg_lo[k] = g.t;
-            xg += s->length;
-            if (k == 0)
-                break;
-            ground_point(&g, line->joint[k - 1].friction, pos(pload(line, k - 1)), 0.0);
-        }
-    anchor:
-        w->anchor_t = g.t;
-    }
+    if (w->grounded)
+        walk_grounded(line, vt, w, &g, &xg, &xg_v);
     w->x_susp = x;
     w->x = x + xg + g.s;
     w->z = z;
@@ -559,6 +603,7 @@ typedef struct {
     walk_t *trial;       /* scratch for the line search; swapped with w on acceptance */
     double f;            /* merit: (rx^2 + rz^2) / scale^2 */
     int evals;
+    int max_backtrack;   /* line-search halvings per iteration (options) */
 } newton_t;
 
 static double merit(const newton_t *s, const walk_t *w)
@@ -585,6 +630,63 @@ static hf_status newton_test(const newton_t *s)
                                                                               : HF_CONTINUE;
 }
 
+/* The Newton correction (dH, dV) = -J^-1 r at the current walk.  Returns 0
+ * when J is singular or the correction not finite. */
+static int newton_dir(const newton_t *s, const walk_t *w, double *dH, double *dV)
+{
+    const double(*J)[2] = (const double(*)[2])w->J;
+    double rx = w->x - s->X, rz = w->z - s->Z;
+    double det = J[0][0] * J[1][1] - J[0][1] * J[1][0];
+    if (!(fabs(det) > 0.0) || !isfinite(det))
+        return 0;
+    *dH = (-rx * J[1][1] + rz * J[0][1]) / det;
+    *dV = (-rz * J[0][0] + rx * J[1][0]) / det;
+    return isfinite(*dH) && isfinite(*dV);
+}
+
+/* Estimated relative error of the forces: the remaining Newton correction
+ * over the fairlead tension, max(|dH| / H, |dV| / T) (H relative to itself:
+ * a nearly laid line has tiny H that matters to its anchor).  +inf when the
+ * correction is unknown. */
+static double force_error(const newton_t *s, const walk_t *w)
+{
+    double dH, dV;
+    if (!newton_dir(s, w, &dH, &dV))
+        return INFINITY;
+    double T = mag(s->H, s->V);
+    return fmax(fabs(dH) / s->H, fabs(dV) / T);
+}
+
+/* Converging on the forces as well as on the span (issue 12 item 14): where
+ * the span is insensitive to the forces (a nearly laid line: tiny H moves x
+ * by almost nothing) the span test holds while H is still off.  Full Newton
+ * steps are taken while the estimated force error exceeds ftol and the span
+ * stays within tolerance, at most max_refine of them; at the rounding floor
+ * the correction is noise and the loop ends on the limit. */
+static void refine_forces(newton_t *s, double ftol, int max_refine)
+{
+    for (int i = 0; i < max_refine; i++) {
+        double dH, dV;
+        if (force_error(s, s->w) <= ftol || !newton_dir(s, s->w, &dH, &dV))
+            return;
+        double H = s->H + dH, V = s->V + dV;
+        if (!(H > 0.0))
+            return;
+        s->evals++;
+        if (walk(s->line, H, V, s->trial) != HF_OK)
+            return;
+        double f = merit(s, s->trial);
+        if (!isfinite(f) || fabs(s->trial->x - s->X) > s->tol || fabs(s->trial->z - s->Z) > s->tol)
+            return;
+        s->H = H;
+        s->V = V;
+        walk_t *t = s->w;
+        s->w = s->trial;
+        s->trial = t;
+        s->f = f;
+    }
+}
+
 /* One damped Newton step.  HF_OK when it reduced the merit, HF_ENOCONV when
  * the step direction failed (singular Jacobian, no descent). */
 static hf_status newton_iterate(newton_t *s)
@@ -603,7 +705,7 @@ static hf_status newton_iterate(newton_t *s)
         a = fmin(a, 0.9 * s->H / -dH); /* keep H > 0 */
     if (s->Z > 0.0 && s->V > 0.0 && s->V + a * dV < 0.1 * s->V)
         a = fmin(a, 0.9 * s->V / -dV); /* stay where the line is lifted */
-    for (int i = 0; i < 40; i++, a *= 0.5) {
+    for (int i = 0; i < s->max_backtrack; i++, a *= 0.5) {
         double H = s->H + a * dH, V = s->V + a * dV;
         s->evals++;
         if (walk(s->line, H, V, s->trial) != HF_OK)
@@ -626,12 +728,42 @@ static hf_status newton_iterate(newton_t *s)
 /* ------------------------------------------------------------------------
  * Fallback: z is non-decreasing in V for fixed H and the span x(H, V(H)) is
  * increasing in H, so nested bracketing always finds the root.
+ *
+ * The two GSL Brent solvers live in storage inside the solve's own stack
+ * frame (brent_t): gsl_root_fsolver is a public struct (gsl_roots.h) whose
+ * state block has the size the solver type declares, so it is set up here
+ * exactly as gsl_root_fsolver_alloc would, without the heap.  The solver
+ * therefore allocates nothing at all and can never run out of memory.
  * ---------------------------------------------------------------------- */
+
+typedef struct {
+    gsl_root_fsolver s;
+    union {
+        double d[32];
+        void *p[32];
+        long double ld[16];
+    } state; /* GSL's Brent state is 8 doubles in GSL 2.x: room to spare */
+} brent_t;
+
+/* Sets up b as a Brent solver.  -1 when this GSL's Brent state does not fit
+ * (a different GSL build: reported, never a silent wrong result). */
+static int brent_init(brent_t *b)
+{
+    const gsl_root_fsolver_type *T = gsl_root_fsolver_brent;
+    if (T->size > sizeof b->state)
+        return -1;
+    b->s.type = T;
+    b->s.function = NULL;
+    b->s.root = b->s.x_lower = b->s.x_upper = 0.0;
+    b->s.state = &b->state;
+    return 0;
+}
 
 typedef struct {
     newton_t *s;
     double H;
     gsl_root_fsolver *inner; /* Brent solver for V at fixed H */
+    const hf_line_options *opt;
 } inner_t;
 
 static double inner_f(double V, void *p)
@@ -645,11 +777,11 @@ static double inner_f(double V, void *p)
 }
 
 static int brent(gsl_root_fsolver *r, gsl_function *F, double lo, double hi, double xtol,
-                 double *root)
+                 int max_iter, double *root)
 {
     if (gsl_root_fsolver_set(r, F, lo, hi) != GSL_SUCCESS)
         return -1;
-    for (int i = 0; i < 200; i++) {
+    for (int i = 0; i < max_iter; i++) {
         if (gsl_root_fsolver_iterate(r) != GSL_SUCCESS)
             return -1;
         double a = gsl_root_fsolver_x_lower(r), b = gsl_root_fsolver_x_upper(r);
@@ -664,11 +796,11 @@ static int brent(gsl_root_fsolver *r, gsl_function *F, double lo, double hi, dou
 static int solve_v(inner_t *base, double H, double *V)
 {
     newton_t *s = base->s;
-    inner_t in = {s, H, base->inner};
+    inner_t in = {s, H, base->inner, base->opt};
     gsl_function F = {inner_f, &in};
     double lo = 0.0, hi = fmax(fabs(hf_line_weight(s->line)), 1.0);
     double fhi = inner_f(hi, &in);
-    for (int i = 0; i < 200 && !(fhi >= 0.0); i++) {
+    for (int i = 0; i < base->opt->max_bracket && !(fhi >= 0.0); i++) {
         lo = hi;
         hi *= 2.0;
         fhi = inner_f(hi, &in);
@@ -679,7 +811,7 @@ static int solve_v(inner_t *base, double H, double *V)
         *V = hi;
         return 0;
     }
-    return brent(in.inner, &F, lo, hi, 1e-14 * hi, V);
+    return brent(in.inner, &F, lo, hi, 1e-14 * hi, base->opt->max_bracket, V);
 }
 
 static double outer_f(double H, void *p)
@@ -698,45 +830,40 @@ static double outer_f(double H, void *p)
 
 static hf_status bracket(newton_t *s, inner_t *base, gsl_root_fsolver *outer)
 {
+    const hf_line_options *o = base->opt;
     gsl_function F = {outer_f, base};
     double wmax = 0.0;
     for (size_t k = 0; k < s->line->n; k++)
         wmax = fmax(wmax, s->line->sec[k].weight);
     double lo = 1e-9 * wmax * s->scale, hi = fmax(s->H, lo * 10.0);
     double flo = outer_f(lo, base);
-    for (int i = 0; i < 60 && !(flo < 0.0); i++) {
+    for (int i = 0; i < o->max_shrink && !(flo < 0.0); i++) {
         lo *= 1e-3;
         flo = outer_f(lo, base);
     }
     double fhi = outer_f(hi, base);
-    for (int i = 0; i < 200 && !(fhi > 0.0); i++) {
+    for (int i = 0; i < o->max_bracket && !(fhi > 0.0); i++) {
         hi *= 2.0;
         fhi = outer_f(hi, base);
     }
     if (!(flo < 0.0) || !(fhi > 0.0))
         return HF_ENOCONV;
     double H, V;
-    if (brent(outer, &F, lo, hi, 1e-13 * hi, &H) != 0 || solve_v(base, H, &V) != 0)
+    if (brent(outer, &F, lo, hi, 1e-13 * hi, o->max_bracket, &H) != 0 ||
+        solve_v(base, H, &V) != 0)
         return HF_ENOCONV;
     return newton_set(s, H, V);
 }
 
-/* The fallback allocates its two small GSL solvers; it runs rarely, never in
- * the Newton loop. */
-static hf_status fallback(newton_t *s)
+/* The bracketing fallback.  HF_OK (s at the root), HF_ENOCONV, or HF_ENOMEM
+ * when this GSL's Brent state does not fit the storage reserved for it. */
+static hf_status fallback(newton_t *s, const hf_line_options *opt)
 {
-    gsl_root_fsolver *outer = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
-    gsl_root_fsolver *inner = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
-    hf_status st = HF_ENOMEM;
-    if (outer && inner) {
-        inner_t base = {s, 0.0, inner};
-        st = bracket(s, &base, outer);
-    }
-    if (inner)
-        gsl_root_fsolver_free(inner);
-    if (outer)
-        gsl_root_fsolver_free(outer);
-    return st;
+    brent_t outer, inner;
+    if (brent_init(&outer) != 0 || brent_init(&inner) != 0)
+        return HF_ENOMEM;
+    inner_t base = {s, 0.0, &inner.s, opt};
+    return bracket(s, &base, &outer.s);
 }
 
 /* Weight hanging below the fairlead over the top `ls` metres of line, N
@@ -908,11 +1035,13 @@ static hf_status solve_vertical(const hf_line *line, double Z, hf_line_state *st
 
 /* Z = 0, X beyond the unstretched length: the whole line lies taut on the
  * seabed.  x = L + stretch(H), solved by Newton on H (monotone, convex). */
-static hf_status solve_laid(const hf_line *line, double X, double tol, hf_line_state *st)
+static hf_status solve_laid(const hf_line *line, double X, double tol, int max_iter,
+                            hf_line_state *st)
 {
     double H = fmax(line->sec[line->n - 1].ea * (X / hf_line_length(line) - 1.0), 1e-3);
     walk_t w;
-    for (int i = 0; i < 200; i++) {
+    w.x = INFINITY; /* no walk yet: not converged */
+    for (int i = 0; i < max_iter; i++) {
         if (walk(line, H, 0.0, &w) != HF_OK)
             break;
         st->evaluations++;
@@ -948,38 +1077,21 @@ static hf_status solve_laid(const hf_line *line, double X, double tol, hf_line_s
 }
 
 /* ------------------------------------------------------------------------
- * The driver.
+ * The driver: closed forms, start, Newton (with fallback), state.
  * ---------------------------------------------------------------------- */
 
-hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_state *guess,
-                        const hf_line_options *opt, hf_line_state *st)
+/* The regimes solved without iterating on (H, V): hanging with H = 0
+ * (slack), fully laid and slack, vertical (X = 0), laid and taut (Z = 0).
+ * Returns 1 with *rc set when one of them applies, else 0; *slack_buoy is
+ * set when a slack column exists only with a buoy in it. */
+static int closed_forms(const hf_line *line, double X, double Z, double tol,
+                        const hf_line_options *opt, hf_line_state *st, hf_status *rc,
+                        int *slack_buoy)
 {
-    hf_line_options defaults;
-    if (!opt) {
-        hf_line_options_default(&defaults);
-        opt = &defaults;
-    }
-    clear_state(st, line && line->n <= NMAX ? line->n : NMAX);
-    st->message = "";
-    st->x = isfinite(X) ? X : 0.0;
-    st->z = isfinite(Z) ? Z : 0.0;
-    if (hf_line_check(line, NULL) != HF_OK)
-        return fail(st, HF_EINVAL, "invalid line data (check lengths, weights, EA, MBL)");
-    st->n = line->n;
-    if (!isfinite(X) || !isfinite(Z) || X < 0.0)
-        return fail(st, HF_EINVAL, "the span must be finite with X >= 0");
-    if (Z < 0.0)
-        return fail(st, HF_EINVAL, "the fairlead is below the seabed (Z < 0)");
     double L = hf_line_length(line);
-    double span = mag(X, Z);
-    double scale = L > span ? L : span;
-    double tol = opt->rtol * scale;
-    hf_status rc = HF_OK;
-    int slack_buoy = 0;
-
-    /* H = 0 regimes first: could the line hang from the fairlead with at
-     * least X metres of it laid on the seabed?  Cheap bound first:
-     * laid length <= L - Z / (1 + max strain). */
+    /* Could the line hang from the fairlead with at least X metres of it
+     * laid on the seabed?  Cheap bound first: laid length <= L - Z / (1 +
+     * max strain). */
     double wabs = 0.0, eamin = INFINITY;
     for (size_t k = 0; k < line->n; k++) {
         wabs += line->sec[k].weight * line->sec[k].length + fabs(pload(line, k));
@@ -990,95 +1102,114 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
         hang(line, Z, &hg);
         if (hg.found && X <= hg.s_t + tol) {
             if (!hg.bad) {
-                rc = solve_slack(line, &hg, st);
-                goto done;
+                *rc = solve_slack(line, &hg, st);
+                return 1;
             }
-            slack_buoy = 1; /* no valid H = 0 column: look for a lifted (H > 0) shape */
+            *slack_buoy = 1; /* no valid H = 0 column: look for a lifted (H > 0) shape */
         }
     }
     if (Z == 0.0 && X <= L + tol) {
         hang_t hg = {.found = 1, .s_t = L, .foot = line->n - 1,
                      .kvv = line->sec[line->n - 1].weight};
-        rc = solve_slack(line, &hg, st); /* fully laid and slack: zero tension */
-        goto done;
+        *rc = solve_slack(line, &hg, st); /* fully laid and slack: zero tension */
+        return 1;
     }
     if (X == 0.0) {
-        rc = solve_vertical(line, Z, st);
-        goto done;
+        *rc = solve_vertical(line, Z, st);
+        return 1;
     }
     if (Z == 0.0) {
-        rc = solve_laid(line, X, tol, st);
-        goto done;
+        *rc = solve_laid(line, X, tol, opt->max_laid, st);
+        return 1;
     }
+    return 0;
+}
 
-    newton_t s; /* not zero-initialised: its walks are large and filled before use */
-    s.line = line;
-    s.X = X;
-    s.Z = Z;
-    s.tol = tol;
-    s.scale = scale;
-    s.evals = 0;
-    s.H = s.V = s.f = 0.0;
-    s.w = &s.buf[0];
-    s.trial = &s.buf[1];
-    double H0, V0;
+/* Starting forces: a first-order predictor from a previous solution of the
+ * same line, else the touchdown catenary, else Peyrot and Goulois. */
+static void newton_start(const hf_line *line, double X, double Z, const hf_line_state *guess,
+                         double *H0, double *V0)
+{
     if (guess && guess->status == HF_OK && guess->h > 0.0 && isfinite(guess->h) &&
         isfinite(guess->v) && guess->n == line->n &&
         (guess->regime == HF_LINE_SUSPENDED || guess->regime == HF_LINE_TOUCHDOWN)) {
         /* First-order predictor from the previous solution's stiffness. */
         double dX = X - guess->x, dZ = Z - guess->z;
-        H0 = guess->h + guess->stiffness[0][0] * dX + guess->stiffness[0][1] * dZ;
-        V0 = guess->v + guess->stiffness[1][0] * dX + guess->stiffness[1][1] * dZ;
-        if (!(H0 > 0.1 * guess->h) || !isfinite(H0) || !isfinite(V0)) {
-            H0 = guess->h;
-            V0 = guess->v;
+        *H0 = guess->h + guess->stiffness[0][0] * dX + guess->stiffness[0][1] * dZ;
+        *V0 = guess->v + guess->stiffness[1][0] * dX + guess->stiffness[1][1] * dZ;
+        if (!(*H0 > 0.1 * guess->h) || !isfinite(*H0) || !isfinite(*V0)) {
+            *H0 = guess->h;
+            *V0 = guess->v;
         }
-    } else if (!touchdown_start(line, X, Z, &H0, &V0)) {
-        peyrot(line, X, Z, &H0, &V0);
+    } else if (!touchdown_start(line, X, Z, H0, V0)) {
+        peyrot(line, X, Z, H0, V0);
     }
-    int it = 0;
-    hf_status ns = newton_set(&s, H0, V0);
+}
+
+/* Damped Newton from (H0, V0); when it fails, the bracketing fallback and
+ * Newton polishing to full accuracy.  HF_OK with s at the solution, HF_ENOCONV,
+ * or HF_ENOMEM (fallback storage, see brent_init).  *it counts iterations. */
+static hf_status newton_solve(newton_t *s, const hf_line_options *opt, double H0, double V0,
+                              int *it)
+{
+    hf_status ns = newton_set(s, H0, V0);
     if (ns != HF_OK) {
-        peyrot(line, X, Z, &H0, &V0);
-        ns = newton_set(&s, H0, V0);
+        peyrot(s->line, s->X, s->Z, &H0, &V0);
+        ns = newton_set(s, H0, V0);
     }
-    while (ns == HF_OK && newton_test(&s) == HF_CONTINUE && it < opt->max_iter) {
-        ns = newton_iterate(&s);
-        it++;
+    while (ns == HF_OK && newton_test(s) == HF_CONTINUE && *it < opt->max_iter) {
+        ns = newton_iterate(s);
+        (*it)++;
     }
-    if (ns != HF_OK || newton_test(&s) != HF_OK) {
-        /* Robust path, then Newton polishing to full accuracy. */
-        ns = fallback(&s);
-        for (int j = 0; ns == HF_OK && newton_test(&s) == HF_CONTINUE && j < 20; j++, it++)
-            if (newton_iterate(&s) != HF_OK)
-                break;
-        if (ns != HF_OK || newton_test(&s) != HF_OK) {
-            st->iterations = it;
-            st->evaluations = s.evals;
-            if (slack_buoy)
-                return fail(st, HF_EUNSUPPORTED, msg_slack_buoy);
-            for (size_t k = 0; k + 1 < line->n; k++)
-                if (line->joint[k].load < 0.0)
-                    return fail(st, HF_EUNSUPPORTED, msg_buoy_search);
-            return fail(st, HF_ENOCONV, "the line solver did not converge");
-        }
+    if (ns == HF_OK && newton_test(s) == HF_OK) {
+        refine_forces(s, opt->ftol, opt->max_refine);
+        return HF_OK;
     }
-    st->iterations = it;
-    st->evaluations = s.evals;
-    const walk_t *w = s.w;
+    ns = fallback(s, opt);
+    for (int j = 0; ns == HF_OK && newton_test(s) == HF_CONTINUE && j < opt->max_polish;
+         j++, (*it)++)
+        if (newton_iterate(s) != HF_OK)
+            break;
+    if (ns == HF_OK && newton_test(s) != HF_OK)
+        ns = HF_ENOCONV;
+    if (ns == HF_OK)
+        refine_forces(s, opt->ftol, opt->max_refine);
+    return ns;
+}
+
+/* Why the Newton path failed, for a line that has the shape searched for. */
+static hf_status newton_failure(const hf_line *line, hf_status ns, int slack_buoy,
+                                hf_line_state *st)
+{
+    if (ns == HF_ENOMEM)
+        return fail(st, HF_ENOMEM,
+                    "the line solver's fallback has no room for this GSL's Brent solver state");
+    if (slack_buoy)
+        return fail(st, HF_EUNSUPPORTED, msg_slack_buoy);
+    for (size_t k = 0; k + 1 < line->n; k++)
+        if (line->joint[k].load < 0.0)
+            return fail(st, HF_EUNSUPPORTED, msg_buoy_search);
+    return fail(st, HF_ENOCONV, "the line solver did not converge");
+}
+
+/* Fills st from the converged walk of a suspended or touchdown line. */
+static hf_status state_from_walk(const hf_line *line, const newton_t *s, int slack_buoy,
+                                 hf_line_state *st)
+{
+    const walk_t *w = s->w;
     if (w->buoy_down)
         return fail(st, HF_EUNSUPPORTED, slack_buoy ? msg_slack_buoy : msg_buoy);
-    if (w->sag_min < -tol)
+    if (w->sag_min < -s->tol)
         return fail(st, HF_EUNSUPPORTED, slack_buoy ? msg_slack_buoy : msg_sag);
     st->regime = w->grounded ? HF_LINE_TOUCHDOWN : HF_LINE_SUSPENDED;
-    st->h = s.H;
-    st->v = s.V;
-    st->tension = mag(s.H, s.V);
+    st->h = s->H;
+    st->v = s->V;
+    st->tension = mag(s->H, s->V);
     if (w->grounded) {
         st->anchor_h = w->anchor_t;
         st->anchor_v = 0.0;
     } else {
-        st->anchor_h = s.H;
+        st->anchor_h = s->H;
         st->anchor_v = w->vb[0];
     }
     if (st->anchor_v == 0.0) {
@@ -1093,12 +1224,69 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
         gl += w->gl[k];
     st->grounded = gl;
     if (w->grounded)
-        st->touchdown_x = fmax(X - w->x_susp, 0.0); /* stretched grounded length */
-    sections_from_walk(line, w, s.H, st);
+        st->touchdown_x = fmax(s->X - w->x_susp, 0.0); /* stretched grounded length */
+    sections_from_walk(line, w, s->H, st);
     stiffness_from_flex(w->J, st);
-    st->residual = fmax(fabs(w->x - X), fabs(w->z - Z)) / scale;
+    st->residual = fmax(fabs(w->x - s->X), fabs(w->z - s->Z)) / s->scale;
+    double fe = force_error(s, w);
+    st->force_error = isfinite(fe) ? fe : 1.0;
+    return HF_OK;
+}
 
-done:
+/* Suspended or touchdown line: Newton on (H, V) from a start. */
+static hf_status solve_general(const hf_line *line, double X, double Z, double scale,
+                               const hf_line_state *guess, const hf_line_options *opt,
+                               int slack_buoy, hf_line_state *st)
+{
+    newton_t s; /* not zero-initialised: its walks are large and filled before use */
+    s.line = line;
+    s.X = X;
+    s.Z = Z;
+    s.tol = opt->rtol * scale;
+    s.scale = scale;
+    s.evals = 0;
+    s.max_backtrack = opt->max_backtrack;
+    s.H = s.V = s.f = 0.0;
+    s.w = &s.buf[0];
+    s.trial = &s.buf[1];
+    double H0, V0;
+    int it = 0;
+    newton_start(line, X, Z, guess, &H0, &V0);
+    hf_status ns = newton_solve(&s, opt, H0, V0, &it);
+    st->iterations = it;
+    st->evaluations = s.evals;
+    if (ns != HF_OK)
+        return newton_failure(line, ns, slack_buoy, st);
+    return state_from_walk(line, &s, slack_buoy, st);
+}
+
+hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_state *guess,
+                        const hf_line_options *opt, hf_line_state *st)
+{
+    hf_line_options defaults;
+    if (!opt) {
+        hf_line_options_default(&defaults);
+        opt = &defaults;
+    }
+    clear_state(st, line && line->n <= NMAX ? line->n : NMAX);
+    st->message = "";
+    st->x = isfinite(X) ? X : 0.0;
+    st->z = isfinite(Z) ? Z : 0.0;
+    if (!options_ok(opt))
+        return fail(st, HF_EINVAL, "invalid line solver options (rtol, ftol in (0, 0.01), limits >= 1)");
+    if (hf_line_check(line, NULL) != HF_OK)
+        return fail(st, HF_EINVAL, "invalid line data (check lengths, weights, EA, MBL)");
+    st->n = line->n;
+    if (!isfinite(X) || !isfinite(Z) || X < 0.0)
+        return fail(st, HF_EINVAL, "the span must be finite with X >= 0");
+    if (Z < 0.0)
+        return fail(st, HF_EINVAL, "the fairlead is below the seabed (Z < 0)");
+    double L = hf_line_length(line), span = mag(X, Z);
+    double scale = L > span ? L : span;
+    hf_status rc = HF_OK;
+    int slack_buoy = 0;
+    if (!closed_forms(line, X, Z, opt->rtol * scale, opt, st, &rc, &slack_buoy))
+        rc = solve_general(line, X, Z, scale, guess, opt, slack_buoy, st);
     if (rc != HF_OK)
         return rc;
     finish_sections(line, st);
@@ -1140,105 +1328,115 @@ static size_t steps(double len, double spacing)
     return (size_t)n;
 }
 
-size_t hf_line_profile(const hf_line *line, const hf_line_state *st, double spacing,
-                       hf_line_point *pts, size_t cap)
+/* Slack line: the laid part's true shape on the seabed is unknown, it is
+ * drawn straight from the anchor to the point below the fairlead; the
+ * hanging column above it is vertical. */
+static void profile_slack(const hf_line *line, const hf_line_state *st, double spacing,
+                          sink_t *k)
 {
-    if (!st || st->status != HF_OK || !(spacing > 0.0) || !isfinite(spacing))
-        return 0;
-    sink_t k = {pts, cap, 0};
-    size_t n = line->n;
-    double arc = 0.0, x = 0.0, z = 0.0;
-    if (st->regime == HF_LINE_SLACK) {
-        /* The laid part's true shape on the seabed is unknown (slack): it is
-         * drawn straight from the anchor to the point below the fairlead. */
-        double sx = st->grounded > 0.0 ? st->x / st->grounded : 0.0;
-        emit(&k, 0.0, 0.0, 0.0, 0.0);
-        for (size_t i = 0; i < n; i++) {
-            const hf_section *s = &line->sec[i];
-            const hf_section_result *r = &st->section[i];
-            size_t m = steps(s->length, spacing);
-            double gl = r->grounded;
-            for (size_t j = 1; j <= m; j++) {
-                double u = s->length * (double)j / (double)m;
-                double a = arc + u;
-                if (u <= gl) {
-                    emit(&k, a, a * sx, 0.0, 0.0);
-                } else {
-                    double h = u - gl, v0 = r->t_lower;
-                    double v = v0 + s->weight * h;
-                    double zz = z + h + (v0 + v) * h / (2.0 * s->ea);
-                    emit(&k, a, st->x, zz, v);
-                }
-            }
-            double h = s->length - gl;
-            if (h > 0.0)
-                z += h + (r->t_lower + r->t_upper) * h / (2.0 * s->ea);
-            arc += s->length;
-        }
-        return k.count;
-    }
-    walk_t w;
-    double H = st->h;
-    if (st->regime == HF_LINE_VERTICAL) {
-        emit(&k, 0.0, 0.0, 0.0, st->anchor_tension);
-        for (size_t i = 0; i < n; i++) {
-            const hf_section *s = &line->sec[i];
-            double vb = st->section[i].t_lower;
-            size_t m = steps(s->length, spacing);
-            for (size_t j = 1; j <= m; j++) {
-                double u = s->length * (double)j / (double)m;
-                double v = vb + s->weight * u;
-                emit(&k, arc + u, 0.0, z + u + (vb + v) * u / (2.0 * s->ea), v);
-            }
-            z += s->length + (vb + st->section[i].t_upper) * s->length / (2.0 * s->ea);
-            arc += s->length;
-        }
-        return k.count;
-    }
-    if (walk(line, H, st->v, &w) != HF_OK)
-        return 0;
-    emit(&k, 0.0, 0.0, 0.0, st->anchor_tension);
-    for (size_t i = 0; i < n; i++) {
+    double arc = 0.0, z = 0.0;
+    double sx = st->grounded > 0.0 ? st->x / st->grounded : 0.0;
+    emit(k, 0.0, 0.0, 0.0, 0.0);
+    for (size_t i = 0; i < line->n; i++) {
         const hf_section *s = &line->sec[i];
-        double gl = w.gl[i];
-        double r = s->friction * s->weight;
+        const hf_section_result *r = &st->section[i];
         size_t m = steps(s->length, spacing);
-        /* Grounded piece: tension rises from tg_lo toward touchdown. */
-        double thi = w.tg_hi[i];
-        double xg0 = x;
+        double gl = r->grounded;
         for (size_t j = 1; j <= m; j++) {
             double u = s->length * (double)j / (double)m;
+            double a = arc + u;
             if (u <= gl) {
-                /* T(u) = max(0, thi - r (gl - u)); stretch integrated from 0 */
-                double t = fmax(0.0, thi - r * (gl - u));
-                double u0 = r > 0.0 ? fmax(0.0, gl - thi / r) : 0.0; /* start of tension */
-                double st0 = 0.0;
-                if (u > u0) {
-                    double t0 = fmax(0.0, thi - r * (gl - u0));
-                    st0 = (t0 + t) * (u - u0) / (2.0 * s->ea);
-                }
-                emit(&k, arc + u, xg0 + u + st0, 0.0, t);
+                emit(k, a, a * sx, 0.0, 0.0);
             } else {
-                double xs = 0.0, zs = 0.0, Js[2][2] = {{0, 0}, {0, 0}};
-                double h = u - gl;
-                double vb = w.vb[i];
-                suspended(H, s->weight, h, s->ea, vb + s->weight * h, vb, &xs, &zs, Js);
-                double xbase = xg0, zbase = z;
-                if (gl > 0.0) {
-                    double u0 = r > 0.0 ? fmax(0.0, gl - thi / r) : 0.0;
-                    double t0 = fmax(0.0, thi - r * (gl - u0));
-                    xbase += gl + (t0 + thi) * (gl - u0) / (2.0 * s->ea);
-                }
-                emit(&k, arc + u, xbase + xs, zbase + zs, hypot(H, vb + s->weight * h));
+                double h = u - gl, v0 = r->t_lower;
+                double v = v0 + s->weight * h;
+                double zz = z + h + (v0 + v) * h / (2.0 * s->ea);
+                emit(k, a, st->x, zz, v);
             }
         }
-        /* advance to the section's upper end */
-        double xe = xg0, ze = z;
-        if (gl > 0.0) {
-            double u0 = r > 0.0 ? fmax(0.0, gl - thi / r) : 0.0;
-            double t0 = fmax(0.0, thi - r * (gl - u0));
-            xe += gl + (t0 + thi) * (gl - u0) / (2.0 * s->ea);
+        double h = s->length - gl;
+        if (h > 0.0)
+            z += h + (r->t_lower + r->t_upper) * h / (2.0 * s->ea);
+        arc += s->length;
+    }
+}
+
+/* Vertical line: straight up from the anchor. */
+static void profile_vertical(const hf_line *line, const hf_line_state *st, double spacing,
+                             sink_t *k)
+{
+    double arc = 0.0, z = 0.0;
+    emit(k, 0.0, 0.0, 0.0, st->anchor_tension);
+    for (size_t i = 0; i < line->n; i++) {
+        const hf_section *s = &line->sec[i];
+        double vb = st->section[i].t_lower;
+        size_t m = steps(s->length, spacing);
+        for (size_t j = 1; j <= m; j++) {
+            double u = s->length * (double)j / (double)m;
+            double v = vb + s->weight * u;
+            emit(k, arc + u, 0.0, z + u + (vb + v) * u / (2.0 * s->ea), v);
         }
+        z += s->length + (vb + st->section[i].t_upper) * s->length / (2.0 * s->ea);
+        arc += s->length;
+    }
+}
+
+/* Horizontal position where the grounded piece of length gl (tension thi at
+ * its upper end, friction slope r) ends, starting from x0: gl plus the
+ * stretch of its tensioned part. */
+static double ground_end(double x0, double gl, double thi, double r, double ea)
+{
+    double u0 = r > 0.0 ? fmax(0.0, gl - thi / r) : 0.0; /* start of tension */
+    double t0 = fmax(0.0, thi - r * (gl - u0));
+    return x0 + (gl + (t0 + thi) * (gl - u0) / (2.0 * ea));
+}
+
+/* One sample at unstretched distance u from the lower end of section i,
+ * whose lower end is at (x0, z0): on the grounded piece or the suspended one. */
+static void profile_point(const hf_line *line, const walk_t *w, double H, size_t i, double u,
+                          double x0, double z0, double arc, sink_t *k)
+{
+    const hf_section *s = &line->sec[i];
+    double gl = w->gl[i], r = s->friction * s->weight, thi = w->tg_hi[i];
+    if (u <= gl) {
+        /* T(u) = max(0, thi - r (gl - u)); stretch integrated from 0 */
+        double t = fmax(0.0, thi - r * (gl - u));
+        double u0 = r > 0.0 ? fmax(0.0, gl - thi / r) : 0.0; /* start of tension */
+        double st0 = 0.0;
+        if (u > u0) {
+            double t0 = fmax(0.0, thi - r * (gl - u0));
+            st0 = (t0 + t) * (u - u0) / (2.0 * s->ea);
+        }
+        emit(k, arc + u, x0 + u + st0, 0.0, t);
+        return;
+    }
+    double xs = 0.0, zs = 0.0, Js[2][2] = {{0, 0}, {0, 0}};
+    double h = u - gl, vb = w->vb[i];
+    suspended(H, s->weight, h, s->ea, vb + s->weight * h, vb, &xs, &zs, Js);
+    double xbase = gl > 0.0 ? ground_end(x0, gl, thi, r, s->ea) : x0;
+    emit(k, arc + u, xbase + xs, z0 + zs, hypot(H, vb + s->weight * h));
+}
+
+/* Suspended or touchdown line: the walk at the solved forces, section by
+ * section, grounded piece first (tension rising from tg_lo toward touchdown). */
+static size_t profile_catenary(const hf_line *line, const hf_line_state *st, double spacing,
+                               sink_t *k)
+{
+    walk_t w;
+    double H = st->h, arc = 0.0, x = 0.0, z = 0.0;
+    if (walk(line, H, st->v, &w) != HF_OK)
+        return 0;
+    emit(k, 0.0, 0.0, 0.0, st->anchor_tension);
+    for (size_t i = 0; i < line->n; i++) {
+        const hf_section *s = &line->sec[i];
+        double gl = w.gl[i];
+        size_t m = steps(s->length, spacing);
+        for (size_t j = 1; j <= m; j++)
+            profile_point(line, &w, H, i, s->length * (double)j / (double)m, x, z, arc, k);
+        /* advance to the section's upper end */
+        double xe = x, ze = z;
+        if (gl > 0.0)
+            xe = ground_end(x, gl, w.tg_hi[i], s->friction * s->weight, s->ea);
         if (s->length - gl > 0.0) {
             double Js[2][2] = {{0, 0}, {0, 0}};
             suspended(H, s->weight, s->length - gl, s->ea, w.vt[i], w.vb[i], &xe, &ze, Js);
@@ -1247,5 +1445,22 @@ size_t hf_line_profile(const hf_line *line, const hf_line_state *st, double spac
         z = ze;
         arc += s->length;
     }
-    return k.count;
+    return k->count;
+}
+
+size_t hf_line_profile(const hf_line *line, const hf_line_state *st, double spacing,
+                       hf_line_point *pts, size_t cap)
+{
+    if (!st || st->status != HF_OK || !(spacing > 0.0) || !isfinite(spacing))
+        return 0;
+    sink_t k = {pts, cap, 0};
+    if (st->regime == HF_LINE_SLACK) {
+        profile_slack(line, st, spacing, &k);
+        return k.count;
+    }
+    if (st->regime == HF_LINE_VERTICAL) {
+        profile_vertical(line, st, spacing, &k);
+        return k.count;
+    }
+    return profile_catenary(line, st, spacing, &k);
 }

@@ -35,6 +35,8 @@ int hf_status_exit_code(hf_status s)
     case HF_ELIMIT:
     case HF_EIO:
         return 2;
+    case HF_ENOMEM:
+        return 4;
     default:
         return 3;
     }

@@ -727,8 +727,16 @@ static void caption(FILE *out, double x, double y, const char *text)
 #define EL_H 640.0
 #define EL_BINS 48
 
-hf_status hf_svg_figure_elevation(FILE *out, const hf_svg_elevation *e, int standalone,
-                                  hf_error *err)
+/* The elevation's layout, worked out once before anything is written. */
+typedef struct {
+    hf_svg_axes top, low; /* the line's panel and the tension panel */
+    double tmin, tmax;    /* tension range along the line, N */
+    double tl;            /* allowed tension, kN (0 = none) */
+    int limit_on_scale;   /* 1: the limit is drawn on the tension panel */
+} elev;
+
+/* Validates e; HF_OK or HF_EINVAL with a message. */
+static hf_status elev_check(const hf_svg_elevation *e, hf_error *err)
 {
     if (!e || !e->pts || e->npts < 2)
         return hf_error_set(err, HF_EINVAL, "elevation figure: expected a profile of >= 2 points");
@@ -739,42 +747,52 @@ hf_status hf_svg_figure_elevation(FILE *out, const hf_svg_elevation *e, int stan
     if (!isfinite(e->tension_limit) || e->tension_limit < 0.0 ||
         (e->has_touchdown && !isfinite(e->touchdown_x)))
         return hf_error_set(err, HF_EINVAL, "elevation figure: limit or touchdown not finite");
-    double xmin = 0, xmax = 0, zmax = e->water_height, tmin = 0, tmax = 0;
     for (size_t i = 0; i < e->npts; i++) {
         const hf_line_point *p = &e->pts[i];
         if (!isfinite(p->x) || !isfinite(p->z) || !isfinite(p->tension) || !isfinite(p->arc))
             return hf_error_set(err, HF_EINVAL, "elevation figure: profile point %zu is not finite",
                                 i);
+    }
+    return HF_OK;
+}
+
+/* The two panels' axes: the line over the water depth, the tension below
+ * sharing its horizontal axis. */
+static hf_status elev_layout(const hf_svg_elevation *e, elev *L, hf_error *err)
+{
+    double xmin = 0, xmax = 0, zmin = 0, zmax = e->water_height;
+    for (size_t i = 0; i < e->npts; i++) {
+        const hf_line_point *p = &e->pts[i];
         xmin = fmin(xmin, p->x);
         xmax = fmax(xmax, p->x);
+        zmin = fmin(zmin, p->z);
         zmax = fmax(zmax, p->z);
-        tmin = i ? fmin(tmin, p->tension) : p->tension;
-        tmax = i ? fmax(tmax, p->tension) : p->tension;
+        L->tmin = i ? fmin(L->tmin, p->tension) : p->tension;
+        L->tmax = i ? fmax(L->tmax, p->tension) : p->tension;
     }
-    double zmin = 0.0;
-    for (size_t i = 0; i < e->npts; i++)
-        zmin = fmin(zmin, e->pts[i].z);
-    hf_svg_axes top, low;
     /* The seabed is the bottom of the panel (z = 0 unless the profile dips). */
-    hf_status s = hf_svg_axes_init(&top, 90, 84, 600, 270, xmin, xmax, zmin, zmax * 1.04, 0, err);
+    hf_status s = hf_svg_axes_init(&L->top, 90, 84, 600, 270, xmin, xmax, zmin, zmax * 1.04, 0, err);
     if (s != HF_OK)
         return s;
-    double tl = e->tension_limit / 1e3;
+    L->tl = e->tension_limit / 1e3;
     /* A limit far above the tensions would flatten the curve: then it is
      * stated in words instead of drawn. */
-    int limit_on_scale = tl > 0 && tl <= 2.5 * tmax / 1e3;
-    double t0 = 0.0, t1 = fmax(tmax / 1e3, limit_on_scale ? tl : 0.0) * 1.05;
+    L->limit_on_scale = L->tl > 0 && L->tl <= 2.5 * L->tmax / 1e3;
+    double t1 = fmax(L->tmax / 1e3, L->limit_on_scale ? L->tl : 0.0) * 1.05;
     if (t1 <= 0.0)
         t1 = 1.0;
-    s = hf_svg_axes_init(&low, 90, 430, 600, 140, top.xt.lo, top.xt.hi, t0, t1, 0, err);
-    if (s != HF_OK)
-        return s;
+    s = hf_svg_axes_init(&L->low, 90, 430, 600, 140, L->top.xt.lo, L->top.xt.hi, 0.0, t1, 0, err);
     /* Share the horizontal axis exactly. */
-    low.xt = top.xt;
+    L->low.xt = L->top.xt;
+    return s;
+}
 
-    hf_svg_begin(out, EL_W, EL_H, e->title, standalone);
-    title(out, EL_W, e->title);
-    double hx = top.width / (top.xt.hi - top.xt.lo), hz = top.height / (top.yt.hi - top.yt.lo);
+/* Caption, seabed (a sand band under it when the axis reaches below), the
+ * elevation axes and the still water level. */
+static void elev_ground(FILE *out, const hf_svg_elevation *e, const elev *L)
+{
+    const hf_svg_axes *top = &L->top;
+    double hx = top->width / (top->xt.hi - top->xt.lo), hz = top->height / (top->yt.hi - top->yt.lo);
     char cap[160];
     if (hz / hx > 1.5)
         snprintf(cap, sizeof cap,
@@ -783,36 +801,37 @@ hf_status hf_svg_figure_elevation(FILE *out, const hf_svg_elevation *e, int stan
     else
         snprintf(cap, sizeof cap, "Side view in the line's vertical plane.");
     caption(out, 20, 48, cap);
-
-    /* seabed: a sand band under the seabed line when the axis reaches below it */
-    double sb = hf_svg_axes_py(&top, 0.0), bot = top.top + top.height;
+    double sb = hf_svg_axes_py(top, 0.0), bot = top->top + top->height;
     if (bot > sb + 0.5) {
         fputs("<rect x=\"", out);
-        putnum(out, top.left);
+        putnum(out, top->left);
         fputs("\" y=\"", out);
         putnum(out, sb);
         fputs("\" width=\"", out);
-        putnum(out, top.width);
+        putnum(out, top->width);
         fputs("\" height=\"", out);
         putnum(out, bot - sb);
         fputs("\" fill=\"" SEABED_FILL "\"/>\n", out);
     }
-    hf_svg_axes_draw(out, &top, "horizontal distance from the anchor (m)",
+    hf_svg_axes_draw(out, top, "horizontal distance from the anchor (m)",
                      "height above the seabed (m)", "Elevation");
-    seg(out, top.left, sb, top.left + top.width, sb, SEABED, 4, "");
-    text_ex(out, top.left + top.width - 4, sb - 8, 'e', TICK_PX, 0, 0, 1, "seabed");
-    double sw = hf_svg_axes_py(&top, e->water_height);
-    seg(out, top.left, sw, top.left + top.width, sw, WATER, 1.5, "9 4");
-    text_ex(out, top.left + 6, sw - 6, 's', TICK_PX, 0, 0, 1, "still water level");
+    seg(out, top->left, sb, top->left + top->width, sb, SEABED, 4, "");
+    text_ex(out, top->left + top->width - 4, sb - 8, 'e', TICK_PX, 0, 0, 1, "seabed");
+    double sw = hf_svg_axes_py(top, e->water_height);
+    seg(out, top->left, sw, top->left + top->width, sw, WATER, 1.5, "9 4");
+    text_ex(out, top->left + 6, sw - 6, 's', TICK_PX, 0, 0, 1, "still water level");
+}
 
-    /* the line, coloured by tension: consecutive segments of one colour bin
-     * share a polyline */
-    double tr = tmax - tmin;
+/* The line coloured by tension: consecutive segments of one colour bin share
+ * a polyline. */
+static void elev_line(FILE *out, const hf_svg_elevation *e, const elev *L)
+{
+    double tr = L->tmax - L->tmin;
     int prev = -1;
     char colour[8];
     for (size_t i = 0; i + 1 < e->npts; i++) {
         double tm = 0.5 * (e->pts[i].tension + e->pts[i + 1].tension);
-        double u = tr > 0 ? (tm - tmin) / tr : 0.5;
+        double u = tr > 0 ? (tm - L->tmin) / tr : 0.5;
         int bin = (int)floor(u * EL_BINS);
         if (bin >= EL_BINS)
             bin = EL_BINS - 1;
@@ -824,28 +843,38 @@ hf_status hf_svg_figure_elevation(FILE *out, const hf_svg_elevation *e, int stan
                     "<polyline fill=\"none\" stroke=\"%s\" stroke-width=\"3.5\" "
                     "stroke-linejoin=\"round\" stroke-linecap=\"round\" points=\"",
                     colour);
-            putnum(out, hf_svg_axes_px(&top, e->pts[i].x));
+            putnum(out, hf_svg_axes_px(&L->top, e->pts[i].x));
             putc(',', out);
-            putnum(out, hf_svg_axes_py(&top, e->pts[i].z));
+            putnum(out, hf_svg_axes_py(&L->top, e->pts[i].z));
             prev = bin;
         }
         putc(' ', out);
-        putnum(out, hf_svg_axes_px(&top, e->pts[i + 1].x));
+        putnum(out, hf_svg_axes_px(&L->top, e->pts[i + 1].x));
         putc(',', out);
-        putnum(out, hf_svg_axes_py(&top, e->pts[i + 1].z));
+        putnum(out, hf_svg_axes_py(&L->top, e->pts[i + 1].z));
     }
     fputs("\"/>\n", out);
+}
 
+/* Anchor, touchdown and fairlead markers. */
+static void elev_marks(FILE *out, const hf_svg_elevation *e, const elev *L)
+{
     const hf_line_point *an = &e->pts[0], *fl = &e->pts[e->npts - 1];
-    hf_svg_marker(out, &top, an->x, an->z, HF_SVG_SQUARE, 11, INK, "anchor", 10, -10);
+    hf_svg_marker(out, &L->top, an->x, an->z, HF_SVG_SQUARE, 11, INK, "anchor", 10, -10);
     if (e->has_touchdown && e->touchdown_x > an->x)
         /* labelled up and to the left: the line rises to the right */
-        hf_svg_marker(out, &top, e->touchdown_x, 0.0, HF_SVG_TRIANGLE, 12, "#ffffff", "touchdown",
-                      -8, -10);
-    hf_svg_marker(out, &top, fl->x, fl->z, HF_SVG_CIRCLE, 11, "#ffffff", "fairlead", -10, -8);
+        hf_svg_marker(out, &L->top, e->touchdown_x, 0.0, HF_SVG_TRIANGLE, 12, "#ffffff",
+                      "touchdown", -8, -10);
+    hf_svg_marker(out, &L->top, fl->x, fl->z, HF_SVG_CIRCLE, 11, "#ffffff", "fairlead", -10, -8);
+}
 
-    /* colour bar */
-    double bx = 730, by = top.top, bh = top.height, bw = 16;
+/* The tension colour bar right of the elevation: its ends (tmin, tmax) and
+ * the round-number ticks between them that keep 16 px clear of the end
+ * labels. */
+static void elev_colourbar(FILE *out, const elev *L)
+{
+    double bx = 730, by = L->top.top, bh = L->top.height, bw = 16, tr = L->tmax - L->tmin;
+    char colour[8], lab[96];
     hf_svg_text(out, bx - 6, by - 12, 's', LABEL_PX, 1, 0, "tension (kN)");
     for (int k = 0; k < EL_BINS; k++) {
         hf_svg_scale_colour((k + 0.5) / EL_BINS, colour);
@@ -862,22 +891,19 @@ hf_status hf_svg_figure_elevation(FILE *out, const hf_svg_elevation *e, int stan
             "<rect x=\"%g\" y=\"%g\" width=\"%g\" height=\"%g\" fill=\"none\" stroke=\"" INK
             "\" stroke-width=\"1\"/>\n",
             bx, by, bw, bh);
-    /* the bar's ends (tmin, tmax) and the round-number ticks between them
-     * that keep 16 px clear of the end labels */
-    char lab[96];
     for (int k = 0; k < 2; k++) {
         double yy = k ? by : by + bh;
-        snprintf(lab, sizeof lab, "%.4g", (k ? tmax : tmin) / 1e3);
+        snprintf(lab, sizeof lab, "%.4g", (k ? L->tmax : L->tmin) / 1e3);
         seg(out, bx + bw, yy, bx + bw + 4, yy, INK, 1, "");
         hf_svg_text(out, bx + bw + 7, yy + 4, 's', TICK_PX, 0, 0, lab);
         if (tr <= 0)
             break;
     }
     hf_svg_ticks bt;
-    if (tr > 0 && hf_svg_ticks_choose(tmin / 1e3, tmax / 1e3, 5, &bt, NULL) == HF_OK) {
+    if (tr > 0 && hf_svg_ticks_choose(L->tmin / 1e3, L->tmax / 1e3, 5, &bt, NULL) == HF_OK) {
         for (size_t k = 0; k < bt.n; k++) {
             double v = hf_svg_tick_value(&bt, k);
-            double yy = by + bh - (v - tmin / 1e3) / (tr / 1e3) * bh;
+            double yy = by + bh - (v - L->tmin / 1e3) / (tr / 1e3) * bh;
             if (yy < by + 16 || yy > by + bh - 16)
                 continue;
             hf_svg_tick_label(&bt, k, lab, sizeof lab);
@@ -885,10 +911,42 @@ hf_status hf_svg_figure_elevation(FILE *out, const hf_svg_elevation *e, int stan
             hf_svg_text(out, bx + bw + 7, yy + 4, 's', TICK_PX, 0, 0, lab);
         }
     }
-    /* tension panel, its title carrying the end tensions */
+}
+
+/* A limit too far above the tensions to draw, stated in words: top right,
+ * unless the curve runs through that corner, then top left (the label's band
+ * is its estimated width by 20 px). */
+static void elev_limit_words(FILE *out, const hf_svg_elevation *e, const elev *L)
+{
+    const hf_svg_axes *low = &L->low;
+    char lab[96];
+    snprintf(lab, sizeof lab, "allowed tension %.4g kN (%.2g times the largest here)", L->tl,
+             L->tl / (L->tmax / 1e3));
+    double wlab = 0.62 * TICK_PX * (double)strlen(lab) + 8.0;
+    int hit_right = 0, hit_left = 0;
+    for (size_t i = 0; i < e->npts; i++) {
+        double px = hf_svg_axes_px(low, e->pts[i].x);
+        double py = hf_svg_axes_py(low, e->pts[i].tension / 1e3);
+        if (py > low->top + 22.0)
+            continue;
+        if (px >= low->left + low->width - wlab)
+            hit_right = 1;
+        if (px <= low->left + wlab)
+            hit_left = 1;
+    }
+    if (hit_right && !hit_left)
+        text_ex(out, low->left + 4, low->top + 14, 's', TICK_PX, 0, 0, 1, lab);
+    else
+        text_ex(out, low->left + low->width - 4, low->top + 14, 'e', TICK_PX, 0, 0, 1, lab);
+}
+
+/* The tension panel, its title carrying the end tensions, and the limit. */
+static void elev_tension(FILE *out, const hf_svg_elevation *e, const elev *L)
+{
+    char lab[96];
     snprintf(lab, sizeof lab, "Tension along the line: fairlead %.4g kN, anchor %.4g kN",
              e->pts[e->npts - 1].tension / 1e3, e->pts[0].tension / 1e3);
-    hf_svg_axes_draw(out, &low, "horizontal distance from the anchor (m)", "tension (kN)", lab);
+    hf_svg_axes_draw(out, &L->low, "horizontal distance from the anchor (m)", "tension (kN)", lab);
     /* polyline in kN: draw point by point without a scratch array */
     fputs("<polyline fill=\"none\" stroke=\"" INK "\" stroke-width=\"2\" "
           "stroke-linejoin=\"round\" points=\"",
@@ -896,36 +954,35 @@ hf_status hf_svg_figure_elevation(FILE *out, const hf_svg_elevation *e, int stan
     for (size_t i = 0; i < e->npts; i++) {
         if (i)
             putc(' ', out);
-        putnum(out, hf_svg_axes_px(&low, e->pts[i].x));
+        putnum(out, hf_svg_axes_px(&L->low, e->pts[i].x));
         putc(',', out);
-        putnum(out, hf_svg_axes_py(&low, e->pts[i].tension / 1e3));
+        putnum(out, hf_svg_axes_py(&L->low, e->pts[i].tension / 1e3));
     }
     fputs("\"/>\n", out);
-    if (limit_on_scale) {
-        snprintf(lab, sizeof lab, "allowed tension %.4g kN", tl);
-        hf_svg_hline(out, &low, tl, lab);
-    } else if (tl > 0) {
-        snprintf(lab, sizeof lab, "allowed tension %.4g kN (%.2g times the largest here)", tl,
-                 tl / (tmax / 1e3));
-        /* Top right, unless the curve runs through that corner: then top
-         * left; the label's band is its estimated width by 20 px. */
-        double wlab = 0.62 * TICK_PX * (double)strlen(lab) + 8.0;
-        int hit_right = 0, hit_left = 0;
-        for (size_t i = 0; i < e->npts; i++) {
-            double px = hf_svg_axes_px(&low, e->pts[i].x);
-            double py = hf_svg_axes_py(&low, e->pts[i].tension / 1e3);
-            if (py > low.top + 22.0)
-                continue;
-            if (px >= low.left + low.width - wlab)
-                hit_right = 1;
-            if (px <= low.left + wlab)
-                hit_left = 1;
-        }
-        if (hit_right && !hit_left)
-            text_ex(out, low.left + 4, low.top + 14, 's', TICK_PX, 0, 0, 1, lab);
-        else
-            text_ex(out, low.left + low.width - 4, low.top + 14, 'e', TICK_PX, 0, 0, 1, lab);
+    if (L->limit_on_scale) {
+        snprintf(lab, sizeof lab, "allowed tension %.4g kN", L->tl);
+        hf_svg_hline(out, &L->low, L->tl, lab);
+    } else if (L->tl > 0) {
+        elev_limit_words(out, e, L);
     }
+}
+
+hf_status hf_svg_figure_elevation(FILE *out, const hf_svg_elevation *e, int standalone,
+                                  hf_error *err)
+{
+    elev L;
+    hf_status s = elev_check(e, err);
+    if (s == HF_OK)
+        s = elev_layout(e, &L, err);
+    if (s != HF_OK)
+        return s;
+    hf_svg_begin(out, EL_W, EL_H, e->title, standalone);
+    title(out, EL_W, e->title);
+    elev_ground(out, e, &L);
+    elev_line(out, e, &L);
+    elev_marks(out, e, &L);
+    elev_colourbar(out, &L);
+    elev_tension(out, e, &L);
     hf_svg_end(out);
     return HF_OK;
 }
@@ -1008,39 +1065,107 @@ static void arrow(FILE *out, double x, double y, double ux, double uy, double le
     fputs("\"/>\n", out);
 }
 
+/* Widens the box b = {x0, x1, y0, y1} to hold point q. */
+static void grow(double b[4], const double q[2])
+{
+    b[0] = fmin(b[0], q[0]);
+    b[1] = fmax(b[1], q[0]);
+    b[2] = fmin(b[2], q[1]);
+    b[3] = fmax(b[3], q[1]);
+}
+
+/* The hull detail's box: reference point, fairleads, outlines (now and at
+ * rest) and the rest reference point. */
+static void inset_extent(const hf_svg_plan *p, double b[4])
+{
+    b[0] = b[1] = p->reference[0];
+    b[2] = b[3] = p->reference[1];
+    for (size_t i = 0; i < p->nlines; i++)
+        grow(b, p->fairlead[i]);
+    for (int r = 0; r < 2; r++) {
+        const double(*o)[2] = r ? (p->has_rest ? p->rest_outline : NULL) : p->outline;
+        for (size_t i = 0; o && i < p->noutline; i++)
+            grow(b, o[i]);
+    }
+    if (p->has_rest && finite_all(p->rest_reference, 2))
+        grow(b, p->rest_reference);
+}
+
+/* A closed polygon through n points on axes a, with the given style
+ * attributes (everything before points="). */
+static void polygon(FILE *out, const hf_svg_axes *a, const double (*v)[2], size_t n,
+                    const char *attrs)
+{
+    fprintf(out, "<polygon %s points=\"", attrs);
+    for (size_t i = 0; i < n; i++) {
+        if (i)
+            putc(' ', out);
+        putnum(out, hf_svg_axes_px(a, v[i][0]));
+        putc(',', out);
+        putnum(out, hf_svg_axes_py(a, v[i][1]));
+    }
+    fputs("\"/>\n", out);
+}
+
+/* Each line from its fairlead toward its anchor, cut at the frame of h. */
+static void inset_lines(FILE *out, const hf_svg_plan *p, const hf_svg_axes *h)
+{
+    for (size_t i = 0; i < p->nlines; i++) {
+        double fx = p->fairlead[i][0], fy = p->fairlead[i][1];
+        double dx = p->anchor[i][0] - fx, dy = p->anchor[i][1] - fy, t = 1.0;
+        if (dx > 0)
+            t = fmin(t, (h->xt.hi - fx) / dx);
+        if (dx < 0)
+            t = fmin(t, (h->xt.lo - fx) / dx);
+        if (dy > 0)
+            t = fmin(t, (h->yt.hi - fy) / dy);
+        if (dy < 0)
+            t = fmin(t, (h->yt.lo - fy) / dy);
+        if (t < 0)
+            t = 0;
+        int broken = p->broken && p->broken[i];
+        seg(out, hf_svg_axes_px(h, fx), hf_svg_axes_py(h, fy), hf_svg_axes_px(h, fx + t * dx),
+            hf_svg_axes_py(h, fy + t * dy), broken ? "#999999" : hf_svg_colour(i),
+            broken ? 1.2 : 2, broken ? "3 3" : hf_svg_dash(i));
+    }
+    for (size_t i = 0; i < p->nlines; i++)
+        mark(out, hf_svg_axes_px(h, p->fairlead[i][0]), hf_svg_axes_py(h, p->fairlead[i][1]),
+             HF_SVG_CIRCLE, 6, "#ffffff");
+}
+
+/* A scale bar in the bottom-left corner of h: a round length of about a
+ * third of the frame. */
+static void scale_bar(FILE *out, const hf_svg_axes *h)
+{
+    hf_svg_ticks sb;
+    if (hf_svg_ticks_choose(0, (h->xt.hi - h->xt.lo) / 3, 2, &sb, NULL) != HF_OK)
+        return;
+    double L = sb.step, px = L / (h->xt.hi - h->xt.lo) * h->width;
+    double bx = h->left + 8, by = h->top + h->height - 10;
+    seg(out, bx, by, bx + px, by, INK, 2.5, "");
+    seg(out, bx, by - 4, bx, by + 2, INK, 1.5, "");
+    seg(out, bx + px, by - 4, bx + px, by + 2, INK, 1.5, "");
+    char lab[48];
+    hf_svg_tick_label(&sb, 1, lab, sizeof lab);
+    size_t n = strlen(lab);
+    snprintf(lab + n, sizeof lab - n, " m");
+    text_ex(out, bx + px + 5, by + 4, 's', 11, 0, 0, 1, lab);
+}
+
 /* The hull detail: the hull, its fairleads and the first part of each line
  * at a scale that shows them (the main plan is usually too small for that),
  * with a scale bar, the hull at rest dashed and the offset when given. */
 static void inset(FILE *out, const hf_svg_plan *p)
 {
-    double x0 = p->reference[0], x1 = x0, y0 = p->reference[1], y1 = y0;
-    for (size_t i = 0; i < p->nlines; i++) {
-        x0 = fmin(x0, p->fairlead[i][0]);
-        x1 = fmax(x1, p->fairlead[i][0]);
-        y0 = fmin(y0, p->fairlead[i][1]);
-        y1 = fmax(y1, p->fairlead[i][1]);
-    }
-    for (int r = 0; r < 2; r++) {
-        const double(*o)[2] = r ? (p->has_rest ? p->rest_outline : NULL) : p->outline;
-        for (size_t i = 0; o && i < p->noutline; i++) {
-            x0 = fmin(x0, o[i][0]);
-            x1 = fmax(x1, o[i][0]);
-            y0 = fmin(y0, o[i][1]);
-            y1 = fmax(y1, o[i][1]);
-        }
-    }
-    if (p->has_rest && finite_all(p->rest_reference, 2)) {
-        x0 = fmin(x0, p->rest_reference[0]);
-        x1 = fmax(x1, p->rest_reference[0]);
-        y0 = fmin(y0, p->rest_reference[1]);
-        y1 = fmax(y1, p->rest_reference[1]);
-    }
-    double ext = fmax(fmax(x1 - x0, y1 - y0), 1.0), pad = 0.3 * ext;
+    double b[4];
+    inset_extent(p, b);
+    double ext = fmax(fmax(b[1] - b[0], b[3] - b[2]), 1.0), pad = 0.3 * ext;
     hf_svg_axes h;
-    if (hf_svg_axes_init(&h, PL_KEY_X, PL_INSET_Y, PL_INSET, PL_INSET, x0 - pad, x1 + pad, y0 - pad,
-                         y1 + pad, 1, NULL) != HF_OK)
+    if (hf_svg_axes_init(&h, PL_KEY_X, PL_INSET_Y, PL_INSET, PL_INSET, b[0] - pad, b[1] + pad,
+                         b[2] - pad, b[3] + pad, 1, NULL) != HF_OK)
         return;
-    hf_svg_text(out, PL_KEY_X, h.top - 12, 's', LABEL_PX, 1, 0, "Hull detail"); /* just above the (equal-scale) frame */
+    /* the title just above the (equal-scale) frame */
+    hf_svg_text(out, PL_KEY_X, h.top - 12, 's', LABEL_PX, 1, 0, "Hull detail");
     fprintf(out, "<rect x=\"");
     putnum(out, h.left);
     fputs("\" y=\"", out);
@@ -1050,60 +1175,16 @@ static void inset(FILE *out, const hf_svg_plan *p)
     fputs("\" height=\"", out);
     putnum(out, h.height);
     fputs("\" fill=\"none\" stroke=\"" INK "\" stroke-width=\"1\"/>\n", out);
-    if (p->has_rest && p->rest_outline && p->noutline) {
-        fputs("<polygon fill=\"none\" stroke=\"#777777\" stroke-width=\"1.2\" "
-              "stroke-dasharray=\"4 3\" points=\"",
-              out);
-        for (size_t i = 0; i < p->noutline; i++) {
-            if (i)
-                putc(' ', out);
-            putnum(out, hf_svg_axes_px(&h, p->rest_outline[i][0]));
-            putc(',', out);
-            putnum(out, hf_svg_axes_py(&h, p->rest_outline[i][1]));
-        }
-        fputs("\"/>\n", out);
-    }
+    if (p->has_rest && p->rest_outline && p->noutline)
+        polygon(out, &h, p->rest_outline, p->noutline,
+                "fill=\"none\" stroke=\"#777777\" stroke-width=\"1.2\" stroke-dasharray=\"4 3\"");
     hull_shape(out, &h, p);
-    for (size_t i = 0; i < p->nlines; i++) {
-        /* the line from its fairlead toward its anchor, cut at the frame */
-        double fx = p->fairlead[i][0], fy = p->fairlead[i][1];
-        double dx = p->anchor[i][0] - fx, dy = p->anchor[i][1] - fy, t = 1.0;
-        if (dx > 0)
-            t = fmin(t, (h.xt.hi - fx) / dx);
-        if (dx < 0)
-            t = fmin(t, (h.xt.lo - fx) / dx);
-        if (dy > 0)
-            t = fmin(t, (h.yt.hi - fy) / dy);
-        if (dy < 0)
-            t = fmin(t, (h.yt.lo - fy) / dy);
-        if (t < 0)
-            t = 0;
-        int broken = p->broken && p->broken[i];
-        seg(out, hf_svg_axes_px(&h, fx), hf_svg_axes_py(&h, fy), hf_svg_axes_px(&h, fx + t * dx),
-            hf_svg_axes_py(&h, fy + t * dy), broken ? "#999999" : hf_svg_colour(i),
-            broken ? 1.2 : 2, broken ? "3 3" : hf_svg_dash(i));
-    }
-    for (size_t i = 0; i < p->nlines; i++)
-        mark(out, hf_svg_axes_px(&h, p->fairlead[i][0]), hf_svg_axes_py(&h, p->fairlead[i][1]),
-             HF_SVG_CIRCLE, 6, "#ffffff");
+    inset_lines(out, p, &h);
     double rx = hf_svg_axes_px(&h, p->reference[0]), ry = hf_svg_axes_py(&h, p->reference[1]);
     mark(out, rx, ry, HF_SVG_DIAMOND, 9, INK);
     if (p->has_load)
         arrow(out, rx, ry, cos(p->load_direction), -sin(p->load_direction), 40);
-    /* scale bar: a round length of about a third of the frame */
-    hf_svg_ticks sb;
-    if (hf_svg_ticks_choose(0, (h.xt.hi - h.xt.lo) / 3, 2, &sb, NULL) == HF_OK) {
-        double L = sb.step, px = L / (h.xt.hi - h.xt.lo) * h.width;
-        double bx = h.left + 8, by = h.top + h.height - 10;
-        seg(out, bx, by, bx + px, by, INK, 2.5, "");
-        seg(out, bx, by - 4, bx, by + 2, INK, 1.5, "");
-        seg(out, bx + px, by - 4, bx + px, by + 2, INK, 1.5, "");
-        char lab[48];
-        hf_svg_tick_label(&sb, 1, lab, sizeof lab);
-        size_t n = strlen(lab);
-        snprintf(lab + n, sizeof lab - n, " m");
-        text_ex(out, bx + px + 5, by + 4, 's', 11, 0, 0, 1, lab);
-    }
+    scale_bar(out, &h);
     double ty = h.top + h.height + 16;
     if (p->has_rest && finite_all(p->rest_reference, 2)) {
         char lab[96];
@@ -1116,7 +1197,8 @@ static void inset(FILE *out, const hf_svg_plan *p)
     }
 }
 
-hf_status hf_svg_figure_plan(FILE *out, const hf_svg_plan *p, int standalone, hf_error *err)
+/* Validates p and finds the box of everything drawn on the main plan. */
+static hf_status plan_check(const hf_svg_plan *p, double b[4], hf_error *err)
 {
     if (!p || p->nlines < 1 || !p->anchor || !p->fairlead)
         return hf_error_set(err, HF_EINVAL, "plan figure: expected at least one line");
@@ -1124,64 +1206,56 @@ hf_status hf_svg_figure_plan(FILE *out, const hf_svg_plan *p, int standalone, hf
         return hf_error_set(err, HF_EINVAL, "plan figure: a hull outline needs >= 3 vertices");
     if (!finite_all(p->reference, 2) || (p->has_load && !isfinite(p->load_direction)))
         return hf_error_set(err, HF_EINVAL, "plan figure: reference or load not finite");
-    double x0 = p->reference[0], x1 = x0, y0 = p->reference[1], y1 = y0;
+    b[0] = b[1] = p->reference[0];
+    b[2] = b[3] = p->reference[1];
     for (size_t i = 0; i < p->nlines; i++) {
         if (!finite_all(p->anchor[i], 2) || !finite_all(p->fairlead[i], 2))
             return hf_error_set(err, HF_EINVAL, "plan figure: line %zu has a non-finite position",
                                 i);
-        for (int k = 0; k < 2; k++) {
-            const double *q = k ? p->anchor[i] : p->fairlead[i];
-            x0 = fmin(x0, q[0]);
-            x1 = fmax(x1, q[0]);
-            y0 = fmin(y0, q[1]);
-            y1 = fmax(y1, q[1]);
-        }
+        grow(b, p->fairlead[i]);
+        grow(b, p->anchor[i]);
     }
     for (size_t i = 0; i < p->noutline; i++) {
         if (!finite_all(p->outline[i], 2))
             return hf_error_set(err, HF_EINVAL, "plan figure: outline vertex %zu not finite", i);
-        x0 = fmin(x0, p->outline[i][0]);
-        x1 = fmax(x1, p->outline[i][0]);
-        y0 = fmin(y0, p->outline[i][1]);
-        y1 = fmax(y1, p->outline[i][1]);
+        grow(b, p->outline[i]);
     }
-    /* Margins for the anchor names: 5 % of the extent, then room for a
-     * label of about 100 px across and 24 px up and down at the scale that
-     * gives (a second pass, since the scale depends on the range). */
-    double pad = 0.05 * fmax(fmax(x1 - x0, y1 - y0), 1.0);
-    hf_svg_axes a;
-    hf_status s =
-        hf_svg_axes_init(&a, 100, 80, 600, 580, x0 - pad, x1 + pad, y0 - pad, y1 + pad, 1, err);
+    return HF_OK;
+}
+
+/* The main plan's axes over box b: margins for the anchor names of 5 % of
+ * the extent, then room for a label of about 100 px across and 24 px up and
+ * down at the scale that gives (a second pass, since the scale depends on
+ * the range); top-left aligned, so the figure is as tall as the plan needs. */
+static hf_status plan_axes(hf_svg_axes *a, const double b[4], hf_error *err)
+{
+    double pad = 0.05 * fmax(fmax(b[1] - b[0], b[3] - b[2]), 1.0);
+    hf_status s = hf_svg_axes_init(a, 100, 80, 600, 580, b[0] - pad, b[1] + pad, b[2] - pad,
+                                   b[3] + pad, 1, err);
     if (s != HF_OK)
         return s;
-    double mpp = (a.xt.hi - a.xt.lo) / a.width; /* metres per pixel */
-    s = hf_svg_axes_init(&a, 100, 80, 600, 580, x0 - pad - 100 * mpp, x1 + pad + 100 * mpp,
-                         y0 - pad - 24 * mpp, y1 + pad + 24 * mpp, 1, err);
-    if (s != HF_OK)
-        return s;
-    /* top-left aligned: the figure is as tall as the plan needs */
-    a.left = 100;
-    a.top = 80;
-    double H = fmax(a.top + a.height + 60, PL_INSET_Y + PL_INSET + 90);
-    hf_svg_begin(out, PL_W, H, p->title, standalone);
-    title(out, PL_W, p->title);
-    caption(out, 20, 48,
-            p->noutline ? "Seen from above, global axes, true scale. Grey: hull outline."
-                        : "Seen from above, global axes, true scale. Dashed: hull drawn "
-                          "through the fairleads (no outline in the case).");
-    hf_svg_axes_draw(out, &a, "global x (m)", "global y (m)", NULL);
-    hull_shape(out, &a, p);
+    double mpp = (a->xt.hi - a->xt.lo) / a->width; /* metres per pixel */
+    s = hf_svg_axes_init(a, 100, 80, 600, 580, b[0] - pad - 100 * mpp, b[1] + pad + 100 * mpp,
+                         b[2] - pad - 24 * mpp, b[3] + pad + 24 * mpp, 1, err);
+    a->left = 100;
+    a->top = 80;
+    return s;
+}
+
+/* Each line anchor -> fairlead with its markers, and its name beyond the
+ * anchor, away from the reference point. */
+static void plan_lines(FILE *out, const hf_svg_plan *p, const hf_svg_axes *a)
+{
+    double rx = hf_svg_axes_px(a, p->reference[0]), ry = hf_svg_axes_py(a, p->reference[1]);
     for (size_t i = 0; i < p->nlines; i++) {
-        double ax = hf_svg_axes_px(&a, p->anchor[i][0]), ay = hf_svg_axes_py(&a, p->anchor[i][1]);
-        double fx = hf_svg_axes_px(&a, p->fairlead[i][0]),
-               fy = hf_svg_axes_py(&a, p->fairlead[i][1]);
+        double ax = hf_svg_axes_px(a, p->anchor[i][0]), ay = hf_svg_axes_py(a, p->anchor[i][1]);
+        double fx = hf_svg_axes_px(a, p->fairlead[i][0]),
+               fy = hf_svg_axes_py(a, p->fairlead[i][1]);
         int broken = p->broken && p->broken[i];
         seg(out, ax, ay, fx, fy, broken ? "#999999" : hf_svg_colour(i), broken ? 1.5 : 2.5,
             broken ? "3 3" : hf_svg_dash(i));
         mark(out, ax, ay, HF_SVG_SQUARE, 10, broken ? "#ffffff" : hf_svg_colour(i));
         mark(out, fx, fy, HF_SVG_CIRCLE, 6, "#ffffff");
-        /* name beyond the anchor, away from the reference point */
-        double rx = hf_svg_axes_px(&a, p->reference[0]), ry = hf_svg_axes_py(&a, p->reference[1]);
         double dx = ax - rx, dy = ay - ry, d = hypot(dx, dy);
         if (d > 0) {
             dx /= d;
@@ -1201,12 +1275,11 @@ hf_status hf_svg_figure_plan(FILE *out, const hf_svg_plan *p, int standalone, hf
                              : 'm',
                 TICK_PX, 0, 0, 1, name);
     }
-    double rx = hf_svg_axes_px(&a, p->reference[0]), ry = hf_svg_axes_py(&a, p->reference[1]);
-    mark(out, rx, ry, HF_SVG_DIAMOND, 9, INK);
-    if (p->has_load)
-        arrow(out, rx, ry, cos(p->load_direction), -sin(p->load_direction), 80); /* y down */
+}
 
-    /* key */
+/* The key at the top of the right-hand column. */
+static void plan_key(FILE *out, const hf_svg_plan *p)
+{
     double kx = PL_KEY_X, ky = 90;
     hf_svg_text(out, kx, ky, 's', LABEL_PX, 1, 0, "Key");
     mark(out, kx + 6, ky + 18, HF_SVG_SQUARE, 10, "#ffffff");
@@ -1221,6 +1294,32 @@ hf_status hf_svg_figure_plan(FILE *out, const hf_svg_plan *p, int standalone, hf
         hf_svg_text(out, kx + 28, ky + 98, 's', TICK_PX, 0, 0,
                     p->load_label ? p->load_label : "load");
     }
+}
+
+hf_status hf_svg_figure_plan(FILE *out, const hf_svg_plan *p, int standalone, hf_error *err)
+{
+    double b[4];
+    hf_svg_axes a;
+    hf_status s = plan_check(p, b, err);
+    if (s == HF_OK)
+        s = plan_axes(&a, b, err);
+    if (s != HF_OK)
+        return s;
+    double H = fmax(a.top + a.height + 60, PL_INSET_Y + PL_INSET + 90);
+    hf_svg_begin(out, PL_W, H, p->title, standalone);
+    title(out, PL_W, p->title);
+    caption(out, 20, 48,
+            p->noutline ? "Seen from above, global axes, true scale. Grey: hull outline."
+                        : "Seen from above, global axes, true scale. Dashed: hull drawn "
+                          "through the fairleads (no outline in the case).");
+    hf_svg_axes_draw(out, &a, "global x (m)", "global y (m)", NULL);
+    hull_shape(out, &a, p);
+    plan_lines(out, p, &a);
+    double rx = hf_svg_axes_px(&a, p->reference[0]), ry = hf_svg_axes_py(&a, p->reference[1]);
+    mark(out, rx, ry, HF_SVG_DIAMOND, 9, INK);
+    if (p->has_load)
+        arrow(out, rx, ry, cos(p->load_direction), -sin(p->load_direction), 80); /* y down */
+    plan_key(out, p);
     inset(out, p);
     hf_svg_end(out);
     return HF_OK;
@@ -1240,6 +1339,107 @@ static void line_series(FILE *out, const hf_svg_axes *a, const double *x, const 
 #define CV_PW 300.0 /* panel plot width */
 #define CV_PH 200.0 /* panel plot height */
 
+/* Panel k of the curve figure (0 force, 1 stiffness, 2 tension, 3
+ * utilisation): its data range in the plotted units, axis label and title. */
+static void curve_range(const hf_svg_curve *c, int k, double *lo, double *hi, const char **yl,
+                        const char **tl)
+{
+    *lo = *hi = 0;
+    if (k == 0) {
+        span(c->force, 1, c->n, lo, hi);
+        *lo /= 1e3;
+        *hi /= 1e3;
+        *yl = "restoring force (kN)";
+        *tl = "Restoring force";
+    } else if (k == 1) {
+        span(c->stiffness, 1, c->n, lo, hi);
+        *lo /= 1e3;
+        *hi /= 1e3;
+        *yl = "stiffness (kN/m)";
+        *tl = "Stiffness";
+    } else if (k == 2) {
+        span(c->tension, 1, c->n * c->nlines, lo, hi);
+        *lo = fmin(0.0, *lo / 1e3);
+        *hi /= 1e3;
+        if (c->tension_limit)
+            for (size_t j = 0; j < c->nlines; j++)
+                if (isfinite(c->tension_limit[j]) && c->tension_limit[j] > 0)
+                    *hi = fmax(*hi, c->tension_limit[j] / 1e3);
+        *yl = "line tension (kN)";
+        *tl = "Tension of each line";
+    } else {
+        span(c->utilisation, 1, c->n * c->nlines, lo, hi);
+        *lo = fmin(0.0, *lo * 100);
+        *hi = fmax(*hi * 100, c->utilisation_limit * 100);
+        *yl = "utilisation T/MBL (%)";
+        *tl = "Utilisation of each line";
+    }
+}
+
+/* One reference line per distinct per-line allowed tension (up to 4). */
+static void curve_tension_limits(FILE *out, const hf_svg_axes *a, const hf_svg_curve *c)
+{
+    double seen[4];
+    int ns = 0;
+    for (size_t j = 0; j < c->nlines && ns < 4; j++) {
+        double v = c->tension_limit[j];
+        int dup = 0;
+        for (int q = 0; q < ns; q++)
+            dup |= fabs(seen[q] - v) <= 1e-9 * fabs(v);
+        if (dup || !isfinite(v) || v <= 0)
+            continue;
+        seen[ns++] = v;
+        char lab[64];
+        snprintf(lab, sizeof lab, "allowed %.4g kN", v / 1e3);
+        hf_svg_hline(out, a, v / 1e3, lab);
+    }
+}
+
+/* The data of panel k on its axes, with its limits. */
+static void curve_data(FILE *out, const hf_svg_axes *a, const hf_svg_curve *c, int k)
+{
+    if (k == 0) {
+        line_series(out, a, c->offset, c->force, c->n, 1, 1e-3);
+    } else if (k == 1) {
+        line_series(out, a, c->offset, c->stiffness, c->n, 1, 1e-3);
+    } else if (k == 2) {
+        line_series(out, a, c->offset, c->tension, c->n, c->nlines, 1e-3);
+        if (c->tension_limit)
+            curve_tension_limits(out, a, c);
+    } else {
+        line_series(out, a, c->offset, c->utilisation, c->n, c->nlines, 100.0);
+        if (c->utilisation_limit > 0) {
+            char lab[64];
+            snprintf(lab, sizeof lab, "limit %.4g %% (factor %.3g)", c->utilisation_limit * 100,
+                     1.0 / c->utilisation_limit);
+            hf_svg_hline(out, a, c->utilisation_limit * 100, lab);
+        }
+    }
+}
+
+/* The legend of the lines at the right, cut to the figure's height H. */
+static void curve_legend(FILE *out, const hf_svg_curve *c, double H)
+{
+    double lx = 90 + 2 * CV_PW + 100 + 30;
+    hf_svg_text(out, lx, 90 - 12, 's', LABEL_PX, 1, 0, "Lines");
+    size_t shown = c->nlines;
+    double room = H - 100;
+    size_t fit = (size_t)(room / 18.0);
+    if (shown > fit)
+        shown = fit > 1 ? fit - 1 : 0;
+    hf_svg_legend(out, lx, 90, c->names, NULL, shown);
+    double ny = 90 + 18.0 * (double)shown + 13;
+    if (shown < c->nlines) {
+        char more[64];
+        snprintf(more, sizeof more, "... and %zu more", c->nlines - shown);
+        hf_svg_text(out, lx, ny, 's', TICK_PX, 0, 0, more);
+        ny += 18;
+    }
+    /* symmetric spreads draw equal curves on top of each other */
+    hf_svg_text(out, lx, ny + 8, 's', 11, 0, 0, "Equal curves overlap:");
+    hf_svg_text(out, lx, ny + 22, 's', 11, 0, 0, "the last listed is on top.");
+}
+
 hf_status hf_svg_figure_curve(FILE *out, const hf_svg_curve *c, int standalone, hf_error *err)
 {
     if (!c || c->n < 2 || !c->offset || !c->force)
@@ -1253,9 +1453,7 @@ hf_status hf_svg_figure_curve(FILE *out, const hf_svg_curve *c, int standalone, 
         return hf_error_set(err, HF_EINVAL, "curve figure: fewer than 2 finite offsets");
     /* panels: force, stiffness, tension, utilisation (those with data) */
     int have[4] = {1, c->stiffness != NULL, c->nlines > 0, c->nlines > 0 && c->utilisation};
-    int np = 0;
-    for (int k = 0; k < 4; k++)
-        np += have[k];
+    int np = have[0] + have[1] + have[2] + have[3];
     int rows = (np + 1) / 2;
     double W = 90 + CV_PW + 100 + CV_PW + 30 + (c->nlines ? 170 : 0);
     double H = 90 + rows * (CV_PH + 95);
@@ -1269,97 +1467,20 @@ hf_status hf_svg_figure_curve(FILE *out, const hf_svg_curve *c, int standalone, 
             continue;
         double left = 90 + (slot % 2) * (CV_PW + 100), top = 90 + (slot / 2) * (CV_PH + 95);
         slot++;
-        double lo = 0, hi = 0;
-        hf_svg_axes a;
-        hf_status s;
+        double lo, hi;
         const char *yl, *tl;
-        if (k == 0) {
-            span(c->force, 1, c->n, &lo, &hi);
-            lo /= 1e3;
-            hi /= 1e3;
-            yl = "restoring force (kN)";
-            tl = "Restoring force";
-        } else if (k == 1) {
-            span(c->stiffness, 1, c->n, &lo, &hi);
-            lo /= 1e3;
-            hi /= 1e3;
-            yl = "stiffness (kN/m)";
-            tl = "Stiffness";
-        } else if (k == 2) {
-            span(c->tension, 1, c->n * c->nlines, &lo, &hi);
-            lo = fmin(0.0, lo / 1e3);
-            hi /= 1e3;
-            if (c->tension_limit)
-                for (size_t j = 0; j < c->nlines; j++)
-                    if (isfinite(c->tension_limit[j]) && c->tension_limit[j] > 0)
-                        hi = fmax(hi, c->tension_limit[j] / 1e3);
-            yl = "line tension (kN)";
-            tl = "Tension of each line";
-        } else {
-            span(c->utilisation, 1, c->n * c->nlines, &lo, &hi);
-            lo = fmin(0.0, lo * 100);
-            hi = fmax(hi * 100, c->utilisation_limit * 100);
-            yl = "utilisation T/MBL (%)";
-            tl = "Utilisation of each line";
-        }
-        s = hf_svg_axes_init(&a, left, top, CV_PW, CV_PH, x0, x1, lo, hi, 0, err);
+        hf_svg_axes a;
+        curve_range(c, k, &lo, &hi, &yl, &tl);
+        hf_status s = hf_svg_axes_init(&a, left, top, CV_PW, CV_PH, x0, x1, lo, hi, 0, err);
         if (s != HF_OK) {
             hf_svg_end(out);
             return s;
         }
         hf_svg_axes_draw(out, &a, "offset (m)", yl, tl);
-        if (k == 0) {
-            line_series(out, &a, c->offset, c->force, c->n, 1, 1e-3);
-        } else if (k == 1) {
-            line_series(out, &a, c->offset, c->stiffness, c->n, 1, 1e-3);
-        } else if (k == 2) {
-            line_series(out, &a, c->offset, c->tension, c->n, c->nlines, 1e-3);
-            if (c->tension_limit) {
-                double seen[4];
-                int ns = 0;
-                for (size_t j = 0; j < c->nlines && ns < 4; j++) {
-                    double v = c->tension_limit[j];
-                    int dup = 0;
-                    for (int q = 0; q < ns; q++)
-                        dup |= fabs(seen[q] - v) <= 1e-9 * fabs(v);
-                    if (dup || !isfinite(v) || v <= 0)
-                        continue;
-                    seen[ns++] = v;
-                    char lab[64];
-                    snprintf(lab, sizeof lab, "allowed %.4g kN", v / 1e3);
-                    hf_svg_hline(out, &a, v / 1e3, lab);
-                }
-            }
-        } else {
-            line_series(out, &a, c->offset, c->utilisation, c->n, c->nlines, 100.0);
-            if (c->utilisation_limit > 0) {
-                char lab[64];
-                snprintf(lab, sizeof lab, "limit %.4g %% (factor %.3g)", c->utilisation_limit * 100,
-                         1.0 / c->utilisation_limit);
-                hf_svg_hline(out, &a, c->utilisation_limit * 100, lab);
-            }
-        }
+        curve_data(out, &a, c, k);
     }
-    if (c->nlines) {
-        double lx = 90 + 2 * CV_PW + 100 + 30;
-        hf_svg_text(out, lx, 90 - 12, 's', LABEL_PX, 1, 0, "Lines");
-        size_t shown = c->nlines;
-        double room = H - 100;
-        size_t fit = (size_t)(room / 18.0);
-        if (shown > fit)
-            shown = fit > 1 ? fit - 1 : 0;
-        hf_svg_legend(out, lx, 90, c->names, NULL, shown);
-        double ny = 90 + 18.0 * (double)shown + 13;
-        if (shown < c->nlines) {
-            char more[64];
-            snprintf(more, sizeof more, "... and %zu more", c->nlines - shown);
-            hf_svg_text(out, lx, ny, 's', TICK_PX, 0, 0, more);
-            ny += 18;
-        }
-        /* symmetric spreads draw equal curves on top of each other */
-        hf_svg_text(out, lx, ny + 8, 's', 11, 0, 0, "Equal curves overlap:");
-        hf_svg_text(out, lx, ny + 22, 's', 11, 0, 0, "the last listed is on top.");
-    }
+    if (c->nlines)
+        curve_legend(out, c, H);
     hf_svg_end(out);
     return HF_OK;
 }

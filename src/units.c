@@ -400,9 +400,90 @@ static double convert(const char *s, size_t len, int *range)
     return v;
 }
 
+double hf_units_deg_to_rad(double deg)
+{
+    /* fmod returns x - n y with the sign of x and |result| < |y| (C11
+     * 7.12.10.1); in IEEE 754 arithmetic that value is representable, so the
+     * reduction adds no rounding and |deg| < 360 is returned unchanged. */
+    return fmod(deg, 360.0) * DEG;
+}
+
+/* An angle in radians reduced by whole turns when |v| >= 2 pi: sin and cos
+ * of the C library reduce their argument accurately, so atan2(sin v, cos v)
+ * is v's direction in (-pi, pi]; it is moved to the sign of v (like fmod). */
+static double rad_reduce(double v)
+{
+    if (fabs(v) < 2.0 * M_PI)
+        return v;
+    double r = atan2(sin(v), cos(v));
+    if (v > 0.0 && r < 0.0)
+        r += 2.0 * M_PI;
+    else if (v < 0.0 && r > 0.0)
+        r -= 2.0 * M_PI;
+    return r;
+}
+
+/* SI value of v written in unit u (angles reduced by whole turns). */
+static double to_si(double v, const unit *u)
+{
+    if (u->dim != HF_DIM_ANGLE)
+        return v * u->factor;
+    return u->factor == 1.0 ? rad_reduce(v) : hf_units_deg_to_rad(v);
+}
+
+/* The message for a unit text u[0..ulen) that is no known unit. */
+static hf_status unknown_unit(const char *u, size_t ulen, hf_dim want, const char *shown,
+                              hf_error *err)
+{
+    char unit_shown[80], raw[64], norm[64], hint[64];
+    size_t k = ulen < sizeof raw - 1 ? ulen : sizeof raw - 1;
+    const unit *close = NULL;
+    memcpy(raw, u, k);
+    raw[k] = '\0';
+    quote(unit_shown, sizeof unit_shown, raw);
+    if (u[0] == ',' && isdigit((unsigned char)u[1]))
+        return hf_error_set(err, HF_EINVAL,
+                            "expected %s %s, got \"%s\" (write decimals with a point: "
+                            "\"%s\")",
+                            article(want), names[want], shown, examples[want]);
+    if (want == HF_DIM_NONE)
+        return hf_error_set(err, HF_EINVAL, "expected a plain number without a unit, got \"%s\"",
+                            shown);
+    if (normalise(u, ulen, norm, sizeof norm))
+        close = suggest(norm, want, 1);
+    hint[0] = '\0';
+    if (close) {
+        char d[32];
+        display(d, sizeof d, close->name);
+        snprintf(hint, sizeof hint, "; did you mean %s?", d);
+    }
+    return hf_error_set(err, HF_EINVAL, "unknown unit \"%s\" in \"%s\" (%s %s takes %s)%s",
+                        unit_shown, shown, article(want), names[want], spellings[want], hint);
+}
+
+/* The message for a known unit of another dimension than `want`. */
+static hf_status wrong_dimension(const char *norm, const unit *found, hf_dim want,
+                                 const char *shown, hf_error *err)
+{
+    char hint[64];
+    const unit *close = suggest(norm, want, 0);
+    hint[0] = '\0';
+    if (close) {
+        char d[32];
+        display(d, sizeof d, close->name);
+        snprintf(hint, sizeof hint, "; did you mean %s?", d);
+    }
+    if (want == HF_DIM_NONE)
+        return hf_error_set(err, HF_EINVAL,
+                            "expected a plain number without a unit, got \"%s\" (%s %s)", shown,
+                            article(found->dim), names[found->dim]);
+    return hf_error_set(err, HF_EINVAL, "expected %s %s, got \"%s\" (%s %s%s)", article(want),
+                        names[want], shown, article(found->dim), names[found->dim], hint);
+}
+
 hf_status hf_units_parse(const char *text, hf_dim want, double *out, hf_error *err)
 {
-    char shown[80], norm[64], hint[64];
+    char shown[80], norm[64];
     const char *s, *u;
     size_t n, ulen;
     const unit *found;
@@ -449,55 +530,17 @@ hf_status hf_units_parse(const char *text, hf_dim want, double *out, hf_error *e
 
     if (ulen == 0) {
         /* A plain number is SI, except that angles are given in degrees. */
-        *out = want == HF_DIM_ANGLE ? v * DEG : v;
+        *out = want == HF_DIM_ANGLE ? hf_units_deg_to_rad(v) : v;
         return HF_OK;
     }
 
     found = normalise(u, ulen, norm, sizeof norm) ? find(norm) : NULL;
-    if (!found) {
-        char unit_shown[80], raw[64];
-        size_t k = ulen < sizeof raw - 1 ? ulen : sizeof raw - 1;
-        const unit *close = NULL;
-        memcpy(raw, u, k);
-        raw[k] = '\0';
-        quote(unit_shown, sizeof unit_shown, raw);
-        if (u[0] == ',' && isdigit((unsigned char)u[1]))
-            return hf_error_set(err, HF_EINVAL,
-                                "expected %s %s, got \"%s\" (write decimals with a point: "
-                                "\"%s\")",
-                                article(want), names[want], shown, examples[want]);
-        if (want == HF_DIM_NONE)
-            return hf_error_set(err, HF_EINVAL,
-                                "expected a plain number without a unit, got \"%s\"", shown);
-        if (normalise(u, ulen, norm, sizeof norm))
-            close = suggest(norm, want, 1);
-        hint[0] = '\0';
-        if (close) {
-            char d[32];
-            display(d, sizeof d, close->name);
-            snprintf(hint, sizeof hint, "; did you mean %s?", d);
-        }
-        return hf_error_set(err, HF_EINVAL, "unknown unit \"%s\" in \"%s\" (%s %s takes %s)%s",
-                            unit_shown, shown, article(want), names[want], spellings[want], hint);
-    }
+    if (!found)
+        return unknown_unit(u, ulen, want, shown, err);
+    if (found->dim != want)
+        return wrong_dimension(norm, found, want, shown, err);
 
-    if (found->dim != want) {
-        const unit *close = suggest(norm, want, 0);
-        hint[0] = '\0';
-        if (close) {
-            char d[32];
-            display(d, sizeof d, close->name);
-            snprintf(hint, sizeof hint, "; did you mean %s?", d);
-        }
-        if (want == HF_DIM_NONE)
-            return hf_error_set(err, HF_EINVAL,
-                                "expected a plain number without a unit, got \"%s\" (%s %s)", shown,
-                                article(found->dim), names[found->dim]);
-        return hf_error_set(err, HF_EINVAL, "expected %s %s, got \"%s\" (%s %s%s)", article(want),
-                            names[want], shown, article(found->dim), names[found->dim], hint);
-    }
-
-    v *= found->factor;
+    v = to_si(v, found);
     if (!isfinite(v))
         return hf_error_set(err, HF_EINVAL,
                             "expected a finite %s, got \"%s\" (out of range in SI units)",

@@ -275,9 +275,20 @@ int hf_test_cli_setup(const char **bin, char *dir, size_t cap, const char *tag)
     *bin = hf_test_bin();
     if (cap)
         dir[0] = '\0';
-    if (!*bin)
-        return 0;
-    return hf_test_tmpdir_make(dir, cap, tag);
+    if (!*bin || access(*bin, X_OK) != 0) {
+        /* A missing binary is a failed precondition, never a silent pass. */
+        fprintf(stderr,
+                "%s: HF_BIN must name the built holdfast (got '%s'); run the tests "
+                "through make check, or set HF_BIN=build/holdfast HF_ROOT=.\n",
+                tag, *bin ? *bin : "");
+        *bin = NULL;
+        return -1;
+    }
+    if (hf_test_tmpdir_make(dir, cap, tag) != 0) {
+        fprintf(stderr, "%s: cannot make a scratch directory: %s\n", tag, strerror(errno));
+        return -1;
+    }
+    return 0;
 }
 
 int hf_test_tmpdir_remove(const char *path)

@@ -22,11 +22,14 @@ const char *hf_test_root(void);
 /* Writes "$HF_ROOT/rel" into buf (cap bytes, truncated, NUL-terminated). */
 void hf_test_root_path(char *buf, size_t cap, const char *rel);
 
-/* Skips the current cmocka test when cond is false (e.g. HF_BIN unset). */
+/* Fails the current cmocka test, naming cond, when cond is false: a
+ * missing precondition (e.g. HF_BIN unset) is a failure, never a silent
+ * skip.  A test that may legitimately not apply calls cmocka's skip(),
+ * which scripts/run-tests.sh counts and lists as skipped. */
 #define HF_TEST_NEED(cond)                                                                         \
     do {                                                                                           \
         if (!(cond))                                                                               \
-            skip();                                                                                \
+            fail_msg("precondition failed: %s", #cond);                                            \
     } while (0)
 
 /* |a - b| <= tol, with both values printed on failure (cmocka 1.1 has no double assert). */
@@ -89,10 +92,11 @@ void hf_test_file_write(const char *path, const char *text);
  * /tmp) and writes its path into dir (cap bytes).  0 on success, -1 if not. */
 int hf_test_tmpdir_make(char *dir, size_t cap, const char *tag);
 
-/* Group setup of the tests that run the CLI: *bin = hf_test_bin(); when it is
- * set, a scratch directory as hf_test_tmpdir_make (dir empty otherwise).
- * 0 on success or when HF_BIN is unset (the tests then skip), -1 if the
- * directory cannot be made. */
+/* Group setup of the tests that run the CLI: *bin = hf_test_bin() and a
+ * scratch directory "hf-<tag>-XXXXXX" as hf_test_tmpdir_make.  0 on success;
+ * -1, with a message on standard error, when HF_BIN is unset, empty or not
+ * an executable (*bin is then NULL) or the directory cannot be made: the
+ * group setup fails and so does the test program. */
 int hf_test_cli_setup(const char **bin, char *dir, size_t cap, const char *tag);
 
 /* Removes path and, for a directory, everything below it (symbolic links

@@ -157,6 +157,47 @@ static void test_load_force(void **state)
     assert_int_equal(hf_balance_load_force(NULL, f, &e), HF_EINVAL);
 }
 
+static void test_drag_force(void **state)
+{
+    (void)state;
+    /* The drag equation F = 1/2 rho C A V^2 (classical; hand calculation):
+     * 0.5 x 1025 x 0.83 x 96.4 x 1.35^2 = 74,733.7 N (see test_load_force),
+     * toward 137.5 deg: Fx = F cos 137.5, Fy = F sin 137.5. */
+    hf_drag d = {1025.0, 0.83, 96.4, 1.35, 137.5 * DEG};
+    double q = -1.0, fx = -1.0, fy = -1.0;
+    hf_error e;
+    hf_error_clear(&e);
+    assert_int_equal(hf_drag_force(&d, &q, &fx, &fy, &e), HF_OK);
+    assert_float_equal(q, 74733.7, 0.05);
+    assert_float_equal(fx, 74733.7 * cos(137.5 * DEG), 0.05);
+    assert_float_equal(fy, 74733.7 * sin(137.5 * DEG), 0.05);
+    /* NULL outputs are allowed */
+    assert_int_equal(hf_drag_force(&d, NULL, NULL, &fy, NULL), HF_OK);
+    assert_float_equal(fy, 74733.7 * sin(137.5 * DEG), 0.05);
+    /* every field validated; outputs zeroed on failure */
+    const double bad[] = {-1.0, NAN, INFINITY};
+    for (int field = 0; field < 5; field++) {
+        for (size_t k = 0; k < sizeof bad / sizeof bad[0]; k++) {
+            hf_drag b = d;
+            double *v[5] = {&b.density, &b.coefficient, &b.area, &b.speed, &b.direction};
+            if (field == 4 && bad[k] < 0.0)
+                continue; /* a negative direction is a valid angle */
+            *v[field] = bad[k];
+            q = fx = fy = 5.0;
+            hf_error_clear(&e);
+            if (hf_drag_force(&b, &q, &fx, &fy, &e) != HF_EINVAL)
+                fail_msg("field %d = %g accepted", field, bad[k]);
+            assert_true(q == 0.0 && fx == 0.0 && fy == 0.0);
+            assert_non_null(strstr(e.text, "expected finite"));
+        }
+    }
+    /* overflow of the product is refused, not returned as inf */
+    hf_drag big = {1025.0, 1.0, 1e300, 1e200, 0.0};
+    assert_int_equal(hf_drag_force(&big, &q, &fx, &fy, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "overflows"));
+    assert_int_equal(hf_drag_force(NULL, &q, &fx, &fy, &e), HF_EINVAL);
+}
+
 static void test_zero_load(void **state)
 {
     (void)state;
@@ -460,8 +501,12 @@ static void test_offset_and_anchor_criteria(void **state)
     const hf_anchor_criterion *a = &r->anchor[1];
     assert_int_equal(a->kind, HF_ANCHOR_GRAVITY);
     assert_true(a->h > 0.0);
+    /* both branches checked: no assertion behind a condition that may never hold */
     if (a->v < 95.3e3)
         assert_float_equal(a->sliding_factor, 0.45 * (95.3e3 - a->v) / a->h, 1e-12);
+    else
+        assert_true(a->sliding_factor == 0.0); /* lifted block: no sliding resistance */
+    assert_true(a->has_sliding);
     /* the drag anchors on the slack side see no uplift */
     assert_int_equal(r->anchor[0].kind, HF_ANCHOR_DRAG);
     /* a block this light slides under ~200 kN of line load */
@@ -587,15 +632,126 @@ static void test_alloc_failures(void **state)
         failures++;
     }
     assert_true(failures >= 6);
-    /* running allocates nothing */
+    /* solving condition by condition allocates nothing */
     hf_balance *b = hf_balance_alloc(&fx.m, &e);
     hf_load l = load_of("gale-east", 412.5e3, 33.0, 1.2e6);
     hf_alloc_fail_at(1, 1);
-    hf_status s = hf_balance_run(b, &l, &e);
+    hf_status s = hf_balance_run_each(b, &l, NULL, NULL, &e);
     long count = hf_alloc_count();
     hf_alloc_fail_at(0, 0);
     assert_int_equal(s, HF_OK);
     assert_int_equal(count, 0);
+    /* the first keep-everything run allocates its arrays: a failure is HF_ENOMEM, with
+     * its own message, never a numerical status */
+    hf_alloc_fail_at(1, 1);
+    s = hf_balance_run(b, &l, &e);
+    hf_alloc_fail_at(0, 0);
+    assert_int_equal(s, HF_ENOMEM);
+    assert_non_null(strstr(e.text, "out of memory"));
+    assert_int_equal(hf_balance_run(b, &l, &e), HF_OK);
+    /* later runs allocate nothing */
+    hf_alloc_fail_at(1, 1);
+    s = hf_balance_run(b, &l, &e);
+    count = hf_alloc_count();
+    hf_alloc_fail_at(0, 0);
+    assert_int_equal(s, HF_OK);
+    assert_int_equal(count, 0);
+    hf_balance_free(b);
+}
+
+/* n lines on a circle (fictional "Tarrow ring" spread), 76 mm chain. */
+static hf_model_line *ring(hf_model *m, size_t n, char (*names)[16])
+{
+    hf_model_line *lines = calloc(n, sizeof *lines);
+    assert_non_null(lines);
+    hf_model_init(m);
+    m->site.depth = 62.5;
+    m->nlines = n;
+    m->lines = lines;
+    for (size_t i = 0; i < n; i++) {
+        double a = 2.0 * M_PI * ((double)i + 0.37) / (double)n;
+        snprintf(names[i], 16, "R%zu", i + 1);
+        lines[i].name = names[i];
+        lines[i].fairlead[0] = 31.4 * cos(a);
+        lines[i].fairlead[1] = 31.4 * sin(a);
+        lines[i].fairlead[2] = -8.5;
+        lines[i].anchor[0] = 431.4 * cos(a);
+        lines[i].anchor[1] = 431.4 * sin(a);
+        lines[i].anchor_spec.kind = HF_ANCHOR_DRAG;
+        chain(&lines[i].line, 430.0);
+    }
+    return lines;
+}
+
+/* Issue 12 item 13: the workspace's memory grows linearly with the number of
+ * lines (before: (1 + n) x n per-line entries, 189 MB for 1,000 lines).
+ * Eight times the lines must cost at most nine times the bytes (quadratic
+ * growth would give about 64). */
+static void test_memory_linear(void **state)
+{
+    (void)state;
+    static char names[1200][16];
+    hf_model m50, m400;
+    hf_model_line *l50 = ring(&m50, 150, names);
+    hf_model_line *l400 = ring(&m400, 1200, names);
+    hf_error e;
+    hf_balance *a = hf_balance_alloc(&m50, &e), *b = hf_balance_alloc(&m400, &e);
+    assert_non_null(a);
+    assert_non_null(b);
+    double ratio = (double)hf_balance_footprint(b) / (double)hf_balance_footprint(a);
+    print_message("balance footprint: 150 lines %zu B, 1200 lines %zu B (x %.2f)\n",
+                  hf_balance_footprint(a), hf_balance_footprint(b), ratio);
+    assert_true(ratio > 7.0 && ratio < 9.0);
+    assert_true(hf_balance_footprint(b) < 1200u * 1024u); /* under 1 KB per line */
+    hf_balance_free(a);
+    hf_balance_free(b);
+    free(l50);
+    free(l400);
+}
+
+typedef struct {
+    size_t seen[8];
+    double tension[8];
+    size_t count, stop_after;
+} visit_log;
+
+static int visit(void *ctx, size_t cond, const hf_balance_result *r)
+{
+    visit_log *v = ctx;
+    v->seen[v->count] = cond;
+    v->tension[v->count] = r->max_tension;
+    v->count++;
+    return v->count >= v->stop_after;
+}
+
+/* hf_balance_run_each hands every condition over in order, with the same
+ * numbers hf_balance_run keeps; a visitor can stop the run. */
+static void test_run_each(void **state)
+{
+    (void)state;
+    fixture fx;
+    four_line(&fx);
+    hf_error e;
+    hf_balance *b = hf_balance_alloc(&fx.m, &e);
+    hf_load l = load_of("gale-east", 412.5e3, 33.0, 1.2e6);
+    visit_log v = {.stop_after = 100};
+    hf_balance_reset(b); /* warm starts forgotten: both runs start alike */
+    assert_int_equal(hf_balance_run_each(b, &l, visit, &v, &e), HF_OK);
+    assert_int_equal(v.count, 5);
+    /* only the last condition is kept without hf_balance_run */
+    assert_null(hf_balance_result_at(b, 0));
+    assert_non_null(hf_balance_result_at(b, 4));
+    hf_balance_reset(b);
+    assert_int_equal(hf_balance_run(b, &l, &e), HF_OK);
+    for (size_t c = 0; c < 5; c++) {
+        assert_int_equal(v.seen[c], c);
+        const hf_balance_result *r = hf_balance_result_at(b, c);
+        assert_non_null(r);
+        assert_true(r->max_tension == v.tension[c]); /* same solve, same bits */
+    }
+    visit_log w = {.stop_after = 2};
+    assert_int_equal(hf_balance_run_each(b, &l, visit, &w, &e), HF_CONTINUE);
+    assert_int_equal(w.count, 2);
     hf_balance_free(b);
 }
 
@@ -603,6 +759,7 @@ int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_load_force),
+        cmocka_unit_test(test_drag_force),
         cmocka_unit_test(test_zero_load),
         cmocka_unit_test(test_load_along_x),
         cmocka_unit_test(test_broken_conditions),
@@ -617,6 +774,8 @@ int main(void)
         cmocka_unit_test(test_reset_and_order),
         cmocka_unit_test(test_bad_input),
         cmocka_unit_test(test_alloc_failures),
+        cmocka_unit_test(test_memory_linear),
+        cmocka_unit_test(test_run_each),
     };
     hf_gsl_handler_install();
     return cmocka_run_group_tests(tests, NULL, NULL);

@@ -20,13 +20,8 @@ static hf_test_io io = {.out = out, .out_cap = sizeof out, .err = err, .err_cap 
 static int setup(void **state)
 {
     (void)state;
-    bin = hf_test_bin();
     root = hf_test_root();
-    if (!bin || access(bin, X_OK) != 0) {
-        bin = NULL;
-        return 0;
-    }
-    return hf_test_tmpdir_make(dir, sizeof dir, "cmd-check");
+    return hf_test_cli_setup(&bin, dir, sizeof dir, "cmd-check");
 }
 
 static int teardown(void **state)
@@ -99,7 +94,7 @@ static void usage_and_help(void **state)
     assert_int_equal(HF_TEST_RUN(&io, "check", "--help"), 0);
     assert_non_null(strstr(out, "usage: holdfast check CASE"));
     assert_int_equal(HF_TEST_RUN(&io, "check"), 2);
-    assert_non_null(strstr(err, "expected a CASE file"));
+    assert_non_null(strstr(err, "missing the CASE file"));
     assert_int_equal(HF_TEST_RUN(&io, "check", "--frobnicate", "x.yaml"), 2);
     assert_non_null(strstr(err, "unknown option '--frobnicate'"));
     assert_int_equal(HF_TEST_RUN(&io, "check", "a.yaml", "b.yaml"), 2);

@@ -91,15 +91,157 @@ static void test_dnv(void **state)
 static void test_ufc(void **state)
 {
     (void)state;
-    /* UFC 4-159-03 (2005) table 3-7 (published): factor 3.0, and with one
-     * member missing at least 75 % of the intact factor: 0.75 x 3.0 = 2.25. */
+    /* UFC 4-159-03 (3 Oct 2005) table 3-7, "Minimum Quasi-Static Factors of
+     * Safety" (published): chain, wire and synthetic lines 3.0.  The
+     * one-member-missing factor 0.75 x 3.0 = 2.25 is NOT in that table: it is
+     * kept, marked "from memory" (issue 12 item 19). */
     expect_preset("ufc-4-159-03", HF_ANALYSIS_QUASI_STATIC, 3.0, 2.25);
     expect_preset("ufc-4-159-03", HF_ANALYSIS_DYNAMIC, 3.0, 2.25);
     const hf_criteria_preset *p = hf_criteria_preset_find("ufc-4-159-03");
-    assert_int_equal(p->from_memory, 0);
-    assert_null(strstr(p->source, "from memory"));
+    assert_int_equal(p->from_memory, 1);
+    assert_int_equal(p->damaged_from_memory, 1);
     assert_non_null(strstr(p->source, "table 3-7"));
+    assert_non_null(strstr(p->source, "3.0 on MBL (published)"));
+    assert_non_null(strstr(p->source, "2.25 (from memory: not in table 3-7"));
     assert_true(p->damaged_qs >= 0.75 * p->intact_qs - 1e-15);
+    /* the further values table 3-7 does hold (published) */
+    assert_float_equal(p->bend_factor, 4.0, 0.0);         /* chain around bends */
+    assert_float_equal(p->wet_nylon_strength, 0.85, 0.0); /* wet nylon: strength less 15 % */
+    assert_float_equal(p->holding[HF_HOLDING_STOCKLESS], 1.5, 0.0);
+    assert_float_equal(p->holding[HF_HOLDING_HIGH_EFFICIENCY], 2.0, 0.0);
+    assert_float_equal(p->holding[HF_HOLDING_PILE_PLATE], 3.0, 0.0);
+    assert_float_equal(p->holding[HF_HOLDING_SHIP], 1.0, 0.0);
+    assert_non_null(p->table_source);
+    assert_non_null(strstr(p->table_source, "table 3-7 (published)"));
+    assert_null(strstr(p->table_source, "from memory"));
+}
+
+/* Presets that give no further table values leave them at 0, and the
+ * helpers then change nothing. */
+static void test_table_values_absent(void **state)
+{
+    (void)state;
+    const char *names[] = {"api-rp-2sk", "iso-19901-7", "dnv-cc1", "dnv-cc2"};
+    for (size_t i = 0; i < 4; i++) {
+        const hf_criteria_preset *p = hf_criteria_preset_find(names[i]);
+        assert_non_null(p);
+        assert_float_equal(p->bend_factor, 0.0, 0.0);
+        assert_float_equal(p->wet_nylon_strength, 0.0, 0.0);
+        for (int k = 0; k < HF_HOLDING_NCLASSES; k++)
+            assert_float_equal(p->holding[k], 0.0, 0.0);
+        assert_null(p->table_source);
+        assert_float_equal(hf_criteria_bend_required(p, 2.385, 0), 2.385, 0.0);
+        double eff = 0;
+        assert_int_equal(hf_criteria_effective_mbl(p, 7.43e6, 1, &eff, NULL), HF_OK);
+        assert_float_equal(eff, 7.43e6, 0.0);
+    }
+}
+
+static void test_bend_factor(void **state)
+{
+    (void)state;
+    const hf_criteria_preset *p = hf_criteria_preset_find("ufc-4-159-03");
+    /* UFC 4-159-03 table 3-7: chain around bends 4.0 (intact, published) */
+    assert_float_equal(hf_criteria_bend_required(p, 3.0, 0), 4.0, 0.0);
+    /* one line broken: same ratio 4/3 on the from-memory 2.25 -> 3.0
+     * (holdfast's reading, documented in docs/criteria.md) */
+    assert_float_equal(hf_criteria_bend_required(p, 2.25, 1), 3.0, 1e-15);
+    /* never below the factor the case asks for */
+    assert_float_equal(hf_criteria_bend_required(p, 4.75, 0), 4.75, 0.0);
+    /* no check stays no check; no preset changes nothing */
+    assert_float_equal(hf_criteria_bend_required(p, 0.0, 0), 0.0, 0.0);
+    assert_float_equal(hf_criteria_bend_required(NULL, 3.0, 0), 3.0, 0.0);
+}
+
+static void test_wet_nylon(void **state)
+{
+    (void)state;
+    const hf_criteria_preset *p = hf_criteria_preset_find("ufc-4-159-03");
+    double eff = -1;
+    /* UFC 4-159-03 table 3-7: wet nylon's strength reduced by 15 %:
+     * 1,234.5 kN dry -> 0.85 x 1,234.5 = 1,049.325 kN */
+    assert_int_equal(hf_criteria_effective_mbl(p, 1234.5e3, 1, &eff, NULL), HF_OK);
+    assert_float_equal(eff, 1049.325e3, 1e-6);
+    assert_int_equal(hf_criteria_effective_mbl(p, 1234.5e3, 0, &eff, NULL), HF_OK);
+    assert_float_equal(eff, 1234.5e3, 0.0);
+    hf_error e;
+    hf_error_clear(&e);
+    assert_int_equal(hf_criteria_effective_mbl(p, 0.0, 1, &eff, &e), HF_EINVAL);
+    assert_float_equal(eff, 0.0, 0.0);
+    assert_non_null(strstr(e.text, "MBL"));
+    assert_int_equal(hf_criteria_effective_mbl(p, NAN, 1, &eff, NULL), HF_EINVAL);
+    assert_int_equal(hf_criteria_effective_mbl(p, INFINITY, 1, &eff, NULL), HF_EINVAL);
+}
+
+static void test_holding(void **state)
+{
+    (void)state;
+    const hf_criteria_preset *p = hf_criteria_preset_find("ufc-4-159-03");
+    hf_holding_criterion h;
+    /* UFC 4-159-03 table 3-7: high-efficiency drag anchors need an ultimate
+     * holding capacity of 2.0 times the load: 961 kN against 480.5 kN is
+     * exactly 2.0 (passes), against 480.6 kN just below (fails). */
+    assert_int_equal(hf_criteria_holding_evaluate(p, HF_HOLDING_HIGH_EFFICIENCY, 961e3, 480.5e3,
+                                                  &h, NULL),
+                     HF_OK);
+    assert_float_equal(h.factor, 2.0, 1e-15);
+    assert_float_equal(h.required, 2.0, 0.0);
+    assert_true(h.checked && h.passed);
+    assert_int_equal(hf_criteria_holding_evaluate(p, HF_HOLDING_HIGH_EFFICIENCY, 961e3, 480.6e3,
+                                                  &h, NULL),
+                     HF_OK);
+    assert_false(h.passed);
+    /* stockless 1.5: 961 / 640 = 1.5016 passes; pile and plate 3.0 fails */
+    assert_int_equal(
+        hf_criteria_holding_evaluate(p, HF_HOLDING_STOCKLESS, 961e3, 640e3, &h, NULL), HF_OK);
+    assert_true(h.passed);
+    assert_float_equal(h.factor, 961.0 / 640.0, 1e-15);
+    assert_int_equal(
+        hf_criteria_holding_evaluate(p, HF_HOLDING_PILE_PLATE, 961e3, 640e3, &h, NULL), HF_OK);
+    assert_false(h.passed);
+    /* zero load: no factor, passes */
+    assert_int_equal(hf_criteria_holding_evaluate(p, HF_HOLDING_SHIP, 961e3, 0.0, &h, NULL),
+                     HF_OK);
+    assert_false(h.has_factor);
+    assert_true(h.passed);
+    /* a preset without the table: reported, not checked */
+    assert_int_equal(hf_criteria_holding_evaluate(hf_criteria_preset_find("api-rp-2sk"),
+                                                  HF_HOLDING_STOCKLESS, 961e3, 2000e3, &h, NULL),
+                     HF_OK);
+    assert_false(h.checked);
+    assert_true(h.passed);
+    assert_float_equal(h.factor, 0.4805, 1e-15);
+    /* bad input */
+    hf_error e;
+    hf_error_clear(&e);
+    assert_int_equal(hf_criteria_holding_evaluate(p, HF_HOLDING_SHIP, 0.0, 1.0, &h, &e),
+                     HF_EINVAL);
+    assert_non_null(strstr(e.text, "capacity"));
+    assert_int_equal(hf_criteria_holding_evaluate(p, HF_HOLDING_SHIP, 1.0, -1.0, &h, NULL),
+                     HF_EINVAL);
+    assert_int_equal(hf_criteria_holding_evaluate(p, HF_HOLDING_SHIP, 1.0, NAN, &h, NULL),
+                     HF_EINVAL);
+    assert_int_equal(
+        hf_criteria_holding_evaluate(p, HF_HOLDING_NCLASSES, 1.0, 1.0, &h, NULL), HF_EINVAL);
+}
+
+static void test_holding_names(void **state)
+{
+    (void)state;
+    for (int k = 0; k < HF_HOLDING_NCLASSES; k++) {
+        hf_holding_class c = HF_HOLDING_NCLASSES;
+        const char *n = hf_criteria_holding_class_name((hf_holding_class)k);
+        assert_int_equal(hf_criteria_holding_class_find(n, &c, NULL), HF_OK);
+        assert_int_equal(c, k);
+    }
+    assert_string_equal(hf_criteria_holding_class_name(HF_HOLDING_NCLASSES), "unknown");
+    hf_holding_class c;
+    hf_error e;
+    hf_error_clear(&e);
+    assert_int_equal(hf_criteria_holding_class_find("Stockless", &c, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "high-efficiency"));
+    assert_non_null(strstr(e.text, "Stockless"));
+    assert_int_equal(hf_criteria_holding_class_find(NULL, &c, NULL), HF_EINVAL);
 }
 
 static void test_preset_table(void **state)
@@ -365,6 +507,11 @@ int main(void)
         cmocka_unit_test(test_iso_19901_7),
         cmocka_unit_test(test_dnv),
         cmocka_unit_test(test_ufc),
+        cmocka_unit_test(test_table_values_absent),
+        cmocka_unit_test(test_bend_factor),
+        cmocka_unit_test(test_wet_nylon),
+        cmocka_unit_test(test_holding),
+        cmocka_unit_test(test_holding_names),
         cmocka_unit_test(test_preset_table),
         cmocka_unit_test(test_preset_unknown),
         cmocka_unit_test(test_criteria_check),

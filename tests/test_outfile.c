@@ -262,6 +262,78 @@ static void failed_write_leaves_nothing(void **state)
     assert_int_equal(count_entries(fx->dir, NULL, 0), 0);
 }
 
+/* The same under a file size limit without the caller ignoring SIGXFSZ
+ * (issue 12 item 11): the module ignores it from its first open on, so the
+ * child is not killed (before, it died of SIGXFSZ and left
+ * .results.csv.tmpXXXXXX); the commit fails with a message naming the file
+ * and the limit, and nothing is left.  test_limits.c checks the same for the
+ * program, in a fresh process. */
+static void file_size_limit_is_an_error_not_a_signal(void **state)
+{
+    fixture *fx = *state;
+    pid_t pid = fork();
+    assert_true(pid >= 0);
+    if (pid == 0) {
+        struct rlimit rl = {8192, 8192};
+        if (setrlimit(RLIMIT_FSIZE, &rl) != 0)
+            _exit(10);
+        hf_error err;
+        hf_error_clear(&err);
+        hf_outfile *o = hf_outfile_open(fx->path, &err);
+        if (!o)
+            _exit(11);
+        struct sigaction sa;
+        if (sigaction(SIGXFSZ, NULL, &sa) != 0 || sa.sa_handler != SIG_IGN)
+            _exit(14);
+        for (int i = 0; i < 5000; i++)
+            fprintf(hf_outfile_stream(o), "%d,%.9g\n", i, 2.385 * i);
+        hf_status st = hf_outfile_commit(o, &err);
+        if (st != HF_EIO || !strstr(err.text, fx->path))
+            _exit(12);
+        if (!strstr(err.text, "file size limit"))
+            _exit(13);
+        _exit(0);
+    }
+    int ws;
+    assert_int_equal(waitpid(pid, &ws, 0), pid);
+    if (WIFSIGNALED(ws))
+        fail_msg("the child was killed by signal %d (SIGXFSZ is %d)", WTERMSIG(ws), SIGXFSZ);
+    assert_true(WIFEXITED(ws));
+    assert_int_equal(WEXITSTATUS(ws), 0);
+    assert_int_equal(count_entries(fx->dir, NULL, 0), 0);
+}
+
+/* An output neither committed nor aborted when the process exits (an error
+ * path that forgot it) leaves no temporary file; a forked child that exits
+ * does not remove its parent's temporary file. */
+static void exit_removes_forgotten_outputs(void **state)
+{
+    fixture *fx = *state;
+    pid_t pid = fork();
+    assert_true(pid >= 0);
+    if (pid == 0) {
+        hf_error err;
+        hf_outfile *o = hf_outfile_open(fx->path, &err);
+        if (!o)
+            _exit(11);
+        fputs("forgotten,2.385\n", hf_outfile_stream(o));
+        fflush(hf_outfile_stream(o));
+        pid_t g = fork();
+        if (g < 0)
+            _exit(12);
+        if (g == 0)
+            exit(0); /* runs the atexit handlers of the copy */
+        int ws;
+        if (waitpid(g, &ws, 0) != g || !WIFEXITED(ws))
+            _exit(13);
+        if (count_entries(fx->dir, NULL, 0) != 1) /* still there */
+            _exit(14);
+        exit(0); /* without commit or abort */
+    }
+    expect_exit_0(pid);
+    assert_int_equal(count_entries(fx->dir, NULL, 0), 0);
+}
+
 /* /dev/full is a device: written in place, and every write fails (ENOSPC). */
 static void device_write_failure_is_reported(void **state)
 {
@@ -573,6 +645,78 @@ static void allocation_failures_on_open(void **state)
     }
 }
 
+/* An output naming the input (issue 12 item 10): the same path, another
+ * spelling of it, a hard link and a symbolic link are the same file (POSIX
+ * stat: a file is identified by st_dev and st_ino); a copy with the same
+ * bytes, a path that does not exist yet and "-" are not.  Nothing is
+ * created or changed by asking. */
+static void same_file_is_recognised(void **state)
+{
+    fixture *fx = *state;
+    char in[400], dotted[400], hard[400], soft[400], copy[400], absent[400];
+    snprintf(in, sizeof in, "%s/case.yaml", fx->dir);
+    snprintf(dotted, sizeof dotted, "%s/./case.yaml", fx->dir);
+    snprintf(hard, sizeof hard, "%s/hard.yaml", fx->dir);
+    snprintf(soft, sizeof soft, "%s/soft.yaml", fx->dir);
+    snprintf(copy, sizeof copy, "%s/copy.yaml", fx->dir);
+    snprintf(absent, sizeof absent, "%s/new.csv", fx->dir);
+    hf_test_file_write(in, "site: {depth: 23.85 m}\n");
+    hf_test_file_write(copy, "site: {depth: 23.85 m}\n");
+    assert_int_equal(link(in, hard), 0);
+    assert_int_equal(symlink("case.yaml", soft), 0);
+
+    assert_int_equal(hf_outfile_same_file(in, in), 1);
+    assert_int_equal(hf_outfile_same_file(dotted, in), 1);
+    assert_int_equal(hf_outfile_same_file(hard, in), 1);
+    assert_int_equal(hf_outfile_same_file(soft, in), 1);
+    assert_int_equal(hf_outfile_same_file(in, soft), 1);
+    assert_int_equal(hf_outfile_same_file(copy, in), 0);
+    assert_int_equal(hf_outfile_same_file(absent, in), 0);
+    assert_int_equal(hf_outfile_same_file(in, absent), 0);
+    assert_int_equal(hf_outfile_same_file("-", in), 0);
+    assert_int_equal(hf_outfile_same_file(NULL, in), 0);
+    assert_int_equal(hf_outfile_same_file(in, NULL), 0);
+    assert_int_equal(count_entries(fx->dir, NULL, 0), 4);
+
+    /* A relative spelling from inside the directory. */
+    char cwd[1024];
+    assert_non_null(getcwd(cwd, sizeof cwd));
+    assert_int_equal(chdir(fx->dir), 0);
+    int rel = hf_outfile_same_file("case.yaml", in);
+    int rel_copy = hf_outfile_same_file("copy.yaml", "./case.yaml");
+    assert_int_equal(chdir(cwd), 0);
+    assert_int_equal(rel, 1);
+    assert_int_equal(rel_copy, 0);
+}
+
+static void output_over_input_is_refused(void **state)
+{
+    fixture *fx = *state;
+    char in[400], soft[400];
+    snprintf(in, sizeof in, "%s/case.yaml", fx->dir);
+    snprintf(soft, sizeof soft, "%s/out.csv", fx->dir);
+    hf_test_file_write(in, "lines: []\n");
+    assert_int_equal(symlink(in, soft), 0);
+    hf_error err;
+    hf_error_clear(&err);
+    assert_int_equal(hf_outfile_check_not_input(soft, in, &err), HF_EINVAL);
+    assert_int_equal(err.status, HF_EINVAL);
+    assert_non_null(strstr(err.text, soft)); /* names the output ... */
+    assert_non_null(strstr(err.text, in));   /* ... and the input */
+    assert_non_null(strstr(err.text, "same file"));
+    assert_int_equal(hf_outfile_check_not_input(soft, in, NULL), HF_EINVAL);
+
+    /* A distinct output is accepted and leaves err as it was. */
+    hf_error_set(&err, HF_EIO, "earlier");
+    assert_int_equal(hf_outfile_check_not_input(fx->path, in, &err), HF_OK);
+    assert_int_equal(err.status, HF_EIO);
+    assert_string_equal(err.text, "earlier");
+    assert_int_equal(hf_outfile_check_not_input("-", in, &err), HF_OK);
+    char buf[32];
+    assert_int_equal(hf_test_file_read_into(in, buf, sizeof buf), 10);
+    assert_string_equal(buf, "lines: []\n");
+}
+
 int main(void)
 {
 #define T(f) cmocka_unit_test_setup_teardown(f, setup, teardown)
@@ -585,6 +729,8 @@ int main(void)
         T(missing_directory_is_an_io_error),
         T(a_directory_as_target_is_an_io_error),
         T(failed_write_leaves_nothing),
+        T(file_size_limit_is_an_error_not_a_signal),
+        T(exit_removes_forgotten_outputs),
         T(device_write_failure_is_reported),
         T(dev_null_is_written_in_place),
         T(fifo_is_written_in_place),
@@ -596,6 +742,8 @@ int main(void)
         T(sigkill_before_commit),
         T(sigterm_at_random_moments),
         T(allocation_failures_on_open),
+        T(same_file_is_recognised),
+        T(output_over_input_is_refused),
     };
 #undef T
     return cmocka_run_group_tests(tests, NULL, NULL);

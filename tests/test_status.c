@@ -49,7 +49,9 @@ static void exit_codes_follow_the_contract(void **state)
     assert_int_equal(hf_status_exit_code(HF_EINVAL), HF_EXIT_USAGE);
     assert_int_equal(hf_status_exit_code(HF_ELIMIT), HF_EXIT_USAGE);
     assert_int_equal(hf_status_exit_code(HF_EIO), HF_EXIT_USAGE);
-    assert_int_equal(hf_status_exit_code(HF_ENOMEM), HF_EXIT_NUMERIC);
+    /* out of memory has its own exit status (issue 12 item 13): 4 */
+    assert_int_equal(hf_status_exit_code(HF_ENOMEM), 4);
+    assert_true(hf_status_exit_code(HF_ENOMEM) != HF_EXIT_NUMERIC);
     assert_int_equal(hf_status_exit_code(HF_ENOCONV), HF_EXIT_NUMERIC);
     assert_int_equal(hf_status_exit_code(HF_EUNSUPPORTED), HF_EXIT_NUMERIC);
     assert_int_equal(hf_status_exit_code(HF_ENOEQUIL), HF_EXIT_NUMERIC);

@@ -144,6 +144,50 @@ static void test_angle(void **state)
     ok("0", HF_DIM_ANGLE, 0.0);
 }
 
+/* Exact reduction of angles by whole turns (issue 12 item 4).  References:
+ * 1e15 = 360 x 2,777,777,777,777 + 280 and 1e20 = 2^20 5^20 is 0 mod 40 and
+ * 1 mod 9, so 280 mod 360 (integer arithmetic by hand); the same angle must
+ * give the same radians bit for bit. */
+static void test_angle_reduction(void **state)
+{
+    (void)state;
+    double r280 = hf_units_deg_to_rad(280.0);
+    assert_true(r280 == 280.0 * (M_PI / 180.0)); /* (-360, 360): as before, bit for bit */
+    assert_true(hf_units_deg_to_rad(1e15) == r280);
+    assert_true(hf_units_deg_to_rad(1e20) == r280);
+    assert_true(hf_units_deg_to_rad(280.0 + 360.0 * 1e6) == r280);
+    assert_true(hf_units_deg_to_rad(-1e15) == -r280);
+    assert_true(hf_units_deg_to_rad(-37.25) == -37.25 * (M_PI / 180.0));
+    assert_true(hf_units_deg_to_rad(359.999) == 359.999 * (M_PI / 180.0));
+    assert_true(hf_units_deg_to_rad(720.0) == 0.0);
+    /* the largest double is a whole number of turns plus some angle: finite, in range */
+    double big = hf_units_deg_to_rad(1.7976931348623157e308);
+    assert_true(isfinite(big) && fabs(big) < 2.0 * M_PI);
+    assert_true(isnan(hf_units_deg_to_rad(INFINITY)));
+    assert_true(isnan(hf_units_deg_to_rad(NAN)));
+    /* the parser uses it for every spelling of degrees */
+    double v = 0.0;
+    hf_error e;
+    const char *same[] = {"280", "1e15", "1e20 deg", "1e15\xc2\xb0", "280 deg"};
+    for (size_t k = 0; k < sizeof same / sizeof same[0]; k++) {
+        assert_int_equal(hf_units_parse(same[k], HF_DIM_ANGLE, &v, &e), HF_OK);
+        if (v != r280)
+            fail_msg("\"%s\": %.17g rad, want %.17g", same[k], v, r280);
+    }
+    assert_int_equal(hf_units_parse("1e308", HF_DIM_ANGLE, &v, &e), HF_OK);
+    assert_true(isfinite(v) && fabs(v) < 2.0 * M_PI);
+    /* radians: below one turn unchanged; larger ones reduced to the same direction */
+    assert_int_equal(hf_units_parse("6.2 rad", HF_DIM_ANGLE, &v, &e), HF_OK);
+    assert_true(v == 6.2);
+    assert_int_equal(hf_units_parse("1e15 rad", HF_DIM_ANGLE, &v, &e), HF_OK);
+    assert_true(v >= 0.0 && v < 2.0 * M_PI);
+    assert_float_equal(sin(v), sin(1e15), 1e-12);
+    assert_float_equal(cos(v), cos(1e15), 1e-12);
+    assert_int_equal(hf_units_parse("-7 rad", HF_DIM_ANGLE, &v, &e), HF_OK);
+    assert_true(v < 0.0 && v > -2.0 * M_PI);
+    assert_float_equal(v, -7.0 + 2.0 * M_PI, 1e-14);
+}
+
 static void test_density_speed_area(void **state)
 {
     (void)state;
@@ -374,6 +418,7 @@ int main(void)
         cmocka_unit_test(test_force_per_length),
         cmocka_unit_test(test_pressure),
         cmocka_unit_test(test_angle),
+        cmocka_unit_test(test_angle_reduction),
         cmocka_unit_test(test_density_speed_area),
         cmocka_unit_test(test_moment),
         cmocka_unit_test(test_dimensionless),

@@ -102,11 +102,19 @@ typedef struct {
 
 typedef struct hf_balance hf_balance;
 
-/* Allocates a workspace for m (borrowed) with room for the 1 + nlines
- * conditions of one load case.  m must have at least one line and valid
- * criteria (hf_criteria_check).  Returns NULL with err set: HF_EINVAL (bad
- * model), HF_ENOMEM. */
+/* Allocates a workspace for m (borrowed).  Its memory is linear in the
+ * number of lines: the scalar results of the 1 + nlines conditions of one
+ * load case and the per-line arrays of one condition (hf_balance_footprint);
+ * hf_balance_run adds the per-line arrays of every condition on its first
+ * call.  m must have at least one line and valid criteria
+ * (hf_criteria_check).  Returns NULL with err set: HF_EINVAL (bad model),
+ * HF_ELIMIT (size overflow), HF_ENOMEM. */
 hf_balance *hf_balance_alloc(const hf_model *m, hf_error *err);
+
+/* Bytes this workspace has allocated itself (its spread workspace
+ * excluded): about 0.46 KB per condition plus 0.18 KB per line, plus
+ * (1 + n) x n x 0.18 KB once hf_balance_run has kept every condition. */
+size_t hf_balance_footprint(const hf_balance *b);
 
 /* Releases a workspace and its results.  NULL is allowed. */
 void hf_balance_free(hf_balance *b);
@@ -128,6 +136,17 @@ void hf_balance_reset(hf_balance *b);
  * value is out of range (non-finite, ftol <= 0, max_iter < 1, ...). */
 hf_status hf_balance_set_options(hf_balance *b, const hf_balance_options *opt, hf_error *err);
 
+/* The drag equation F = 1/2 rho C A V^2 for one wind or current term of a
+ * load case, validated: density, coefficient, area and speed finite and
+ * >= 0, direction finite.  Writes the magnitude *q (N) and its global
+ * components *fx = q cos(direction), *fy = q sin(direction) (N); any of q,
+ * fx, fy may be NULL.  Returns HF_OK, or HF_EINVAL with a message (without
+ * a location: the caller prefixes it, e.g. "loads[gale].drag[1]: ") when a
+ * value is out of range or the product overflows; the outputs are then 0.
+ * This is the one implementation of the formula in holdfast: every caller
+ * (balance, commands, report) uses it. */
+hf_status hf_drag_force(const hf_drag *d, double *q, double *fx, double *fy, hf_error *err);
+
 /* The resultant external load of a load case in global axes: f[0] Fx, f[1]
  * Fy (N), f[2] Mz (N m): the direct force plus every drag term
  * 1/2 rho C A V^2 toward its direction.  HF_EINVAL with a message naming the
@@ -138,14 +157,31 @@ hf_status hf_balance_load_force(const hf_load *load, double f[3], hf_error *err)
 /* Number of conditions per load case: 1 + nlines (0 intact, k line k-1 broken). */
 size_t hf_balance_ncond(const hf_balance *b);
 
-/* Solves every condition of one load case and evaluates the criteria.
- * Results stay in the workspace until the next run (hf_balance_result_at).
- * Returns HF_EINVAL (bad load; nothing solved, every result carries that
- * status and the message), or HF_OK when every
- * condition found its equilibrium, else the status of the first condition
- * that did not (HF_ENOEQUIL, HF_ENOCONV, HF_EUNSUPPORTED, HF_EINVAL): every
- * condition is still attempted and carries its own status and message.
- * Allocates nothing. */
+/* Called by hf_balance_run_each after each condition (0 intact, k line
+ * k-1 broken) with its result, which stays valid until the next condition
+ * is solved.  Return 0 to go on, non-zero to stop the run (progress display
+ * and cancellation belong here).  Must not call back into the workspace. */
+typedef int (*hf_balance_visit)(void *ctx, size_t cond, const hf_balance_result *r);
+
+/* Solves every condition of one load case in order, evaluates the criteria
+ * and hands each result to visit (may be NULL) as soon as it is solved:
+ * memory stays linear in the number of lines, and nothing is allocated.
+ * Returns HF_EINVAL for a bad load (nothing solved; condition 0 carries the
+ * status and message and is visited), HF_OK when every condition found its
+ * equilibrium, else the status of the first condition that did not
+ * (HF_ENOEQUIL, HF_ENOCONV, HF_EUNSUPPORTED, HF_EINVAL): every condition is
+ * still attempted and carries its own status and message.  When visit stops
+ * the run: that first failure status, else HF_CONTINUE. */
+hf_status hf_balance_run_each(hf_balance *b, const hf_load *load, hf_balance_visit visit,
+                              void *ctx, hf_error *err);
+
+/* Like hf_balance_run_each without a visitor, but keeps the result of every
+ * condition for hf_balance_result_at.  Its first call on a workspace
+ * allocates the per-line arrays of all 1 + n conditions ((1 + n) x n
+ * entries, 0.18 KB each: memory quadratic in the number of lines; use
+ * hf_balance_run_each for large spreads): HF_ENOMEM or HF_ELIMIT when that
+ * fails (nothing solved).  Later calls allocate nothing.  Same statuses
+ * otherwise. */
 hf_status hf_balance_run(hf_balance *b, const hf_load *load, hf_error *err);
 
 /* Solves one condition only (0 intact, k = line k-1 broken), starting from
@@ -154,7 +190,10 @@ hf_status hf_balance_run(hf_balance *b, const hf_load *load, hf_error *err);
  * rest pose) for a broken one.  Same statuses as hf_balance_run for that condition. */
 hf_status hf_balance_solve(hf_balance *b, const hf_load *load, size_t cond, hf_error *err);
 
-/* Result of condition `cond` of the last run/solve, or NULL when out of range. */
+/* Result of condition `cond` of the last run/solve, or NULL when out of
+ * range or not kept: before hf_balance_run has been called on the workspace,
+ * only the condition solved last (hf_balance_solve, hf_balance_run_each) is
+ * kept. */
 const hf_balance_result *hf_balance_result_at(const hf_balance *b, size_t cond);
 
 /* Stable criterion names: "none", "equilibrium", "line_factor", "offset", "anchor". */

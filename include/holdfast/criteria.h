@@ -21,13 +21,25 @@
 /* The valid preset names, for messages: "api-rp-2sk, iso-19901-7, ...". */
 #define HF_CRITERIA_PRESET_NAMES "api-rp-2sk, iso-19901-7, dnv-cc1, dnv-cc2, ufc-4-159-03"
 
+/* Anchor classes of a holding-capacity table (UFC 4-159-03 (2005) table
+ * 3-7 lists one required factor on the ultimate holding capacity for each). */
+typedef enum {
+    HF_HOLDING_STOCKLESS = 0,   /* stockless and balanced-fluke anchors */
+    HF_HOLDING_HIGH_EFFICIENCY, /* high-efficiency drag anchors */
+    HF_HOLDING_PILE_PLATE,      /* pile and plate anchors */
+    HF_HOLDING_SHIP,            /* a ship's own anchoring */
+    HF_HOLDING_NCLASSES
+} hf_holding_class;
+
 /* One preset of required line safety factors (on MBL) with its source. */
 typedef struct {
     const char *name;   /* "api-rp-2sk", ... */
     const char *title;  /* human title of the rule set */
     const char *source; /* static text: document, edition, clause; "(from memory)"
                            where the value was not confirmed in the text */
-    int from_memory;    /* 1 when the values were recalled, not read in the source */
+    int from_memory;    /* 1 when any value was recalled, not read in the source
+                           (the source text says which ones) */
+    int damaged_from_memory; /* 1 when the one-line-broken factors were recalled */
     int uses_analysis;  /* 1 when the factors depend on quasi-static vs dynamic */
     double intact_qs;   /* required MBL/T, intact, quasi-static analysis */
     double damaged_qs;  /* required MBL/T, one line broken, quasi-static */
@@ -41,6 +53,14 @@ typedef struct {
     double gamma_mean_als; /* ALS (one line broken) factor on mean tension, - */
     double gamma_dyn_als;  /* ALS factor on dynamic tension, - */
     double capacity;       /* characteristic capacity as a fraction of MBL, - */
+    /* Further values of the preset's table (0 where the preset gives none);
+     * table_source names where they were read. */
+    double bend_factor;        /* required MBL/T for chain around bends, intact, - */
+    double wet_nylon_strength; /* effective strength of wet nylon as a fraction of
+                                  its (dry) break strength, - */
+    double holding[HF_HOLDING_NCLASSES]; /* required ultimate holding capacity over
+                                            the anchor load, per anchor class, - */
+    const char *table_source;  /* static text, or NULL when the values above are all 0 */
 } hf_criteria_preset;
 
 /* Number of presets and the i-th one (i < count; NULL otherwise). */
@@ -131,6 +151,55 @@ typedef struct {
 hf_status hf_criteria_anchor_evaluate(const hf_anchor *a, double h, double v,
                                       double required_sliding, double required_uplift,
                                       hf_anchor_criterion *out, hf_error *err);
+
+/* ---- further table values of a preset (UFC 4-159-03 table 3-7) ---------
+ * These take the preset record (hf_criteria_preset_find) so that a caller
+ * uses them only where the case names a preset that gives them. */
+
+/* Stable names of the holding classes: "stockless", "high-efficiency",
+ * "pile-plate", "ship" ("unknown" for anything else). */
+const char *hf_criteria_holding_class_name(hf_holding_class k);
+
+/* The class named exactly `name` into *out: HF_OK, or HF_EINVAL with a
+ * message listing the valid names (NULL name included). */
+hf_status hf_criteria_holding_class_find(const char *name, hf_holding_class *out, hf_error *err);
+
+/* Required MBL/T of a chain section led around a bend (a bending shoe, a
+ * fairlead sheave or chain wheel) in the condition given: p->bend_factor
+ * intact; with one line broken the same ratio to the straight-chain factor,
+ * bend_factor * damaged / intact (holdfast's reading: the table has no
+ * broken-member clause).  `required` is the straight-chain factor of the
+ * condition (hf_criteria_required); the result is never below it.  Returns
+ * `required` unchanged when p is NULL or gives no bend factor. */
+double hf_criteria_bend_required(const hf_criteria_preset *p, double required, int damaged);
+
+/* Effective breaking strength of a section, N: mbl (N, > 0) times
+ * p->wet_nylon_strength for a wet nylon section (wet_nylon non-zero) when the
+ * preset gives that reduction, else mbl.  HF_OK, or HF_EINVAL for a
+ * non-finite or non-positive mbl (*out then 0). */
+hf_status hf_criteria_effective_mbl(const hf_criteria_preset *p, double mbl, int wet_nylon,
+                                    double *out, hf_error *err);
+
+/* Result of the holding-capacity check of one anchor. */
+typedef struct {
+    hf_holding_class cls;
+    double capacity; /* ultimate holding capacity, N */
+    double load;     /* anchor load, N */
+    double factor;   /* capacity / load, -; 0 when load is 0 (has_factor 0) */
+    int has_factor;
+    double required; /* required factor of the class, - (0 = not checked) */
+    int checked;     /* 1 when required > 0 */
+    int passed;      /* 1 when not checked or capacity >= required * load */
+} hf_holding_criterion;
+
+/* Checks an anchor's ultimate holding capacity (N, > 0, from the designer:
+ * soil data or a pull test) against the anchor load (N, >= 0) with the factor
+ * the preset gives for the anchor's class (0 when p is NULL or gives none:
+ * reported, not checked).  HF_OK, or HF_EINVAL (non-finite or out-of-range
+ * input, unknown class; *out then zeroed). */
+hf_status hf_criteria_holding_evaluate(const hf_criteria_preset *p, hf_holding_class cls,
+                                       double capacity, double load, hf_holding_criterion *out,
+                                       hf_error *err);
 
 /* Stable name of an anchor kind: "drag", "gravity", "pile", "plate". */
 const char *hf_criteria_anchor_kind_name(hf_anchor_kind k);

@@ -8,7 +8,9 @@
  * rests on the seabed carries axial Coulomb friction (tension falling toward
  * the anchor).  Everything here is SI: m, N, N/m, rad.
  *
- * The module knows nothing of hulls, files or printing; it never allocates.
+ * The module knows nothing of hulls, files or printing; it never allocates
+ * (the fallback's GSL Brent solvers live in the solve's stack frame), so no
+ * line solve can run out of memory.
  * See docs/theory.md for the equations, sign conventions and sources. */
 #ifndef HOLDFAST_LINE_H
 #define HOLDFAST_LINE_H
@@ -77,15 +79,35 @@ typedef struct {
     double grounded;       /* unstretched length resting on the seabed, m */
     double stiffness[2][2];/* d(h,v)/d(x,z), N/m: [0][0]=dH/dX [0][1]=dH/dZ [1][0]=dV/dX [1][1]=dV/dZ */
     double residual;       /* forward-map residual at exit, relative to the line's length scale */
+    double force_error;    /* estimated relative error of the forces at exit: the remaining
+                            * Newton correction, max(|dH|/H, |dV|/T); 0 for the closed-form
+                            * regimes (slack, vertical, laid).  Near 1e-9 or below for common
+                            * lines; larger only where rounding of the span limits it (see
+                            * docs/theory.md, "Attainable accuracy") */
     double max_utilisation;/* largest section utilisation, - */
     size_t max_section;    /* index of the section with max_utilisation */
     size_t n;              /* number of sections, copied from the line */
     hf_section_result section[HF_LINE_MAX_SECTIONS]; /* only the first n are written */
 } hf_line_state;
 
+/* Solver options: tolerance and every iteration limit, with their defaults
+ * (hf_line_options_default).  hf_line_solve refuses out-of-range values
+ * with HF_EINVAL.  scale = max(total unstretched length, span). */
 typedef struct {
-    double rtol;        /* converged when |x - X| and |z - Z| <= rtol * scale; default 1e-10 */
+    double rtol;        /* converged when |x - X| and |z - Z| <= rtol * scale; in (0, 0.01);
+                         * default 1e-10 */
     int max_iter;       /* Newton iterations before the bracketing fallback; default 40 */
+    int max_backtrack;  /* line-search halvings per Newton iteration; default 40 */
+    int max_bracket;    /* fallback: Brent iterations per root, and doublings of the upper
+                         * bracket of H or V; default 200 */
+    int max_shrink;     /* fallback: divisions of the lower bracket of H by 1000; default 60 */
+    int max_polish;     /* Newton iterations after the fallback; default 20 */
+    int max_laid;       /* Newton iterations on H for a taut line laid on the seabed (Z = 0);
+                         * default 200 */
+    double ftol;        /* forces: once the span has converged, full Newton steps continue
+                         * while the estimated force error (hf_line_state.force_error)
+                         * exceeds ftol; in (0, 0.01); default 1e-9 */
+    int max_refine;     /* at most this many such steps (0: span test only); default 4 */
 } hf_line_options;
 
 /* Fills o with the documented defaults. */
@@ -116,10 +138,13 @@ hf_status hf_line_span(const hf_line *line, double h, double v,
  * HF_OK.  On failure returns the status (also in out->status) and a message
  * in out->message; no field of *out is ever NaN or Inf (section[k] for k >= n
  * is not written: read the first out->n entries only).
- *   HF_EINVAL       bad line or span (z < 0, non-finite values)
+ *   HF_EINVAL       bad line, span (z < 0, non-finite values) or options
  *   HF_EUNSUPPORTED a buoy would rest on the seabed below touchdown, or a sag
  *                   of the line would cut into the seabed
- *   HF_ENOCONV      no convergence (not expected for valid input) */
+ *   HF_ENOCONV      no convergence (not expected for valid input)
+ *   HF_ENOMEM       only if a GSL build's Brent state outgrew the storage
+ *                   reserved for it (512 bytes; GSL 2.x needs 64): never a
+ *                   heap allocation */
 hf_status hf_line_solve(const hf_line *line, double x, double z,
                         const hf_line_state *guess, const hf_line_options *opt,
                         hf_line_state *out);

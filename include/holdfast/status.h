@@ -27,7 +27,9 @@ typedef enum {
 const char *hf_status_str(hf_status s);
 
 /* Exit status of the command-line tool for a status:
- * 0 ok, 2 bad input or usage (EINVAL, ELIMIT, EIO), 3 numerical failure. */
+ * 0 ok, 2 bad input or usage (EINVAL, ELIMIT, EIO), 3 numerical failure
+ * (ENOCONV, EUNSUPPORTED, ENOEQUIL, ERANGE), 4 out of memory (ENOMEM: the
+ * input may be valid; the machine could not hold the work). */
 int hf_status_exit_code(hf_status s);
 
 #define HF_ERROR_TEXT 1024

@@ -33,11 +33,26 @@ const char *hf_dim_si(hf_dim d);
 /* Parses `text` ("76 mm", "1.5e3 kN", "85", "12 deg") as a quantity of
  * dimension `want` and stores its SI value in *out (angles in radians).  A
  * plain number is SI, except for angles where a plain number is degrees.
+ * Angles are reduced by whole turns (hf_units_deg_to_rad for degrees; a
+ * value in radians of magnitude 2 pi or more is reduced the same way, to
+ * the angle of the same sign in (-2 pi, 2 pi) with the same sine and cosine
+ * to within rounding), so any finite angle is accepted and a huge one is
+ * never a different direction than its remainder.
  * Rejects: empty text, trailing garbage, non-finite numbers (nan, inf,
  * 1e309), unknown units, and units of another dimension ("3 kN" for a
  * length).  On failure returns HF_EINVAL and a message such as
  * `expected a length, got "3 kN" (a force)` in err. */
 hf_status hf_units_parse(const char *text, hf_dim want, double *out, hf_error *err);
+
+/* Degrees to radians with an exact reduction first: r = fmod(deg, 360)
+ * (exact in IEEE arithmetic, sign of deg kept, so the result lies in
+ * (-2 pi, 2 pi)), then r * (pi / 180).  Every finite value is accepted, and
+ * angles that differ by whole turns give the same radians: 280, 1e15 and
+ * 1e20 deg all give 280 deg in radians bit for bit.  Values in (-360, 360)
+ * are unchanged by the reduction, so they convert exactly as deg * (pi/180)
+ * always did.  Non-finite input (NaN, +-inf) gives NaN: validate first (the
+ * unit parser refuses non-finite numbers before converting). */
+double hf_units_deg_to_rad(double deg);
 
 /* The accepted unit spellings of dimension d as a comma-separated list for
  * messages and help ("mm, cm, m, km, in, ft, nmi"); "" for HF_DIM_NONE and
