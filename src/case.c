@@ -917,7 +917,7 @@ static hf_status load_load(ctx *c, const node *n, size_t index, int *lines, int 
     if (st != HF_OK)
         return st;
     const node *fn = get(n, "force"), *dn = get(n, "direction");
-    ld->has_force = fn != NULL;
+    ld->no_force = fn == NULL;
     if (fn && fn->type == N_SEQ) {
         static const hf_dim f2[2] = {HF_DIM_FORCE, HF_DIM_FORCE};
         double f[2];

@@ -561,7 +561,7 @@ static hf_status lookup_load(hf_model *m, const char *path, hf_param *p, hf_erro
     p->index = li;
     hf_load *ld = &m->loads[li];
     if (!strcmp(q, ".force")) {
-        if (!ld->has_force)
+        if (ld->no_force)
             return hf_error_set(err, HF_EINVAL,
                                 "parameter path \"%s\": the load case %s has no direct force (it "
                                 "is made of its wind and current terms); give it one in the case "
@@ -610,7 +610,7 @@ static double anchor_radius(const hf_model *m, const hf_model_line *l)
  * drag term's (0 for a load of a moment only), rad. */
 static double load_direction(const hf_load *ld)
 {
-    if (ld->has_force || ld->ndrag == 0)
+    if (!ld->no_force || ld->ndrag == 0)
         return ld->direction;
     return ld->drag[0].direction;
 }
@@ -619,7 +619,7 @@ static double load_direction(const hf_load *ld)
 static void load_turn(hf_load *ld, double to)
 {
     double by = to - load_direction(ld);
-    ld->direction = ld->has_force ? to : ld->direction;
+    ld->direction = !ld->no_force ? to : ld->direction;
     for (size_t i = 0; i < ld->ndrag; i++)
         ld->drag[i].direction += by;
 }

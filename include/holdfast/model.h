@@ -86,12 +86,13 @@ typedef struct {
 
 typedef struct {
     char *name;
-    int has_force;         /* 1 when the case gives a direct force (force:) */
     double force;          /* magnitude of the direct force, N (>= 0) */
     double direction;      /* direction the force acts toward, rad from global x */
     double moment;         /* yaw moment about the reference point, N m (ccw +) */
     size_t ndrag;
     hf_drag *drag;         /* wind and current terms */
+    int no_force;          /* 1 when the case gives no direct force (force: absent): the
+                              load is its drag terms and moment; 0 (the default) otherwise */
 } hf_load;
 
 typedef enum { HF_ANALYSIS_QUASI_STATIC = 0, HF_ANALYSIS_DYNAMIC } hf_analysis_kind;
@@ -152,7 +153,7 @@ size_t hf_model_load_find(const hf_model *m, const char *name);
  * current) when it has no direct force.  Setting it turns every part of the
  * load (the direct force and each wind and current term) by the same angle,
  * so their relative directions are kept.  "loads[X].force" needs a load with
- * a direct force (has_force): on a load made only of drag terms the lookup
+ * a direct force (no_force 0): on a load made only of drag terms the lookup
  * is refused rather than adding a force the case file does not have. */
 typedef struct {
     double *value;   /* where the SI value lives in the model (NULL for derived paths) */
