@@ -583,6 +583,27 @@ static void test_vary_twice_refused(void **s)
         assert_non_null(strstr(e.text, pairs[i][1]));
         assert_non_null(strstr(e.text, "varied twice"));
     }
+    /* a varied moment's column has no space in its unit (issue 12 item 17:
+     * it read "loads[gale].moment_N m") */
+    {
+        hf_vary v1;
+        memset(&v1, 0, sizeof v1);
+        double mom[] = {1.5e6};
+        v1.path = "loads[gale].moment";
+        v1.nvalues = 1;
+        v1.values = mom;
+        hf_error e1;
+        hf_sweep *sw1 = hf_sweep_alloc(&model, &v1, 1, 0, NULL, 0, 1, &e1);
+        assert_non_null(sw1);
+        char *text = NULL;
+        size_t len = 0;
+        FILE *f = open_memstream(&text, &len);
+        assert_int_equal(hf_sweep_write_header(sw1, f, &e1), HF_OK);
+        fclose(f);
+        assert_true(!strncmp(text, "loads[gale].moment_Nm,status,", 29));
+        free(text);
+        hf_sweep_free(sw1);
+    }
     /* different parameters of one line are fine */
     hf_vary v[2];
     memset(v, 0, sizeof v);
