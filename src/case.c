@@ -27,10 +27,10 @@ enum { N_SCALAR, N_SEQ, N_MAP };
 
 typedef struct node {
     int type;
-    int line, col;      /* 1-based position of the node's first character */
-    int plain;          /* scalar written without quotes */
-    char *text;         /* scalar text (NUL-terminated) */
-    size_t n, cap;      /* children: sequence items, or key, value, key, value, ... */
+    int line, col; /* 1-based position of the node's first character */
+    int plain;     /* scalar written without quotes */
+    char *text;    /* scalar text (NUL-terminated) */
+    size_t n, cap; /* children: sequence items, or key, value, key, value, ... */
     struct node **kids;
 } node;
 
@@ -64,7 +64,7 @@ static int node_add(node *parent, node *kid)
 typedef struct {
     const char *file;
     hf_model *m;
-    hf_study_list *studies;  /* the case's studies: filled beside the model */
+    hf_study_list *studies; /* the case's studies: filled beside the model */
     hf_error *err;
     char path[512];
     size_t plen;
@@ -86,7 +86,8 @@ static size_t push(ctx *c, const char *fmt, ...)
         int k = vsnprintf(c->path + c->plen, sizeof c->path - c->plen, fmt, ap);
         va_end(ap);
         if (k > 0)
-            c->plen += (size_t)k < sizeof c->path - c->plen ? (size_t)k : sizeof c->path - 1 - c->plen;
+            c->plen +=
+                (size_t)k < sizeof c->path - c->plen ? (size_t)k : sizeof c->path - 1 - c->plen;
     }
     return mark;
 }
@@ -216,9 +217,10 @@ static hf_status map_check(ctx *c, const node *n, const char *what, const char *
         if (!known && i >= 2 && isdigit((unsigned char)k->text[0]) && is_null(n->kids[i + 1]) &&
             n->kids[i - 1]->type == N_SCALAR) {
             const node *prev = n->kids[i - 1];
-            return fail(c, k, "expected a key of %s, got \"%s\": a decimal comma? in a {...} "
-                              "mapping a comma separates entries: write \"%s.%s\" (decimals "
-                              "with a point)",
+            return fail(c, k,
+                        "expected a key of %s, got \"%s\": a decimal comma? in a {...} "
+                        "mapping a comma separates entries: write \"%s.%s\" (decimals "
+                        "with a point)",
                         what, k->text, prev->text, k->text);
         }
         if (!known) {
@@ -291,8 +293,9 @@ static hf_status quantity(ctx *c, const node *n, hf_dim dim, double *out)
         return HF_OK;
     char fixed[HF_CASE_MAX_SCALAR + 1];
     if (decimal_comma(n->text, fixed, sizeof fixed))
-        return fail(c, n, "expected %s %s, got %s: a decimal comma? write \"%s\" (decimals with "
-                          "a point)",
+        return fail(c, n,
+                    "expected %s %s, got %s: a decimal comma? write \"%s\" (decimals with "
+                    "a point)",
                     article(dn), dn, GOT(n), fixed);
     return fail(c, n, "%s", sub.text);
 }
@@ -378,11 +381,13 @@ static hf_status name_check(ctx *c, const node *n, const char *what)
         return s;
     size_t len = strlen(t);
     if (len == 0)
-        return fail(c, n, "expected %s of at least one letter, digit, '_' or '-', got an empty "
-                          "name",
+        return fail(c, n,
+                    "expected %s of at least one letter, digit, '_' or '-', got an empty "
+                    "name",
                     what);
     if (len > HF_MODEL_MAX_NAME)
-        return fail_limit(c, n, "expected %s of at most %d bytes (HF_MODEL_MAX_NAME), got %zu bytes",
+        return fail_limit(c, n,
+                          "expected %s of at most %d bytes (HF_MODEL_MAX_NAME), got %zu bytes",
                           what, HF_MODEL_MAX_NAME, len);
     for (const char *p = t; *p; p++)
         if (!((*p >= 'a' && *p <= 'z') || (*p >= 'A' && *p <= 'Z') || (*p >= '0' && *p <= '9') ||
@@ -420,10 +425,11 @@ static hf_status choose(ctx *c, const node *n, const char *what, const char *con
         }
         hf_hint_try(&h, t, names[i]);
         if (len < sizeof list - 40)
-            len += (size_t)snprintf(list + len, sizeof list - len, "%s%s", len ? ", " : "",
-                                    names[i]);
+            len +=
+                (size_t)snprintf(list + len, sizeof list - len, "%s%s", len ? ", " : "", names[i]);
     }
-    return fail(c, n, "expected %s (%s), got \"%s\"%s", what, list, t, hf_hint_text(&h, hb, sizeof hb));
+    return fail(c, n, "expected %s (%s), got \"%s\"%s", what, list, t,
+                hf_hint_text(&h, hb, sizeof hb));
 }
 
 /* ---- site ---- */
@@ -453,9 +459,9 @@ static hf_status load_site(ctx *c, const node *n)
 
 /* ---- components ---- */
 
-static const char *const comp_keys[] = {"type", "grade", "diameter", "mass", "wet_weight",
-                                        "axial_stiffness", "breaking_load", "seabed_friction",
-                                        NULL};
+static const char *const comp_keys[] = {"type",          "grade",           "diameter",
+                                        "mass",          "wet_weight",      "axial_stiffness",
+                                        "breaking_load", "seabed_friction", NULL};
 
 static hf_status load_component(ctx *c, const node *key, const node *n, hf_model_component *mc)
 {
@@ -484,8 +490,9 @@ static hf_status load_component(ctx *c, const node *key, const node *n, hf_model
     if (gn) {
         mark = pushkey(c, "grade");
         if (!hf_component_is_chain(comp->type)) {
-            st = fail(c, gn, "expected no grade: only studless_chain and studlink_chain take one, "
-                             "got a grade for a %s",
+            st = fail(c, gn,
+                      "expected no grade: only studless_chain and studlink_chain take one, "
+                      "got a grade for a %s",
                       types[t]);
         } else {
             const char *grades[HF_GRADE_COUNT - 1];
@@ -556,8 +563,9 @@ static hf_status load_components(ctx *c, const node *n)
 
 /* ---- lines ---- */
 
-static const char *const line_keys[] = {"name", "anchor", "fairlead", "sections", "anchor_kind",
-                                        "block_weight", "block_friction", "max_uplift", NULL};
+static const char *const line_keys[] = {"name",           "anchor",      "fairlead",
+                                        "sections",       "anchor_kind", "block_weight",
+                                        "block_friction", "max_uplift",  NULL};
 static const char *const piece_keys[] = {"component", "length", "clump", "buoy", "friction", NULL};
 static const char *const anchor_kinds[] = {"drag", "gravity", "pile", "plate"};
 
@@ -571,8 +579,9 @@ static hf_status load_piece(ctx *c, const node *n, hf_piece *p)
                *bn = get(n, "buoy"), *fn = get(n, "friction");
     int kinds = (cn != NULL) + (kn != NULL) + (bn != NULL);
     if (kinds != 1)
-        return fail(c, n, "expected one of {component: NAME, length: L}, {clump: FORCE} or "
-                          "{buoy: FORCE}, got %s",
+        return fail(c, n,
+                    "expected one of {component: NAME, length: L}, {clump: FORCE} or "
+                    "{buoy: FORCE}, got %s",
                     kinds ? "more than one of component, clump and buoy" : "none of them");
     if (cn) {
         if (fn) {
@@ -632,8 +641,9 @@ static hf_status load_sections(ctx *c, const node *n, hf_model_line *l)
     if (!n || n->type != N_SEQ)
         return fail(c, n, "expected a list of sections from anchor to fairlead, got %s", GOT(n));
     if (n->n == 0)
-        return fail(c, n, "expected at least one section ({component: NAME, length: L}), got an "
-                          "empty list");
+        return fail(c, n,
+                    "expected at least one section ({component: NAME, length: L}), got an "
+                    "empty list");
     if (n->n > MAX_PIECES)
         return fail_limit(c, n, "expected at most %d entries, got %zu", MAX_PIECES, n->n);
     l->pieces = hf_calloc(n->n, sizeof *l->pieces);
@@ -676,8 +686,9 @@ static hf_status not_a_number(ctx *c, const node *nn, const char *what, const ch
     char gotbuf[96];
     if (nn->text[strspn(nn->text, "0123456789")] != '\0')
         return HF_OK;
-    return fail(c, nn, "expected %s with at least one letter, '_' or '-' (a number would be read "
-                       "as an index in %s), got %s",
+    return fail(c, nn,
+                "expected %s with at least one letter, '_' or '-' (a number would be read "
+                "as an index in %s), got %s",
                 what, form, GOT(nn));
 }
 
@@ -870,10 +881,10 @@ static hf_status load_hull(ctx *c, const node *n)
 
 /* ---- loads ---- */
 
-static const char *const load_keys[] = {"name", "force", "direction", "moment", "wind", "current",
-                                        NULL};
-static const char *const drag_keys[] = {"speed", "direction", "coefficient", "area", "density",
-                                        NULL};
+static const char *const load_keys[] = {"name", "force",   "direction", "moment",
+                                        "wind", "current", NULL};
+static const char *const drag_keys[] = {"speed", "direction", "coefficient",
+                                        "area",  "density",   NULL};
 
 static hf_status load_drag(ctx *c, const node *n, const char *what, double density, hf_drag *d)
 {
@@ -938,7 +949,8 @@ static hf_status load_load(ctx *c, const node *n, size_t index, int *lines, int 
     } else if (fn) {
         st = opt_quantity(c, n, "force", HF_DIM_FORCE, NONNEG, &ld->force);
         if (st == HF_OK && !dn)
-            return missing(c, n, "direction", "the direction of the force (an angle from global x)");
+            return missing(c, n, "direction",
+                           "the direction of the force (an angle from global x)");
         if (st == HF_OK)
             st = opt_quantity(c, n, "direction", HF_DIM_ANGLE, ANY, &ld->direction);
         if (st != HF_OK)
@@ -1003,7 +1015,7 @@ static hf_status load_loads(ctx *c, const node *n)
 
 /* ---- criteria ---- */
 
-static const char *const criteria_keys[] = {"preset", "analysis", "intact_factor",
+static const char *const criteria_keys[] = {"preset",         "analysis",   "intact_factor",
                                             "damaged_factor", "max_offset", NULL};
 static const char *const analysis_names[] = {"quasi-static", "dynamic"};
 
@@ -1075,8 +1087,8 @@ static hf_status load_criteria(ctx *c, const node *n)
 
 /* ---- studies ---- */
 
-static const char *const kind_names[] = {"lines", "curve", "stiffness", "balance", "sweep",
-                                         "invert"};
+static const char *const kind_names[] = {"lines",   "curve", "stiffness",
+                                         "balance", "sweep", "invert"};
 static const char *const *const study_keys[] = {
     (const char *const[]){"name", "kind", "offset", NULL},
     (const char *const[]){"name", "kind", "direction", "range", NULL},
@@ -1085,7 +1097,7 @@ static const char *const *const study_keys[] = {
     (const char *const[]){"name", "kind", "vary", "combine", "outputs", NULL},
     (const char *const[]){"name", "kind", "vary", "target", NULL},
 };
-static const char *const study_what[] = {"a lines study", "a curve study", "a stiffness study",
+static const char *const study_what[] = {"a lines study",   "a curve study", "a stiffness study",
                                          "a balance study", "a sweep study", "an invert study"};
 static const char *const vary_keys[] = {"path", "range", "values", NULL};
 static const char *const invert_vary_keys[] = {"path", "range", NULL};
@@ -1238,8 +1250,9 @@ static hf_status study_balance(ctx *c, const node *n, hf_study *s)
     hf_model *m = c->m;
     const node *ln = get(n, "loads");
     if (m->nloads == 0)
-        return fail(c, ln ? ln : n, "expected load cases in a loads: section for a balance "
-                                    "study, got none");
+        return fail(c, ln ? ln : n,
+                    "expected load cases in a loads: section for a balance "
+                    "study, got none");
     if (!ln)
         return HF_OK;
     size_t mark = pushkey(c, "loads");
@@ -1261,8 +1274,7 @@ static hf_status study_balance(ctx *c, const node *n, hf_study *s)
 
 /* Refuses a parameter varied twice (the same value through two spellings,
  * or two paths that move the same thing: hf_model_param_same). */
-static hf_status vary_unique(ctx *c, const node *vn, const hf_vary *v, const hf_param *p,
-                             size_t i)
+static hf_status vary_unique(ctx *c, const node *vn, const hf_vary *v, const hf_param *p, size_t i)
 {
     for (size_t j = 0; j < i; j++)
         if (hf_model_param_same(&p[j], &p[i])) {
@@ -1284,8 +1296,9 @@ static hf_status sweep_vary(ctx *c, const node *vn, hf_study *s, double counts[2
         return fail(c, vn, "expected a non-empty list of {path, range | values}, got %s",
                     vn->type == N_SEQ ? "an empty list" : GOT(vn));
     if (vn->n > HF_STUDY_MAX_VARY)
-        return fail_limit(c, vn, "expected at most %d varied parameters (HF_STUDY_MAX_VARY), "
-                                 "got %zu",
+        return fail_limit(c, vn,
+                          "expected at most %d varied parameters (HF_STUDY_MAX_VARY), "
+                          "got %zu",
                           HF_STUDY_MAX_VARY, vn->n);
     s->vary = hf_calloc(vn->n, sizeof *s->vary);
     if (!s->vary)
@@ -1415,8 +1428,7 @@ static hf_status target_line(ctx *c, const node *ln, const char **lt)
 }
 
 /* The target's output (with its line): one number of the output catalogue. */
-static hf_status target_output(ctx *c, const node *on, const char *ot, const char *lt,
-                               hf_output *o)
+static hf_status target_output(ctx *c, const node *on, const char *ot, const char *lt, hf_output *o)
 {
     char gotbuf[96], full[2 * HF_MODEL_MAX_NAME + 8];
     hf_status st = HF_OK;
@@ -1488,7 +1500,7 @@ static hf_status study_invert(ctx *c, const node *n, hf_study *s)
 
 /* One loader per study kind, indexed by hf_study_kind. */
 typedef hf_status (*study_loader)(ctx *, const node *, hf_study *);
-static const study_loader study_body[] = {study_offset, study_curve,  study_offset,
+static const study_loader study_body[] = {study_offset,  study_curve, study_offset,
                                           study_balance, study_sweep, study_invert};
 _Static_assert(sizeof study_body / sizeof study_body[0] == HF_STUDY_INVERT + 1,
                "one loader per hf_study_kind");
@@ -1501,8 +1513,9 @@ static hf_status load_study(ctx *c, const node *n, size_t index)
         return fail(c, n, "expected a study (a mapping with name and kind), got %s", GOT(n));
     const node *kn = get(n, "kind");
     if (!kn)
-        return missing(c, n, "kind", "a study kind (lines, curve, stiffness, balance, sweep, "
-                                     "invert)");
+        return missing(c, n, "kind",
+                       "a study kind (lines, curve, stiffness, balance, sweep, "
+                       "invert)");
     size_t k, mark = pushkey(c, "kind");
     hf_status st = choose(c, kn, "a study kind", kind_names, 6, &k);
     pop(c, mark);
@@ -1549,8 +1562,8 @@ static hf_status load_studies(ctx *c, const node *n)
 
 /* ---- top level ---- */
 
-static const char *const top_keys[] = {"title", "site", "components", "lines", "hull",
-                                       "loads", "criteria", "studies", NULL};
+static const char *const top_keys[] = {"title", "site",     "components", "lines", "hull",
+                                       "loads", "criteria", "studies",    NULL};
 
 static hf_status section(ctx *c, const node *root, const char *key,
                          hf_status (*fn)(ctx *, const node *))
@@ -1577,8 +1590,9 @@ static hf_status load_title(ctx *c, const node *n)
 static hf_status load_root(ctx *c, const node *root)
 {
     if (!root || is_null(root))
-        return fail(c, root, "expected a case (a mapping with site, components and lines), got "
-                             "an empty file");
+        return fail(c, root,
+                    "expected a case (a mapping with site, components and lines), got "
+                    "an empty file");
     hf_status st = map_check(c, root, "a case file", top_keys, "top-level key");
     if (st != HF_OK)
         return st;
@@ -1622,7 +1636,7 @@ typedef struct {
 typedef struct {
     anchor_ent *v;
     size_t n, cap;
-    size_t copied;  /* nodes created by aliases so far */
+    size_t copied; /* nodes created by aliases so far */
 } anchors;
 
 static void anchors_free(anchors *a)
@@ -1694,9 +1708,9 @@ static node *node_copy(const node *n)
 
 typedef struct {
     ctx *c;
-    node *stack[HF_CASE_MAX_DEPTH + 1];  /* open sequences and mappings */
+    node *stack[HF_CASE_MAX_DEPTH + 1]; /* open sequences and mappings */
     int depth, docs;
-    size_t nodes;                        /* every value built so far, alias copies included */
+    size_t nodes; /* every value built so far, alias copies included */
     anchors al;
     node **root;
 } builder;
@@ -1751,8 +1765,9 @@ static hf_status alias_target(builder *b, const node *at, const char *name, node
                     name);
     for (int i = 0; i < b->depth; i++)
         if (b->stack[i] == *target)
-            return fail(b->c, at, "expected an alias to a finished value, got *%s inside the "
-                                  "value it names",
+            return fail(b->c, at,
+                        "expected an alias to a finished value, got *%s inside the "
+                        "value it names",
                         name);
     return HF_OK;
 }
@@ -1770,18 +1785,21 @@ static hf_status on_alias(builder *b, const yaml_event_t *ev, const node *at)
     int height;
     size_t count = subtree(target, &height);
     if (b->depth + height > HF_CASE_MAX_DEPTH)
-        return fail_limit(b->c, at, "expected at most %d nested levels (HF_CASE_MAX_DEPTH), got "
-                                    "deeper nesting through *%s",
+        return fail_limit(b->c, at,
+                          "expected at most %d nested levels (HF_CASE_MAX_DEPTH), got "
+                          "deeper nesting through *%s",
                           HF_CASE_MAX_DEPTH, name);
     b->al.copied += count;
     b->nodes += count;
     if (b->nodes > HF_CASE_MAX_NODES)
-        return fail_limit(b->c, at, "expected at most %d values in a case file "
-                                    "(HF_CASE_MAX_NODES), got more at *%s",
+        return fail_limit(b->c, at,
+                          "expected at most %d values in a case file "
+                          "(HF_CASE_MAX_NODES), got more at *%s",
                           HF_CASE_MAX_NODES, name);
     if (b->al.copied > MAX_ALIAS_NODES)
-        return fail_limit(b->c, at, "expected aliases to expand to at most %d values, got more "
-                                    "at *%s",
+        return fail_limit(b->c, at,
+                          "expected aliases to expand to at most %d values, got more "
+                          "at *%s",
                           MAX_ALIAS_NODES, name);
     node *nn = node_copy(target);
     return nn ? attach(b, nn) : nomem(b->c);
@@ -1791,21 +1809,24 @@ static hf_status on_alias(builder *b, const yaml_event_t *ev, const node *at)
 static hf_status value_limits(builder *b, const yaml_event_t *ev, const node *at)
 {
     if (ev->type != YAML_SCALAR_EVENT && b->depth >= HF_CASE_MAX_DEPTH)
-        return fail_limit(b->c, at, "expected at most %d nested levels (HF_CASE_MAX_DEPTH), got "
-                                    "deeper nesting",
+        return fail_limit(b->c, at,
+                          "expected at most %d nested levels (HF_CASE_MAX_DEPTH), got "
+                          "deeper nesting",
                           HF_CASE_MAX_DEPTH);
     if (ev->type == YAML_SCALAR_EVENT) {
         size_t n = ev->data.scalar.length;
         if (n > HF_CASE_MAX_SCALAR)
-            return fail_limit(b->c, at, "expected a value of at most %d bytes "
-                                        "(HF_CASE_MAX_SCALAR), got %zu bytes",
+            return fail_limit(b->c, at,
+                              "expected a value of at most %d bytes "
+                              "(HF_CASE_MAX_SCALAR), got %zu bytes",
                               HF_CASE_MAX_SCALAR, n);
         if (memchr(ev->data.scalar.value, '\0', n))
             return fail(b->c, at, "expected text, got a value containing a NUL byte");
     }
     if (++b->nodes > HF_CASE_MAX_NODES)
-        return fail_limit(b->c, at, "expected at most %d values in a case file "
-                                    "(HF_CASE_MAX_NODES), got more",
+        return fail_limit(b->c, at,
+                          "expected at most %d values in a case file "
+                          "(HF_CASE_MAX_NODES), got more",
                           HF_CASE_MAX_NODES);
     return HF_OK;
 }
@@ -1909,8 +1930,8 @@ hf_status hf_case_load_buffer_with_studies(const char *textbuf, size_t len, cons
 {
     hf_study_list own;
     hf_study_list_init(&own);
-    ctx c = {.file = name ? name : "<case>", .m = m, .studies = studies ? studies : &own,
-             .err = err};
+    ctx c = {
+        .file = name ? name : "<case>", .m = m, .studies = studies ? studies : &own, .err = err};
     c.path[0] = '\0';
     hf_model_free(m);
     hf_study_list_free(studies);

@@ -110,14 +110,14 @@ int hf_cmd_invert(int argc, char **argv)
     if (!csv || strcmp(csv, "-")) {
         printf("%s = %.10g %s meets %s = %s (relative error %.2g, %d iterations)\n", v.path,
                v.dim == HF_DIM_ANGLE ? res.value * 180.0 / M_PI : res.value,
-               v.dim == HF_DIM_ANGLE ? "deg" : hf_dim_si(v.dim), oname, eq + 1,
-               res.relative_error, res.iterations);
+               v.dim == HF_DIM_ANGLE ? "deg" : hf_dim_si(v.dim), oname, eq + 1, res.relative_error,
+               res.iterations);
         fputs(hf_cli_caution, stdout);
     }
     if (csv) {
         of = hf_outfile_open(csv, &err);
-        if (!of || hf_invert_write_csv(hf_outfile_stream(of), &m, v.path, &o, target, &res,
-                                       &err) != HF_OK) {
+        if (!of || hf_invert_write_csv(hf_outfile_stream(of), &m, v.path, &o, target, &res, &err) !=
+                       HF_OK) {
             rc = hf_cli_fail(&err);
             goto done;
         }

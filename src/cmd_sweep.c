@@ -55,8 +55,8 @@ static int help(const char *arg)
 }
 
 typedef struct {
-    double start;      /* s */
-    double last;       /* s, last drawn */
+    double start; /* s */
+    double last;  /* s, last drawn */
     int drawn;
 } bar;
 
@@ -84,8 +84,8 @@ static void progress(void *ctx, uint64_t done, uint64_t total)
     for (int i = 0; i < w; i++)
         cells[i] = i < fill ? '#' : '.';
     cells[w] = '\0';
-    fprintf(stderr, "\r  [%s] %5.1f%%  %llu/%llu cases  %.0f/s  %.0f s left   ", cells,
-            100.0 * f, (unsigned long long)done, (unsigned long long)total, rate, eta);
+    fprintf(stderr, "\r  [%s] %5.1f%%  %llu/%llu cases  %.0f/s  %.0f s left   ", cells, 100.0 * f,
+            (unsigned long long)done, (unsigned long long)total, rate, eta);
     fflush(stderr);
 }
 
@@ -94,8 +94,8 @@ typedef struct {
     const char *case_path, *csv, *shard;
     int jobs, zip, quiet, allow_large;
     size_t nvary, noutputs;
-    const char **vary_text;  /* argc entries */
-    const char **outputs;    /* argc entries */
+    const char **vary_text; /* argc entries */
+    const char **outputs;   /* argc entries */
 } options;
 
 /* Parses the options; HF_CLI_CONTINUE, or the exit status (help, usage error). */
@@ -236,8 +236,7 @@ static int run_sweep(options *o, hf_model *m, hf_vary *vary)
             return hf_cli_fail(&err);
     if (o->jobs == 0)
         o->jobs = hf_study_default_jobs();
-    hf_sweep *s = hf_sweep_alloc(m, vary, o->nvary, o->zip, o->outputs, o->noutputs, o->jobs,
-                                 &err);
+    hf_sweep *s = hf_sweep_alloc(m, vary, o->nvary, o->zip, o->outputs, o->noutputs, o->jobs, &err);
     if (!s)
         return hf_cli_fail(&err);
     hf_sweep_range r;

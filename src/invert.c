@@ -19,16 +19,16 @@ static const char *out_unit(const hf_output *o, double *scale)
 }
 
 typedef struct {
-    hf_model model;        /* own copy */
+    hf_model model; /* own copy */
     const hf_model *base;
-    const char *path;      /* the parameter's path (borrowed) */
+    const char *path;                       /* the parameter's path (borrowed) */
     char otext[2 * HF_MODEL_MAX_NAME + 32]; /* the output as the user writes it */
     hf_param param;
     hf_spread *ws;
     hf_balance *bal;
     const hf_output *o;
     double target;
-    hf_status failed;      /* first failure inside the solver, HF_OK if none */
+    hf_status failed; /* first failure inside the solver, HF_OK if none */
     double failed_at;
     hf_error err;
 } problem;
@@ -134,8 +134,8 @@ static hf_status bracket_ends(problem *p, hf_invert_result *res, hf_error *err)
             return hf_error_set(err, HF_ERANGE,
                                 "invert: %s = %s (%s end of the bracket): the case does not "
                                 "solve there (%s); choose a bracket where it does",
-                                p->path, value_text(p, ends[i], x, sizeof x),
-                                i ? "upper" : "lower", p->err.text);
+                                p->path, value_text(p, ends[i], x, sizeof x), i ? "upper" : "lower",
+                                p->err.text);
     }
     res->f_lo = f[0];
     res->f_hi = f[1];
@@ -215,8 +215,7 @@ static hf_status verify(problem *p, hf_invert_result *res, double root, double r
 }
 
 hf_status hf_invert_solve(const hf_model *m, const char *path, double lo, double hi,
-                          const hf_output *o, double target, hf_invert_result *res,
-                          hf_error *err)
+                          const hf_output *o, double target, hf_invert_result *res, hf_error *err)
 {
     memset(res, 0, sizeof *res);
     if (!m || !path || !o)
@@ -250,9 +249,8 @@ hf_status hf_invert_solve(const hf_model *m, const char *path, double lo, double
     return st;
 }
 
-hf_status hf_invert_write_csv(FILE *out, const hf_model *m, const char *path,
-                              const hf_output *o, double target, const hf_invert_result *res,
-                              hf_error *err)
+hf_status hf_invert_write_csv(FILE *out, const hf_model *m, const char *path, const hf_output *o,
+                              double target, const hf_invert_result *res, hf_error *err)
 {
     hf_model copy;
     hf_param p;

@@ -236,8 +236,9 @@ static hf_status build_line(const hf_model *m, hf_model_line *l, hf_error *err)
                             "component sections, not at the fairlead end",
                             l->name, pending_at);
     if (ln->n == 0)
-        return hf_error_set(err, HF_EINVAL, "lines[%s].sections: expected at least one component "
-                                            "section, got none",
+        return hf_error_set(err, HF_EINVAL,
+                            "lines[%s].sections: expected at least one component "
+                            "section, got none",
                             l->name);
     hf_error sub;
     hf_error_clear(&sub);
@@ -315,13 +316,23 @@ hf_status hf_model_resolve(hf_model *m, hf_error *err)
 /* ---- parameter paths ---- */
 
 enum {
-    P_SITE_DEPTH = 1, P_SITE_LEVEL, P_SITE_DENSITY,
-    P_COMP_DIAMETER, P_COMP_PROP,       /* index = component, sub = hf_component_prop */
-    P_PIECE_LENGTH, P_PIECE_LOAD,       /* index = line, sub = piece */
-    P_ANCHOR_RADIUS, P_ANCHOR_X, P_ANCHOR_Y, /* index = line */
-    P_FAIRLEAD,                         /* index = line, sub = 0, 1, 2 */
-    P_LOAD_FORCE, P_LOAD_DIRECTION, P_LOAD_MOMENT, /* index = load */
-    P_HULL_HEADING, P_HULL_X, P_HULL_Y
+    P_SITE_DEPTH = 1,
+    P_SITE_LEVEL,
+    P_SITE_DENSITY,
+    P_COMP_DIAMETER,
+    P_COMP_PROP, /* index = component, sub = hf_component_prop */
+    P_PIECE_LENGTH,
+    P_PIECE_LOAD, /* index = line, sub = piece */
+    P_ANCHOR_RADIUS,
+    P_ANCHOR_X,
+    P_ANCHOR_Y, /* index = line */
+    P_FAIRLEAD, /* index = line, sub = 0, 1, 2 */
+    P_LOAD_FORCE,
+    P_LOAD_DIRECTION,
+    P_LOAD_MOMENT, /* index = load */
+    P_HULL_HEADING,
+    P_HULL_X,
+    P_HULL_Y
 };
 
 static const char path_forms[] =
@@ -676,8 +687,7 @@ static hf_status check_value(const hf_param *p, double value, hf_error *err)
     case P_PIECE_LENGTH:
     case P_PIECE_LOAD:
         if (!(value > 0.0))
-            return hf_error_set(err, HF_EINVAL,
-                                "parameter: expected a positive %s, got %.10g %s",
+            return hf_error_set(err, HF_EINVAL, "parameter: expected a positive %s, got %.10g %s",
                                 hf_dim_name(p->dim), value, hf_dim_si(p->dim));
         break;
     case P_COMP_PROP:

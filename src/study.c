@@ -47,8 +47,8 @@ void hf_study_list_free(hf_study_list *l)
 
 const char *hf_study_kind_name(hf_study_kind k)
 {
-    static const char *const names[] = {"lines", "curve", "stiffness", "balance", "sweep",
-                                        "invert"};
+    static const char *const names[] = {"lines",   "curve", "stiffness",
+                                        "balance", "sweep", "invert"};
     return (unsigned)k < sizeof names / sizeof names[0] ? names[k] : "?";
 }
 
@@ -193,8 +193,8 @@ hf_status hf_study_shard_parse(const char *text, unsigned *k, unsigned *n, hf_er
 {
     unsigned long a, b;
     const char *p = text;
-    if (!parse_uint(p, &p, &a) || *p != '/' || !parse_uint(p + 1, &p, &b) || *p != '\0' ||
-        a < 1 || a > b || b > HF_STUDY_MAX_SHARDS)
+    if (!parse_uint(p, &p, &a) || *p != '/' || !parse_uint(p + 1, &p, &b) || *p != '\0' || a < 1 ||
+        a > b || b > HF_STUDY_MAX_SHARDS)
         return hf_error_set(err, HF_EINVAL,
                             "--shard: expected K/N with whole numbers 1 <= K <= N <= %u, got "
                             "\"%s\"",
@@ -213,13 +213,13 @@ int hf_study_default_jobs(void)
 /* One block: chains of HF_STUDY_CHAIN cases aligned on absolute case
  * numbers, evaluated in parallel, each row into its own slot. */
 typedef struct {
-    uint64_t b0, b1;      /* cases of the block (emitted) */
-    char *buf;            /* block * row_cap */
-    int *len;             /* block row lengths */
+    uint64_t b0, b1; /* cases of the block (emitted) */
+    char *buf;       /* block * row_cap */
+    int *len;        /* block row lengths */
 } slab;
 
 typedef struct {
-    char *scratch;        /* jobs * row_cap, for cases that rebuild a chain */
+    char *scratch; /* jobs * row_cap, for cases that rebuild a chain */
     size_t row_cap;
     void **states;
     hf_study_row_fn row;
@@ -362,10 +362,9 @@ hf_status hf_study_stream(uint64_t begin, uint64_t end, void **states, hf_study_
         if (pending && opt->progress)
             opt->progress(opt->progress_ctx, pending->b1 - begin, total);
         if (overflow) {
-            st = hf_error_set(err, HF_ELIMIT,
-                              "a row of the cases %llu..%llu is longer than %zu bytes",
-                              (unsigned long long)next->b0, (unsigned long long)(next->b1 - 1),
-                              opt->row_cap);
+            st = hf_error_set(
+                err, HF_ELIMIT, "a row of the cases %llu..%llu is longer than %zu bytes",
+                (unsigned long long)next->b0, (unsigned long long)(next->b1 - 1), opt->row_cap);
             goto done;
         }
         pending = next;

@@ -39,17 +39,17 @@ typedef struct {
 
 typedef struct {
     const hf_sweep *plan;
-    hf_model model;              /* this thread's copy */
+    hf_model model; /* this thread's copy */
     hf_param param[HF_STUDY_MAX_VARY];
     hf_spread *ws;
-    hf_balance *bal;             /* NULL unless an offset output is asked for */
+    hf_balance *bal; /* NULL unless an offset output is asked for */
     hf_spread_result res;
     double K[6][6];
-    hf_status solved;            /* spread status of the current case */
-    hf_status *bal_status;       /* per distinct load */
-    double (*bal_offset)[3];     /* per distinct load: surge, sway (m), yaw (rad) */
-    double *vals;                /* ncols: the current row's outputs, column units */
-    uint64_t failed;             /* emitted cases whose status was not ok */
+    hf_status solved;        /* spread status of the current case */
+    hf_status *bal_status;   /* per distinct load */
+    double (*bal_offset)[3]; /* per distinct load: surge, sway (m), yaw (rad) */
+    double *vals;            /* ncols: the current row's outputs, column units */
+    uint64_t failed;         /* emitted cases whose status was not ok */
     hf_error err;
 } thread_state;
 
@@ -60,14 +60,14 @@ struct hf_sweep {
     hf_study_grid grid;
     size_t ncols;
     column *cols;
-    char **qname;                /* CSV-quoted line names */
+    char **qname; /* CSV-quoted line names */
     int need_k;
-    size_t nbal;                 /* distinct loads of offset outputs */
+    size_t nbal; /* distinct loads of offset outputs */
     size_t *bal_load;
     int jobs;
     thread_state **th;
     size_t row_cap;
-    hf_sweep_table *table;       /* during hf_sweep_run: where rows are kept, or NULL */
+    hf_sweep_table *table; /* during hf_sweep_run: where rows are kept, or NULL */
 };
 
 static void thread_free(thread_state *t)
@@ -254,8 +254,8 @@ static double column_value(const thread_state *t, const column *col)
         return t->bal_offset[col->slot][c->sub] * hf_output_column_scale(c);
     }
     if (hf_output_column_is_line(c)) {
-        size_t li = c->kind == HF_OUT_MAX_TENSION ? t->res.max_tension_line
-                                                  : t->res.max_utilisation_line;
+        size_t li =
+            c->kind == HF_OUT_MAX_TENSION ? t->res.max_tension_line : t->res.max_utilisation_line;
         return li < t->plan->base->nlines ? (double)li : NAN;
     }
     if (hf_output_info_of(c->kind)->per_line)
@@ -748,8 +748,7 @@ hf_status hf_sweep_write_rows(hf_sweep *s, const hf_sweep_range *r, FILE *out, h
 hf_status hf_sweep_case_row(hf_sweep *s, uint64_t k, char *buf, size_t cap, hf_error *err)
 {
     if (k >= s->grid.ncases)
-        return hf_error_set(err, HF_EINVAL, "sweep: case %llu out of range",
-                            (unsigned long long)k);
+        return hf_error_set(err, HF_EINVAL, "sweep: case %llu out of range", (unsigned long long)k);
     if (cap < s->row_cap)
         return hf_error_set(err, HF_ELIMIT, "sweep: a row needs up to %zu bytes", s->row_cap);
     thread_state *t = s->th[0];
@@ -787,7 +786,7 @@ hf_status hf_sweep_output_eval(const hf_model *m, hf_spread *ws, hf_balance *bal
     if (st != HF_OK)
         return st;
     *value = hf_output_info_of(o->kind)->per_line ? line_value(&t, o->kind, o->line)
-                                     : spread_value(&t, o->kind);
+                                                  : spread_value(&t, o->kind);
     return HF_OK;
 }
 
@@ -824,8 +823,7 @@ static hf_status quantity(const char *text, size_t n, hf_dim d, const char *whol
     return HF_OK;
 }
 
-hf_status hf_sweep_vary_parse(hf_model *m, const char *text, int bracket, hf_vary *v,
-                              hf_error *err)
+hf_status hf_sweep_vary_parse(hf_model *m, const char *text, int bracket, hf_vary *v, hf_error *err)
 {
     memset(v, 0, sizeof *v);
     const char *eq = strchr(text, '=');
@@ -875,8 +873,7 @@ hf_status hf_sweep_vary_parse(hf_model *m, const char *text, int bracket, hf_var
         if (!bracket && hf_study_vary_count(v) == 0) {
             hf_sweep_vary_clear(v);
             return hf_error_set(err, HF_EINVAL,
-                                "--vary %s: STEP must be non-zero and point from FROM to TO",
-                                text);
+                                "--vary %s: STEP must be non-zero and point from FROM to TO", text);
         }
         return HF_OK;
     }
