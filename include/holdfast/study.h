@@ -1,7 +1,11 @@
-/* study.h - the case space of a sweep and the ordered parallel row stream.
+/* study.h - the study list, the range rule, the case space of a sweep and
+ * the ordered parallel row stream.
  *
  * Flow: case -> model -> line solve -> spread -> **studies** -> writers.
- * This module knows nothing of mooring: it turns varied parameters (ranges
+ * The study list (hf_study_list) is what a case file's `studies:` section
+ * asks for; the case loader fills it beside the model and the drivers run
+ * it.  The rest of this module knows nothing of mooring: it counts ranges
+ * (hf_study_range_count, the one range rule), turns varied parameters (ranges
  * or lists, a full factorial grid or zipped lists) into case numbers and back
  * into values, splits a case range into shards, and drives any per-case row
  * function over a range of cases on several OpenMP threads while writing the
