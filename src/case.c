@@ -362,6 +362,27 @@ static hf_status vector(ctx *c, const node *n, size_t k, const hf_dim *dims, con
     return HF_OK;
 }
 
+/* A value of a varied parameter (list entry, range or bracket end): as
+ * quantity(), but an angle keeps its whole turns (hf_study_parse_value). */
+static hf_status varied(ctx *c, const node *n, hf_dim dim, double *out)
+{
+    hf_status st = quantity(c, n, dim, out);
+    if (st == HF_OK && dim == HF_DIM_ANGLE)
+        st = hf_study_parse_value(n->text, dim, out, NULL);
+    return st;
+}
+
+/* A list of k varied values of one dimension (a range or a bracket). */
+static hf_status varied_list(ctx *c, const node *n, size_t k, hf_dim dim, const char *what,
+                             double *out)
+{
+    const hf_dim dims[3] = {dim, dim, dim};
+    hf_status st = vector(c, n, k, dims, what, out);
+    for (size_t i = 0; st == HF_OK && i < k && dim == HF_DIM_ANGLE; i++)
+        st = varied(c, n->kids[i], dim, &out[i]);
+    return st;
+}
+
 static hf_status text(ctx *c, const node *n, const char *what, const char **out)
 {
     char gotbuf[96];
@@ -1108,9 +1129,8 @@ static const char *const target_keys[] = {"output", "line", "value", NULL};
 static hf_status range3(ctx *c, const node *n, hf_dim dim, double *from, double *to, double *step,
                         double *count)
 {
-    const hf_dim d3[3] = {dim, dim, dim};
     double v[3];
-    hf_status st = vector(c, n, 3, d3, "a range [from, to, step]", v);
+    hf_status st = varied_list(c, n, 3, dim, "a range [from, to, step]", v);
     if (st != HF_OK)
         return st;
     size_t k = hf_study_range_count(v[0], v[1], v[2], (size_t)MAX_RANGE_POINTS);
@@ -1172,7 +1192,7 @@ static hf_status vary_values(ctx *c, const node *vn, hf_vary *v, double *count)
     hf_status st = HF_OK;
     for (size_t i = 0; st == HF_OK && i < vn->n; i++) {
         size_t m2 = push(c, "[%zu]", i);
-        st = quantity(c, vn->kids[i], v->dim, &v->values[i]);
+        st = varied(c, vn->kids[i], v->dim, &v->values[i]);
         pop(c, m2);
     }
     *count = (double)vn->n;
@@ -1394,10 +1414,9 @@ static hf_status invert_vary(ctx *c, const node *vn, hf_vary *v)
     if (st != HF_OK)
         return st;
     const node *rn = get(vn, "range");
-    const hf_dim d2[2] = {v->dim, v->dim};
     double r[2];
     size_t m2 = pushkey(c, "range");
-    st = vector(c, rn, 2, d2, "a bracket [lo, hi]", r);
+    st = varied_list(c, rn, 2, v->dim, "a bracket [lo, hi]", r);
     if (st == HF_OK && !(r[0] < r[1]))
         st = fail(c, rn, "expected a bracket [lo, hi] with lo < hi, got [%s, %s]",
                   rn->kids[0]->text, rn->kids[1]->text);

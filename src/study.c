@@ -54,6 +54,27 @@ const char *hf_study_kind_name(hf_study_kind k)
 
 /* ---- ranges ---- */
 
+hf_status hf_study_parse_value(const char *text, hf_dim d, double *out, hf_error *err)
+{
+    hf_status st = hf_units_parse(text, d, out, err);
+    if (st != HF_OK || d != HF_DIM_ANGLE)
+        return st;
+    /* The text is a valid angle: its number (decimal, as hf_units_parse
+     * reads it) times the angle of one of its unit, without the reduction. */
+    char *end;
+    double num = strtod(text, &end), one;
+    char unit[64];
+    if (end == text || snprintf(unit, sizeof unit, "1%s", end) >= (int)sizeof unit ||
+        hf_units_parse(unit, HF_DIM_ANGLE, &one, NULL) != HF_OK)
+        return HF_OK; /* keep the reduced value */
+    double x = num * one;
+    /* Up to HF_STUDY_MAX_TURNS whole turns are kept; beyond, the reduced
+     * value stands (exact: reduced in degrees first), so 1e15 deg is 280 deg. */
+    if (isfinite(x) && fabs(x) <= HF_STUDY_MAX_TURNS * 2.0 * M_PI)
+        *out = x;
+    return HF_OK;
+}
+
 /* The tolerance of the range rule, in steps: 1e-9 of a step for rounding
  * in the division, plus 64 ulps of the values' magnitude (the rounding of
  * TO - FROM, which grows with the values, not with the step). */

@@ -818,7 +818,7 @@ static hf_status quantity(const char *text, size_t n, hf_dim d, const char *whol
     buf[n] = '\0';
     hf_error sub;
     hf_error_clear(&sub);
-    if (hf_units_parse(buf, d, out, &sub) != HF_OK)
+    if (hf_study_parse_value(buf, d, out, &sub) != HF_OK)
         return hf_error_set(err, HF_EINVAL, "--vary %s: %s", whole, sub.text);
     return HF_OK;
 }

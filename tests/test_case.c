@@ -511,7 +511,7 @@ static const char full_case[] =
     "    vary:\n"
     "      - {path: \"lines[n1].sections[1].clump\", values: [10 kN, 20 kN, 35 kN]}\n"
     "      - {path: \"lines[0].sections[4].buoy\", values: [1 kN, 2 kN, 3 kN]}\n"
-    "      - {path: hull.heading, range: [0, 10, 2.5]}\n"
+    "      - {path: hull.heading, range: [0, 710, 2.5]}\n"
     "    combine: grid\n"
     "    outputs: [fairlead_tension, \"utilisation:n2\", max_utilisation]\n"
     "  - name: s2\n"
@@ -636,6 +636,9 @@ static void full_case_loads(void **state)
     HF_TEST_ASSERT_NEAR(s[4].vary[0].values[2], 35e3, 1e-9);
     assert_int_equal(s[4].vary[2].dim, HF_DIM_ANGLE);
     HF_TEST_ASSERT_NEAR(s[4].vary[2].step, 2.5 * deg, 1e-12); /* plain angles are degrees */
+    /* a range of angles keeps its whole turns: 0 to 710 deg, 285 values */
+    HF_TEST_ASSERT_NEAR(s[4].vary[2].to, 710 * deg, 1e-12);
+    assert_int_equal(hf_study_vary_count(&s[4].vary[2]), 285);
     assert_int_equal(s[4].zip, 0);
     assert_int_equal(s[4].noutputs, 3);
     assert_string_equal(s[4].outputs[1], "utilisation:n2");

@@ -209,6 +209,14 @@ static void test_vary_parse(void **s)
                      HF_OK);
     assert_true(v.from == 380 && v.to == 425);
     hf_sweep_vary_clear(&v);
+    /* Headings over two turns: nine values (each of FROM, TO, STEP reduced
+     * to one turn made it the single value 0), and a bracket across 360 deg. */
+    assert_int_equal(hf_sweep_vary_parse(&model, "hull.heading=0:720:90", 0, &v, &e), HF_OK);
+    assert_int_equal(hf_study_vary_count(&v), 9);
+    hf_sweep_vary_clear(&v);
+    assert_int_equal(hf_sweep_vary_parse(&model, "hull.heading=350:370", 1, &v, &e), HF_OK);
+    assert_true(v.from < v.to);
+    hf_sweep_vary_clear(&v);
     const char *bad[] = {"site.depth", "=1,2", "site.depth=", "site.depth=1:2",
                          "site.depth=3:1:1", "site.depth=1:2:0", "site.depth=1,nan",
                          "site.depth=1e309", "site.depth=3 kN", "site.deep=1,2",

@@ -86,6 +86,19 @@ const char *hf_study_kind_name(hf_study_kind k);
 
 /* ---- ranges ---- */
 
+/* Reads one value of a varied parameter (a list entry, a range's FROM, TO or
+ * STEP, an inversion's bracket) of dimension d into *out, SI: as
+ * hf_units_parse (units.h), except that angles are not reduced by whole
+ * turns.  A range of headings 0:720:90 deg spans two turns and its step
+ * 450 deg is not 90 deg: reducing FROM, TO and STEP one by one would change
+ * the range (0:720:90 became the single value 0).  Each case's angle is a
+ * direction again once set in the model.  Angles of more than
+ * HF_STUDY_MAX_TURNS turns are reduced as hf_units_parse does (exactly, in
+ * degrees), so 1e15 deg gives the 280 deg it is.  HF_EINVAL with
+ * hf_units_parse's message. */
+#define HF_STUDY_MAX_TURNS 100
+hf_status hf_study_parse_value(const char *text, hf_dim d, double *out, hf_error *err);
+
 /* The one range rule of holdfast (case files, --vary, --range): the number
  * of values FROM, FROM + STEP, ... up to TO.  TO is included when it lies on
  * the grid up to rounding: the tolerance is 1e-9 of a step plus 64 units in
