@@ -41,7 +41,8 @@ typedef struct hf_sweep hf_sweep;
  * taken from the model, not from vary[].dim); zip: zipped lists; outputs:
  * noutputs names (0 = defaults); jobs >= 1 threads (a model copy and
  * workspaces are allocated for each here, once).  Returns NULL with err:
- * HF_EINVAL (unknown path or output, zip lengths differ, empty range),
+ * HF_EINVAL (unknown path or output, zip lengths differ, empty range, a
+ * parameter varied twice: hf_model_param_same),
  * HF_ELIMIT (too many cases or parameters), HF_ENOMEM. */
 hf_sweep *hf_sweep_alloc(const hf_model *m, const hf_vary *vary, size_t nvary, int zip,
                          const char *const *outputs, size_t noutputs, int jobs, hf_error *err);
@@ -167,8 +168,9 @@ const char *hf_sweep_status_word(hf_status s);
  * dimension goes into v->dim).  SPEC is "FROM:TO:STEP" (a range), or
  * "V1,V2,..." (a list; one value is a list of one); with `bracket` set it
  * must be "LO:HI" (stored in from/to, step 0, LO < HI).  Each number is read
- * by hf_units_parse with the parameter's dimension: a plain number is SI
- * (degrees for angles), and units are allowed ("76mm", "1.5 kN").  v->path
+ * by hf_study_parse_value with the parameter's dimension: a plain number is
+ * SI (degrees for angles, which keep their whole turns), and units are
+ * allowed ("76mm", "1.5 kN").  v->path
  * points into `text`'s copy owned by v; release with hf_sweep_vary_clear.
  * HF_EINVAL with a message, HF_ENOMEM. */
 hf_status hf_sweep_vary_parse(hf_model *m, const char *text, int bracket, hf_vary *v,
