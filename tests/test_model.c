@@ -457,6 +457,19 @@ static void load_direction_turns_everything(void **state)
         assert_int_equal(hf_model_param_get(&m, &p, &d1, &err), HF_OK);
         HF_TEST_ASSERT_NEAR(d1, d0 + turn, 1e-12);
     }
+    /* a parameter that was not looked up is a failure, not a plausible 0.0
+     * (issue 11 item 5) */
+    {
+        hf_param none;
+        memset(&none, 0, sizeof none);
+        double v = 2.385;
+        assert_int_equal(hf_model_param_get(&m, &none, &v, &err), HF_EINVAL);
+        assert_true(v == 2.385); /* left untouched */
+        hf_param far;
+        assert_int_equal(hf_model_param_lookup(&m, "loads[mixed].direction", &far, &err), HF_OK);
+        far.index = 99; /* bound to another model */
+        assert_int_equal(hf_model_param_get(&m, &far, &v, &err), HF_EINVAL);
+    }
     /* a load without a direct force cannot have its force varied */
     hf_param p;
     assert_int_equal(hf_model_param_lookup(&m, "loads[drag-only].force", &p, &err), HF_EINVAL);
