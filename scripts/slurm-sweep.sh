@@ -3,9 +3,11 @@
 #
 # Each array task runs `holdfast sweep --shard K/N` on its own contiguous part
 # of the cases and writes $OUT/part-K.csv (K zero-padded to 6 digits, so the
-# parts sort in order).  Only part 1 carries the CSV header, so the parts
-# concatenated in order are byte for byte the single-machine sweep;
-# scripts/merge-shards.sh does that and checks that no part is missing.
+# parts sort in order) with its sidecar $OUT/part-K.csv.shard (the sweep's
+# fingerprint, K of N, the first case).  Only part 1 carries the CSV header,
+# so the parts concatenated in order are byte for byte the single-machine
+# sweep; scripts/merge-shards.sh does that and refuses missing parts and
+# parts that belong to another sweep or do not fit together.
 #
 # Submit (the array must run 1..N; N is taken from the array size):
 #

@@ -1,4 +1,5 @@
 /* case.c - reads a YAML case file (libyaml events) into an hf_model, with located errors. */
+#include <ctype.h>
 #include <errno.h>
 #include <math.h>
 #include <stdarg.h>
@@ -26,10 +27,10 @@ enum { N_SCALAR, N_SEQ, N_MAP };
 
 typedef struct node {
     int type;
-    int line, col;      /* 1-based position of the node's first character */
-    int plain;          /* scalar written without quotes */
-    char *text;         /* scalar text (NUL-terminated) */
-    size_t n, cap;      /* children: sequence items, or key, value, key, value, ... */
+    int line, col; /* 1-based position of the node's first character */
+    int plain;     /* scalar written without quotes */
+    char *text;    /* scalar text (NUL-terminated) */
+    size_t n, cap; /* children: sequence items, or key, value, key, value, ... */
     struct node **kids;
 } node;
 
@@ -63,7 +64,7 @@ static int node_add(node *parent, node *kid)
 typedef struct {
     const char *file;
     hf_model *m;
-    hf_study_list *studies;  /* the case's studies: filled beside the model */
+    hf_study_list *studies; /* the case's studies: filled beside the model */
     hf_error *err;
     char path[512];
     size_t plen;
@@ -85,7 +86,8 @@ static size_t push(ctx *c, const char *fmt, ...)
         int k = vsnprintf(c->path + c->plen, sizeof c->path - c->plen, fmt, ap);
         va_end(ap);
         if (k > 0)
-            c->plen += (size_t)k < sizeof c->path - c->plen ? (size_t)k : sizeof c->path - 1 - c->plen;
+            c->plen +=
+                (size_t)k < sizeof c->path - c->plen ? (size_t)k : sizeof c->path - 1 - c->plen;
     }
     return mark;
 }
@@ -212,6 +214,15 @@ static hf_status map_check(ctx *c, const node *n, const char *what, const char *
                 known = 1;
             hf_hint_try(&h, k->text, *q);
         }
+        if (!known && i >= 2 && isdigit((unsigned char)k->text[0]) && is_null(n->kids[i + 1]) &&
+            n->kids[i - 1]->type == N_SCALAR) {
+            const node *prev = n->kids[i - 1];
+            return fail(c, k,
+                        "expected a key of %s, got \"%s\": a decimal comma? in a {...} "
+                        "mapping a comma separates entries: write \"%s.%s\" (decimals "
+                        "with a point)",
+                        what, k->text, prev->text, k->text);
+        }
         if (!known) {
             char list[400];
             size_t len = 0;
@@ -256,6 +267,19 @@ static hf_status missing(ctx *c, const node *map, const char *key, const char *w
     return s;
 }
 
+/* When text reads as a number with a decimal comma ("76,5 mm"), the same
+ * with a point into buf and 1; else 0. */
+static int decimal_comma(const char *text, char *buf, size_t cap)
+{
+    const char *comma = strchr(text, ',');
+    if (!comma || comma == text || strchr(comma + 1, ',') || strlen(text) >= cap ||
+        !isdigit((unsigned char)comma[-1]) || !isdigit((unsigned char)comma[1]))
+        return 0;
+    strcpy(buf, text);
+    buf[comma - text] = '.';
+    return 1;
+}
+
 /* A quantity of dimension dim from a scalar node. */
 static hf_status quantity(ctx *c, const node *n, hf_dim dim, double *out)
 {
@@ -265,9 +289,15 @@ static hf_status quantity(ctx *c, const node *n, hf_dim dim, double *out)
         return fail(c, n, "expected %s %s, got %s", article(dn), dn, GOT(n));
     hf_error sub;
     hf_error_clear(&sub);
-    if (hf_units_parse(n->text, dim, out, &sub) != HF_OK)
-        return fail(c, n, "%s", sub.text);
-    return HF_OK;
+    if (hf_units_parse(n->text, dim, out, &sub) == HF_OK)
+        return HF_OK;
+    char fixed[HF_CASE_MAX_SCALAR + 1];
+    if (decimal_comma(n->text, fixed, sizeof fixed))
+        return fail(c, n,
+                    "expected %s %s, got %s: a decimal comma? write \"%s\" (decimals with "
+                    "a point)",
+                    article(dn), dn, GOT(n), fixed);
+    return fail(c, n, "%s", sub.text);
 }
 
 enum { ANY = 0, POSITIVE, NONNEG };
@@ -332,6 +362,27 @@ static hf_status vector(ctx *c, const node *n, size_t k, const hf_dim *dims, con
     return HF_OK;
 }
 
+/* A value of a varied parameter (list entry, range or bracket end): as
+ * quantity(), but an angle keeps its whole turns (hf_study_parse_value). */
+static hf_status varied(ctx *c, const node *n, hf_dim dim, double *out)
+{
+    hf_status st = quantity(c, n, dim, out);
+    if (st == HF_OK && dim == HF_DIM_ANGLE)
+        st = hf_study_parse_value(n->text, dim, out, NULL);
+    return st;
+}
+
+/* A list of k varied values of one dimension (a range or a bracket). */
+static hf_status varied_list(ctx *c, const node *n, size_t k, hf_dim dim, const char *what,
+                             double *out)
+{
+    const hf_dim dims[3] = {dim, dim, dim};
+    hf_status st = vector(c, n, k, dims, what, out);
+    for (size_t i = 0; st == HF_OK && i < k && dim == HF_DIM_ANGLE; i++)
+        st = varied(c, n->kids[i], dim, &out[i]);
+    return st;
+}
+
 static hf_status text(ctx *c, const node *n, const char *what, const char **out)
 {
     char gotbuf[96];
@@ -350,8 +401,14 @@ static hf_status name_check(ctx *c, const node *n, const char *what)
     if (s != HF_OK)
         return s;
     size_t len = strlen(t);
+    if (len == 0)
+        return fail(c, n,
+                    "expected %s of at least one letter, digit, '_' or '-', got an empty "
+                    "name",
+                    what);
     if (len > HF_MODEL_MAX_NAME)
-        return fail_limit(c, n, "expected %s of at most %d bytes (HF_MODEL_MAX_NAME), got %zu bytes",
+        return fail_limit(c, n,
+                          "expected %s of at most %d bytes (HF_MODEL_MAX_NAME), got %zu bytes",
                           what, HF_MODEL_MAX_NAME, len);
     for (const char *p = t; *p; p++)
         if (!((*p >= 'a' && *p <= 'z') || (*p >= 'A' && *p <= 'Z') || (*p >= '0' && *p <= '9') ||
@@ -389,10 +446,11 @@ static hf_status choose(ctx *c, const node *n, const char *what, const char *con
         }
         hf_hint_try(&h, t, names[i]);
         if (len < sizeof list - 40)
-            len += (size_t)snprintf(list + len, sizeof list - len, "%s%s", len ? ", " : "",
-                                    names[i]);
+            len +=
+                (size_t)snprintf(list + len, sizeof list - len, "%s%s", len ? ", " : "", names[i]);
     }
-    return fail(c, n, "expected %s (%s), got \"%s\"%s", what, list, t, hf_hint_text(&h, hb, sizeof hb));
+    return fail(c, n, "expected %s (%s), got \"%s\"%s", what, list, t,
+                hf_hint_text(&h, hb, sizeof hb));
 }
 
 /* ---- site ---- */
@@ -422,9 +480,9 @@ static hf_status load_site(ctx *c, const node *n)
 
 /* ---- components ---- */
 
-static const char *const comp_keys[] = {"type", "grade", "diameter", "mass", "wet_weight",
-                                        "axial_stiffness", "breaking_load", "seabed_friction",
-                                        NULL};
+static const char *const comp_keys[] = {"type",          "grade",           "diameter",
+                                        "mass",          "wet_weight",      "axial_stiffness",
+                                        "breaking_load", "seabed_friction", NULL};
 
 static hf_status load_component(ctx *c, const node *key, const node *n, hf_model_component *mc)
 {
@@ -453,8 +511,9 @@ static hf_status load_component(ctx *c, const node *key, const node *n, hf_model
     if (gn) {
         mark = pushkey(c, "grade");
         if (!hf_component_is_chain(comp->type)) {
-            st = fail(c, gn, "expected no grade: only studless_chain and studlink_chain take one, "
-                             "got a grade for a %s",
+            st = fail(c, gn,
+                      "expected no grade: only studless_chain and studlink_chain take one, "
+                      "got a grade for a %s",
                       types[t]);
         } else {
             const char *grades[HF_GRADE_COUNT - 1];
@@ -525,8 +584,9 @@ static hf_status load_components(ctx *c, const node *n)
 
 /* ---- lines ---- */
 
-static const char *const line_keys[] = {"name", "anchor", "fairlead", "sections", "anchor_kind",
-                                        "block_weight", "block_friction", "max_uplift", NULL};
+static const char *const line_keys[] = {"name",           "anchor",      "fairlead",
+                                        "sections",       "anchor_kind", "block_weight",
+                                        "block_friction", "max_uplift",  NULL};
 static const char *const piece_keys[] = {"component", "length", "clump", "buoy", "friction", NULL};
 static const char *const anchor_kinds[] = {"drag", "gravity", "pile", "plate"};
 
@@ -540,8 +600,9 @@ static hf_status load_piece(ctx *c, const node *n, hf_piece *p)
                *bn = get(n, "buoy"), *fn = get(n, "friction");
     int kinds = (cn != NULL) + (kn != NULL) + (bn != NULL);
     if (kinds != 1)
-        return fail(c, n, "expected one of {component: NAME, length: L}, {clump: FORCE} or "
-                          "{buoy: FORCE}, got %s",
+        return fail(c, n,
+                    "expected one of {component: NAME, length: L}, {clump: FORCE} or "
+                    "{buoy: FORCE}, got %s",
                     kinds ? "more than one of component, clump and buoy" : "none of them");
     if (cn) {
         if (fn) {
@@ -601,8 +662,9 @@ static hf_status load_sections(ctx *c, const node *n, hf_model_line *l)
     if (!n || n->type != N_SEQ)
         return fail(c, n, "expected a list of sections from anchor to fairlead, got %s", GOT(n));
     if (n->n == 0)
-        return fail(c, n, "expected at least one section ({component: NAME, length: L}), got an "
-                          "empty list");
+        return fail(c, n,
+                    "expected at least one section ({component: NAME, length: L}), got an "
+                    "empty list");
     if (n->n > MAX_PIECES)
         return fail_limit(c, n, "expected at most %d entries, got %zu", MAX_PIECES, n->n);
     l->pieces = hf_calloc(n->n, sizeof *l->pieces);
@@ -637,35 +699,51 @@ static hf_status load_sections(ctx *c, const node *n, hf_model_line *l)
     return HF_OK;
 }
 
-static hf_status load_line(ctx *c, const node *n, size_t index)
+/* Refuses a name made of digits only: parameter paths take a line or a load
+ * by name or by index (lines[1], loads[0]), and such a name would shadow an
+ * index. */
+static hf_status not_a_number(ctx *c, const node *nn, const char *what, const char *form)
 {
     char gotbuf[96];
+    if (nn->text[strspn(nn->text, "0123456789")] != '\0')
+        return HF_OK;
+    return fail(c, nn,
+                "expected %s with at least one letter, '_' or '-' (a number would be read "
+                "as an index in %s), got %s",
+                what, form, GOT(nn));
+}
+
+/* A line's name: valid, unique, not empty and not a plain number (a line
+ * named "1" would shadow index 1 in parameter paths such as lines[1]). */
+static hf_status line_name(ctx *c, const node *n, size_t index)
+{
     hf_model *m = c->m;
     hf_model_line *l = &m->lines[index];
-    hf_status st = map_check(c, n, "a line", line_keys, "key");
-    if (st != HF_OK)
-        return st;
-    l->src_line = n->line;
-    l->src_col = n->col;
     const node *nn = get(n, "name");
     if (!nn)
         return missing(c, n, "name", "a line name");
     size_t mark = pushkey(c, "name");
-    st = name_dup(c, nn, "a line name", &l->name);
+    hf_status st = name_dup(c, nn, "a line name", &l->name);
+    if (st == HF_OK)
+        st = not_a_number(c, nn, "a line name", "lines[INDEX]");
     for (size_t j = 0; st == HF_OK && j < index; j++)
         if (!strcmp(m->lines[j].name, l->name))
             st = fail(c, nn, "expected a unique line name, got \"%s\" again (first at %d:%d)",
                       l->name, m->lines[j].src_line, m->lines[j].src_col);
     pop(c, mark);
-    if (st != HF_OK)
-        return st;
+    return st;
+}
 
+/* The anchor's global [x, y] and the fairlead's hull-frame [x, y, z]. */
+static hf_status line_ends(ctx *c, const node *n, hf_model_line *l)
+{
+    char gotbuf[96];
     static const hf_dim len3[3] = {HF_DIM_LENGTH, HF_DIM_LENGTH, HF_DIM_LENGTH};
     const node *an = get(n, "anchor"), *fl = get(n, "fairlead");
     if (!an)
         return missing(c, n, "anchor", "the anchor's global [x, y]");
-    mark = pushkey(c, "anchor");
-    st = vector(c, an, 2, len3, "the anchor's global [x, y]", l->anchor);
+    size_t mark = pushkey(c, "anchor");
+    hf_status st = vector(c, an, 2, len3, "the anchor's global [x, y]", l->anchor);
     pop(c, mark);
     if (st != HF_OK)
         return st;
@@ -673,7 +751,7 @@ static hf_status load_line(ctx *c, const node *n, size_t index)
         return missing(c, n, "fairlead", "the fairlead's hull-frame [x, y, z]");
     mark = pushkey(c, "fairlead");
     st = vector(c, fl, 3, len3, "the fairlead's hull-frame [x, y, z]", l->fairlead);
-    double seabed = -hf_model_water_height(m);
+    double seabed = -hf_model_water_height(c->m);
     if (st == HF_OK && l->fairlead[2] < seabed) {
         size_t m2 = push(c, "[2]");
         st = fail(c, fl->kids[2],
@@ -682,26 +760,19 @@ static hf_status load_line(ctx *c, const node *n, size_t index)
         pop(c, m2);
     }
     pop(c, mark);
-    if (st != HF_OK)
-        return st;
+    return st;
+}
 
-    const node *sn = get(n, "sections");
-    if (!sn)
-        return missing(c, n, "sections", "a list of sections from anchor to fairlead");
-    mark = pushkey(c, "sections");
-    st = load_sections(c, sn, l);
-    pop(c, mark);
-    if (st != HF_OK)
-        return st;
-
-    hf_anchor *a = &l->anchor_spec;
+/* anchor_kind and the keys that go with it. */
+static hf_status line_anchor(ctx *c, const node *n, hf_anchor *a)
+{
+    char gotbuf[96];
     a->kind = HF_ANCHOR_DRAG;
     a->friction = 0.5;
     const node *kn = get(n, "anchor_kind");
     if (kn) {
-        size_t k;
-        mark = pushkey(c, "anchor_kind");
-        st = choose(c, kn, "an anchor kind", anchor_kinds, 4, &k);
+        size_t k, mark = pushkey(c, "anchor_kind");
+        hf_status st = choose(c, kn, "an anchor kind", anchor_kinds, 4, &k);
         pop(c, mark);
         if (st != HF_OK)
             return st;
@@ -713,17 +784,16 @@ static hf_status load_line(ctx *c, const node *n, size_t index)
     } only[] = {{"block_weight", HF_ANCHOR_GRAVITY},
                 {"block_friction", HF_ANCHOR_GRAVITY},
                 {"max_uplift", HF_ANCHOR_DRAG}};
-    for (size_t i = 0; i < 3; i++) {
-        const node *v = get(n, only[i].key);
-        if (v && a->kind != only[i].kind) {
-            mark = pushkey(c, only[i].key);
-            st = fail(c, getkey(n, only[i].key),
-                      "expected %s only with anchor_kind: %s, got it for a %s anchor", only[i].key,
-                      anchor_kinds[only[i].kind], anchor_kinds[a->kind]);
+    for (size_t i = 0; i < 3; i++)
+        if (get(n, only[i].key) && a->kind != only[i].kind) {
+            size_t mark = pushkey(c, only[i].key);
+            hf_status st = fail(c, getkey(n, only[i].key),
+                                "expected %s only with anchor_kind: %s, got it for a %s anchor",
+                                only[i].key, anchor_kinds[only[i].kind], anchor_kinds[a->kind]);
             pop(c, mark);
             return st;
         }
-    }
+    hf_status st = HF_OK;
     if (a->kind == HF_ANCHOR_GRAVITY) {
         st = req_quantity(c, n, "block_weight", HF_DIM_FORCE, POSITIVE, &a->weight);
         if (st == HF_OK)
@@ -731,13 +801,34 @@ static hf_status load_line(ctx *c, const node *n, size_t index)
     } else if (a->kind == HF_ANCHOR_DRAG) {
         st = opt_quantity(c, n, "max_uplift", HF_DIM_ANGLE, NONNEG, &a->max_uplift_angle);
         if (st == HF_OK && !(a->max_uplift_angle < M_PI / 2)) {
-            mark = pushkey(c, "max_uplift");
+            size_t mark = pushkey(c, "max_uplift");
             st = fail(c, get(n, "max_uplift"), "expected an angle from 0 to below 90 deg, got %s",
                       GOT(get(n, "max_uplift")));
             pop(c, mark);
         }
     }
     return st;
+}
+
+static hf_status load_line(ctx *c, const node *n, size_t index)
+{
+    hf_model_line *l = &c->m->lines[index];
+    hf_status st = map_check(c, n, "a line", line_keys, "key");
+    if (st != HF_OK)
+        return st;
+    l->src_line = n->line;
+    l->src_col = n->col;
+    if ((st = line_name(c, n, index)) != HF_OK || (st = line_ends(c, n, l)) != HF_OK)
+        return st;
+    const node *sn = get(n, "sections");
+    if (!sn)
+        return missing(c, n, "sections", "a list of sections from anchor to fairlead");
+    size_t mark = pushkey(c, "sections");
+    st = load_sections(c, sn, l);
+    pop(c, mark);
+    if (st != HF_OK)
+        return st;
+    return line_anchor(c, n, &l->anchor_spec);
 }
 
 static hf_status load_lines(ctx *c, const node *n)
@@ -811,10 +902,10 @@ static hf_status load_hull(ctx *c, const node *n)
 
 /* ---- loads ---- */
 
-static const char *const load_keys[] = {"name", "force", "direction", "moment", "wind", "current",
-                                        NULL};
-static const char *const drag_keys[] = {"speed", "direction", "coefficient", "area", "density",
-                                        NULL};
+static const char *const load_keys[] = {"name", "force",   "direction", "moment",
+                                        "wind", "current", NULL};
+static const char *const drag_keys[] = {"speed", "direction", "coefficient",
+                                        "area",  "density",   NULL};
 
 static hf_status load_drag(ctx *c, const node *n, const char *what, double density, hf_drag *d)
 {
@@ -848,6 +939,8 @@ static hf_status load_load(ctx *c, const node *n, size_t index, int *lines, int 
         return missing(c, n, "name", "a load name");
     size_t mark = pushkey(c, "name");
     st = name_dup(c, nn, "a load name", &ld->name);
+    if (st == HF_OK)
+        st = not_a_number(c, nn, "a load name", "loads[INDEX]");
     for (size_t j = 0; st == HF_OK && j < index; j++)
         if (!strcmp(m->loads[j].name, ld->name))
             st = fail(c, nn, "expected a unique load name, got \"%s\" again (first at %d:%d)",
@@ -856,6 +949,7 @@ static hf_status load_load(ctx *c, const node *n, size_t index, int *lines, int 
     if (st != HF_OK)
         return st;
     const node *fn = get(n, "force"), *dn = get(n, "direction");
+    ld->no_force = fn == NULL;
     if (fn && fn->type == N_SEQ) {
         static const hf_dim f2[2] = {HF_DIM_FORCE, HF_DIM_FORCE};
         double f[2];
@@ -876,7 +970,8 @@ static hf_status load_load(ctx *c, const node *n, size_t index, int *lines, int 
     } else if (fn) {
         st = opt_quantity(c, n, "force", HF_DIM_FORCE, NONNEG, &ld->force);
         if (st == HF_OK && !dn)
-            return missing(c, n, "direction", "the direction of the force (an angle from global x)");
+            return missing(c, n, "direction",
+                           "the direction of the force (an angle from global x)");
         if (st == HF_OK)
             st = opt_quantity(c, n, "direction", HF_DIM_ANGLE, ANY, &ld->direction);
         if (st != HF_OK)
@@ -941,7 +1036,7 @@ static hf_status load_loads(ctx *c, const node *n)
 
 /* ---- criteria ---- */
 
-static const char *const criteria_keys[] = {"preset", "analysis", "intact_factor",
+static const char *const criteria_keys[] = {"preset",         "analysis",   "intact_factor",
                                             "damaged_factor", "max_offset", NULL};
 static const char *const analysis_names[] = {"quasi-static", "dynamic"};
 
@@ -1013,8 +1108,8 @@ static hf_status load_criteria(ctx *c, const node *n)
 
 /* ---- studies ---- */
 
-static const char *const kind_names[] = {"lines", "curve", "stiffness", "balance", "sweep",
-                                         "invert"};
+static const char *const kind_names[] = {"lines",   "curve", "stiffness",
+                                         "balance", "sweep", "invert"};
 static const char *const *const study_keys[] = {
     (const char *const[]){"name", "kind", "offset", NULL},
     (const char *const[]){"name", "kind", "direction", "range", NULL},
@@ -1023,7 +1118,7 @@ static const char *const *const study_keys[] = {
     (const char *const[]){"name", "kind", "vary", "combine", "outputs", NULL},
     (const char *const[]){"name", "kind", "vary", "target", NULL},
 };
-static const char *const study_what[] = {"a lines study", "a curve study", "a stiffness study",
+static const char *const study_what[] = {"a lines study",   "a curve study", "a stiffness study",
                                          "a balance study", "a sweep study", "an invert study"};
 static const char *const vary_keys[] = {"path", "range", "values", NULL};
 static const char *const invert_vary_keys[] = {"path", "range", NULL};
@@ -1034,9 +1129,8 @@ static const char *const target_keys[] = {"output", "line", "value", NULL};
 static hf_status range3(ctx *c, const node *n, hf_dim dim, double *from, double *to, double *step,
                         double *count)
 {
-    const hf_dim d3[3] = {dim, dim, dim};
     double v[3];
-    hf_status st = vector(c, n, 3, d3, "a range [from, to, step]", v);
+    hf_status st = varied_list(c, n, 3, dim, "a range [from, to, step]", v);
     if (st != HF_OK)
         return st;
     size_t k = hf_study_range_count(v[0], v[1], v[2], (size_t)MAX_RANGE_POINTS);
@@ -1098,7 +1192,7 @@ static hf_status vary_values(ctx *c, const node *vn, hf_vary *v, double *count)
     hf_status st = HF_OK;
     for (size_t i = 0; st == HF_OK && i < vn->n; i++) {
         size_t m2 = push(c, "[%zu]", i);
-        st = quantity(c, vn->kids[i], v->dim, &v->values[i]);
+        st = varied(c, vn->kids[i], v->dim, &v->values[i]);
         pop(c, m2);
     }
     *count = (double)vn->n;
@@ -1176,8 +1270,9 @@ static hf_status study_balance(ctx *c, const node *n, hf_study *s)
     hf_model *m = c->m;
     const node *ln = get(n, "loads");
     if (m->nloads == 0)
-        return fail(c, ln ? ln : n, "expected load cases in a loads: section for a balance "
-                                    "study, got none");
+        return fail(c, ln ? ln : n,
+                    "expected load cases in a loads: section for a balance "
+                    "study, got none");
     if (!ln)
         return HF_OK;
     size_t mark = pushkey(c, "loads");
@@ -1199,8 +1294,7 @@ static hf_status study_balance(ctx *c, const node *n, hf_study *s)
 
 /* Refuses a parameter varied twice (the same value through two spellings,
  * or two paths that move the same thing: hf_model_param_same). */
-static hf_status vary_unique(ctx *c, const node *vn, const hf_vary *v, const hf_param *p,
-                             size_t i)
+static hf_status vary_unique(ctx *c, const node *vn, const hf_vary *v, const hf_param *p, size_t i)
 {
     for (size_t j = 0; j < i; j++)
         if (hf_model_param_same(&p[j], &p[i])) {
@@ -1222,8 +1316,9 @@ static hf_status sweep_vary(ctx *c, const node *vn, hf_study *s, double counts[2
         return fail(c, vn, "expected a non-empty list of {path, range | values}, got %s",
                     vn->type == N_SEQ ? "an empty list" : GOT(vn));
     if (vn->n > HF_STUDY_MAX_VARY)
-        return fail_limit(c, vn, "expected at most %d varied parameters (HF_STUDY_MAX_VARY), "
-                                 "got %zu",
+        return fail_limit(c, vn,
+                          "expected at most %d varied parameters (HF_STUDY_MAX_VARY), "
+                          "got %zu",
                           HF_STUDY_MAX_VARY, vn->n);
     s->vary = hf_calloc(vn->n, sizeof *s->vary);
     if (!s->vary)
@@ -1319,10 +1414,9 @@ static hf_status invert_vary(ctx *c, const node *vn, hf_vary *v)
     if (st != HF_OK)
         return st;
     const node *rn = get(vn, "range");
-    const hf_dim d2[2] = {v->dim, v->dim};
     double r[2];
     size_t m2 = pushkey(c, "range");
-    st = vector(c, rn, 2, d2, "a bracket [lo, hi]", r);
+    st = varied_list(c, rn, 2, v->dim, "a bracket [lo, hi]", r);
     if (st == HF_OK && !(r[0] < r[1]))
         st = fail(c, rn, "expected a bracket [lo, hi] with lo < hi, got [%s, %s]",
                   rn->kids[0]->text, rn->kids[1]->text);
@@ -1353,8 +1447,7 @@ static hf_status target_line(ctx *c, const node *ln, const char **lt)
 }
 
 /* The target's output (with its line): one number of the output catalogue. */
-static hf_status target_output(ctx *c, const node *on, const char *ot, const char *lt,
-                               hf_output *o)
+static hf_status target_output(ctx *c, const node *on, const char *ot, const char *lt, hf_output *o)
 {
     char gotbuf[96], full[2 * HF_MODEL_MAX_NAME + 8];
     hf_status st = HF_OK;
@@ -1426,7 +1519,7 @@ static hf_status study_invert(ctx *c, const node *n, hf_study *s)
 
 /* One loader per study kind, indexed by hf_study_kind. */
 typedef hf_status (*study_loader)(ctx *, const node *, hf_study *);
-static const study_loader study_body[] = {study_offset, study_curve,  study_offset,
+static const study_loader study_body[] = {study_offset,  study_curve, study_offset,
                                           study_balance, study_sweep, study_invert};
 _Static_assert(sizeof study_body / sizeof study_body[0] == HF_STUDY_INVERT + 1,
                "one loader per hf_study_kind");
@@ -1439,8 +1532,9 @@ static hf_status load_study(ctx *c, const node *n, size_t index)
         return fail(c, n, "expected a study (a mapping with name and kind), got %s", GOT(n));
     const node *kn = get(n, "kind");
     if (!kn)
-        return missing(c, n, "kind", "a study kind (lines, curve, stiffness, balance, sweep, "
-                                     "invert)");
+        return missing(c, n, "kind",
+                       "a study kind (lines, curve, stiffness, balance, sweep, "
+                       "invert)");
     size_t k, mark = pushkey(c, "kind");
     hf_status st = choose(c, kn, "a study kind", kind_names, 6, &k);
     pop(c, mark);
@@ -1487,8 +1581,8 @@ static hf_status load_studies(ctx *c, const node *n)
 
 /* ---- top level ---- */
 
-static const char *const top_keys[] = {"title", "site", "components", "lines", "hull",
-                                       "loads", "criteria", "studies", NULL};
+static const char *const top_keys[] = {"title", "site",     "components", "lines", "hull",
+                                       "loads", "criteria", "studies",    NULL};
 
 static hf_status section(ctx *c, const node *root, const char *key,
                          hf_status (*fn)(ctx *, const node *))
@@ -1515,8 +1609,9 @@ static hf_status load_title(ctx *c, const node *n)
 static hf_status load_root(ctx *c, const node *root)
 {
     if (!root || is_null(root))
-        return fail(c, root, "expected a case (a mapping with site, components and lines), got "
-                             "an empty file");
+        return fail(c, root,
+                    "expected a case (a mapping with site, components and lines), got "
+                    "an empty file");
     hf_status st = map_check(c, root, "a case file", top_keys, "top-level key");
     if (st != HF_OK)
         return st;
@@ -1560,7 +1655,7 @@ typedef struct {
 typedef struct {
     anchor_ent *v;
     size_t n, cap;
-    size_t copied;  /* nodes created by aliases so far */
+    size_t copied; /* nodes created by aliases so far */
 } anchors;
 
 static void anchors_free(anchors *a)
@@ -1628,196 +1723,220 @@ static node *node_copy(const node *n)
     return d;
 }
 
+/* ---- the node tree from libyaml events: one handler per event ---- */
+
+typedef struct {
+    ctx *c;
+    node *stack[HF_CASE_MAX_DEPTH + 1]; /* open sequences and mappings */
+    int depth, docs;
+    size_t nodes; /* every value built so far, alias copies included */
+    anchors al;
+    node **root;
+} builder;
+
+static hf_status syntax_error(ctx *c, const yaml_parser_t *parser)
+{
+    const yaml_mark_t *mk = &parser->problem_mark;
+    if (parser->error == YAML_MEMORY_ERROR)
+        return nomem(c);
+    if (parser->context)
+        return hf_error_set(c->err, HF_EINVAL, "%s:%zu:%zu: YAML syntax: %s (%s at %zu:%zu)",
+                            c->file, mk->line + 1, mk->column + 1,
+                            parser->problem ? parser->problem : "invalid YAML", parser->context,
+                            parser->context_mark.line + 1, parser->context_mark.column + 1);
+    return hf_error_set(c->err, HF_EINVAL, "%s:%zu:%zu: YAML syntax: %s", c->file, mk->line + 1,
+                        mk->column + 1, parser->problem ? parser->problem : "invalid YAML");
+}
+
+/* Hangs a finished node under the open collection (or makes it the root). */
+static hf_status attach(builder *b, node *nn)
+{
+    if (b->depth == 0) {
+        node_free(*b->root); /* only an alias at the top can replace a root */
+        *b->root = nn;
+        return HF_OK;
+    }
+    if (!node_add(b->stack[b->depth - 1], nn)) {
+        node_free(nn);
+        return nomem(b->c);
+    }
+    return HF_OK;
+}
+
+static hf_status on_document(builder *b, const node *at)
+{
+    if (++b->docs > 1)
+        return fail(b->c, at, "expected one YAML document in a case file, got a second one");
+    return HF_OK;
+}
+
+/* The node an alias names (the latest definition), checked to be finished. */
+static hf_status alias_target(builder *b, const node *at, const char *name, node **target)
+{
+    *target = NULL;
+    for (size_t i = b->al.n; i-- > 0;)
+        if (!strcmp(b->al.v[i].name, name)) {
+            *target = b->al.v[i].n;
+            break;
+        }
+    if (!*target)
+        return fail(b->c, at, "expected an alias to an anchor defined above (&%s), got *%s", name,
+                    name);
+    for (int i = 0; i < b->depth; i++)
+        if (b->stack[i] == *target)
+            return fail(b->c, at,
+                        "expected an alias to a finished value, got *%s inside the "
+                        "value it names",
+                        name);
+    return HF_OK;
+}
+
+/* An alias stands for a copy of the node its anchor names; messages about
+ * the copy point at the anchored text.  The copies count against the
+ * nesting, node and alias-expansion limits. */
+static hf_status on_alias(builder *b, const yaml_event_t *ev, const node *at)
+{
+    const char *name = (const char *)ev->data.alias.anchor;
+    node *target;
+    hf_status st = alias_target(b, at, name, &target);
+    if (st != HF_OK)
+        return st;
+    int height;
+    size_t count = subtree(target, &height);
+    if (b->depth + height > HF_CASE_MAX_DEPTH)
+        return fail_limit(b->c, at,
+                          "expected at most %d nested levels (HF_CASE_MAX_DEPTH), got "
+                          "deeper nesting through *%s",
+                          HF_CASE_MAX_DEPTH, name);
+    b->al.copied += count;
+    b->nodes += count;
+    if (b->nodes > HF_CASE_MAX_NODES)
+        return fail_limit(b->c, at,
+                          "expected at most %d values in a case file "
+                          "(HF_CASE_MAX_NODES), got more at *%s",
+                          HF_CASE_MAX_NODES, name);
+    if (b->al.copied > MAX_ALIAS_NODES)
+        return fail_limit(b->c, at,
+                          "expected aliases to expand to at most %d values, got more "
+                          "at *%s",
+                          MAX_ALIAS_NODES, name);
+    node *nn = node_copy(target);
+    return nn ? attach(b, nn) : nomem(b->c);
+}
+
+/* The limits a new value must respect before it is built. */
+static hf_status value_limits(builder *b, const yaml_event_t *ev, const node *at)
+{
+    if (ev->type != YAML_SCALAR_EVENT && b->depth >= HF_CASE_MAX_DEPTH)
+        return fail_limit(b->c, at,
+                          "expected at most %d nested levels (HF_CASE_MAX_DEPTH), got "
+                          "deeper nesting",
+                          HF_CASE_MAX_DEPTH);
+    if (ev->type == YAML_SCALAR_EVENT) {
+        size_t n = ev->data.scalar.length;
+        if (n > HF_CASE_MAX_SCALAR)
+            return fail_limit(b->c, at,
+                              "expected a value of at most %d bytes "
+                              "(HF_CASE_MAX_SCALAR), got %zu bytes",
+                              HF_CASE_MAX_SCALAR, n);
+        if (memchr(ev->data.scalar.value, '\0', n))
+            return fail(b->c, at, "expected text, got a value containing a NUL byte");
+    }
+    if (++b->nodes > HF_CASE_MAX_NODES)
+        return fail_limit(b->c, at,
+                          "expected at most %d values in a case file "
+                          "(HF_CASE_MAX_NODES), got more",
+                          HF_CASE_MAX_NODES);
+    return HF_OK;
+}
+
+/* A scalar, or the start of a sequence or mapping: a new node, attached,
+ * remembered under its anchor, and opened when it is a collection. */
+static hf_status on_value(builder *b, const yaml_event_t *ev, const node *at)
+{
+    hf_status st = value_limits(b, ev, at);
+    if (st != HF_OK)
+        return st;
+    node *nn = hf_calloc(1, sizeof *nn);
+    if (!nn)
+        return nomem(b->c);
+    nn->line = at->line;
+    nn->col = at->col;
+    const yaml_char_t *anchor;
+    if (ev->type == YAML_SCALAR_EVENT) {
+        nn->type = N_SCALAR;
+        nn->plain = ev->data.scalar.style == YAML_PLAIN_SCALAR_STYLE;
+        nn->text = hf_strndup((const char *)ev->data.scalar.value, ev->data.scalar.length);
+        if (!nn->text) {
+            hf_free(nn);
+            return nomem(b->c);
+        }
+        anchor = ev->data.scalar.anchor;
+    } else if (ev->type == YAML_SEQUENCE_START_EVENT) {
+        nn->type = N_SEQ;
+        anchor = ev->data.sequence_start.anchor;
+    } else {
+        nn->type = N_MAP;
+        anchor = ev->data.mapping_start.anchor;
+    }
+    if ((st = attach(b, nn)) != HF_OK)
+        return st;
+    if (anchor && !anchors_add(&b->al, (const char *)anchor, nn))
+        return nomem(b->c);
+    if (nn->type != N_SCALAR)
+        b->stack[b->depth++] = nn;
+    return HF_OK;
+}
+
+static hf_status on_event(builder *b, const yaml_event_t *ev)
+{
+    node at = {.line = (int)ev->start_mark.line + 1, .col = (int)ev->start_mark.column + 1};
+    switch (ev->type) {
+    case YAML_DOCUMENT_START_EVENT:
+        return on_document(b, &at);
+    case YAML_ALIAS_EVENT:
+        return on_alias(b, ev, &at);
+    case YAML_SCALAR_EVENT:
+    case YAML_SEQUENCE_START_EVENT:
+    case YAML_MAPPING_START_EVENT:
+        return on_value(b, ev, &at);
+    case YAML_SEQUENCE_END_EVENT:
+    case YAML_MAPPING_END_EVENT:
+        if (b->depth > 0)
+            b->depth--;
+        return HF_OK;
+    default:
+        return HF_OK;
+    }
+}
+
 /* Builds the node tree from libyaml events.  *root is NULL for an empty stream. */
 static hf_status parse_tree(ctx *c, const char *textbuf, size_t len, node **root)
 {
     yaml_parser_t parser;
     yaml_event_t ev;
-    node *stack[HF_CASE_MAX_DEPTH + 1];
-    int depth = 0, docs = 0;
-    size_t nodes = 0; /* every value built so far, alias copies included */
-    hf_status st = HF_OK;
-    anchors al = {NULL, 0, 0, 0};
+    builder b;
+    memset(&b, 0, sizeof b);
+    b.c = c;
+    b.root = root;
     *root = NULL;
     if (!yaml_parser_initialize(&parser))
         return nomem(c);
     yaml_parser_set_input_string(&parser, (const unsigned char *)textbuf, len);
+    hf_status st = HF_OK;
     for (;;) {
         if (!yaml_parser_parse(&parser, &ev)) {
-            const yaml_mark_t *mk = &parser.problem_mark;
-            if (parser.error == YAML_MEMORY_ERROR) {
-                st = nomem(c);
-            } else if (parser.context) {
-                st = hf_error_set(c->err, HF_EINVAL,
-                                  "%s:%zu:%zu: YAML syntax: %s (%s at %zu:%zu)", c->file,
-                                  mk->line + 1, mk->column + 1,
-                                  parser.problem ? parser.problem : "invalid YAML", parser.context,
-                                  parser.context_mark.line + 1, parser.context_mark.column + 1);
-            } else {
-                st = hf_error_set(c->err, HF_EINVAL, "%s:%zu:%zu: YAML syntax: %s", c->file,
-                                  mk->line + 1, mk->column + 1,
-                                  parser.problem ? parser.problem : "invalid YAML");
-            }
+            st = syntax_error(c, &parser);
             break;
         }
         yaml_event_type_t type = ev.type;
-        int line = (int)ev.start_mark.line + 1, col = (int)ev.start_mark.column + 1;
-        node *nn = NULL;
-        switch (type) {
-        case YAML_DOCUMENT_START_EVENT:
-            if (++docs > 1) {
-                node at = {.line = line, .col = col};
-                st = fail(c, &at, "expected one YAML document in a case file, got a second one");
-            }
-            break;
-        case YAML_ALIAS_EVENT: {
-            /* An alias stands for a copy of the node its anchor names
-             * (the latest definition); messages about the copy point at
-             * the anchored text. */
-            node at = {.line = line, .col = col};
-            const char *name = (const char *)ev.data.alias.anchor;
-            node *target = NULL;
-            for (size_t i = al.n; i-- > 0;)
-                if (!strcmp(al.v[i].name, name)) {
-                    target = al.v[i].n;
-                    break;
-                }
-            for (int i = 0; target && i < depth; i++)
-                if (stack[i] == target) {
-                    st = fail(c, &at, "expected an alias to a finished value, got *%s inside the "
-                                      "value it names",
-                              name);
-                    break;
-                }
-            if (st != HF_OK)
-                break;
-            if (!target) {
-                st = fail(c, &at, "expected an alias to an anchor defined above (&%s), got *%s",
-                          name, name);
-                break;
-            }
-            int height;
-            size_t count = subtree(target, &height);
-            if (depth + height > HF_CASE_MAX_DEPTH) {
-                st = fail_limit(c, &at, "expected at most %d nested levels (HF_CASE_MAX_DEPTH), "
-                                        "got deeper nesting through *%s",
-                                HF_CASE_MAX_DEPTH, name);
-                break;
-            }
-            al.copied += count;
-            nodes += count;
-            if (nodes > HF_CASE_MAX_NODES) {
-                st = fail_limit(c, &at, "expected at most %d values in a case file "
-                                        "(HF_CASE_MAX_NODES), got more at *%s",
-                                HF_CASE_MAX_NODES, name);
-                break;
-            }
-            if (al.copied > MAX_ALIAS_NODES) {
-                st = fail_limit(c, &at, "expected aliases to expand to at most %d values, got "
-                                        "more at *%s",
-                                MAX_ALIAS_NODES, name);
-                break;
-            }
-            nn = node_copy(target);
-            if (!nn) {
-                st = nomem(c);
-                break;
-            }
-            if (depth == 0) {
-                node_free(*root);
-                *root = nn;
-            } else if (!node_add(stack[depth - 1], nn)) {
-                node_free(nn);
-                st = nomem(c);
-            }
-            break;
-        }
-        case YAML_SCALAR_EVENT:
-        case YAML_SEQUENCE_START_EVENT:
-        case YAML_MAPPING_START_EVENT:
-            if (type != YAML_SCALAR_EVENT && depth >= HF_CASE_MAX_DEPTH) {
-                node at = {.line = line, .col = col};
-                st = fail_limit(c, &at, "expected at most %d nested levels (HF_CASE_MAX_DEPTH), "
-                                        "got deeper nesting",
-                                HF_CASE_MAX_DEPTH);
-                break;
-            }
-            if (type == YAML_SCALAR_EVENT) {
-                size_t n = ev.data.scalar.length;
-                node at = {.line = line, .col = col};
-                if (n > HF_CASE_MAX_SCALAR) {
-                    st = fail_limit(c, &at, "expected a value of at most %d bytes "
-                                            "(HF_CASE_MAX_SCALAR), got %zu bytes",
-                                    HF_CASE_MAX_SCALAR, n);
-                    break;
-                }
-                if (memchr(ev.data.scalar.value, '\0', n)) {
-                    st = fail(c, &at, "expected text, got a value containing a NUL byte");
-                    break;
-                }
-            }
-            if (++nodes > HF_CASE_MAX_NODES) {
-                node at = {.line = line, .col = col};
-                st = fail_limit(c, &at, "expected at most %d values in a case file "
-                                        "(HF_CASE_MAX_NODES), got more",
-                                HF_CASE_MAX_NODES);
-                break;
-            }
-            nn = hf_calloc(1, sizeof *nn);
-            if (!nn) {
-                st = nomem(c);
-                break;
-            }
-            nn->line = line;
-            nn->col = col;
-            if (type == YAML_SCALAR_EVENT) {
-                nn->type = N_SCALAR;
-                nn->plain = ev.data.scalar.style == YAML_PLAIN_SCALAR_STYLE;
-                nn->text = hf_strndup((const char *)ev.data.scalar.value, ev.data.scalar.length);
-                if (!nn->text) {
-                    hf_free(nn);
-                    st = nomem(c);
-                    break;
-                }
-            } else {
-                nn->type = type == YAML_SEQUENCE_START_EVENT ? N_SEQ : N_MAP;
-            }
-            if (depth == 0) {
-                if (*root)
-                    node_free(*root); /* cannot happen: one document */
-                *root = nn;
-            } else if (!node_add(stack[depth - 1], nn)) {
-                node_free(nn);
-                st = nomem(c);
-                break;
-            }
-            {
-                const yaml_char_t *anchor = type == YAML_SCALAR_EVENT ? ev.data.scalar.anchor
-                                            : type == YAML_SEQUENCE_START_EVENT
-                                                ? ev.data.sequence_start.anchor
-                                                : ev.data.mapping_start.anchor;
-                if (anchor && !anchors_add(&al, (const char *)anchor, nn)) {
-                    st = nomem(c);
-                    break;
-                }
-            }
-            if (type != YAML_SCALAR_EVENT)
-                stack[depth++] = nn;
-            break;
-        case YAML_SEQUENCE_END_EVENT:
-        case YAML_MAPPING_END_EVENT:
-            if (depth > 0)
-                depth--;
-            break;
-        default:
-            break;
-        }
+        st = on_event(&b, &ev);
         yaml_event_delete(&ev);
         if (st != HF_OK || type == YAML_STREAM_END_EVENT)
             break;
     }
     yaml_parser_delete(&parser);
-    anchors_free(&al);
+    anchors_free(&b.al);
     if (st != HF_OK) {
         node_free(*root);
         *root = NULL;
@@ -1830,8 +1949,8 @@ hf_status hf_case_load_buffer_with_studies(const char *textbuf, size_t len, cons
 {
     hf_study_list own;
     hf_study_list_init(&own);
-    ctx c = {.file = name ? name : "<case>", .m = m, .studies = studies ? studies : &own,
-             .err = err};
+    ctx c = {
+        .file = name ? name : "<case>", .m = m, .studies = studies ? studies : &own, .err = err};
     c.path[0] = '\0';
     hf_model_free(m);
     hf_study_list_free(studies);

@@ -8,7 +8,7 @@
 #include "holdfast/outfile.h"
 #include "holdfast/sweep.h"
 
-static const char usage_text[] =
+static const char usage_head[] =
     "usage: holdfast invert CASE --vary PATH=LO:HI --target OUTPUT[:LINE]=VALUE\n"
     "                       [--csv FILE|-]\n"
     "\n"
@@ -19,22 +19,34 @@ static const char usage_text[] =
     "                      lines[bow].sections[2].length=300:500 or\n"
     "                      lines[bow].anchor_radius=600m:900m\n"
     "  --target OUTPUT[:LINE]=VALUE\n"
-    "                      fairlead_tension:LINE, fairlead_horizontal:LINE,\n"
-    "                      fairlead_vertical:LINE, anchor_tension:LINE, utilisation:LINE,\n"
-    "                      max_tension, max_utilisation, stiffness_surge, stiffness_sway,\n"
-    "                      stiffness_heave, stiffness_yaw, vertical_load, offset_<load>;\n"
+    "                      an output below that is one number (per-line outputs\n"
+    "                      with :LINE; offset_<load> aims at the surge offset);\n"
     "                      VALUE in SI or with units: 900kN, 45kN/m\n"
     "  --csv FILE|-        also write the result as CSV (only CSV on stdout with -)\n"
     "\n"
+    "Outputs (name, CSV column with its unit, meaning):\n";
+
+static const char usage_tail[] =
+    "\n"
     "Exit status: 0 found, 2 bad input, 3 target not reachable in the bracket\n"
     "(the message gives the outputs at both ends) or no convergence.\n";
+
+/* --help: the usage, the output catalogue (outputs.h), the closing lines. */
+static int help(const char *arg)
+{
+    if (!hf_cli_help(arg, usage_head))
+        return 0;
+    hf_output_write_help(stdout, "  ");
+    fputs(usage_tail, stdout);
+    return 1;
+}
 
 int hf_cmd_invert(int argc, char **argv)
 {
     const char *case_path = NULL, *vary_text = NULL, *target_text = NULL, *csv = NULL;
     for (int i = 1; i < argc; i++) {
         const char *a = argv[i];
-        if (hf_cli_help(a, usage_text))
+        if (help(a))
             return HF_EXIT_OK;
         /* --vary and --target once each; a repeat is reported below */
         if ((!vary_text && hf_cli_value(argc, argv, &i, "--vary", &vary_text)) ||
@@ -98,14 +110,14 @@ int hf_cmd_invert(int argc, char **argv)
     if (!csv || strcmp(csv, "-")) {
         printf("%s = %.10g %s meets %s = %s (relative error %.2g, %d iterations)\n", v.path,
                v.dim == HF_DIM_ANGLE ? res.value * 180.0 / M_PI : res.value,
-               v.dim == HF_DIM_ANGLE ? "deg" : hf_dim_si(v.dim), oname, eq + 1,
-               res.relative_error, res.iterations);
+               v.dim == HF_DIM_ANGLE ? "deg" : hf_dim_si(v.dim), oname, eq + 1, res.relative_error,
+               res.iterations);
         fputs(hf_cli_caution, stdout);
     }
     if (csv) {
         of = hf_outfile_open(csv, &err);
-        if (!of || hf_invert_write_csv(hf_outfile_stream(of), &m, v.path, &o, target, &res,
-                                       &err) != HF_OK) {
+        if (!of || hf_invert_write_csv(hf_outfile_stream(of), &m, v.path, &o, target, &res, &err) !=
+                       HF_OK) {
             rc = hf_cli_fail(&err);
             goto done;
         }

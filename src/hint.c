@@ -33,8 +33,11 @@ size_t hf_hint_distance(const char *a, const char *b)
 void hf_hint_try(hf_hint *h, const char *word, const char *cand)
 {
     size_t d = hf_hint_distance(word, cand);
-    size_t len = strlen(word) > strlen(cand) ? strlen(word) : strlen(cand);
-    if (d > 0 && d <= (len + 2) / 3 && (!h->best || d < h->d)) {
+    size_t lw = strlen(word), len = lw > strlen(cand) ? lw : strlen(cand);
+    /* A word that starts a longer candidate ("studless" for "studless_chain")
+     * is a likely abbreviation, however many letters are missing. */
+    int prefix = lw >= 3 && strlen(cand) > lw && !strncmp(cand, word, lw);
+    if (d > 0 && (d <= (len + 2) / 3 || prefix) && (!h->best || d < h->d)) {
         h->best = cand;
         h->d = d;
     }

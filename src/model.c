@@ -236,8 +236,9 @@ static hf_status build_line(const hf_model *m, hf_model_line *l, hf_error *err)
                             "component sections, not at the fairlead end",
                             l->name, pending_at);
     if (ln->n == 0)
-        return hf_error_set(err, HF_EINVAL, "lines[%s].sections: expected at least one component "
-                                            "section, got none",
+        return hf_error_set(err, HF_EINVAL,
+                            "lines[%s].sections: expected at least one component "
+                            "section, got none",
                             l->name);
     hf_error sub;
     hf_error_clear(&sub);
@@ -315,13 +316,23 @@ hf_status hf_model_resolve(hf_model *m, hf_error *err)
 /* ---- parameter paths ---- */
 
 enum {
-    P_SITE_DEPTH = 1, P_SITE_LEVEL, P_SITE_DENSITY,
-    P_COMP_DIAMETER, P_COMP_PROP,       /* index = component, sub = hf_component_prop */
-    P_PIECE_LENGTH, P_PIECE_LOAD,       /* index = line, sub = piece */
-    P_ANCHOR_RADIUS, P_ANCHOR_X, P_ANCHOR_Y, /* index = line */
-    P_FAIRLEAD,                         /* index = line, sub = 0, 1, 2 */
-    P_LOAD_FORCE, P_LOAD_DIRECTION, P_LOAD_MOMENT, /* index = load */
-    P_HULL_HEADING, P_HULL_X, P_HULL_Y
+    P_SITE_DEPTH = 1,
+    P_SITE_LEVEL,
+    P_SITE_DENSITY,
+    P_COMP_DIAMETER,
+    P_COMP_PROP, /* index = component, sub = hf_component_prop */
+    P_PIECE_LENGTH,
+    P_PIECE_LOAD, /* index = line, sub = piece */
+    P_ANCHOR_RADIUS,
+    P_ANCHOR_X,
+    P_ANCHOR_Y, /* index = line */
+    P_FAIRLEAD, /* index = line, sub = 0, 1, 2 */
+    P_LOAD_FORCE,
+    P_LOAD_DIRECTION,
+    P_LOAD_MOMENT, /* index = load */
+    P_HULL_HEADING,
+    P_HULL_X,
+    P_HULL_Y
 };
 
 static const char path_forms[] =
@@ -446,29 +457,30 @@ static hf_status lookup_line(hf_model *m, const char *path, const char *rest, si
     return bad_path(path, "unknown line parameter", err);
 }
 
-hf_status hf_model_param_lookup(hf_model *m, const char *path, hf_param *p, hf_error *err)
+/* site.depth, site.water_level, site.water_density */
+static hf_status lookup_site(hf_model *m, const char *path, hf_param *p, hf_error *err)
 {
-    memset(p, 0, sizeof *p);
-    if (!m || !path)
-        return bad_path(path ? path : "", "no model or path", err);
-    if (!strncmp(path, "site.", 5)) {
-        const char *k = path + 5;
-        p->dim = HF_DIM_LENGTH;
-        if (!strcmp(k, "depth")) {
-            p->kind = P_SITE_DEPTH;
-            p->value = &m->site.depth;
-        } else if (!strcmp(k, "water_level")) {
-            p->kind = P_SITE_LEVEL;
-            p->value = &m->site.water_level;
-        } else if (!strcmp(k, "water_density")) {
-            p->kind = P_SITE_DENSITY;
-            p->value = &m->site.water_density;
-            p->dim = HF_DIM_DENSITY;
-        } else {
-            return bad_path(path, "unknown site parameter", err);
-        }
-        return HF_OK;
+    const char *k = path + 5;
+    p->dim = HF_DIM_LENGTH;
+    if (!strcmp(k, "depth")) {
+        p->kind = P_SITE_DEPTH;
+        p->value = &m->site.depth;
+    } else if (!strcmp(k, "water_level")) {
+        p->kind = P_SITE_LEVEL;
+        p->value = &m->site.water_level;
+    } else if (!strcmp(k, "water_density")) {
+        p->kind = P_SITE_DENSITY;
+        p->value = &m->site.water_density;
+        p->dim = HF_DIM_DENSITY;
+    } else {
+        return bad_path(path, "unknown site parameter", err);
     }
+    return HF_OK;
+}
+
+/* hull.heading, hull.position.x, hull.position.y */
+static hf_status lookup_hull(hf_model *m, const char *path, hf_param *p, hf_error *err)
+{
     if (!strcmp(path, "hull.heading")) {
         p->kind = P_HULL_HEADING;
         p->value = &m->hull.heading;
@@ -482,87 +494,121 @@ hf_status hf_model_param_lookup(hf_model *m, const char *path, hf_param *p, hf_e
         p->dim = HF_DIM_LENGTH;
         return HF_OK;
     }
+    return bad_path(path, "unknown parameter", err);
+}
+
+/* components.NAME.PROPERTY (or components[NAME].PROPERTY) */
+static hf_status lookup_component(hf_model *m, const char *path, hf_param *p, hf_error *err)
+{
     char name[HF_MODEL_MAX_NAME + 2];
-    if (!strncmp(path, "components", 10)) {
-        const char *q = path + 10;
-        if (!selector(&q, name, sizeof name))
-            return bad_path(path, "expected components.NAME.PROPERTY", err);
-        size_t ci = hf_model_component_find(m, name);
-        if (ci == NONE)
-            return hf_error_set(err, HF_EINVAL, "parameter path \"%s\": no component named \"%s\"",
-                                path, name);
-        p->index = ci;
-        hf_component *c = &m->components[ci].comp;
-        if (!strcmp(q, ".diameter")) {
-            p->kind = P_COMP_DIAMETER;
-            p->value = &c->diameter;
-            p->dim = HF_DIM_LENGTH;
-            return HF_OK;
-        }
-        static const struct {
-            const char *key;
-            hf_component_prop prop;
-            hf_dim dim;
-        } props[] = {
-            {".mass", HF_PROP_MASS, HF_DIM_MASS_PER_LENGTH},
-            {".wet_weight", HF_PROP_WET_WEIGHT, HF_DIM_FORCE_PER_LENGTH},
-            {".axial_stiffness", HF_PROP_EA, HF_DIM_FORCE},
-            {".breaking_load", HF_PROP_MBL, HF_DIM_FORCE},
-            {".seabed_friction", HF_PROP_FRICTION, HF_DIM_NONE},
-        };
-        for (size_t i = 0; i < sizeof props / sizeof props[0]; i++)
-            if (!strcmp(q, props[i].key)) {
-                p->kind = P_COMP_PROP;
-                p->sub = props[i].prop;
-                p->value = &c->value[props[i].prop];
-                p->dim = props[i].dim;
-                return HF_OK;
-            }
-        return bad_path(path, "unknown component property", err);
-    }
-    if (!strncmp(path, "lines", 5)) {
-        const char *q = path + 5;
-        if (*q != '[' || !selector(&q, name, sizeof name))
-            return bad_path(path, "expected lines[NAME] or lines[INDEX]", err);
-        size_t li = hf_model_line_find(m, name);
-        if (li == NONE && index_of(name, &li) && li >= m->nlines)
-            return hf_error_set(err, HF_EINVAL,
-                                "parameter path \"%s\": the case has %zu lines, got index %zu", path,
-                                m->nlines, li);
-        if (li == NONE)
-            return hf_error_set(err, HF_EINVAL, "parameter path \"%s\": no line named \"%s\"",
-                                path, name);
-        return lookup_line(m, path, q, li, p, err);
-    }
-    if (!strncmp(path, "loads", 5)) {
-        const char *q = path + 5;
-        if (!selector(&q, name, sizeof name))
-            return bad_path(path, "expected loads[NAME]", err);
-        size_t li = hf_model_load_find(m, name);
-        if (li == NONE && index_of(name, &li) && li >= m->nloads)
-            li = NONE;
-        if (li == NONE)
-            return hf_error_set(err, HF_EINVAL, "parameter path \"%s\": no load named \"%s\"",
-                                path, name);
-        p->index = li;
-        hf_load *ld = &m->loads[li];
-        if (!strcmp(q, ".force")) {
-            p->kind = P_LOAD_FORCE;
-            p->value = &ld->force;
-            p->dim = HF_DIM_FORCE;
-        } else if (!strcmp(q, ".direction")) {
-            p->kind = P_LOAD_DIRECTION;
-            p->value = &ld->direction;
-            p->dim = HF_DIM_ANGLE;
-        } else if (!strcmp(q, ".moment")) {
-            p->kind = P_LOAD_MOMENT;
-            p->value = &ld->moment;
-            p->dim = HF_DIM_MOMENT;
-        } else {
-            return bad_path(path, "unknown load parameter", err);
-        }
+    const char *q = path + 10;
+    if (!selector(&q, name, sizeof name))
+        return bad_path(path, "expected components.NAME.PROPERTY", err);
+    size_t ci = hf_model_component_find(m, name);
+    if (ci == NONE)
+        return hf_error_set(err, HF_EINVAL, "parameter path \"%s\": no component named \"%s\"",
+                            path, name);
+    p->index = ci;
+    hf_component *c = &m->components[ci].comp;
+    if (!strcmp(q, ".diameter")) {
+        p->kind = P_COMP_DIAMETER;
+        p->value = &c->diameter;
+        p->dim = HF_DIM_LENGTH;
         return HF_OK;
     }
+    static const struct {
+        const char *key;
+        hf_component_prop prop;
+        hf_dim dim;
+    } props[] = {
+        {".mass", HF_PROP_MASS, HF_DIM_MASS_PER_LENGTH},
+        {".wet_weight", HF_PROP_WET_WEIGHT, HF_DIM_FORCE_PER_LENGTH},
+        {".axial_stiffness", HF_PROP_EA, HF_DIM_FORCE},
+        {".breaking_load", HF_PROP_MBL, HF_DIM_FORCE},
+        {".seabed_friction", HF_PROP_FRICTION, HF_DIM_NONE},
+    };
+    for (size_t i = 0; i < sizeof props / sizeof props[0]; i++)
+        if (!strcmp(q, props[i].key)) {
+            p->kind = P_COMP_PROP;
+            p->sub = props[i].prop;
+            p->value = &c->value[props[i].prop];
+            p->dim = props[i].dim;
+            return HF_OK;
+        }
+    return bad_path(path, "unknown component property", err);
+}
+
+/* lines[NAME|INDEX]... : the line, then lookup_line for the rest */
+static hf_status lookup_lines(hf_model *m, const char *path, hf_param *p, hf_error *err)
+{
+    char name[HF_MODEL_MAX_NAME + 2];
+    const char *q = path + 5;
+    if (*q != '[' || !selector(&q, name, sizeof name))
+        return bad_path(path, "expected lines[NAME] or lines[INDEX]", err);
+    size_t li = hf_model_line_find(m, name);
+    if (li == NONE && index_of(name, &li) && li >= m->nlines)
+        return hf_error_set(err, HF_EINVAL,
+                            "parameter path \"%s\": the case has %zu lines, got index %zu", path,
+                            m->nlines, li);
+    if (li == NONE)
+        return hf_error_set(err, HF_EINVAL, "parameter path \"%s\": no line named \"%s\"", path,
+                            name);
+    return lookup_line(m, path, q, li, p, err);
+}
+
+/* loads[NAME|INDEX].{force, direction, moment} */
+static hf_status lookup_load(hf_model *m, const char *path, hf_param *p, hf_error *err)
+{
+    char name[HF_MODEL_MAX_NAME + 2];
+    const char *q = path + 5;
+    if (!selector(&q, name, sizeof name))
+        return bad_path(path, "expected loads[NAME]", err);
+    size_t li = hf_model_load_find(m, name);
+    if (li == NONE && index_of(name, &li) && li >= m->nloads)
+        li = NONE;
+    if (li == NONE)
+        return hf_error_set(err, HF_EINVAL, "parameter path \"%s\": no load named \"%s\"", path,
+                            name);
+    p->index = li;
+    hf_load *ld = &m->loads[li];
+    if (!strcmp(q, ".force")) {
+        if (ld->no_force)
+            return hf_error_set(err, HF_EINVAL,
+                                "parameter path \"%s\": the load case %s has no direct force (it "
+                                "is made of its wind and current terms); give it one in the case "
+                                "file (force: 0 kN, direction: ...) to vary it",
+                                path, ld->name);
+        p->kind = P_LOAD_FORCE;
+        p->value = &ld->force;
+        p->dim = HF_DIM_FORCE;
+    } else if (!strcmp(q, ".direction")) {
+        p->kind = P_LOAD_DIRECTION; /* derived: turns the whole load (load_turn) */
+        p->dim = HF_DIM_ANGLE;
+    } else if (!strcmp(q, ".moment")) {
+        p->kind = P_LOAD_MOMENT;
+        p->value = &ld->moment;
+        p->dim = HF_DIM_MOMENT;
+    } else {
+        return bad_path(path, "unknown load parameter", err);
+    }
+    return HF_OK;
+}
+
+hf_status hf_model_param_lookup(hf_model *m, const char *path, hf_param *p, hf_error *err)
+{
+    memset(p, 0, sizeof *p);
+    if (!m || !path)
+        return bad_path(path ? path : "", "no model or path", err);
+    if (!strncmp(path, "site.", 5))
+        return lookup_site(m, path, p, err);
+    if (!strncmp(path, "hull.", 5))
+        return lookup_hull(m, path, p, err);
+    if (!strncmp(path, "components", 10))
+        return lookup_component(m, path, p, err);
+    if (!strncmp(path, "lines", 5))
+        return lookup_lines(m, path, p, err);
+    if (!strncmp(path, "loads", 5))
+        return lookup_load(m, path, p, err);
     return bad_path(path, "unknown parameter", err);
 }
 
@@ -571,10 +617,34 @@ static double anchor_radius(const hf_model *m, const hf_model_line *l)
     return hypot(l->anchor[0] - m->hull.position[0], l->anchor[1] - m->hull.position[1]);
 }
 
+/* The direction of a whole load case: its direct force's, else its first
+ * drag term's (0 for a load of a moment only), rad. */
+static double load_direction(const hf_load *ld)
+{
+    if (!ld->no_force || ld->ndrag == 0)
+        return ld->direction;
+    return ld->drag[0].direction;
+}
+
+/* Turns every part of load ld so that its direction becomes `to` (rad). */
+static void load_turn(hf_load *ld, double to)
+{
+    double by = to - load_direction(ld);
+    ld->direction = !ld->no_force ? to : ld->direction;
+    for (size_t i = 0; i < ld->ndrag; i++)
+        ld->drag[i].direction += by;
+}
+
 hf_status hf_model_param_get(const hf_model *m, const hf_param *p, double *value, hf_error *err)
 {
     if (!m || !p || p->kind == 0)
         return hf_error_set(err, HF_EINVAL, "parameter: not looked up");
+    if (p->kind == P_LOAD_DIRECTION) {
+        if (p->index >= m->nloads)
+            return hf_error_set(err, HF_EINVAL, "parameter: load %zu outside the model", p->index);
+        *value = load_direction(&m->loads[p->index]);
+        return HF_OK;
+    }
     if (p->kind == P_ANCHOR_RADIUS) {
         if (p->index >= m->nlines)
             return hf_error_set(err, HF_EINVAL, "parameter: line %zu outside the model", p->index);
@@ -605,7 +675,8 @@ int hf_model_param_same(const hf_param *a, const hf_param *b)
     return (moves_anchor(a, 0) && moves_anchor(b, 0)) || (moves_anchor(a, 1) && moves_anchor(b, 1));
 }
 
-hf_status hf_model_param_set(hf_model *m, const hf_param *p, double value, hf_error *err)
+/* The range a parameter's value must lie in, before anything is set. */
+static hf_status check_value(const hf_param *p, double value, hf_error *err)
 {
     if (!isfinite(value))
         return hf_error_set(err, HF_EINVAL, "parameter: expected a finite value, got %g", value);
@@ -616,8 +687,7 @@ hf_status hf_model_param_set(hf_model *m, const hf_param *p, double value, hf_er
     case P_PIECE_LENGTH:
     case P_PIECE_LOAD:
         if (!(value > 0.0))
-            return hf_error_set(err, HF_EINVAL,
-                                "parameter: expected a positive %s, got %.10g %s",
+            return hf_error_set(err, HF_EINVAL, "parameter: expected a positive %s, got %.10g %s",
                                 hf_dim_name(p->dim), value, hf_dim_si(p->dim));
         break;
     case P_COMP_PROP:
@@ -642,6 +712,18 @@ hf_status hf_model_param_set(hf_model *m, const hf_param *p, double value, hf_er
     default:
         break;
     }
+    return HF_OK;
+}
+
+hf_status hf_model_param_set(hf_model *m, const hf_param *p, double value, hf_error *err)
+{
+    hf_status st = check_value(p, value, err);
+    if (st != HF_OK)
+        return st;
+    if (p->kind == P_LOAD_DIRECTION) {
+        load_turn(&m->loads[p->index], value);
+        return HF_OK;
+    }
     if (p->kind == P_ANCHOR_RADIUS) {
         hf_model_line *l = &m->lines[p->index];
         double r = anchor_radius(m, l);
@@ -665,7 +747,7 @@ hf_status hf_model_param_set(hf_model *m, const hf_param *p, double value, hf_er
         hf_component_give(&m->components[p->index].comp, (hf_component_prop)p->sub, value);
     else
         *p->value = value;
-    hf_status st = HF_OK;
+    st = HF_OK;
     switch (p->kind) {
     case P_ANCHOR_X:
     case P_ANCHOR_Y:

@@ -40,8 +40,8 @@ static const hf_output_info catalogue[HF_OUT_COUNT] = {
      "intact mean offset under a load case: surge, sway (m), yaw (deg)"},
 };
 
-static const char *const default_outputs[] = {"fairlead_tension", "utilisation",
-                                              "max_utilisation", "stiffness_surge"};
+static const char *const default_outputs[] = {"fairlead_tension", "utilisation", "max_utilisation",
+                                              "stiffness_surge"};
 
 const hf_output_info *hf_output_info_of(hf_output_kind k)
 {
@@ -66,7 +66,7 @@ static void names_list(char *buf, size_t cap)
     buf[0] = '\0';
     for (int k = 0; k < HF_OUT_COUNT && len < cap; k++)
         len += (size_t)snprintf(buf + len, cap - len, "%s%s%s", k ? ", " : "", catalogue[k].name,
-                                k == HF_OUT_OFFSET ? "<load>"
+                                k == HF_OUT_OFFSET      ? "<load>"
                                 : catalogue[k].per_line ? "[:LINE]"
                                                         : "");
 }
@@ -95,8 +95,8 @@ static hf_status parse_offset(const hf_model *m, const char *text, size_t n, hf_
     return HF_OK;
 }
 
-static hf_status parse_line(const hf_model *m, const char *text, const char *lname,
-                            hf_output *out, hf_error *err)
+static hf_status parse_line(const hf_model *m, const char *text, const char *lname, hf_output *out,
+                            hf_error *err)
 {
     char hb[HF_MODEL_MAX_NAME + 32];
     size_t li = hf_model_line_find(m, lname);
@@ -171,8 +171,7 @@ void hf_output_text(const hf_model *m, const hf_output *o, char *buf, size_t cap
     const char *name = hf_output_name(o->kind);
     if (o->kind == HF_OUT_OFFSET && o->load < m->nloads)
         snprintf(buf, cap, "offset_%s", m->loads[o->load].name);
-    else if ((unsigned)o->kind < HF_OUT_COUNT && catalogue[o->kind].per_line &&
-             o->line < m->nlines)
+    else if ((unsigned)o->kind < HF_OUT_COUNT && catalogue[o->kind].per_line && o->line < m->nlines)
         snprintf(buf, cap, "%s:%s", name, m->lines[o->line].name);
     else
         snprintf(buf, cap, "%s", name);
@@ -185,8 +184,7 @@ static size_t put_col(hf_output_column *cols, size_t cap, size_t n, hf_output_co
     return n + 1;
 }
 
-size_t hf_output_columns(const hf_model *m, const hf_output *o, hf_output_column *cols,
-                         size_t cap)
+size_t hf_output_columns(const hf_model *m, const hf_output *o, hf_output_column *cols, size_t cap)
 {
     hf_output_column c = {o->kind, 0, o->load, 0};
     size_t n = 0;
@@ -252,13 +250,16 @@ int hf_output_write_help(FILE *out, const char *indent)
         const hf_output_info *in = &catalogue[k];
         char name[64], col[64];
         snprintf(name, sizeof name, "%s%s", in->name,
-                 k == HF_OUT_OFFSET ? "<load>" : in->per_line ? "[:LINE]" : "");
+                 k == HF_OUT_OFFSET ? "<load>"
+                 : in->per_line     ? "[:LINE]"
+                                    : "");
         if (k == HF_OUT_OFFSET)
             snprintf(col, sizeof col, "offset_<load>_{surge_m,sway_m,yaw_deg}");
         else
             snprintf(col, sizeof col, "%s%s%s%s", in->column, in->per_line ? "<line>" : "",
                      in->unit[0] ? "_" : "", in->unit);
-        if (fprintf(out, "%s%-27s %-38s %s\n", indent, name, col, in->meaning) < 0)
+        if (fprintf(out, "%s%-27s %s\n%s%-27s %s\n", indent, name, col, indent, "", in->meaning) <
+            0)
             return -1;
     }
     return 0;

@@ -47,12 +47,33 @@ void hf_study_list_free(hf_study_list *l)
 
 const char *hf_study_kind_name(hf_study_kind k)
 {
-    static const char *const names[] = {"lines", "curve", "stiffness", "balance", "sweep",
-                                        "invert"};
+    static const char *const names[] = {"lines",   "curve", "stiffness",
+                                        "balance", "sweep", "invert"};
     return (unsigned)k < sizeof names / sizeof names[0] ? names[k] : "?";
 }
 
 /* ---- ranges ---- */
+
+hf_status hf_study_parse_value(const char *text, hf_dim d, double *out, hf_error *err)
+{
+    hf_status st = hf_units_parse(text, d, out, err);
+    if (st != HF_OK || d != HF_DIM_ANGLE)
+        return st;
+    /* The text is a valid angle: its number (decimal, as hf_units_parse
+     * reads it) times the angle of one of its unit, without the reduction. */
+    char *end;
+    double num = strtod(text, &end), one;
+    char unit[64];
+    if (end == text || snprintf(unit, sizeof unit, "1%s", end) >= (int)sizeof unit ||
+        hf_units_parse(unit, HF_DIM_ANGLE, &one, NULL) != HF_OK)
+        return HF_OK; /* keep the reduced value */
+    double x = num * one;
+    /* Up to HF_STUDY_MAX_TURNS whole turns are kept; beyond, the reduced
+     * value stands (exact: reduced in degrees first), so 1e15 deg is 280 deg. */
+    if (isfinite(x) && fabs(x) <= HF_STUDY_MAX_TURNS * 2.0 * M_PI)
+        *out = x;
+    return HF_OK;
+}
 
 /* The tolerance of the range rule, in steps: 1e-9 of a step for rounding
  * in the division, plus 64 ulps of the values' magnitude (the rounding of
@@ -193,8 +214,8 @@ hf_status hf_study_shard_parse(const char *text, unsigned *k, unsigned *n, hf_er
 {
     unsigned long a, b;
     const char *p = text;
-    if (!parse_uint(p, &p, &a) || *p != '/' || !parse_uint(p + 1, &p, &b) || *p != '\0' ||
-        a < 1 || a > b || b > HF_STUDY_MAX_SHARDS)
+    if (!parse_uint(p, &p, &a) || *p != '/' || !parse_uint(p + 1, &p, &b) || *p != '\0' || a < 1 ||
+        a > b || b > HF_STUDY_MAX_SHARDS)
         return hf_error_set(err, HF_EINVAL,
                             "--shard: expected K/N with whole numbers 1 <= K <= N <= %u, got "
                             "\"%s\"",
@@ -213,13 +234,13 @@ int hf_study_default_jobs(void)
 /* One block: chains of HF_STUDY_CHAIN cases aligned on absolute case
  * numbers, evaluated in parallel, each row into its own slot. */
 typedef struct {
-    uint64_t b0, b1;      /* cases of the block (emitted) */
-    char *buf;            /* block * row_cap */
-    int *len;             /* block row lengths */
+    uint64_t b0, b1; /* cases of the block (emitted) */
+    char *buf;       /* block * row_cap */
+    int *len;        /* block row lengths */
 } slab;
 
 typedef struct {
-    char *scratch;        /* jobs * row_cap, for cases that rebuild a chain */
+    char *scratch; /* jobs * row_cap, for cases that rebuild a chain */
     size_t row_cap;
     void **states;
     hf_study_row_fn row;
@@ -362,10 +383,9 @@ hf_status hf_study_stream(uint64_t begin, uint64_t end, void **states, hf_study_
         if (pending && opt->progress)
             opt->progress(opt->progress_ctx, pending->b1 - begin, total);
         if (overflow) {
-            st = hf_error_set(err, HF_ELIMIT,
-                              "a row of the cases %llu..%llu is longer than %zu bytes",
-                              (unsigned long long)next->b0, (unsigned long long)(next->b1 - 1),
-                              opt->row_cap);
+            st = hf_error_set(
+                err, HF_ELIMIT, "a row of the cases %llu..%llu is longer than %zu bytes",
+                (unsigned long long)next->b0, (unsigned long long)(next->b1 - 1), opt->row_cap);
             goto done;
         }
         pending = next;

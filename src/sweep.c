@@ -39,17 +39,17 @@ typedef struct {
 
 typedef struct {
     const hf_sweep *plan;
-    hf_model model;              /* this thread's copy */
+    hf_model model; /* this thread's copy */
     hf_param param[HF_STUDY_MAX_VARY];
     hf_spread *ws;
-    hf_balance *bal;             /* NULL unless an offset output is asked for */
+    hf_balance *bal; /* NULL unless an offset output is asked for */
     hf_spread_result res;
     double K[6][6];
-    hf_status solved;            /* spread status of the current case */
-    hf_status *bal_status;       /* per distinct load */
-    double (*bal_offset)[3];     /* per distinct load: surge, sway (m), yaw (rad) */
-    double *vals;                /* ncols: the current row's outputs, column units */
-    uint64_t failed;             /* emitted cases whose status was not ok */
+    hf_status solved;        /* spread status of the current case */
+    hf_status *bal_status;   /* per distinct load */
+    double (*bal_offset)[3]; /* per distinct load: surge, sway (m), yaw (rad) */
+    double *vals;            /* ncols: the current row's outputs, column units */
+    uint64_t failed;         /* emitted cases whose status was not ok */
     hf_error err;
 } thread_state;
 
@@ -60,14 +60,14 @@ struct hf_sweep {
     hf_study_grid grid;
     size_t ncols;
     column *cols;
-    char **qname;                /* CSV-quoted line names */
+    char **qname; /* CSV-quoted line names */
     int need_k;
-    size_t nbal;                 /* distinct loads of offset outputs */
+    size_t nbal; /* distinct loads of offset outputs */
     size_t *bal_load;
     int jobs;
     thread_state **th;
     size_t row_cap;
-    hf_sweep_table *table;       /* during hf_sweep_run: where rows are kept, or NULL */
+    hf_sweep_table *table; /* during hf_sweep_run: where rows are kept, or NULL */
 };
 
 static void thread_free(thread_state *t)
@@ -254,8 +254,8 @@ static double column_value(const thread_state *t, const column *col)
         return t->bal_offset[col->slot][c->sub] * hf_output_column_scale(c);
     }
     if (hf_output_column_is_line(c)) {
-        size_t li = c->kind == HF_OUT_MAX_TENSION ? t->res.max_tension_line
-                                                  : t->res.max_utilisation_line;
+        size_t li =
+            c->kind == HF_OUT_MAX_TENSION ? t->res.max_tension_line : t->res.max_utilisation_line;
         return li < t->plan->base->nlines ? (double)li : NAN;
     }
     if (hf_output_info_of(c->kind)->per_line)
@@ -538,6 +538,64 @@ const hf_study_grid *hf_sweep_grid(const hf_sweep *s)
     return &s->grid;
 }
 
+/* FNV-1a, 64 bits: offset basis 14695981039346656037, prime 1099511628211. */
+static uint64_t fnv(uint64_t h, const void *data, size_t n)
+{
+    const unsigned char *p = data;
+    for (size_t i = 0; i < n; i++) {
+        h ^= p[i];
+        h *= 1099511628211ull;
+    }
+    return h;
+}
+
+uint64_t hf_sweep_fingerprint(const hf_sweep *s, const void *extra, size_t n)
+{
+    uint64_t h = 14695981039346656037ull;
+    char name[2 * HF_MODEL_MAX_NAME + 4096];
+    for (size_t j = 0; j < s->grid.nvary; j++) {
+        const hf_vary *v = &s->vary[j];
+        h = fnv(h, v->path, strlen(v->path) + 1);
+        h = fnv(h, &s->dim[j], sizeof s->dim[j]);
+        h = fnv(h, &v->nvalues, sizeof v->nvalues);
+        if (v->nvalues)
+            h = fnv(h, v->values, v->nvalues * sizeof *v->values);
+        else {
+            const double r[3] = {v->from, v->to, v->step};
+            h = fnv(h, r, sizeof r);
+        }
+    }
+    h = fnv(h, &s->grid.zip, sizeof s->grid.zip);
+    h = fnv(h, &s->grid.ncases, sizeof s->grid.ncases);
+    for (size_t c = 0; c < s->ncols; c++) {
+        hf_output_column_name(s->base, &s->cols[c].c, name, sizeof name);
+        h = fnv(h, name, strlen(name) + 1);
+    }
+    return extra ? fnv(h, extra, n) : h;
+}
+
+uint64_t hf_sweep_estimate_bytes(const hf_sweep *s, uint64_t ncases)
+{
+    uint64_t per_row = 12u * (uint64_t)(s->grid.nvary + s->ncols) + 16u;
+    if (ncases > UINT64_MAX / per_row)
+        return UINT64_MAX;
+    return ncases * per_row;
+}
+
+hf_status hf_sweep_check_size(const hf_sweep *s, uint64_t ncases, int allow_large,
+                              const char *option, hf_error *err)
+{
+    uint64_t bytes = hf_sweep_estimate_bytes(s, ncases);
+    if (allow_large || bytes <= HF_SWEEP_MAX_BYTES)
+        return HF_OK;
+    return hf_error_set(err, HF_ELIMIT,
+                        "the sweep has %llu cases, about %.3g GB of CSV (more than the %.0f GB "
+                        "limit, HF_SWEEP_MAX_BYTES); check the ranges, split it with --shard, or "
+                        "pass %s to write it anyway",
+                        (unsigned long long)ncases, (double)bytes / 1e9,
+                        (double)HF_SWEEP_MAX_BYTES / 1e9, option);
+}
+
 /* The column name of varied parameter j: its path and unit ("site.depth_m"). */
 static void vary_name(const hf_sweep *s, size_t j, char *buf, size_t cap)
 {
@@ -690,8 +748,7 @@ hf_status hf_sweep_write_rows(hf_sweep *s, const hf_sweep_range *r, FILE *out, h
 hf_status hf_sweep_case_row(hf_sweep *s, uint64_t k, char *buf, size_t cap, hf_error *err)
 {
     if (k >= s->grid.ncases)
-        return hf_error_set(err, HF_EINVAL, "sweep: case %llu out of range",
-                            (unsigned long long)k);
+        return hf_error_set(err, HF_EINVAL, "sweep: case %llu out of range", (unsigned long long)k);
     if (cap < s->row_cap)
         return hf_error_set(err, HF_ELIMIT, "sweep: a row needs up to %zu bytes", s->row_cap);
     thread_state *t = s->th[0];
@@ -729,7 +786,7 @@ hf_status hf_sweep_output_eval(const hf_model *m, hf_spread *ws, hf_balance *bal
     if (st != HF_OK)
         return st;
     *value = hf_output_info_of(o->kind)->per_line ? line_value(&t, o->kind, o->line)
-                                     : spread_value(&t, o->kind);
+                                                  : spread_value(&t, o->kind);
     return HF_OK;
 }
 
@@ -761,13 +818,12 @@ static hf_status quantity(const char *text, size_t n, hf_dim d, const char *whol
     buf[n] = '\0';
     hf_error sub;
     hf_error_clear(&sub);
-    if (hf_units_parse(buf, d, out, &sub) != HF_OK)
+    if (hf_study_parse_value(buf, d, out, &sub) != HF_OK)
         return hf_error_set(err, HF_EINVAL, "--vary %s: %s", whole, sub.text);
     return HF_OK;
 }
 
-hf_status hf_sweep_vary_parse(hf_model *m, const char *text, int bracket, hf_vary *v,
-                              hf_error *err)
+hf_status hf_sweep_vary_parse(hf_model *m, const char *text, int bracket, hf_vary *v, hf_error *err)
 {
     memset(v, 0, sizeof *v);
     const char *eq = strchr(text, '=');
@@ -817,8 +873,7 @@ hf_status hf_sweep_vary_parse(hf_model *m, const char *text, int bracket, hf_var
         if (!bracket && hf_study_vary_count(v) == 0) {
             hf_sweep_vary_clear(v);
             return hf_error_set(err, HF_EINVAL,
-                                "--vary %s: STEP must be non-zero and point from FROM to TO",
-                                text);
+                                "--vary %s: STEP must be non-zero and point from FROM to TO", text);
         }
         return HF_OK;
     }

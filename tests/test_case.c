@@ -130,6 +130,39 @@ static const bad_case bad[] = {
      "criteria.preset: expected a criteria preset (api-rp-2sk, "},
     {"safety factor below 1", VALID "criteria: {intact_factor: 0.8}\n", HF_EINVAL, 10, 27,
      "criteria.intact_factor: expected 0 (no check) or a safety factor >= 1, got \"0.8\""},
+    /* issue 12 item 17: clear messages for near misses */
+    {"abbreviated component type", "site: {depth: 85 m}\ncomponents:\n"
+     "  chain76: {type: studless, grade: R3, diameter: 76 mm}\n" LINEA, HF_EINVAL, 3, 19,
+     "components.chain76.type: expected a component type (studless_chain, studlink_chain, "
+     "six_strand, spiral_strand, polyester, nylon, custom), got \"studless\"; did you mean "
+     "\"studless_chain\"?"},
+    {"decimal comma in a block value", "site:\n  depth: 85,5 m\ncomponents:\n"
+     "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n" LINEA, HF_EINVAL, 2, 10,
+     "site.depth: expected a length, got \"85,5 m\": a decimal comma? write \"85.5 m\""},
+    {"decimal comma in a flow mapping", "site: {depth: 85,5 m}\ncomponents:\n"
+     "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n" LINEA, HF_EINVAL, 1, 18,
+     "site: expected a key of the site, got \"5 m\": a decimal comma? in a {...} mapping a "
+     "comma separates entries: write \"85.5 m\""},
+    /* issue 12 item 6: names that would write DIR/.csv or shadow an index */
+    {"empty line name", HEAD "lines:\n  - name: \"\"\n    anchor: [-500, 0]\n"
+     "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: 520 m}\n",
+     HF_EINVAL, 5, 11, "lines[0].name: expected a line name of at least one letter, digit, '_' "
+     "or '-', got an empty name"},
+    {"numeric line name", HEAD "lines:\n  - name: 7\n    anchor: [-500, 0]\n"
+     "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: 520 m}\n",
+     HF_EINVAL, 5, 11, "lines[0].name: expected a line name with at least one letter, '_' or '-' "
+     "(a number would be read as an index in lines[INDEX]), got \"7\""},
+    {"numeric load name", VALID "loads:\n  - name: 2\n    force: [1 kN, 0]\n", HF_EINVAL, 11, 11,
+     "loads[0].name: expected a load name with at least one letter"},
+    {"empty study name", VALID "studies:\n  - {name: '', kind: lines}\n", HF_EINVAL, 11, 12,
+     "studies[0].name: expected a study name of at least one letter"},
+    /* issue 12 item 3: one parameter varied twice, through an alias */
+    {"parameter varied twice in a study", VALID "studies:\n  - name: s\n    kind: sweep\n"
+     "    vary:\n      - {path: \"lines[0].sections[0].length\", values: [500 m]}\n"
+     "      - {path: \"lines[a].sections[0].length\", values: [510 m]}\n", HF_EINVAL, 15, 16,
+     "studies[0].vary[1].path: expected each parameter varied once, got "
+     "\"lines[a].sections[0].length\", which sets the same value as "
+     "\"lines[0].sections[0].length\" (vary[0])"},
     {"misspelt study kind", VALID "studies:\n  - {name: s, kind: sweeep}\n", HF_EINVAL, 11, 21,
      "studies[0].kind: expected a study kind (lines, curve, stiffness, balance, sweep, invert), "
      "got \"sweeep\"; did you mean \"sweep\"?"},
@@ -478,7 +511,7 @@ static const char full_case[] =
     "    vary:\n"
     "      - {path: \"lines[n1].sections[1].clump\", values: [10 kN, 20 kN, 35 kN]}\n"
     "      - {path: \"lines[0].sections[4].buoy\", values: [1 kN, 2 kN, 3 kN]}\n"
-    "      - {path: hull.heading, range: [0, 10, 2.5]}\n"
+    "      - {path: hull.heading, range: [0, 710, 2.5]}\n"
     "    combine: grid\n"
     "    outputs: [fairlead_tension, \"utilisation:n2\", max_utilisation]\n"
     "  - name: s2\n"
@@ -603,6 +636,9 @@ static void full_case_loads(void **state)
     HF_TEST_ASSERT_NEAR(s[4].vary[0].values[2], 35e3, 1e-9);
     assert_int_equal(s[4].vary[2].dim, HF_DIM_ANGLE);
     HF_TEST_ASSERT_NEAR(s[4].vary[2].step, 2.5 * deg, 1e-12); /* plain angles are degrees */
+    /* a range of angles keeps its whole turns: 0 to 710 deg, 285 values */
+    HF_TEST_ASSERT_NEAR(s[4].vary[2].to, 710 * deg, 1e-12);
+    assert_int_equal(hf_study_vary_count(&s[4].vary[2]), 285);
     assert_int_equal(s[4].zip, 0);
     assert_int_equal(s[4].noutputs, 3);
     assert_string_equal(s[4].outputs[1], "utilisation:n2");
@@ -706,6 +742,34 @@ static void demo_cases_load(void **state)
     hf_model_free(&m);
 }
 
+/* The minimal case skeleton printed in docs/case-format.md loads as it is
+ * (issue 12 item 18: the docs had none; this keeps it valid). */
+static void docs_skeleton_loads(void **state)
+{
+    (void)state;
+    char path[4096];
+    hf_test_root_path(path, sizeof path, "docs/case-format.md");
+    size_t n;
+    char *doc = hf_test_file_read(path, &n);
+    assert_non_null(doc);
+    char *a = strstr(doc, "## A minimal case");
+    assert_non_null(a);
+    a = strstr(a, "```yaml\n");
+    assert_non_null(a);
+    a += 8;
+    char *b = strstr(a, "```");
+    assert_non_null(b);
+    hf_model m;
+    hf_error err;
+    hf_model_init(&m);
+    if (hf_case_load_buffer(a, (size_t)(b - a), "case-format.md", &m, &err) != HF_OK)
+        fail_msg("%s", err.text);
+    assert_int_equal(m.nlines, 1);
+    assert_int_equal(m.ncomponents, 1);
+    hf_model_free(&m);
+    free(doc);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -715,6 +779,7 @@ int main(void)
         cmocka_unit_test(aliases_expand),
         cmocka_unit_test(unreadable_file),
         cmocka_unit_test(full_case_loads),
+        cmocka_unit_test(docs_skeleton_loads),
         cmocka_unit_test(allocation_failures),
         cmocka_unit_test(demo_cases_load),
     };

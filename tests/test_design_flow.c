@@ -95,7 +95,7 @@ static const hf_balance_result *mean_pose(flow *f, size_t cond, hf_env_mean *mea
         if (hf_env_mean_load(&f->h, &f->e, psi0 + dyaw, f->ws, mean, &err) != HF_OK)
             fail_msg("%s", err.text);
         const double *g = mean->total_global;
-        hf_load load = {"env", hypot(g[0], g[1]), atan2(g[1], g[0]), g[2], 0, NULL};
+        hf_load load = {"env", hypot(g[0], g[1]), atan2(g[1], g[0]), g[2], 0, NULL, 0};
         if (hf_balance_solve(f->b, &load, cond, &err) != HF_OK)
             fail_msg("condition %zu: %s", cond, err.text);
         r = hf_balance_result_at(f->b, cond);

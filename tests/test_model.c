@@ -9,6 +9,7 @@
 #include <cmocka.h>
 #include "support.h"
 #include "holdfast/alloc.h"
+#include "holdfast/balance.h"
 #include "holdfast/case.h"
 #include "holdfast/model.h"
 
@@ -409,6 +410,74 @@ static void set_refuses_invalid_values(void **state)
     hf_model_free(&m);
 }
 
+/* loads[X].direction turns the whole load case (issue 12 item 1): a
+ * rotation keeps the magnitude of the resultant force and the moment and
+ * turns the resultant by the same angle (rotation of a sum of vectors is the
+ * sum of the rotated vectors: linearity of rotation, any mechanics text). */
+static void load_direction_turns_everything(void **state)
+{
+    (void)state;
+    static const char yaml[] =
+        "site: {depth: 40 m}\n"
+        "components:\n  ch: {type: studless_chain, grade: R3, diameter: 64 mm}\n"
+        "lines:\n  - {name: a, anchor: [300, 0], fairlead: [0, 0, -3],\n"
+        "            sections: [{component: ch, length: 330 m}]}\n"
+        "loads:\n"
+        "  - name: mixed\n    force: 120 kN\n    direction: 35 deg\n"
+        "    wind: {speed: 21.5 m/s, direction: 80 deg, coefficient: 0.95, area: 640 m^2}\n"
+        "    current: {speed: 0.85 m/s, direction: 300 deg, coefficient: 1.1, area: 310 m^2}\n"
+        "  - name: drag-only\n"
+        "    wind: {speed: 18 m/s, direction: 270 deg, coefficient: 1.0, area: 500 m^2}\n"
+        "    current: {speed: 0.7 m/s, direction: 250 deg, coefficient: 1.0, area: 300 m^2}\n";
+    const double deg = M_PI / 180.0;
+    hf_model m;
+    hf_error err;
+    hf_model_init(&m);
+    if (hf_case_load_buffer(yaml, strlen(yaml), "d.yaml", &m, &err) != HF_OK)
+        fail_msg("%s", err.text);
+    for (size_t li = 0; li < 2; li++) {
+        double f0[3], f1[3];
+        assert_int_equal(hf_balance_load_force(&m.loads[li], f0, &err), HF_OK);
+        char path[64];
+        snprintf(path, sizeof path, "loads[%s].direction", m.loads[li].name);
+        hf_param p;
+        assert_int_equal(hf_model_param_lookup(&m, path, &p, &err), HF_OK);
+        double d0;
+        assert_int_equal(hf_model_param_get(&m, &p, &d0, &err), HF_OK);
+        /* the load's direction: the direct force's, else the first drag term's (wind) */
+        HF_TEST_ASSERT_NEAR(d0, li == 0 ? 35 * deg : 270 * deg, 1e-12);
+        double turn = 117.5 * deg;
+        assert_int_equal(hf_model_param_set(&m, &p, d0 + turn, &err), HF_OK);
+        assert_int_equal(hf_balance_load_force(&m.loads[li], f1, &err), HF_OK);
+        double c = cos(turn), s = sin(turn);
+        HF_TEST_ASSERT_NEAR(f1[0], c * f0[0] - s * f0[1], 1e-9 * hypot(f0[0], f0[1]));
+        HF_TEST_ASSERT_NEAR(f1[1], s * f0[0] + c * f0[1], 1e-9 * hypot(f0[0], f0[1]));
+        HF_TEST_ASSERT_NEAR(f1[2], f0[2], 1e-9);
+        double d1;
+        assert_int_equal(hf_model_param_get(&m, &p, &d1, &err), HF_OK);
+        HF_TEST_ASSERT_NEAR(d1, d0 + turn, 1e-12);
+    }
+    /* a parameter that was not looked up is a failure, not a plausible 0.0
+     * (issue 11 item 5) */
+    {
+        hf_param none;
+        memset(&none, 0, sizeof none);
+        double v = 2.385;
+        assert_int_equal(hf_model_param_get(&m, &none, &v, &err), HF_EINVAL);
+        assert_true(v == 2.385); /* left untouched */
+        hf_param far;
+        assert_int_equal(hf_model_param_lookup(&m, "loads[mixed].direction", &far, &err), HF_OK);
+        far.index = 99; /* bound to another model */
+        assert_int_equal(hf_model_param_get(&m, &far, &v, &err), HF_EINVAL);
+    }
+    /* a load without a direct force cannot have its force varied */
+    hf_param p;
+    assert_int_equal(hf_model_param_lookup(&m, "loads[drag-only].force", &p, &err), HF_EINVAL);
+    assert_non_null(strstr(err.text, "has no direct force"));
+    assert_int_equal(hf_model_param_lookup(&m, "loads[mixed].force", &p, &err), HF_OK);
+    hf_model_free(&m);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -418,6 +487,7 @@ int main(void)
         cmocka_unit_test(lookup_every_path_form),
         cmocka_unit_test(set_rederives),
         cmocka_unit_test(set_refuses_invalid_values),
+        cmocka_unit_test(load_direction_turns_everything),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
 }

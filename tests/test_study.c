@@ -96,6 +96,36 @@ static void test_range_count_edges(void **s)
     assert_int_equal(hf_study_range_count(0.0, 1.0, 4.9e-324, 1000), 1001);
 }
 
+/* Varied angles keep their whole turns (a range 0:720:90 deg spans two
+ * turns); a plain number is degrees, "rad" radians; beyond
+ * HF_STUDY_MAX_TURNS the exact reduction of hf_units_parse stands. */
+static void test_parse_value_turns(void **s)
+{
+    (void)s;
+    const double deg = M_PI / 180.0;
+    double x;
+    hf_error e;
+    assert_int_equal(hf_study_parse_value("720", HF_DIM_ANGLE, &x, &e), HF_OK);
+    assert_near(x, 720 * deg, 1e-12);
+    assert_int_equal(hf_study_parse_value("-450 deg", HF_DIM_ANGLE, &x, &e), HF_OK);
+    assert_near(x, -450 * deg, 1e-12);
+    assert_int_equal(hf_study_parse_value("12.5 rad", HF_DIM_ANGLE, &x, &e), HF_OK);
+    assert_near(x, 12.5, 1e-15);
+    /* 1e15 = 2777777777777 * 360 + 280: the reduced angle, exactly */
+    assert_int_equal(hf_study_parse_value("1e15", HF_DIM_ANGLE, &x, &e), HF_OK);
+    assert_near(x, 280 * deg, 1e-12);
+    /* other dimensions as hf_units_parse; errors kept */
+    assert_int_equal(hf_study_parse_value("76 mm", HF_DIM_LENGTH, &x, &e), HF_OK);
+    assert_near(x, 0.076, 1e-15);
+    assert_int_equal(hf_study_parse_value("0x10", HF_DIM_ANGLE, &x, &e), HF_EINVAL);
+    assert_int_equal(hf_study_parse_value("3 kN", HF_DIM_ANGLE, &x, &e), HF_EINVAL);
+    /* the range 0:720:90 keeps its nine values */
+    hf_vary v = range("hull.heading", 0.0, 0.0, 0.0);
+    assert_int_equal(hf_study_parse_value("720", HF_DIM_ANGLE, &v.to, &e), HF_OK);
+    assert_int_equal(hf_study_parse_value("90", HF_DIM_ANGLE, &v.step, &e), HF_OK);
+    assert_int_equal(hf_study_vary_count(&v), 9);
+}
+
 static void test_study_list(void **s)
 {
     (void)s;
@@ -414,6 +444,7 @@ int main(void)
         cmocka_unit_test(test_vary_count),
         cmocka_unit_test(test_range_count_edges),
         cmocka_unit_test(test_study_list),
+        cmocka_unit_test(test_parse_value_turns),
         cmocka_unit_test(test_grid_factorial),
         cmocka_unit_test(test_grid_zip),
         cmocka_unit_test(test_grid_errors),

@@ -209,6 +209,14 @@ static void test_vary_parse(void **s)
                      HF_OK);
     assert_true(v.from == 380 && v.to == 425);
     hf_sweep_vary_clear(&v);
+    /* Headings over two turns: nine values (each of FROM, TO, STEP reduced
+     * to one turn made it the single value 0), and a bracket across 360 deg. */
+    assert_int_equal(hf_sweep_vary_parse(&model, "hull.heading=0:720:90", 0, &v, &e), HF_OK);
+    assert_int_equal(hf_study_vary_count(&v), 9);
+    hf_sweep_vary_clear(&v);
+    assert_int_equal(hf_sweep_vary_parse(&model, "hull.heading=350:370", 1, &v, &e), HF_OK);
+    assert_true(v.from < v.to);
+    hf_sweep_vary_clear(&v);
     const char *bad[] = {"site.depth", "=1,2", "site.depth=", "site.depth=1:2",
                          "site.depth=3:1:1", "site.depth=1:2:0", "site.depth=1,nan",
                          "site.depth=1e309", "site.depth=3 kN", "site.deep=1,2",
@@ -397,6 +405,20 @@ static void test_invert_not_bracketed(void **s)
                                      3e5, &res, &e),
                      HF_ERANGE);
     assert_non_null(strstr(e.text, "lower end"));
+    /* Messages name the output in full (its line or load) and give the
+     * parameter in the unit people read: degrees for angles (issue 12 item 17). */
+    assert_int_equal(hf_invert_solve(&model, "lines[north].sections[3].length", 111.0, 125.0, &o,
+                                     5e6, &res, &e),
+                     HF_ERANGE);
+    assert_non_null(strstr(e.text, "fairlead_tension:north = 5000 kN"));
+    assert_non_null(strstr(e.text, "[111 m, 125 m]"));
+    assert_int_equal(hf_output_parse(&model, "offset_gale", &o, &e), HF_OK);
+    const double deg = M_PI / 180.0;
+    assert_int_equal(hf_invert_solve(&model, "hull.heading", 10.0 * deg, 12.5 * deg, &o, 1e3,
+                                     &res, &e),
+                     HF_ERANGE);
+    assert_non_null(strstr(e.text, "offset_gale = 1000 m"));
+    assert_non_null(strstr(e.text, "[10 deg, 12.5 deg]"));
 }
 
 /* The table in memory holds the numbers the CSV prints (hf_csv's 10
@@ -568,6 +590,27 @@ static void test_vary_twice_refused(void **s)
         assert_non_null(strstr(e.text, pairs[i][0]));
         assert_non_null(strstr(e.text, pairs[i][1]));
         assert_non_null(strstr(e.text, "varied twice"));
+    }
+    /* a varied moment's column has no space in its unit (issue 12 item 17:
+     * it read "loads[gale].moment_N m") */
+    {
+        hf_vary v1;
+        memset(&v1, 0, sizeof v1);
+        double mom[] = {1.5e6};
+        v1.path = "loads[gale].moment";
+        v1.nvalues = 1;
+        v1.values = mom;
+        hf_error e1;
+        hf_sweep *sw1 = hf_sweep_alloc(&model, &v1, 1, 0, NULL, 0, 1, &e1);
+        assert_non_null(sw1);
+        char *text = NULL;
+        size_t len = 0;
+        FILE *f = open_memstream(&text, &len);
+        assert_int_equal(hf_sweep_write_header(sw1, f, &e1), HF_OK);
+        fclose(f);
+        assert_true(!strncmp(text, "loads[gale].moment_Nm,status,", 29));
+        free(text);
+        hf_sweep_free(sw1);
     }
     /* different parameters of one line are fine */
     hf_vary v[2];

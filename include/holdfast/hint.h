@@ -3,7 +3,8 @@
  * A small utility used by the case loader and the output catalogue: among
  * candidate words, the one closest to a misspelt word by Levenshtein edit
  * distance (Levenshtein 1966), when it is close enough to be a likely typo
- * (at most a third of the longer word's letters differ). */
+ * (at most a third of the longer word's letters differ, or the word is the
+ * start of the candidate: an abbreviation). */
 #ifndef HOLDFAST_HINT_H
 #define HOLDFAST_HINT_H
 

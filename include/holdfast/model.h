@@ -91,6 +91,8 @@ typedef struct {
     double moment;         /* yaw moment about the reference point, N m (ccw +) */
     size_t ndrag;
     hf_drag *drag;         /* wind and current terms */
+    int no_force;          /* 1 when the case gives no direct force (force: absent): the
+                              load is its drag terms and moment; 0 (the default) otherwise */
 } hf_load;
 
 typedef enum { HF_ANALYSIS_QUASI_STATIC = 0, HF_ANALYSIS_DYNAMIC } hf_analysis_kind;
@@ -144,7 +146,15 @@ size_t hf_model_load_find(const hf_model *m, const char *name);
 /* A numeric parameter reached through a path such as "site.depth",
  * "site.water_level", "lines[bow-port].sections[2].length",
  * "lines[0].anchor_radius", "components.chain76.diameter",
- * "loads[storm].force".  Bound to one model: look it up again in a copy. */
+ * "loads[storm].force".  Bound to one model: look it up again in a copy.
+ *
+ * "loads[X].direction" is the direction of the whole load case: the
+ * direction of its direct force, or of its first drag term (wind, else
+ * current) when it has no direct force.  Setting it turns every part of the
+ * load (the direct force and each wind and current term) by the same angle,
+ * so their relative directions are kept.  "loads[X].force" needs a load with
+ * a direct force (no_force 0): on a load made only of drag terms the lookup
+ * is refused rather than adding a force the case file does not have. */
 typedef struct {
     double *value;   /* where the SI value lives in the model (NULL for derived paths) */
     hf_dim dim;

@@ -105,8 +105,9 @@ int hf_output_column_is_line(const hf_output_column *c);
 /* The default outputs of a sweep, as names (count in *n). */
 const char *const *hf_output_defaults(size_t *n);
 
-/* Writes the catalogue for --help: one line per output, NAME[:LINE], its
- * column(s), unit and meaning, each line starting with `indent`.  Returns 0,
+/* Writes the catalogue for --help: per output a line with NAME[:LINE] and
+ * its column(s) with their unit, then a line with its meaning, each line
+ * starting with `indent`.  Returns 0,
  * or -1 when a write fails. */
 int hf_output_write_help(FILE *out, const char *indent);
 

@@ -1,7 +1,11 @@
-/* study.h - the case space of a sweep and the ordered parallel row stream.
+/* study.h - the study list, the range rule, the case space of a sweep and
+ * the ordered parallel row stream.
  *
  * Flow: case -> model -> line solve -> spread -> **studies** -> writers.
- * This module knows nothing of mooring: it turns varied parameters (ranges
+ * The study list (hf_study_list) is what a case file's `studies:` section
+ * asks for; the case loader fills it beside the model and the drivers run
+ * it.  The rest of this module knows nothing of mooring: it counts ranges
+ * (hf_study_range_count, the one range rule), turns varied parameters (ranges
  * or lists, a full factorial grid or zipped lists) into case numbers and back
  * into values, splits a case range into shards, and drives any per-case row
  * function over a range of cases on several OpenMP threads while writing the
@@ -81,6 +85,19 @@ void hf_study_list_free(hf_study_list *l);
 const char *hf_study_kind_name(hf_study_kind k);
 
 /* ---- ranges ---- */
+
+/* Reads one value of a varied parameter (a list entry, a range's FROM, TO or
+ * STEP, an inversion's bracket) of dimension d into *out, SI: as
+ * hf_units_parse (units.h), except that angles are not reduced by whole
+ * turns.  A range of headings 0:720:90 deg spans two turns and its step
+ * 450 deg is not 90 deg: reducing FROM, TO and STEP one by one would change
+ * the range (0:720:90 became the single value 0).  Each case's angle is a
+ * direction again once set in the model.  Angles of more than
+ * HF_STUDY_MAX_TURNS turns are reduced as hf_units_parse does (exactly, in
+ * degrees), so 1e15 deg gives the 280 deg it is.  HF_EINVAL with
+ * hf_units_parse's message. */
+#define HF_STUDY_MAX_TURNS 100
+hf_status hf_study_parse_value(const char *text, hf_dim d, double *out, hf_error *err);
 
 /* The one range rule of holdfast (case files, --vary, --range): the number
  * of values FROM, FROM + STEP, ... up to TO.  TO is included when it lies on

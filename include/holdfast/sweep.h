@@ -41,7 +41,8 @@ typedef struct hf_sweep hf_sweep;
  * taken from the model, not from vary[].dim); zip: zipped lists; outputs:
  * noutputs names (0 = defaults); jobs >= 1 threads (a model copy and
  * workspaces are allocated for each here, once).  Returns NULL with err:
- * HF_EINVAL (unknown path or output, zip lengths differ, empty range),
+ * HF_EINVAL (unknown path or output, zip lengths differ, empty range, a
+ * parameter varied twice: hf_model_param_same),
  * HF_ELIMIT (too many cases or parameters), HF_ENOMEM. */
 hf_sweep *hf_sweep_alloc(const hf_model *m, const hf_vary *vary, size_t nvary, int zip,
                          const char *const *outputs, size_t noutputs, int jobs, hf_error *err);
@@ -52,6 +53,34 @@ void hf_sweep_free(hf_sweep *s);
 /* Number of cases, and the grid (valid while s lives). */
 uint64_t hf_sweep_ncases(const hf_sweep *s);
 const hf_study_grid *hf_sweep_grid(const hf_sweep *s);
+
+/* Largest CSV a sweep writes without being asked explicitly (sweep
+ * --allow-large): 10 GB.  At the ~100 MB/s a sweep can write, that is about
+ * two minutes of disk filling; a mistyped range (0:1e6:1e-4 on four
+ * parameters) is refused before it starts. */
+#define HF_SWEEP_MAX_BYTES 10000000000ull
+
+/* Estimated CSV size of `ncases` rows of sweep s, in bytes: each field
+ * counted at 12 bytes (a 10-digit number with its sign, exponent or
+ * separator), plus the row's status word and newline.  An estimate, not a
+ * bound: the point is the order of magnitude. */
+uint64_t hf_sweep_estimate_bytes(const hf_sweep *s, uint64_t ncases);
+
+/* HF_OK when ncases rows of s are estimated at most HF_SWEEP_MAX_BYTES or
+ * allow_large is set; else HF_ELIMIT with a message giving the case count,
+ * the estimated size and the way to proceed (`option` names the switch,
+ * e.g. "--allow-large"). */
+hf_status hf_sweep_check_size(const hf_sweep *s, uint64_t ncases, int allow_large,
+                              const char *option, hf_error *err);
+
+/* A fingerprint of the sweep: 64-bit FNV-1a (Fowler, Noll and Vo; IETF
+ * draft-eastlake-fnv) over the varied parameters (paths, dimensions, every
+ * list value or the range's from, to and step as bit patterns), the way they
+ * combine, the number of cases, the output column names and `extra` (n
+ * bytes, may be NULL: e.g. the case file's bytes).  Two sweeps that would
+ * write different rows get different fingerprints (up to hash collisions);
+ * the parts of one sweep share it, so a merge can tell them apart. */
+uint64_t hf_sweep_fingerprint(const hf_sweep *s, const void *extra, size_t n);
 
 /* Writes the header row (column names with units) to out.  HF_EIO when the
  * write fails. */
@@ -139,8 +168,9 @@ const char *hf_sweep_status_word(hf_status s);
  * dimension goes into v->dim).  SPEC is "FROM:TO:STEP" (a range), or
  * "V1,V2,..." (a list; one value is a list of one); with `bracket` set it
  * must be "LO:HI" (stored in from/to, step 0, LO < HI).  Each number is read
- * by hf_units_parse with the parameter's dimension: a plain number is SI
- * (degrees for angles), and units are allowed ("76mm", "1.5 kN").  v->path
+ * by hf_study_parse_value with the parameter's dimension: a plain number is
+ * SI (degrees for angles, which keep their whole turns), and units are
+ * allowed ("76mm", "1.5 kN").  v->path
  * points into `text`'s copy owned by v; release with hf_sweep_vary_clear.
  * HF_EINVAL with a message, HF_ENOMEM. */
 hf_status hf_sweep_vary_parse(hf_model *m, const char *text, int bracket, hf_vary *v,
