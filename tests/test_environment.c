@@ -271,6 +271,52 @@ static void test_newman_zero(void **state)
     hf_table_free(d);
 }
 
+typedef struct {
+    const hf_spectrum *s;
+    const hf_table *d;
+} sf_params;
+
+static double sf_of(double mu, void *p)
+{
+    const sf_params *q = p;
+    double v = NAN;
+    hf_error e;
+    if (hf_env_slow_drift_spectrum(q->s, q->d, 1.1, 0, mu, ws, &v, &e) != HF_OK)
+        return NAN;
+    return v;
+}
+
+/* For a constant drift coefficient D the slow-drift force is D times the
+ * squared wave envelope, which is exponentially distributed (Rayleigh
+ * envelope; Longuet-Higgins 1952), so its standard deviation equals its mean
+ * 2 D m0.  In spectral terms: integral_0^inf S_F(mu) dmu
+ * = 8 D^2 integral over w2 > w1 of S(w1) S(w2) = 4 D^2 m0^2 = (2 D m0)^2,
+ * for any spectrum (the integral over the half plane is half of m0^2). */
+static void test_newman_variance(void **state)
+{
+    (void)state;
+    const double g[] = {1.0, 3.3};
+    gsl_integration_workspace *w = gsl_integration_workspace_alloc(500);
+    for (int i = 0; i < 2; i++) {
+        hf_spectrum s;
+        hf_error e;
+        assert_int_equal(
+            hf_spectrum_jonswap_init(&s, 2.93, 8.61, g[i], hf_env_workspace_inner(ws), &e), HF_OK);
+        hf_table *d = flat(HF_TABLE_DRIFT, 27.9e3, 0.0, 0.0);
+        sf_params p = {&s, d};
+        gsl_function f = {sf_of, &p};
+        double a, b, err;
+        assert_int_equal(
+            gsl_integration_qag(&f, 0.0, s.wp, 0.0, 1e-7, 500, GSL_INTEG_GAUSS21, w, &a, &err),
+            GSL_SUCCESS);
+        assert_int_equal(gsl_integration_qagiu(&f, s.wp, 0.0, 1e-7, 500, w, &b, &err), GSL_SUCCESS);
+        double m0 = 2.93 * 2.93 / 16.0, want = pow(2.0 * 27.9e3 * m0, 2);
+        rel_near(a + b, want, 1e-5, "slow-drift force variance = mean^2");
+        hf_table_free(d);
+    }
+    gsl_integration_workspace_free(w);
+}
+
 /* The white-noise approximation approaches the full integral as damping
  * falls (the response spectrum narrows to a spike at w_n; Newland ch. 7).
  * Measured on the invented barge's drift table. */
@@ -748,12 +794,19 @@ static void test_workspace_alloc(void **state)
 int main(void)
 {
     const struct CMUnitTest tests[] = {
-        cmocka_unit_test(test_wind_current),    cmocka_unit_test(test_mean_drift),
-        cmocka_unit_test(test_wave_frequency),  cmocka_unit_test(test_oscillator_white),
-        cmocka_unit_test(test_newman_zero),     cmocka_unit_test(test_white_noise_light_damping),
-        cmocka_unit_test(test_time_domain),     cmocka_unit_test(test_most_probable_max),
-        cmocka_unit_test(test_stiffness_hull),  cmocka_unit_test(test_design_offset),
-        cmocka_unit_test(test_refusals),        cmocka_unit_test(test_barge_chain),
+        cmocka_unit_test(test_wind_current),
+        cmocka_unit_test(test_mean_drift),
+        cmocka_unit_test(test_wave_frequency),
+        cmocka_unit_test(test_oscillator_white),
+        cmocka_unit_test(test_newman_zero),
+        cmocka_unit_test(test_newman_variance),
+        cmocka_unit_test(test_white_noise_light_damping),
+        cmocka_unit_test(test_time_domain),
+        cmocka_unit_test(test_most_probable_max),
+        cmocka_unit_test(test_stiffness_hull),
+        cmocka_unit_test(test_design_offset),
+        cmocka_unit_test(test_refusals),
+        cmocka_unit_test(test_barge_chain),
         cmocka_unit_test(test_workspace_alloc),
     };
     hf_gsl_handler_install();
