@@ -100,7 +100,7 @@ static hf_status spec_integral(double (*fn)(double, void *), spec_params *sp, do
     hi = fmax(fmax(fr[nf - 1] - shift, 2.0 * sp->s->wp), lo);
     int rc = 0;
     for (int pass = 0, npiece = 0; pass < 2 && rc == 0; pass++) {
-        double a = lo, epsabs = pass ? epsrel * est / npiece : 0.0;
+        double a = lo, epsabs = pass && npiece ? epsrel * est / npiece : 0.0;
         size_t i = 0;
         int j = 0;
         while (a < hi && rc == 0) {

@@ -232,7 +232,10 @@ static void test_oscillator_white(void **state)
                  "white-noise formula");
     }
     hf_error e;
-    double var;
+    double var = -1.0, zero = 0.0;
+    hf_env_fspec none = {white, &zero}; /* no force: no motion, and no quadrature failure */
+    OK(hf_env_oscillator_variance(&none, 2.37e5, 4.1e7, 0.05, 1e-6, ws, &var, E_));
+    assert_true(var == 0.0);
     assert_int_equal(hf_env_oscillator_variance(&sf, 0.0, 1.0, 0.1, 1e-6, ws, &var, &e), HF_EINVAL);
     assert_int_equal(hf_env_oscillator_variance(&sf, 1.0, -1.0, 0.1, 1e-6, ws, &var, &e),
                      HF_EINVAL);
@@ -773,6 +776,12 @@ static void test_barge_chain(void **state)
                   secs, mean.total_global[0] / 1e3, m.dof[0].lf_period, m.dof[0].lf_sig,
                   2.0 * sqrt(m.dof[0].lf_var_white), m.dof[0].lf_max, m.dof[0].wf_sig,
                   m.dof[0].wf_max, m.dof[0].wf_tz);
+    /* head seas (waves along the hull's x axis): the invented tables have no
+     * sway RAO or sway drift there, so no sway motion, and no failure */
+    e.waves.direction = yaw;
+    OK(hf_env_motion(&h, &e, yaw, k, ws, &m, E_));
+    assert_true(m.dof[1].lf_var == 0.0 && m.dof[1].wf_var == 0.0 && m.dof[1].lf_max == 0.0);
+    assert_true(m.dof[0].lf_var > 0.0 && m.dof[0].wf_var > 0.0);
     hf_table_free(r);
     hf_table_free(d);
     hf_table_free(w);
