@@ -94,6 +94,10 @@ const double *hf_table_freqs(const hf_table *t);
 /* Tabulated frequency range, rad/s (both 0 for HF_TABLE_COEF). */
 void hf_table_freq_range(const hf_table *t, double *lo, double *hi);
 
+/* Largest gap between neighbouring tabulated headings, across 360 deg too,
+ * rad (2 pi for a table with one heading): for `holdfast check` reports. */
+double hf_table_heading_gap_max(const hf_table *t);
+
 /* Interpolated values at frequency w (rad/s; ignored for HF_TABLE_COEF) and
  * relative heading (rad, any finite value): v[0] along hull x, v[1] along
  * hull y, v[2] about the vertical axis, in the SI units above.  Pure; no
