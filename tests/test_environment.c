@@ -334,9 +334,9 @@ static void test_white_noise_light_damping(void **state)
     h.drift = d;
     hf_environment e = waves_env(5.1, 11.4, 3.3, 150 * DEG);
     const double k[3] = {9.2e4, 1.61e5, 4.4e9};
-    const double zeta[] = {0.01, 0.03, 0.1};
+    const double zeta[] = {0.001, 0.01, 0.03, 0.1};
     double prev = -1.0;
-    for (int i = 0; i < 3; i++) {
+    for (int i = 0; i < 4; i++) {
         for (int j = 0; j < 3; j++)
             h.damping[j] = zeta[i];
         hf_env_motion_result m;
@@ -347,9 +347,10 @@ static void test_white_noise_light_damping(void **state)
             worst = fmax(worst, rel);
             rel_near(m.dof[j].lf_period, 2.0 * M_PI * sqrt(h.inertia[j] / k[j]), 1e-14, "T_n");
         }
-        print_message("zeta %.2f: white-noise vs full integral, worst of 3 DOF %.3f %%\n", zeta[i],
+        print_message("zeta %.3f: white-noise vs full integral, worst of 3 DOF %.3f %%\n", zeta[i],
                       100.0 * worst);
-        if (zeta[i] <= 0.01 && !(worst <= 0.02))
+        /* the difference is first order in zeta: <= 2 zeta (measured 0.81 % at 0.01) */
+        if (!(worst <= 2.0 * zeta[i]))
             fail_msg("zeta %g: white noise off by %.3f %%", zeta[i], 100.0 * worst);
         assert_true(worst > prev); /* the approximation worsens as damping grows */
         prev = worst;
