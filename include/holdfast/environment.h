@@ -131,8 +131,10 @@ typedef struct {
  * intervals: inner and outer).  Not thread-safe; one per thread. */
 typedef struct hf_env_workspace hf_env_workspace;
 
+/* A new workspace owned by the caller, or NULL with HF_ENOMEM in err. */
 hf_env_workspace *hf_env_workspace_alloc(hf_error *err);
-void hf_env_workspace_free(hf_env_workspace *ws); /* NULL allowed */
+/* Frees a workspace; NULL is allowed. */
+void hf_env_workspace_free(hf_env_workspace *ws);
 
 /* Defaults: no parts, duration HF_ENV_DURATION_DEFAULT, gamma
  * HF_ENV_GAMMA_DEFAULT. */

@@ -84,6 +84,8 @@ hf_status hf_table_from_values(hf_table_kind k, const char *name, size_t nf, con
 /* Frees a table; NULL is allowed. */
 void hf_table_free(hf_table *t);
 
+/* Accessors (t not NULL): kind; file name (owned by the table); number of
+ * tabulated frequencies (0 for HF_TABLE_COEF) and headings. */
 hf_table_kind hf_table_kind_of(const hf_table *t);
 const char *hf_table_name(const hf_table *t);
 size_t hf_table_nfreq(const hf_table *t);
