@@ -216,7 +216,7 @@ static double white(double mu, void *p)
 
 /* For white noise the integral is exactly pi S0 / (2 k c) (classical
  * random-vibration result, e.g. Newland, An Introduction to Random
- * Vibrations, ch. 7), for any damping. */
+ * Vibrations; the chapter not checked), for any damping. */
 static void test_oscillator_white(void **state)
 {
     (void)state;
@@ -321,7 +321,7 @@ static void test_newman_variance(void **state)
 }
 
 /* The white-noise approximation approaches the full integral as damping
- * falls (the response spectrum narrows to a spike at w_n; Newland ch. 7).
+ * falls (the response spectrum narrows to a spike at w_n; Newland).
  * Measured on the invented barge's drift table. */
 static void test_white_noise_light_damping(void **state)
 {
