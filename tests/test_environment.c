@@ -17,6 +17,7 @@
 #include <gsl/gsl_integration.h>
 #include <gsl/gsl_odeiv2.h>
 #include <gsl/gsl_rng.h>
+#include <gsl/gsl_roots.h>
 #include <gsl/gsl_sf_gamma.h>
 #include "holdfast/alloc.h"
 #include "holdfast/environment.h"
@@ -536,6 +537,126 @@ static void test_time_domain(void **state)
     time_domain(0.30, 40, 0);
 }
 
+/* ---- mean pose under heading-dependent loads ------------------------------ */
+
+/* A linear mooring (classical linear springs): offset = load / k. */
+static hf_status springs(const double load[3], double offset[3], void *ctx, hf_error *err)
+{
+    const double *k = ctx;
+    (void)err;
+    for (int i = 0; i < 3; i++)
+        offset[i] = load[i] / k[i];
+    return HF_OK;
+}
+
+typedef struct {
+    const hf_env_hull *h;
+    const hf_environment *e;
+    double heading, kyaw;
+} yaw_root;
+
+/* g(x) of the fixed point, for GSL's Brent solver (the reference). */
+static double yaw_g(double x, void *p)
+{
+    const yaw_root *y = p;
+    hf_env_mean m;
+    hf_error e;
+    if (hf_env_mean_load(y->h, y->e, y->heading + x, ws, &m, &e) != HF_OK)
+        return NAN;
+    return m.total_global[2] / y->kyaw - x;
+}
+
+static double brent_root(yaw_root *y, double lo, double hi)
+{
+    gsl_function f = {yaw_g, y};
+    gsl_root_fsolver *s = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
+    assert_int_equal(gsl_root_fsolver_set(s, &f, lo, hi), GSL_SUCCESS);
+    for (int i = 0; i < 200; i++) {
+        gsl_root_fsolver_iterate(s);
+        if (gsl_root_test_interval(gsl_root_fsolver_x_lower(s), gsl_root_fsolver_x_upper(s), 1e-13,
+                                   0.0) == GSL_SUCCESS)
+            break;
+    }
+    double r = gsl_root_fsolver_root(s);
+    gsl_root_fsolver_free(s);
+    return r;
+}
+
+static hf_status never_settles(const double load[3], double offset[3], void *ctx, hf_error *err)
+{
+    int *n = ctx;
+    (void)load, (void)err;
+    offset[0] = offset[1] = 0.0;
+    offset[2] = (++*n % 2 ? 0.3 : -0.3);
+    return HF_OK;
+}
+
+static hf_status no_equilibrium(const double load[3], double offset[3], void *ctx, hf_error *err)
+{
+    (void)load, (void)offset, (void)ctx;
+    return hf_error_set(err, HF_ENOEQUIL, "the spread cannot hold the load");
+}
+
+/* The wind's yaw moment turns the hull toward the wind; with a soft yaw
+ * mooring (k_yaw below the moment's slope) plain substitution would
+ * oscillate and diverge (ratio -1.5); the secant finds the same root as
+ * GSL's Brent solver, and the equilibrium is consistent. */
+static void test_mean_pose(void **state)
+{
+    (void)state;
+    hf_env_hull h;
+    barge_hull(&h);
+    hf_table *w = load("tests/data/env/barge-wind.csv", HF_TABLE_COEF);
+    h.wind = w;
+    hf_environment e;
+    hf_environment_default(&e);
+    e.name = "squall";
+    e.has_wind = 1;
+    double heading = 17.0 * DEG;
+    e.wind = (hf_env_flow){25.0, heading + 10.0 * DEG};
+    /* slope of Mz with yaw near 10 deg: q A L (0.074 / 30 deg) = 3.97e6 N m/rad */
+    const double kyaw[] = {1.3e7, 2.6e6};
+    for (int i = 0; i < 2; i++) {
+        double k[3] = {2.2e5, 1.9e5, kyaw[i]}, off[3];
+        hf_env_mean m;
+        int it = 0;
+        OK(hf_env_mean_pose(&h, &e, heading, springs, k, NULL, ws, off, &m, &it, E_));
+        yaw_root y = {&h, &e, heading, kyaw[i]};
+        double want = brent_root(&y, 0.0, 10.0 * DEG);
+        /* substitution x <- x + g(x) has the ratio 1 + g'(x): |.| > 1 diverges */
+        double ratio = 1.0 + (yaw_g(want + 1e-4, &y) - yaw_g(want - 1e-4, &y)) / 2e-4;
+        if (i == 1 && !(ratio < -1.0))
+            fail_msg("soft mooring: substitution ratio %g, meant to be below -1", ratio);
+        rel_near(off[2], want, 1e-7, "mean yaw");
+        rel_near(off[0], m.total_global[0] / k[0], 1e-12, "surge from the loads");
+        print_message("mean pose, k_yaw %.3g N m/rad: yaw %.4f deg in %d equilibria "
+                      "(substitution ratio %.2f)\n",
+                      kyaw[i], off[2] / DEG, it, ratio);
+        assert_true(it <= 12);
+    }
+    double off[3];
+    hf_env_mean m;
+    int n = 0, it = 0;
+    hf_error er;
+    hf_error_clear(&er);
+    assert_int_equal(
+        hf_env_mean_pose(&h, &e, heading, never_settles, &n, NULL, ws, off, &m, &it, &er),
+        HF_ENOCONV);
+    assert_non_null(strstr(er.text, "squall: the mean heading did not settle in 50"));
+    assert_int_equal(it, 50);
+    assert_int_equal(
+        hf_env_mean_pose(&h, &e, heading, no_equilibrium, NULL, NULL, ws, off, &m, &it, &er),
+        HF_ENOEQUIL);
+    assert_non_null(strstr(er.text, "cannot hold"));
+    hf_env_pose_options o;
+    hf_env_pose_options_default(&o);
+    o.max_iter = 0;
+    assert_int_equal(
+        hf_env_mean_pose(&h, &e, heading, springs, (void *)kyaw, &o, ws, off, &m, &it, &er),
+        HF_EINVAL);
+    hf_table_free(w);
+}
+
 /* ---- statistics, stiffness axes, design offset --------------------------- */
 
 /* sigma sqrt(2 ln N), N = duration / period (Longuet-Higgins 1952). */
@@ -812,6 +933,7 @@ int main(void)
         cmocka_unit_test(test_newman_variance),
         cmocka_unit_test(test_white_noise_light_damping),
         cmocka_unit_test(test_time_domain),
+        cmocka_unit_test(test_mean_pose),
         cmocka_unit_test(test_most_probable_max),
         cmocka_unit_test(test_stiffness_hull),
         cmocka_unit_test(test_design_offset),

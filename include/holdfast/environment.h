@@ -17,9 +17,9 @@
  *     m, m and rad.
  *
  * A design study uses it like this (one environment, one condition):
- *   1. mean pose: repeat { hf_env_mean_load(h, e, yaw) -> global load ->
- *      balance -> new mean yaw } until the yaw settles (the loads depend on
- *      the relative headings);
+ *   1. mean pose: hf_env_mean_pose(h, e, heading, eq = balance) finds the
+ *      yaw at which the loads (which depend on the relative headings) and
+ *      the equilibrium agree;
  *   2. k = hf_env_stiffness_hull(K at the mean pose, yaw);
  *   3. hf_env_motion(h, e, yaw, k) -> LF and WF statistics per DOF;
  *   4. hf_env_design_offset(mean offset, mean yaw offset, yaw, motions) ->
@@ -159,6 +159,39 @@ hf_status hf_env_check(const hf_env_hull *h, const hf_environment *e, double yaw
  * hf_env_check first; statuses as hf_env_check. */
 hf_status hf_env_mean_load(const hf_env_hull *h, const hf_environment *e, double yaw,
                            hf_env_workspace *ws, hf_env_mean *out, hf_error *err);
+
+/* The caller's mean equilibrium (e.g. hf_balance_solve for one condition):
+ * given the global mean load (Fx, Fy in N, Mz in N m), fills the offset of
+ * the equilibrium from rest (surge, sway in m, yaw in rad).  Returns HF_OK or
+ * a failure status with err set; the failure is passed on unchanged. */
+typedef hf_status (*hf_env_equilibrium_fn)(const double load[3], double offset[3], void *ctx,
+                                           hf_error *err);
+
+/* Options of hf_env_mean_pose. */
+typedef struct {
+    double yaw_tol;  /* |equilibrium yaw - yaw the loads were computed at|, rad (1e-9) */
+    int max_iter;    /* equilibrium calls at most (50) */
+    double max_step; /* largest change of yaw per iteration, rad (0.2) */
+} hf_env_pose_options;
+
+void hf_env_pose_options_default(hf_env_pose_options *o);
+
+/* Mean pose under heading-dependent loads: finds the yaw offset x (from the
+ * rest heading `heading`, rad) where the equilibrium under the loads at
+ * heading + x has yaw offset x: a root of g(x) = eq(load(heading + x)).yaw - x.
+ * First step: plain substitution; then secant steps (limited to max_step;
+ * a substitution step when the secant is undefined).  Plain substitution
+ * alone diverges when the environment's yaw moment grows with yaw faster
+ * than the mooring resists (|dMz/dyaw| > k_yaw); the secant does not.
+ * On HF_OK: offset (from the last equilibrium), *mean (loads at heading +
+ * x) and *iterations (equilibrium calls).  Statuses: those of
+ * hf_env_mean_load and of eq; HF_ENOCONV with a message when the yaw has
+ * not settled after max_iter calls (no stable mean heading found).  opt may
+ * be NULL (defaults). */
+hf_status hf_env_mean_pose(const hf_env_hull *h, const hf_environment *e, double heading,
+                           hf_env_equilibrium_fn eq, void *ctx, const hf_env_pose_options *opt,
+                           hf_env_workspace *ws, double offset[3], hf_env_mean *mean,
+                           int *iterations, hf_error *err);
 
 /* Stiffness in hull axes from the 6x6 mooring stiffness K (global surge,
  * sway, heave, roll, pitch, yaw; spread.h) at hull yaw `yaw`:
