@@ -631,12 +631,21 @@ hf_status hf_env_design_offset(const double mean_xy[2], double mean_yaw, double 
     out->combo_lf_max = out->lf_max + out->wf_sig;
     out->combo_wf_max = out->lf_sig + out->wf_max;
     out->offset = out->mean + fmax(out->combo_lf_max, out->combo_wf_max);
-    out->offset_xy[0] = out->offset * cos(out->direction);
-    out->offset_xy[1] = out->offset * sin(out->direction);
+    double cu = cos(out->direction), su = sin(out->direction);
+    double extra = fmax(out->combo_lf_max, out->combo_wf_max);
+    out->offset_xy[0] = mean_xy[0] + extra * cu;
+    out->offset_xy[1] = mean_xy[1] + extra * su;
     out->yaw_mean = mean_yaw;
     out->yaw_combo_lf_max = z->lf_max + z->wf_sig;
     out->yaw_combo_wf_max = z->lf_sig + z->wf_max;
     double sense = mean_yaw < 0.0 ? -1.0 : 1.0;
     out->yaw = mean_yaw + sense * fmax(out->yaw_combo_lf_max, out->yaw_combo_wf_max);
+    double *pl = out->pose_lf_max, *pw = out->pose_wf_max;
+    pl[0] = mean_xy[0] + out->combo_lf_max * cu;
+    pl[1] = mean_xy[1] + out->combo_lf_max * su;
+    pl[2] = mean_yaw + sense * out->yaw_combo_lf_max;
+    pw[0] = mean_xy[0] + out->combo_wf_max * cu;
+    pw[1] = mean_xy[1] + out->combo_wf_max * su;
+    pw[2] = mean_yaw + sense * out->yaw_combo_wf_max;
     return HF_OK;
 }

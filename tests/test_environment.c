@@ -730,6 +730,10 @@ static void test_design_offset(void **state)
     rel_near(d.offset, 13.0 + 9.2, 1e-12, "design offset");
     rel_near(d.offset_xy[0], 22.2 * cos(yaw), 1e-12, "x");
     rel_near(d.yaw, -0.031 - (0.037 + 0.011), 1e-12, "design yaw, sense of the mean yaw");
+    rel_near(d.pose_lf_max[0], (13.0 + 9.2) * cos(yaw), 1e-12, "LF-max pose x");
+    rel_near(d.pose_lf_max[2], -0.031 - (0.037 + 0.011), 1e-12, "LF-max pose yaw");
+    rel_near(d.pose_wf_max[1], (13.0 + 6.6) * sin(yaw), 1e-12, "WF-max pose y");
+    rel_near(d.pose_wf_max[2], -0.031 - (0.02 + 0.021), 1e-12, "WF-max pose yaw");
     /* along the hull's y axis: sway values; WF max governs */
     double mean_y[2] = {-5.0 * sin(yaw), 5.0 * cos(yaw)};
     OK(hf_env_design_offset(mean_y, 0.0, yaw, &m, 1.0, &d, E_));
@@ -744,6 +748,7 @@ static void test_design_offset(void **state)
     OK(hf_env_design_offset(zero, 0.0, 0.0, &m, 90 * DEG, &d, E_));
     assert_true(d.from_fallback);
     rel_near(d.offset, fmax(5.1 + 3.9, 2.6 + 7.3), 1e-12, "fallback: sway");
+    assert_true(fabs(d.offset_xy[0]) <= 1e-12 && fabs(d.offset_xy[1] - 9.9) <= 1e-12);
     hf_error e;
     double bad[2] = {NAN, 0.0};
     assert_int_equal(hf_env_design_offset(bad, 0.0, 0.0, &m, 0.0, &d, &e), HF_EINVAL);

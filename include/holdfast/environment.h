@@ -125,6 +125,12 @@ typedef struct {
     double yaw_mean;                       /* mean yaw from rest, rad */
     double yaw_combo_lf_max, yaw_combo_wf_max; /* the same combinations in yaw, rad */
     double yaw; /* design yaw from rest, rad, in the sense of the mean yaw */
+    /* The two combinations as whole poses (x, y from rest in m, global; yaw
+     * from rest in rad), horizontal and yaw combined alike: pose_lf_max
+     * with LF max + WF significant, pose_wf_max with LF significant + WF
+     * max.  Solve the tensions at both and keep the larger per line; the
+     * envelope pose (offset_xy, yaw) takes the larger of each separately. */
+    double pose_lf_max[3], pose_wf_max[3];
 } hf_env_design;
 
 /* Quadrature workspace of the module (two GSL workspaces of HF_ENV_LIMIT
