@@ -5,18 +5,75 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
 #include "holdfast/case.h"
 #include "holdfast/cli.h"
+#include "holdfast/units.h"
 
-const char hf_cli_caution[] =
-    "CAUTION: quasi-static results. Line dynamics, snap loads, wear and corrosion are not\n"
-    "included. Check against the governing classification rules or local codes; results\n"
-    "must be approved by a competent, licensed engineer before anyone relies on them.\n";
+int hf_cli_exit_code(hf_status s)
+{
+    return s == HF_ENOMEM ? HF_EXIT_NOMEM : hf_status_exit_code(s);
+}
 
 int hf_cli_fail(const hf_error *e)
 {
     fprintf(stderr, "holdfast: %s\n", e->text[0] ? e->text : hf_status_str(e->status));
-    return hf_status_exit_code(e->status);
+    if (e->status == HF_ENOMEM)
+        fprintf(stderr, "holdfast: out of memory: try fewer lines, offsets or cases, or a "
+                        "machine with more memory (exit status %d)\n",
+                HF_EXIT_NOMEM);
+    return hf_cli_exit_code(e->status);
+}
+
+int hf_cli_fail_status(hf_status s, const char *text)
+{
+    hf_error e;
+    hf_error_set(&e, s, "%s", text);
+    return hf_cli_fail(&e);
+}
+
+/* Levenshtein distance of a and b, capped at 99 (names are short). */
+static size_t distance(const char *a, const char *b)
+{
+    size_t na = strlen(a), nb = strlen(b);
+    if (na > 64 || nb > 64)
+        return 99;
+    size_t row[65];
+    for (size_t j = 0; j <= nb; j++)
+        row[j] = j;
+    for (size_t i = 1; i <= na; i++) {
+        size_t diag = row[0];
+        row[0] = i;
+        for (size_t j = 1; j <= nb; j++) {
+            size_t up = row[j];
+            size_t best = diag + (a[i - 1] != b[j - 1]);
+            if (up + 1 < best)
+                best = up + 1;
+            if (row[j - 1] + 1 < best)
+                best = row[j - 1] + 1;
+            row[j] = best;
+            diag = up;
+        }
+    }
+    return row[nb];
+}
+
+const char *hf_cli_suggest(const char *word, const char *const *names, size_t n)
+{
+    const char *best = NULL;
+    size_t bd = 99, limit = strlen(word) / 3 + 1;
+    if (limit > 3)
+        limit = 3;
+    for (size_t i = 0; i < n; i++) {
+        if (!names[i])
+            continue;
+        size_t d = distance(word, names[i]);
+        if (d < bd) {
+            bd = d;
+            best = names[i];
+        }
+    }
+    return bd <= limit ? best : NULL;
 }
 
 int hf_cli_usage_error(const char *cmd, const char *fmt, ...)
@@ -68,6 +125,35 @@ int hf_cli_help(const char *arg, const char *usage)
     return 1;
 }
 
+/* Applies option o to argv[*i] when it is that option: returns 0 (not this
+ * option), 1 (taken) or the usage exit status. */
+static int take_option(int argc, char **argv, int *i, const char *cmd, const hf_cli_opt *o)
+{
+    if (o->flag) {
+        if (strcmp(argv[*i], o->name) != 0)
+            return 0;
+        if (o->count)
+            ++*o->count;
+        return 1;
+    }
+    const char *v = NULL;
+    int missing = 0;
+    if (!hf_cli_option(argc, argv, i, o->name, &v, &missing))
+        return 0;
+    if (missing || (o->nonempty && !v[0]))
+        return hf_cli_usage_error(cmd, "%s", o->missing);
+    if (o->list && o->count) {
+        if ((size_t)*o->count >= o->list_cap)
+            return hf_cli_usage_error(cmd, "%s: at most %zu values", o->name, o->list_cap);
+        o->list[*o->count] = v;
+    }
+    if (o->value)
+        *o->value = v;
+    if (o->count)
+        ++*o->count;
+    return 1;
+}
+
 int hf_cli_parse_case_args(int argc, char **argv, const char *cmd, const char *usage,
                            const hf_cli_opt *opts, size_t nopts, const char **case_path)
 {
@@ -75,21 +161,12 @@ int hf_cli_parse_case_args(int argc, char **argv, const char *cmd, const char *u
     for (int i = 1; i < argc; i++) {
         if (hf_cli_help(argv[i], usage))
             return HF_EXIT_OK;
-        size_t k = 0;
-        for (; k < nopts; k++) {
-            const char *v = NULL;
-            int missing = 0;
-            if (!hf_cli_option(argc, argv, &i, opts[k].name, &v, &missing))
-                continue;
-            if (missing || (opts[k].nonempty && !v[0]))
-                return hf_cli_usage_error(cmd, "%s", opts[k].missing);
-            if (opts[k].value)
-                *opts[k].value = v;
-            if (opts[k].count)
-                ++*opts[k].count;
-            break;
-        }
-        if (k < nopts)
+        int taken = 0;
+        for (size_t k = 0; k < nopts && !taken; k++)
+            taken = take_option(argc, argv, &i, cmd, &opts[k]);
+        if (taken == HF_EXIT_USAGE)
+            return HF_EXIT_USAGE;
+        if (taken)
             continue;
         if (argv[i][0] == '-' && argv[i][1] != '\0')
             return hf_cli_usage_error(cmd, "unknown option '%s'", argv[i]);
@@ -114,11 +191,23 @@ int hf_cli_case_load(const char *path, hf_model *m)
     return HF_CLI_CONTINUE;
 }
 
+int hf_cli_case_load_studies(const char *path, hf_model *m, hf_study_list *sl)
+{
+    hf_error err;
+    hf_error_clear(&err);
+    hf_model_init(m);
+    hf_study_list_init(sl);
+    if (hf_case_load_with_studies(path, m, sl, &err) != HF_OK)
+        return hf_cli_fail(&err);
+    return HF_CLI_CONTINUE;
+}
+
 int hf_cli_pose_cmd_begin(hf_cli_pose_cmd *pc, int argc, char **argv, const char *cmd,
                           const char *usage, const hf_cli_opt *extra, size_t nextra)
 {
     pc->path = pc->csv = pc->offset_text = NULL;
-    pc->ws = NULL;
+    pc->offset[0] = pc->offset[1] = pc->offset[2] = 0.0;
+    hf_analysis_pose_init(&pc->at);
     hf_model_init(&pc->m); /* so that hf_cli_pose_cmd_end is always safe */
     hf_error_clear(&pc->err);
     hf_cli_opt opts[2 + HF_CLI_POSE_EXTRA_MAX] = {HF_CLI_OPT_CSV(&pc->csv),
@@ -136,26 +225,16 @@ int hf_cli_pose_cmd_begin(hf_cli_pose_cmd *pc, int argc, char **argv, const char
         return rc;
     hf_error err;
     hf_error_clear(&err);
-    double offset[3] = {0.0, 0.0, 0.0};
-    if (pc->offset_text && hf_cli_parse_offset(pc->offset_text, offset, &err) != HF_OK)
+    if (pc->offset_text && hf_cli_parse_offset(pc->offset_text, pc->offset, &err) != HF_OK)
         return hf_cli_usage_error(cmd, "%s", err.text);
-    rc = hf_cli_case_load(pc->path, &pc->m);
-    if (rc != HF_CLI_CONTINUE)
-        return rc;
-    pc->ws = hf_spread_alloc(&pc->m, &err);
-    if (!pc->ws) {
-        hf_model_free(&pc->m);
-        return hf_cli_fail(&err);
-    }
-    hf_spread_pose_rest(&pc->m, &pc->pose);
-    hf_spread_pose_offset(&pc->pose, offset);
-    return HF_CLI_CONTINUE;
+    if (pc->csv && hf_cli_check_output("--csv", pc->csv, pc->path, &err) != HF_OK)
+        return hf_cli_usage_error(cmd, "%s", err.text);
+    return hf_cli_case_load(pc->path, &pc->m);
 }
 
 void hf_cli_pose_cmd_end(hf_cli_pose_cmd *pc)
 {
-    hf_spread_free(pc->ws);
-    pc->ws = NULL;
+    hf_analysis_pose_clear(&pc->at);
     hf_model_free(&pc->m);
 }
 
@@ -208,61 +287,108 @@ hf_status hf_cli_load(const char *path, hf_model *m, hf_error *err)
     return hf_case_load(path, m, err);
 }
 
-/* Parses one finite number and advances *p past it. */
-static int number(const char **p, double *out)
+hf_status hf_cli_parse_value(const char *option, const char *text, hf_dim dim, double *out,
+                             hf_error *err)
 {
-    char *end;
-    errno = 0;
-    double v = strtod(*p, &end);
-    if (end == *p || errno == ERANGE || !isfinite(v))
-        return 0;
-    *out = v;
-    *p = end;
-    return 1;
+    hf_error e;
+    hf_error_clear(&e);
+    if (hf_units_parse(text, dim, out, &e) != HF_OK)
+        return hf_error_set(err, HF_EINVAL, "%s: %s", option, e.text);
+    return HF_OK;
+}
+
+/* Splits text at `sep` into exactly n parts (copied into buf, cap bytes) and
+ * parses part j as a quantity of dimension dims[j] into v[j].  HF_EINVAL
+ * with the message "<option>: expected <what>, got ..." otherwise. */
+static hf_status parse_parts(const char *option, const char *what, const char *text, char sep,
+                             const hf_dim *dims, size_t n, double *v, hf_error *err)
+{
+    char buf[512];
+    if (strlen(text) >= sizeof buf)
+        return hf_error_set(err, HF_EINVAL, "%s%sexpected %s, got a value of %zu bytes",
+                            option ? option : "", option ? ": " : "", what, strlen(text));
+    memcpy(buf, text, strlen(text) + 1);
+    char *p = buf;
+    for (size_t j = 0; j < n; j++) {
+        char *end = j + 1 < n ? strchr(p, sep) : p + strlen(p);
+        if (!end || (j + 1 == n && strchr(p, sep)))
+            return hf_error_set(err, HF_EINVAL, "%s%sexpected %s, got \"%s\"",
+                                option ? option : "", option ? ": " : "", what, text);
+        *end = '\0';
+        hf_error e;
+        hf_error_clear(&e);
+        if (hf_units_parse(p, dims[j], &v[j], &e) != HF_OK)
+            return hf_error_set(err, HF_EINVAL, "%s%sexpected %s, got \"%s\": %s",
+                                option ? option : "", option ? ": " : "", what, text, e.text);
+        p = end + 1;
+    }
+    return HF_OK;
 }
 
 hf_status hf_cli_parse_offset(const char *text, double offset[3], hf_error *err)
 {
-    const char *p = text;
-    double v[3];
-    for (int i = 0; i < 3; i++) {
-        if (!number(&p, &v[i]) || *p != (i < 2 ? ',' : '\0'))
-            return hf_error_set(
-                err, HF_EINVAL,
-                "--offset: expected X,Y,HEADING_DEG (three finite numbers), got \"%s\"", text);
-        if (i < 2)
-            p++;
-    }
-    offset[0] = v[0];
-    offset[1] = v[1];
-    offset[2] = v[2] * M_PI / 180.0;
-    return HF_OK;
+    static const hf_dim dims[3] = {HF_DIM_LENGTH, HF_DIM_LENGTH, HF_DIM_ANGLE};
+    return parse_parts("--offset", "X,Y,HEADING_DEG (lengths in m, heading in degrees; units allowed)",
+                       text, ',', dims, 3, offset, err);
 }
 
 hf_status hf_cli_parse_range(const char *text, double *from, double *to, double *step,
                              size_t max_points, size_t *count, hf_error *err)
 {
-    const char *p = text;
+    static const hf_dim dims[3] = {HF_DIM_LENGTH, HF_DIM_LENGTH, HF_DIM_LENGTH};
     double v[3];
-    for (int i = 0; i < 3; i++) {
-        if (!number(&p, &v[i]) || *p != (i < 2 ? ':' : '\0'))
-            return hf_error_set(err, HF_EINVAL,
-                                "expected a range FROM:TO:STEP of finite numbers, got \"%s\"",
-                                text);
-        if (i < 2)
-            p++;
-    }
-    double span = v[1] - v[0];
-    if (v[2] == 0.0 || (span != 0.0 && (span > 0) != (v[2] > 0)))
+    hf_status s = parse_parts(NULL, "FROM:TO:STEP (lengths in m; units allowed)", text, ':',
+                              dims, 3, v, err);
+    if (s != HF_OK)
+        return s;
+    size_t n = hf_study_range_count(v[0], v[1], v[2], max_points); /* the one range rule */
+    if (n == 0)
         return hf_error_set(err, HF_EINVAL,
                             "range \"%s\": STEP must be non-zero and point from FROM to TO", text);
-    double n = floor(span / v[2] + 1e-9) + 1.0;
-    if (!(n >= 1.0) || n > (double)max_points)
-        return hf_error_set(err, HF_ELIMIT, "range \"%s\" has %.0f points; the limit is %zu", text,
-                            n, max_points);
+    if (n > max_points)
+        return hf_error_set(err, HF_ELIMIT, "range \"%s\" has more than %zu points (the limit)",
+                            text, max_points);
     *from = v[0];
     *to = v[1];
     *step = v[2];
-    *count = (size_t)n;
+    *count = n;
+    return HF_OK;
+}
+
+hf_status hf_cli_check_output(const char *option, const char *out, const char *input,
+                              hf_error *err)
+{
+    if (!out[0])
+        return hf_error_set(err, HF_EINVAL, "%s: expected a FILE name (or - for standard output), "
+                                            "got an empty name", option);
+    if (!strcmp(out, "-") || !input)
+        return HF_OK;
+    hf_error e;
+    hf_error_clear(&e);
+    if (hf_outfile_check_not_input(out, input, &e) != HF_OK)
+        return hf_error_set(err, HF_EINVAL, "%s: %s", option, e.text);
+    return HF_OK;
+}
+
+hf_status hf_cli_make_dir(const char *what, const char *dir, hf_error *err)
+{
+    char path[4096];
+    size_t n = strlen(dir);
+    if (n == 0 || n >= sizeof path)
+        return hf_error_set(err, HF_EINVAL, "%s: directory name empty or too long", what);
+    memcpy(path, dir, n + 1);
+    for (size_t k = 1; k <= n; k++) {
+        if (path[k] != '/' && path[k] != '\0')
+            continue;
+        char keep = path[k];
+        path[k] = '\0';
+        if (mkdir(path, 0777) != 0 && errno != EEXIST)
+            return hf_error_set(err, HF_EIO, "%s: cannot create directory '%s': %s", what, path,
+                                strerror(errno));
+        path[k] = keep;
+    }
+    struct stat sb;
+    if (stat(dir, &sb) != 0 || !S_ISDIR(sb.st_mode))
+        return hf_error_set(err, HF_EIO, "%s: '%s' is not a directory", what, dir);
     return HF_OK;
 }

@@ -3,7 +3,10 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <time.h>
+#include <unistd.h>
 #include "holdfast/alloc.h"
+#include "holdfast/analysis.h"
 #include "holdfast/balance.h"
 #include "holdfast/cli.h"
 #include "holdfast/criteria.h"
@@ -38,7 +41,8 @@ static const char usage_text[] =
     "\n"
     "CSV columns: load, condition (intact or broken:<line>), status, surge_m, sway_m,\n"
     "yaw_deg, max_tension_kN, max_tension_line, max_utilisation, criterion, passed\n"
-    "(1/0), T_<line>_kN per line (largest tension along the line; 0 when broken),\n"
+    "(1/0), Tmax_<line>_kN per line (the largest tension along the line, not the\n"
+    "fairlead tension that T_<line>_kN means in curve and sweep CSVs; 0 when broken),\n"
     "then horizontal_m, max_utilisation_line, min_line_factor, required_line_factor,\n"
     "message.  See docs/criteria.md and docs/SAFETY.md.\n"
     "\n"
@@ -180,7 +184,8 @@ static void print_load(FILE *out, const hf_load *l, const double f[3])
                 l->direction * RAD2DEG);
     for (size_t k = 0; k < l->ndrag; k++) {
         const hf_drag *d = &l->drag[k];
-        double q = 0.5 * d->density * d->coefficient * d->area * d->speed * d->speed;
+        double q = 0.0;
+        (void)hf_drag_force(d, &q, NULL, NULL, NULL); /* the load was checked: valid */
         fprintf(out,
                 "   drag 1/2 rho C A V^2 = 1/2 x %.4g x %.4g x %.4g m^2 x (%.4g m/s)^2 = "
                 "%.1f kN toward %.1f deg\n",
@@ -189,127 +194,195 @@ static void print_load(FILE *out, const hf_load *l, const double f[3])
     fprintf(out, "   (loads are fixed in the global frame)\n");
 }
 
+/* Progress on a terminal: conditions done, redrawn at most ten times a
+ * second, shown only after the first second (short runs stay quiet). */
+typedef struct {
+    double start, last; /* s */
+    int drawn;
+} bar;
+
+static double now(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (double)ts.tv_sec + 1e-9 * (double)ts.tv_nsec;
+}
+
+static void bar_draw(bar *b, size_t done, size_t total)
+{
+    double t = now();
+    if (t - b->start < 1.0 || (done < total && t - b->last < 0.1))
+        return;
+    b->last = t;
+    b->drawn = 1;
+    double f = total ? (double)done / (double)total : 1.0;
+    int w = 30, fill = (int)(f * w + 0.5);
+    double rate = (double)done / (t - b->start);
+    char cells[64];
+    for (int i = 0; i < w; i++)
+        cells[i] = i < fill ? '#' : '.';
+    cells[w] = '\0';
+    fprintf(stderr, "\r  [%s] %5.1f%%  %zu/%zu conditions  %.0f s left   ", cells, 100.0 * f,
+            done, total, rate > 0 ? (double)(total - done) / rate : 0.0);
+    fflush(stderr);
+}
+
+/* What the balance command writes as results arrive. */
+typedef struct {
+    const hf_model *m;
+    FILE *out;      /* the readable report, or NULL */
+    hf_outfile *f;  /* the CSV, or NULL */
+    size_t nonfinite;
+    bar progress;
+    int show_progress;
+} sink_ctx;
+
+static hf_status on_load(void *ctx, const hf_load *l, const double force[3], hf_error *err)
+{
+    sink_ctx *c = ctx;
+    (void)err;
+    if (c->out)
+        print_load(c->out, l, force);
+    return HF_OK;
+}
+
+static hf_status on_condition(void *ctx, const hf_load *l, const hf_balance_result *r,
+                              hf_error *err)
+{
+    sink_ctx *c = ctx;
+    (void)err;
+    if (c->out)
+        print_condition(c->out, c->m, r);
+    if (c->f)
+        c->nonfinite += hf_results_balance_row_write(hf_outfile_stream(c->f), c->m, l, r);
+    return HF_OK;
+}
+
+static hf_status on_load_end(void *ctx, const hf_load *l, hf_status intact,
+                             const double offset[3], hf_error *err)
+{
+    sink_ctx *c = ctx;
+    (void)l, (void)intact, (void)offset, (void)err;
+    if (c->out)
+        fprintf(c->out, "\n%s", hf_caution_text);
+    return HF_OK;
+}
+
+static void on_progress(void *ctx, size_t done, size_t total)
+{
+    sink_ctx *c = ctx;
+    if (c->show_progress)
+        bar_draw(&c->progress, done, total);
+}
+
+/* The load cases named by --load (in case-file order, each once) into
+ * which[], *n of them; all when none is named.  Returns HF_CLI_CONTINUE or
+ * the exit status after a message. */
+static int pick_loads(const hf_model *m, const char *path, const char *const *names, int nnames,
+                      size_t *which, size_t *n)
+{
+    unsigned char *pick = hf_calloc(m->nloads, 1);
+    if (!pick)
+        return hf_cli_fail_status(HF_ENOMEM, "out of memory");
+    for (int j = 0; j < nnames; j++) {
+        size_t k = hf_model_load_find(m, names[j]);
+        if (k == (size_t)-1) {
+            const char **all = hf_calloc(m->nloads, sizeof *all);
+            for (size_t i = 0; all && i < m->nloads; i++)
+                all[i] = m->loads[i].name;
+            const char *near = all ? hf_cli_suggest(names[j], all, m->nloads) : NULL;
+            fprintf(stderr, "holdfast balance: --load: no load case named \"%s\" in %s", names[j],
+                    path);
+            if (near)
+                fprintf(stderr, "; did you mean \"%s\"?", near);
+            fprintf(stderr, "; the load cases are:");
+            for (size_t i = 0; i < m->nloads; i++)
+                fprintf(stderr, "%s %s", i ? "," : "", m->loads[i].name);
+            fputc('\n', stderr);
+            hf_free(all);
+            hf_free(pick);
+            return HF_EXIT_USAGE;
+        }
+        pick[k] = 1;
+    }
+    *n = 0;
+    for (size_t k = 0; k < m->nloads; k++)
+        if (nnames == 0 || pick[k])
+            which[(*n)++] = k;
+    hf_free(pick);
+    return HF_CLI_CONTINUE;
+}
+
+/* Runs the chosen load cases and writes them; returns the exit status. */
+static int balance(const hf_model *m, const char *path, const char *csv, const size_t *which,
+                   size_t nwhich)
+{
+    hf_error err;
+    hf_error_clear(&err);
+    int human = !csv || strcmp(csv, "-") != 0;
+    sink_ctx c = {m, human ? stdout : NULL, NULL, 0, {now(), 0.0, 0}, 0};
+    c.show_progress = isatty(fileno(stderr));
+    if (csv && !(c.f = hf_cli_csv_begin(csv, hf_results_balance_header_write, m, &err)))
+        return hf_cli_fail(&err);
+    if (human) {
+        fprintf(c.out, "holdfast balance: %s\n", m->title ? m->title : path);
+        fprintf(c.out, "mean equilibrium in surge, sway and yaw; heave, roll and pitch held at "
+                       "rest; offsets from the rest pose\n");
+        print_criteria(c.out, m);
+    }
+    hf_analysis_balance_sink sink = {&c, on_load, on_condition, on_load_end, on_progress};
+    hf_analysis_balance_count n;
+    hf_status st = hf_analysis_balance_run(m, which, nwhich, &sink, &n, &err);
+    if (c.progress.drawn)
+        fprintf(stderr, "\r%60s\r", "");
+    if (st != HF_OK) {
+        hf_outfile_abort(c.f);
+        return hf_cli_fail(&err);
+    }
+    if (csv && hf_cli_csv_end("balance", &c.f, c.nonfinite, &err) != HF_OK)
+        return hf_cli_fail(&err);
+    FILE *sum = human ? stdout : stderr;
+    fprintf(sum, "\nbalance: %zu of %zu load-case conditions passed every criterion%s\n", n.passed,
+            n.conditions, n.noresult ? "; some found no equilibrium (see above)" : "");
+    if (!human)
+        fputs(hf_caution_text, stderr);
+    return n.noresult ? HF_EXIT_NUMERIC : n.failed ? HF_EXIT_CRITERION : HF_EXIT_OK;
+}
+
 int hf_cmd_balance(int argc, char **argv)
 {
     const char *cmd = "balance", *path = NULL, *csv = NULL;
+    const char *names[HF_CLI_MAX_REPEAT];
     int nsel = 0;
     const hf_cli_opt opts[] = {HF_CLI_OPT_CSV(&csv),
-                               {"--load", "--load needs the NAME of a load case", 1, NULL, &nsel}};
+                               {.name = "--load",
+                                .missing = "--load needs the NAME of a load case",
+                                .nonempty = 1,
+                                .count = &nsel,
+                                .list = names,
+                                .list_cap = HF_CLI_MAX_REPEAT}};
     int rc = hf_cli_parse_case_args(argc, argv, cmd, usage_text, opts, 2, &path);
     if (rc != HF_CLI_CONTINUE)
         return rc;
-
+    hf_error err;
+    hf_error_clear(&err);
+    if (csv && hf_cli_check_output("--csv", csv, path, &err) != HF_OK)
+        return hf_cli_usage_error(cmd, "%s", err.text);
     hf_model m;
     rc = hf_cli_case_load(path, &m);
     if (rc != HF_CLI_CONTINUE)
         return rc;
-    rc = HF_EXIT_OK;
-    hf_error err;
-    hf_error_clear(&err);
-    hf_balance *b = NULL;
-    hf_outfile *f = NULL;
-    unsigned char *pick = NULL;
-
+    size_t *which = NULL, nwhich = 0;
     if (m.nloads == 0) {
         hf_error_set(&err, HF_EINVAL, "%s: no load cases: add a loads: list to the case file",
                      path);
         rc = hf_cli_fail(&err);
-        goto done;
+    } else if (!(which = hf_calloc(m.nloads, sizeof *which))) {
+        rc = hf_cli_fail_status(HF_ENOMEM, "out of memory");
+    } else if ((rc = pick_loads(&m, path, names, nsel, which, &nwhich)) == HF_CLI_CONTINUE) {
+        rc = balance(&m, path, csv, which, nwhich);
     }
-    pick = hf_calloc(m.nloads, 1);
-    if (!pick) {
-        hf_error_set(&err, HF_ENOMEM, "out of memory");
-        rc = hf_cli_fail(&err);
-        goto done;
-    }
-    /* second pass over the options: the chosen loads, now that the case is known */
-    for (int i = 1; i < argc; i++) {
-        const char *v = NULL;
-        int missing = 0;
-        if (hf_cli_option(argc, argv, &i, "--csv", &v, &missing))
-            continue;
-        if (!hf_cli_option(argc, argv, &i, "--load", &v, &missing))
-            continue;
-        size_t k = hf_model_load_find(&m, v);
-        if (k == (size_t)-1) {
-            fprintf(stderr,
-                    "holdfast balance: --load: no load case named \"%s\" in %s; the "
-                    "load cases are:",
-                    v, path);
-            for (size_t j = 0; j < m.nloads; j++)
-                fprintf(stderr, "%s %s", j ? "," : "", m.loads[j].name);
-            fputc('\n', stderr);
-            rc = HF_EXIT_USAGE;
-            goto done;
-        }
-        pick[k] = 1;
-    }
-    if (nsel == 0)
-        memset(pick, 1, m.nloads);
-
-    b = hf_balance_alloc(&m, &err);
-    if (!b) {
-        rc = hf_cli_fail(&err);
-        goto done;
-    }
-    int human = !csv || strcmp(csv, "-") != 0;
-    FILE *out = stdout;
-    size_t nonfinite = 0;
-    if (csv && !(f = hf_cli_csv_begin(csv, hf_results_balance_header_write, &m, &err))) {
-        rc = hf_cli_fail(&err);
-        goto done;
-    }
-    if (human) {
-        fprintf(out, "holdfast balance: %s\n", m.title ? m.title : path);
-        fprintf(out, "mean equilibrium in surge, sway and yaw; heave, roll and pitch held at rest; "
-                     "offsets from the rest pose\n");
-        print_criteria(out, &m);
-    }
-    int any_fail = 0, any_nores = 0;
-    size_t nrows = 0, npass = 0;
-    for (size_t k = 0; k < m.nloads; k++) {
-        if (!pick[k])
-            continue;
-        const hf_load *l = &m.loads[k];
-        double fl[3];
-        if (hf_balance_load_force(l, fl, &err) != HF_OK) {
-            rc = hf_cli_fail(&err);
-            goto done;
-        }
-        /* per-condition statuses are reported below; the load itself was checked above */
-        (void)hf_balance_run(b, l, &err);
-        if (human)
-            print_load(out, l, fl);
-        for (size_t cnd = 0; cnd < hf_balance_ncond(b); cnd++) {
-            const hf_balance_result *r = hf_balance_result_at(b, cnd);
-            if (r->status != HF_OK)
-                any_nores = 1;
-            else if (!r->passed)
-                any_fail = 1;
-            nrows++;
-            npass += r->passed != 0;
-            if (human)
-                print_condition(out, &m, r);
-            if (csv)
-                nonfinite += hf_results_balance_row_write(hf_outfile_stream(f), &m, l, r);
-        }
-        if (human)
-            fprintf(out, "\n%s", hf_cli_caution);
-    }
-    if (csv && hf_cli_csv_end(cmd, &f, nonfinite, &err) != HF_OK) {
-        rc = hf_cli_fail(&err);
-        goto done;
-    }
-    FILE *sum = human ? out : stderr;
-    fprintf(sum, "\nbalance: %zu of %zu load-case conditions passed every criterion%s\n", npass,
-            nrows, any_nores ? "; some found no equilibrium (see above)" : "");
-    if (!human)
-        fputs(hf_cli_caution, stderr);
-    rc = any_nores ? HF_EXIT_NUMERIC : any_fail ? HF_EXIT_CRITERION : HF_EXIT_OK;
-done:
-    hf_outfile_abort(f);
-    hf_free(pick);
-    hf_balance_free(b);
+    hf_free(which);
     hf_model_free(&m);
     return rc;
 }

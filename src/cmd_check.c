@@ -2,9 +2,11 @@
 #include <math.h>
 #include <stdio.h>
 #include <string.h>
+#include "holdfast/balance.h"
 #include "holdfast/case.h"
 #include "holdfast/cli.h"
 #include "holdfast/criteria.h"
+#include "holdfast/spread.h"
 
 static const char help[] =
     "usage: holdfast check CASE\n"
@@ -21,8 +23,6 @@ static const char help[] =
     "exit status: 0 the case is valid, 2 bad input or usage (the message names\n"
     "FILE:LINE:COLUMN, the key path and what was expected)\n";
 
-static const char *const study_kinds[] = {"lines", "curve", "stiffness", "balance", "sweep",
-                                          "invert"};
 static const char *const anchor_kinds[] = {"drag", "gravity", "pile", "plate"};
 
 /* A property value in the unit people read it in. */
@@ -82,14 +82,17 @@ static void print_components(const hf_model *m)
 static void print_lines(const hf_model *m)
 {
     printf("\nlines (%zu)\n", m->nlines);
-    double ch = cos(m->hull.heading), sh = sin(m->hull.heading);
+    hf_pose rest;
+    hf_spread_pose_rest(m, &rest);
     for (size_t i = 0; i < m->nlines; i++) {
         const hf_model_line *l = &m->lines[i];
-        /* Fairlead at the rest pose: hull position + yaw rotation of the hull-frame point. */
-        double fx = m->hull.position[0] + ch * l->fairlead[0] - sh * l->fairlead[1];
-        double fy = m->hull.position[1] + sh * l->fairlead[0] + ch * l->fairlead[1];
-        double span = hypot(l->anchor[0] - fx, l->anchor[1] - fy);
-        double height = hf_model_water_height(m) + l->fairlead[2];
+        /* span and fairlead height at the rest pose, from the spread's geometry */
+        hf_spread_geom g;
+        double span = NAN, height = NAN;
+        if (hf_spread_line_geometry(m, i, &rest, &g, NULL) == HF_OK) {
+            span = g.x;
+            height = g.z;
+        }
         printf("  %s: %s anchor at (%.1f, %.1f) m, fairlead (%.2f, %.2f, %.2f) m;\n"
                "    at rest: span %.1f m, fairlead %.2f m above the seabed, line length %.1f m\n",
                l->name, anchor_kinds[l->anchor_spec.kind], l->anchor[0], l->anchor[1],
@@ -135,8 +138,8 @@ static void print_loads(const hf_model *m)
                ld->force / 1e3, ld->direction * 180.0 / M_PI, ld->moment / 1e3);
         for (size_t k = 0; k < ld->ndrag; k++) {
             const hf_drag *d = &ld->drag[k];
-            /* Drag force 1/2 rho C A V^2 (the drag equation). */
-            double f = 0.5 * d->density * d->coefficient * d->area * d->speed * d->speed;
+            double f = 0.0;
+            (void)hf_drag_force(d, &f, NULL, NULL, NULL); /* 1/2 rho C A V^2, balance.h */
             /* Air and water are told apart by density alone (1.2 vs ~1000 kg/m^3). */
             printf("    %s drag: %.2f m/s toward %.1f deg, C %.2f, A %.1f m^2, rho %.4g kg/m^3"
                    " -> %.1f kN\n",
@@ -172,7 +175,7 @@ static void print_rest(const hf_model *m, const hf_study_list *sl)
         return;
     for (size_t i = 0; i < sl->n; i++) {
         const hf_study *s = &sl->v[i];
-        printf("  %-20s %-9s", s->name, study_kinds[s->kind]);
+        printf("  %-20s %-9s", s->name, hf_study_kind_name(s->kind));
         if (s->kind == HF_STUDY_SWEEP || s->kind == HF_STUDY_INVERT)
             for (size_t k = 0; k < s->nvary; k++)
                 printf("%s%s", k ? ", " : " varies ", s->vary[k].path);
@@ -186,26 +189,14 @@ static void print_rest(const hf_model *m, const hf_study_list *sl)
 int hf_cmd_check(int argc, char **argv)
 {
     const char *path = NULL;
-    for (int i = 1; i < argc; i++) {
-        if (hf_cli_help(argv[i], help))
-            return HF_EXIT_OK;
-        if (argv[i][0] == '-' && argv[i][1] != '\0')
-            return hf_cli_usage_error("check", "unknown option '%s'", argv[i]);
-        if (path)
-            return hf_cli_usage_error("check", "expected one CASE file, got '%s' and '%s'", path,
-                                      argv[i]);
-        path = argv[i];
-    }
-    if (!path)
-        return hf_cli_usage_error("check", "expected a CASE file");
+    int rc = hf_cli_parse_case_args(argc, argv, "check", help, NULL, 0, &path);
+    if (rc != HF_CLI_CONTINUE)
+        return rc;
     hf_model m;
     hf_study_list sl;
-    hf_model_init(&m);
-    hf_study_list_init(&sl);
-    hf_error err;
-    hf_error_clear(&err);
-    if (hf_case_load_with_studies(path, &m, &sl, &err) != HF_OK)
-        return hf_cli_fail(&err);
+    rc = hf_cli_case_load_studies(path, &m, &sl);
+    if (rc != HF_CLI_CONTINUE)
+        return rc;
     printf("case: %s\n", path);
     if (m.title)
         printf("title: %s\n", m.title);
@@ -216,7 +207,7 @@ int hf_cmd_check(int argc, char **argv)
     print_lines(&m);
     print_rest(&m, &sl);
     printf("\nthe case is valid: %zu components, %zu lines, %zu load cases, %zu studies\n\n%s",
-           m.ncomponents, m.nlines, m.nloads, sl.n, hf_cli_caution);
+           m.ncomponents, m.nlines, m.nloads, sl.n, hf_caution_text);
     hf_study_list_free(&sl);
     hf_model_free(&m);
     return HF_EXIT_OK;

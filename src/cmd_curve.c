@@ -4,6 +4,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include "holdfast/analysis.h"
 #include "holdfast/cli.h"
 #include "holdfast/outfile.h"
 #include "holdfast/results.h"
@@ -38,121 +39,148 @@ static void table_header(FILE *out)
             "Fx kN", "Fy kN", "Mz kN m", "k kN/m", "T max kN", "line", "util");
 }
 
-static void table_row(FILE *out, const hf_results_curve_point *p)
+static void table_row(FILE *out, const hf_model *m, const hf_analysis_curve *c, size_t k)
 {
-    fprintf(out, "%10.3f %12.2f %12.2f %12.2f %13.1f %12.3f %12.2f %-14s %7.4f\n", p->offset,
-            hf_cli_zero_small(p->restoring / 1e3, 0.005),
-            hf_cli_zero_small(p->force_x / 1e3, 0.005), hf_cli_zero_small(p->force_y / 1e3, 0.005),
-            hf_cli_zero_small(p->moment_z / 1e3, 0.05), p->stiffness / 1e3, p->max_tension / 1e3,
-            p->max_tension_line, p->max_utilisation);
+    size_t tl = c->max_tension_line[k];
+    fprintf(out, "%10.3f %12.2f %12.2f %12.2f %13.1f %12.3f %12.2f %-14s %7.4f\n", c->offset[k],
+            hf_cli_zero_small(c->restoring[k] / 1e3, 0.005),
+            hf_cli_zero_small(c->force_x[k] / 1e3, 0.005),
+            hf_cli_zero_small(c->force_y[k] / 1e3, 0.005),
+            hf_cli_zero_small(c->moment_z[k] / 1e3, 0.05), c->stiffness[k] / 1e3,
+            c->max_tension[k] / 1e3, tl < m->nlines ? m->lines[tl].name : "",
+            c->max_utilisation[k]);
 }
 
-int hf_cmd_curve(int argc, char **argv)
+/* The options of one curve command. */
+typedef struct {
+    const char *path, *csv;
+    double dir, from, to, step; /* rad, m, m, m */
+    size_t count;
+} curve_args;
+
+/* Parses the arguments into *a: HF_CLI_CONTINUE, or the exit status. */
+static int parse_args(int argc, char **argv, const char *cmd, curve_args *a)
 {
-    const char *cmd = "curve", *path = NULL, *csv = NULL, *dir_text = NULL, *range_text = NULL;
+    const char *dir_text = NULL, *range_text = NULL;
+    a->csv = NULL;
     const hf_cli_opt opts[] = {
-        HF_CLI_OPT_CSV(&csv),
-        {"--direction", "--direction needs an angle in degrees", 0, &dir_text, NULL},
-        {"--range", "--range needs FROM:TO:STEP (metres)", 0, &range_text, NULL}};
-    int rc = hf_cli_parse_case_args(argc, argv, cmd, usage_text, opts, 3, &path);
+        HF_CLI_OPT_CSV(&a->csv),
+        HF_CLI_OPT_VALUE("--direction", "--direction needs an angle in degrees", &dir_text),
+        HF_CLI_OPT_VALUE("--range", "--range needs FROM:TO:STEP (metres)", &range_text)};
+    int rc = hf_cli_parse_case_args(argc, argv, cmd, usage_text, opts, 3, &a->path);
     if (rc != HF_CLI_CONTINUE)
         return rc;
     if (!dir_text)
         return hf_cli_usage_error(cmd, "missing --direction DEG");
     if (!range_text)
         return hf_cli_usage_error(cmd, "missing --range FROM:TO:STEP");
-    char *end;
-    errno = 0;
-    double dir_deg = strtod(dir_text, &end);
-    if (end == dir_text || *end != '\0' || errno == ERANGE || !isfinite(dir_deg))
-        return hf_cli_usage_error(
-            cmd, "--direction: expected a finite angle in degrees, got \"%s\"", dir_text);
     hf_error err;
     hf_error_clear(&err);
-    double from, to, step;
-    size_t count;
-    if (hf_cli_parse_range(range_text, &from, &to, &step, MAX_POINTS, &count, &err) != HF_OK)
+    if (hf_cli_parse_value("--direction", dir_text, HF_DIM_ANGLE, &a->dir, &err) != HF_OK)
+        return hf_cli_usage_error(cmd, "%s", err.text);
+    if (hf_cli_parse_range(range_text, &a->from, &a->to, &a->step, MAX_POINTS, &a->count, &err) !=
+        HF_OK)
         return hf_cli_usage_error(cmd, "--range: %s", err.text);
+    if (a->csv && hf_cli_check_output("--csv", a->csv, a->path, &err) != HF_OK)
+        return hf_cli_usage_error(cmd, "%s", err.text);
+    return HF_CLI_CONTINUE;
+}
 
-    hf_model m;
-    rc = hf_cli_case_load(path, &m);
-    if (rc != HF_CLI_CONTINUE)
-        return rc;
-    rc = HF_EXIT_OK;
-    hf_outfile *f = NULL;
-    hf_spread *ws = hf_spread_alloc(&m, &err);
-    if (!ws) {
-        rc = hf_cli_fail(&err);
-        goto done;
+/* The most utilised point of the solved points before `end`: its index, or
+ * (size_t)-1 when none. */
+static size_t worst_point(const hf_model *m, const hf_analysis_curve *c, size_t end)
+{
+    size_t w = (size_t)-1;
+    for (size_t k = 0; k < end; k++)
+        if (c->max_utilisation_line[k] < m->nlines &&
+            (w == (size_t)-1 || c->max_utilisation[k] > c->max_utilisation[w]))
+            w = k;
+    return w;
+}
+
+/* Writes the points before `end` to the table (when table) and the CSV (f). */
+static size_t write_points(FILE *out, int table, hf_outfile *f, const hf_model *m,
+                           const hf_analysis_curve *c, size_t end)
+{
+    size_t nonfinite = 0;
+    for (size_t k = 0; k < end; k++) {
+        if (table)
+            table_row(out, m, c, k);
+        if (f)
+            nonfinite += hf_results_curve_row_write(hf_outfile_stream(f), m, c, k);
     }
+    return nonfinite;
+}
+
+static void summary(FILE *out, const hf_model *m, const hf_analysis_curve *c, const curve_args *a)
+{
+    fprintf(out, "%zu offsets from %.6g m to %.6g m written to %s\n", a->count, a->from,
+            a->from + (double)(a->count - 1) * a->step, a->csv);
+    size_t w = worst_point(m, c, c->n);
+    if (w != (size_t)-1)
+        fprintf(out, "most utilised: %s at offset %.6g m, tension %.1f kN, utilisation %.4f\n",
+                m->lines[c->max_utilisation_line[w]].name, c->offset[w], c->max_tension[w] / 1e3,
+                c->max_utilisation[w]);
+}
+
+/* Writes the curve; the command stops at the first offset that did not
+ * solve (after the rows before it).  Returns the exit status. */
+static int write_curve(const hf_model *m, const hf_analysis_curve *c, const curve_args *a)
+{
+    hf_error err;
+    hf_error_clear(&err);
+    hf_outfile *f = NULL;
     FILE *out = stdout;
     /* The table is for a person at a terminal: with --csv FILE a summary
      * replaces it (a 10,001-row table helps nobody and costs time). */
-    int human = !csv || strcmp(csv, "-") != 0;
-    int table = !csv;
-    double worst_u = -1.0, worst_t = 0.0, worst_at = 0.0;
-    const char *worst_line = "";
-    size_t nonfinite = 0;
-    if (csv && !(f = hf_cli_csv_begin(csv, hf_results_curve_header_write, &m, &err))) {
-        rc = hf_cli_fail(&err);
-        goto done;
-    }
-    double d = dir_deg * M_PI / 180.0, cd = cos(d), sd = sin(d);
-    hf_pose rest;
-    hf_spread_pose_rest(&m, &rest);
+    int human = !a->csv || strcmp(a->csv, "-") != 0, table = !a->csv;
+    if (a->csv && !(f = hf_cli_csv_begin(a->csv, hf_results_curve_header_write, m, &err)))
+        return hf_cli_fail(&err);
     if (human) {
-        fprintf(out, "%s\n", m.title ? m.title : "");
+        hf_pose rest;
+        hf_spread_pose_rest(m, &rest);
+        fprintf(out, "%s\n", m->title ? m->title : "");
         fprintf(out,
                 "restoring curve along %.3f deg from global x; hull rest pose x %.3f m, "
                 "y %.3f m, heading %.3f deg\n\n",
-                dir_deg, rest.surge, rest.sway, rest.yaw * 180.0 / M_PI);
+                a->dir * 180.0 / M_PI, rest.surge, rest.sway, rest.yaw * 180.0 / M_PI);
         if (table)
             table_header(out);
     }
-    for (size_t k = 0; k < count; k++) {
-        double s = from + (double)k * step;
-        hf_pose p = rest;
-        p.surge += s * cd;
-        p.sway += s * sd;
-        double K[6][6];
-        hf_spread_result r;
-        hf_status st = hf_spread_stiffness(ws, &p, K, &r, &err);
-        if (st != HF_OK) {
-            char text[HF_ERROR_TEXT];
-            snprintf(text, sizeof text, "%s", err.text);
-            hf_error_set(&err, st, "curve at offset %.6g m: %s", s, text);
-            rc = hf_cli_fail(&err);
-            goto done;
-        }
-        hf_results_curve_point pt;
-        hf_results_curve_point_set(&pt, &m, s, d, K, &r);
-        if (table)
-            table_row(out, &pt);
-        if (r.max_utilisation > worst_u && r.max_utilisation_line < m.nlines) {
-            worst_u = r.max_utilisation;
-            worst_t = r.max_tension;
-            worst_at = s;
-            worst_line = m.lines[r.max_utilisation_line].name;
-        }
-        if (csv)
-            nonfinite += hf_results_curve_row_write(hf_outfile_stream(f), &m, &pt, &r);
+    size_t end = c->nfailed ? c->first_failed : c->n;
+    size_t nonfinite = write_points(out, table, f, m, c, end);
+    if (c->nfailed) {
+        hf_outfile_abort(f);
+        return hf_cli_fail(&c->first_error);
     }
-    if (csv && hf_cli_csv_end(cmd, &f, nonfinite, &err) != HF_OK) {
-        rc = hf_cli_fail(&err);
-        goto done;
-    }
-    if (human && !table) {
-        fprintf(out, "%zu offsets from %.6g m to %.6g m written to %s\n", count, from,
-                from + (double)(count - 1) * step, csv);
-        if (worst_u >= 0.0)
-            fprintf(out, "most utilised: %s at offset %.6g m, tension %.1f kN, utilisation %.4f\n",
-                    worst_line, worst_at, worst_t / 1e3, worst_u);
-    }
+    if (a->csv && hf_cli_csv_end("curve", &f, nonfinite, &err) != HF_OK)
+        return hf_cli_fail(&err);
+    if (human && !table)
+        summary(out, m, c, a);
     if (human)
-        fprintf(out, "\n%s", hf_cli_caution);
-done:
-    hf_outfile_abort(f);
-    hf_spread_free(ws);
+        fprintf(out, "\n%s", hf_caution_text);
+    return HF_EXIT_OK;
+}
+
+int hf_cmd_curve(int argc, char **argv)
+{
+    curve_args a;
+    int rc = parse_args(argc, argv, "curve", &a);
+    if (rc != HF_CLI_CONTINUE)
+        return rc;
+    hf_model m;
+    rc = hf_cli_case_load(a.path, &m);
+    if (rc != HF_CLI_CONTINUE)
+        return rc;
+    hf_error err;
+    hf_error_clear(&err);
+    hf_analysis_curve *c = hf_analysis_curve_alloc(&m, a.count, &err);
+    if (!c || hf_analysis_curve_compute(c, &m, a.dir, a.from, a.step, &err) !=
+                  HF_OK)
+        rc = hf_cli_fail(&err);
+    else
+        rc = write_curve(&m, c, &a);
+    hf_analysis_curve_free(c);
     hf_model_free(&m);
     return rc;
 }

@@ -1,9 +1,7 @@
 /* cmd_lines.c - 'holdfast lines': every line solved at one pose, as a table, CSV, profiles. */
-#include <errno.h>
 #include <math.h>
 #include <stdio.h>
 #include <string.h>
-#include <sys/stat.h>
 #include "holdfast/alloc.h"
 #include "holdfast/cli.h"
 #include "holdfast/csv.h"
@@ -65,31 +63,7 @@ static void write_table(FILE *out, const hf_model *m, const hf_pose *p, const hf
             fprintf(out, "most utilised line: %s (%.3f of MBL)\n",
                     m->lines[r->max_utilisation_line].name, r->max_utilisation);
     }
-    fprintf(out, "\n%s", hf_cli_caution);
-}
-
-/* mkdir -p for the profiles folder. */
-static hf_status make_dir(const char *dir, hf_error *err)
-{
-    char path[4096];
-    size_t n = strlen(dir);
-    if (n == 0 || n >= sizeof path)
-        return hf_error_set(err, HF_EINVAL, "--profiles: directory name empty or too long");
-    memcpy(path, dir, n + 1);
-    for (size_t k = 1; k <= n; k++) {
-        if (path[k] != '/' && path[k] != '\0')
-            continue;
-        char keep = path[k];
-        path[k] = '\0';
-        if (mkdir(path, 0777) != 0 && errno != EEXIST)
-            return hf_error_set(err, HF_EIO, "--profiles: cannot create directory '%s': %s", path,
-                                strerror(errno));
-        path[k] = keep;
-    }
-    struct stat sb;
-    if (stat(dir, &sb) != 0 || !S_ISDIR(sb.st_mode))
-        return hf_error_set(err, HF_EIO, "--profiles: '%s' is not a directory", dir);
-    return HF_OK;
+    fprintf(out, "\n%s", hf_caution_text);
 }
 
 /* A line name made safe as a file name: letters, digits, '.', '-', '_' kept. */
@@ -113,7 +87,7 @@ static double spacing_for(const hf_line *l)
 static hf_status write_profiles(const char *dir, const hf_model *m, const hf_spread_result *r,
                                 hf_error *err)
 {
-    hf_status s = make_dir(dir, err);
+    hf_status s = hf_cli_make_dir("--profiles", dir, err);
     if (s != HF_OK)
         return s;
     size_t cap = 0;
@@ -165,33 +139,35 @@ static hf_status write_profiles(const char *dir, const hf_model *m, const hf_spr
 int hf_cmd_lines(int argc, char **argv)
 {
     const char *cmd = "lines", *profiles = NULL;
-    const hf_cli_opt extra[] = {{"--profiles", "--profiles needs a directory", 1, &profiles, NULL}};
+    const hf_cli_opt extra[] = {
+        {.name = "--profiles", .missing = "--profiles needs a directory", .nonempty = 1,
+         .value = &profiles}};
     hf_cli_pose_cmd pc;
     int rc = hf_cli_pose_cmd_begin(&pc, argc, argv, cmd, usage_text, extra, 1);
     if (rc != HF_CLI_CONTINUE)
         return rc;
     rc = HF_EXIT_OK;
-    hf_spread_result res;
     hf_error solve_err;
     hf_error_clear(&solve_err);
     /* A failing line does not stop the others: its row shows the failure and
      * the exit status reports it after the output is written. */
-    hf_status st = hf_spread_solve(pc.ws, &pc.pose, &res, &solve_err);
-    if (st == HF_EINVAL && res.failed_line == (size_t)-1) {
-        rc = hf_cli_fail(&solve_err); /* the pose itself was rejected */
+    hf_status st = hf_analysis_pose_solve(&pc.at, &pc.m, pc.offset, 0, &solve_err);
+    const hf_spread_result *res = &pc.at.res;
+    if (!pc.at.ws || (st == HF_EINVAL && res->failed_line == (size_t)-1)) {
+        rc = hf_cli_fail(&solve_err); /* no workspace, or the pose itself was rejected */
         goto done;
     }
     if (pc.csv) {
         hf_outfile *f = hf_cli_csv_begin(pc.csv, NULL, &pc.m, &pc.err);
-        if (!f || hf_cli_csv_end(cmd, &f, hf_results_lines_write(hf_outfile_stream(f), &pc.m, &res),
+        if (!f || hf_cli_csv_end(cmd, &f, hf_results_lines_write(hf_outfile_stream(f), &pc.m, res),
                                  &pc.err) != HF_OK) {
             rc = hf_cli_fail(&pc.err);
             goto done;
         }
     }
     if (!pc.csv || strcmp(pc.csv, "-") != 0)
-        write_table(stdout, &pc.m, &pc.pose, &res);
-    if (profiles && write_profiles(profiles, &pc.m, &res, &pc.err) != HF_OK) {
+        write_table(stdout, &pc.m, &pc.at.pose, res);
+    if (profiles && write_profiles(profiles, &pc.m, res, &pc.err) != HF_OK) {
         rc = hf_cli_fail(&pc.err);
         goto done;
     }

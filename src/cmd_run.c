@@ -6,15 +6,18 @@
 #include <string.h>
 #include <sys/stat.h>
 #include "holdfast/alloc.h"
+#include "holdfast/analysis.h"
 #include "holdfast/balance.h"
 #include "holdfast/case.h"
 #include "holdfast/cli.h"
 #include "holdfast/invert.h"
 #include "holdfast/outfile.h"
 #include "holdfast/report.h"
+#include "holdfast/runfolder.h"
 #include "holdfast/results.h"
 #include "holdfast/svg.h"
 #include "holdfast/spread.h"
+#include "holdfast/outputs.h"
 #include "holdfast/study.h"
 #include "holdfast/sweep.h"
 
@@ -23,25 +26,27 @@ static const char usage_text[] =
     "\n"
     "Runs every study of the case's studies: list and writes DIR/<study>.csv for\n"
     "each, DIR/report.html and DIR/summary.txt.  DIR defaults to <case file name without\n"
-    "extension>-results.  Every file is written to a temporary file and renamed\n"
-    "into place when complete: an interrupted or failed run leaves no partial\n"
-    "file (files of studies finished before the interruption stay).\n"
+    "extension>-results.  A results folder holds exactly one run: the run is\n"
+    "built in a folder beside it (DIR.partial-XXXXXX) and swapped in with renames\n"
+    "when complete, replacing an earlier run as a whole; an interrupted run\n"
+    "leaves DIR as it was (and the partial folder).  A folder that is neither\n"
+    "empty nor a holdfast results folder (marked by its .holdfast-results file)\n"
+    "is refused.\n"
     "\n"
-    "  --out DIR   results folder (created when missing)\n"
+    "  --out DIR   results folder (created when missing; replaced as a whole)\n"
     "  --jobs N    threads for sweep studies (default: every processor)\n"
-    "  --quiet     print nothing but errors\n"
+    "  --quiet, -q print nothing but errors\n"
     "\n"
     "See docs/studies.md.  Exit status: 0 ok, 1 a criterion failed in a balance\n"
-    "study, 2 bad input, 3 numerical failure (other studies still run).\n";
-
-static const char *const kind_name[] = {"lines",   "curve", "stiffness",
-                                        "balance", "sweep", "invert"};
+    "study, 2 bad input or an output that could not be written, 3 numerical\n"
+    "failure (other studies still run), 4 out of memory.\n";
 
 /* Outcome of one study, for the summary and the exit status. */
 typedef struct {
     hf_status status;              /* HF_OK or why the study failed */
     int criterion_failed;          /* balance: some condition failed a criterion */
     char note[HF_ERROR_TEXT + 64]; /* one line for the summary */
+    hf_sweep_table *table;         /* sweep: the rows kept for the report, then NULL */
 } outcome;
 
 /* ---- report pieces ---- */
@@ -93,19 +98,14 @@ static void report_rest(hf_report *rep, const hf_model *m)
     hf_report_figure_end(rep, "Plan of the spread at rest: hull, fairleads, lines and anchors.");
     if (st != HF_OK)
         report_fail_note(rep, "The plan", &e);
-    hf_spread *ws = hf_spread_alloc(m, &e);
-    if (!ws) {
-        report_fail_note(rep, "The rest pose", &e);
-        return;
-    }
-    hf_pose pose;
-    hf_spread_pose_rest(m, &pose);
-    hf_spread_result r;
-    if (hf_spread_solve(ws, &pose, &r, &e) == HF_OK)
-        report_elevations(rep, m, &r, 12, "at rest");
+    hf_analysis_pose at;
+    hf_analysis_pose_init(&at);
+    static const double zero[3] = {0.0, 0.0, 0.0};
+    if (hf_analysis_pose_solve(&at, m, zero, 0, &e) == HF_OK)
+        report_elevations(rep, m, &at.res, 12, "at rest");
     else
         report_fail_note(rep, "The rest pose", &e);
-    hf_spread_free(ws);
+    hf_analysis_pose_clear(&at);
 }
 
 static void fmt(char *buf, double v)
@@ -113,71 +113,151 @@ static void fmt(char *buf, double v)
     hf_report_number(buf, 32, v, 4);
 }
 
-/* Splits one CSV line in place into at most `max` fields (RFC 4180 quotes
- * removed); returns the number of fields. */
-static size_t split_csv(char *line, char **fields, size_t max)
-{
-    size_t n = 0;
-    char *p = line;
-    line[strcspn(line, "\n")] = '\0';
-    while (n < max) {
-        char *w = p;
-        fields[n++] = w;
-        if (*p == '"') {
-            p++;
-            for (;;) {
-                if (*p == '"' && p[1] == '"') {
-                    *w++ = '"';
-                    p += 2;
-                } else if (*p == '"' || *p == '\0') {
-                    if (*p)
-                        p++;
-                    break;
-                } else {
-                    *w++ = *p++;
-                }
-            }
-            char *next = strchr(p, ',');
-            *w = '\0';
-            if (!next)
-                break;
-            p = next + 1;
-        } else {
-            char *next = strchr(p, ',');
-            if (!next)
-                break;
-            *next = '\0';
-            p = next + 1;
-        }
-    }
-    return n;
-}
-
-/* "T_north_kN" -> "T_north (kN)" for an axis. */
-static void axis_label(const char *name, char *buf, size_t cap)
-{
-    static const char *const suffix[][2] = {{"_kN_per_m", "kN/m"}, {"_kNm_per_rad", "kN m/rad"},
-                                            {"_kN", "kN"},         {"_deg", "deg"},
-                                            {"_m", "m"},           {"_N", "N"},
-                                            {"_N_per_m", "N/m"},   {"_kg_per_m", "kg/m"}};
-    size_t n = strlen(name);
-    for (size_t i = 0; i < sizeof suffix / sizeof suffix[0]; i++) {
-        size_t k = strlen(suffix[i][0]);
-        if (n > k && !strcmp(name + n - k, suffix[i][0])) {
-            snprintf(buf, cap, "%.*s (%s)", (int)(n - k), name, suffix[i][1]);
-            return;
-        }
-    }
-    snprintf(buf, cap, "%s", name);
-}
-
 #define REPORT_SWEEP_MAX_CASES 20000
 #define REPORT_SWEEP_MAX_CURVES 10
-#define REPORT_LINE_MAX 65536
 
-/* The sweep's figure: its first output against one varied parameter, one
- * curve per value of a second one, read back from the CSV just written. */
-static void report_sweep(hf_report *rep, const hf_model *m, const hf_study *s, const char *path)
+/* "<stem> (<unit for people>)" for a column named <stem>_<unit>, else the
+ * name: "T_north_kN" -> "T_north (kN)", "site.depth_m" -> "site.depth (m)". */
+static void axis_label(const char *name, const char *unit, const char *people, char *buf,
+                       size_t cap)
+{
+    size_t n = strlen(name), k = strlen(unit);
+    if (k && n > k + 1 && name[n - k - 1] == '_' && !strcmp(name + n - k, unit))
+        snprintf(buf, cap, "%.*s (%s)", (int)(n - k - 1), name, people);
+    else
+        snprintf(buf, cap, "%s", name);
+}
+
+/* Axis label of output column 0 of t, from the output catalogue. */
+static void output_label(const hf_sweep_table *t, char *buf, size_t cap)
+{
+    const hf_output_column *c = &t->cols[0];
+    const hf_output_info *info = hf_output_info_of(c->kind);
+    if (c->kind == HF_OUT_OFFSET && c->sub == 2)
+        axis_label(t->col_names[0], "deg", "deg", buf, cap);
+    else
+        axis_label(t->col_names[0], info ? info->unit : "", info ? info->unit_text : "", buf,
+                   cap);
+}
+
+/* Axis label of varied parameter j of t: the column's unit after the path
+ * ("site.depth_m", "..._N_per_m"), read for people ("N/m"). */
+static void vary_label(const hf_sweep_table *t, const hf_study *s, size_t j, char *buf,
+                       size_t cap)
+{
+    const char *name = t->vary_names[j];
+    size_t np = strlen(s->vary[j].path);
+    if (strncmp(name, s->vary[j].path, np) != 0 || name[np] != '_') {
+        snprintf(buf, cap, "%s", name);
+        return;
+    }
+    char people[64];
+    const char *u = name + np + 1;
+    size_t o = 0;
+    for (size_t i = 0; u[i] && o + 4 < sizeof people; i++) {
+        if (!strncmp(u + i, "_per_", 5)) {
+            people[o++] = '/';
+            i += 4;
+        } else if (!strncmp(u + i, "kNm", 3) && u[i + 3] != '_' && u[i + 3]) {
+            people[o++] = u[i];
+        } else {
+            people[o++] = u[i] == '_' ? ' ' : u[i];
+        }
+    }
+    people[o] = '\0';
+    axis_label(name, u, people, buf, cap);
+}
+
+/* Shape of the sweep figure: x parameter ix, curve parameter ic, ncurves
+ * curves of n points.  0 when no figure is drawn (too many cases or curves). */
+static int sweep_shape(const hf_study *s, const hf_study_grid *g, size_t *ix, size_t *ic,
+                       size_t *ncurves, size_t *n)
+{
+    *ix = *ic = 0;
+    *ncurves = 1;
+    *n = (size_t)g->ncases;
+    if (!s->zip && s->nvary == 2) {
+        *ix = g->count[1] >= g->count[0] ? 1 : 0;
+        *ic = 1 - *ix;
+        *ncurves = g->count[*ic];
+        *n = g->count[*ix];
+    }
+    return g->ncases <= REPORT_SWEEP_MAX_CASES && (s->zip || s->nvary <= 2) &&
+           *ncurves <= REPORT_SWEEP_MAX_CURVES;
+}
+
+/* Legend entries of the curves: the values of parameter ic, for people
+ * (degrees for angles, kN for forces), into names (96 bytes each). */
+static void sweep_legend(const hf_study *s, size_t ic, size_t ncurves, char *names,
+                         const char **cn)
+{
+    hf_dim d = s->vary[ic].dim;
+    double scale = d == HF_DIM_ANGLE ? 180.0 / M_PI : d == HF_DIM_FORCE ? 1e-3 : 1.0;
+    const char *u = d == HF_DIM_ANGLE ? "deg" : d == HF_DIM_FORCE ? "kN" : hf_dim_si(d);
+    for (size_t c = 0; c < ncurves; c++) {
+        char v[32];
+        fmt(v, hf_study_vary_value(&s->vary[ic], c) * scale);
+        snprintf(names + 96 * c, 96, "%s %s", v, u);
+        cn[c] = names + 96 * c;
+    }
+}
+
+/* Draws the figure of sweep s from the rows of t (the sweep's in-memory
+ * table, never its CSV read back). */
+static void sweep_figure(hf_report *rep, const hf_model *m, const hf_study *s,
+                         const hf_study_grid *g, const hf_sweep_table *t, size_t ix, size_t ic,
+                         size_t ncurves, size_t n)
+{
+    double *x = hf_malloc(n * sizeof *x), *y = hf_malloc(ncurves * n * sizeof *y);
+    char *names = hf_malloc(ncurves * 96);
+    const char **cn = hf_calloc(ncurves, sizeof *cn);
+    if (x && y && names && cn && t->ncols > 0) {
+        for (size_t i = 0; i < ncurves * n; i++)
+            y[i] = NAN;
+        size_t idx[HF_STUDY_MAX_VARY];
+        for (uint64_t k = 0; k < t->nrows && k < g->ncases; k++) {
+            hf_study_grid_index(g, k, idx);
+            size_t i = ncurves > 1 ? idx[ix] : (size_t)k, c = ncurves > 1 ? idx[ic] : 0;
+            x[i] = t->vary[k * t->nvary + ix];
+            y[c * n + i] = t->out[k * t->ncols];
+        }
+        char xl[256], yl[256], buf[1024];
+        vary_label(t, s, ix, xl, sizeof xl);
+        output_label(t, yl, sizeof yl);
+        sweep_legend(s, ic, ncurves, names, cn);
+        hf_output_kind k0 = t->cols[0].kind;
+        int util = k0 == HF_OUT_UTILISATION || k0 == HF_OUT_MAX_UTILISATION;
+        /* Legend title: the last part of the curve parameter's path ("length");
+         * the caption names the whole path. */
+        const char *lt = strrchr(s->vary[ic].path, '.');
+        lt = lt ? lt + 1 : s->vary[ic].path;
+        double fi = m->criteria.factor_intact;
+        hf_svg_sweep sw = {s->name, xl, yl, n, ncurves, x, y, ncurves > 1 ? cn : NULL,
+                           ncurves > 1 ? lt : NULL, util && fi > 0, fi > 0 ? 1.0 / fi : 0.0,
+                           "intact limit 1/factor"};
+        hf_error e;
+        hf_error_clear(&e);
+        FILE *fig = hf_report_figure_begin(rep);
+        hf_status st = hf_svg_figure_sweep(fig, &sw, 0, &e);
+        if (ncurves > 1)
+            snprintf(buf, sizeof buf, "%s against %s, one curve per value of %s.", yl, xl,
+                     s->vary[ic].path);
+        else
+            snprintf(buf, sizeof buf, "%s against %s.", yl, xl);
+        hf_report_figure_end(rep, buf);
+        if (st != HF_OK)
+            report_fail_note(rep, "The sweep figure", &e);
+    }
+    hf_free(x);
+    hf_free(y);
+    hf_free(names);
+    hf_free(cn);
+}
+
+/* The sweep's section: its size and a figure of its first output against
+ * one varied parameter, one curve per value of a second one. */
+static void report_sweep(hf_report *rep, const hf_model *m, const hf_study *s,
+                         const hf_sweep_table *t)
 {
     char head[HF_MODEL_MAX_NAME + 64], buf[1024];
     snprintf(head, sizeof head, "Sweep: %s", s->name);
@@ -190,120 +270,28 @@ static void report_sweep(hf_report *rep, const hf_model *m, const hf_study *s, c
              (unsigned long long)g.ncases, s->zip ? "zipped lists" : "full grid", s->nvary,
              s->name);
     hf_report_paragraph(rep, buf);
-    size_t ix = 0, ic = 0, ncurves = 1, n = (size_t)g.ncases;
-    if (!s->zip && s->nvary == 2) {
-        ix = g.count[1] >= g.count[0] ? 1 : 0;
-        ic = 1 - ix;
-        ncurves = g.count[ic];
-        n = g.count[ix];
-    }
-    if (g.ncases > REPORT_SWEEP_MAX_CASES || (!s->zip && s->nvary > 2) ||
-        ncurves > REPORT_SWEEP_MAX_CURVES) {
+    size_t ix, ic, ncurves, n;
+    if (!sweep_shape(s, &g, &ix, &ic, &ncurves, &n) || !t) {
         hf_report_paragraph(rep, "No figure: figures are drawn for sweeps of up to 20,000 cases "
                                  "over one parameter, zipped lists, or two parameters with at "
                                  "most 10 values of one of them.");
         return;
     }
-    double *x = hf_malloc(n * sizeof *x), *y = hf_malloc(ncurves * n * sizeof *y);
-    char *line = hf_malloc(REPORT_LINE_MAX), *names = hf_malloc(ncurves * 96);
-    const char **cn = hf_calloc(ncurves, sizeof *cn);
-    char **fields = hf_calloc(s->nvary + 2, sizeof *fields);
-    FILE *f = fopen(path, "r");
-    if (!x || !y || !line || !names || !cn || !fields || !f)
-        goto done;
-    for (size_t i = 0; i < ncurves * n; i++)
-        y[i] = NAN;
-    char xl[256], yl[256], ylabel_raw[256];
-    if (!fgets(line, REPORT_LINE_MAX, f) || split_csv(line, fields, s->nvary + 2) < s->nvary + 2)
-        goto done;
-    axis_label(fields[ix], xl, sizeof xl);
-    snprintf(ylabel_raw, sizeof ylabel_raw, "%s", fields[s->nvary + 1]);
-    axis_label(ylabel_raw, yl, sizeof yl);
-    size_t idx[HF_STUDY_MAX_VARY];
-    for (uint64_t k = 0; k < g.ncases && fgets(line, REPORT_LINE_MAX, f); k++) {
-        if (split_csv(line, fields, s->nvary + 2) < s->nvary + 2)
-            continue;
-        double xv = strtod(fields[ix], NULL);
-        char *end;
-        double yv = strtod(fields[s->nvary + 1], &end);
-        if (end == fields[s->nvary + 1])
-            yv = NAN;
-        hf_study_grid_index(&g, k, idx);
-        size_t i = ncurves > 1 ? idx[ix] : (size_t)k, c = ncurves > 1 ? idx[ic] : 0;
-        x[i] = xv;
-        y[c * n + i] = yv;
-    }
-    for (size_t c = 0; c < ncurves; c++) {
-        /* Legend values for people: degrees for angles, kN for forces. */
-        char v[32];
-        hf_dim d = s->vary[ic].dim;
-        double scale = d == HF_DIM_ANGLE ? 180.0 / M_PI : d == HF_DIM_FORCE ? 1e-3 : 1.0;
-        const char *u = d == HF_DIM_ANGLE ? "deg" : d == HF_DIM_FORCE ? "kN" : hf_dim_si(d);
-        fmt(v, hf_study_vary_value(&s->vary[ic], c) * scale);
-        snprintf(names + 96 * c, 96, "%s %s", v, u);
-        cn[c] = names + 96 * c;
-    }
-    int util = !strncmp(ylabel_raw, "U_", 2) || !strcmp(ylabel_raw, "max_utilisation");
-    /* Legend title: the last part of the curve parameter's path ("length");
-     * the caption names the whole path. */
-    const char *lt = strrchr(s->vary[ic].path, '.');
-    lt = lt ? lt + 1 : s->vary[ic].path;
-    double fi = m->criteria.factor_intact;
-    hf_svg_sweep sw = {s->name,
-                       xl,
-                       yl,
-                       n,
-                       ncurves,
-                       x,
-                       y,
-                       ncurves > 1 ? cn : NULL,
-                       ncurves > 1 ? lt : NULL,
-                       util && fi > 0,
-                       fi > 0 ? 1.0 / fi : 0.0,
-                       "intact limit 1/factor"};
-    hf_error_clear(&e);
-    FILE *fig = hf_report_figure_begin(rep);
-    hf_status st = hf_svg_figure_sweep(fig, &sw, 0, &e);
-    if (ncurves > 1)
-        snprintf(buf, sizeof buf, "%s against %s, one curve per value of %s.", yl, xl,
-                 s->vary[ic].path);
-    else
-        snprintf(buf, sizeof buf, "%s against %s.", yl, xl);
-    hf_report_figure_end(rep, buf);
-    if (st != HF_OK)
-        report_fail_note(rep, "The sweep figure", &e);
-done:
-    if (f)
-        fclose(f);
-    hf_free(x);
-    hf_free(y);
-    hf_free(line);
-    hf_free(names);
-    hf_free(cn);
-    hf_free(fields);
+    sweep_figure(rep, m, s, &g, t, ix, ic, ncurves, n);
 }
 
 /* ---- per-kind studies through the library API; the CSV layouts are those of
  * the matching commands, from include/holdfast/results.h (docs/studies.md) ---- */
 
-/* A spread workspace of m and the study's pose (rest pose plus offset), or
- * NULL with err set. */
-static hf_spread *study_begin(const hf_model *m, const hf_study *s, hf_pose *pose, hf_error *err)
-{
-    hf_spread_pose_rest(m, pose);
-    hf_spread_pose_offset(pose, s->offset);
-    return hf_spread_alloc(m, err);
-}
-
 static hf_status run_lines(const hf_model *m, const hf_study *s, int jobs, FILE *out,
                            hf_report *rep, outcome *oc, hf_error *err)
 {
-    hf_pose pose;
-    hf_spread *ws = study_begin(m, s, &pose, err);
-    if (!ws)
-        return err->status;
-    hf_spread_result r;
-    hf_status st = hf_spread_solve(ws, &pose, &r, err);
+    hf_analysis_pose at;
+    hf_analysis_pose_init(&at);
+    hf_status st = hf_analysis_pose_solve(&at, m, s->offset, 0, err);
+    if (!at.ws)
+        return st;
+    const hf_spread_result r = at.res;
     /* A study whose pose does not solve fails as a whole (its file is not
      * kept), so the rows are those of 'holdfast lines --csv'. */
     hf_cli_warn_nonfinite("run", hf_results_lines_write(out, m, &r));
@@ -354,7 +342,7 @@ static hf_status run_lines(const hf_model *m, const hf_study *s, int jobs, FILE 
         else
             hf_report_paragraph(rep, "The pose is the rest pose: the elevations are above.");
     }
-    hf_spread_free(ws);
+    hf_analysis_pose_clear(&at);
     return st;
 }
 
@@ -362,13 +350,11 @@ static hf_status run_stiffness(const hf_model *m, const hf_study *s, int jobs, F
                                hf_report *rep, outcome *oc, hf_error *err)
 {
     const char *const *dof = hf_results_stiffness_columns + 1;
-    hf_pose pose;
-    hf_spread *ws = study_begin(m, s, &pose, err);
-    if (!ws)
-        return err->status;
-    hf_spread_result r;
-    double K[6][6];
-    hf_status st = hf_spread_stiffness(ws, &pose, K, &r, err);
+    hf_analysis_pose at;
+    hf_analysis_pose_init(&at);
+    hf_status st = hf_analysis_pose_solve(&at, m, s->offset, 1, err);
+    const hf_spread_result r = at.res;
+    double(*K)[6] = at.K;
     if (st == HF_OK) {
         hf_cli_warn_nonfinite("run", hf_results_stiffness_write(out, K, r.force));
         snprintf(oc->note, sizeof oc->note, "K11 %.6g kN/m, K22 %.6g kN/m, K66 %.6g kN m/rad",
@@ -389,7 +375,7 @@ static hf_status run_stiffness(const hf_model *m, const hf_study *s, int jobs, F
         hf_report_table_row_numbers(rep, "static load", load, 5);
         hf_report_table_end(rep);
     }
-    hf_spread_free(ws);
+    hf_analysis_pose_clear(&at);
     return st;
 }
 
@@ -404,182 +390,151 @@ static hf_status run_curve(const hf_model *m, const hf_study *s, int jobs, FILE 
     size_t n = hf_study_vary_count(&v);
     if (n == 0 || n > HF_STUDY_MAX_VALUES)
         return hf_error_set(err, HF_EINVAL, "curve study %s: invalid range", s->name);
-    hf_spread *ws = hf_spread_alloc(m, err);
-    if (!ws)
+    if (hf_results_curve_header_write(out, m, err) != HF_OK)
         return err->status;
-    double cd = cos(s->direction), sd = sin(s->direction);
-    if (hf_results_curve_header_write(out, m, err) != HF_OK) {
-        hf_spread_free(ws);
+    hf_analysis_curve *c = hf_analysis_curve_alloc(m, n, err);
+    if (!c || hf_analysis_curve_compute(c, m, s->direction, s->from, s->step, err) != HF_OK) {
+        hf_analysis_curve_free(c);
         return err->status;
     }
-    size_t failed = 0, nonfinite = 0, nl = m->nlines;
-    /* Figure data (the CSV is written as it goes; these feed the report). */
-    double *fo = hf_malloc(n * sizeof *fo), *ff = hf_malloc(n * sizeof *ff);
-    double *fk = hf_malloc(n * sizeof *fk), *ft = hf_malloc(n * nl * sizeof *ft);
-    double *fu = hf_malloc(n * nl * sizeof *fu);
-    int figure = fo && ff && fk && ft && fu;
-    for (size_t k = 0; k < n; k++) {
-        double x = hf_study_vary_value(&v, k);
-        hf_pose pose;
-        hf_spread_pose_rest(m, &pose);
-        double off[3] = {x * cd, x * sd, 0.0};
-        hf_spread_pose_offset(&pose, off);
-        hf_spread_result r;
-        double K[6][6];
-        hf_error e;
-        hf_status st = hf_spread_stiffness(ws, &pose, K, &r, &e);
-        if (st == HF_OK) {
-            hf_results_curve_point pt;
-            hf_results_curve_point_set(&pt, m, x, s->direction, K, &r);
-            nonfinite += hf_results_curve_row_write(out, m, &pt, &r);
-            if (figure) {
-                fo[k] = x;
-                ff[k] = pt.restoring;
-                fk[k] = pt.stiffness;
-                for (size_t i = 0; i < nl; i++) {
-                    ft[k * nl + i] = r.line_tension[i];
-                    fu[k * nl + i] = r.states[i].max_utilisation;
-                }
-            }
-        } else {
-            if (figure) {
-                fo[k] = x;
-                ff[k] = fk[k] = NAN;
-                for (size_t i = 0; i < nl; i++)
-                    ft[k * nl + i] = fu[k * nl + i] = NAN;
-            }
-            /* The offset is kept, its values left empty (the command stops at
-             * such a point; a study keeps going and counts it). */
-            failed++;
-            hf_results_curve_row_failed_write(out, m, x);
-        }
-    }
+    /* A failed offset keeps its row with the values left empty (the command
+     * stops at such a point; a study keeps going and counts it). */
+    size_t nonfinite = 0;
+    for (size_t k = 0; k < n; k++)
+        nonfinite += hf_results_curve_row_write(out, m, c, k);
     hf_cli_warn_nonfinite("run", nonfinite);
     snprintf(oc->note, sizeof oc->note, "%zu offsets along %.4g deg, %zu failed", n,
-             s->direction * 180.0 / M_PI, failed);
+             s->direction * 180.0 / M_PI, c->nfailed);
     char head[HF_MODEL_MAX_NAME + 64], label[64];
     snprintf(head, sizeof head, "Restoring curve: %s", s->name);
     snprintf(label, sizeof label, "direction %.4g deg", s->direction * 180.0 / M_PI);
     hf_report_section(rep, head,
                       "Restoring force and stiffness against a horizontal offset of the hull "
                       "along one direction, heading fixed; line tensions and utilisations.");
-    if (figure && n >= 2) {
-        const char **names = hf_calloc(nl, sizeof *names);
-        if (names)
-            for (size_t i = 0; i < nl; i++)
-                names[i] = m->lines[i].name;
-        double fi = m->criteria.factor_intact;
-        hf_svg_curve cv = {s->name, n,    fo, ff, fk, nl, names, ft, fu, fi > 0 ? 1.0 / fi : 0.0,
-                           NULL,    label};
+    if (n >= 2) {
         hf_error e;
         hf_error_clear(&e);
         FILE *f = hf_report_figure_begin(rep);
-        hf_status st = hf_svg_figure_curve(f, &cv, 0, &e);
+        hf_status st = hf_report_svg_curve(f, m, c, s->name, label, 0, 0, &e);
         hf_report_figure_end(rep, "Restoring force, stiffness, line tensions and utilisations "
                                   "against offset; the utilisation limit is 1 / the intact "
                                   "factor.");
         if (st != HF_OK)
             report_fail_note(rep, "The curve", &e);
-        hf_free(names);
     }
-    if (failed) {
+    if (c->nfailed) {
         char buf[128];
-        snprintf(buf, sizeof buf, "%zu of %zu offsets did not solve (gaps in the curves).", failed,
-                 n);
+        snprintf(buf, sizeof buf, "%zu of %zu offsets did not solve (gaps in the curves).",
+                 c->nfailed, n);
         hf_report_note(rep, "warning", buf);
     }
-    hf_free(fo);
-    hf_free(ff);
-    hf_free(fk);
-    hf_free(ft);
-    hf_free(fu);
-    hf_spread_free(ws);
+    hf_analysis_curve_free(c);
+    return HF_OK;
+}
+
+/* A balance study's writers: the CSV rows and the report's checks. */
+typedef struct {
+    const hf_model *m;
+    FILE *out;
+    hf_report *rep;
+    size_t nonfinite;
+} balance_ctx;
+
+/* The requirement and the result of condition r, for the report. */
+static void balance_check(const balance_ctx *c, const hf_load *l, const hf_balance_result *r)
+{
+    char cond[HF_MODEL_MAX_NAME + 16];
+    hf_results_balance_condition(c->m, r, cond, sizeof cond);
+    char item[2 * HF_MODEL_MAX_NAME + 32], req[128], res[256], a[32], b2[32];
+    snprintf(item, sizeof item, "load %s, %s", l->name, cond);
+    double need = hf_criteria_required(&c->m->criteria, r->broken != HF_BALANCE_NONE);
+    fmt(a, need);
+    if (need > 0)
+        snprintf(req, sizeof req, "MBL/T at least %s%s", a,
+                 r->offset_checked ? "; offset within the limit" : "");
+    else
+        snprintf(req, sizeof req, "%s", r->offset_checked ? "offset within the limit" : "equilibrium");
+    if (r->status != HF_OK) {
+        snprintf(res, sizeof res, "%s%s%.180s", hf_status_str(r->status), r->message[0] ? ": " : "",
+                 r->message);
+    } else {
+        fmt(a, r->max_utilisation > 0 ? 1.0 / r->max_utilisation : 0.0);
+        fmt(b2, r->horizontal);
+        snprintf(res, sizeof res, "MBL/T %s (%s), offset %s m, governing: %s", a,
+                 hf_results_line_name(c->m, r->max_utilisation_line), b2,
+                 hf_balance_criterion_name(r->criterion));
+    }
+    hf_report_check(c->rep, item, req, res, r->passed);
+}
+
+static hf_status balance_row(void *ctx, const hf_load *l, const hf_balance_result *r,
+                             hf_error *err)
+{
+    balance_ctx *c = ctx;
+    (void)err;
+    c->nonfinite += hf_results_balance_row_write(c->out, c->m, l, r);
+    balance_check(c, l, r);
+    return HF_OK;
+}
+
+/* After a load case: the plan at its intact equilibrium. */
+static hf_status balance_plan(void *ctx, const hf_load *l, hf_status intact,
+                              const double offset[3], hf_error *err)
+{
+    balance_ctx *c = ctx;
+    (void)err;
+    if (intact != HF_OK)
+        return HF_OK;
+    hf_pose pose;
+    hf_spread_pose_rest(c->m, &pose);
+    hf_spread_pose_offset(&pose, offset);
+    hf_error fe;
+    hf_error_clear(&fe);
+    FILE *f = hf_report_figure_begin(c->rep);
+    hf_status fs = hf_report_svg_plan(f, c->m, &pose, NULL, l, 0, &fe);
+    char cap[HF_MODEL_MAX_NAME + 96];
+    snprintf(cap, sizeof cap, "Plan at the intact equilibrium under load %s.", l->name);
+    hf_report_figure_end(c->rep, cap);
+    if (fs != HF_OK)
+        report_fail_note(c->rep, "The plan", &fe);
     return HF_OK;
 }
 
 static hf_status run_balance(const hf_model *m, const hf_study *s, int jobs, FILE *out,
                              hf_report *rep, outcome *oc, hf_error *err)
 {
-    hf_balance *b = hf_balance_alloc(m, err);
-    if (!b)
-        return err->status;
+    size_t nwhich = s->nloads, *which = hf_calloc(nwhich ? nwhich : 1, sizeof *which);
+    if (!which)
+        return hf_error_set(err, HF_ENOMEM, "balance study %s: out of memory", s->name);
+    for (size_t l = 0; l < nwhich; l++)
+        if ((which[l] = hf_model_load_find(m, s->loads[l])) >= m->nloads) {
+            hf_free(which);
+            return hf_error_set(err, HF_EINVAL, "balance study %s: no load named %s", s->name,
+                                s->loads[l]);
+        }
     if (hf_results_balance_header_write(out, m, err) != HF_OK) {
-        hf_balance_free(b);
+        hf_free(which);
         return err->status;
     }
-    size_t nload = s->nloads ? s->nloads : m->nloads, nfail = 0, nnot = 0, nonfinite = 0;
     char head[HF_MODEL_MAX_NAME + 64];
     snprintf(head, sizeof head, "Mean position under load: %s", s->name);
     hf_report_section(rep, head,
                       "Equilibrium in surge, sway and yaw under each load case, intact and with "
                       "each line broken in turn, checked against the case's criteria.");
-    for (size_t l = 0; l < nload; l++) {
-        size_t li = s->nloads ? hf_model_load_find(m, s->loads[l]) : l;
-        if (li >= m->nloads) {
-            hf_balance_free(b);
-            return hf_error_set(err, HF_EINVAL, "balance study %s: no load named %s", s->name,
-                                s->loads[l]);
-        }
-        hf_error e;
-        hf_status st = hf_balance_run(b, &m->loads[li], &e);
-        if (st == HF_EINVAL) {
-            hf_balance_free(b);
-            return hf_error_set(err, HF_EINVAL, "balance study %s: %s", s->name, e.text);
-        }
-        for (size_t k = 0; k < hf_balance_ncond(b); k++) {
-            const hf_balance_result *r = hf_balance_result_at(b, k);
-            nonfinite += hf_results_balance_row_write(out, m, &m->loads[li], r);
-            if (!r->passed)
-                nfail++;
-            if (r->status != HF_OK)
-                nnot++;
-            char cond[HF_MODEL_MAX_NAME + 16];
-            hf_results_balance_condition(m, r, cond, sizeof cond);
-            char item[2 * HF_MODEL_MAX_NAME + 32], req[128], res[256], a[32], b2[32];
-            snprintf(item, sizeof item, "load %s, %s", m->loads[li].name, cond);
-            double need = hf_criteria_required(&m->criteria, r->broken != HF_BALANCE_NONE);
-            fmt(a, need);
-            if (need > 0)
-                snprintf(req, sizeof req, "MBL/T at least %s%s", a,
-                         r->offset_checked ? "; offset within the limit" : "");
-            else
-                snprintf(req, sizeof req, "%s",
-                         r->offset_checked ? "offset within the limit" : "equilibrium");
-            if (r->status != HF_OK) {
-                snprintf(res, sizeof res, "%s%s%.180s", hf_status_str(r->status),
-                         r->message[0] ? ": " : "", r->message);
-            } else {
-                fmt(a, r->max_utilisation > 0 ? 1.0 / r->max_utilisation : 0.0);
-                fmt(b2, r->horizontal);
-                snprintf(res, sizeof res, "MBL/T %s (%s), offset %s m, governing: %s", a,
-                         hf_results_line_name(m, r->max_utilisation_line), b2,
-                         hf_balance_criterion_name(r->criterion));
-            }
-            hf_report_check(rep, item, req, res, r->passed);
-        }
-        const hf_balance_result *r0 = hf_balance_result_at(b, 0);
-        if (r0 && r0->status == HF_OK) {
-            hf_pose pose;
-            hf_spread_pose_rest(m, &pose);
-            hf_spread_pose_offset(&pose, r0->offset);
-            hf_error fe;
-            hf_error_clear(&fe);
-            FILE *f = hf_report_figure_begin(rep);
-            hf_status fs = hf_report_svg_plan(f, m, &pose, NULL, &m->loads[li], 0, &fe);
-            char cap[HF_MODEL_MAX_NAME + 96];
-            snprintf(cap, sizeof cap, "Plan at the intact equilibrium under load %s.",
-                     m->loads[li].name);
-            hf_report_figure_end(rep, cap);
-            if (fs != HF_OK)
-                report_fail_note(rep, "The plan", &fe);
-        }
-    }
-    hf_cli_warn_nonfinite("run", nonfinite);
-    oc->criterion_failed = nfail > 0;
+    balance_ctx c = {m, out, rep, 0};
+    hf_analysis_balance_sink sink = {&c, NULL, balance_row, balance_plan, NULL};
+    hf_analysis_balance_count n;
+    hf_error e;
+    hf_error_clear(&e);
+    hf_status st = hf_analysis_balance_run(m, nwhich ? which : NULL, nwhich, &sink, &n, &e);
+    hf_free(which);
+    if (st != HF_OK)
+        return hf_error_set(err, e.status, "balance study %s: %.900s", s->name, e.text);
+    hf_cli_warn_nonfinite("run", c.nonfinite);
+    oc->criterion_failed = n.failed > 0;
     snprintf(oc->note, sizeof oc->note,
-             "%zu load cases; %zu conditions failed a criterion (%zu without equilibrium)", nload,
-             nfail, nnot);
-    hf_balance_free(b);
+             "%zu load cases; %zu conditions failed a criterion (%zu without equilibrium)", n.loads,
+             n.failed, n.noresult);
     return HF_OK;
 }
 
@@ -593,9 +548,13 @@ static hf_status run_sweep(const hf_model *m, const hf_study *s, int jobs, FILE 
     hf_sweep_range r;
     memset(&r, 0, sizeof r);
     r.end = hf_sweep_ncases(sw);
-    hf_status st = hf_sweep_write_header(sw, out, err);
+    /* The rows the report's figure can use stay in memory (at most
+     * REPORT_SWEEP_MAX_CASES; the CSV receives every row). */
+    uint64_t cap = r.end < REPORT_SWEEP_MAX_CASES ? r.end : REPORT_SWEEP_MAX_CASES;
+    oc->table = hf_sweep_table_alloc(sw, cap ? cap : 1, err);
+    hf_status st = oc->table ? hf_sweep_write_header(sw, out, err) : err->status;
     if (st == HF_OK)
-        st = hf_sweep_write_rows(sw, &r, out, err);
+        st = hf_sweep_run(sw, &r, out, oc->table, err);
     if (st == HF_OK)
         snprintf(oc->note, sizeof oc->note, "%llu cases, %llu did not solve",
                  (unsigned long long)r.end, (unsigned long long)hf_sweep_failed_count(sw));
@@ -656,7 +615,7 @@ static hf_status run_invert(const hf_model *m, const hf_study *s, int jobs, FILE
     return hf_invert_write_csv(out, m, s->vary[0].path, &o, s->target_value, &res, err);
 }
 
-/* The study of each kind, indexed by hf_study_kind (the order of kind_name).
+/* The study of each kind, indexed by hf_study_kind (the order of hf_study_kind_name).
  * Every one writes its CSV to out and its report section to rep (a sweep's
  * figure comes after its file is committed: report_sweep); jobs is used by
  * sweeps only. */
@@ -668,17 +627,6 @@ _Static_assert(sizeof run_kind / sizeof run_kind[0] == HF_STUDY_INVERT + 1,
                "one study function per hf_study_kind");
 
 /* ---- the run ---- */
-
-static hf_status make_dir(const char *dir, hf_error *err)
-{
-    if (mkdir(dir, 0777) == 0 || errno == EEXIST) {
-        struct stat st;
-        if (stat(dir, &st) == 0 && S_ISDIR(st.st_mode))
-            return HF_OK;
-    }
-    return hf_error_set(err, HF_EIO, "%s: cannot create the results folder: %s", dir,
-                        strerror(errno ? errno : ENOTDIR));
-}
 
 /* Default folder: the case file's base name without extension + "-results". */
 static void default_dir(const char *case_path, char *buf, size_t cap)
@@ -705,131 +653,166 @@ static int severity(hf_status st)
     return hf_status_exit_code(st) == HF_EXIT_USAGE ? 3 : 2; /* bad input > numeric */
 }
 
-int hf_cmd_run(int argc, char **argv)
+/* The options of one run. */
+typedef struct {
+    const char *case_path, *dir;
+    int jobs, quiet;
+} run_args;
+
+static int parse_args(int argc, char **argv, run_args *a)
 {
-    const char *case_path = NULL, *dir = NULL;
-    int jobs = 0, quiet = 0;
-    for (int i = 1; i < argc; i++) {
-        const char *a = argv[i], *v = NULL;
-        hf_error e;
-        if (hf_cli_help(a, usage_text)) {
-            return HF_EXIT_OK;
-        } else if (hf_cli_value(argc, argv, &i, "--out", &dir)) {
-            continue;
-        } else if (hf_cli_value(argc, argv, &i, "--jobs", &v)) {
-            if (hf_cli_parse_jobs(v, &jobs, &e) != HF_OK)
-                return hf_cli_usage_error("run", "%s", e.text);
-        } else if (!strcmp(a, "--quiet") || !strcmp(a, "-q")) {
-            quiet = 1;
-        } else if (a[0] == '-' && a[1]) {
-            return hf_cli_usage_error("run", "unknown option or missing value: %s", a);
-        } else if (!case_path) {
-            case_path = a;
-        } else {
-            return hf_cli_usage_error("run", "one case file expected, got \"%s\" too", a);
-        }
+    const char *jobs = NULL;
+    int quiet = 0;
+    const hf_cli_opt opts[] = {
+        HF_CLI_OPT_VALUE("--out", "--out needs a DIR (the results folder)", &a->dir),
+        HF_CLI_OPT_VALUE("--jobs", "--jobs needs a number of threads", &jobs),
+        HF_CLI_OPT_FLAG("--quiet", &quiet), HF_CLI_OPT_FLAG("-q", &quiet)};
+    a->dir = NULL;
+    a->jobs = 0;
+    int rc = hf_cli_parse_case_args(argc, argv, "run", usage_text, opts, 4, &a->case_path);
+    if (rc != HF_CLI_CONTINUE)
+        return rc;
+    hf_error e;
+    hf_error_clear(&e);
+    if (jobs && hf_cli_parse_jobs(jobs, &a->jobs, &e) != HF_OK)
+        return hf_cli_usage_error("run", "%s", e.text);
+    if (a->jobs == 0)
+        a->jobs = hf_study_default_jobs();
+    a->quiet = quiet > 0;
+    return HF_CLI_CONTINUE;
+}
+
+/* Runs study k of m into dir (its CSV and its report section); fills oc. */
+static void run_study(const hf_model *m, const hf_study *s, const char *dir, const run_args *a,
+                      hf_report *rep, outcome *oc)
+{
+    char path[HF_RUNFOLDER_PATH_MAX + 2 * HF_MODEL_MAX_NAME + 64];
+    snprintf(path, sizeof path, "%s/%s.csv", dir, s->name);
+    hf_error e;
+    hf_error_clear(&e);
+    hf_outfile *of = hf_outfile_open(path, &e);
+    hf_status st = of ? HF_OK : e.status;
+    if (of) {
+        st = run_kind[s->kind](m, s, a->jobs, hf_outfile_stream(of), rep, oc, &e);
+        if (st == HF_OK)
+            st = hf_outfile_commit(of, &e);
+        else
+            hf_outfile_abort(of);
+        if (st == HF_OK && s->kind == HF_STUDY_SWEEP)
+            report_sweep(rep, m, s, oc->table);
+        hf_sweep_table_free(oc->table);
+        oc->table = NULL;
     }
-    if (!case_path)
-        return hf_cli_usage_error("run", "no case file given");
-    if (jobs == 0)
-        jobs = hf_study_default_jobs();
-    hf_model m;
-    hf_study_list sl;
-    hf_model_init(&m);
-    hf_study_list_init(&sl);
-    hf_error err;
-    hf_error_clear(&err);
-    int rc = HF_EXIT_OK;
-    outcome *oc = NULL;
-    char dbuf[4096], path[8192];
-    if (hf_case_load_with_studies(case_path, &m, &sl, &err) != HF_OK)
-        goto fail;
-    if (sl.n == 0) {
-        hf_error_set(&err, HF_EINVAL, "%s: the case has no studies: section; nothing to run",
-                     case_path);
-        goto fail;
+    oc->status = st;
+    if (st != HF_OK) {
+        snprintf(oc->note, sizeof oc->note, "FAILED (%s): %s", hf_status_str(st), e.text);
+        fprintf(stderr, "holdfast run: study %s: %s\n", s->name, e.text);
+        char head[HF_MODEL_MAX_NAME + 64];
+        snprintf(head, sizeof head, "Study %s (%s): failed", s->name, hf_study_kind_name(s->kind));
+        hf_report_section(rep, head, NULL);
+        hf_report_note(rep, "warning", oc->note);
+    } else if (!a->quiet) {
+        printf("%-24s %-9s %s\n", s->name, hf_study_kind_name(s->kind), oc->note);
     }
-    if (!dir) {
-        default_dir(case_path, dbuf, sizeof dbuf);
-        dir = dbuf;
-    }
-    if (make_dir(dir, &err) != HF_OK)
-        goto fail;
-    oc = hf_calloc(sl.n, sizeof *oc);
-    if (!oc) {
-        hf_error_set(&err, HF_ENOMEM, "out of memory");
-        goto fail;
-    }
-    /* The report is written alongside the studies and committed last. */
-    hf_outfile *rf = open_in(dir, "report.html", path, sizeof path, &err);
-    if (!rf)
-        goto fail;
-    char command[4200];
-    snprintf(command, sizeof command, "holdfast run %s", case_path);
-    hf_report rep;
-    hf_report_begin(&rep, hf_outfile_stream(rf), &m, command);
-    report_rest(&rep, &m);
-    int worst = 0, crit = 0;
-    for (size_t k = 0; k < sl.n; k++) {
-        const hf_study *s = &sl.v[k];
-        snprintf(path, sizeof path, "%s/%s.csv", dir, s->name);
-        hf_error e;
-        hf_error_clear(&e);
-        hf_outfile *of = hf_outfile_open(path, &e);
-        hf_status st = of ? HF_OK : e.status;
-        if (of) {
-            FILE *out = hf_outfile_stream(of);
-            st = run_kind[s->kind](&m, s, jobs, out, &rep, &oc[k], &e);
-            if (st == HF_OK)
-                st = hf_outfile_commit(of, &e);
-            else
-                hf_outfile_abort(of);
-            if (st == HF_OK && s->kind == HF_STUDY_SWEEP)
-                report_sweep(&rep, &m, s, path);
-        }
-        oc[k].status = st;
-        if (st != HF_OK) {
-            snprintf(oc[k].note, sizeof oc[k].note, "FAILED (%s): %s", hf_status_str(st), e.text);
-            fprintf(stderr, "holdfast run: study %s: %s\n", s->name, e.text);
-            char head[HF_MODEL_MAX_NAME + 64];
-            snprintf(head, sizeof head, "Study %s (%s): failed", s->name, kind_name[s->kind]);
-            hf_report_section(&rep, head, NULL);
-            hf_report_note(&rep, "warning", oc[k].note);
-            if (severity(st) > worst)
-                worst = severity(st);
-        } else if (!quiet) {
-            printf("%-24s %-9s %s\n", s->name, kind_name[s->kind], oc[k].note);
-        }
-        if (oc[k].criterion_failed)
-            crit = 1;
-    }
-    if (hf_report_end(&rep, &err) != HF_OK || hf_outfile_commit(rf, &err) != HF_OK)
-        goto fail;
-    /* The summary goes last, so it describes what is in the folder. */
-    hf_outfile *of = open_in(dir, "summary.txt", path, sizeof path, &err);
+}
+
+/* summary.txt: one line per study; written last, so it describes the folder. */
+static hf_status write_summary(const hf_model *m, const hf_study_list *sl, const char *dir,
+                               const run_args *a, const outcome *oc, hf_error *err)
+{
+    char path[HF_RUNFOLDER_PATH_MAX + 64];
+    hf_outfile *of = open_in(dir, "summary.txt", path, sizeof path, err);
     if (!of)
-        goto fail;
+        return err->status;
     FILE *out = hf_outfile_stream(of);
-    fprintf(out, "holdfast %s run of %s\n", HF_VERSION, case_path);
-    if (m.title)
-        fprintf(out, "case: %s\n", m.title);
+    fprintf(out, "holdfast %s run of %s\n", HF_VERSION, a->case_path);
+    if (m->title)
+        fprintf(out, "case: %s\n", m->title);
     fprintf(out, "\n");
-    for (size_t k = 0; k < sl.n; k++)
-        fprintf(out, "%-24s %-9s %-8s %s\n", sl.v[k].name, kind_name[sl.v[k].kind],
+    for (size_t k = 0; k < sl->n; k++)
+        fprintf(out, "%-24s %-9s %-8s %s\n", sl->v[k].name, hf_study_kind_name(sl->v[k].kind),
                 oc[k].status != HF_OK    ? "failed"
                 : oc[k].criterion_failed ? "criterion"
                                          : "ok",
                 oc[k].note);
-    fprintf(out, "\n%s", hf_cli_caution);
-    if (hf_outfile_commit(of, &err) != HF_OK)
-        goto fail;
-    if (!quiet)
-        printf("results in %s/\n%s", dir, hf_cli_caution);
-    rc = worst == 3 ? HF_EXIT_USAGE : worst == 2 ? HF_EXIT_NUMERIC : crit ? HF_EXIT_CRITERION : 0;
-    goto done;
-fail:
-    rc = hf_cli_fail(&err);
-done:
+    fprintf(out, "\n%s", hf_caution_text);
+    return hf_outfile_commit(of, err);
+}
+
+/* Every study, the report and the summary into dir.  Returns the exit
+ * status the studies call for; *st is the status of the report and summary
+ * files (their message in err). */
+static int run_all(const hf_model *m, const hf_study_list *sl, const char *dir,
+                   const run_args *a, outcome *oc, hf_status *st, hf_error *err)
+{
+    char path[HF_RUNFOLDER_PATH_MAX + 64];
+    /* The report is written alongside the studies and committed last. */
+    hf_outfile *rf = open_in(dir, "report.html", path, sizeof path, err);
+    if (!rf) {
+        *st = err->status;
+        return 0;
+    }
+    char command[HF_RUNFOLDER_PATH_MAX + 64];
+    snprintf(command, sizeof command, "holdfast run %s", a->case_path);
+    hf_report rep;
+    hf_report_begin(&rep, hf_outfile_stream(rf), m, command);
+    report_rest(&rep, m);
+    int worst = 0, crit = 0;
+    for (size_t k = 0; k < sl->n; k++) {
+        run_study(m, &sl->v[k], dir, a, &rep, &oc[k]);
+        if (severity(oc[k].status) > worst)
+            worst = severity(oc[k].status);
+        crit |= oc[k].criterion_failed;
+    }
+    *st = hf_report_end(&rep, err);
+    if (*st == HF_OK)
+        *st = hf_outfile_commit(rf, err);
+    else
+        hf_outfile_abort(rf);
+    if (*st == HF_OK)
+        *st = write_summary(m, sl, dir, a, oc, err);
+    return worst == 3 ? HF_EXIT_USAGE : worst == 2 ? HF_EXIT_NUMERIC : crit ? HF_EXIT_CRITERION : 0;
+}
+
+int hf_cmd_run(int argc, char **argv)
+{
+    run_args a;
+    int rc = parse_args(argc, argv, &a);
+    if (rc != HF_CLI_CONTINUE)
+        return rc;
+    hf_model m;
+    hf_study_list sl;
+    rc = hf_cli_case_load_studies(a.case_path, &m, &sl);
+    if (rc != HF_CLI_CONTINUE)
+        return rc;
+    hf_error err;
+    hf_error_clear(&err);
+    char dbuf[HF_RUNFOLDER_PATH_MAX + 16];
+    outcome *oc = NULL;
+    hf_runfolder rf;
+    hf_status st = HF_OK;
+    if (sl.n == 0) {
+        st = hf_error_set(&err, HF_EINVAL, "%s: the case has no studies: section; nothing to run",
+                          a.case_path);
+    } else {
+        if (!a.dir) {
+            default_dir(a.case_path, dbuf, sizeof dbuf);
+            a.dir = dbuf;
+        }
+        if (!(oc = hf_calloc(sl.n, sizeof *oc)))
+            st = hf_error_set(&err, HF_ENOMEM, "out of memory");
+        else if ((st = hf_runfolder_begin(&rf, a.dir, &err)) == HF_OK) {
+            rc = run_all(&m, &sl, hf_runfolder_path(&rf), &a, oc, &st, &err);
+            if (st == HF_OK)
+                st = hf_runfolder_commit(&rf, &err);
+            else
+                hf_runfolder_abort(&rf);
+        }
+    }
+    if (st != HF_OK)
+        rc = hf_cli_fail(&err);
+    else if (!a.quiet)
+        printf("results in %s/\n%s", rf.dir, hf_caution_text);
     hf_free(oc);
     hf_study_list_free(&sl);
     hf_model_free(&m);

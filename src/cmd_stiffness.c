@@ -58,7 +58,7 @@ static void write_table(FILE *out, const hf_model *m, const hf_pose *p, double K
     if (r->max_tension_line != (size_t)-1)
         fprintf(out, "largest line tension %.1f kN (%s), utilisation %.3f\n", r->max_tension / 1e3,
                 m->lines[r->max_tension_line].name, r->max_utilisation);
-    fprintf(out, "\n%s", hf_cli_caution);
+    fprintf(out, "\n%s", hf_caution_text);
 }
 
 int hf_cmd_stiffness(int argc, char **argv)
@@ -69,23 +69,23 @@ int hf_cmd_stiffness(int argc, char **argv)
     if (rc != HF_CLI_CONTINUE)
         return rc;
     rc = HF_EXIT_OK;
-    double K[6][6];
-    hf_spread_result res;
-    if (hf_spread_stiffness(pc.ws, &pc.pose, K, &res, &pc.err) != HF_OK) {
+    if (hf_analysis_pose_solve(&pc.at, &pc.m, pc.offset, 1, &pc.err) != HF_OK) {
         rc = hf_cli_fail(&pc.err);
         goto done;
     }
+    const hf_spread_result *res = &pc.at.res;
     if (pc.csv) {
         hf_outfile *f = hf_cli_csv_begin(pc.csv, NULL, &pc.m, &pc.err);
-        if (!f ||
-            hf_cli_csv_end(cmd, &f, hf_results_stiffness_write(hf_outfile_stream(f), K, res.force),
-                           &pc.err) != HF_OK) {
+        if (!f || hf_cli_csv_end(cmd, &f,
+                                 hf_results_stiffness_write(hf_outfile_stream(f), pc.at.K,
+                                                            res->force),
+                                 &pc.err) != HF_OK) {
             rc = hf_cli_fail(&pc.err);
             goto done;
         }
     }
     if (!pc.csv || strcmp(pc.csv, "-") != 0)
-        write_table(stdout, &pc.m, &pc.pose, K, &res);
+        write_table(stdout, &pc.m, &pc.at.pose, pc.at.K, res);
 done:
     hf_cli_pose_cmd_end(&pc);
     return rc;

@@ -1,5 +1,6 @@
 /* main.c - holdfast's entry point: picks the command and maps nothing else.
  * Everything it calls is public API (include/holdfast/). */
+#include <errno.h>
 #include <stdio.h>
 #include <string.h>
 #include "holdfast/cli.h"
@@ -27,8 +28,29 @@ static void usage(FILE *out)
                  "Quasi-static analysis of mooring lines and spread moorings.\n\ncommands:\n");
     for (size_t i = 0; i < NCOMMANDS; i++)
         fprintf(out, "  %-10s %s\n", commands[i].name, commands[i].summary);
-    fprintf(out, "\n'holdfast COMMAND --help' describes a command; 'man holdfast' all of them.\n"
-                 "exit status: 0 ok, 1 a criterion failed, 2 bad input or usage, 3 numerical failure\n");
+    fprintf(out, "\n'holdfast COMMAND --help' describes a command; 'man holdfast' all of them\n"
+                 "(after make install; in the source tree: man ./docs/holdfast.1).\n"
+                 "exit status: 0 ok, 1 a criterion failed, 2 bad input, usage or an output that\n"
+                 "could not be written, 3 numerical failure, 4 out of memory\n");
+}
+
+/* Every command's output ends here: a write error on standard output (a
+ * full disk, /dev/full, a closed pipe) must not pass as success.  Flushes
+ * and closes stdout; on failure prints why and returns HF_EXIT_USAGE (2:
+ * output could not be written) unless rc already reports a failure. */
+static int stdout_closed(int rc)
+{
+    int bad = fflush(stdout) != 0 || ferror(stdout);
+    int e = errno;
+    if (fclose(stdout) != 0 && !bad) {
+        bad = 1;
+        e = errno;
+    }
+    if (!bad)
+        return rc;
+    fprintf(stderr, "holdfast: cannot write to standard output: %s\n",
+            e ? strerror(e) : "write error");
+    return rc == HF_EXIT_OK || rc == HF_EXIT_CRITERION ? HF_EXIT_USAGE : rc;
 }
 
 int main(int argc, char **argv)
@@ -40,15 +62,15 @@ int main(int argc, char **argv)
     }
     if (!strcmp(argv[1], "--help") || !strcmp(argv[1], "-h") || !strcmp(argv[1], "help")) {
         usage(stdout);
-        return HF_EXIT_OK;
+        return stdout_closed(HF_EXIT_OK);
     }
     if (!strcmp(argv[1], "--version")) {
         printf("holdfast %s\n", HF_VERSION);
-        return HF_EXIT_OK;
+        return stdout_closed(HF_EXIT_OK);
     }
     for (size_t i = 0; i < NCOMMANDS; i++)
         if (!strcmp(argv[1], commands[i].name))
-            return commands[i].run(argc - 1, argv + 1);
+            return stdout_closed(commands[i].run(argc - 1, argv + 1));
     fprintf(stderr, "holdfast: unknown command '%s'; 'holdfast --help' lists the commands\n", argv[1]);
     return HF_EXIT_USAGE;
 }

@@ -4,7 +4,8 @@
 #include <stdlib.h>
 #include <string.h>
 #include "holdfast/alloc.h"
-#include "holdfast/cli.h"
+#include "holdfast/balance.h"
+#include "holdfast/caution.h"
 #include "holdfast/criteria.h"
 #include "holdfast/report.h"
 #include "holdfast/svg.h"
@@ -65,10 +66,10 @@ static void caution(hf_report *r)
 {
     fputs("<div class=\"caution\">", r->out);
     char buf[512];
-    size_t n = strlen(hf_cli_caution);
+    size_t n = strlen(hf_caution_text);
     if (n >= sizeof buf)
         n = sizeof buf - 1;
-    memcpy(buf, hf_cli_caution, n);
+    memcpy(buf, hf_caution_text, n);
     buf[n] = '\0';
     while (n > 0 && buf[n - 1] == '\n')
         buf[--n] = '\0';
@@ -356,14 +357,10 @@ static void case_section(hf_report *r, const hf_model *m)
         hf_report_table_begin(r, "Load cases (mean loads on the hull)", cols, 7);
         for (size_t i = 0; i < m->nloads; i++) {
             const hf_load *ld = &m->loads[i];
-            double fx = ld->force * cos(ld->direction), fy = ld->force * sin(ld->direction);
-            for (size_t k = 0; k < ld->ndrag; k++) {
-                const hf_drag *d = &ld->drag[k];
-                /* drag load 1/2 rho C A V^2 (model.h) */
-                double f = 0.5 * d->density * d->coefficient * d->area * d->speed * d->speed;
-                fx += f * cos(d->direction);
-                fy += f * sin(d->direction);
-            }
+            /* the resultant: direct force plus every drag term (balance.h) */
+            double lf[3] = {0.0, 0.0, 0.0};
+            (void)hf_balance_load_force(ld, lf, NULL); /* a case that loaded is valid */
+            double fx = lf[0], fy = lf[1];
             char f1[48], f2[48], f3[48], f4[16], f5[48], f6[48];
             hf_report_number(f1, sizeof f1, ld->force / 1e3, 4);
             hf_report_number(f2, sizeof f2, ld->direction * 180 / M_PI, 4);
@@ -605,13 +602,9 @@ hf_status hf_report_svg_plan(FILE *out, const hf_model *m, const hf_pose *pose,
     p.reference[0] = pose->surge;
     p.reference[1] = pose->sway;
     if (load) {
-        double fx = load->force * cos(load->direction), fy = load->force * sin(load->direction);
-        for (size_t k = 0; k < load->ndrag; k++) {
-            const hf_drag *d = &load->drag[k];
-            double f = 0.5 * d->density * d->coefficient * d->area * d->speed * d->speed;
-            fx += f * cos(d->direction);
-            fy += f * sin(d->direction);
-        }
+        double lf[3] = {0.0, 0.0, 0.0};
+        (void)hf_balance_load_force(load, lf, NULL); /* resultant, balance.h */
+        double fx = lf[0], fy = lf[1];
         if (hypot(fx, fy) > 0) {
             p.has_load = 1;
             p.load_direction = atan2(fy, fx);
@@ -671,5 +664,41 @@ hf_status hf_report_svg_elevation(FILE *out, const hf_model *m, size_t i, const 
         e.tension_limit = line->sec[st->max_section].mbl / f;
     hf_status s = hf_svg_figure_elevation(out, &e, standalone, err);
     hf_free(pts);
+    return s;
+}
+
+hf_status hf_report_svg_curve(FILE *out, const hf_model *m, const hf_analysis_curve *c,
+                              const char *title, const char *label, int tension_limits,
+                              int standalone, hf_error *err)
+{
+    size_t nl = m->nlines;
+    const char **names = hf_malloc((nl ? nl : 1) * sizeof *names);
+    double *lim = tension_limits ? hf_malloc((nl ? nl : 1) * sizeof *lim) : NULL;
+    if (!names || (tension_limits && !lim)) {
+        hf_free(names);
+        hf_free(lim);
+        return hf_error_set(err, HF_ENOMEM, "curve figure: out of memory");
+    }
+    for (size_t j = 0; j < nl; j++) {
+        names[j] = m->lines[j].name;
+        if (lim)
+            lim[j] = hf_analysis_allowed_tension(m, j);
+    }
+    double f = hf_criteria_required(&m->criteria, 0);
+    hf_svg_curve cv = {title,
+                       c->n,
+                       c->offset,
+                       c->restoring,
+                       c->stiffness,
+                       nl,
+                       names,
+                       c->line_tension,
+                       c->utilisation,
+                       f > 0 ? 1.0 / f : 0.0,
+                       f > 0 ? lim : NULL,
+                       label};
+    hf_status s = hf_svg_figure_curve(out, &cv, standalone, err);
+    hf_free(names);
+    hf_free(lim);
     return s;
 }

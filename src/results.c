@@ -124,9 +124,9 @@ static hf_status check_names(const hf_model *m, hf_error *err)
     return HF_OK;
 }
 
-/* A header row: head[0..nhead-1], T_<line>_kN per line of m, tail[0..ntail-1]. */
+/* A header row: head[0..nhead-1], <per>_<line>_kN per line of m, tail[0..ntail-1]. */
 static hf_status header(FILE *out, const hf_model *m, const char *const *head, size_t nhead,
-                        const char *const *tail, size_t ntail, hf_error *err)
+                        const char *per, const char *const *tail, size_t ntail, hf_error *err)
 {
     hf_status s = check_names(m, err);
     if (s != HF_OK)
@@ -137,7 +137,7 @@ static hf_status header(FILE *out, const hf_model *m, const char *const *head, s
         hf_csv_field_str(&c, head[j]);
     for (size_t i = 0; i < m->nlines; i++) {
         char name[HF_MODEL_MAX_NAME + 16];
-        snprintf(name, sizeof name, "T_%s_kN", hf_results_line_name(m, i));
+        snprintf(name, sizeof name, "%s_%s_kN", per, hf_results_line_name(m, i));
         hf_csv_field_str(&c, name);
     }
     for (size_t j = 0; j < ntail; j++)
@@ -146,58 +146,37 @@ static hf_status header(FILE *out, const hf_model *m, const char *const *head, s
     return HF_OK;
 }
 
-void hf_results_curve_point_set(hf_results_curve_point *p, const hf_model *m, double offset,
-                                double direction, double K[6][6], const hf_spread_result *r)
-{
-    double cd = cos(direction), sd = sin(direction);
-    p->offset = offset;
-    p->restoring = -(r->force[0] * cd + r->force[1] * sd);
-    p->force_x = r->force[0];
-    p->force_y = r->force[1];
-    p->moment_z = r->force[5];
-    /* d(restoring)/ds = d^T K_h d (K = -dF/dq): the directional derivative
-     * of a quadratic form; the order of the products is kept as released
-     * so the CSV digits do not move. */
-    p->stiffness = K[0][0] * cd * cd + (K[0][1] + K[1][0]) * cd * sd + K[1][1] * sd * sd;
-    p->max_tension = r->max_tension;
-    p->max_tension_line =
-        r->max_tension_line < m->nlines ? hf_results_line_name(m, r->max_tension_line) : "";
-    p->max_utilisation = r->max_utilisation;
-}
-
 hf_status hf_results_curve_header_write(FILE *out, const hf_model *m, hf_error *err)
 {
-    return header(out, m, hf_results_curve_columns, HF_RESULTS_CURVE_FIXED, NULL, 0, err);
+    return header(out, m, hf_results_curve_columns, HF_RESULTS_CURVE_FIXED, "T", NULL, 0, err);
 }
 
-size_t hf_results_curve_row_write(FILE *out, const hf_model *m, const hf_results_curve_point *p,
-                                  const hf_spread_result *r)
+size_t hf_results_curve_row_write(FILE *out, const hf_model *m, const hf_analysis_curve *c,
+                                  size_t k)
 {
-    hf_csv c;
-    hf_csv_init(&c, out, 0);
-    hf_csv_field_double(&c, p->offset);
-    hf_csv_field_double(&c, p->restoring / 1e3);
-    hf_csv_field_double(&c, p->force_x / 1e3);
-    hf_csv_field_double(&c, p->force_y / 1e3);
-    hf_csv_field_double(&c, p->moment_z / 1e3);
-    hf_csv_field_double(&c, p->stiffness / 1e3);
-    hf_csv_field_double(&c, p->max_tension / 1e3);
-    hf_csv_field_str(&c, p->max_tension_line);
-    hf_csv_field_double(&c, p->max_utilisation);
+    hf_csv w;
+    hf_csv_init(&w, out, 0);
+    hf_csv_field_double(&w, c->offset[k]);
+    if (c->status[k] != HF_OK) {
+        for (size_t j = 1; j < HF_RESULTS_CURVE_FIXED + m->nlines; j++)
+            hf_csv_field_empty(&w);
+        hf_csv_end_row(&w);
+        return 0;
+    }
+    hf_csv_field_double(&w, c->restoring[k] / 1e3);
+    hf_csv_field_double(&w, c->force_x[k] / 1e3);
+    hf_csv_field_double(&w, c->force_y[k] / 1e3);
+    hf_csv_field_double(&w, c->moment_z[k] / 1e3);
+    hf_csv_field_double(&w, c->stiffness[k] / 1e3);
+    hf_csv_field_double(&w, c->max_tension[k] / 1e3);
+    hf_csv_field_str(&w, c->max_tension_line[k] < m->nlines
+                             ? hf_results_line_name(m, c->max_tension_line[k])
+                             : "");
+    hf_csv_field_double(&w, c->max_utilisation[k]);
     for (size_t i = 0; i < m->nlines; i++)
-        hf_csv_field_double(&c, r->states[i].tension / 1e3);
-    hf_csv_end_row(&c);
-    return c.nonfinite;
-}
-
-void hf_results_curve_row_failed_write(FILE *out, const hf_model *m, double offset)
-{
-    hf_csv c;
-    hf_csv_init(&c, out, 0);
-    hf_csv_field_double(&c, offset);
-    for (size_t j = 1; j < HF_RESULTS_CURVE_FIXED + m->nlines; j++)
-        hf_csv_field_empty(&c);
-    hf_csv_end_row(&c);
+        hf_csv_field_double(&w, c->fairlead_tension[k * c->nlines + i] / 1e3);
+    hf_csv_end_row(&w);
+    return w.nonfinite;
 }
 
 void hf_results_balance_condition(const hf_model *m, const hf_balance_result *r, char *buf,
@@ -230,8 +209,10 @@ double hf_results_balance_min_factor(const hf_balance_result *r)
 
 hf_status hf_results_balance_header_write(FILE *out, const hf_model *m, hf_error *err)
 {
-    return header(out, m, hf_results_balance_head, HF_RESULTS_BALANCE_HEAD, hf_results_balance_tail,
-                  HF_RESULTS_BALANCE_TAIL, err);
+    /* Tmax: the largest tension along the line, not the fairlead tension
+     * that T_<line>_kN means in the curve and sweep CSVs (issue 11 item 2) */
+    return header(out, m, hf_results_balance_head, HF_RESULTS_BALANCE_HEAD, "Tmax",
+                  hf_results_balance_tail, HF_RESULTS_BALANCE_TAIL, err);
 }
 
 /* A positive number, or an empty field for 0 (= not checked / none); NaN

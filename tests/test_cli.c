@@ -99,6 +99,43 @@ static void test_zero_small_and_exit(void **state)
     assert_non_null(strstr(hf_cli_caution, "quasi-static"));
 }
 
+/* Issue 12 item 17: one number reader.  Units are accepted (1 ft = 0.3048 m
+ * exactly, international foot of 1959), hex is refused (before the fix
+ * "0x10" read as 16), angles are degrees by default; "did you mean" for
+ * a misspelt name; ENOMEM has its own exit status. */
+static void test_units_hex_suggest(void **state)
+{
+    (void)state;
+    hf_error e;
+    double o[3], a, b, s;
+    size_t n;
+    assert_int_equal(hf_cli_parse_offset("10m,-2 ft,30deg", o, &e), HF_OK);
+    assert_true(o[0] == 10.0 && fabs(o[1] + 0.6096) < 1e-15);
+    assert_true(fabs(o[2] - M_PI / 6.0) < 1e-15);
+    assert_int_equal(hf_cli_parse_offset("0x10,0,0", o, &e), HF_EINVAL);
+    assert_int_equal(hf_cli_parse_offset("1,2,3 kN", o, &e), HF_EINVAL);
+    assert_int_equal(hf_cli_parse_range("0 m:5m:1m", &a, &b, &s, 100, &n, &e), HF_OK);
+    assert_int_equal(n, 6);
+    assert_int_equal(hf_cli_parse_range("0:0x10:1", &a, &b, &s, 100, &n, &e), HF_EINVAL);
+    /* issue 12 item 5: the end point of a tiny step relative to the values
+     * (10 values before the one range rule; 366 + 10 x 0.00001 = 366.0001) */
+    assert_int_equal(hf_cli_parse_range("366:366.0001:0.00001", &a, &b, &s, 100, &n, &e), HF_OK);
+    assert_int_equal(n, 11);
+    assert_int_equal(hf_cli_parse_range("0:10:1", &a, &b, &s, 10, &n, &e), HF_ELIMIT);
+    assert_int_equal(hf_cli_parse_value("--direction", "0x10", HF_DIM_ANGLE, &a, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "--direction"));
+    assert_int_equal(hf_cli_parse_value("--direction", "0.5 rad", HF_DIM_ANGLE, &a, &e), HF_OK);
+    assert_true(a == 0.5);
+    const char *names[] = {"head-storm", NULL, "beam-storm", "calm"};
+    assert_string_equal(hf_cli_suggest("beam-strom", names, 4), "beam-storm");
+    assert_string_equal(hf_cli_suggest("clam", names, 4), "calm");
+    assert_null(hf_cli_suggest("hurricane", names, 4));
+    assert_int_equal(hf_cli_exit_code(HF_ENOMEM), HF_EXIT_NOMEM);
+    assert_int_equal(hf_cli_exit_code(HF_ENOCONV), HF_EXIT_NUMERIC);
+    assert_int_equal(hf_cli_check_output("--csv", "", NULL, &e), HF_EINVAL);
+    assert_int_equal(hf_cli_check_output("--csv", "-", "x.yaml", &e), HF_OK);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -106,6 +143,7 @@ int main(void)
         cmocka_unit_test(test_offset),
         cmocka_unit_test(test_range),
         cmocka_unit_test(test_jobs),
+        cmocka_unit_test(test_units_hex_suggest),
         cmocka_unit_test(test_zero_small_and_exit),
     };
     return cmocka_run_group_tests_name("cli", tests, NULL, NULL);

@@ -8,6 +8,9 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <fcntl.h>
+#include <sys/wait.h>
+#include <unistd.h>
 #include "support.h"
 
 static const char *bin; /* $HF_BIN */
@@ -123,8 +126,8 @@ static void test_pass_csv(void **state)
     char *cur = out, *line = hf_test_line_next(&cur);
     assert_non_null(line);
     const char *head = "load,condition,status,surge_m,sway_m,yaw_deg,max_tension_kN,"
-                       "max_tension_line,max_utilisation,criterion,passed,T_ne_kN,T_nw_kN,"
-                       "T_sw_kN,T_se_kN,";
+                       "max_tension_line,max_utilisation,criterion,passed,Tmax_ne_kN,Tmax_nw_kN,"
+                       "Tmax_sw_kN,Tmax_se_kN,";
     assert_memory_equal(line, head, strlen(head));
     /* 2 loads x (intact + 4 broken) rows, in order */
     static const char *const cond[5] = {"intact", "broken:ne", "broken:nw", "broken:sw",
@@ -282,6 +285,80 @@ static void test_usage_errors(void **state)
     assert_non_null(strstr(out, "usage: holdfast balance"));
 }
 
+/* Runs $HF_BIN with args (NULL-terminated) and standard output on
+ * /dev/full (every write fails with ENOSPC); returns the exit status. */
+static int run_to_full(const char *const *args)
+{
+    const char *argv[16] = {bin};
+    size_t n = 1;
+    for (; args[n - 1] && n < 15; n++)
+        argv[n] = args[n - 1];
+    argv[n] = NULL;
+    pid_t pid = fork();
+    assert_true(pid >= 0);
+    if (pid == 0) {
+        int fd = open("/dev/full", O_WRONLY), nul = open("/dev/null", O_WRONLY);
+        if (fd < 0 || nul < 0)
+            _exit(126);
+        dup2(fd, 1);
+        dup2(nul, 2);
+        execv(bin, (char *const *)argv);
+        _exit(127);
+    }
+    int st;
+    assert_true(waitpid(pid, &st, 0) == pid);
+    return WIFEXITED(st) ? WEXITSTATUS(st) : -1;
+}
+
+/* Issue 12 item 8: a write error on standard output is exit 2, never 0 (or
+ * 1): before the fix every one of these exited 0 (balance 1) with the
+ * output lost. */
+static void test_stdout_write_errors(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    const char *const cmds[][8] = {
+        {"balance", pass_case, NULL},
+        {"balance", fail_case, "--csv", "-", NULL},
+        {"lines", pass_case, NULL},
+        {"stiffness", pass_case, "--csv", "-", NULL},
+        {"curve", pass_case, "--direction", "30", "--range", "0:4:2", NULL},
+        {"check", pass_case, NULL},
+        {"--help", NULL},
+    };
+    for (size_t i = 0; i < sizeof cmds / sizeof cmds[0]; i++) {
+        int rc = run_to_full(cmds[i]);
+        if (rc != 2)
+            fail_msg("holdfast %s ... > /dev/full: exit %d, expected 2", cmds[i][0], rc);
+    }
+}
+
+/* Issue 12 items 10 and 17: an output that is the case file is refused and
+ * the case is left as it was; a misspelt load name gets a suggestion. */
+static void test_output_is_input_and_suggestion(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    size_t n0, n1;
+    char *before = hf_test_file_read(pass_case, &n0);
+    char alias[400];
+    snprintf(alias, sizeof alias, "%s/./%s", dir, strrchr(pass_case, '/') + 1);
+    assert_int_equal(HF_TEST_RUN(&both, "balance", pass_case, "--csv", alias), 2);
+    assert_non_null(strstr(out, "same file"));
+    assert_int_equal(HF_TEST_RUN(&both, "lines", pass_case, "--csv", pass_case), 2);
+    char *after = hf_test_file_read(pass_case, &n1);
+    assert_int_equal(n0, n1);
+    assert_memory_equal(before, after, n0);
+    free(before);
+    free(after);
+    assert_int_equal(HF_TEST_RUN(&both, "balance", pass_case, "--load", "breze"), 2);
+    assert_non_null(strstr(out, "did you mean \"breeze\""));
+    assert_int_equal(HF_TEST_RUN(&both, "balance", pass_case, "--load", "hurricane"), 2);
+    assert_null(strstr(out, "did you mean"));
+    assert_int_equal(HF_TEST_RUN(&both, "balance", pass_case, "--csv="), 2);
+    assert_non_null(strstr(out, "empty name"));
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -292,6 +369,8 @@ int main(void)
         cmocka_unit_test(test_no_equilibrium_exit),
         cmocka_unit_test(test_anchor_kinds_report),
         cmocka_unit_test(test_usage_errors),
+        cmocka_unit_test(test_stdout_write_errors),
+        cmocka_unit_test(test_output_is_input_and_suggestion),
     };
     return cmocka_run_group_tests(tests, setup, teardown);
 }

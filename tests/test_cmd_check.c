@@ -94,7 +94,7 @@ static void usage_and_help(void **state)
     assert_int_equal(HF_TEST_RUN(&io, "check", "--help"), 0);
     assert_non_null(strstr(out, "usage: holdfast check CASE"));
     assert_int_equal(HF_TEST_RUN(&io, "check"), 2);
-    assert_non_null(strstr(err, "expected a CASE file"));
+    assert_non_null(strstr(err, "missing the CASE file"));
     assert_int_equal(HF_TEST_RUN(&io, "check", "--frobnicate", "x.yaml"), 2);
     assert_non_null(strstr(err, "unknown option '--frobnicate'"));
     assert_int_equal(HF_TEST_RUN(&io, "check", "a.yaml", "b.yaml"), 2);

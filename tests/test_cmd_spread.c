@@ -329,7 +329,9 @@ static void test_usage_errors(void **state)
         {"stiffness", 2, "missing the CASE"},
         {"curve SMALL --range 0:5:1", 2, "--direction"},
         {"curve SMALL --direction 10", 2, "--range"},
-        {"curve SMALL --direction ten --range 0:5:1", 2, "finite angle"},
+        {"curve SMALL --direction ten --range 0:5:1", 2, "--direction: expected an angle"},
+        {"curve SMALL --direction 0x10 --range 0:5:1", 2, "--direction"}, /* hex refused */
+        {"curve SMALL --direction 30deg --range 0m:5m:1m --csv=", 2, "empty name"},
         {"curve SMALL --direction 1e309 --range 0:5:1", 2, "finite angle"},
         {"curve SMALL --direction nan --range 0:5:1", 2, "finite angle"},
         {"curve SMALL --direction 10 --range 0:5:-1", 2, "STEP"},
@@ -379,12 +381,49 @@ static void test_numerical_failure(void **state)
     assert_int_not_equal(stat(csv, &sb), 0);
 }
 
+/* Issue 12 item 18: the man page names every option of every command's
+ * --help and every column of the lines CSV (it omitted run --jobs/--quiet,
+ * invert --csv, sweep --zip/--output and four lines columns). */
+static void test_man_page_complete(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    char path[600];
+    hf_test_root_path(path, sizeof path, "docs/holdfast.1");
+    size_t n;
+    char *man = hf_test_file_read(path, &n);
+    assert_non_null(man);
+    static const char *const cmds[] = {"check", "lines", "curve", "stiffness", "balance",
+                                       "run",   "sweep", "invert", "plot"};
+    for (size_t c = 0; c < sizeof cmds / sizeof cmds[0]; c++) {
+        assert_int_equal(HF_TEST_RUN(&quiet, cmds[c], "--help"), 0);
+        for (char *p = strstr(out, "--"); p; p = strstr(p + 2, "--")) {
+            char opt[64] = "\\-\\-";
+            size_t k = 4;
+            for (const char *q = p + 2; (*q >= 'a' && *q <= 'z') && k + 1 < sizeof opt; q++)
+                opt[k++] = *q;
+            opt[k] = '\0';
+            if (k > 4 && strcmp(opt + 4, "help") != 0 && !strstr(man, opt))
+                fail_msg("docs/holdfast.1 does not mention --%s of '%s --help'", opt + 4,
+                         cmds[c]);
+        }
+    }
+    assert_int_equal(HF_TEST_RUN(&quiet, "lines", small, "--csv", "-"), 0);
+    out[strcspn(out, "\n")] = '\0';
+    for (char *col = strtok(out, ","); col; col = strtok(NULL, ","))
+        if (!strstr(man, col))
+            fail_msg("docs/holdfast.1 does not name the lines CSV column %s", col);
+    assert_non_null(strstr(man, "man ./docs/holdfast.1"));
+    free(man);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_stiffness_oc3_csv),      cmocka_unit_test(test_curve_against_lines),
         cmocka_unit_test(test_curve_stiffness_column), cmocka_unit_test(test_curve_table_and_file),
         cmocka_unit_test(test_lines_csv_and_profiles), cmocka_unit_test(test_usage_errors),
+        cmocka_unit_test(test_man_page_complete),
         cmocka_unit_test(test_numerical_failure),
     };
     return cmocka_run_group_tests(tests, setup, teardown);

@@ -28,6 +28,13 @@ static char dir[256];
 static const char *watch; /* directory where run() waits for a temporary file */
 
 static int count_named(const char *d, const char *part);
+static const char *partial(const char *out);
+
+/* Temporary files in folder w or in the partial folder of a run into w. */
+static int pending_tmp(const char *w)
+{
+    return count_named(w, ".tmp") + count_named(partial(w), ".tmp");
+}
 
 /* Writes a, then b unless NULL, to path.  The case files here are the
  * fictional three-line buoy mooring hf_test_case_quarrel (support.h: three
@@ -80,11 +87,11 @@ static int run(const char *out, double kill_after, int sig, long *rss, ...)
     if (kill_after > 0 && watch) {
         /* Wait (up to 10 s) until the output's temporary file exists, so the
          * signal surely arrives in the middle of writing it. */
-        for (int i = 0; i < 1000 && count_named(watch, ".tmp") == 0; i++) {
+        for (int i = 0; i < 1000 && pending_tmp(watch) == 0; i++) {
             struct timespec w = {0, 10000000};
             nanosleep(&w, NULL);
         }
-        assert_true(count_named(watch, ".tmp") > 0);
+        assert_true(pending_tmp(watch) > 0);
     }
     if (kill_after > 0) {
         struct timespec ts = {(time_t)kill_after,
@@ -131,6 +138,26 @@ static int count_named(const char *d, const char *part)
             n++;
     closedir(dp);
     return n;
+}
+
+/* The folder a run into `out` is built in (out.partial-XXXXXX beside it,
+ * include/holdfast/runfolder.h), or "" when there is none. */
+static const char *partial(const char *out)
+{
+    static char found[600];
+    const char *base = strrchr(out, '/') ? strrchr(out, '/') + 1 : out;
+    char prefix[300];
+    snprintf(prefix, sizeof prefix, "%s.partial-", base);
+    found[0] = '\0';
+    DIR *dp = opendir(dir);
+    if (!dp)
+        return found;
+    struct dirent *e;
+    while ((e = readdir(dp)) != NULL)
+        if (!strncmp(e->d_name, prefix, strlen(prefix)))
+            snprintf(found, sizeof found, "%s/%s", dir, e->d_name);
+    closedir(dp);
+    return found;
 }
 
 static int setup(void **s)
@@ -240,15 +267,21 @@ static void test_run_interrupted_and_complete(void **s)
                  NULL);
     watch = NULL;
     assert_true(WIFSIGNALED(st) && WTERMSIG(st) == SIGTERM);
-    /* The finished study stays, the interrupted one left nothing. */
-    char p[600];
-    snprintf(p, sizeof p, "%s/rest.csv", out);
+    /* The results folder is untouched (a run replaces it as a whole, at the
+     * end); in the folder the run was built in, the finished study stays and
+     * the interrupted one left nothing. */
+    char p[700];
     struct stat sb;
+    assert_int_not_equal(stat(out, &sb), 0);
+    char part[600];
+    snprintf(part, sizeof part, "%s", partial(out));
+    assert_true(part[0] != '\0');
+    snprintf(p, sizeof p, "%s/rest.csv", part);
     assert_int_equal(stat(p, &sb), 0);
-    assert_int_equal(count_named(out, "huge"), 0);
-    assert_int_equal(count_named(out, "tmp"), 0);
-    assert_int_equal(count_named(out, "summary"), 0);
-    assert_int_equal(count_named(out, "report"), 0);
+    assert_int_equal(count_named(part, "huge"), 0);
+    assert_int_equal(count_named(part, "tmp"), 0);
+    assert_int_equal(count_named(part, "summary"), 0);
+    assert_int_equal(count_named(part, "report"), 0);
 
     /* A complete run: one file per study plus the summary; the balance study
      * has a condition without equilibrium (one of three lines broken under

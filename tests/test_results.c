@@ -239,8 +239,8 @@ static void test_headers_exact(void **state)
     assert_int_equal(hf_results_balance_header_write(c.f, &fx.m, &err), HF_OK);
     cap_close(&c);
     assert_string_equal(c.buf, "load,condition,status,surge_m,sway_m,yaw_deg,max_tension_kN,"
-                               "max_tension_line,max_utilisation,criterion,passed,T_north_kN,"
-                               "T_south-east_kN,T_w_3_kN,horizontal_m,max_utilisation_line,"
+                               "max_tension_line,max_utilisation,criterion,passed,Tmax_north_kN,"
+                               "Tmax_south-east_kN,Tmax_w_3_kN,horizontal_m,max_utilisation_line,"
                                "min_line_factor,required_line_factor,message\n");
     cap_free(&c);
 }
@@ -375,66 +375,54 @@ static void test_stiffness_parse_back(void **state)
     cap_free(&c);
 }
 
-/* Curve point: restoring = -F.d and stiffness = d^T K_h d, checked against
- * an explicit matrix-vector product and the rotation invariance of the
- * trace of a quadratic form: k(theta) + k(theta + 90 deg) = K11 + K22. */
-static void test_curve_point_and_rows(void **state)
+/* Curve rows: every value of a point in its column and unit (kN, kN m,
+ * kN/m), the line name from its index, each line's fairlead tension; a
+ * failed point is its offset and empty fields; a NaN value is left empty and
+ * counted.  (The curve's physics is tested in test_analysis.c.) */
+static void test_curve_rows(void **state)
 {
     (void)state;
     fixture fx;
     fixture_init(&fx, plain_names);
-    double K[6][6] = {{0}};
-    K[0][0] = 407227.318;
-    K[1][1] = 391580.774;
-    K[0][1] = 12745.93;
-    K[1][0] = -3391.28; /* K is not symmetric in general (spread.h) */
-    fx.r.force[0] = -84512.337;
-    fx.r.force[1] = 23157.481;
-    fx.r.force[5] = -1.7723e6;
-    fx.r.max_tension = 912345.678;
-    fx.r.max_tension_line = 2;
-    fx.r.max_utilisation = 0.2271893;
-    for (size_t i = 0; i < NL; i++)
-        fx.states[i].tension = 512345.25 + 13771.3 * (double)i;
-
-    double th = 37.3 * M_PI / 180.0, d[2] = {cos(th), sin(th)};
-    hf_results_curve_point p;
-    hf_results_curve_point_set(&p, &fx.m, -7.25, th, K, &fx.r);
-    double kd[2] = {K[0][0] * d[0] + K[0][1] * d[1], K[1][0] * d[0] + K[1][1] * d[1]};
-    near(p.stiffness, d[0] * kd[0] + d[1] * kd[1], 1e-12);
-    near(p.restoring, -(fx.r.force[0] * d[0] + fx.r.force[1] * d[1]), 1e-12);
-    assert_true(p.offset == -7.25);
-    assert_string_equal(p.max_tension_line, "aft");
-    hf_results_curve_point q;
-    hf_results_curve_point_set(&q, &fx.m, -7.25, th + M_PI / 2.0, K, &fx.r);
-    near(p.stiffness + q.stiffness, K[0][0] + K[1][1], 1e-12);
-    hf_results_curve_point_set(&q, &fx.m, 0.0, 0.0, K, &fx.r);
-    near(q.stiffness, K[0][0], 1e-15);
-    near(q.restoring, -fx.r.force[0], 1e-15);
-
+    hf_error err;
+    hf_analysis_curve *cv = hf_analysis_curve_alloc(&fx.m, 3, &err);
+    assert_non_null(cv);
+    double v[8] = {-7.25, 93412.771, -84512.337, 23157.481, -1.7723e6, 407227.318, 912345.678,
+                   0.2271893};
+    for (size_t k = 0; k < 3; k++) {
+        cv->status[k] = HF_OK;
+        cv->offset[k] = v[0] + (double)k;
+        cv->restoring[k] = v[1];
+        cv->force_x[k] = v[2];
+        cv->force_y[k] = v[3];
+        cv->moment_z[k] = v[4];
+        cv->stiffness[k] = v[5];
+        cv->max_tension[k] = v[6];
+        cv->max_tension_line[k] = 2;
+        cv->max_utilisation[k] = v[7];
+        for (size_t i = 0; i < NL; i++)
+            cv->fairlead_tension[k * NL + i] = 512345.25 + 13771.3 * (double)i;
+    }
+    cv->status[1] = HF_ENOCONV;
+    cv->offset[1] = 12.5;
+    cv->max_tension_line[2] = (size_t)-1;
+    cv->moment_z[2] = NAN;
     capture c;
     cap_open(&c);
-    assert_int_equal(hf_results_curve_row_write(c.f, &fx.m, &p, &fx.r), 0);
-    hf_results_curve_row_failed_write(c.f, &fx.m, 12.5);
-    fx.r.max_tension_line = (size_t)-1;
-    hf_results_curve_point_set(&q, &fx.m, 1.0, th, K, &fx.r);
-    q.moment_z = NAN;
-    assert_int_equal(hf_results_curve_row_write(c.f, &fx.m, &q, &fx.r), 1);
+    assert_int_equal(hf_results_curve_row_write(c.f, &fx.m, cv, 0), 0);
+    assert_int_equal(hf_results_curve_row_write(c.f, &fx.m, cv, 1), 0);
+    assert_int_equal(hf_results_curve_row_write(c.f, &fx.m, cv, 2), 1);
     cap_close(&c);
     char row[4096], *f[32];
     line_at(c.buf, 0, row, sizeof row);
     assert_int_equal(split(row, f, 32), HF_RESULTS_CURVE_FIXED + NL);
     near(num(f[0]), -7.25, 1e-9);
-    near(num(f[1]), p.restoring / 1e3, 1e-9);
-    near(num(f[2]), fx.r.force[0] / 1e3, 1e-9);
-    near(num(f[3]), fx.r.force[1] / 1e3, 1e-9);
-    near(num(f[4]), fx.r.force[5] / 1e3, 1e-9);
-    near(num(f[5]), p.stiffness / 1e3, 1e-9);
-    near(num(f[6]), fx.r.max_tension / 1e3, 1e-9);
+    for (int j = 1; j <= 6; j++)
+        near(num(f[j]), v[j] / 1e3, 1e-9);
     assert_string_equal(f[7], "aft");
-    near(num(f[8]), fx.r.max_utilisation, 1e-9);
+    near(num(f[8]), v[7], 1e-9);
     for (size_t i = 0; i < NL; i++)
-        near(num(f[9 + i]), fx.states[i].tension / 1e3, 1e-9);
+        near(num(f[9 + i]), (512345.25 + 13771.3 * (double)i) / 1e3, 1e-9);
     /* A failed offset: the offset, then every field empty. */
     line_at(c.buf, 1, row, sizeof row);
     assert_string_equal(row, "12.5,,,,,,,,,,,");
@@ -443,6 +431,7 @@ static void test_curve_point_and_rows(void **state)
     assert_string_equal(f[4], "");
     assert_string_equal(f[7], "");
     cap_free(&c);
+    hf_analysis_curve_free(cv);
 }
 
 static void test_balance_rows(void **state)
@@ -593,7 +582,7 @@ int main(void)
         cmocka_unit_test(test_lines_rows_parse_back),
         cmocka_unit_test(test_lines_nonfinite_counted),
         cmocka_unit_test(test_stiffness_parse_back),
-        cmocka_unit_test(test_curve_point_and_rows),
+        cmocka_unit_test(test_curve_rows),
         cmocka_unit_test(test_balance_rows),
         cmocka_unit_test(test_long_name_refused),
     };

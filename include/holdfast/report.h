@@ -33,6 +33,7 @@
 #include <stddef.h>
 #include <stdio.h>
 #include "holdfast/line.h"
+#include "holdfast/analysis.h"
 #include "holdfast/model.h"
 #include "holdfast/spread.h"
 #include "holdfast/status.h"
@@ -132,5 +133,16 @@ hf_status hf_report_svg_plan(FILE *out, const hf_model *m, const hf_pose *pose,
  * (hf_malloc) and frees it.  HF_OK, HF_ENOMEM, HF_EINVAL. */
 hf_status hf_report_svg_elevation(FILE *out, const hf_model *m, size_t i, const hf_line_state *st,
                                   int standalone, hf_error *err);
+
+/* Restoring-curve figure (hf_svg_figure_curve) of curve c, computed for m
+ * (include/holdfast/analysis.h; failed offsets are NaN: gaps), titled
+ * `title`, with `label` under it (or NULL).  The utilisation limit is
+ * 1 / the intact factor when the case has one; with tension_limits != 0 the
+ * allowed tension of each line (hf_analysis_allowed_tension) is drawn on
+ * the tension panel.  c->n must be at least 2.  Allocates the line names
+ * and limits (hf_malloc) and frees them.  HF_OK, HF_ENOMEM, HF_EINVAL. */
+hf_status hf_report_svg_curve(FILE *out, const hf_model *m, const hf_analysis_curve *c,
+                              const char *title, const char *label, int tension_limits,
+                              int standalone, hf_error *err);
 
 #endif

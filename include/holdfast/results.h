@@ -24,6 +24,7 @@
 
 #include <stddef.h>
 #include <stdio.h>
+#include "holdfast/analysis.h"
 #include "holdfast/balance.h"
 #include "holdfast/model.h"
 #include "holdfast/spread.h"
@@ -33,7 +34,7 @@
 #define HF_RESULTS_LINES_COLUMNS 16
 #define HF_RESULTS_STIFFNESS_COLUMNS 7
 /* Fixed columns of the curve CSV before T_<line>_kN, and of the balance CSV
- * before and after T_<line>_kN. */
+ * before and after Tmax_<line>_kN. */
 #define HF_RESULTS_CURVE_FIXED 9
 #define HF_RESULTS_BALANCE_HEAD 11
 #define HF_RESULTS_BALANCE_TAIL 5
@@ -90,39 +91,19 @@ void hf_results_stiffness_for_people(double K[6][6], const double force[6], doub
 
 /* ---- curve: restoring force and stiffness against offset ---- */
 
-/* One point of a restoring curve, SI. */
-typedef struct {
-    double offset;                /* m along the direction */
-    double restoring;             /* N: minus the mooring force along the direction */
-    double force_x, force_y;      /* N: mooring force on the hull, global axes */
-    double moment_z;              /* N m: mooring yaw moment on the hull */
-    double stiffness;             /* N/m: d(restoring)/d(offset) */
-    double max_tension;           /* N: largest tension along any intact line */
-    const char *max_tension_line; /* its name (borrowed from the model), "" when none */
-    double max_utilisation;       /* - */
-} hf_results_curve_point;
-
-/* Fills *p from a spread stiffness solve (K, r) of m with the hull moved
- * `offset` m along `direction` (rad counterclockwise from global x):
- * restoring = -(Fx cos + Fy sin), stiffness = d^T K_h d with K_h the
- * horizontal translation block of K and d = (cos, sin). */
-void hf_results_curve_point_set(hf_results_curve_point *p, const hf_model *m, double offset,
-                                double direction, double K[6][6], const hf_spread_result *r);
-
 /* Writes the curve CSV header: hf_results_curve_columns then T_<line>_kN per
  * line of m.  Returns HF_OK, or HF_ELIMIT (err set, nothing written) when a
  * line name is longer than HF_MODEL_MAX_NAME bytes (the case file limit). */
 hf_status hf_results_curve_header_write(FILE *out, const hf_model *m, hf_error *err);
 
-/* Writes one curve row: the point (forces in kN, moment in kN m, stiffness
- * in kN/m) and each line's fairlead tension r->states[i].tension in kN.
- * Returns the number of non-finite values left empty. */
-size_t hf_results_curve_row_write(FILE *out, const hf_model *m, const hf_results_curve_point *p,
-                                  const hf_spread_result *r);
-
-/* Writes the row of an offset that did not solve: the offset, every other
- * field empty (not counted as non-finite: the gap is intended). */
-void hf_results_curve_row_failed_write(FILE *out, const hf_model *m, double offset);
+/* Writes row k < c->n of curve c (computed for m; include/holdfast/analysis.h):
+ * the point (forces in kN, moment in kN m, stiffness in kN/m), the name of
+ * the line with the largest tension ("" when none) and each line's fairlead
+ * tension in kN.  A point that did not solve is written as its offset with
+ * every other field empty (not counted: the gap is intended).  Returns the
+ * number of non-finite values left empty. */
+size_t hf_results_curve_row_write(FILE *out, const hf_model *m, const hf_analysis_curve *c,
+                                  size_t k);
 
 /* ---- balance: one row per load case and condition ---- */
 
@@ -137,7 +118,7 @@ void hf_results_balance_criterion(const hf_model *m, const hf_balance_result *r,
 /* Smallest MBL/T over the lines of r that carry load, or 0 when none does. */
 double hf_results_balance_min_factor(const hf_balance_result *r);
 
-/* Writes the balance CSV header: hf_results_balance_head, T_<line>_kN per
+/* Writes the balance CSV header: hf_results_balance_head, Tmax_<line>_kN per
  * line of m, hf_results_balance_tail.  HF_OK, or HF_ELIMIT as
  * hf_results_curve_header_write. */
 hf_status hf_results_balance_header_write(FILE *out, const hf_model *m, hf_error *err);

@@ -1,0 +1,225 @@
+/* test_analysis.c - the study drivers: one pose, restoring curves, balance runs. */
+#include <math.h>
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <stdint.h>
+#include <stdio.h>
+#include <string.h>
+#include <cmocka.h>
+#include "holdfast/analysis.h"
+#include "holdfast/case.h"
+#include "support.h"
+
+static void load(hf_model *m, const char *rel)
+{
+    char path[4096];
+    hf_test_root_path(path, sizeof path, rel);
+    hf_error err;
+    hf_model_init(m);
+    assert_int_equal(hf_case_load(path, m, &err), HF_OK);
+}
+
+static void near(double a, double b, double rel)
+{
+    if (!(fabs(a - b) <= rel * fmax(1.0, fmax(fabs(a), fabs(b)))))
+        fail_msg("%.17g != %.17g (relative tolerance %g)", a, b, rel);
+}
+
+/* The curve's restoring force at each offset is minus the mooring force
+ * along the direction from an independent spread solve at that pose, and its
+ * stiffness d(restoring)/ds agrees with a central difference of the
+ * restoring force (the definition of the derivative; step 1e-4 m, error
+ * O(h^2)).  k(theta) + k(theta + 90 deg) = K11 + K22: the trace of the
+ * horizontal block is invariant under rotation (classical identity of
+ * quadratic forms). */
+static void test_curve_physics(void **state)
+{
+    (void)state;
+    hf_model m;
+    load(&m, "cases/barge.yaml");
+    double dir = 37.3 * M_PI / 180.0, from = -6.35, step = 2.117;
+    hf_error err;
+    hf_analysis_curve *c = hf_analysis_curve_alloc(&m, 7, &err);
+    assert_non_null(c);
+    assert_int_equal(hf_analysis_curve_compute(c, &m, dir, from, step, &err), HF_OK);
+    assert_int_equal(c->nfailed, 0);
+    assert_true(c->first_failed == (size_t)-1);
+    hf_spread *ws = hf_spread_alloc(&m, &err);
+    assert_non_null(ws);
+    for (size_t k = 0; k < c->n; k++) {
+        double s = from + (double)k * step, f[2];
+        assert_true(c->offset[k] == s);
+        for (int j = 0; j < 2; j++) {
+            double h = j ? 1e-3 : -1e-3;
+            hf_pose p;
+            hf_spread_pose_rest(&m, &p);
+            p.surge += (s + h) * cos(dir);
+            p.sway += (s + h) * sin(dir);
+            hf_spread_result r;
+            assert_int_equal(hf_spread_solve(ws, &p, &r, &err), HF_OK);
+            f[j] = -(r.force[0] * cos(dir) + r.force[1] * sin(dir));
+        }
+        near(c->stiffness[k], (f[1] - f[0]) / 2e-3, 5e-5);
+        near(c->restoring[k], 0.5 * (f[0] + f[1]), 1e-6);
+    }
+    hf_spread_free(ws);
+    hf_analysis_curve *q = hf_analysis_curve_alloc(&m, 1, &err);
+    hf_analysis_curve *z = hf_analysis_curve_alloc(&m, 1, &err);
+    assert_int_equal(hf_analysis_curve_compute(q, &m, dir + M_PI / 2.0, 0.0, 1.0, &err), HF_OK);
+    assert_int_equal(hf_analysis_curve_compute(z, &m, 0.0, 0.0, 1.0, &err), HF_OK);
+    hf_analysis_curve *y = hf_analysis_curve_alloc(&m, 1, &err);
+    assert_int_equal(hf_analysis_curve_compute(y, &m, M_PI / 2.0, 0.0, 1.0, &err), HF_OK);
+    hf_analysis_curve *t = hf_analysis_curve_alloc(&m, 1, &err);
+    assert_int_equal(hf_analysis_curve_compute(t, &m, dir, 0.0, 1.0, &err), HF_OK);
+    near(t->stiffness[0] + q->stiffness[0], z->stiffness[0] + y->stiffness[0], 1e-9);
+    assert_int_equal(hf_analysis_curve_compute(t, &m, NAN, 0.0, 1.0, &err), HF_EINVAL);
+    hf_analysis_curve_free(q);
+    hf_analysis_curve_free(z);
+    hf_analysis_curve_free(y);
+    hf_analysis_curve_free(t);
+    hf_analysis_curve_free(c);
+    assert_null(hf_analysis_curve_alloc(&m, 0, &err));
+    hf_analysis_curve_free(NULL);
+    hf_model_free(&m);
+}
+
+/* The allowed tension is the weakest section's MBL over the intact factor. */
+static void test_allowed_tension(void **state)
+{
+    (void)state;
+    hf_model m;
+    load(&m, "cases/barge.yaml");
+    double f = m.criteria.factor_intact;
+    assert_true(f > 0);
+    for (size_t i = 0; i < m.nlines; i++) {
+        double mbl = INFINITY;
+        for (size_t k = 0; k < m.lines[i].line.n; k++)
+            mbl = fmin(mbl, m.lines[i].line.sec[k].mbl);
+        near(hf_analysis_allowed_tension(&m, i), mbl / f, 1e-15);
+    }
+    hf_model_free(&m);
+}
+
+typedef struct {
+    size_t loads, rows, ends, last_done, total;
+    int order_ok;
+    const hf_load *current;
+    double tension0; /* first intact row's largest tension, N */
+} counter;
+
+static hf_status begin(void *ctx, const hf_load *l, const double f[3], hf_error *err)
+{
+    counter *c = ctx;
+    (void)f, (void)err;
+    c->loads++;
+    c->current = l;
+    return HF_OK;
+}
+
+static hf_status row(void *ctx, const hf_load *l, const hf_balance_result *r, hf_error *err)
+{
+    counter *c = ctx;
+    (void)err;
+    c->order_ok &= l == c->current;
+    if (c->rows++ == 0)
+        c->tension0 = r->max_tension;
+    return HF_OK;
+}
+
+static hf_status end(void *ctx, const hf_load *l, hf_status intact, const double u[3],
+                     hf_error *err)
+{
+    counter *c = ctx;
+    (void)l, (void)err;
+    c->ends++;
+    c->order_ok &= intact != HF_OK || (isfinite(u[0]) && isfinite(u[1]) && isfinite(u[2]));
+    return HF_OK;
+}
+
+static void progress(void *ctx, size_t done, size_t total)
+{
+    counter *c = ctx;
+    c->order_ok &= done == c->last_done + 1;
+    c->last_done = done;
+    c->total = total;
+}
+
+static hf_status stop(void *ctx, const hf_load *l, const hf_balance_result *r, hf_error *err)
+{
+    (void)ctx, (void)l, (void)r;
+    return hf_error_set(err, HF_EIO, "stopped by the sink");
+}
+
+/* The balance driver hands every condition of every chosen load to the
+ * sink in order, counts them, and gives the same numbers as the balance
+ * module run directly (hf_balance_run). */
+static void test_balance_run(void **state)
+{
+    (void)state;
+    hf_model m;
+    load(&m, "cases/barge.yaml");
+    assert_true(m.nloads >= 2);
+    counter c = {0, 0, 0, 0, 0, 1, NULL, 0.0};
+    hf_analysis_balance_sink sink = {&c, begin, row, end, progress};
+    hf_analysis_balance_count n;
+    hf_error err;
+    size_t which[2] = {1, 0};
+    assert_int_equal(hf_analysis_balance_run(&m, which, 2, &sink, &n, &err), HF_OK);
+    size_t ncond = m.nlines + 1;
+    assert_int_equal(c.loads, 2);
+    assert_int_equal(c.ends, 2);
+    assert_int_equal(c.rows, 2 * ncond);
+    assert_int_equal(n.conditions, 2 * ncond);
+    assert_int_equal(n.passed + n.failed, n.conditions);
+    assert_int_equal(c.total, 2 * ncond);
+    assert_int_equal(c.last_done, 2 * ncond);
+    assert_true(c.order_ok);
+
+    hf_balance *b = hf_balance_alloc(&m, &err);
+    assert_non_null(b);
+    hf_balance_run(b, &m.loads[1], &err);
+    assert_true(hf_balance_result_at(b, 0)->max_tension == c.tension0);
+    hf_balance_free(b);
+
+    size_t bad = m.nloads;
+    assert_int_equal(hf_analysis_balance_run(&m, &bad, 1, &sink, &n, &err), HF_EINVAL);
+    hf_analysis_balance_sink halt = {&c, NULL, stop, NULL, NULL};
+    assert_int_equal(hf_analysis_balance_run(&m, NULL, 0, &halt, &n, &err), HF_EIO);
+    assert_int_equal(n.conditions, 1);
+    hf_model_free(&m);
+}
+
+/* One pose: the lines and the stiffness at rest plus an offset. */
+static void test_pose(void **state)
+{
+    (void)state;
+    hf_model m;
+    load(&m, "cases/barge.yaml");
+    hf_analysis_pose a;
+    hf_analysis_pose_init(&a);
+    hf_error err;
+    double off[3] = {2.25, -1.5, 0.03};
+    assert_int_equal(hf_analysis_pose_solve(&a, &m, off, 1, &err), HF_OK);
+    hf_pose rest;
+    hf_spread_pose_rest(&m, &rest);
+    assert_true(a.pose.surge == rest.surge + 2.25 && a.pose.yaw == rest.yaw + 0.03);
+    assert_true(a.K[0][0] > 0.0);
+    assert_int_equal(a.res.nlines, m.nlines);
+    double nan3[3] = {NAN, 0, 0};
+    assert_int_equal(hf_analysis_pose_solve(&a, &m, nan3, 0, &err), HF_EINVAL);
+    hf_analysis_pose_clear(&a);
+    hf_analysis_pose_clear(&a);
+    hf_model_free(&m);
+}
+
+int main(void)
+{
+    const struct CMUnitTest tests[] = {
+        cmocka_unit_test(test_curve_physics),
+        cmocka_unit_test(test_allowed_tension),
+        cmocka_unit_test(test_balance_run),
+        cmocka_unit_test(test_pose),
+    };
+    return cmocka_run_group_tests(tests, NULL, NULL);
+}
