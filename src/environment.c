@@ -100,7 +100,7 @@ static hf_status spec_integral(double (*fn)(double, void *), spec_params *sp, do
     hi = fmax(fmax(fr[nf - 1] - shift, 2.0 * sp->s->wp), lo);
     int rc = 0;
     for (int pass = 0, npiece = 0; pass < 2 && rc == 0; pass++) {
-        double a = lo, epsabs = pass ? epsrel * est / npiece : 0.0;
+        double a = lo, epsabs = pass && npiece ? epsrel * est / npiece : 0.0;
         size_t i = 0;
         int j = 0;
         while (a < hi && rc == 0) {
@@ -359,6 +359,66 @@ hf_status hf_env_mean_load(const hf_env_hull *h, const hf_environment *e, double
     return HF_OK;
 }
 
+/* ---- mean pose ---------------------------------------------------------- */
+
+void hf_env_pose_options_default(hf_env_pose_options *o)
+{
+    o->yaw_tol = 1e-9;
+    o->max_iter = 50;
+    o->max_step = 0.2;
+}
+
+/* g(x) = equilibrium yaw under the loads at heading + x, minus x. */
+static hf_status pose_residual(const hf_env_hull *h, const hf_environment *e, double heading,
+                               double x, hf_env_equilibrium_fn eq, void *ctx, hf_env_workspace *ws,
+                               double offset[3], hf_env_mean *mean, double *g, hf_error *err)
+{
+    hf_status st = hf_env_mean_load(h, e, heading + x, ws, mean, err);
+    if (st == HF_OK)
+        st = eq(mean->total_global, offset, ctx, err);
+    if (st == HF_OK && !isfinite(offset[0] + offset[1] + offset[2]))
+        st = hf_error_set(err, HF_ENOCONV, "environment %s: the equilibrium is not finite",
+                          ename(e));
+    if (st == HF_OK)
+        *g = offset[2] - x;
+    return st;
+}
+
+hf_status hf_env_mean_pose(const hf_env_hull *h, const hf_environment *e, double heading,
+                           hf_env_equilibrium_fn eq, void *ctx, const hf_env_pose_options *opt,
+                           hf_env_workspace *ws, double offset[3], hf_env_mean *mean,
+                           int *iterations, hf_error *err)
+{
+    hf_env_pose_options o;
+    hf_env_pose_options_default(&o);
+    if (opt)
+        o = *opt;
+    if (!h || !e || !eq || !offset || !mean || !iterations || !(o.yaw_tol > 0.0) ||
+        o.max_iter < 1 || !(o.max_step > 0.0) || !isfinite(heading))
+        return hf_error_set(err, HF_EINVAL, "mean pose: missing input or bad options");
+    double x0 = 0.0, g0 = 0.0, x1, g1;
+    hf_status st = pose_residual(h, e, heading, x0, eq, ctx, ws, offset, mean, &g0, err);
+    *iterations = 1;
+    if (st != HF_OK || fabs(g0) <= o.yaw_tol)
+        return st;
+    x1 = x0 + fmax(-o.max_step, fmin(o.max_step, g0)); /* substitution */
+    while (*iterations < o.max_iter) {
+        st = pose_residual(h, e, heading, x1, eq, ctx, ws, offset, mean, &g1, err);
+        ++*iterations;
+        if (st != HF_OK || fabs(g1) <= o.yaw_tol)
+            return st;
+        double step = g1 != g0 ? -g1 * (x1 - x0) / (g1 - g0) : g1; /* secant, else substitution */
+        if (!isfinite(step))
+            step = g1;
+        x0 = x1, g0 = g1;
+        x1 += fmax(-o.max_step, fmin(o.max_step, step));
+    }
+    return hf_error_set(err, HF_ENOCONV,
+                        "environment %s: the mean heading did not settle in %d equilibria "
+                        "(last yaw change %.3g deg); no stable mean heading was found",
+                        ename(e), o.max_iter, (x1 - x0) * 180.0 / M_PI);
+}
+
 void hf_env_stiffness_hull(double K[6][6], double yaw, double k[3])
 {
     double c = cos(yaw), s = sin(yaw), cross = K[0][1] + K[1][0];
@@ -571,12 +631,21 @@ hf_status hf_env_design_offset(const double mean_xy[2], double mean_yaw, double 
     out->combo_lf_max = out->lf_max + out->wf_sig;
     out->combo_wf_max = out->lf_sig + out->wf_max;
     out->offset = out->mean + fmax(out->combo_lf_max, out->combo_wf_max);
-    out->offset_xy[0] = out->offset * cos(out->direction);
-    out->offset_xy[1] = out->offset * sin(out->direction);
+    double cu = cos(out->direction), su = sin(out->direction);
+    double extra = fmax(out->combo_lf_max, out->combo_wf_max);
+    out->offset_xy[0] = mean_xy[0] + extra * cu;
+    out->offset_xy[1] = mean_xy[1] + extra * su;
     out->yaw_mean = mean_yaw;
     out->yaw_combo_lf_max = z->lf_max + z->wf_sig;
     out->yaw_combo_wf_max = z->lf_sig + z->wf_max;
     double sense = mean_yaw < 0.0 ? -1.0 : 1.0;
     out->yaw = mean_yaw + sense * fmax(out->yaw_combo_lf_max, out->yaw_combo_wf_max);
+    double *pl = out->pose_lf_max, *pw = out->pose_wf_max;
+    pl[0] = mean_xy[0] + out->combo_lf_max * cu;
+    pl[1] = mean_xy[1] + out->combo_lf_max * su;
+    pl[2] = mean_yaw + sense * out->yaw_combo_lf_max;
+    pw[0] = mean_xy[0] + out->combo_wf_max * cu;
+    pw[1] = mean_xy[1] + out->combo_wf_max * su;
+    pw[2] = mean_yaw + sense * out->yaw_combo_wf_max;
     return HF_OK;
 }

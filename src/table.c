@@ -531,6 +531,14 @@ void hf_table_eval(const hf_table *t, double w, double heading, double v[3])
     }
 }
 
+double hf_table_heading_gap_max(const hf_table *t)
+{
+    double gap = t->head[0] + TWO_PI - t->head[t->nh - 1];
+    for (size_t j = 1; j < t->nh; j++)
+        gap = fmax(gap, t->head[j] - t->head[j - 1]);
+    return gap;
+}
+
 hf_status hf_table_heading_check(const hf_table *t, double heading, double max_gap,
                                  const char *what, hf_error *err)
 {

@@ -17,6 +17,7 @@
 #include <gsl/gsl_integration.h>
 #include <gsl/gsl_odeiv2.h>
 #include <gsl/gsl_rng.h>
+#include <gsl/gsl_roots.h>
 #include <gsl/gsl_sf_gamma.h>
 #include "holdfast/alloc.h"
 #include "holdfast/environment.h"
@@ -216,7 +217,7 @@ static double white(double mu, void *p)
 
 /* For white noise the integral is exactly pi S0 / (2 k c) (classical
  * random-vibration result, e.g. Newland, An Introduction to Random
- * Vibrations, ch. 7), for any damping. */
+ * Vibrations; the chapter not checked), for any damping. */
 static void test_oscillator_white(void **state)
 {
     (void)state;
@@ -232,7 +233,10 @@ static void test_oscillator_white(void **state)
                  "white-noise formula");
     }
     hf_error e;
-    double var;
+    double var = -1.0, zero = 0.0;
+    hf_env_fspec none = {white, &zero}; /* no force: no motion, and no quadrature failure */
+    OK(hf_env_oscillator_variance(&none, 2.37e5, 4.1e7, 0.05, 1e-6, ws, &var, E_));
+    assert_true(var == 0.0);
     assert_int_equal(hf_env_oscillator_variance(&sf, 0.0, 1.0, 0.1, 1e-6, ws, &var, &e), HF_EINVAL);
     assert_int_equal(hf_env_oscillator_variance(&sf, 1.0, -1.0, 0.1, 1e-6, ws, &var, &e),
                      HF_EINVAL);
@@ -271,8 +275,54 @@ static void test_newman_zero(void **state)
     hf_table_free(d);
 }
 
+typedef struct {
+    const hf_spectrum *s;
+    const hf_table *d;
+} sf_params;
+
+static double sf_of(double mu, void *p)
+{
+    const sf_params *q = p;
+    double v = NAN;
+    hf_error e;
+    if (hf_env_slow_drift_spectrum(q->s, q->d, 1.1, 0, mu, ws, &v, &e) != HF_OK)
+        return NAN;
+    return v;
+}
+
+/* For a constant drift coefficient D the slow-drift force is D times the
+ * squared wave envelope, which is exponentially distributed (Rayleigh
+ * envelope; Longuet-Higgins 1952), so its standard deviation equals its mean
+ * 2 D m0.  In spectral terms: integral_0^inf S_F(mu) dmu
+ * = 8 D^2 integral over w2 > w1 of S(w1) S(w2) = 4 D^2 m0^2 = (2 D m0)^2,
+ * for any spectrum (the integral over the half plane is half of m0^2). */
+static void test_newman_variance(void **state)
+{
+    (void)state;
+    const double g[] = {1.0, 3.3};
+    gsl_integration_workspace *w = gsl_integration_workspace_alloc(500);
+    for (int i = 0; i < 2; i++) {
+        hf_spectrum s;
+        hf_error e;
+        assert_int_equal(
+            hf_spectrum_jonswap_init(&s, 2.93, 8.61, g[i], hf_env_workspace_inner(ws), &e), HF_OK);
+        hf_table *d = flat(HF_TABLE_DRIFT, 27.9e3, 0.0, 0.0);
+        sf_params p = {&s, d};
+        gsl_function f = {sf_of, &p};
+        double a, b, err;
+        assert_int_equal(
+            gsl_integration_qag(&f, 0.0, s.wp, 0.0, 1e-7, 500, GSL_INTEG_GAUSS21, w, &a, &err),
+            GSL_SUCCESS);
+        assert_int_equal(gsl_integration_qagiu(&f, s.wp, 0.0, 1e-7, 500, w, &b, &err), GSL_SUCCESS);
+        double m0 = 2.93 * 2.93 / 16.0, want = pow(2.0 * 27.9e3 * m0, 2);
+        rel_near(a + b, want, 1e-5, "slow-drift force variance = mean^2");
+        hf_table_free(d);
+    }
+    gsl_integration_workspace_free(w);
+}
+
 /* The white-noise approximation approaches the full integral as damping
- * falls (the response spectrum narrows to a spike at w_n; Newland ch. 7).
+ * falls (the response spectrum narrows to a spike at w_n; Newland).
  * Measured on the invented barge's drift table. */
 static void test_white_noise_light_damping(void **state)
 {
@@ -285,9 +335,9 @@ static void test_white_noise_light_damping(void **state)
     h.drift = d;
     hf_environment e = waves_env(5.1, 11.4, 3.3, 150 * DEG);
     const double k[3] = {9.2e4, 1.61e5, 4.4e9};
-    const double zeta[] = {0.01, 0.03, 0.1};
+    const double zeta[] = {0.001, 0.01, 0.03, 0.1};
     double prev = -1.0;
-    for (int i = 0; i < 3; i++) {
+    for (int i = 0; i < 4; i++) {
         for (int j = 0; j < 3; j++)
             h.damping[j] = zeta[i];
         hf_env_motion_result m;
@@ -298,9 +348,10 @@ static void test_white_noise_light_damping(void **state)
             worst = fmax(worst, rel);
             rel_near(m.dof[j].lf_period, 2.0 * M_PI * sqrt(h.inertia[j] / k[j]), 1e-14, "T_n");
         }
-        print_message("zeta %.2f: white-noise vs full integral, worst of 3 DOF %.3f %%\n", zeta[i],
+        print_message("zeta %.3f: white-noise vs full integral, worst of 3 DOF %.3f %%\n", zeta[i],
                       100.0 * worst);
-        if (zeta[i] <= 0.01 && !(worst <= 0.02))
+        /* the difference is first order in zeta: <= 2 zeta (measured 0.81 % at 0.01) */
+        if (!(worst <= 2.0 * zeta[i]))
             fail_msg("zeta %g: white noise off by %.3f %%", zeta[i], 100.0 * worst);
         assert_true(worst > prev); /* the approximation worsens as damping grows */
         prev = worst;
@@ -486,6 +537,126 @@ static void test_time_domain(void **state)
     time_domain(0.30, 40, 0);
 }
 
+/* ---- mean pose under heading-dependent loads ------------------------------ */
+
+/* A linear mooring (classical linear springs): offset = load / k. */
+static hf_status springs(const double load[3], double offset[3], void *ctx, hf_error *err)
+{
+    const double *k = ctx;
+    (void)err;
+    for (int i = 0; i < 3; i++)
+        offset[i] = load[i] / k[i];
+    return HF_OK;
+}
+
+typedef struct {
+    const hf_env_hull *h;
+    const hf_environment *e;
+    double heading, kyaw;
+} yaw_root;
+
+/* g(x) of the fixed point, for GSL's Brent solver (the reference). */
+static double yaw_g(double x, void *p)
+{
+    const yaw_root *y = p;
+    hf_env_mean m;
+    hf_error e;
+    if (hf_env_mean_load(y->h, y->e, y->heading + x, ws, &m, &e) != HF_OK)
+        return NAN;
+    return m.total_global[2] / y->kyaw - x;
+}
+
+static double brent_root(yaw_root *y, double lo, double hi)
+{
+    gsl_function f = {yaw_g, y};
+    gsl_root_fsolver *s = gsl_root_fsolver_alloc(gsl_root_fsolver_brent);
+    assert_int_equal(gsl_root_fsolver_set(s, &f, lo, hi), GSL_SUCCESS);
+    for (int i = 0; i < 200; i++) {
+        gsl_root_fsolver_iterate(s);
+        if (gsl_root_test_interval(gsl_root_fsolver_x_lower(s), gsl_root_fsolver_x_upper(s), 1e-13,
+                                   0.0) == GSL_SUCCESS)
+            break;
+    }
+    double r = gsl_root_fsolver_root(s);
+    gsl_root_fsolver_free(s);
+    return r;
+}
+
+static hf_status never_settles(const double load[3], double offset[3], void *ctx, hf_error *err)
+{
+    int *n = ctx;
+    (void)load, (void)err;
+    offset[0] = offset[1] = 0.0;
+    offset[2] = (++*n % 2 ? 0.3 : -0.3);
+    return HF_OK;
+}
+
+static hf_status no_equilibrium(const double load[3], double offset[3], void *ctx, hf_error *err)
+{
+    (void)load, (void)offset, (void)ctx;
+    return hf_error_set(err, HF_ENOEQUIL, "the spread cannot hold the load");
+}
+
+/* The wind's yaw moment turns the hull toward the wind; with a soft yaw
+ * mooring (k_yaw below the moment's slope) plain substitution would
+ * oscillate and diverge (ratio -1.5); the secant finds the same root as
+ * GSL's Brent solver, and the equilibrium is consistent. */
+static void test_mean_pose(void **state)
+{
+    (void)state;
+    hf_env_hull h;
+    barge_hull(&h);
+    hf_table *w = load("tests/data/env/barge-wind.csv", HF_TABLE_COEF);
+    h.wind = w;
+    hf_environment e;
+    hf_environment_default(&e);
+    e.name = "squall";
+    e.has_wind = 1;
+    double heading = 17.0 * DEG;
+    e.wind = (hf_env_flow){25.0, heading + 10.0 * DEG};
+    /* slope of Mz with yaw near 10 deg: q A L (0.074 / 30 deg) = 3.97e6 N m/rad */
+    const double kyaw[] = {1.3e7, 2.6e6};
+    for (int i = 0; i < 2; i++) {
+        double k[3] = {2.2e5, 1.9e5, kyaw[i]}, off[3];
+        hf_env_mean m;
+        int it = 0;
+        OK(hf_env_mean_pose(&h, &e, heading, springs, k, NULL, ws, off, &m, &it, E_));
+        yaw_root y = {&h, &e, heading, kyaw[i]};
+        double want = brent_root(&y, 0.0, 10.0 * DEG);
+        /* substitution x <- x + g(x) has the ratio 1 + g'(x): |.| > 1 diverges */
+        double ratio = 1.0 + (yaw_g(want + 1e-4, &y) - yaw_g(want - 1e-4, &y)) / 2e-4;
+        if (i == 1 && !(ratio < -1.0))
+            fail_msg("soft mooring: substitution ratio %g, meant to be below -1", ratio);
+        rel_near(off[2], want, 1e-7, "mean yaw");
+        rel_near(off[0], m.total_global[0] / k[0], 1e-12, "surge from the loads");
+        print_message("mean pose, k_yaw %.3g N m/rad: yaw %.4f deg in %d equilibria "
+                      "(substitution ratio %.2f)\n",
+                      kyaw[i], off[2] / DEG, it, ratio);
+        assert_true(it <= 12);
+    }
+    double off[3];
+    hf_env_mean m;
+    int n = 0, it = 0;
+    hf_error er;
+    hf_error_clear(&er);
+    assert_int_equal(
+        hf_env_mean_pose(&h, &e, heading, never_settles, &n, NULL, ws, off, &m, &it, &er),
+        HF_ENOCONV);
+    assert_non_null(strstr(er.text, "squall: the mean heading did not settle in 50"));
+    assert_int_equal(it, 50);
+    assert_int_equal(
+        hf_env_mean_pose(&h, &e, heading, no_equilibrium, NULL, NULL, ws, off, &m, &it, &er),
+        HF_ENOEQUIL);
+    assert_non_null(strstr(er.text, "cannot hold"));
+    hf_env_pose_options o;
+    hf_env_pose_options_default(&o);
+    o.max_iter = 0;
+    assert_int_equal(
+        hf_env_mean_pose(&h, &e, heading, springs, (void *)kyaw, &o, ws, off, &m, &it, &er),
+        HF_EINVAL);
+    hf_table_free(w);
+}
+
 /* ---- statistics, stiffness axes, design offset --------------------------- */
 
 /* sigma sqrt(2 ln N), N = duration / period (Longuet-Higgins 1952). */
@@ -559,6 +730,10 @@ static void test_design_offset(void **state)
     rel_near(d.offset, 13.0 + 9.2, 1e-12, "design offset");
     rel_near(d.offset_xy[0], 22.2 * cos(yaw), 1e-12, "x");
     rel_near(d.yaw, -0.031 - (0.037 + 0.011), 1e-12, "design yaw, sense of the mean yaw");
+    rel_near(d.pose_lf_max[0], (13.0 + 9.2) * cos(yaw), 1e-12, "LF-max pose x");
+    rel_near(d.pose_lf_max[2], -0.031 - (0.037 + 0.011), 1e-12, "LF-max pose yaw");
+    rel_near(d.pose_wf_max[1], (13.0 + 6.6) * sin(yaw), 1e-12, "WF-max pose y");
+    rel_near(d.pose_wf_max[2], -0.031 - (0.02 + 0.021), 1e-12, "WF-max pose yaw");
     /* along the hull's y axis: sway values; WF max governs */
     double mean_y[2] = {-5.0 * sin(yaw), 5.0 * cos(yaw)};
     OK(hf_env_design_offset(mean_y, 0.0, yaw, &m, 1.0, &d, E_));
@@ -573,6 +748,7 @@ static void test_design_offset(void **state)
     OK(hf_env_design_offset(zero, 0.0, 0.0, &m, 90 * DEG, &d, E_));
     assert_true(d.from_fallback);
     rel_near(d.offset, fmax(5.1 + 3.9, 2.6 + 7.3), 1e-12, "fallback: sway");
+    assert_true(fabs(d.offset_xy[0]) <= 1e-12 && fabs(d.offset_xy[1] - 9.9) <= 1e-12);
     hf_error e;
     double bad[2] = {NAN, 0.0};
     assert_int_equal(hf_env_design_offset(bad, 0.0, 0.0, &m, 0.0, &d, &e), HF_EINVAL);
@@ -727,6 +903,12 @@ static void test_barge_chain(void **state)
                   secs, mean.total_global[0] / 1e3, m.dof[0].lf_period, m.dof[0].lf_sig,
                   2.0 * sqrt(m.dof[0].lf_var_white), m.dof[0].lf_max, m.dof[0].wf_sig,
                   m.dof[0].wf_max, m.dof[0].wf_tz);
+    /* head seas (waves along the hull's x axis): the invented tables have no
+     * sway RAO or sway drift there, so no sway motion, and no failure */
+    e.waves.direction = yaw;
+    OK(hf_env_motion(&h, &e, yaw, k, ws, &m, E_));
+    assert_true(m.dof[1].lf_var == 0.0 && m.dof[1].wf_var == 0.0 && m.dof[1].lf_max == 0.0);
+    assert_true(m.dof[0].lf_var > 0.0 && m.dof[0].wf_var > 0.0);
     hf_table_free(r);
     hf_table_free(d);
     hf_table_free(w);
@@ -748,12 +930,20 @@ static void test_workspace_alloc(void **state)
 int main(void)
 {
     const struct CMUnitTest tests[] = {
-        cmocka_unit_test(test_wind_current),    cmocka_unit_test(test_mean_drift),
-        cmocka_unit_test(test_wave_frequency),  cmocka_unit_test(test_oscillator_white),
-        cmocka_unit_test(test_newman_zero),     cmocka_unit_test(test_white_noise_light_damping),
-        cmocka_unit_test(test_time_domain),     cmocka_unit_test(test_most_probable_max),
-        cmocka_unit_test(test_stiffness_hull),  cmocka_unit_test(test_design_offset),
-        cmocka_unit_test(test_refusals),        cmocka_unit_test(test_barge_chain),
+        cmocka_unit_test(test_wind_current),
+        cmocka_unit_test(test_mean_drift),
+        cmocka_unit_test(test_wave_frequency),
+        cmocka_unit_test(test_oscillator_white),
+        cmocka_unit_test(test_newman_zero),
+        cmocka_unit_test(test_newman_variance),
+        cmocka_unit_test(test_white_noise_light_damping),
+        cmocka_unit_test(test_time_domain),
+        cmocka_unit_test(test_mean_pose),
+        cmocka_unit_test(test_most_probable_max),
+        cmocka_unit_test(test_stiffness_hull),
+        cmocka_unit_test(test_design_offset),
+        cmocka_unit_test(test_refusals),
+        cmocka_unit_test(test_barge_chain),
         cmocka_unit_test(test_workspace_alloc),
     };
     hf_gsl_handler_install();

@@ -241,6 +241,7 @@ static void test_heading_coverage(void **state)
 {
     (void)state;
     hf_table *r = load("tests/data/env/barge-raos.csv", HF_TABLE_RAO);
+    assert_true(fabs(hf_table_heading_gap_max(r) - 30 * DEG) <= 1e-12);
     covered(r, 45.0, 45.0, 1, NULL);
     covered(r, 345.0, 45.0, 1, NULL); /* between 330 and 360 */
     covered(r, -721.3, 45.0, 1, NULL);
@@ -252,6 +253,7 @@ static void test_heading_coverage(void **state)
     const double hd[] = {0.0, 45 * DEG, 90 * DEG, 135 * DEG, 180 * DEG}, val[15] = {0};
     assert_int_equal(hf_table_from_values(HF_TABLE_COEF, "half.csv", 1, NULL, 5, hd, val, &t, &e),
                      HF_OK);
+    assert_true(fabs(hf_table_heading_gap_max(t) - M_PI) <= 1e-12); /* 180 -> 360 */
     covered(t, 100.0, 45.0, 1, NULL);
     covered(t, 270.0, 45.0, 0, "half.csv does not cover the relative heading 270 deg");
     covered(t, 180.0, 45.0, 1, NULL);
@@ -259,6 +261,7 @@ static void test_heading_coverage(void **state)
     hf_table_free(t);
     assert_int_equal(
         hf_table_from_values(HF_TABLE_COEF, "one.csv", 1, NULL, 1, hd + 2, val, &t, &e), HF_OK);
+    assert_true(fabs(hf_table_heading_gap_max(t) - 2.0 * M_PI) <= 1e-12);
     covered(t, 90.0, 45.0, 1, NULL);
     covered(t, 90.5, 45.0, 0, "one.csv tabulates heading 90 deg only");
     hf_error_clear(&e);

@@ -17,9 +17,9 @@
  *     m, m and rad.
  *
  * A design study uses it like this (one environment, one condition):
- *   1. mean pose: repeat { hf_env_mean_load(h, e, yaw) -> global load ->
- *      balance -> new mean yaw } until the yaw settles (the loads depend on
- *      the relative headings);
+ *   1. mean pose: hf_env_mean_pose(h, e, heading, eq = balance) finds the
+ *      yaw at which the loads (which depend on the relative headings) and
+ *      the equilibrium agree;
  *   2. k = hf_env_stiffness_hull(K at the mean pose, yaw);
  *   3. hf_env_motion(h, e, yaw, k) -> LF and WF statistics per DOF;
  *   4. hf_env_design_offset(mean offset, mean yaw offset, yaw, motions) ->
@@ -125,14 +125,22 @@ typedef struct {
     double yaw_mean;                       /* mean yaw from rest, rad */
     double yaw_combo_lf_max, yaw_combo_wf_max; /* the same combinations in yaw, rad */
     double yaw; /* design yaw from rest, rad, in the sense of the mean yaw */
+    /* The two combinations as whole poses (x, y from rest in m, global; yaw
+     * from rest in rad), horizontal and yaw combined alike: pose_lf_max
+     * with LF max + WF significant, pose_wf_max with LF significant + WF
+     * max.  Solve the tensions at both and keep the larger per line; the
+     * envelope pose (offset_xy, yaw) takes the larger of each separately. */
+    double pose_lf_max[3], pose_wf_max[3];
 } hf_env_design;
 
 /* Quadrature workspace of the module (two GSL workspaces of HF_ENV_LIMIT
  * intervals: inner and outer).  Not thread-safe; one per thread. */
 typedef struct hf_env_workspace hf_env_workspace;
 
+/* A new workspace owned by the caller, or NULL with HF_ENOMEM in err. */
 hf_env_workspace *hf_env_workspace_alloc(hf_error *err);
-void hf_env_workspace_free(hf_env_workspace *ws); /* NULL allowed */
+/* Frees a workspace; NULL is allowed. */
+void hf_env_workspace_free(hf_env_workspace *ws);
 
 /* Defaults: no parts, duration HF_ENV_DURATION_DEFAULT, gamma
  * HF_ENV_GAMMA_DEFAULT. */
@@ -157,6 +165,39 @@ hf_status hf_env_check(const hf_env_hull *h, const hf_environment *e, double yaw
  * hf_env_check first; statuses as hf_env_check. */
 hf_status hf_env_mean_load(const hf_env_hull *h, const hf_environment *e, double yaw,
                            hf_env_workspace *ws, hf_env_mean *out, hf_error *err);
+
+/* The caller's mean equilibrium (e.g. hf_balance_solve for one condition):
+ * given the global mean load (Fx, Fy in N, Mz in N m), fills the offset of
+ * the equilibrium from rest (surge, sway in m, yaw in rad).  Returns HF_OK or
+ * a failure status with err set; the failure is passed on unchanged. */
+typedef hf_status (*hf_env_equilibrium_fn)(const double load[3], double offset[3], void *ctx,
+                                           hf_error *err);
+
+/* Options of hf_env_mean_pose. */
+typedef struct {
+    double yaw_tol;  /* |equilibrium yaw - yaw the loads were computed at|, rad (1e-9) */
+    int max_iter;    /* equilibrium calls at most (50) */
+    double max_step; /* largest change of yaw per iteration, rad (0.2) */
+} hf_env_pose_options;
+
+void hf_env_pose_options_default(hf_env_pose_options *o);
+
+/* Mean pose under heading-dependent loads: finds the yaw offset x (from the
+ * rest heading `heading`, rad) where the equilibrium under the loads at
+ * heading + x has yaw offset x: a root of g(x) = eq(load(heading + x)).yaw - x.
+ * First step: plain substitution; then secant steps (limited to max_step;
+ * a substitution step when the secant is undefined).  Plain substitution
+ * alone diverges when the environment's yaw moment grows with yaw faster
+ * than the mooring resists (|dMz/dyaw| > k_yaw); the secant does not.
+ * On HF_OK: offset (from the last equilibrium), *mean (loads at heading +
+ * x) and *iterations (equilibrium calls).  Statuses: those of
+ * hf_env_mean_load and of eq; HF_ENOCONV with a message when the yaw has
+ * not settled after max_iter calls (no stable mean heading found).  opt may
+ * be NULL (defaults). */
+hf_status hf_env_mean_pose(const hf_env_hull *h, const hf_environment *e, double heading,
+                           hf_env_equilibrium_fn eq, void *ctx, const hf_env_pose_options *opt,
+                           hf_env_workspace *ws, double offset[3], hf_env_mean *mean,
+                           int *iterations, hf_error *err);
 
 /* Stiffness in hull axes from the 6x6 mooring stiffness K (global surge,
  * sway, heave, roll, pitch, yaw; spread.h) at hull yaw `yaw`:

@@ -84,6 +84,8 @@ hf_status hf_table_from_values(hf_table_kind k, const char *name, size_t nf, con
 /* Frees a table; NULL is allowed. */
 void hf_table_free(hf_table *t);
 
+/* Accessors (t not NULL): kind; file name (owned by the table); number of
+ * tabulated frequencies (0 for HF_TABLE_COEF) and headings. */
 hf_table_kind hf_table_kind_of(const hf_table *t);
 const char *hf_table_name(const hf_table *t);
 size_t hf_table_nfreq(const hf_table *t);
@@ -93,6 +95,10 @@ size_t hf_table_nheading(const hf_table *t);
 const double *hf_table_freqs(const hf_table *t);
 /* Tabulated frequency range, rad/s (both 0 for HF_TABLE_COEF). */
 void hf_table_freq_range(const hf_table *t, double *lo, double *hi);
+
+/* Largest gap between neighbouring tabulated headings, across 360 deg too,
+ * rad (2 pi for a table with one heading): for `holdfast check` reports. */
+double hf_table_heading_gap_max(const hf_table *t);
 
 /* Interpolated values at frequency w (rad/s; ignored for HF_TABLE_COEF) and
  * relative heading (rad, any finite value): v[0] along hull x, v[1] along
