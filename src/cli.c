@@ -6,6 +6,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
+#include "holdfast/alloc.h"
 #include "holdfast/case.h"
 #include "holdfast/cli.h"
 #include "holdfast/units.h"
@@ -285,6 +286,19 @@ void hf_cli_warn_nonfinite(const char *cmd, size_t n)
 hf_status hf_cli_load(const char *path, hf_model *m, hf_error *err)
 {
     return hf_case_load(path, m, err);
+}
+
+const char *hf_cli_suggest_model(const hf_model *m, int loads, const char *word)
+{
+    size_t n = loads ? m->nloads : m->nlines;
+    const char **names = hf_calloc(n ? n : 1, sizeof *names);
+    if (!names)
+        return NULL;
+    for (size_t i = 0; i < n; i++)
+        names[i] = loads ? m->loads[i].name : m->lines[i].name;
+    const char *best = hf_cli_suggest(word, names, n);
+    hf_free(names);
+    return best;
 }
 
 hf_status hf_cli_parse_value(const char *option, const char *text, hf_dim dim, double *out,

@@ -287,19 +287,15 @@ static int pick_loads(const hf_model *m, const char *path, const char *const *na
     for (int j = 0; j < nnames; j++) {
         size_t k = hf_model_load_find(m, names[j]);
         if (k == (size_t)-1) {
-            const char **all = hf_calloc(m->nloads, sizeof *all);
-            for (size_t i = 0; all && i < m->nloads; i++)
-                all[i] = m->loads[i].name;
-            const char *near = all ? hf_cli_suggest(names[j], all, m->nloads) : NULL;
+            const char *near = hf_cli_suggest_model(m, 1, names[j]);
             fprintf(stderr, "holdfast balance: --load: no load case named \"%s\" in %s", names[j],
                     path);
             if (near)
-                fprintf(stderr, "; did you mean \"%s\"?", near);
+                fprintf(stderr, " (did you mean \"%s\"?)", near);
             fprintf(stderr, "; the load cases are:");
             for (size_t i = 0; i < m->nloads; i++)
                 fprintf(stderr, "%s %s", i ? "," : "", m->loads[i].name);
             fputc('\n', stderr);
-            hf_free(all);
             hf_free(pick);
             return HF_EXIT_USAGE;
         }

@@ -61,9 +61,11 @@ static hf_status plot_elevation(FILE *out, const hf_model *m, const double offse
         size_t i = 0;
         if (line_name) {
             i = hf_model_line_find(m, line_name);
+            const char *near = i == (size_t)-1 ? hf_cli_suggest_model(m, 0, line_name) : NULL;
             if (i == (size_t)-1)
-                s = hf_error_set(err, HF_EINVAL, "--line: the case has no line named '%s'",
-                                 line_name);
+                s = hf_error_set(err, HF_EINVAL, "--line: the case has no line named '%s'%s%s%s",
+                                 line_name, near ? "; did you mean '" : "", near ? near : "",
+                                 near ? "'?" : "");
         } else {
             for (size_t j = 1; j < at.res.nlines; j++)
                 if (at.res.states[j].tension > at.res.states[i].tension)
@@ -187,9 +189,12 @@ static hf_status draw(FILE *out, const hf_model *m, const hf_study_list *sl, con
         const hf_load *ld = NULL;
         if (a->load) {
             size_t k = hf_model_load_find(m, a->load);
+            const char *near = k == (size_t)-1 ? hf_cli_suggest_model(m, 1, a->load) : NULL;
             if (k == (size_t)-1)
-                return hf_error_set(err, HF_EINVAL, "--load: the case has no load case named '%s'",
-                                    a->load);
+                return hf_error_set(err, HF_EINVAL,
+                                    "--load: the case has no load case named '%s'%s%s%s", a->load,
+                                    near ? "; did you mean '" : "", near ? near : "",
+                                    near ? "'?" : "");
             ld = &m->loads[k];
         }
         hf_pose pose;

@@ -56,6 +56,10 @@ int hf_cli_fail_status(hf_status s, const char *text);
  * mean" hints: "beam-strom" -> "beam-storm". */
 const char *hf_cli_suggest(const char *word, const char *const *names, size_t n);
 
+/* hf_cli_suggest over the load case names (loads != 0) or the line names of
+ * m: the name (owned by m) or NULL. */
+const char *hf_cli_suggest_model(const hf_model *m, int loads, const char *word);
+
 /* Prints "holdfast <cmd>: <printf message>" and a hint to use --help to
  * stderr; returns HF_EXIT_USAGE. */
 int hf_cli_usage_error(const char *cmd, const char *fmt, ...)
