@@ -195,7 +195,8 @@ static void print_load(FILE *out, const hf_load *l, const double f[3])
 }
 
 /* Progress on a terminal: conditions done, redrawn at most ten times a
- * second, shown only after the first second (short runs stay quiet). */
+ * second.  Shown when standard error is a terminal and standard output is
+ * not (when the report goes to the terminal, its lines are the progress). */
 typedef struct {
     double start, last; /* s */
     int drawn;
@@ -211,13 +212,13 @@ static double now(void)
 static void bar_draw(bar *b, size_t done, size_t total)
 {
     double t = now();
-    if (t - b->start < 1.0 || (done < total && t - b->last < 0.1))
+    if (done < total && t - b->last < 0.1)
         return;
     b->last = t;
     b->drawn = 1;
     double f = total ? (double)done / (double)total : 1.0;
     int w = 30, fill = (int)(f * w + 0.5);
-    double rate = (double)done / (t - b->start);
+    double rate = t > b->start ? (double)done / (t - b->start) : 0.0;
     char cells[64];
     for (int i = 0; i < w; i++)
         cells[i] = i < fill ? '#' : '.';
@@ -317,7 +318,7 @@ static int balance(const hf_model *m, const char *path, const char *csv, const s
     hf_error_clear(&err);
     int human = !csv || strcmp(csv, "-") != 0;
     sink_ctx c = {m, human ? stdout : NULL, NULL, 0, {now(), 0.0, 0}, 0};
-    c.show_progress = isatty(fileno(stderr));
+    c.show_progress = isatty(fileno(stderr)) && !isatty(fileno(stdout));
     if (csv && !(c.f = hf_cli_csv_begin(csv, hf_results_balance_header_write, m, &err)))
         return hf_cli_fail(&err);
     if (human) {

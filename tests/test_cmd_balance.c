@@ -359,6 +359,48 @@ static void test_output_is_input_and_suggestion(void **state)
     assert_non_null(strstr(out, "empty name"));
 }
 
+/* Issue 12 item 13: a balance run shows its progress on a terminal
+ * (standard error a terminal, standard output redirected): the bar ends
+ * with every condition counted.  In a file it stays silent. */
+static void test_progress_on_terminal(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    int master = posix_openpt(O_RDWR | O_NOCTTY);
+    assert_true(master >= 0);
+    assert_int_equal(grantpt(master), 0);
+    assert_int_equal(unlockpt(master), 0);
+    char *slave_name = ptsname(master);
+    assert_non_null(slave_name);
+    pid_t pid = fork();
+    assert_true(pid >= 0);
+    if (pid == 0) {
+        int slave = open(slave_name, O_RDWR), nul = open("/dev/null", O_WRONLY);
+        dup2(nul, 1);
+        dup2(slave, 2);
+        execl(bin, bin, "balance", pass_case, (char *)NULL);
+        _exit(127);
+    }
+    static char buf[1 << 16];
+    size_t n = 0;
+    for (;;) {
+        ssize_t k = read(master, buf + n, sizeof buf - 1 - n);
+        if (k <= 0) /* EIO once the child closed the terminal */
+            break;
+        n += (size_t)k;
+        if (n + 1 >= sizeof buf)
+            break;
+    }
+    buf[n] = '\0';
+    int st;
+    assert_true(waitpid(pid, &st, 0) == pid);
+    close(master);
+    /* 2 load cases x (1 intact + 4 broken) conditions */
+    assert_non_null(strstr(buf, "10/10 conditions"));
+    assert_int_equal(HF_TEST_RUN(&both, "balance", pass_case), 0);
+    assert_null(strstr(out, "conditions  "));
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -371,6 +413,7 @@ int main(void)
         cmocka_unit_test(test_usage_errors),
         cmocka_unit_test(test_stdout_write_errors),
         cmocka_unit_test(test_output_is_input_and_suggestion),
+        cmocka_unit_test(test_progress_on_terminal),
     };
     return cmocka_run_group_tests(tests, setup, teardown);
 }
