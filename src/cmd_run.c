@@ -49,11 +49,15 @@ static hf_outfile *open_in(const char *dir, const char *name, char *path, size_t
     return hf_outfile_open(path, err);
 }
 
+/* How bad a study's failure is for the exit status: out of memory > bad
+ * input > numerical failure. */
 static int severity(hf_status st)
 {
     if (st == HF_OK)
         return 0;
-    return hf_status_exit_code(st) == HF_EXIT_USAGE ? 3 : 2; /* bad input > numeric */
+    if (st == HF_ENOMEM)
+        return 4;
+    return hf_status_exit_code(st) == HF_EXIT_USAGE ? 3 : 2;
 }
 
 /* The options of one run. */
@@ -172,7 +176,9 @@ static int run_all(const hf_model *m, const hf_study_list *sl, const char *dir,
         hf_outfile_abort(rf);
     if (*st == HF_OK)
         *st = write_summary(m, sl, dir, a, oc, err);
-    return worst == 3 ? HF_EXIT_USAGE : worst == 2 ? HF_EXIT_NUMERIC : crit ? HF_EXIT_CRITERION : 0;
+    static const int exit_of[] = {HF_EXIT_OK, HF_EXIT_OK, HF_EXIT_NUMERIC, HF_EXIT_USAGE,
+                                  HF_EXIT_NOMEM};
+    return worst ? exit_of[worst] : crit ? HF_EXIT_CRITERION : HF_EXIT_OK;
 }
 
 int hf_cmd_run(int argc, char **argv)
