@@ -62,9 +62,10 @@ hf_analysis_curve *hf_analysis_curve_alloc(const hf_model *m, size_t n, hf_error
         c->status = array(n, 1, sizeof *c->status);
         c->max_tension_line = array(n, 1, sizeof(size_t));
         c->max_utilisation_line = array(n, 1, sizeof(size_t));
-        double **d[] = {&c->offset,   &c->restoring,   &c->stiffness,       &c->force_x,
-                        &c->force_y,  &c->moment_z,    &c->max_tension,     &c->max_utilisation,
-                        &c->fairlead_tension, &c->line_tension, &c->utilisation};
+        double **d[] = {&c->offset,       &c->restoring,       &c->stiffness,
+                        &c->force_x,      &c->force_y,         &c->moment_z,
+                        &c->max_tension,  &c->max_utilisation, &c->fairlead_tension,
+                        &c->line_tension, &c->utilisation};
         for (size_t j = 0; j < sizeof d / sizeof d[0]; j++)
             *d[j] = array(n, j < 8 ? 1 : nl, sizeof(double));
     }
@@ -83,9 +84,10 @@ void hf_analysis_curve_free(hf_analysis_curve *c)
 {
     if (!c)
         return;
-    void *p[] = {c->status,    c->max_tension_line, c->max_utilisation_line, c->offset,
-                 c->restoring, c->stiffness,        c->force_x,              c->force_y,
-                 c->moment_z,  c->max_tension,      c->max_utilisation,      c->fairlead_tension,
+    void *p[] = {c->status,       c->max_tension_line, c->max_utilisation_line,
+                 c->offset,       c->restoring,        c->stiffness,
+                 c->force_x,      c->force_y,          c->moment_z,
+                 c->max_tension,  c->max_utilisation,  c->fairlead_tension,
                  c->line_tension, c->utilisation};
     for (size_t j = 0; j < sizeof p / sizeof p[0]; j++)
         hf_free(p[j]);
@@ -179,10 +181,10 @@ typedef struct {
     const hf_load *load;
     hf_analysis_balance_count *count;
     size_t total;
-    hf_status status;     /* a sink's failure, else HF_OK */
+    hf_status status; /* a sink's failure, else HF_OK */
     hf_error *err;
-    hf_status intact;     /* the intact condition's status */
-    double intact_u[3];   /* and its offset (surge m, sway m, yaw rad) */
+    hf_status intact;   /* the intact condition's status */
+    double intact_u[3]; /* and its offset (surge m, sway m, yaw rad) */
 } visit_ctx;
 
 static int visit(void *ctx, size_t cond, const hf_balance_result *r)

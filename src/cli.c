@@ -20,8 +20,9 @@ int hf_cli_fail(const hf_error *e)
 {
     fprintf(stderr, "holdfast: %s\n", e->text[0] ? e->text : hf_status_str(e->status));
     if (e->status == HF_ENOMEM)
-        fprintf(stderr, "holdfast: out of memory: try fewer lines, offsets or cases, or a "
-                        "machine with more memory (exit status %d)\n",
+        fprintf(stderr,
+                "holdfast: out of memory: try fewer lines, offsets or cases, or a "
+                "machine with more memory (exit status %d)\n",
                 HF_EXIT_NOMEM);
     return hf_cli_exit_code(e->status);
 }
@@ -326,8 +327,8 @@ static hf_status parse_parts(const char *option, const char *what, const char *t
     for (size_t j = 0; j < n; j++) {
         char *end = j + 1 < n ? strchr(p, sep) : p + strlen(p);
         if (!end || (j + 1 == n && strchr(p, sep)))
-            return hf_error_set(err, HF_EINVAL, "%s%sexpected %s, got \"%s\"",
-                                option ? option : "", option ? ": " : "", what, text);
+            return hf_error_set(err, HF_EINVAL, "%s%sexpected %s, got \"%s\"", option ? option : "",
+                                option ? ": " : "", what, text);
         *end = '\0';
         hf_error e;
         hf_error_clear(&e);
@@ -342,8 +343,9 @@ static hf_status parse_parts(const char *option, const char *what, const char *t
 hf_status hf_cli_parse_offset(const char *text, double offset[3], hf_error *err)
 {
     static const hf_dim dims[3] = {HF_DIM_LENGTH, HF_DIM_LENGTH, HF_DIM_ANGLE};
-    return parse_parts("--offset", "X,Y,HEADING_DEG (lengths in m, heading in degrees; units allowed)",
-                       text, ',', dims, 3, offset, err);
+    return parse_parts("--offset",
+                       "X,Y,HEADING_DEG (lengths in m, heading in degrees; units allowed)", text,
+                       ',', dims, 3, offset, err);
 }
 
 hf_status hf_cli_parse_range(const char *text, double *from, double *to, double *step,
@@ -351,8 +353,8 @@ hf_status hf_cli_parse_range(const char *text, double *from, double *to, double 
 {
     static const hf_dim dims[3] = {HF_DIM_LENGTH, HF_DIM_LENGTH, HF_DIM_LENGTH};
     double v[3];
-    hf_status s = parse_parts(NULL, "FROM:TO:STEP (lengths in m; units allowed)", text, ':',
-                              dims, 3, v, err);
+    hf_status s =
+        parse_parts(NULL, "FROM:TO:STEP (lengths in m; units allowed)", text, ':', dims, 3, v, err);
     if (s != HF_OK)
         return s;
     size_t n = hf_study_range_count(v[0], v[1], v[2], max_points); /* the one range rule */
@@ -369,12 +371,13 @@ hf_status hf_cli_parse_range(const char *text, double *from, double *to, double 
     return HF_OK;
 }
 
-hf_status hf_cli_check_output(const char *option, const char *out, const char *input,
-                              hf_error *err)
+hf_status hf_cli_check_output(const char *option, const char *out, const char *input, hf_error *err)
 {
     if (!out[0])
-        return hf_error_set(err, HF_EINVAL, "%s: expected a FILE name (or - for standard output), "
-                                            "got an empty name", option);
+        return hf_error_set(err, HF_EINVAL,
+                            "%s: expected a FILE name (or - for standard output), "
+                            "got an empty name",
+                            option);
     if (!strcmp(out, "-") || !input)
         return HF_OK;
     hf_error e;

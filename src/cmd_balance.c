@@ -223,16 +223,16 @@ static void bar_draw(bar *b, size_t done, size_t total)
     for (int i = 0; i < w; i++)
         cells[i] = i < fill ? '#' : '.';
     cells[w] = '\0';
-    fprintf(stderr, "\r  [%s] %5.1f%%  %zu/%zu conditions  %.0f s left   ", cells, 100.0 * f,
-            done, total, rate > 0 ? (double)(total - done) / rate : 0.0);
+    fprintf(stderr, "\r  [%s] %5.1f%%  %zu/%zu conditions  %.0f s left   ", cells, 100.0 * f, done,
+            total, rate > 0 ? (double)(total - done) / rate : 0.0);
     fflush(stderr);
 }
 
 /* What the balance command writes as results arrive. */
 typedef struct {
     const hf_model *m;
-    FILE *out;      /* the readable report, or NULL */
-    hf_outfile *f;  /* the CSV, or NULL */
+    FILE *out;     /* the readable report, or NULL */
+    hf_outfile *f; /* the CSV, or NULL */
     size_t nonfinite;
     bar progress;
     int show_progress;
@@ -259,8 +259,8 @@ static hf_status on_condition(void *ctx, const hf_load *l, const hf_balance_resu
     return HF_OK;
 }
 
-static hf_status on_load_end(void *ctx, const hf_load *l, hf_status intact,
-                             const double offset[3], hf_error *err)
+static hf_status on_load_end(void *ctx, const hf_load *l, hf_status intact, const double offset[3],
+                             hf_error *err)
 {
     sink_ctx *c = ctx;
     (void)l, (void)intact, (void)offset, (void)err;

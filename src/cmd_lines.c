@@ -139,9 +139,10 @@ static hf_status write_profiles(const char *dir, const hf_model *m, const hf_spr
 int hf_cmd_lines(int argc, char **argv)
 {
     const char *cmd = "lines", *profiles = NULL;
-    const hf_cli_opt extra[] = {
-        {.name = "--profiles", .missing = "--profiles needs a directory", .nonempty = 1,
-         .value = &profiles}};
+    const hf_cli_opt extra[] = {{.name = "--profiles",
+                                 .missing = "--profiles needs a directory",
+                                 .nonempty = 1,
+                                 .value = &profiles}};
     hf_cli_pose_cmd pc;
     int rc = hf_cli_pose_cmd_begin(&pc, argc, argv, cmd, usage_text, extra, 1);
     if (rc != HF_CLI_CONTINUE)

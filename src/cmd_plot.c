@@ -153,8 +153,8 @@ static int parse_args(int argc, char **argv, const char *cmd, plot_args *a)
 
 /* The curve's direction and range: the options, else the case's first
  * curve study, else 0 deg and -20:20:0.5. */
-static hf_status curve_setup(const hf_study_list *sl, const plot_args *a, double *dir,
-                             double *from, double *step, size_t *n, hf_error *err)
+static hf_status curve_setup(const hf_study_list *sl, const plot_args *a, double *dir, double *from,
+                             double *step, size_t *n, hf_error *err)
 {
     double to = 20;
     *dir = 0;
@@ -168,8 +168,8 @@ static hf_status curve_setup(const hf_study_list *sl, const plot_args *a, double
             *step = sl->v[k].step;
             break;
         }
-    if (a->direction && hf_cli_parse_value("--direction", a->direction, HF_DIM_ANGLE, dir, err) !=
-                            HF_OK)
+    if (a->direction &&
+        hf_cli_parse_value("--direction", a->direction, HF_DIM_ANGLE, dir, err) != HF_OK)
         return err->status;
     if (a->range)
         return hf_cli_parse_range(a->range, from, &to, step, MAX_POINTS, n, err);
@@ -191,10 +191,9 @@ static hf_status draw(FILE *out, const hf_model *m, const hf_study_list *sl, con
             size_t k = hf_model_load_find(m, a->load);
             const char *near = k == (size_t)-1 ? hf_cli_suggest_model(m, 1, a->load) : NULL;
             if (k == (size_t)-1)
-                return hf_error_set(err, HF_EINVAL,
-                                    "--load: the case has no load case named '%s'%s%s%s", a->load,
-                                    near ? "; did you mean '" : "", near ? near : "",
-                                    near ? "'?" : "");
+                return hf_error_set(
+                    err, HF_EINVAL, "--load: the case has no load case named '%s'%s%s%s", a->load,
+                    near ? "; did you mean '" : "", near ? near : "", near ? "'?" : "");
             ld = &m->loads[k];
         }
         hf_pose pose;

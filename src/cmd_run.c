@@ -147,8 +147,8 @@ static hf_status write_summary(const hf_model *m, const hf_study_list *sl, const
 /* Every study, the report and the summary into dir.  Returns the exit
  * status the studies call for; *st is the status of the report and summary
  * files (their message in err). */
-static int run_all(const hf_model *m, const hf_study_list *sl, const char *dir,
-                   const run_args *a, hf_studyrun_outcome *oc, hf_status *st, hf_error *err)
+static int run_all(const hf_model *m, const hf_study_list *sl, const char *dir, const run_args *a,
+                   hf_studyrun_outcome *oc, hf_status *st, hf_error *err)
 {
     char path[HF_RUNFOLDER_PATH_MAX + 64];
     /* The report is written alongside the studies and committed last. */

@@ -92,8 +92,8 @@ hf_status hf_runfolder_begin(hf_runfolder *rf, const char *dir, hf_error *err)
                             rf->dir, HF_RUNFOLDER_STAMP);
     snprintf(rf->tmp, sizeof rf->tmp, "%s.partial-XXXXXX", rf->dir);
     if (!mkdtemp(rf->tmp)) {
-        hf_status s = hf_error_set(err, HF_EIO, "%s: cannot create a folder beside it: %s",
-                                   rf->dir, strerror(errno));
+        hf_status s = hf_error_set(err, HF_EIO, "%s: cannot create a folder beside it: %s", rf->dir,
+                                   strerror(errno));
         rf->tmp[0] = '\0';
         return s;
     }
@@ -116,8 +116,9 @@ hf_status hf_runfolder_commit(hf_runfolder *rf, hf_error *err)
     char old[HF_RUNFOLDER_PATH_MAX + 32];
     int kind = classify(rf->dir), had = kind > 0;
     if (kind < 0 || kind == 3)
-        return hf_error_set(err, HF_EIO, "%s: changed during the run (now neither empty nor a "
-                                         "holdfast results folder); the new run is in %s",
+        return hf_error_set(err, HF_EIO,
+                            "%s: changed during the run (now neither empty nor a "
+                            "holdfast results folder); the new run is in %s",
                             rf->dir, rf->tmp);
     if (had) {
         /* rename onto an empty directory replaces it (POSIX rename) */
@@ -125,8 +126,9 @@ hf_status hf_runfolder_commit(hf_runfolder *rf, hf_error *err)
         if (!mkdtemp(old) || rename(rf->dir, old) != 0) {
             int e = errno;
             rmdir(old);
-            return hf_error_set(err, HF_EIO, "%s: cannot move the earlier run aside: %s; the new "
-                                             "run is in %s",
+            return hf_error_set(err, HF_EIO,
+                                "%s: cannot move the earlier run aside: %s; the new "
+                                "run is in %s",
                                 rf->dir, strerror(e), rf->tmp);
         }
     }

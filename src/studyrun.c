@@ -103,14 +103,12 @@ static void output_label(const hf_sweep_table *t, char *buf, size_t cap)
     if (c->kind == HF_OUT_OFFSET && c->sub == 2)
         axis_label(t->col_names[0], "deg", "deg", buf, cap);
     else
-        axis_label(t->col_names[0], info ? info->unit : "", info ? info->unit_text : "", buf,
-                   cap);
+        axis_label(t->col_names[0], info ? info->unit : "", info ? info->unit_text : "", buf, cap);
 }
 
 /* Axis label of varied parameter j of t: the column's unit after the path
  * ("site.depth_m", "..._N_per_m"), read for people ("N/m"). */
-static void vary_label(const hf_sweep_table *t, const hf_study *s, size_t j, char *buf,
-                       size_t cap)
+static void vary_label(const hf_sweep_table *t, const hf_study *s, size_t j, char *buf, size_t cap)
 {
     const char *name = t->vary_names[j];
     size_t np = strlen(s->vary[j].path);
@@ -155,8 +153,7 @@ static int sweep_shape(const hf_study *s, const hf_study_grid *g, size_t *ix, si
 
 /* Legend entries of the curves: the values of parameter ic, for people
  * (degrees for angles, kN for forces), into names (96 bytes each). */
-static void sweep_legend(const hf_study *s, size_t ic, size_t ncurves, char *names,
-                         const char **cn)
+static void sweep_legend(const hf_study *s, size_t ic, size_t ncurves, char *names, const char **cn)
 {
     hf_dim d = s->vary[ic].dim;
     double scale = d == HF_DIM_ANGLE ? 180.0 / M_PI : d == HF_DIM_FORCE ? 1e-3 : 1.0;
@@ -199,8 +196,17 @@ static void sweep_figure(hf_report *rep, const hf_model *m, const hf_study *s,
         const char *lt = strrchr(s->vary[ic].path, '.');
         lt = lt ? lt + 1 : s->vary[ic].path;
         double fi = m->criteria.factor_intact;
-        hf_svg_sweep sw = {s->name, xl, yl, n, ncurves, x, y, ncurves > 1 ? cn : NULL,
-                           ncurves > 1 ? lt : NULL, util && fi > 0, fi > 0 ? 1.0 / fi : 0.0,
+        hf_svg_sweep sw = {s->name,
+                           xl,
+                           yl,
+                           n,
+                           ncurves,
+                           x,
+                           y,
+                           ncurves > 1 ? cn : NULL,
+                           ncurves > 1 ? lt : NULL,
+                           util && fi > 0,
+                           fi > 0 ? 1.0 / fi : 0.0,
                            "intact limit 1/factor"};
         hf_error e;
         hf_error_clear(&e);
@@ -420,7 +426,8 @@ static void balance_check(const balance_ctx *c, const hf_load *l, const hf_balan
         snprintf(req, sizeof req, "MBL/T at least %s%s", a,
                  r->offset_checked ? "; offset within the limit" : "");
     else
-        snprintf(req, sizeof req, "%s", r->offset_checked ? "offset within the limit" : "equilibrium");
+        snprintf(req, sizeof req, "%s",
+                 r->offset_checked ? "offset within the limit" : "equilibrium");
     if (r->status != HF_OK) {
         snprintf(res, sizeof res, "%s%s%.180s", hf_status_str(r->status), r->message[0] ? ": " : "",
                  r->message);
@@ -434,8 +441,7 @@ static void balance_check(const balance_ctx *c, const hf_load *l, const hf_balan
     hf_report_check(c->rep, item, req, res, r->passed);
 }
 
-static hf_status balance_row(void *ctx, const hf_load *l, const hf_balance_result *r,
-                             hf_error *err)
+static hf_status balance_row(void *ctx, const hf_load *l, const hf_balance_result *r, hf_error *err)
 {
     balance_ctx *c = ctx;
     (void)err;
@@ -445,8 +451,8 @@ static hf_status balance_row(void *ctx, const hf_load *l, const hf_balance_resul
 }
 
 /* After a load case: the plan at its intact equilibrium. */
-static hf_status balance_plan(void *ctx, const hf_load *l, hf_status intact,
-                              const double offset[3], hf_error *err)
+static hf_status balance_plan(void *ctx, const hf_load *l, hf_status intact, const double offset[3],
+                              hf_error *err)
 {
     balance_ctx *c = ctx;
     (void)err;

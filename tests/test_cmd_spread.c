@@ -393,7 +393,7 @@ static void test_man_page_complete(void **state)
     size_t n;
     char *man = hf_test_file_read(path, &n);
     assert_non_null(man);
-    static const char *const cmds[] = {"check", "lines", "curve", "stiffness", "balance",
+    static const char *const cmds[] = {"check", "lines", "curve",  "stiffness", "balance",
                                        "run",   "sweep", "invert", "plot"};
     for (size_t c = 0; c < sizeof cmds / sizeof cmds[0]; c++) {
         assert_int_equal(HF_TEST_RUN(&quiet, cmds[c], "--help"), 0);
@@ -404,8 +404,7 @@ static void test_man_page_complete(void **state)
                 opt[k++] = *q;
             opt[k] = '\0';
             if (k > 4 && strcmp(opt + 4, "help") != 0 && !strstr(man, opt))
-                fail_msg("docs/holdfast.1 does not mention --%s of '%s --help'", opt + 4,
-                         cmds[c]);
+                fail_msg("docs/holdfast.1 does not mention --%s of '%s --help'", opt + 4, cmds[c]);
         }
     }
     assert_int_equal(HF_TEST_RUN(&quiet, "lines", small, "--csv", "-"), 0);
@@ -423,8 +422,7 @@ int main(void)
         cmocka_unit_test(test_stiffness_oc3_csv),      cmocka_unit_test(test_curve_against_lines),
         cmocka_unit_test(test_curve_stiffness_column), cmocka_unit_test(test_curve_table_and_file),
         cmocka_unit_test(test_lines_csv_and_profiles), cmocka_unit_test(test_usage_errors),
-        cmocka_unit_test(test_man_page_complete),
-        cmocka_unit_test(test_numerical_failure),
+        cmocka_unit_test(test_man_page_complete),      cmocka_unit_test(test_numerical_failure),
     };
     return cmocka_run_group_tests(tests, setup, teardown);
 }

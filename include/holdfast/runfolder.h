@@ -22,8 +22,8 @@
 #define HF_RUNFOLDER_PATH_MAX 4000
 
 typedef struct {
-    char dir[HF_RUNFOLDER_PATH_MAX + 1];       /* the final folder (trailing '/' removed) */
-    char tmp[HF_RUNFOLDER_PATH_MAX + 32];      /* the sibling being built */
+    char dir[HF_RUNFOLDER_PATH_MAX + 1];  /* the final folder (trailing '/' removed) */
+    char tmp[HF_RUNFOLDER_PATH_MAX + 32]; /* the sibling being built */
 } hf_runfolder;
 
 /* Checks `dir` (it may be missing, empty, or an earlier holdfast results
