@@ -38,6 +38,15 @@ double hf_analysis_allowed_tension(const hf_model *m, size_t i)
     return f > 0 && isfinite(mbl) ? mbl / f : 0.0;
 }
 
+void hf_analysis_profile_point(const hf_model *m, const hf_spread_result *r, size_t i,
+                               const hf_line_point *p, double g[3])
+{
+    const double *d = r->geom[i].dir;
+    g[0] = m->lines[i].anchor[0] + p->x * d[0];
+    g[1] = m->lines[i].anchor[1] + p->x * d[1];
+    g[2] = -hf_model_water_height(m) + p->z;
+}
+
 /* ---- curve ---- */
 
 /* Allocates n (or n * nlines) elements of size sz, or NULL on overflow. */

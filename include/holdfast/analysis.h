@@ -49,6 +49,12 @@ hf_status hf_analysis_pose_solve(hf_analysis_pose *a, const hf_model *m, const d
  * intact factor of the criteria (N); 0 when there is no factor or no MBL. */
 double hf_analysis_allowed_tension(const hf_model *m, size_t i);
 
+/* Global position g (x, y, z in m; z = 0 the still water level) of profile
+ * point p of line i (hf_line_profile: x from the anchor in the line's
+ * vertical plane, z above the flat seabed) in the solve r of m. */
+void hf_analysis_profile_point(const hf_model *m, const hf_spread_result *r, size_t i,
+                               const hf_line_point *p, double g[3]);
+
 /* ---- restoring curve ---- */
 
 /* A restoring curve: n offsets from `from` by `step` along `direction`
