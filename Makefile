@@ -85,9 +85,9 @@ $(file >$(BUILD)/flags,$(FLAGS_NOW))
 endif
 endif
 
+# (Recreated here when a goal such as `clean all` removed it after parsing.)
 $(BUILD)/flags:
-	@mkdir -p $(dir $@)
-	$(file >$@,$(FLAGS_NOW))
+	$(shell mkdir -p $(dir $@))$(file >$@,$(FLAGS_NOW))
 
 $(BUILD)/obj/%.o: src/%.c $(BUILD)/flags
 	@mkdir -p $(dir $@)

@@ -323,6 +323,13 @@ hf_balance *hf_balance_alloc(const hf_model *m, hf_error *err)
         r->status = HF_CONTINUE;
         r->max_tension_line = r->max_utilisation_line = r->criterion_line = HF_BALANCE_NONE;
     }
+    hf_balance_refresh(b);
+    return b;
+}
+
+void hf_balance_refresh(hf_balance *b)
+{
+    const hf_model *m = b->m;
     hf_spread_pose_rest(m, &b->rest);
     /* length scales: fairlead radius for yaw, anchor radius for the search */
     b->lref = 1.0;
@@ -338,7 +345,6 @@ hf_balance *hf_balance_alloc(const hf_model *m, hf_error *err)
     }
     if (!(b->radius > 0.0))
         b->radius = b->lref;
-    return b;
 }
 
 void hf_balance_reset(hf_balance *b)

@@ -350,6 +350,12 @@ hf_status hf_env_mean_load(const hf_env_hull *h, const hf_environment *e, double
     out->total_global[0] = c * out->total_hull[0] - sn * out->total_hull[1];
     out->total_global[1] = sn * out->total_hull[0] + c * out->total_hull[1];
     out->total_global[2] = out->total_hull[2];
+    for (int i = 0; i < 3; i++)
+        if (!isfinite(out->total_global[i]) || !isfinite(out->total_hull[i]))
+            return hf_error_set(err, HF_EINVAL,
+                                "environment %s: the mean load overflows (speeds, areas or "
+                                "coefficients too large)",
+                                ename(e));
     return HF_OK;
 }
 
@@ -533,6 +539,11 @@ hf_status hf_env_motion(const hf_env_hull *h, const hf_environment *e, double ya
         st = lf_dof(&out->spectrum, h, e, rel, i, ws, &out->dof[i], err);
         if (st == HF_OK)
             st = wf_dof(&out->spectrum, h, e, rel, i, ws, &out->dof[i], err);
+        const hf_env_dof *d = &out->dof[i];
+        if (st == HF_OK && !isfinite(d->lf_max + d->wf_max + d->lf_var_white + d->wf_tz))
+            st = hf_error_set(err, HF_EINVAL,
+                              "environment %s: the %s motion overflows (inputs too large)",
+                              ename(e), dof_name[i]);
     }
     return st;
 }

@@ -42,6 +42,8 @@ static hf_status output_at(problem *p, double x, double *y)
     hf_status st = hf_model_param_set(&p->model, &p->param, x, &p->err);
     if (st != HF_OK)
         return st;
+    if (p->bal)
+        hf_balance_refresh(p->bal); /* the rest pose of this value */
     return hf_sweep_output_eval(&p->model, p->ws, p->bal, p->o, y, &p->err);
 }
 
@@ -123,6 +125,7 @@ hf_status hf_invert_solve(const hf_model *m, const char *path, double lo, double
     double ends[2] = {lo, hi}, f[2];
     for (int i = 0; i < 2; i++) {
         hf_spread_reset(p.ws);
+        hf_balance_reset(p.bal);
         hf_status s = output_at(&p, ends[i], &f[i]);
         if (s != HF_OK) {
             st = hf_error_set(err, HF_ERANGE,
@@ -181,6 +184,7 @@ hf_status hf_invert_solve(const hf_model *m, const char *path, double lo, double
     }
     /* Verify from a cold start: the value must meet the target on its own. */
     hf_spread_reset(p.ws);
+    hf_balance_reset(p.bal);
     double y;
     hf_status s = output_at(&p, root, &y);
     if (s != HF_OK) {

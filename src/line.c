@@ -37,14 +37,17 @@ void hf_line_options_default(hf_line_options *o)
     o->max_shrink = 60;
     o->max_polish = 20;
     o->max_laid = 200;
+    o->ftol = 1e-7;
+    o->max_refine = 4;
 }
 
 /* Options in range: rtol finite in (0, 1e-2), every limit >= 1. */
 static int options_ok(const hf_line_options *o)
 {
-    return isfinite(o->rtol) && o->rtol > 0.0 && o->rtol < 1e-2 && o->max_iter >= 1 &&
-           o->max_backtrack >= 1 && o->max_bracket >= 1 && o->max_shrink >= 1 &&
-           o->max_polish >= 1 && o->max_laid >= 1;
+    return isfinite(o->rtol) && o->rtol > 0.0 && o->rtol < 1e-2 && isfinite(o->ftol) &&
+           o->ftol > 0.0 && o->ftol < 1e-2 && o->max_iter >= 1 && o->max_backtrack >= 1 &&
+           o->max_bracket >= 1 && o->max_shrink >= 1 && o->max_polish >= 1 &&
+           o->max_laid >= 1 && o->max_refine >= 0;
 }
 
 /* sqrt(a^2 + b^2) without glibc hypot's cost; hypot only where squaring
@@ -627,6 +630,63 @@ static hf_status newton_test(const newton_t *s)
                                                                               : HF_CONTINUE;
 }
 
+/* The Newton correction (dH, dV) = -J^-1 r at the current walk.  Returns 0
+ * when J is singular or the correction not finite. */
+static int newton_dir(const newton_t *s, const walk_t *w, double *dH, double *dV)
+{
+    const double(*J)[2] = (const double(*)[2])w->J;
+    double rx = w->x - s->X, rz = w->z - s->Z;
+    double det = J[0][0] * J[1][1] - J[0][1] * J[1][0];
+    if (!(fabs(det) > 0.0) || !isfinite(det))
+        return 0;
+    *dH = (-rx * J[1][1] + rz * J[0][1]) / det;
+    *dV = (-rz * J[0][0] + rx * J[1][0]) / det;
+    return isfinite(*dH) && isfinite(*dV);
+}
+
+/* Estimated relative error of the forces: the remaining Newton correction
+ * over the fairlead tension, max(|dH| / H, |dV| / T) (H relative to itself:
+ * a nearly laid line has tiny H that matters to its anchor).  +inf when the
+ * correction is unknown. */
+static double force_error(const newton_t *s, const walk_t *w)
+{
+    double dH, dV;
+    if (!newton_dir(s, w, &dH, &dV))
+        return INFINITY;
+    double T = mag(s->H, s->V);
+    return fmax(fabs(dH) / s->H, fabs(dV) / T);
+}
+
+/* Converging on the forces as well as on the span (issue 12 item 14): where
+ * the span is insensitive to the forces (a nearly laid line: tiny H moves x
+ * by almost nothing) the span test holds while H is still off.  Full Newton
+ * steps are taken while the estimated force error exceeds ftol and the span
+ * stays within tolerance, at most max_refine of them; at the rounding floor
+ * the correction is noise and the loop ends on the limit. */
+static void refine_forces(newton_t *s, double ftol, int max_refine)
+{
+    for (int i = 0; i < max_refine; i++) {
+        double dH, dV;
+        if (force_error(s, s->w) <= ftol || !newton_dir(s, s->w, &dH, &dV))
+            return;
+        double H = s->H + dH, V = s->V + dV;
+        if (!(H > 0.0))
+            return;
+        s->evals++;
+        if (walk(s->line, H, V, s->trial) != HF_OK)
+            return;
+        double f = merit(s, s->trial);
+        if (!isfinite(f) || fabs(s->trial->x - s->X) > s->tol || fabs(s->trial->z - s->Z) > s->tol)
+            return;
+        s->H = H;
+        s->V = V;
+        walk_t *t = s->w;
+        s->w = s->trial;
+        s->trial = t;
+        s->f = f;
+    }
+}
+
 /* One damped Newton step.  HF_OK when it reduced the merit, HF_ENOCONV when
  * the step direction failed (singular Jacobian, no descent). */
 static hf_status newton_iterate(newton_t *s)
@@ -1101,8 +1161,10 @@ static hf_status newton_solve(newton_t *s, const hf_line_options *opt, double H0
         ns = newton_iterate(s);
         (*it)++;
     }
-    if (ns == HF_OK && newton_test(s) == HF_OK)
+    if (ns == HF_OK && newton_test(s) == HF_OK) {
+        refine_forces(s, opt->ftol, opt->max_refine);
         return HF_OK;
+    }
     ns = fallback(s, opt);
     for (int j = 0; ns == HF_OK && newton_test(s) == HF_CONTINUE && j < opt->max_polish;
          j++, (*it)++)
@@ -1110,6 +1172,8 @@ static hf_status newton_solve(newton_t *s, const hf_line_options *opt, double H0
             break;
     if (ns == HF_OK && newton_test(s) != HF_OK)
         ns = HF_ENOCONV;
+    if (ns == HF_OK)
+        refine_forces(s, opt->ftol, opt->max_refine);
     return ns;
 }
 
@@ -1164,6 +1228,8 @@ static hf_status state_from_walk(const hf_line *line, const newton_t *s, int sla
     sections_from_walk(line, w, s->H, st);
     stiffness_from_flex(w->J, st);
     st->residual = fmax(fabs(w->x - s->X), fabs(w->z - s->Z)) / s->scale;
+    double fe = force_error(s, w);
+    st->force_error = isfinite(fe) ? fe : 1.0;
     return HF_OK;
 }
 
@@ -1207,7 +1273,7 @@ hf_status hf_line_solve(const hf_line *line, double X, double Z, const hf_line_s
     st->x = isfinite(X) ? X : 0.0;
     st->z = isfinite(Z) ? Z : 0.0;
     if (!options_ok(opt))
-        return fail(st, HF_EINVAL, "invalid line solver options (rtol in (0, 0.01), limits >= 1)");
+        return fail(st, HF_EINVAL, "invalid line solver options (rtol, ftol in (0, 0.01), limits >= 1)");
     if (hf_line_check(line, NULL) != HF_OK)
         return fail(st, HF_EINVAL, "invalid line data (check lengths, weights, EA, MBL)");
     st->n = line->n;

@@ -1,10 +1,20 @@
-/* outfile.c - atomic output files: temporary file, then rename on commit. */
+/* outfile.c - atomic output files: temporary file, then rename on commit.
+ *
+ * Signals: SIGINT, SIGTERM, SIGHUP and SIGPIPE remove the pending temporary
+ * files and then end the process as the signal would have; SIGXFSZ (a file
+ * size limit, `ulimit -f`, was reached) is ignored, so the write fails with
+ * EFBIG instead of killing the process, and the commit reports it
+ * (HF_EIO, exit status 2) and removes the temporary file.  At exit() any
+ * temporary file still pending (an output neither committed nor aborted) is
+ * removed too. */
 #include <errno.h>
 #include <pthread.h>
 #include <signal.h>
+#include <stdatomic.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/resource.h>
 #include <sys/stat.h>
 #include <unistd.h>
 #include "holdfast/alloc.h"
@@ -18,26 +28,51 @@ struct hf_outfile {
     int slot;       /* index in the cleanup registry, -1 if none */
 };
 
-/* Temporary files to remove if a signal kills the process.  Signal handlers
- * may only call async-signal-safe functions: unlink() is one. */
+/* Temporary files to remove if a signal kills the process or it exits
+ * with outputs neither committed nor aborted.  Signal handlers may only call
+ * async-signal-safe functions: unlink() and getpid() are.  A forked child
+ * inherits the registry but not the files: only the process that created
+ * a file (pending_pid) removes it. */
 #define MAX_OPEN 64
 static char *volatile pending[MAX_OPEN];
+static volatile pid_t pending_pid[MAX_OPEN];
 static int handlers_installed;
+/* Nonzero while hf_outfile_open creates and registers a temporary file.
+ * That thread blocks the signals, but a process signal may be handled on
+ * another thread (an idle OpenMP worker does not share the mask): the
+ * handler then waits for the registration, so the new file is removed too.
+ * A lock-free atomic is async-signal-safe (C11 7.14.1.1). */
+static atomic_int creating;
+
+static void remove_pending(void)
+{
+    pid_t self = getpid();
+    for (int i = 0; i < MAX_OPEN; i++)
+        if (pending[i] && pending_pid[i] == self)
+            unlink(pending[i]);
+}
 
 static void on_signal(int sig)
 {
-    for (int i = 0; i < MAX_OPEN; i++)
-        if (pending[i])
-            unlink(pending[i]);
+    while (atomic_load(&creating))
+        ; /* another thread is between mkstemp and the registry */
+    remove_pending();
     signal(sig, SIG_DFL);
     raise(sig);
 }
 
-static void install_handlers(void)
+void hf_outfile_signals_install(void)
 {
     if (handlers_installed)
         return;
     handlers_installed = 1;
+    /* An output left open at exit (an error path that forgot to abort it)
+     * leaves no temporary file behind either. */
+    atexit(remove_pending);
+    /* Past a file size limit the kernel sends SIGXFSZ, whose default action
+     * kills the process before any cleanup; ignored, write() fails with
+     * EFBIG instead (POSIX, setrlimit RLIMIT_FSIZE). */
+    signal(SIGXFSZ, SIG_IGN);
     int sigs[] = {SIGINT, SIGTERM, SIGHUP, SIGPIPE};
     for (size_t i = 0; i < sizeof sigs / sizeof sigs[0]; i++) {
         struct sigaction sa;
@@ -52,6 +87,7 @@ static int register_tmp(char *tmp)
 {
     for (int i = 0; i < MAX_OPEN; i++)
         if (!pending[i]) {
+            pending_pid[i] = getpid();
             pending[i] = tmp;
             return i;
         }
@@ -75,6 +111,7 @@ hf_outfile *hf_outfile_open(const char *path, hf_error *err)
         return NULL;
     }
     f->slot = -1;
+    hf_outfile_signals_install();
     if (strcmp(path, "-") == 0) {
         f->fp = stdout;
         f->is_stdout = 1;
@@ -101,9 +138,9 @@ hf_outfile *hf_outfile_open(const char *path, hf_error *err)
     const char *slash = strrchr(path, '/');
     int dirlen = slash ? (int)(slash - path + 1) : 0;
     snprintf(f->tmp, n, "%.*s.%s.tmpXXXXXX", dirlen, path, slash ? slash + 1 : path);
-    install_handlers();
     /* Block the cleanup signals while the file exists but is not yet
-     * registered, so a kill in between cannot leave it behind. */
+     * registered, so a kill in between cannot leave it behind; a handler
+     * on another thread waits for `creating` to clear. */
     sigset_t block, old;
     sigemptyset(&block);
     sigaddset(&block, SIGINT);
@@ -111,10 +148,12 @@ hf_outfile *hf_outfile_open(const char *path, hf_error *err)
     sigaddset(&block, SIGHUP);
     sigaddset(&block, SIGPIPE);
     pthread_sigmask(SIG_BLOCK, &block, &old);
+    atomic_store(&creating, 1);
     int fd = mkstemp(f->tmp);
+    int saved = errno;
     if (fd >= 0)
         f->slot = register_tmp(f->tmp);
-    int saved = errno;
+    atomic_store(&creating, 0);
     pthread_sigmask(SIG_SETMASK, &old, NULL);
     if (fd < 0) {
         hf_error_set(err, HF_EIO, "%s: cannot create a file there: %s", path, strerror(saved));
@@ -140,6 +179,18 @@ FILE *hf_outfile_stream(hf_outfile *f)
     return f->fp;
 }
 
+/* 1 when the open file fd has reached the process's file size limit. */
+static int hit_size_limit(int fd)
+{
+    struct rlimit rl;
+    struct stat st;
+    if (getrlimit(RLIMIT_FSIZE, &rl) != 0 || rl.rlim_cur == RLIM_INFINITY)
+        return 0;
+    if (fstat(fd, &st) != 0 || !S_ISREG(st.st_mode))
+        return 0;
+    return (rlim_t)st.st_size >= rl.rlim_cur;
+}
+
 hf_status hf_outfile_commit(hf_outfile *f, hf_error *err)
 {
     hf_status st = HF_OK;
@@ -149,15 +200,25 @@ hf_status hf_outfile_commit(hf_outfile *f, hf_error *err)
         release(f);
         return st;
     }
-    int bad = ferror(f->fp);
-    if (fflush(f->fp) != 0)
-        bad = 1;
+    /* errno of the first failing call here; 0 when only an earlier write
+     * failed (stdio keeps the error flag, not its cause). */
+    int bad = ferror(f->fp), why = 0;
+    errno = 0;
+    if (fflush(f->fp) != 0 && !why)
+        bad = 1, why = errno;
     if (f->tmp && !bad && fsync(fileno(f->fp)) != 0)
-        bad = 1;
-    if (fclose(f->fp) != 0)
-        bad = 1;
+        bad = 1, why = errno;
+    int fd = fileno(f->fp);
+    int too_big = bad && hit_size_limit(fd);
+    if (fclose(f->fp) != 0 && !why)
+        bad = 1, why = errno;
     if (bad) {
-        st = hf_error_set(err, HF_EIO, "%s: write failed: %s", f->path, strerror(errno));
+        if (too_big || why == EFBIG)
+            st = hf_error_set(err, HF_EIO, "%s: write failed: the file size limit (ulimit -f) "
+                              "was reached; the file was not written", f->path);
+        else
+            st = hf_error_set(err, HF_EIO, "%s: write failed: %s", f->path,
+                              why ? strerror(why) : "an earlier write to it failed");
         if (f->tmp)
             unlink(f->tmp);
     } else if (f->tmp && rename(f->tmp, f->path) != 0) {

@@ -154,6 +154,10 @@ static hf_status evaluate(thread_state *t, uint64_t k)
     hf_status st = t->solved;
     if (st != HF_OK)
         return st;
+    /* The balance starts from the rest pose of this case (hull.heading and
+     * position, anchors and fairleads may be varied). */
+    if (t->bal)
+        hf_balance_refresh(t->bal);
     for (size_t b = 0; b < s->nbal; b++) {
         hf_status bs = HF_ENOMEM;
         const hf_balance_result *r = NULL;
@@ -315,13 +319,7 @@ static int sweep_row(void *state, uint64_t k, int start, int emit, char *buf, si
     thread_state *t = state;
     if (start) {
         hf_spread_reset(t->ws);
-        /* hf_balance keeps warm starts with no public reset: a fresh workspace
-         * per chain keeps the offsets independent of thread and shard (one
-         * allocation per HF_STUDY_CHAIN cases, only with offset outputs). */
-        if (t->plan->nbal) {
-            hf_balance_free(t->bal);
-            t->bal = hf_balance_alloc(&t->model, NULL);
-        }
+        hf_balance_reset(t->bal); /* NULL without offset outputs */
     }
     hf_status st = evaluate(t, k);
     if (!emit)
@@ -698,10 +696,7 @@ hf_status hf_sweep_case_row(hf_sweep *s, uint64_t k, char *buf, size_t cap, hf_e
         return hf_error_set(err, HF_ELIMIT, "sweep: a row needs up to %zu bytes", s->row_cap);
     thread_state *t = s->th[0];
     hf_spread_reset(t->ws);
-    if (s->nbal) {
-        hf_balance_free(t->bal);
-        t->bal = hf_balance_alloc(&t->model, NULL);
-    }
+    hf_balance_reset(t->bal);
     hf_status st = evaluate(t, k);
     format_row(t, k, st, buf, cap);
     return HF_OK;

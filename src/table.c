@@ -534,6 +534,8 @@ void hf_table_eval(const hf_table *t, double w, double heading, double v[3])
 hf_status hf_table_heading_check(const hf_table *t, double heading, double max_gap,
                                  const char *what, hf_error *err)
 {
+    if (!what)
+        what = "table";
     if (!isfinite(heading))
         return hf_error_set(err, HF_EINVAL, "%s: relative heading is not finite", what);
     double h = wrap(heading);

@@ -2,7 +2,8 @@
  * mean loads, wave-frequency and slow-drift motions, the oscillator integral
  * against its closed form and against time-domain simulation (GSL random
  * numbers and odeiv2), statistics, the design offset and every refusal.
- * All hulls and tables here are invented (a fictional barge). */
+ * All hulls and tables here are invented (the fictional barge of
+ * cases/barge.yaml, "Kestrel Deep 3"). */
 #include <math.h>
 #include <setjmp.h>
 #include <stdarg.h>
@@ -58,19 +59,20 @@ static hf_table *load(const char *rel, hf_table_kind k)
     return t;
 }
 
-/* The invented barge "Saltmere Gannet" (tests/data/env): 96 m x 28 m. */
+/* The fictional barge "Kestrel Deep 3" of cases/barge.yaml (120 m x 36 m)
+ * with invented masses and the invented tables of tests/data/env. */
 static void barge_hull(hf_env_hull *h)
 {
     hf_env_hull_default(h);
-    h->inertia[0] = 1.43e7 * 1.05; /* mass 14 300 t, surge added mass 5 % */
-    h->inertia[1] = 1.43e7 * 1.62;
-    h->inertia[2] = 1.43e7 * 1.62 * 29.5 * 29.5;
+    h->inertia[0] = 2.21e7 * 1.05; /* mass 22 100 t, surge added mass 5 % */
+    h->inertia[1] = 2.21e7 * 1.62;
+    h->inertia[2] = 2.21e7 * 1.62 * 36.0 * 36.0; /* radius of gyration 36 m */
     h->damping[0] = 0.06;
     h->damping[1] = 0.08;
     h->damping[2] = 0.07;
     h->wind_area = 612.0;
     h->current_area = 499.2;
-    h->length = 96.0;
+    h->length = 120.0;
     h->water_density = 1025.0;
 }
 
@@ -127,11 +129,11 @@ static void test_wind_current(void **state)
     double qa = 0.5 * 1.225 * 27.4 * 27.4 * 612.0;
     rel_near(m.wind[0], qa * 0.310, 1e-12, "wind Fx");
     rel_near(m.wind[1], qa * 0.788, 1e-12, "wind Fy");
-    rel_near(m.wind[2], qa * 96.0 * 0.074, 1e-12, "wind Mz");
+    rel_near(m.wind[2], qa * 120.0 * 0.074, 1e-12, "wind Mz");
     double qc = 0.5 * 1025.0 * 1.37 * 1.37 * 499.2;
     rel_near(m.current[0], qc * -0.416, 1e-12, "current Fx"); /* 210,-0.416,-0.415,0.055 */
     rel_near(m.current[1], qc * -0.415, 1e-12, "current Fy");
-    rel_near(m.current[2], qc * 96.0 * 0.055, 1e-12, "current Mz");
+    rel_near(m.current[2], qc * 120.0 * 0.055, 1e-12, "current Mz");
     assert_true(m.drift[0] == 0.0 && m.drift[1] == 0.0 && m.drift[2] == 0.0);
     double fx = m.total_hull[0], fy = m.total_hull[1];
     rel_near(m.total_global[0], fx * cos(yaw) - fy * sin(yaw), 1e-12, "global Fx");
@@ -652,6 +654,13 @@ static void test_refusals(void **state)
     refused(&h, &e, 0.0, HF_EINVAL, "positive hull wind_area", NULL);
     h.wind_area = 612.0;
     OK(hf_env_check(&h, &e, 0.0, ws, NULL, E_));
+    /* a finite but absurd wind: the load overflows and is refused, not printed */
+    hf_env_mean mn;
+    e.wind.speed = 1e160;
+    hf_error_clear(&er);
+    assert_int_equal(hf_env_mean_load(&h, &e, 0.0, ws, &mn, &er), HF_EINVAL);
+    assert_non_null(strstr(er.text, "overflows"));
+    e.wind.speed = 23.0;
     /* motions: stiffness must be positive; the storm longer than a period */
     hf_env_motion_result m;
     const double k0[3] = {9.2e4, -1.0, 4.4e9};
@@ -659,7 +668,7 @@ static void test_refusals(void **state)
     assert_int_equal(hf_env_motion(&h, &e, 0.0, k0, ws, &m, &er), HF_EUNSUPPORTED);
     assert_non_null(strstr(er.text, "sway stiffness"));
     const double k1[3] = {9.2e4, 1.6e5, 4.4e9};
-    e.duration = 50.0; /* shorter than the surge natural period (~82 s) */
+    e.duration = 50.0; /* shorter than the surge natural period (~100 s) */
     assert_int_equal(hf_env_motion(&h, &e, 0.0, k1, ws, &m, &er), HF_EINVAL);
     assert_non_null(strstr(er.text, "shorter than one period"));
     /* no waves: no motion, natural periods still reported */

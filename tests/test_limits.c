@@ -704,6 +704,122 @@ static void killed_run_leaves_whole_files(void **state)
     hf_test_tmpdir_remove(tmp);
 }
 
+/* ---- a file size limit (ulimit -f) on the CLI (issue 12 item 11) ---- */
+
+/* Runs argv (argv[0] a path) in a fresh process under RLIMIT_FSIZE = limit
+ * bytes with SIGXFSZ at its default action (as a shell leaves it), standard
+ * output to /dev/null and standard error into errbuf.  Returns the exit
+ * status, or 128 + the signal that ended it. */
+static int run_size_limited(const char *const argv[], rlim_t limit, char *errbuf, size_t cap)
+{
+    int p[2];
+    assert_int_equal(pipe(p), 0);
+    pid_t pid = fork();
+    assert_true(pid >= 0);
+    if (pid == 0) {
+        close(p[0]);
+        signal(SIGXFSZ, SIG_DFL); /* exec keeps an ignored signal ignored */
+        struct rlimit rl = {limit, limit};
+        int nul = open("/dev/null", O_WRONLY);
+        if (setrlimit(RLIMIT_FSIZE, &rl) != 0 || nul < 0)
+            _exit(120);
+        dup2(nul, 1);
+        dup2(p[1], 2);
+        execv(argv[0], (char *const *)argv);
+        _exit(127);
+    }
+    close(p[1]);
+    size_t n = 0;
+    char junk[512];
+    for (;;) { /* read to the end; what does not fit is dropped */
+        size_t room = cap - 1 - n;
+        ssize_t k = read(p[0], room ? errbuf + n : junk, room ? room : sizeof junk);
+        if (k <= 0)
+            break;
+        if (room)
+            n += (size_t)k;
+    }
+    errbuf[n] = '\0';
+    close(p[0]);
+    int ws;
+    assert_int_equal(waitpid(pid, &ws, 0), pid);
+    return WIFSIGNALED(ws) ? 128 + WTERMSIG(ws) : WEXITSTATUS(ws);
+}
+
+/* Number of temporary files ("." name with ".tmp") under dir, recursively. */
+static int count_tmp(const char *dir)
+{
+    DIR *d = opendir(dir);
+    if (!d)
+        return 0;
+    int n = 0;
+    struct dirent *e;
+    while ((e = readdir(d)) != NULL) {
+        if (!strcmp(e->d_name, ".") || !strcmp(e->d_name, ".."))
+            continue;
+        char p[2048];
+        snprintf(p, sizeof p, "%s/%s", dir, e->d_name);
+        struct stat st;
+        if (lstat(p, &st) == 0 && S_ISDIR(st.st_mode))
+            n += count_tmp(p);
+        else if (e->d_name[0] == '.' && strstr(e->d_name, ".tmp"))
+            n++;
+    }
+    closedir(d);
+    return n;
+}
+
+/* Before the fix the kernel's SIGXFSZ killed holdfast mid-write (exit
+ * 128 + 25) and left .NAME.tmpXXXXXX files; now each command exits 2 with
+ * a message and leaves no temporary file, and no file under a target name
+ * that the limit cut short. */
+static void file_size_limit_cli(void **state)
+{
+    (void)state;
+    const char *bin = getenv("HF_BIN"), *root = getenv("HF_ROOT");
+    if (!bin || !root)
+        fail_msg("HF_BIN and HF_ROOT must be set (make check sets them)");
+    char tmp[256], casefile[1100], csv[1100], prof[1100], run[1100], err[4096];
+    assert_int_equal(hf_test_tmpdir_make(tmp, sizeof tmp, "fsize"), 0);
+    snprintf(casefile, sizeof casefile, "%s/cases/barge.yaml", root);
+    snprintf(csv, sizeof csv, "%s/sweep.csv", tmp);
+    snprintf(prof, sizeof prof, "%s/profiles", tmp);
+    snprintf(run, sizeof run, "%s/run", tmp);
+
+    /* A 20,001-row sweep CSV (about 2 MB) under a 64 KiB limit. */
+    const char *sweep[] = {bin,   "sweep", casefile, "--vary", "site.water_level=-1:1:0.0001",
+                           "--csv", csv,   "--quiet", NULL};
+    int rc = run_size_limited(sweep, 65536, err, sizeof err);
+    if (rc != 2)
+        fail_msg("sweep under ulimit -f: exit %d, expected 2; stderr: %s", rc, err);
+    assert_non_null(strstr(err, "holdfast"));
+    struct stat st;
+    if (stat(csv, &st) == 0)
+        fail_msg("%s exists (%lld bytes) although its writing failed", csv,
+                 (long long)st.st_size);
+
+    /* Line profiles (one CSV per line) under a 4 KiB limit. */
+    const char *lines[] = {bin, "lines", casefile, "--profiles", prof, NULL};
+    rc = run_size_limited(lines, 4096, err, sizeof err);
+    if (rc != 2)
+        fail_msg("lines --profiles under ulimit -f: exit %d, expected 2; stderr: %s", rc, err);
+    assert_non_null(strstr(err, "file size limit"));
+
+    /* A whole run folder under a 64 KiB limit (the report is larger). */
+    const char *runargv[] = {bin, "run", casefile, "--out", run, "--quiet", NULL};
+    rc = run_size_limited(runargv, 65536, err, sizeof err);
+    if (rc != 2)
+        fail_msg("run under ulimit -f: exit %d, expected 2; stderr: %s", rc, err);
+    assert_true(err[0] != '\0');
+
+    int left = count_tmp(tmp);
+    if (left)
+        fail_msg("%d temporary files left under %s", left, tmp);
+    printf("limits: sweep, lines --profiles and run under a file size limit: exit 2, "
+           "no temporary file left\n");
+    hf_test_tmpdir_remove(tmp);
+}
+
 int main(void)
 {
     hf_gsl_handler_install();
@@ -717,6 +833,7 @@ int main(void)
         cmocka_unit_test(sections_limit),
         cmocka_unit_test(fuzz_regressions),
         cmocka_unit_test(killed_run_leaves_whole_files),
+        cmocka_unit_test(file_size_limit_cli),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
 }

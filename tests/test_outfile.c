@@ -262,6 +262,78 @@ static void failed_write_leaves_nothing(void **state)
     assert_int_equal(count_entries(fx->dir, NULL, 0), 0);
 }
 
+/* The same under a file size limit without the caller ignoring SIGXFSZ
+ * (issue 12 item 11): the module ignores it from its first open on, so the
+ * child is not killed (before, it died of SIGXFSZ and left
+ * .results.csv.tmpXXXXXX); the commit fails with a message naming the file
+ * and the limit, and nothing is left.  test_limits.c checks the same for the
+ * program, in a fresh process. */
+static void file_size_limit_is_an_error_not_a_signal(void **state)
+{
+    fixture *fx = *state;
+    pid_t pid = fork();
+    assert_true(pid >= 0);
+    if (pid == 0) {
+        struct rlimit rl = {8192, 8192};
+        if (setrlimit(RLIMIT_FSIZE, &rl) != 0)
+            _exit(10);
+        hf_error err;
+        hf_error_clear(&err);
+        hf_outfile *o = hf_outfile_open(fx->path, &err);
+        if (!o)
+            _exit(11);
+        struct sigaction sa;
+        if (sigaction(SIGXFSZ, NULL, &sa) != 0 || sa.sa_handler != SIG_IGN)
+            _exit(14);
+        for (int i = 0; i < 5000; i++)
+            fprintf(hf_outfile_stream(o), "%d,%.9g\n", i, 2.385 * i);
+        hf_status st = hf_outfile_commit(o, &err);
+        if (st != HF_EIO || !strstr(err.text, fx->path))
+            _exit(12);
+        if (!strstr(err.text, "file size limit"))
+            _exit(13);
+        _exit(0);
+    }
+    int ws;
+    assert_int_equal(waitpid(pid, &ws, 0), pid);
+    if (WIFSIGNALED(ws))
+        fail_msg("the child was killed by signal %d (SIGXFSZ is %d)", WTERMSIG(ws), SIGXFSZ);
+    assert_true(WIFEXITED(ws));
+    assert_int_equal(WEXITSTATUS(ws), 0);
+    assert_int_equal(count_entries(fx->dir, NULL, 0), 0);
+}
+
+/* An output neither committed nor aborted when the process exits (an error
+ * path that forgot it) leaves no temporary file; a forked child that exits
+ * does not remove its parent's temporary file. */
+static void exit_removes_forgotten_outputs(void **state)
+{
+    fixture *fx = *state;
+    pid_t pid = fork();
+    assert_true(pid >= 0);
+    if (pid == 0) {
+        hf_error err;
+        hf_outfile *o = hf_outfile_open(fx->path, &err);
+        if (!o)
+            _exit(11);
+        fputs("forgotten,2.385\n", hf_outfile_stream(o));
+        fflush(hf_outfile_stream(o));
+        pid_t g = fork();
+        if (g < 0)
+            _exit(12);
+        if (g == 0)
+            exit(0); /* runs the atexit handlers of the copy */
+        int ws;
+        if (waitpid(g, &ws, 0) != g || !WIFEXITED(ws))
+            _exit(13);
+        if (count_entries(fx->dir, NULL, 0) != 1) /* still there */
+            _exit(14);
+        exit(0); /* without commit or abort */
+    }
+    expect_exit_0(pid);
+    assert_int_equal(count_entries(fx->dir, NULL, 0), 0);
+}
+
 /* /dev/full is a device: written in place, and every write fails (ENOSPC). */
 static void device_write_failure_is_reported(void **state)
 {
@@ -657,6 +729,8 @@ int main(void)
         T(missing_directory_is_an_io_error),
         T(a_directory_as_target_is_an_io_error),
         T(failed_write_leaves_nothing),
+        T(file_size_limit_is_an_error_not_a_signal),
+        T(exit_removes_forgotten_outputs),
         T(device_write_failure_is_reported),
         T(dev_null_is_written_in_place),
         T(fifo_is_written_in_place),

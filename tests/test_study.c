@@ -63,6 +63,62 @@ static void test_vary_count(void **s)
     assert_near(hf_study_vary_value(&v, 1000000), 1e5, 1e-9);
 }
 
+/* The one range rule at its edges (issue 12 item 5).  The count of
+ * FROM:TO:STEP is the number of grid points FROM + i STEP up to TO; the
+ * rounding of TO - FROM is about one ulp of the values' magnitude (IEEE 754
+ * round-to-nearest: Goldberg 1991, cited above), so the end point must be
+ * recognised with a tolerance relative to the values, not only the step. */
+static void test_range_count_edges(void **s)
+{
+    (void)s;
+    /* 366, 366.00001, ..., 366.0001: 11 points although (TO - FROM) / STEP
+     * rounds to 9.99999999962 */
+    assert_int_equal(hf_study_range_count(366.0, 366.0001, 0.00001, 1000), 11);
+    hf_vary v = range("a", 366.0, 366.0001, 0.00001);
+    assert_int_equal(hf_study_vary_count(&v), 11);
+    assert_near(hf_study_vary_value(&v, 10), 366.0001, 0.0); /* TO itself */
+    assert_near(hf_study_vary_value(&v, 5), 366.00005, 1e-12);
+    /* the same far from zero and descending */
+    assert_int_equal(hf_study_range_count(1e6 + 0.0003, 1e6, -0.0001, 1000), 4);
+    assert_int_equal(hf_study_range_count(-366.0001, -366.0, 0.00001, 1000), 11);
+    /* a point just short of TO by more than rounding is not TO: 0, 0.3, 0.6, 0.9 */
+    assert_int_equal(hf_study_range_count(0.0, 1.0, 0.3, 1000), 4);
+    assert_int_equal(hf_study_range_count(0.0, 0.999999, 0.1, 1000), 10);
+    assert_int_equal(hf_study_range_count(366.0, 366.0000999, 0.00001, 1000), 10);
+    /* one point, the limit, invalid ranges */
+    assert_int_equal(hf_study_range_count(2.385, 2.385, 0.5, 1000), 1);
+    assert_int_equal(hf_study_range_count(0.0, 99.0, 1.0, 100), 100);
+    assert_int_equal(hf_study_range_count(0.0, 100.0, 1.0, 100), 101); /* max + 1: over */
+    assert_int_equal(hf_study_range_count(0.0, 1.0, 0.0, 1000), 0);
+    assert_int_equal(hf_study_range_count(0.0, 1.0, -0.5, 1000), 0);
+    assert_int_equal(hf_study_range_count(NAN, 1.0, 0.5, 1000), 0);
+    assert_int_equal(hf_study_range_count(-1e308, 1e308, 1.0, 1000), 0); /* span overflows */
+    assert_int_equal(hf_study_range_count(0.0, 1.0, 4.9e-324, 1000), 1001);
+}
+
+static void test_study_list(void **s)
+{
+    (void)s;
+    hf_study_list l;
+    hf_study_list_init(&l);
+    assert_int_equal(l.n, 0);
+    hf_study_list_free(&l); /* empty: nothing to free */
+    hf_study_list_free(NULL);
+    l.v = hf_calloc(2, sizeof *l.v);
+    assert_non_null(l.v);
+    l.n = 2;
+    l.v[0].name = hf_strdup("a");
+    l.v[1].nvary = 1;
+    l.v[1].vary = hf_calloc(1, sizeof *l.v[1].vary);
+    assert_non_null(l.v[1].vary);
+    l.v[1].vary[0].path = hf_strdup("site.depth");
+    hf_study_list_free(&l); /* everything owned is released (checked by the sanitizer runs) */
+    assert_int_equal(l.n, 0);
+    assert_null(l.v);
+    assert_string_equal(hf_study_kind_name(HF_STUDY_INVERT), "invert");
+    assert_string_equal(hf_study_kind_name((hf_study_kind)99), "?");
+}
+
 static void test_grid_factorial(void **s)
 {
     (void)s;
@@ -356,6 +412,8 @@ int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_vary_count),
+        cmocka_unit_test(test_range_count_edges),
+        cmocka_unit_test(test_study_list),
         cmocka_unit_test(test_grid_factorial),
         cmocka_unit_test(test_grid_zip),
         cmocka_unit_test(test_grid_errors),

@@ -10,6 +10,7 @@
 #include <cmocka.h>
 #include "support.h"
 #include "holdfast/alloc.h"
+#include "holdfast/balance.h"
 #include "holdfast/case.h"
 #include "holdfast/invert.h"
 #include "holdfast/spread.h"
@@ -398,6 +399,190 @@ static void test_invert_not_bracketed(void **s)
     assert_non_null(strstr(e.text, "lower end"));
 }
 
+/* The table in memory holds the numbers the CSV prints (hf_csv's 10
+ * significant digits: relative 1e-9), with the row cap respected, and a run
+ * into the table alone gives bit-identical values. */
+static void test_table_matches_csv(void **s)
+{
+    (void)s;
+    hf_vary v[2];
+    memset(v, 0, sizeof v);
+    double heads[] = {-7.5, 12.25};
+    v[0].path = "hull.heading";
+    v[0].nvalues = 2;
+    v[0].values = heads;
+    v[1].path = "site.water_level";
+    v[1].from = -0.85;
+    v[1].to = 1.235;
+    v[1].step = 0.695;
+    for (int i = 0; i < 2; i++)
+        heads[i] *= M_PI / 180.0;
+    const char *outs[] = {"fairlead_tension", "max_tension", "stiffness_yaw", "offset_gale"};
+    hf_error e;
+    hf_sweep *sw = hf_sweep_alloc(&model, v, 2, 0, outs, 4, 2, &e);
+    assert_non_null(sw);
+    hf_sweep_table *t = hf_sweep_table_alloc(sw, 5, &e);
+    hf_sweep_table *t2 = hf_sweep_table_alloc(sw, 100, &e);
+    assert_non_null(t);
+    assert_non_null(t2);
+    assert_null(hf_sweep_table_alloc(sw, 0, &e));
+    assert_int_equal(t->nvary, 2);
+    assert_int_equal(t->ncols, 3 + 2 + 1 + 3);
+    assert_string_equal(t->vary_names[0], "hull.heading_deg");
+    assert_string_equal(t->col_names[1], "T_southwest_kN");
+    assert_string_equal(t->col_names[4], "max_tension_line");
+    assert_string_equal(t->col_names[5], "stiffness_yaw_kNm_per_rad");
+    assert_string_equal(t->col_names[8], "offset_gale_yaw_deg");
+    char *text = NULL;
+    size_t len = 0;
+    FILE *f = open_memstream(&text, &len);
+    hf_sweep_range r = {1, 8, NULL, NULL, NULL};
+    assert_int_equal(hf_sweep_run(sw, &r, f, t, &e), HF_OK);
+    fclose(f);
+    assert_int_equal(t->first, 1);
+    assert_int_equal(t->total, 7);
+    assert_int_equal(t->nrows, 5); /* the cap */
+    assert_int_equal(t->failed, 0);
+    const char *row = text;
+    for (uint64_t i = 0; i < t->nrows; i++) {
+        char word[64];
+        assert_true(fabs(field(row, 0, NULL, 0) - t->vary[i * 2]) <= 1e-9 * fabs(t->vary[i * 2]));
+        field(row, 2, word, sizeof word);
+        assert_string_equal(word, "ok");
+        for (size_t c = 0; c < t->ncols; c++) {
+            double x = t->out[i * t->ncols + c];
+            if (hf_output_column_is_line(&t->cols[c])) {
+                field(row, 3 + (int)c, word, sizeof word);
+                assert_string_equal(word, model.lines[(size_t)x].name);
+                continue;
+            }
+            double y = field(row, 3 + (int)c, NULL, 0);
+            if (!(fabs(x - y) <= 1e-9 * fabs(x) + 1e-300))
+                fail_msg("row %llu column %s: table %.17g, CSV %.17g", (unsigned long long)i,
+                         t->col_names[c], x, y);
+        }
+        row = strchr(row, '\n') + 1;
+    }
+    /* the table alone: the same numbers, every row */
+    assert_int_equal(hf_sweep_run(sw, &r, NULL, t2, &e), HF_OK);
+
+    assert_int_equal(t2->nrows, 7);
+    for (size_t i = 0; i < 5 * t->ncols; i++)
+        if (memcmp(&t2->out[i], &t->out[i], sizeof(double)))
+            fail_msg("value %zu (%s): %.17g then %.17g", i, t->col_names[i % t->ncols], t->out[i],
+                     t2->out[i]);
+    assert_int_equal(hf_sweep_run(sw, &r, NULL, NULL, &e), HF_EINVAL);
+    /* The offsets are those of a balance solved on the case itself: with
+     * hull.heading varied, the equilibrium is found from that heading's rest
+     * pose (a stale rest pose gave the yaw offset from the first heading). */
+    for (uint64_t i = 0; i < t2->nrows; i++) {
+        hf_model copy;
+        hf_model_init(&copy);
+        assert_int_equal(hf_model_copy(&copy, &model), HF_OK);
+        hf_param ph, pw;
+        assert_int_equal(hf_model_param_lookup(&copy, "hull.heading", &ph, &e), HF_OK);
+        assert_int_equal(hf_model_param_lookup(&copy, "site.water_level", &pw, &e), HF_OK);
+        assert_int_equal(hf_model_param_set(&copy, &ph, t2->vary[i * 2] * M_PI / 180.0, &e), HF_OK);
+        assert_int_equal(hf_model_param_set(&copy, &pw, t2->vary[i * 2 + 1], &e), HF_OK);
+        hf_balance *b = hf_balance_alloc(&copy, &e);
+        assert_non_null(b);
+        assert_int_equal(hf_balance_solve(b, &copy.loads[0], 0, &e), HF_OK);
+        const double *u = hf_balance_result_at(b, 0)->offset;
+        for (int k = 0; k < 3; k++) {
+            double want = k == 2 ? u[2] * 180.0 / M_PI : u[k];
+            double got = t2->out[i * t2->ncols + 6 + (size_t)k];
+            if (!(fabs(got - want) <= 1e-6 * (1.0 + fabs(want))))
+                fail_msg("case %llu offset %d: sweep %.12g, direct %.12g",
+                         (unsigned long long)(i + t2->first), k, got, want);
+        }
+        hf_balance_free(b);
+        hf_model_free(&copy);
+    }
+    free(text);
+    hf_sweep_table_free(t);
+    hf_sweep_table_free(t2);
+    hf_sweep_table_free(NULL);
+    hf_sweep_free(sw);
+}
+
+/* A case whose load finds no equilibrium (a 1e12 N push on a spread whose
+ * lines break near 5e6 N) has no outputs at all: the docs say a failed row is
+ * empty, so the rest-pose tensions of that case must not appear either
+ * (issue 12 item 7). */
+static void test_failed_row_is_empty(void **s)
+{
+    (void)s;
+    double force[] = {400e3, 1e12};
+    hf_vary v;
+    memset(&v, 0, sizeof v);
+    v.path = "loads[gale].force";
+    v.nvalues = 2;
+    v.values = force;
+    const char *outs[] = {"offset_gale", "fairlead_tension:north", "max_utilisation"};
+    hf_error e;
+    hf_sweep *sw = hf_sweep_alloc(&model, &v, 1, 0, outs, 3, 1, &e);
+    assert_non_null(sw);
+    char buf[4096];
+    assert_int_equal(hf_sweep_case_row(sw, 1, buf, sizeof buf, &e), HF_OK);
+    assert_string_equal(buf, "1e+12,no_equilibrium,,,,,,\n");
+    assert_int_equal(hf_sweep_case_row(sw, 0, buf, sizeof buf, &e), HF_OK);
+    assert_true(!strncmp(buf, "400000,ok,", 10));
+    hf_sweep_table *t = hf_sweep_table_alloc(sw, 2, &e);
+    hf_sweep_range r = {0, 2, NULL, NULL, NULL};
+    assert_int_equal(hf_sweep_run(sw, &r, NULL, t, &e), HF_OK);
+    assert_int_equal(t->status[1], HF_ENOEQUIL);
+    assert_int_equal(t->failed, 1);
+    for (size_t c = 0; c < t->ncols; c++)
+        assert_true(isnan(t->out[t->ncols + c]));
+    hf_sweep_table_free(t);
+    hf_sweep_free(sw);
+}
+
+/* One parameter varied twice, through any spelling, is refused naming both
+ * (issue 12 item 3). */
+static void test_vary_twice_refused(void **s)
+{
+    (void)s;
+    static const char *const pairs[][2] = {
+        {"site.depth", "site.depth"},
+        {"lines[0].sections[0].length", "lines[north].sections[0].length"},
+        {"components.chain76.diameter", "components[chain76].diameter"},
+        {"lines[1].anchor_radius", "lines[southwest].anchor.x"},
+        {"lines[southwest].anchor.y", "lines[1].anchor_radius"},
+    };
+    for (size_t i = 0; i < sizeof pairs / sizeof pairs[0]; i++) {
+        hf_vary v[2];
+        memset(v, 0, sizeof v);
+        double vals[] = {1.5, 2.5};
+        for (int j = 0; j < 2; j++) {
+            v[j].path = (char *)pairs[i][j];
+            v[j].nvalues = 2;
+            v[j].values = vals;
+        }
+        hf_error e;
+        hf_error_clear(&e);
+        hf_sweep *sw = hf_sweep_alloc(&model, v, 2, 0, NULL, 0, 1, &e);
+        if (sw)
+            fail_msg("%s with %s: accepted", pairs[i][0], pairs[i][1]);
+        assert_int_equal(e.status, HF_EINVAL);
+        assert_non_null(strstr(e.text, pairs[i][0]));
+        assert_non_null(strstr(e.text, pairs[i][1]));
+        assert_non_null(strstr(e.text, "varied twice"));
+    }
+    /* different parameters of one line are fine */
+    hf_vary v[2];
+    memset(v, 0, sizeof v);
+    double vals[] = {100.5, 120.5};
+    v[0].path = "lines[0].sections[0].length";
+    v[1].path = "lines[0].sections[2].length";
+    v[0].nvalues = v[1].nvalues = 2;
+    v[0].values = v[1].values = vals;
+    hf_error e;
+    hf_sweep *sw = hf_sweep_alloc(&model, v, 2, 0, NULL, 0, 1, &e);
+    assert_non_null(sw);
+    hf_sweep_free(sw);
+}
+
 static void test_alloc_failures(void **s)
 {
     (void)s;
@@ -435,6 +620,9 @@ int main(void)
         cmocka_unit_test(test_invert_clump_for_stiffness),
         cmocka_unit_test(test_invert_published_catenary),
         cmocka_unit_test(test_invert_not_bracketed),
+        cmocka_unit_test(test_table_matches_csv),
+        cmocka_unit_test(test_failed_row_is_empty),
+        cmocka_unit_test(test_vary_twice_refused),
         cmocka_unit_test(test_alloc_failures),
     };
     return cmocka_run_group_tests(tests, setup, teardown);

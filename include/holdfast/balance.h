@@ -119,6 +119,14 @@ size_t hf_balance_footprint(const hf_balance *b);
 /* Releases a workspace and its results.  NULL is allowed. */
 void hf_balance_free(hf_balance *b);
 
+/* Re-reads what the workspace derives from its model at allocation (the
+ * rest pose, the length scales of the search) after the model's parameters
+ * were changed in place (a sweep or an inversion varying hull.heading, an
+ * anchor, a fairlead...), so the next solve starts from the model's rest
+ * pose as it is now.  Warm starts are kept (hf_balance_reset forgets them).
+ * Allocates nothing. */
+void hf_balance_refresh(hf_balance *b);
+
 /* Forgets every warm start: the line states of the spread workspace and the
  * remembered intact equilibrium, so the next solve depends only on its input
  * (sweeps use this to make results independent of the order of cases). */

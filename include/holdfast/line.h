@@ -79,6 +79,11 @@ typedef struct {
     double grounded;       /* unstretched length resting on the seabed, m */
     double stiffness[2][2];/* d(h,v)/d(x,z), N/m: [0][0]=dH/dX [0][1]=dH/dZ [1][0]=dV/dX [1][1]=dV/dZ */
     double residual;       /* forward-map residual at exit, relative to the line's length scale */
+    double force_error;    /* estimated relative error of the forces at exit: the remaining
+                            * Newton correction, max(|dH|/H, |dV|/T); 0 for the closed-form
+                            * regimes (slack, vertical, laid).  Near 1e-9 or below for common
+                            * lines; larger only where rounding of the span limits it (see
+                            * docs/theory.md, "Attainable accuracy") */
     double max_utilisation;/* largest section utilisation, - */
     size_t max_section;    /* index of the section with max_utilisation */
     size_t n;              /* number of sections, copied from the line */
@@ -99,6 +104,10 @@ typedef struct {
     int max_polish;     /* Newton iterations after the fallback; default 20 */
     int max_laid;       /* Newton iterations on H for a taut line laid on the seabed (Z = 0);
                          * default 200 */
+    double ftol;        /* forces: once the span has converged, full Newton steps continue
+                         * while the estimated force error (hf_line_state.force_error)
+                         * exceeds ftol; in (0, 0.01); default 1e-9 */
+    int max_refine;     /* at most this many such steps (0: span test only); default 4 */
 } hf_line_options;
 
 /* Fills o with the documented defaults. */

@@ -4,7 +4,10 @@
  * temporary file in the same directory and renamed over the target only on
  * commit; "-" means standard output, and pipes, devices and FIFOs are
  * written in place (they cannot be renamed).  Temporary files still open
- * when the process gets SIGINT, SIGTERM or SIGHUP are removed before it dies. */
+ * when the process gets SIGINT, SIGTERM, SIGHUP or SIGPIPE are removed
+ * before it dies.  SIGXFSZ is ignored from the first open on, so a file size
+ * limit (`ulimit -f`) makes writes fail and the commit report it (HF_EIO),
+ * removing the temporary file, instead of killing the process. */
 #ifndef HOLDFAST_OUTFILE_H
 #define HOLDFAST_OUTFILE_H
 
@@ -12,6 +15,16 @@
 #include "holdfast/status.h"
 
 typedef struct hf_outfile hf_outfile;
+
+/* Installs the module's signal dispositions once per process (idempotent):
+ * handlers for SIGINT, SIGTERM, SIGHUP and SIGPIPE that remove pending
+ * temporary files and re-raise, SIGXFSZ ignored, and an atexit() handler
+ * that removes temporary files of outputs never committed or aborted (only
+ * in the process that installed it, not in forked children).  hf_outfile_open calls
+ * it; a program calls it at start-up so that its writes to standard output
+ * outside an outfile also fail with EFBIG at a file size limit instead of
+ * being killed. */
+void hf_outfile_signals_install(void);
 
 /* Opens `path` for writing ("-" = stdout).  Returns NULL with err filled
  * (HF_EIO, HF_ENOMEM) on failure.  Nothing is visible under `path` until
