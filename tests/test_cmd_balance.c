@@ -349,7 +349,6 @@ static void test_output_is_input_and_suggestion(void **state)
     char *after = hf_test_file_read(pass_case, &n1);
     assert_int_equal(n0, n1);
     assert_memory_equal(before, after, n0);
-    free(before);
     free(after);
     assert_int_equal(HF_TEST_RUN(&both, "balance", pass_case, "--load", "breze"), 2);
     assert_non_null(strstr(out, "did you mean \"breeze\""));
@@ -357,6 +356,26 @@ static void test_output_is_input_and_suggestion(void **state)
     assert_null(strstr(out, "did you mean"));
     assert_int_equal(HF_TEST_RUN(&both, "balance", pass_case, "--csv="), 2);
     assert_non_null(strstr(out, "empty name"));
+    /* every command that writes a CSV: refused before anything is printed */
+    assert_int_equal(HF_TEST_RUN(&both, "sweep", pass_case, "--vary", "site.depth=18m:19m:1m",
+                                 "--csv", pass_case),
+                     2);
+    assert_non_null(strstr(out, "same file"));
+    assert_int_equal(HF_TEST_RUN(&both, "invert", pass_case, "--vary",
+                                 "lines[ne].sections[0].length=140:150", "--target",
+                                 "fairlead_tension:ne=20kN", "--csv="),
+                     2);
+    assert_true(strncmp(out, "holdfast invert: --csv", 22) == 0);
+    assert_int_equal(HF_TEST_RUN(&both, "curve", pass_case, "--direction", "10", "--range",
+                                 "0:1:1", "--csv", alias),
+                     2);
+    assert_int_equal(HF_TEST_RUN(&both, "plot", pass_case, "--figure", "plan", "--out", alias),
+                     2);
+    after = hf_test_file_read(pass_case, &n1);
+    assert_int_equal(n0, n1);
+    assert_memory_equal(before, after, n0);
+    free(before);
+    free(after);
 }
 
 /* Issue 12 item 13: a balance run shows its progress on a terminal
