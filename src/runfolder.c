@@ -12,6 +12,21 @@ static const char stamp_text[] =
     "holdfast results folder: written by 'holdfast run' and replaced as a whole by the next\n"
     "run into this folder.  Do not keep other files here.\n";
 
+/* 1 when d is a results folder of a holdfast from before the stamp: its
+ * summary.txt starts with "holdfast " (the line every run writes first). */
+static int legacy(const char *d)
+{
+    char p[HF_RUNFOLDER_PATH_MAX + 32], head[16] = "";
+    snprintf(p, sizeof p, "%s/summary.txt", d);
+    FILE *f = fopen(p, "r");
+    if (!f)
+        return 0;
+    size_t n = fread(head, 1, 9, f);
+    fclose(f);
+    head[n] = '\0';
+    return !strcmp(head, "holdfast ");
+}
+
 /* Classifies folder d: 0 missing, 1 empty, 2 holdfast results folder,
  * 3 something else (not a directory, or other files); -1 unreadable. */
 static int classify(const char *d)
@@ -33,7 +48,7 @@ static int classify(const char *d)
         stamped |= !strcmp(e->d_name, HF_RUNFOLDER_STAMP);
     }
     closedir(dp);
-    return !any ? 1 : stamped ? 2 : 3;
+    return !any ? 1 : stamped || legacy(d) ? 2 : 3;
 }
 
 /* Deletes the regular files in d, then d (a results folder holds no
