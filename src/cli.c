@@ -159,10 +159,20 @@ static int take_option(int argc, char **argv, int *i, const char *cmd, const hf_
 int hf_cli_parse_case_args(int argc, char **argv, const char *cmd, const char *usage,
                            const hf_cli_opt *opts, size_t nopts, const char **case_path)
 {
+    return hf_cli_parse_case_args_help(argc, argv, cmd, usage, NULL, opts, nopts, case_path);
+}
+
+int hf_cli_parse_case_args_help(int argc, char **argv, const char *cmd, const char *usage,
+                                void (*more)(FILE *out), const hf_cli_opt *opts, size_t nopts,
+                                const char **case_path)
+{
     const char *path = NULL;
     for (int i = 1; i < argc; i++) {
-        if (hf_cli_help(argv[i], usage))
+        if (hf_cli_help(argv[i], usage)) {
+            if (more)
+                more(stdout);
             return HF_EXIT_OK;
+        }
         int taken = 0;
         for (size_t k = 0; k < nopts && !taken; k++)
             taken = take_option(argc, argv, &i, cmd, &opts[k]);

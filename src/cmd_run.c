@@ -4,6 +4,7 @@
 #include "holdfast/alloc.h"
 #include "holdfast/cli.h"
 #include "holdfast/outfile.h"
+#include "holdfast/outputs.h"
 #include "holdfast/report.h"
 #include "holdfast/runfolder.h"
 #include "holdfast/studyrun.h"
@@ -60,6 +61,18 @@ static int severity(hf_status st)
     return hf_status_exit_code(st) == HF_EXIT_USAGE ? 3 : 2;
 }
 
+/* The rest of --help, from the library's tables: the study kinds (the
+ * study list) and the outputs of sweep studies and invert targets (the
+ * output catalogue). */
+static void more_help(FILE *out)
+{
+    fprintf(out, "\nstudy kinds:");
+    for (int k = 0; k <= HF_STUDY_INVERT; k++)
+        fprintf(out, " %s", hf_study_kind_name((hf_study_kind)k));
+    fprintf(out, "\n\noutputs of sweep studies (outputs:) and invert targets (target:):\n");
+    hf_output_write_help(out, "  ");
+}
+
 /* The options of one run. */
 typedef struct {
     const char *case_path, *dir;
@@ -76,7 +89,8 @@ static int parse_args(int argc, char **argv, run_args *a)
         HF_CLI_OPT_FLAG("--quiet", &quiet), HF_CLI_OPT_FLAG("-q", &quiet)};
     a->dir = NULL;
     a->jobs = 0;
-    int rc = hf_cli_parse_case_args(argc, argv, "run", usage_text, opts, 4, &a->case_path);
+    int rc = hf_cli_parse_case_args_help(argc, argv, "run", usage_text, more_help, opts, 4,
+                                         &a->case_path);
     if (rc != HF_CLI_CONTINUE)
         return rc;
     hf_error e;

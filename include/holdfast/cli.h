@@ -125,6 +125,13 @@ typedef struct {
 int hf_cli_parse_case_args(int argc, char **argv, const char *cmd, const char *usage,
                            const hf_cli_opt *opts, size_t nopts, const char **case_path);
 
+/* As hf_cli_parse_case_args; after `usage`, --help also calls more(stdout)
+ * (when not NULL) for text built from the library's tables (the study
+ * kinds, the output catalogue). */
+int hf_cli_parse_case_args_help(int argc, char **argv, const char *cmd, const char *usage,
+                                void (*more)(FILE *out), const hf_cli_opt *opts, size_t nopts,
+                                const char **case_path);
+
 /* Initialises m and loads the case at path into it (hf_cli_load).  Returns
  * HF_CLI_CONTINUE, or after printing the message (hf_cli_fail) its exit
  * status, m then empty. */
