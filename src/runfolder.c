@@ -28,12 +28,15 @@ static int legacy(const char *d)
 }
 
 /* Classifies folder d: 0 missing, 1 empty, 2 holdfast results folder,
- * 3 something else (not a directory, or other files); -1 unreadable. */
+ * 3 something else (not a directory, or other files), 4 a symbolic link;
+ * -1 unreadable. */
 static int classify(const char *d)
 {
     struct stat st;
-    if (stat(d, &st) != 0)
+    if (lstat(d, &st) != 0)
         return errno == ENOENT ? 0 : -1;
+    if (S_ISLNK(st.st_mode)) /* never followed: its target would be replaced */
+        return 4;
     if (!S_ISDIR(st.st_mode))
         return 3;
     DIR *dp = opendir(d);
@@ -99,6 +102,9 @@ hf_status hf_runfolder_begin(hf_runfolder *rf, const char *dir, hf_error *err)
     if (kind < 0)
         return hf_error_set(err, HF_EIO, "%s: cannot read the results folder: %s", rf->dir,
                             strerror(errno));
+    if (kind == 4)
+        return hf_error_set(err, HF_EINVAL,
+                            "%s: is a symbolic link; give the results folder itself", rf->dir);
     if (kind == 3)
         return hf_error_set(err, HF_EINVAL,
                             "%s: exists and is not an empty folder or a holdfast results folder "
@@ -130,7 +136,7 @@ hf_status hf_runfolder_commit(hf_runfolder *rf, hf_error *err)
 {
     char old[HF_RUNFOLDER_PATH_MAX + 32];
     int kind = classify(rf->dir), had = kind > 0;
-    if (kind < 0 || kind == 3)
+    if (kind < 0 || kind >= 3)
         return hf_error_set(err, HF_EIO,
                             "%s: changed during the run (now neither empty nor a "
                             "holdfast results folder); the new run is in %s",
