@@ -366,11 +366,10 @@ static void test_output_is_input_and_suggestion(void **state)
                                  "fairlead_tension:ne=20kN", "--csv="),
                      2);
     assert_true(strncmp(out, "holdfast invert: --csv", 22) == 0);
-    assert_int_equal(HF_TEST_RUN(&both, "curve", pass_case, "--direction", "10", "--range",
-                                 "0:1:1", "--csv", alias),
+    assert_int_equal(HF_TEST_RUN(&both, "curve", pass_case, "--direction", "10", "--range", "0:1:1",
+                                 "--csv", alias),
                      2);
-    assert_int_equal(HF_TEST_RUN(&both, "plot", pass_case, "--figure", "plan", "--out", alias),
-                     2);
+    assert_int_equal(HF_TEST_RUN(&both, "plot", pass_case, "--figure", "plan", "--out", alias), 2);
     after = hf_test_file_read(pass_case, &n1);
     assert_int_equal(n0, n1);
     assert_memory_equal(before, after, n0);

@@ -441,8 +441,8 @@ int main(void)
         cmocka_unit_test(test_stiffness_oc3_csv),      cmocka_unit_test(test_curve_against_lines),
         cmocka_unit_test(test_curve_stiffness_column), cmocka_unit_test(test_curve_table_and_file),
         cmocka_unit_test(test_lines_csv_and_profiles), cmocka_unit_test(test_usage_errors),
-        cmocka_unit_test(test_man_page_complete),
-        cmocka_unit_test(test_profile_is_the_case),      cmocka_unit_test(test_numerical_failure),
+        cmocka_unit_test(test_man_page_complete),      cmocka_unit_test(test_profile_is_the_case),
+        cmocka_unit_test(test_numerical_failure),
     };
     return cmocka_run_group_tests(tests, setup, teardown);
 }
