@@ -4,6 +4,7 @@
 #include "holdfast/alloc.h"
 #include "holdfast/analysis.h"
 #include "holdfast/criteria.h"
+#include "holdfast/study.h"
 
 void hf_analysis_pose_init(hf_analysis_pose *a)
 {
@@ -147,9 +148,9 @@ static void point_fail(hf_analysis_curve *c, size_t k, double s, hf_status st, c
 }
 
 hf_status hf_analysis_curve_compute(hf_analysis_curve *c, const hf_model *m, double direction,
-                                    double from, double step, hf_error *err)
+                                    double from, double to, double step, hf_error *err)
 {
-    if (!isfinite(direction) || !isfinite(from) || !isfinite(step))
+    if (!isfinite(direction) || !isfinite(from) || !isfinite(to) || !isfinite(step))
         return hf_error_set(err, HF_EINVAL, "curve: direction, start and step must be finite");
     hf_spread *ws = hf_spread_alloc(m, err);
     if (!ws)
@@ -159,10 +160,15 @@ hf_status hf_analysis_curve_compute(hf_analysis_curve *c, const hf_model *m, dou
     c->first_failed = (size_t)-1;
     hf_error_clear(&c->first_error);
     double cd = cos(direction), sd = sin(direction);
+    hf_vary v;
+    memset(&v, 0, sizeof v);
+    v.from = from;
+    v.to = to;
+    v.step = step;
     hf_pose rest;
     hf_spread_pose_rest(m, &rest);
     for (size_t k = 0; k < c->n; k++) {
-        double s = from + (double)k * step;
+        double s = hf_study_vary_value(&v, k); /* the one range rule (study.h) */
         hf_pose p = rest;
         p.surge += s * cd;
         p.sway += s * sd;

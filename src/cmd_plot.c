@@ -81,13 +81,13 @@ static hf_status plot_elevation(FILE *out, const hf_model *m, const double offse
 }
 
 /* Restoring curve along direction `dir` (rad) over n offsets from `from` by `step`. */
-static hf_status plot_curve(FILE *out, const hf_model *m, double dir, double from, double step,
+static hf_status plot_curve(FILE *out, const hf_model *m, double dir, const double range[3],
                             size_t n, hf_error *err)
 {
     hf_analysis_curve *c = hf_analysis_curve_alloc(m, n, err);
     if (!c)
         return err->status;
-    hf_status s = hf_analysis_curve_compute(c, m, dir, from, step, err);
+    hf_status s = hf_analysis_curve_compute(c, m, dir, range[0], range[1], range[2], err);
     if (s == HF_OK && c->nfailed == n)
         s = hf_error_set(err, HF_ENOCONV,
                          "curve figure: the spread could not be solved at any offset; the first "
@@ -154,9 +154,9 @@ static int parse_args(int argc, char **argv, const char *cmd, plot_args *a)
 /* The curve's direction and range: the options, else the case's first
  * curve study, else 0 deg and -20:20:0.5. */
 static hf_status curve_setup(const hf_study_list *sl, const plot_args *a, double *dir, double *from,
-                             double *step, size_t *n, hf_error *err)
+                             double *to, double *step, size_t *n, hf_error *err)
 {
-    double to = 20;
+    *to = 20;
     *dir = 0;
     *from = -20;
     *step = 0.5;
@@ -164,7 +164,7 @@ static hf_status curve_setup(const hf_study_list *sl, const plot_args *a, double
         if (sl->v[k].kind == HF_STUDY_CURVE) {
             *dir = sl->v[k].direction;
             *from = sl->v[k].from;
-            to = sl->v[k].to;
+            *to = sl->v[k].to;
             *step = sl->v[k].step;
             break;
         }
@@ -172,10 +172,10 @@ static hf_status curve_setup(const hf_study_list *sl, const plot_args *a, double
         hf_cli_parse_value("--direction", a->direction, HF_DIM_ANGLE, dir, err) != HF_OK)
         return err->status;
     if (a->range)
-        return hf_cli_parse_range(a->range, from, &to, step, MAX_POINTS, n, err);
+        return hf_cli_parse_range(a->range, from, to, step, MAX_POINTS, n, err);
     char text[128];
-    snprintf(text, sizeof text, "%.17g:%.17g:%.17g", *from, to, *step);
-    return hf_cli_parse_range(text, from, &to, step, MAX_POINTS, n, err);
+    snprintf(text, sizeof text, "%.17g:%.17g:%.17g", *from, *to, *step);
+    return hf_cli_parse_range(text, from, to, step, MAX_POINTS, n, err);
 }
 
 /* Draws the figure of a into out. */
@@ -203,10 +203,10 @@ static hf_status draw(FILE *out, const hf_model *m, const hf_study_list *sl, con
     }
     if (a->kind == 1)
         return plot_elevation(out, m, offs, a->line, err);
-    double dir, from, step;
+    double dir, r[3]; /* from, to, step */
     size_t n = 0;
-    hf_status s = curve_setup(sl, a, &dir, &from, &step, &n, err);
-    return s == HF_OK ? plot_curve(out, m, dir, from, step, n, err) : s;
+    hf_status s = curve_setup(sl, a, &dir, &r[0], &r[1], &r[2], &n, err);
+    return s == HF_OK ? plot_curve(out, m, dir, r, n, err) : s;
 }
 
 int hf_cmd_plot(int argc, char **argv)

@@ -96,12 +96,14 @@ typedef struct {
 hf_analysis_curve *hf_analysis_curve_alloc(const hf_model *m, size_t n, hf_error *err);
 void hf_analysis_curve_free(hf_analysis_curve *c);
 
-/* Computes c (allocated for m) over offsets from + k step, k < c->n.
+/* Computes c (allocated for m) over the offsets FROM, FROM + STEP, ... of
+ * the range from:to:step, k < c->n, valued by the one range rule
+ * (hf_study_vary_value: the end point on the grid is TO itself).
  * Returns HF_OK when the curve was computed (failed offsets are recorded,
  * see the policy above), HF_ENOMEM (workspace) or HF_EINVAL (direction,
- * from or step not finite) with err set. */
+ * from, to or step not finite) with err set. */
 hf_status hf_analysis_curve_compute(hf_analysis_curve *c, const hf_model *m, double direction,
-                                    double from, double step, hf_error *err);
+                                    double from, double to, double step, hf_error *err);
 
 /* ---- balance runs: load cases, intact and each line broken ---- */
 
