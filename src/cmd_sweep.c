@@ -132,10 +132,6 @@ int hf_cmd_sweep(int argc, char **argv)
         rc = hf_cli_usage_error("sweep", "no --vary PATH=SPEC given");
         goto done;
     }
-    if (hf_cli_check_output("--csv", csv, case_path, &err) != HF_OK) { /* issue 12 items 10, 17 */
-        rc = hf_cli_usage_error("sweep", "%s", err.text);
-        goto done;
-    }
     unsigned sk = 1, sn = 1;
     if (shard && hf_study_shard_parse(shard, &sk, &sn, &err) != HF_OK) {
         rc = hf_cli_usage_error("sweep", "%s", err.text);

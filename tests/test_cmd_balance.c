@@ -357,10 +357,6 @@ static void test_output_is_input_and_suggestion(void **state)
     assert_int_equal(HF_TEST_RUN(&both, "balance", pass_case, "--csv="), 2);
     assert_non_null(strstr(out, "empty name"));
     /* every command that writes a CSV: refused before anything is printed */
-    assert_int_equal(HF_TEST_RUN(&both, "sweep", pass_case, "--vary", "site.depth=18m:19m:1m",
-                                 "--csv", pass_case),
-                     2);
-    assert_non_null(strstr(out, "same file"));
     assert_int_equal(HF_TEST_RUN(&both, "invert", pass_case, "--vary",
                                  "lines[ne].sections[0].length=140:150", "--target",
                                  "fairlead_tension:ne=20kN", "--csv="),
