@@ -4,6 +4,7 @@
 #include "holdfast/alloc.h"
 #include "holdfast/analysis.h"
 #include "holdfast/criteria.h"
+#include "holdfast/study.h"
 
 void hf_analysis_pose_init(hf_analysis_pose *a)
 {
@@ -38,6 +39,15 @@ double hf_analysis_allowed_tension(const hf_model *m, size_t i)
     return f > 0 && isfinite(mbl) ? mbl / f : 0.0;
 }
 
+void hf_analysis_profile_point(const hf_model *m, const hf_spread_result *r, size_t i,
+                               const hf_line_point *p, double g[3])
+{
+    const double *d = r->geom[i].dir;
+    g[0] = m->lines[i].anchor[0] + p->x * d[0];
+    g[1] = m->lines[i].anchor[1] + p->x * d[1];
+    g[2] = -hf_model_water_height(m) + p->z;
+}
+
 /* ---- curve ---- */
 
 /* Allocates n (or n * nlines) elements of size sz, or NULL on overflow. */
@@ -62,9 +72,10 @@ hf_analysis_curve *hf_analysis_curve_alloc(const hf_model *m, size_t n, hf_error
         c->status = array(n, 1, sizeof *c->status);
         c->max_tension_line = array(n, 1, sizeof(size_t));
         c->max_utilisation_line = array(n, 1, sizeof(size_t));
-        double **d[] = {&c->offset,   &c->restoring,   &c->stiffness,       &c->force_x,
-                        &c->force_y,  &c->moment_z,    &c->max_tension,     &c->max_utilisation,
-                        &c->fairlead_tension, &c->line_tension, &c->utilisation};
+        double **d[] = {&c->offset,       &c->restoring,       &c->stiffness,
+                        &c->force_x,      &c->force_y,         &c->moment_z,
+                        &c->max_tension,  &c->max_utilisation, &c->fairlead_tension,
+                        &c->line_tension, &c->utilisation};
         for (size_t j = 0; j < sizeof d / sizeof d[0]; j++)
             *d[j] = array(n, j < 8 ? 1 : nl, sizeof(double));
     }
@@ -83,9 +94,10 @@ void hf_analysis_curve_free(hf_analysis_curve *c)
 {
     if (!c)
         return;
-    void *p[] = {c->status,    c->max_tension_line, c->max_utilisation_line, c->offset,
-                 c->restoring, c->stiffness,        c->force_x,              c->force_y,
-                 c->moment_z,  c->max_tension,      c->max_utilisation,      c->fairlead_tension,
+    void *p[] = {c->status,       c->max_tension_line, c->max_utilisation_line,
+                 c->offset,       c->restoring,        c->stiffness,
+                 c->force_x,      c->force_y,          c->moment_z,
+                 c->max_tension,  c->max_utilisation,  c->fairlead_tension,
                  c->line_tension, c->utilisation};
     for (size_t j = 0; j < sizeof p / sizeof p[0]; j++)
         hf_free(p[j]);
@@ -136,9 +148,9 @@ static void point_fail(hf_analysis_curve *c, size_t k, double s, hf_status st, c
 }
 
 hf_status hf_analysis_curve_compute(hf_analysis_curve *c, const hf_model *m, double direction,
-                                    double from, double step, hf_error *err)
+                                    double from, double to, double step, hf_error *err)
 {
-    if (!isfinite(direction) || !isfinite(from) || !isfinite(step))
+    if (!isfinite(direction) || !isfinite(from) || !isfinite(to) || !isfinite(step))
         return hf_error_set(err, HF_EINVAL, "curve: direction, start and step must be finite");
     hf_spread *ws = hf_spread_alloc(m, err);
     if (!ws)
@@ -148,10 +160,15 @@ hf_status hf_analysis_curve_compute(hf_analysis_curve *c, const hf_model *m, dou
     c->first_failed = (size_t)-1;
     hf_error_clear(&c->first_error);
     double cd = cos(direction), sd = sin(direction);
+    hf_vary v;
+    memset(&v, 0, sizeof v);
+    v.from = from;
+    v.to = to;
+    v.step = step;
     hf_pose rest;
     hf_spread_pose_rest(m, &rest);
     for (size_t k = 0; k < c->n; k++) {
-        double s = from + (double)k * step;
+        double s = hf_study_vary_value(&v, k); /* the one range rule (study.h) */
         hf_pose p = rest;
         p.surge += s * cd;
         p.sway += s * sd;
@@ -179,10 +196,10 @@ typedef struct {
     const hf_load *load;
     hf_analysis_balance_count *count;
     size_t total;
-    hf_status status;     /* a sink's failure, else HF_OK */
+    hf_status status; /* a sink's failure, else HF_OK */
     hf_error *err;
-    hf_status intact;     /* the intact condition's status */
-    double intact_u[3];   /* and its offset (surge m, sway m, yaw rad) */
+    hf_status intact;   /* the intact condition's status */
+    double intact_u[3]; /* and its offset (surge m, sway m, yaw rad) */
 } visit_ctx;
 
 static int visit(void *ctx, size_t cond, const hf_balance_result *r)

@@ -6,6 +6,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
+#include "holdfast/alloc.h"
 #include "holdfast/case.h"
 #include "holdfast/cli.h"
 #include "holdfast/units.h"
@@ -19,8 +20,9 @@ int hf_cli_fail(const hf_error *e)
 {
     fprintf(stderr, "holdfast: %s\n", e->text[0] ? e->text : hf_status_str(e->status));
     if (e->status == HF_ENOMEM)
-        fprintf(stderr, "holdfast: out of memory: try fewer lines, offsets or cases, or a "
-                        "machine with more memory (exit status %d)\n",
+        fprintf(stderr,
+                "holdfast: out of memory: try fewer lines, offsets or cases, or a "
+                "machine with more memory (exit status %d)\n",
                 HF_EXIT_NOMEM);
     return hf_cli_exit_code(e->status);
 }
@@ -157,10 +159,20 @@ static int take_option(int argc, char **argv, int *i, const char *cmd, const hf_
 int hf_cli_parse_case_args(int argc, char **argv, const char *cmd, const char *usage,
                            const hf_cli_opt *opts, size_t nopts, const char **case_path)
 {
+    return hf_cli_parse_case_args_help(argc, argv, cmd, usage, NULL, opts, nopts, case_path);
+}
+
+int hf_cli_parse_case_args_help(int argc, char **argv, const char *cmd, const char *usage,
+                                void (*more)(FILE *out), const hf_cli_opt *opts, size_t nopts,
+                                const char **case_path)
+{
     const char *path = NULL;
     for (int i = 1; i < argc; i++) {
-        if (hf_cli_help(argv[i], usage))
+        if (hf_cli_help(argv[i], usage)) {
+            if (more)
+                more(stdout);
             return HF_EXIT_OK;
+        }
         int taken = 0;
         for (size_t k = 0; k < nopts && !taken; k++)
             taken = take_option(argc, argv, &i, cmd, &opts[k]);
@@ -287,6 +299,19 @@ hf_status hf_cli_load(const char *path, hf_model *m, hf_error *err)
     return hf_case_load(path, m, err);
 }
 
+const char *hf_cli_suggest_model(const hf_model *m, int loads, const char *word)
+{
+    size_t n = loads ? m->nloads : m->nlines;
+    const char **names = hf_calloc(n ? n : 1, sizeof *names);
+    if (!names)
+        return NULL;
+    for (size_t i = 0; i < n; i++)
+        names[i] = loads ? m->loads[i].name : m->lines[i].name;
+    const char *best = hf_cli_suggest(word, names, n);
+    hf_free(names);
+    return best;
+}
+
 hf_status hf_cli_parse_value(const char *option, const char *text, hf_dim dim, double *out,
                              hf_error *err)
 {
@@ -312,8 +337,8 @@ static hf_status parse_parts(const char *option, const char *what, const char *t
     for (size_t j = 0; j < n; j++) {
         char *end = j + 1 < n ? strchr(p, sep) : p + strlen(p);
         if (!end || (j + 1 == n && strchr(p, sep)))
-            return hf_error_set(err, HF_EINVAL, "%s%sexpected %s, got \"%s\"",
-                                option ? option : "", option ? ": " : "", what, text);
+            return hf_error_set(err, HF_EINVAL, "%s%sexpected %s, got \"%s\"", option ? option : "",
+                                option ? ": " : "", what, text);
         *end = '\0';
         hf_error e;
         hf_error_clear(&e);
@@ -328,8 +353,9 @@ static hf_status parse_parts(const char *option, const char *what, const char *t
 hf_status hf_cli_parse_offset(const char *text, double offset[3], hf_error *err)
 {
     static const hf_dim dims[3] = {HF_DIM_LENGTH, HF_DIM_LENGTH, HF_DIM_ANGLE};
-    return parse_parts("--offset", "X,Y,HEADING_DEG (lengths in m, heading in degrees; units allowed)",
-                       text, ',', dims, 3, offset, err);
+    return parse_parts("--offset",
+                       "X,Y,HEADING_DEG (lengths in m, heading in degrees; units allowed)", text,
+                       ',', dims, 3, offset, err);
 }
 
 hf_status hf_cli_parse_range(const char *text, double *from, double *to, double *step,
@@ -337,8 +363,8 @@ hf_status hf_cli_parse_range(const char *text, double *from, double *to, double 
 {
     static const hf_dim dims[3] = {HF_DIM_LENGTH, HF_DIM_LENGTH, HF_DIM_LENGTH};
     double v[3];
-    hf_status s = parse_parts(NULL, "FROM:TO:STEP (lengths in m; units allowed)", text, ':',
-                              dims, 3, v, err);
+    hf_status s =
+        parse_parts(NULL, "FROM:TO:STEP (lengths in m; units allowed)", text, ':', dims, 3, v, err);
     if (s != HF_OK)
         return s;
     size_t n = hf_study_range_count(v[0], v[1], v[2], max_points); /* the one range rule */
@@ -355,12 +381,13 @@ hf_status hf_cli_parse_range(const char *text, double *from, double *to, double 
     return HF_OK;
 }
 
-hf_status hf_cli_check_output(const char *option, const char *out, const char *input,
-                              hf_error *err)
+hf_status hf_cli_check_output(const char *option, const char *out, const char *input, hf_error *err)
 {
     if (!out[0])
-        return hf_error_set(err, HF_EINVAL, "%s: expected a FILE name (or - for standard output), "
-                                            "got an empty name", option);
+        return hf_error_set(err, HF_EINVAL,
+                            "%s: expected a FILE name (or - for standard output), "
+                            "got an empty name",
+                            option);
     if (!strcmp(out, "-") || !input)
         return HF_OK;
     hf_error e;

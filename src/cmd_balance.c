@@ -195,7 +195,8 @@ static void print_load(FILE *out, const hf_load *l, const double f[3])
 }
 
 /* Progress on a terminal: conditions done, redrawn at most ten times a
- * second, shown only after the first second (short runs stay quiet). */
+ * second.  Shown when standard error is a terminal and standard output is
+ * not (when the report goes to the terminal, its lines are the progress). */
 typedef struct {
     double start, last; /* s */
     int drawn;
@@ -211,27 +212,27 @@ static double now(void)
 static void bar_draw(bar *b, size_t done, size_t total)
 {
     double t = now();
-    if (t - b->start < 1.0 || (done < total && t - b->last < 0.1))
+    if (done < total && t - b->last < 0.1)
         return;
     b->last = t;
     b->drawn = 1;
     double f = total ? (double)done / (double)total : 1.0;
     int w = 30, fill = (int)(f * w + 0.5);
-    double rate = (double)done / (t - b->start);
+    double rate = t > b->start ? (double)done / (t - b->start) : 0.0;
     char cells[64];
     for (int i = 0; i < w; i++)
         cells[i] = i < fill ? '#' : '.';
     cells[w] = '\0';
-    fprintf(stderr, "\r  [%s] %5.1f%%  %zu/%zu conditions  %.0f s left   ", cells, 100.0 * f,
-            done, total, rate > 0 ? (double)(total - done) / rate : 0.0);
+    fprintf(stderr, "\r  [%s] %5.1f%%  %zu/%zu conditions  %.0f s left   ", cells, 100.0 * f, done,
+            total, rate > 0 ? (double)(total - done) / rate : 0.0);
     fflush(stderr);
 }
 
 /* What the balance command writes as results arrive. */
 typedef struct {
     const hf_model *m;
-    FILE *out;      /* the readable report, or NULL */
-    hf_outfile *f;  /* the CSV, or NULL */
+    FILE *out;     /* the readable report, or NULL */
+    hf_outfile *f; /* the CSV, or NULL */
     size_t nonfinite;
     bar progress;
     int show_progress;
@@ -258,8 +259,8 @@ static hf_status on_condition(void *ctx, const hf_load *l, const hf_balance_resu
     return HF_OK;
 }
 
-static hf_status on_load_end(void *ctx, const hf_load *l, hf_status intact,
-                             const double offset[3], hf_error *err)
+static hf_status on_load_end(void *ctx, const hf_load *l, hf_status intact, const double offset[3],
+                             hf_error *err)
 {
     sink_ctx *c = ctx;
     (void)l, (void)intact, (void)offset, (void)err;
@@ -287,19 +288,15 @@ static int pick_loads(const hf_model *m, const char *path, const char *const *na
     for (int j = 0; j < nnames; j++) {
         size_t k = hf_model_load_find(m, names[j]);
         if (k == (size_t)-1) {
-            const char **all = hf_calloc(m->nloads, sizeof *all);
-            for (size_t i = 0; all && i < m->nloads; i++)
-                all[i] = m->loads[i].name;
-            const char *near = all ? hf_cli_suggest(names[j], all, m->nloads) : NULL;
+            const char *near = hf_cli_suggest_model(m, 1, names[j]);
             fprintf(stderr, "holdfast balance: --load: no load case named \"%s\" in %s", names[j],
                     path);
             if (near)
-                fprintf(stderr, "; did you mean \"%s\"?", near);
+                fprintf(stderr, " (did you mean \"%s\"?)", near);
             fprintf(stderr, "; the load cases are:");
             for (size_t i = 0; i < m->nloads; i++)
                 fprintf(stderr, "%s %s", i ? "," : "", m->loads[i].name);
             fputc('\n', stderr);
-            hf_free(all);
             hf_free(pick);
             return HF_EXIT_USAGE;
         }
@@ -321,7 +318,7 @@ static int balance(const hf_model *m, const char *path, const char *csv, const s
     hf_error_clear(&err);
     int human = !csv || strcmp(csv, "-") != 0;
     sink_ctx c = {m, human ? stdout : NULL, NULL, 0, {now(), 0.0, 0}, 0};
-    c.show_progress = isatty(fileno(stderr));
+    c.show_progress = isatty(fileno(stderr)) && !isatty(fileno(stdout));
     if (csv && !(c.f = hf_cli_csv_begin(csv, hf_results_balance_header_write, m, &err)))
         return hf_cli_fail(&err);
     if (human) {

@@ -108,8 +108,7 @@ static void print_lines(const hf_model *m)
         for (size_t k = 0; k < l->npieces; k++) {
             const hf_piece *p = &l->pieces[k];
             if (p->kind == HF_PIECE_SECTION)
-                printf(" %s%s %.1f m", k ? "| " : "", m->components[p->component].name,
-                       p->length);
+                printf(" %s%s %.1f m", k ? "| " : "", m->components[p->component].name, p->length);
             else
                 printf(" %s%s %.1f kN", k ? "| " : "", p->kind == HF_PIECE_CLUMP ? "clump" : "buoy",
                        p->load / 1e3);
@@ -144,8 +143,7 @@ static void print_loads(const hf_model *m)
             printf("    %s drag: %.2f m/s toward %.1f deg, C %.2f, A %.1f m^2, rho %.4g kg/m^3"
                    " -> %.1f kN\n",
                    d->density < 100.0 ? "air" : "water", d->speed, d->direction * 180.0 / M_PI,
-                   d->coefficient, d->area, d->density,
-                   f / 1e3);
+                   d->coefficient, d->area, d->density, f / 1e3);
         }
     }
 }

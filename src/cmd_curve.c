@@ -175,8 +175,7 @@ int hf_cmd_curve(int argc, char **argv)
     hf_error err;
     hf_error_clear(&err);
     hf_analysis_curve *c = hf_analysis_curve_alloc(&m, a.count, &err);
-    if (!c || hf_analysis_curve_compute(c, &m, a.dir, a.from, a.step, &err) !=
-                  HF_OK)
+    if (!c || hf_analysis_curve_compute(c, &m, a.dir, a.from, a.to, a.step, &err) != HF_OK)
         rc = hf_cli_fail(&err);
     else
         rc = write_curve(&m, c, &a);

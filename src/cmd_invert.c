@@ -65,6 +65,9 @@ int hf_cmd_invert(int argc, char **argv)
     if (!case_path || !vary_text || !target_text)
         return hf_cli_usage_error("invert", "expected CASE --vary PATH=LO:HI --target "
                                             "OUTPUT[:LINE]=VALUE");
+    hf_error out_err; /* issue 12 items 10, 17: a bad --csv is refused before any work */
+    if (csv && hf_cli_check_output("--csv", csv, case_path, &out_err) != HF_OK)
+        return hf_cli_usage_error("invert", "%s", out_err.text);
     const char *eq = strrchr(target_text, '=');
     if (!eq || eq == target_text || !eq[1])
         return hf_cli_usage_error("invert", "--target: expected OUTPUT[:LINE]=VALUE, got \"%s\"",

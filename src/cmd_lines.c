@@ -3,6 +3,7 @@
 #include <stdio.h>
 #include <string.h>
 #include "holdfast/alloc.h"
+#include "holdfast/analysis.h"
 #include "holdfast/cli.h"
 #include "holdfast/csv.h"
 #include "holdfast/outfile.h"
@@ -66,8 +67,9 @@ static void write_table(FILE *out, const hf_model *m, const hf_pose *p, const hf
     fprintf(out, "\n%s", hf_caution_text);
 }
 
-/* A line name made safe as a file name: letters, digits, '.', '-', '_' kept. */
-static void file_name(const char *name, char *out, size_t cap)
+/* A line name made safe as a file name: letters, digits, '.', '-', '_' kept,
+ * anything else '_', no leading '.' (no hidden file). */
+static void safe_name(const char *name, char *out, size_t cap)
 {
     size_t k = 0;
     for (; name[k] && k + 1 < cap; k++) {
@@ -79,13 +81,60 @@ static void file_name(const char *name, char *out, size_t cap)
     out[k] = '\0';
 }
 
+/* The profile file's base name of line i: its safe name; "line-<i+1>" when
+ * that is empty; with "-<i+1>" added when an earlier line has the same safe
+ * name (so no profile replaces another). */
+static void file_name(const hf_model *m, size_t i, char *out, size_t cap)
+{
+    safe_name(m->lines[i].name ? m->lines[i].name : "", out, cap);
+    if (!out[0]) {
+        snprintf(out, cap, "line-%zu", i + 1);
+        return;
+    }
+    char other[256];
+    for (size_t j = 0; j < i; j++) {
+        safe_name(m->lines[j].name ? m->lines[j].name : "", other, sizeof other);
+        if (!strcmp(other, out)) {
+            size_t n = strlen(out);
+            snprintf(out + n, cap - n, "-%zu", i + 1);
+            return;
+        }
+    }
+}
+
 static double spacing_for(const hf_line *l)
 {
     return fmax(hf_line_length(l) / PROFILE_POINTS, PROFILE_MIN_SPACING);
 }
 
-static hf_status write_profiles(const char *dir, const hf_model *m, const hf_spread_result *r,
-                                hf_error *err)
+/* Writes the n profile points of line i to path: arc_m,x_m,y_m,z_m,tension_kN
+ * in global coordinates (hf_analysis_profile_point). */
+static hf_status write_profile(const char *path, const hf_model *m, const hf_spread_result *r,
+                               size_t i, const hf_line_point *pts, size_t n, hf_error *err)
+{
+    hf_outfile *f = hf_outfile_open(path, err);
+    if (!f)
+        return err ? err->status : HF_EIO;
+    hf_csv c;
+    hf_csv_init(&c, hf_outfile_stream(f), 0);
+    hf_csv_header(&c, "arc_m", "x_m", "y_m", "z_m", "tension_kN", NULL);
+    for (size_t k = 0; k < n; k++) {
+        double g[3];
+        hf_analysis_profile_point(m, r, i, &pts[k], g);
+        hf_csv_field_double(&c, pts[k].arc);
+        hf_csv_field_double(&c, g[0]);
+        hf_csv_field_double(&c, g[1]);
+        hf_csv_field_double(&c, g[2]);
+        hf_csv_field_double(&c, pts[k].tension / 1e3);
+        hf_csv_end_row(&c);
+    }
+    hf_csv_flush(&c);
+    return hf_outfile_commit(f, err);
+}
+
+/* DIR/<line>.csv for every solved line; none may be the case file. */
+static hf_status write_profiles(const char *dir, const char *case_path, const hf_model *m,
+                                const hf_spread_result *r, hf_error *err)
 {
     hf_status s = hf_cli_make_dir("--profiles", dir, err);
     if (s != HF_OK)
@@ -95,42 +144,22 @@ static hf_status write_profiles(const char *dir, const hf_model *m, const hf_spr
         if (hf_results_line_solved(r, i)) {
             size_t n = hf_line_profile(&m->lines[i].line, &r->states[i],
                                        spacing_for(&m->lines[i].line), NULL, 0);
-            if (n > cap)
-                cap = n;
+            cap = n > cap ? n : cap;
         }
     hf_line_point *pts = hf_calloc(cap ? cap : 1, sizeof *pts);
     if (!pts)
         return hf_error_set(err, HF_ENOMEM, "out of memory for line profiles");
-    double seabed = -hf_model_water_height(m);
     for (size_t i = 0; i < m->nlines && s == HF_OK; i++) {
         if (!hf_results_line_solved(r, i))
             continue;
-        const hf_model_line *ml = &m->lines[i];
-        size_t n = hf_line_profile(&ml->line, &r->states[i], spacing_for(&ml->line), pts, cap);
-        if (n > cap)
-            n = cap;
+        const hf_line *l = &m->lines[i].line;
+        size_t n = hf_line_profile(l, &r->states[i], spacing_for(l), pts, cap);
         char base[256], path[4096 + 300];
-        file_name(ml->name, base, sizeof base);
+        file_name(m, i, base, sizeof base);
         snprintf(path, sizeof path, "%s/%s.csv", dir, base);
-        hf_outfile *f = hf_outfile_open(path, err);
-        if (!f) {
-            s = err ? err->status : HF_EIO;
-            break;
-        }
-        hf_csv c;
-        hf_csv_init(&c, hf_outfile_stream(f), 0);
-        hf_csv_header(&c, "arc_m", "x_m", "y_m", "z_m", "tension_kN", NULL);
-        const double *d = r->geom[i].dir;
-        for (size_t k = 0; k < n; k++) {
-            hf_csv_field_double(&c, pts[k].arc);
-            hf_csv_field_double(&c, ml->anchor[0] + pts[k].x * d[0]);
-            hf_csv_field_double(&c, ml->anchor[1] + pts[k].x * d[1]);
-            hf_csv_field_double(&c, seabed + pts[k].z);
-            hf_csv_field_double(&c, pts[k].tension / 1e3);
-            hf_csv_end_row(&c);
-        }
-        hf_csv_flush(&c);
-        s = hf_outfile_commit(f, err);
+        s = hf_outfile_check_not_input(path, case_path, err);
+        if (s == HF_OK)
+            s = write_profile(path, m, r, i, pts, n > cap ? cap : n, err);
     }
     hf_free(pts);
     return s;
@@ -139,9 +168,10 @@ static hf_status write_profiles(const char *dir, const hf_model *m, const hf_spr
 int hf_cmd_lines(int argc, char **argv)
 {
     const char *cmd = "lines", *profiles = NULL;
-    const hf_cli_opt extra[] = {
-        {.name = "--profiles", .missing = "--profiles needs a directory", .nonempty = 1,
-         .value = &profiles}};
+    const hf_cli_opt extra[] = {{.name = "--profiles",
+                                 .missing = "--profiles needs a directory",
+                                 .nonempty = 1,
+                                 .value = &profiles}};
     hf_cli_pose_cmd pc;
     int rc = hf_cli_pose_cmd_begin(&pc, argc, argv, cmd, usage_text, extra, 1);
     if (rc != HF_CLI_CONTINUE)
@@ -167,7 +197,7 @@ int hf_cmd_lines(int argc, char **argv)
     }
     if (!pc.csv || strcmp(pc.csv, "-") != 0)
         write_table(stdout, &pc.m, &pc.at.pose, res);
-    if (profiles && write_profiles(profiles, &pc.m, res, &pc.err) != HF_OK) {
+    if (profiles && write_profiles(profiles, pc.path, &pc.m, res, &pc.err) != HF_OK) {
         rc = hf_cli_fail(&pc.err);
         goto done;
     }

@@ -61,9 +61,11 @@ static hf_status plot_elevation(FILE *out, const hf_model *m, const double offse
         size_t i = 0;
         if (line_name) {
             i = hf_model_line_find(m, line_name);
+            const char *near = i == (size_t)-1 ? hf_cli_suggest_model(m, 0, line_name) : NULL;
             if (i == (size_t)-1)
-                s = hf_error_set(err, HF_EINVAL, "--line: the case has no line named '%s'",
-                                 line_name);
+                s = hf_error_set(err, HF_EINVAL, "--line: the case has no line named '%s'%s%s%s",
+                                 line_name, near ? "; did you mean '" : "", near ? near : "",
+                                 near ? "'?" : "");
         } else {
             for (size_t j = 1; j < at.res.nlines; j++)
                 if (at.res.states[j].tension > at.res.states[i].tension)
@@ -79,13 +81,13 @@ static hf_status plot_elevation(FILE *out, const hf_model *m, const double offse
 }
 
 /* Restoring curve along direction `dir` (rad) over n offsets from `from` by `step`. */
-static hf_status plot_curve(FILE *out, const hf_model *m, double dir, double from, double step,
+static hf_status plot_curve(FILE *out, const hf_model *m, double dir, const double range[3],
                             size_t n, hf_error *err)
 {
     hf_analysis_curve *c = hf_analysis_curve_alloc(m, n, err);
     if (!c)
         return err->status;
-    hf_status s = hf_analysis_curve_compute(c, m, dir, from, step, err);
+    hf_status s = hf_analysis_curve_compute(c, m, dir, range[0], range[1], range[2], err);
     if (s == HF_OK && c->nfailed == n)
         s = hf_error_set(err, HF_ENOCONV,
                          "curve figure: the spread could not be solved at any offset; the first "
@@ -151,10 +153,10 @@ static int parse_args(int argc, char **argv, const char *cmd, plot_args *a)
 
 /* The curve's direction and range: the options, else the case's first
  * curve study, else 0 deg and -20:20:0.5. */
-static hf_status curve_setup(const hf_study_list *sl, const plot_args *a, double *dir,
-                             double *from, double *step, size_t *n, hf_error *err)
+static hf_status curve_setup(const hf_study_list *sl, const plot_args *a, double *dir, double *from,
+                             double *to, double *step, size_t *n, hf_error *err)
 {
-    double to = 20;
+    *to = 20;
     *dir = 0;
     *from = -20;
     *step = 0.5;
@@ -162,18 +164,18 @@ static hf_status curve_setup(const hf_study_list *sl, const plot_args *a, double
         if (sl->v[k].kind == HF_STUDY_CURVE) {
             *dir = sl->v[k].direction;
             *from = sl->v[k].from;
-            to = sl->v[k].to;
+            *to = sl->v[k].to;
             *step = sl->v[k].step;
             break;
         }
-    if (a->direction && hf_cli_parse_value("--direction", a->direction, HF_DIM_ANGLE, dir, err) !=
-                            HF_OK)
+    if (a->direction &&
+        hf_cli_parse_value("--direction", a->direction, HF_DIM_ANGLE, dir, err) != HF_OK)
         return err->status;
     if (a->range)
-        return hf_cli_parse_range(a->range, from, &to, step, MAX_POINTS, n, err);
+        return hf_cli_parse_range(a->range, from, to, step, MAX_POINTS, n, err);
     char text[128];
-    snprintf(text, sizeof text, "%.17g:%.17g:%.17g", *from, to, *step);
-    return hf_cli_parse_range(text, from, &to, step, MAX_POINTS, n, err);
+    snprintf(text, sizeof text, "%.17g:%.17g:%.17g", *from, *to, *step);
+    return hf_cli_parse_range(text, from, to, step, MAX_POINTS, n, err);
 }
 
 /* Draws the figure of a into out. */
@@ -187,9 +189,11 @@ static hf_status draw(FILE *out, const hf_model *m, const hf_study_list *sl, con
         const hf_load *ld = NULL;
         if (a->load) {
             size_t k = hf_model_load_find(m, a->load);
+            const char *near = k == (size_t)-1 ? hf_cli_suggest_model(m, 1, a->load) : NULL;
             if (k == (size_t)-1)
-                return hf_error_set(err, HF_EINVAL, "--load: the case has no load case named '%s'",
-                                    a->load);
+                return hf_error_set(
+                    err, HF_EINVAL, "--load: the case has no load case named '%s'%s%s%s", a->load,
+                    near ? "; did you mean '" : "", near ? near : "", near ? "'?" : "");
             ld = &m->loads[k];
         }
         hf_pose pose;
@@ -199,10 +203,10 @@ static hf_status draw(FILE *out, const hf_model *m, const hf_study_list *sl, con
     }
     if (a->kind == 1)
         return plot_elevation(out, m, offs, a->line, err);
-    double dir, from, step;
+    double dir, r[3]; /* from, to, step */
     size_t n = 0;
-    hf_status s = curve_setup(sl, a, &dir, &from, &step, &n, err);
-    return s == HF_OK ? plot_curve(out, m, dir, from, step, n, err) : s;
+    hf_status s = curve_setup(sl, a, &dir, &r[0], &r[1], &r[2], &n, err);
+    return s == HF_OK ? plot_curve(out, m, dir, r, n, err) : s;
 }
 
 int hf_cmd_plot(int argc, char **argv)

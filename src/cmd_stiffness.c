@@ -76,10 +76,10 @@ int hf_cmd_stiffness(int argc, char **argv)
     const hf_spread_result *res = &pc.at.res;
     if (pc.csv) {
         hf_outfile *f = hf_cli_csv_begin(pc.csv, NULL, &pc.m, &pc.err);
-        if (!f || hf_cli_csv_end(cmd, &f,
-                                 hf_results_stiffness_write(hf_outfile_stream(f), pc.at.K,
-                                                            res->force),
-                                 &pc.err) != HF_OK) {
+        if (!f ||
+            hf_cli_csv_end(cmd, &f,
+                           hf_results_stiffness_write(hf_outfile_stream(f), pc.at.K, res->force),
+                           &pc.err) != HF_OK) {
             rc = hf_cli_fail(&pc.err);
             goto done;
         }

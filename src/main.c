@@ -76,6 +76,7 @@ int main(int argc, char **argv)
     for (size_t i = 0; i < NCOMMANDS; i++)
         if (!strcmp(argv[1], commands[i].name))
             return stdout_closed(commands[i].run(argc - 1, argv + 1));
-    fprintf(stderr, "holdfast: unknown command '%s'; 'holdfast --help' lists the commands\n", argv[1]);
+    fprintf(stderr, "holdfast: unknown command '%s'; 'holdfast --help' lists the commands\n",
+            argv[1]);
     return HF_EXIT_USAGE;
 }

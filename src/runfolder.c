@@ -12,13 +12,31 @@ static const char stamp_text[] =
     "holdfast results folder: written by 'holdfast run' and replaced as a whole by the next\n"
     "run into this folder.  Do not keep other files here.\n";
 
+/* 1 when d is a results folder of a holdfast from before the stamp: its
+ * summary.txt starts with "holdfast " (the line every run writes first). */
+static int legacy(const char *d)
+{
+    char p[HF_RUNFOLDER_PATH_MAX + 32], head[16] = "";
+    snprintf(p, sizeof p, "%s/summary.txt", d);
+    FILE *f = fopen(p, "r");
+    if (!f)
+        return 0;
+    size_t n = fread(head, 1, 9, f);
+    fclose(f);
+    head[n] = '\0';
+    return !strcmp(head, "holdfast ");
+}
+
 /* Classifies folder d: 0 missing, 1 empty, 2 holdfast results folder,
- * 3 something else (not a directory, or other files); -1 unreadable. */
+ * 3 something else (not a directory, or other files), 4 a symbolic link;
+ * -1 unreadable. */
 static int classify(const char *d)
 {
     struct stat st;
-    if (stat(d, &st) != 0)
+    if (lstat(d, &st) != 0)
         return errno == ENOENT ? 0 : -1;
+    if (S_ISLNK(st.st_mode)) /* never followed: its target would be replaced */
+        return 4;
     if (!S_ISDIR(st.st_mode))
         return 3;
     DIR *dp = opendir(d);
@@ -33,7 +51,7 @@ static int classify(const char *d)
         stamped |= !strcmp(e->d_name, HF_RUNFOLDER_STAMP);
     }
     closedir(dp);
-    return !any ? 1 : stamped ? 2 : 3;
+    return !any ? 1 : stamped || legacy(d) ? 2 : 3;
 }
 
 /* Deletes the regular files in d, then d (a results folder holds no
@@ -84,6 +102,9 @@ hf_status hf_runfolder_begin(hf_runfolder *rf, const char *dir, hf_error *err)
     if (kind < 0)
         return hf_error_set(err, HF_EIO, "%s: cannot read the results folder: %s", rf->dir,
                             strerror(errno));
+    if (kind == 4)
+        return hf_error_set(err, HF_EINVAL,
+                            "%s: is a symbolic link; give the results folder itself", rf->dir);
     if (kind == 3)
         return hf_error_set(err, HF_EINVAL,
                             "%s: exists and is not an empty folder or a holdfast results folder "
@@ -92,8 +113,8 @@ hf_status hf_runfolder_begin(hf_runfolder *rf, const char *dir, hf_error *err)
                             rf->dir, HF_RUNFOLDER_STAMP);
     snprintf(rf->tmp, sizeof rf->tmp, "%s.partial-XXXXXX", rf->dir);
     if (!mkdtemp(rf->tmp)) {
-        hf_status s = hf_error_set(err, HF_EIO, "%s: cannot create a folder beside it: %s",
-                                   rf->dir, strerror(errno));
+        hf_status s = hf_error_set(err, HF_EIO, "%s: cannot create a folder beside it: %s", rf->dir,
+                                   strerror(errno));
         rf->tmp[0] = '\0';
         return s;
     }
@@ -115,9 +136,10 @@ hf_status hf_runfolder_commit(hf_runfolder *rf, hf_error *err)
 {
     char old[HF_RUNFOLDER_PATH_MAX + 32];
     int kind = classify(rf->dir), had = kind > 0;
-    if (kind < 0 || kind == 3)
-        return hf_error_set(err, HF_EIO, "%s: changed during the run (now neither empty nor a "
-                                         "holdfast results folder); the new run is in %s",
+    if (kind < 0 || kind >= 3)
+        return hf_error_set(err, HF_EIO,
+                            "%s: changed during the run (now neither empty nor a "
+                            "holdfast results folder); the new run is in %s",
                             rf->dir, rf->tmp);
     if (had) {
         /* rename onto an empty directory replaces it (POSIX rename) */
@@ -125,8 +147,9 @@ hf_status hf_runfolder_commit(hf_runfolder *rf, hf_error *err)
         if (!mkdtemp(old) || rename(rf->dir, old) != 0) {
             int e = errno;
             rmdir(old);
-            return hf_error_set(err, HF_EIO, "%s: cannot move the earlier run aside: %s; the new "
-                                             "run is in %s",
+            return hf_error_set(err, HF_EIO,
+                                "%s: cannot move the earlier run aside: %s; the new "
+                                "run is in %s",
                                 rf->dir, strerror(e), rf->tmp);
         }
     }

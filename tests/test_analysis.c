@@ -42,14 +42,15 @@ static void test_curve_physics(void **state)
     hf_error err;
     hf_analysis_curve *c = hf_analysis_curve_alloc(&m, 7, &err);
     assert_non_null(c);
-    assert_int_equal(hf_analysis_curve_compute(c, &m, dir, from, step, &err), HF_OK);
+    assert_int_equal(hf_analysis_curve_compute(c, &m, dir, from, from + 6.0 * step, step, &err),
+                     HF_OK);
     assert_int_equal(c->nfailed, 0);
     assert_true(c->first_failed == (size_t)-1);
     hf_spread *ws = hf_spread_alloc(&m, &err);
     assert_non_null(ws);
     for (size_t k = 0; k < c->n; k++) {
         double s = from + (double)k * step, f[2];
-        assert_true(c->offset[k] == s);
+        assert_true(c->offset[k] == (k + 1 == c->n ? from + 6.0 * step : s));
         for (int j = 0; j < 2; j++) {
             double h = j ? 1e-3 : -1e-3;
             hf_pose p;
@@ -66,14 +67,15 @@ static void test_curve_physics(void **state)
     hf_spread_free(ws);
     hf_analysis_curve *q = hf_analysis_curve_alloc(&m, 1, &err);
     hf_analysis_curve *z = hf_analysis_curve_alloc(&m, 1, &err);
-    assert_int_equal(hf_analysis_curve_compute(q, &m, dir + M_PI / 2.0, 0.0, 1.0, &err), HF_OK);
-    assert_int_equal(hf_analysis_curve_compute(z, &m, 0.0, 0.0, 1.0, &err), HF_OK);
+    assert_int_equal(hf_analysis_curve_compute(q, &m, dir + M_PI / 2.0, 0.0, 0.0, 1.0, &err),
+                     HF_OK);
+    assert_int_equal(hf_analysis_curve_compute(z, &m, 0.0, 0.0, 0.0, 1.0, &err), HF_OK);
     hf_analysis_curve *y = hf_analysis_curve_alloc(&m, 1, &err);
-    assert_int_equal(hf_analysis_curve_compute(y, &m, M_PI / 2.0, 0.0, 1.0, &err), HF_OK);
+    assert_int_equal(hf_analysis_curve_compute(y, &m, M_PI / 2.0, 0.0, 0.0, 1.0, &err), HF_OK);
     hf_analysis_curve *t = hf_analysis_curve_alloc(&m, 1, &err);
-    assert_int_equal(hf_analysis_curve_compute(t, &m, dir, 0.0, 1.0, &err), HF_OK);
+    assert_int_equal(hf_analysis_curve_compute(t, &m, dir, 0.0, 0.0, 1.0, &err), HF_OK);
     near(t->stiffness[0] + q->stiffness[0], z->stiffness[0] + y->stiffness[0], 1e-9);
-    assert_int_equal(hf_analysis_curve_compute(t, &m, NAN, 0.0, 1.0, &err), HF_EINVAL);
+    assert_int_equal(hf_analysis_curve_compute(t, &m, NAN, 0.0, 0.0, 1.0, &err), HF_EINVAL);
     hf_analysis_curve_free(q);
     hf_analysis_curve_free(z);
     hf_analysis_curve_free(y);
@@ -81,6 +83,71 @@ static void test_curve_physics(void **state)
     hf_analysis_curve_free(c);
     assert_null(hf_analysis_curve_alloc(&m, 0, &err));
     hf_analysis_curve_free(NULL);
+    hf_model_free(&m);
+}
+
+/* Fictional buoyed line at Tarrow Reach (invented): a buoy in a slack line
+ * is outside the model until the hull moves far enough away to pull the
+ * line taut, so a curve away from the anchor fails first and then solves. */
+static const char buoy_case[] = "title: Fictional buoyed line at Tarrow Reach\n"
+                                "site: {depth: 42.5 m}\n"
+                                "components:\n"
+                                "  ch: {type: custom, wet_weight: 1.137 kN/m, axial_stiffness: 612 "
+                                "MN, breaking_load: 4.73 MN}\n"
+                                "lines:\n"
+                                "  - name: lifted\n"
+                                "    anchor: [150, 0]\n"
+                                "    fairlead: [0, 0, -2]\n"
+                                "    sections:\n"
+                                "      - {component: ch, length: 200 m}\n"
+                                "      - {buoy: 12 kN}\n"
+                                "      - {component: ch, length: 120 m}\n";
+
+/* The documented policy for failed offsets: every offset attempted (the
+ * curve goes on after a failure), a failed one recorded with NaN values,
+ * no line index and the first message, and the first offset that solves
+ * after failures equals, bit for bit, a solve from a fresh workspace at that
+ * pose.  (The spread keeps its last successful states through a failed
+ * solve, so this last check holds with or without the driver's reset; the
+ * reset guards against a future solver that changes a state as it fails.) */
+static void test_curve_failed_points(void **state)
+{
+    (void)state;
+    hf_model m;
+    hf_model_init(&m);
+    hf_error err;
+    assert_int_equal(hf_case_load_buffer(buoy_case, sizeof buoy_case - 1, "buoy.yaml", &m, &err),
+                     HF_OK);
+    /* from 200 m away from the anchor (taut: solves) through the slack
+     * range (fails) to beyond the anchor (taut again: solves) */
+    hf_analysis_curve *c = hf_analysis_curve_alloc(&m, 71, &err);
+    assert_non_null(c);
+    assert_int_equal(hf_analysis_curve_compute(c, &m, M_PI, 200.0, -500.0, -10.0, &err), HF_OK);
+    assert_true(c->nfailed > 0 && c->nfailed < c->n);
+    assert_int_equal(c->status[0], HF_OK);
+    size_t f = c->first_failed;
+    assert_true(f > 0 && f < c->n && c->status[f] != HF_OK);
+    char want[64];
+    snprintf(want, sizeof want, "curve at offset %.6g m", c->offset[f]);
+    assert_non_null(strstr(c->first_error.text, want));
+    assert_true(isnan(c->restoring[f]) && isnan(c->fairlead_tension[f]));
+    assert_true(c->max_tension_line[f] == (size_t)-1);
+    size_t k = f;
+    while (k < c->n && c->status[k] != HF_OK)
+        k++;
+    assert_true(k < c->n); /* solved again after the failures */
+    hf_spread *ws = hf_spread_alloc(&m, &err);
+    hf_pose p;
+    hf_spread_pose_rest(&m, &p);
+    p.surge += c->offset[k] * cos(M_PI);
+    p.sway += c->offset[k] * sin(M_PI);
+    double K[6][6];
+    hf_spread_result r;
+    assert_int_equal(hf_spread_stiffness(ws, &p, K, &r, &err), HF_OK);
+    assert_true(c->restoring[k] == -(r.force[0] * cos(M_PI) + r.force[1] * sin(M_PI)));
+    assert_true(c->fairlead_tension[k] == r.states[0].tension);
+    hf_spread_free(ws);
+    hf_analysis_curve_free(c);
     hf_model_free(&m);
 }
 
@@ -217,6 +284,7 @@ int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_curve_physics),
+        cmocka_unit_test(test_curve_failed_points),
         cmocka_unit_test(test_allowed_tension),
         cmocka_unit_test(test_balance_run),
         cmocka_unit_test(test_pose),

@@ -39,8 +39,8 @@ static void test_offset(void **state)
     assert_int_equal(hf_cli_parse_offset("2.385,-4.5,30", o, &e), HF_OK);
     assert_true(o[0] == 2.385 && o[1] == -4.5);
     assert_true(fabs(o[2] - M_PI / 6.0) < 1e-15); /* degrees in, radians out */
-    const char *bad[] = {"", "1,2", "1,2,3,4", "a,b,c", "1,,3", "nan,0,0", "inf,0,0",
-                         "1e309,0,0", "1,2,3x", " ,1,2"};
+    const char *bad[] = {"",        "1,2",     "1,2,3,4",   "a,b,c",  "1,,3",
+                         "nan,0,0", "inf,0,0", "1e309,0,0", "1,2,3x", " ,1,2"};
     for (size_t k = 0; k < sizeof bad / sizeof bad[0]; k++) {
         hf_error_clear(&e);
         if (hf_cli_parse_offset(bad[k], o, &e) != HF_EINVAL)

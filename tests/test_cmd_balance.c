@@ -349,7 +349,6 @@ static void test_output_is_input_and_suggestion(void **state)
     char *after = hf_test_file_read(pass_case, &n1);
     assert_int_equal(n0, n1);
     assert_memory_equal(before, after, n0);
-    free(before);
     free(after);
     assert_int_equal(HF_TEST_RUN(&both, "balance", pass_case, "--load", "breze"), 2);
     assert_non_null(strstr(out, "did you mean \"breeze\""));
@@ -357,6 +356,63 @@ static void test_output_is_input_and_suggestion(void **state)
     assert_null(strstr(out, "did you mean"));
     assert_int_equal(HF_TEST_RUN(&both, "balance", pass_case, "--csv="), 2);
     assert_non_null(strstr(out, "empty name"));
+    /* every command that writes a CSV: refused before anything is printed */
+    assert_int_equal(HF_TEST_RUN(&both, "invert", pass_case, "--vary",
+                                 "lines[ne].sections[0].length=140:150", "--target",
+                                 "fairlead_tension:ne=20kN", "--csv="),
+                     2);
+    assert_true(strncmp(out, "holdfast invert: --csv", 22) == 0);
+    assert_int_equal(HF_TEST_RUN(&both, "curve", pass_case, "--direction", "10", "--range", "0:1:1",
+                                 "--csv", alias),
+                     2);
+    assert_int_equal(HF_TEST_RUN(&both, "plot", pass_case, "--figure", "plan", "--out", alias), 2);
+    after = hf_test_file_read(pass_case, &n1);
+    assert_int_equal(n0, n1);
+    assert_memory_equal(before, after, n0);
+    free(before);
+    free(after);
+}
+
+/* Issue 12 item 13: a balance run shows its progress on a terminal
+ * (standard error a terminal, standard output redirected): the bar ends
+ * with every condition counted.  In a file it stays silent. */
+static void test_progress_on_terminal(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    int master = posix_openpt(O_RDWR | O_NOCTTY);
+    assert_true(master >= 0);
+    assert_int_equal(grantpt(master), 0);
+    assert_int_equal(unlockpt(master), 0);
+    char *slave_name = ptsname(master);
+    assert_non_null(slave_name);
+    pid_t pid = fork();
+    assert_true(pid >= 0);
+    if (pid == 0) {
+        int slave = open(slave_name, O_RDWR), nul = open("/dev/null", O_WRONLY);
+        dup2(nul, 1);
+        dup2(slave, 2);
+        execl(bin, bin, "balance", pass_case, (char *)NULL);
+        _exit(127);
+    }
+    static char buf[1 << 16];
+    size_t n = 0;
+    for (;;) {
+        ssize_t k = read(master, buf + n, sizeof buf - 1 - n);
+        if (k <= 0) /* EIO once the child closed the terminal */
+            break;
+        n += (size_t)k;
+        if (n + 1 >= sizeof buf)
+            break;
+    }
+    buf[n] = '\0';
+    int st;
+    assert_true(waitpid(pid, &st, 0) == pid);
+    close(master);
+    /* 2 load cases x (1 intact + 4 broken) conditions */
+    assert_non_null(strstr(buf, "10/10 conditions"));
+    assert_int_equal(HF_TEST_RUN(&both, "balance", pass_case), 0);
+    assert_null(strstr(out, "conditions  "));
 }
 
 int main(void)
@@ -371,6 +427,7 @@ int main(void)
         cmocka_unit_test(test_usage_errors),
         cmocka_unit_test(test_stdout_write_errors),
         cmocka_unit_test(test_output_is_input_and_suggestion),
+        cmocka_unit_test(test_progress_on_terminal),
     };
     return cmocka_run_group_tests(tests, setup, teardown);
 }

@@ -381,6 +381,25 @@ static void test_numerical_failure(void **state)
     assert_int_not_equal(stat(csv, &sb), 0);
 }
 
+/* Issue 12 item 10: a profile file that would be the case file itself
+ * (a case saved as DIR/<line>.csv) is refused and the case kept. */
+static void test_profile_is_the_case(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    char pdir[400], casef[500];
+    snprintf(pdir, sizeof pdir, "%s/clash", dir);
+    assert_int_equal(mkdir(pdir, 0777), 0);
+    snprintf(casef, sizeof casef, "%s/bow-port.csv", pdir);
+    hf_test_file_write(casef, small_case);
+    assert_int_equal(HF_TEST_RUN(&both, "lines", casef, "--profiles", pdir), 2);
+    assert_non_null(strstr(out, "same file"));
+    size_t n;
+    char *kept = hf_test_file_read(casef, &n);
+    assert_string_equal(kept, small_case);
+    free(kept);
+}
+
 /* Issue 12 item 18: the man page names every option of every command's
  * --help and every column of the lines CSV (it omitted run --jobs/--quiet,
  * invert --csv, sweep --zip/--output and four lines columns). */
@@ -393,7 +412,7 @@ static void test_man_page_complete(void **state)
     size_t n;
     char *man = hf_test_file_read(path, &n);
     assert_non_null(man);
-    static const char *const cmds[] = {"check", "lines", "curve", "stiffness", "balance",
+    static const char *const cmds[] = {"check", "lines", "curve",  "stiffness", "balance",
                                        "run",   "sweep", "invert", "plot"};
     for (size_t c = 0; c < sizeof cmds / sizeof cmds[0]; c++) {
         assert_int_equal(HF_TEST_RUN(&quiet, cmds[c], "--help"), 0);
@@ -404,8 +423,7 @@ static void test_man_page_complete(void **state)
                 opt[k++] = *q;
             opt[k] = '\0';
             if (k > 4 && strcmp(opt + 4, "help") != 0 && !strstr(man, opt))
-                fail_msg("docs/holdfast.1 does not mention --%s of '%s --help'", opt + 4,
-                         cmds[c]);
+                fail_msg("docs/holdfast.1 does not mention --%s of '%s --help'", opt + 4, cmds[c]);
         }
     }
     assert_int_equal(HF_TEST_RUN(&quiet, "lines", small, "--csv", "-"), 0);
@@ -423,7 +441,7 @@ int main(void)
         cmocka_unit_test(test_stiffness_oc3_csv),      cmocka_unit_test(test_curve_against_lines),
         cmocka_unit_test(test_curve_stiffness_column), cmocka_unit_test(test_curve_table_and_file),
         cmocka_unit_test(test_lines_csv_and_profiles), cmocka_unit_test(test_usage_errors),
-        cmocka_unit_test(test_man_page_complete),
+        cmocka_unit_test(test_man_page_complete),      cmocka_unit_test(test_profile_is_the_case),
         cmocka_unit_test(test_numerical_failure),
     };
     return cmocka_run_group_tests(tests, setup, teardown);

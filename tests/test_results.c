@@ -387,8 +387,8 @@ static void test_curve_rows(void **state)
     hf_error err;
     hf_analysis_curve *cv = hf_analysis_curve_alloc(&fx.m, 3, &err);
     assert_non_null(cv);
-    double v[8] = {-7.25, 93412.771, -84512.337, 23157.481, -1.7723e6, 407227.318, 912345.678,
-                   0.2271893};
+    double v[8] = {-7.25,     93412.771,  -84512.337, 23157.481,
+                   -1.7723e6, 407227.318, 912345.678, 0.2271893};
     for (size_t k = 0; k < 3; k++) {
         cv->status[k] = HF_OK;
         cv->offset[k] = v[0] + (double)k;

@@ -7,6 +7,7 @@
 #include <stdio.h>
 #include <string.h>
 #include <sys/stat.h>
+#include <unistd.h>
 #include "holdfast/runfolder.h"
 #include "support.h"
 
@@ -82,8 +83,25 @@ static void test_refusals(void **state)
     assert_non_null(strstr(err.text, "not an empty folder or a holdfast results folder"));
     assert_true(exists(mine, "chapter1.tex"));
     assert_int_equal(hf_runfolder_begin(&rf, file, &err), HF_EINVAL);
+    char link[400];
+    snprintf(link, sizeof link, "%s/link-results", dir);
+    assert_int_equal(symlink(mine, link), 0); /* a link is not followed */
+    assert_int_equal(hf_runfolder_begin(&rf, link, &err), HF_EINVAL);
+    assert_non_null(strstr(err.text, "symbolic link"));
+    assert_true(exists(mine, "chapter1.tex"));
     assert_int_equal(hf_runfolder_begin(&rf, "", &err), HF_EINVAL);
     hf_runfolder_abort(&rf); /* harmless after a failed begin */
+    /* a results folder from before the stamp: summary.txt says holdfast */
+    char legacy[400];
+    snprintf(legacy, sizeof legacy, "%s/old-results", dir);
+    assert_int_equal(mkdir(legacy, 0777), 0);
+    put(legacy, "summary.txt", "holdfast 0.0.9 run of harbour.yaml\n");
+    put(legacy, "rest.csv", "line\n");
+    assert_int_equal(hf_runfolder_begin(&rf, legacy, &err), HF_OK);
+    assert_int_equal(hf_runfolder_commit(&rf, &err), HF_OK);
+    assert_false(exists(legacy, "rest.csv"));
+    put(mine, "summary.txt", "my own summary\n"); /* not holdfast's */
+    assert_int_equal(hf_runfolder_begin(&rf, mine, &err), HF_EINVAL);
     assert_int_equal(hf_runfolder_begin(&rf, empty, &err), HF_OK);
     put(hf_runfolder_path(&rf), "a.csv", "1\n");
     assert_int_equal(hf_runfolder_commit(&rf, &err), HF_OK);

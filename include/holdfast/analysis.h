@@ -49,6 +49,12 @@ hf_status hf_analysis_pose_solve(hf_analysis_pose *a, const hf_model *m, const d
  * intact factor of the criteria (N); 0 when there is no factor or no MBL. */
 double hf_analysis_allowed_tension(const hf_model *m, size_t i);
 
+/* Global position g (x, y, z in m; z = 0 the still water level) of profile
+ * point p of line i (hf_line_profile: x from the anchor in the line's
+ * vertical plane, z above the flat seabed) in the solve r of m. */
+void hf_analysis_profile_point(const hf_model *m, const hf_spread_result *r, size_t i,
+                               const hf_line_point *p, double g[3]);
+
 /* ---- restoring curve ---- */
 
 /* A restoring curve: n offsets from `from` by `step` along `direction`
@@ -64,25 +70,25 @@ double hf_analysis_allowed_tension(const hf_model *m, size_t i);
  * keeps the row empty, a figure draws a gap. */
 typedef struct {
     size_t n, nlines;
-    double direction;            /* rad */
+    double direction; /* rad */
     /* n values each, point k at [k]; NaN (lines: (size_t)-1) where status[k] != HF_OK */
-    hf_status *status;           /* HF_OK, or why this offset did not solve */
-    double *offset;              /* m along the direction */
-    double *restoring;           /* N: -(Fx cos + Fy sin), minus the mooring force along it */
-    double *stiffness;           /* N/m: d(restoring)/d(offset) = d^T K_h d, d = (cos, sin) */
-    double *force_x, *force_y;   /* N: mooring force on the hull, global axes */
-    double *moment_z;            /* N m: mooring yaw moment about the reference point */
-    double *max_tension;         /* N: largest tension along any intact line */
-    size_t *max_tension_line;    /* its index, or (size_t)-1 */
-    double *max_utilisation;     /* largest section utilisation, - */
-    size_t *max_utilisation_line;/* its index, or (size_t)-1 */
+    hf_status *status;            /* HF_OK, or why this offset did not solve */
+    double *offset;               /* m along the direction */
+    double *restoring;            /* N: -(Fx cos + Fy sin), minus the mooring force along it */
+    double *stiffness;            /* N/m: d(restoring)/d(offset) = d^T K_h d, d = (cos, sin) */
+    double *force_x, *force_y;    /* N: mooring force on the hull, global axes */
+    double *moment_z;             /* N m: mooring yaw moment about the reference point */
+    double *max_tension;          /* N: largest tension along any intact line */
+    size_t *max_tension_line;     /* its index, or (size_t)-1 */
+    double *max_utilisation;      /* largest section utilisation, - */
+    size_t *max_utilisation_line; /* its index, or (size_t)-1 */
     /* n x nlines, row-major (point k, line i at [k * nlines + i]); NaN where failed */
-    double *fairlead_tension;    /* N */
-    double *line_tension;        /* N, largest along the line (0 broken) */
-    double *utilisation;         /* -, largest section utilisation */
-    size_t nfailed;              /* offsets that did not solve */
-    size_t first_failed;         /* index of the first, or (size_t)-1 */
-    hf_error first_error;        /* its message ("curve at offset 2.5 m: ...") */
+    double *fairlead_tension; /* N */
+    double *line_tension;     /* N, largest along the line (0 broken) */
+    double *utilisation;      /* -, largest section utilisation */
+    size_t nfailed;           /* offsets that did not solve */
+    size_t first_failed;      /* index of the first, or (size_t)-1 */
+    hf_error first_error;     /* its message ("curve at offset 2.5 m: ...") */
 } hf_analysis_curve;
 
 /* Allocates a curve of n >= 1 points for the lines of m.  NULL with err set
@@ -90,12 +96,14 @@ typedef struct {
 hf_analysis_curve *hf_analysis_curve_alloc(const hf_model *m, size_t n, hf_error *err);
 void hf_analysis_curve_free(hf_analysis_curve *c);
 
-/* Computes c (allocated for m) over offsets from + k step, k < c->n.
+/* Computes c (allocated for m) over the offsets FROM, FROM + STEP, ... of
+ * the range from:to:step, k < c->n, valued by the one range rule
+ * (hf_study_vary_value: the end point on the grid is TO itself).
  * Returns HF_OK when the curve was computed (failed offsets are recorded,
  * see the policy above), HF_ENOMEM (workspace) or HF_EINVAL (direction,
- * from or step not finite) with err set. */
+ * from, to or step not finite) with err set. */
 hf_status hf_analysis_curve_compute(hf_analysis_curve *c, const hf_model *m, double direction,
-                                    double from, double step, hf_error *err);
+                                    double from, double to, double step, hf_error *err);
 
 /* ---- balance runs: load cases, intact and each line broken ---- */
 
@@ -108,12 +116,11 @@ typedef struct {
     /* a load case is about to be solved; force = resultant (Fx, Fy N, Mz N m) */
     hf_status (*load_begin)(void *ctx, const hf_load *l, const double force[3], hf_error *err);
     /* one condition's result (valid during the call) */
-    hf_status (*condition)(void *ctx, const hf_load *l, const hf_balance_result *r,
-                           hf_error *err);
+    hf_status (*condition)(void *ctx, const hf_load *l, const hf_balance_result *r, hf_error *err);
     /* every condition of the load is done: the intact condition's status and
      * offset (surge m, sway m, yaw rad from the rest pose) */
-    hf_status (*load_end)(void *ctx, const hf_load *l, hf_status intact,
-                          const double offset[3], hf_error *err);
+    hf_status (*load_end)(void *ctx, const hf_load *l, hf_status intact, const double offset[3],
+                          hf_error *err);
     /* conditions done so far of the total, called after each condition */
     void (*progress)(void *ctx, size_t done, size_t total);
 } hf_analysis_balance_sink;
@@ -128,12 +135,11 @@ typedef struct {
 } hf_analysis_balance_count;
 
 /* Runs the load cases m->loads[which[k]], k < nwhich, in that order (which
- * NULL: every load case of m in order): for each, checks the load (hf_balance_load_force), then solves
- * every condition (intact, then each line broken; hf_balance_solve, warm
- * starts as hf_balance_run) and hands each result to the sink.  Fills *count.
- * Returns HF_OK (a condition without equilibrium is a result, not an error),
- * HF_EINVAL for a bad load, index or model, HF_ENOMEM, or a sink's status.
- * The sink's callbacks run on the calling thread. */
+ * NULL: every load case of m in order): for each, checks the load (hf_balance_load_force), then
+ * solves every condition (intact, then each line broken; hf_balance_solve, warm starts as
+ * hf_balance_run) and hands each result to the sink.  Fills *count. Returns HF_OK (a condition
+ * without equilibrium is a result, not an error), HF_EINVAL for a bad load, index or model,
+ * HF_ENOMEM, or a sink's status. The sink's callbacks run on the calling thread. */
 hf_status hf_analysis_balance_run(const hf_model *m, const size_t *which, size_t nwhich,
                                   const hf_analysis_balance_sink *sink,
                                   hf_analysis_balance_count *count, hf_error *err);

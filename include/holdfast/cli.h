@@ -56,6 +56,10 @@ int hf_cli_fail_status(hf_status s, const char *text);
  * mean" hints: "beam-strom" -> "beam-storm". */
 const char *hf_cli_suggest(const char *word, const char *const *names, size_t n);
 
+/* hf_cli_suggest over the load case names (loads != 0) or the line names of
+ * m: the name (owned by m) or NULL. */
+const char *hf_cli_suggest_model(const hf_model *m, int loads, const char *word);
+
 /* Prints "holdfast <cmd>: <printf message>" and a hint to use --help to
  * stderr; returns HF_EXIT_USAGE. */
 int hf_cli_usage_error(const char *cmd, const char *fmt, ...)
@@ -120,6 +124,13 @@ typedef struct {
  * stops the parse. */
 int hf_cli_parse_case_args(int argc, char **argv, const char *cmd, const char *usage,
                            const hf_cli_opt *opts, size_t nopts, const char **case_path);
+
+/* As hf_cli_parse_case_args; after `usage`, --help also calls more(stdout)
+ * (when not NULL) for text built from the library's tables (the study
+ * kinds, the output catalogue). */
+int hf_cli_parse_case_args_help(int argc, char **argv, const char *cmd, const char *usage,
+                                void (*more)(FILE *out), const hf_cli_opt *opts, size_t nopts,
+                                const char **case_path);
 
 /* Initialises m and loads the case at path into it (hf_cli_load).  Returns
  * HF_CLI_CONTINUE, or after printing the message (hf_cli_fail) its exit

@@ -6,9 +6,10 @@
  * written, so DIR never holds a mix of an earlier run and this one, even
  * when the run is interrupted (an interruption leaves at most the sibling
  * folder behind, and DIR as it was).  A holdfast results folder is marked
- * by a small stamp file (HF_RUNFOLDER_STAMP); a folder that is neither
- * empty nor marked is refused, so a run never deletes files it did not
- * write. */
+ * by a small stamp file (HF_RUNFOLDER_STAMP; a folder of an earlier
+ * holdfast without the stamp is recognised by its summary.txt starting with
+ * "holdfast "); a folder that is neither empty nor marked is refused, so a
+ * run never deletes files it did not write. */
 #ifndef HOLDFAST_RUNFOLDER_H
 #define HOLDFAST_RUNFOLDER_H
 
@@ -22,8 +23,8 @@
 #define HF_RUNFOLDER_PATH_MAX 4000
 
 typedef struct {
-    char dir[HF_RUNFOLDER_PATH_MAX + 1];       /* the final folder (trailing '/' removed) */
-    char tmp[HF_RUNFOLDER_PATH_MAX + 32];      /* the sibling being built */
+    char dir[HF_RUNFOLDER_PATH_MAX + 1];  /* the final folder (trailing '/' removed) */
+    char tmp[HF_RUNFOLDER_PATH_MAX + 32]; /* the sibling being built */
 } hf_runfolder;
 
 /* Checks `dir` (it may be missing, empty, or an earlier holdfast results
