@@ -191,7 +191,8 @@ static hf_status build_line(const hf_model *m, hf_model_line *l, hf_error *err)
                                     p->load, p->friction);
             double signed_load = p->kind == HF_PIECE_CLUMP ? p->load : -p->load;
             load += signed_load;
-            fload += p->friction * p->load;
+            if (p->kind == HF_PIECE_CLUMP) /* only clumps touch the seabed */
+                fload += p->friction * p->load;
             if (!pending)
                 pending_at = k;
             pending = 1;
@@ -211,13 +212,18 @@ static hf_status build_line(const hf_model *m, hf_model_line *l, hf_error *err)
                                 "%.10g m",
                                 l->name, k, p->length);
         if (pending) {
-            /* Consecutive point loads add; their friction is weighted by
-             * load so that mu_eff |P| = sum mu_i |P_i|. */
+            /* Consecutive point loads add (clumps down, buoys up).  Only the
+             * clumps touch the seabed, so the joint's friction coefficient is
+             * weighted over the clumps alone: mu_c = sum(mu_i P_i) / sum(P_i),
+             * applied by the line solver to the net normal force (a 120 kN
+             * clump, mu 0.8, under a 70 kN buoy: 0.8 x 50 kN = 40 kN; see
+             * docs/theory.md, "Point loads on the seabed"). */
             hf_joint *j = &ln->joint[ln->n - 1];
             j->load = load;
             double total = 0.0;
             for (size_t q = pending_at; q < k; q++)
-                total += l->pieces[q].load;
+                if (l->pieces[q].kind == HF_PIECE_CLUMP)
+                    total += l->pieces[q].load;
             j->friction = total > 0.0 ? fload / total : 0.0;
             load = fload = 0.0;
             pending = 0;

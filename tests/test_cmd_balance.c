@@ -26,7 +26,8 @@ static hf_test_io quiet = {.out = out, .out_cap = OUT_CAP};            /* stderr
 /* Fictional scenario: the ferry pontoon "Lathe Point" of the invented harbour
  * of Ormsby Wick on four chains (all names and numbers invented).  The
  * chain is a custom component; the criteria are the UFC 4-159-03 harbour
- * preset (3.0 intact, 2.25 one member missing, table 3-7). */
+ * preset (3.0 intact from table 3-7; 2.25 one member missing, from memory:
+ * not in table 3-7). */
 #define PONTOON_LINES                                                                              \
     "site:\n  depth: 18.4 m\n"                                                                     \
     "components:\n"                                                                                \

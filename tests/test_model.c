@@ -86,7 +86,8 @@ static void resolve_builds_lines(void **state)
     assert_int_equal(l->n, 3);
     HF_TEST_ASSERT_NEAR(l->joint[0].load, 45e3, 1e-9);
     HF_TEST_ASSERT_NEAR(l->joint[1].load, -12.5e3, 1e-9);
-    HF_TEST_ASSERT_NEAR(l->joint[1].friction, 0.3, 1e-15);
+    /* a joint with a buoy only is never grounded: no clump, no friction */
+    HF_TEST_ASSERT_NEAR(l->joint[1].friction, 0.0, 0);
     HF_TEST_ASSERT_NEAR(l->sec[1].mbl, 3.9e6, 1e-6);
     /* chain wet weight = 0.0199 d^2 g (1 - 1025/7850) (REFERENCE.md section 3:
      * catalogue mass, steel 7850 kg/m^3 from memory, sea water 1025 kg/m^3) */
@@ -478,6 +479,41 @@ static void load_direction_turns_everything(void **state)
     hf_model_free(&m);
 }
 
+/* A clump and a buoy at one joint: only the clump touches the seabed, so the
+ * joint's friction coefficient is the clump's (weighted over clumps only),
+ * applied by the line to the net normal force P = clump - buoy.  Statics of a
+ * block on a frictional plane (Coulomb): drop = mu N = 0.8 x (120 - 70) kN =
+ * 40 kN (docs/theory.md, "Point loads on the seabed"). */
+static void clump_and_buoy_joint_friction(void **state)
+{
+    (void)state;
+    static const char yaml[] =
+        "site: {depth: 50 m}\n"
+        "components:\n"
+        "  c: {type: custom, wet_weight: 1 kN/m, axial_stiffness: 1000 MN, breaking_load: 5 MN}\n"
+        "lines:\n"
+        "  - name: one\n"
+        "    anchor: [-400, 0]\n"
+        "    fairlead: [0, 0, 0]\n"
+        "    sections:\n"
+        "      - {component: c, length: 200 m}\n"
+        "      - {clump: 120 kN, friction: 0.8}\n"
+        "      - {buoy: 70 kN, friction: 0.1}\n"
+        "      - {component: c, length: 250 m}\n";
+    hf_model m;
+    hf_error err;
+    hf_model_init(&m);
+    if (hf_case_load_buffer(yaml, strlen(yaml), "j.yaml", &m, &err) != HF_OK)
+        fail_msg("%s", err.text);
+    const hf_line *ln = &m.lines[0].line;
+    HF_TEST_ASSERT_NEAR(ln->joint[0].load, 50e3, 1e-9);
+    if (fabs(ln->joint[0].friction - 0.8) > 1e-15)
+        fail_msg("joint friction %.6g, expected the clump's 0.8 (buoys do not touch the seabed)",
+                 ln->joint[0].friction);
+    HF_TEST_ASSERT_NEAR(ln->joint[0].friction * ln->joint[0].load, 40e3, 1e-9);
+    hf_model_free(&m);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -488,6 +524,7 @@ int main(void)
         cmocka_unit_test(set_rederives),
         cmocka_unit_test(set_refuses_invalid_values),
         cmocka_unit_test(load_direction_turns_everything),
+        cmocka_unit_test(clump_and_buoy_joint_friction),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
 }
