@@ -229,6 +229,8 @@ static int run_sweep(options *o, hf_model *m, hf_vary *vary)
     unsigned sk = 1, sn = 1;
     if (o->shard && hf_study_shard_parse(o->shard, &sk, &sn, &err) != HF_OK)
         return hf_cli_usage_error("sweep", "%s", err.text);
+    if (hf_cli_check_output("--csv", o->csv, o->case_path, &err) != HF_OK)
+        return hf_cli_usage_error("sweep", "%s", err.text);
     if (hf_cli_load(o->case_path, m, &err) != HF_OK)
         return hf_cli_fail(&err);
     for (size_t j = 0; j < o->nvary; j++)

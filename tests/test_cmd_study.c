@@ -421,6 +421,22 @@ static void test_cli_errors(void **s)
     assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "sweep", c, "--vary", "site.depth=60,61",
                                    "--output", "nothing", NULL)),
                      2);
+    /* issue 12 item 10: the sweep's --csv may not name the case file, nor be
+     * empty; both are refused before anything is written, and the case file
+     * is left as it was. */
+    size_t before_n, after_n;
+    char *before = hf_test_file_read(c, &before_n);
+    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "sweep", c, "--vary", "site.depth=60,61",
+                                   "--csv", c, NULL)),
+                     2);
+    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "sweep", c, "--vary", "site.depth=60,61",
+                                   "--csv", "", NULL)),
+                     2);
+    char *after = hf_test_file_read(c, &after_n);
+    assert_int_equal(before_n, after_n);
+    assert_memory_equal(before, after, before_n);
+    free(before);
+    free(after);
     /* Not bracketed: exit 3 (HF_ERANGE). */
     assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "invert", c, "--vary",
                                    "lines[north].sections[3].length=111:125", "--target",
