@@ -324,7 +324,7 @@ hf_status hf_criteria_anchor_evaluate(const hf_anchor *a, double h, double v,
 /* ---- further table values ------------------------------------------------ */
 
 static const char *const holding_names[HF_HOLDING_NCLASSES] = {"stockless", "high-efficiency",
-                                                                "pile-plate", "ship"};
+                                                               "pile-plate", "ship"};
 
 const char *hf_criteria_holding_class_name(hf_holding_class k)
 {
@@ -359,8 +359,9 @@ hf_status hf_criteria_effective_mbl(const hf_criteria_preset *p, double mbl, int
 {
     *out = 0.0;
     if (!isfinite(mbl) || mbl <= 0.0)
-        return hf_error_set(err, HF_EINVAL, "effective strength: MBL must be finite and > 0, "
-                                            "got %.10g N",
+        return hf_error_set(err, HF_EINVAL,
+                            "effective strength: MBL must be finite and > 0, "
+                            "got %.10g N",
                             mbl);
     /* UFC 4-159-03 table 3-7: wet nylon's effective strength reduced by 15 % */
     *out = wet_nylon && p && p->wet_nylon_strength > 0.0 ? mbl * p->wet_nylon_strength : mbl;

@@ -22,10 +22,10 @@
 
 struct hf_outfile {
     FILE *fp;
-    char *path;     /* target path */
-    char *tmp;      /* temporary path, NULL when writing in place */
+    char *path; /* target path */
+    char *tmp;  /* temporary path, NULL when writing in place */
     int is_stdout;
-    int slot;       /* index in the cleanup registry, -1 if none */
+    int slot; /* index in the cleanup registry, -1 if none */
 };
 
 /* Temporary files to remove if a signal kills the process or it exits
@@ -214,16 +214,18 @@ hf_status hf_outfile_commit(hf_outfile *f, hf_error *err)
         bad = 1, why = errno;
     if (bad) {
         if (too_big || why == EFBIG)
-            st = hf_error_set(err, HF_EIO, "%s: write failed: the file size limit (ulimit -f) "
-                              "was reached; the file was not written", f->path);
+            st = hf_error_set(err, HF_EIO,
+                              "%s: write failed: the file size limit (ulimit -f) "
+                              "was reached; the file was not written",
+                              f->path);
         else
             st = hf_error_set(err, HF_EIO, "%s: write failed: %s", f->path,
                               why ? strerror(why) : "an earlier write to it failed");
         if (f->tmp)
             unlink(f->tmp);
     } else if (f->tmp && rename(f->tmp, f->path) != 0) {
-        st = hf_error_set(err, HF_EIO, "%s: cannot rename temporary file into place: %s",
-                          f->path, strerror(errno));
+        st = hf_error_set(err, HF_EIO, "%s: cannot rename temporary file into place: %s", f->path,
+                          strerror(errno));
         unlink(f->tmp);
     }
     release(f);

@@ -366,7 +366,8 @@ static hf_status run_curve(const hf_model *m, const hf_study *s, int jobs, FILE 
     if (hf_results_curve_header_write(out, m, err) != HF_OK)
         return err->status;
     hf_analysis_curve *c = hf_analysis_curve_alloc(m, n, err);
-    if (!c || hf_analysis_curve_compute(c, m, s->direction, s->from, s->to, s->step, err) != HF_OK) {
+    if (!c ||
+        hf_analysis_curve_compute(c, m, s->direction, s->from, s->to, s->step, err) != HF_OK) {
         hf_analysis_curve_free(c);
         return err->status;
     }

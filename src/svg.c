@@ -841,8 +841,8 @@ static void key_overloaded(FILE *out, double x, double y)
 
 /* The elevation's layout, worked out once before anything is written. */
 typedef struct {
-    hf_svg_axes top, low; /* the line's panel and the tension panel */
-    double tmin, tmax;    /* tension range along the line(s), N */
+    hf_svg_axes top, low;      /* the line's panel and the tension panel */
+    double tmin, tmax;         /* tension range along the line(s), N */
     const hf_svg_elevation *e; /* the lines drawn (1, or n overlaid) */
     size_t n;
     rect taken[16]; /* labels and markers placed so far in the top panel */
@@ -951,14 +951,15 @@ static hf_status elev_layout(elev *L, double top, hf_error *err)
         amax = fmax(amax, elev_allowed_max(e));
     }
     /* The seabed is the bottom of the panel (z = 0 unless the profile dips). */
-    hf_status s = hf_svg_axes_init(&L->top, 90, top, 600, 270, xmin, xmax, zmin, zmax * 1.04, 0, err);
+    hf_status s =
+        hf_svg_axes_init(&L->top, 90, top, 600, 270, xmin, xmax, zmin, zmax * 1.04, 0, err);
     if (s != HF_OK)
         return s;
     double t1 = fmax(L->tmax, amax) / 1e3 * 1.05;
     if (t1 <= 0.0)
         t1 = 1.0;
-    s = hf_svg_axes_init(&L->low, 90, top + 346, 600, EL_LOW_H, L->top.xt.lo, L->top.xt.hi, 0.0,
-                         t1, 0, err);
+    s = hf_svg_axes_init(&L->low, 90, top + 346, 600, EL_LOW_H, L->top.xt.lo, L->top.xt.hi, 0.0, t1,
+                         0, err);
     /* Share the horizontal axis exactly. */
     L->low.xt = L->top.xt;
     return s;
@@ -1015,7 +1016,8 @@ static void elev_label(FILE *out, elev *L, double px, double py, const spot *c, 
 static void elev_ground(FILE *out, elev *L)
 {
     const hf_svg_axes *top = &L->top;
-    double hx = top->width / (top->xt.hi - top->xt.lo), hz = top->height / (top->yt.hi - top->yt.lo);
+    double hx = top->width / (top->xt.hi - top->xt.lo),
+           hz = top->height / (top->yt.hi - top->yt.lo);
     char cap[160];
     if (hz / hx > 1.5)
         snprintf(cap, sizeof cap,
@@ -1083,9 +1085,8 @@ static void elev_line(FILE *out, const hf_svg_elevation *e, const elev *L)
 }
 
 /* Label spots around a marker, the preferred first. */
-static const spot anchor_spots[] = {{10, -10, 's'}, {10, -24, 's'}, {-10, -10, 'e'},
-                                    {2, -26, 's'}};
-static const spot touch_spots[] = {{-8, -10, 'e'}, {8, -10, 's'}, {-8, -24, 'e'},
+static const spot anchor_spots[] = {{10, -10, 's'}, {10, -24, 's'}, {-10, -10, 'e'}, {2, -26, 's'}};
+static const spot touch_spots[] = {{-8, -10, 'e'}, {8, -10, 's'},  {-8, -24, 'e'},
                                    {8, -24, 's'},  {40, -10, 's'}, {40, -24, 's'}};
 static const spot fair_spots[] = {{-10, -8, 'e'},  {-12, 4, 'e'},  {-10, 18, 'e'},
                                   {-10, -20, 'e'}, {-40, -8, 'e'}, {-40, 20, 'e'}};
@@ -1178,8 +1179,7 @@ static int low_clear(const elev *L, rect r)
         const hf_line_point *p = L->e[k].pts;
         for (size_t i = 0; i + 1 < L->e[k].npts; i++)
             if (seg_meets(r, hf_svg_axes_px(a, p[i].x), hf_svg_axes_py(a, p[i].tension / 1e3),
-                          hf_svg_axes_px(a, p[i + 1].x),
-                          hf_svg_axes_py(a, p[i + 1].tension / 1e3)))
+                          hf_svg_axes_px(a, p[i + 1].x), hf_svg_axes_py(a, p[i + 1].tension / 1e3)))
                 return 0;
     }
     return 1;
@@ -1256,8 +1256,7 @@ static size_t elev_overloads(FILE *out, const hf_svg_elevation *e, const elev *L
                 continue;
             const hf_line_point *p = &e->pts[k];
             cross(out, hf_svg_axes_px(&L->top, p->x), hf_svg_axes_py(&L->top, p->z), 5);
-            cross(out, hf_svg_axes_px(&L->low, p->x), hf_svg_axes_py(&L->low, p->tension / 1e3),
-                  5);
+            cross(out, hf_svg_axes_px(&L->low, p->x), hf_svg_axes_py(&L->low, p->tension / 1e3), 5);
         }
         i = j;
     }
@@ -1320,8 +1319,10 @@ static hf_status elev_figure(FILE *out, const hf_svg_elevation *e, const char *c
     title(out, EL_W, e->title);
     if (n) {
         char buf[512];
-        int k = snprintf(buf, sizeof buf, "Drawn once for %zu line%s of the same make-up and "
-                                          "geometry:", n, n == 1 ? "" : "s");
+        int k = snprintf(buf, sizeof buf,
+                         "Drawn once for %zu line%s of the same make-up and "
+                         "geometry:",
+                         n, n == 1 ? "" : "s");
         for (size_t i = 0; i < n && k > 0 && (size_t)k < sizeof buf; i++)
             k += snprintf(buf + k, sizeof buf - (size_t)k, "%s %s", i ? "," : "", names[i]);
         clipped(out, 20, 64, TICK_PX, 0, EL_W, buf);
@@ -1356,8 +1357,8 @@ hf_status hf_svg_figure_elevation_group(FILE *out, const hf_svg_elevation *e,
 /* A profile as one series on axes a: height (tension 0) or tension in kN
  * (tension 1) against horizontal distance, through the shared polyline
  * writer. */
-static void profile_series(FILE *out, const hf_svg_axes *a, const hf_svg_elevation *e,
-                           int tension, const char *colour, double width, const char *dash)
+static void profile_series(FILE *out, const hf_svg_axes *a, const hf_svg_elevation *e, int tension,
+                           const char *colour, double width, const char *dash)
 {
     pline l = {out, colour, dash, width, 0, 0, 0, 0, {0}, {0}, {0}};
     l.dense = (double)e->npts > 4.0 * a->width;
@@ -1626,8 +1627,8 @@ static void inset_lines(FILE *out, const hf_svg_plan *p, const hf_svg_axes *h)
             t = 0;
         int broken = p->broken && p->broken[i];
         seg(out, hf_svg_axes_px(h, fx), hf_svg_axes_py(h, fy), hf_svg_axes_px(h, fx + t * dx),
-            hf_svg_axes_py(h, fy + t * dy), broken ? "#999999" : hf_svg_colour(i),
-            broken ? 1.2 : 2, broken ? "3 3" : hf_svg_dash(i));
+            hf_svg_axes_py(h, fy + t * dy), broken ? "#999999" : hf_svg_colour(i), broken ? 1.2 : 2,
+            broken ? "3 3" : hf_svg_dash(i));
     }
     for (size_t i = 0; i < p->nlines; i++)
         mark(out, hf_svg_axes_px(h, p->fairlead[i][0]), hf_svg_axes_py(h, p->fairlead[i][1]),
@@ -1662,8 +1663,8 @@ static void inset(FILE *out, const hf_svg_plan *p, double y)
     inset_extent(p, b);
     double ext = fmax(fmax(b[1] - b[0], b[3] - b[2]), 1.0), pad = 0.3 * ext;
     hf_svg_axes h;
-    if (hf_svg_axes_init(&h, PL_KEY_X, y, PL_INSET, PL_INSET, b[0] - pad, b[1] + pad,
-                         b[2] - pad, b[3] + pad, 1, NULL) != HF_OK)
+    if (hf_svg_axes_init(&h, PL_KEY_X, y, PL_INSET, PL_INSET, b[0] - pad, b[1] + pad, b[2] - pad,
+                         b[3] + pad, 1, NULL) != HF_OK)
         return;
     /* the title just above the (equal-scale) frame */
     hf_svg_text(out, PL_KEY_X, h.top - 12, 's', LABEL_PX, 1, 0, "Hull detail");
@@ -1750,8 +1751,7 @@ static void plan_lines(FILE *out, const hf_svg_plan *p, const hf_svg_axes *a)
     double rx = hf_svg_axes_px(a, p->reference[0]), ry = hf_svg_axes_py(a, p->reference[1]);
     for (size_t i = 0; i < p->nlines; i++) {
         double ax = hf_svg_axes_px(a, p->anchor[i][0]), ay = hf_svg_axes_py(a, p->anchor[i][1]);
-        double fx = hf_svg_axes_px(a, p->fairlead[i][0]),
-               fy = hf_svg_axes_py(a, p->fairlead[i][1]);
+        double fx = hf_svg_axes_px(a, p->fairlead[i][0]), fy = hf_svg_axes_py(a, p->fairlead[i][1]);
         int broken = p->broken && p->broken[i];
         seg(out, ax, ay, fx, fy, broken ? "#999999" : hf_svg_colour(i), broken ? 1.5 : 2.5,
             broken ? "3 3" : hf_svg_dash(i));

@@ -56,8 +56,8 @@ static void run_load(const char *text, size_t len, outcome *o)
     hf_error_clear(&o->err);
     o->step = "load";
     o->status = hf_case_load_buffer(text, len, "alloc-fail.yaml", &m, &o->err);
-    if (o->status != HF_OK && (m.nlines || m.lines || m.ncomponents || m.components ||
-                               m.title || m.source_path))
+    if (o->status != HF_OK &&
+        (m.nlines || m.lines || m.ncomponents || m.components || m.title || m.source_path))
         o->step = "load left a non-empty model";
     hf_model_free(&m);
 }

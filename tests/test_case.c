@@ -1,4 +1,5 @@
-/* test_case.c - the YAML case loader: demo cases, malformed files with located errors, limits, leaks. */
+/* test_case.c - the YAML case loader: demo cases, malformed files with located errors, limits,
+ * leaks. */
 #include <math.h>
 #include <setjmp.h>
 #include <stdarg.h>
@@ -29,88 +30,118 @@
 
 typedef struct {
     const char *what;
-    const char *yaml;   /* NULL: built by the test (long inputs) */
+    const char *yaml; /* NULL: built by the test (long inputs) */
     hf_status status;
-    int line, col;      /* expected FILE:LINE:COL */
-    const char *frag;   /* expected fragment of the message */
+    int line, col;    /* expected FILE:LINE:COL */
+    const char *frag; /* expected fragment of the message */
 } bad_case;
 
 static const bad_case bad[] = {
-    {"site of the wrong type (a list)", "site: [85]\n" "components: {}\n" LINEA, HF_EINVAL, 1, 7,
-     "site: expected the site (a mapping of keys to values), got a list"},
-    {"negative depth", "site: {depth: -85 m}\n" "components:\n"
+    {"site of the wrong type (a list)",
+     "site: [85]\n"
+     "components: {}\n" LINEA,
+     HF_EINVAL, 1, 7, "site: expected the site (a mapping of keys to values), got a list"},
+    {"negative depth",
+     "site: {depth: -85 m}\n"
+     "components:\n"
      "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n" LINEA,
      HF_EINVAL, 1, 15, "site.depth: expected a positive length, got \"-85 m\""},
-    {"NaN depth", "site: {depth: .nan}\n" "components:\n"
+    {"NaN depth",
+     "site: {depth: .nan}\n"
+     "components:\n"
      "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n" LINEA,
      HF_EINVAL, 1, 15, "site.depth: expected a"},
-    {"1e309 depth", "site: {depth: 1e309}\n" "components:\n"
+    {"1e309 depth",
+     "site: {depth: 1e309}\n"
+     "components:\n"
      "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n" LINEA,
      HF_EINVAL, 1, 15, "got \"1e309\""},
-    {"negative section length", HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
-     "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: -300 m}\n",
-     HF_EINVAL, 9, 38,
-     "lines[0].sections[0].length: expected a positive length, got \"-300 m\""},
-    {"empty sections list", HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
-     "    fairlead: [0, 0, -9]\n    sections: []\n",
+    {"negative section length",
+     HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
+          "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: -300 m}\n",
+     HF_EINVAL, 9, 38, "lines[0].sections[0].length: expected a positive length, got \"-300 m\""},
+    {"empty sections list",
+     HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
+          "    fairlead: [0, 0, -9]\n    sections: []\n",
      HF_EINVAL, 8, 15, "lines[0].sections: expected at least one section"},
-    {"unknown component", HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
-     "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain67, length: 520 m}\n",
+    {"unknown component",
+     HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
+          "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain67, length: 520 m}\n",
      HF_EINVAL, 9, 21,
      "lines[0].sections[0].component: expected the name of a component (chain76), got "
      "\"chain67\"; did you mean \"chain76\"?"},
-    {"duplicate line names", VALID "  - name: a\n    anchor: [500, 0]\n    fairlead: [0, 0, -9]\n"
-     "    sections:\n      - {component: chain76, length: 520 m}\n",
-     HF_EINVAL, 10, 11, "lines[1].name: expected a unique line name, got \"a\" again (first at 5:5)"},
-    {"fairlead below the seabed", HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
-     "    fairlead: [0, 0, -90]\n    sections:\n      - {component: chain76, length: 520 m}\n",
+    {"duplicate line names",
+     VALID "  - name: a\n    anchor: [500, 0]\n    fairlead: [0, 0, -9]\n"
+           "    sections:\n      - {component: chain76, length: 520 m}\n",
+     HF_EINVAL, 10, 11,
+     "lines[1].name: expected a unique line name, got \"a\" again (first at 5:5)"},
+    {"fairlead below the seabed",
+     HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
+          "    fairlead: [0, 0, -90]\n    sections:\n      - {component: chain76, length: 520 m}\n",
      HF_EINVAL, 7, 22, "lines[0].fairlead[2]: expected a fairlead above the seabed (z >= -85 m"},
-    {"a force where a length belongs", HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
-     "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: 300 kN}\n",
+    {"a force where a length belongs",
+     HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
+          "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: 300 kN}\n",
      HF_EINVAL, 9, 38, "lines[0].sections[0].length: expected a length, got \"300 kN\""},
-    {"YAML syntax: unclosed flow list", HEAD "lines:\n  - name: a\n    anchor: [-500, 0\n"
-     "    fairlead: [0, 0, -9]\n", HF_EINVAL, 7, 13, "YAML syntax: did not find expected ',' or ']'"},
+    {"YAML syntax: unclosed flow list",
+     HEAD "lines:\n  - name: a\n    anchor: [-500, 0\n"
+          "    fairlead: [0, 0, -9]\n",
+     HF_EINVAL, 7, 13, "YAML syntax: did not find expected ',' or ']'"},
     {"YAML syntax: tab indentation", HEAD "lines:\n  - name: a\n\tanchor: [-500, 0]\n", HF_EINVAL,
      6, 1, "YAML syntax: found a tab character that violates indentation"},
     {"unknown top-level key", HEAD "lins:\n  - name: a\n", HF_EINVAL, 4, 1,
      "expected a key of a case file (title, site, components, lines, hull, loads, criteria, "
      "studies), got \"lins\"; did you mean \"lines\"?"},
-    {"unknown line key", HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
-     "    fairlead: [0, 0, -9]\n    sectoins:\n      - {component: chain76, length: 520 m}\n",
+    {"unknown line key",
+     HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
+          "    fairlead: [0, 0, -9]\n    sectoins:\n      - {component: chain76, length: 520 m}\n",
      HF_EINVAL, 8, 5, "got \"sectoins\"; did you mean \"sections\"?"},
-    {"missing fairlead", HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
-     "    sections:\n      - {component: chain76, length: 520 m}\n",
+    {"missing fairlead",
+     HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
+          "    sections:\n      - {component: chain76, length: 520 m}\n",
      HF_EINVAL, 5, 5, "lines[0].fairlead: expected the fairlead's hull-frame [x, y, z] (required)"},
-    {"missing site", "components:\n  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n"
-     LINEA, HF_EINVAL, 1, 1, "site: expected a site with its depth (required), got nothing"},
-    {"duplicate mapping key", "site: {depth: 85 m, depth: 90 m}\n" "components:\n"
+    {"missing site",
+     "components:\n  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n" LINEA,
+     HF_EINVAL, 1, 1, "site: expected a site with its depth (required), got nothing"},
+    {"duplicate mapping key",
+     "site: {depth: 85 m, depth: 90 m}\n"
+     "components:\n"
      "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n" LINEA,
      HF_EINVAL, 1, 21, "site.depth: expected each key once, got \"depth\" again (first at 1:8)"},
-    {"duplicate component name", HEAD "  chain76: {type: studlink_chain, grade: R3, diameter: 76 mm}\n"
-     LINEA, HF_EINVAL, 4, 3, "components.chain76: expected each component name once"},
-    {"anchor with three coordinates", HEAD "lines:\n  - name: a\n    anchor: [1, 2, 3]\n"
-     "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: 520 m}\n",
-     HF_EINVAL, 6, 13, "lines[0].anchor: expected the anchor's global [x, y] (a list of 2 numbers), got a list of 3"},
-    {"clump at the anchor end", HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
-     "    fairlead: [0, 0, -9]\n    sections:\n      - {clump: 50 kN}\n"
-     "      - {component: chain76, length: 520 m}\n",
-     HF_EINVAL, 9, 9, "lines[0].sections[0]: expected a clump or buoy between two component "
-                      "sections, got one at the anchor end"},
+    {"duplicate component name",
+     HEAD "  chain76: {type: studlink_chain, grade: R3, diameter: 76 mm}\n" LINEA, HF_EINVAL, 4, 3,
+     "components.chain76: expected each component name once"},
+    {"anchor with three coordinates",
+     HEAD "lines:\n  - name: a\n    anchor: [1, 2, 3]\n"
+          "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: 520 m}\n",
+     HF_EINVAL, 6, 13,
+     "lines[0].anchor: expected the anchor's global [x, y] (a list of 2 numbers), got a list of 3"},
+    {"clump at the anchor end",
+     HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
+          "    fairlead: [0, 0, -9]\n    sections:\n      - {clump: 50 kN}\n"
+          "      - {component: chain76, length: 520 m}\n",
+     HF_EINVAL, 9, 9,
+     "lines[0].sections[0]: expected a clump or buoy between two component "
+     "sections, got one at the anchor end"},
     {"buoy at the fairlead end", VALID "      - {buoy: 20 kN}\n", HF_EINVAL, 10, 9,
      "lines[0].sections[1]: expected a clump or buoy between two component sections, got one at "
      "the fairlead end"},
     {"two point loads at the fairlead end", VALID "      - {clump: 20 kN}\n      - {buoy: 5 kN}\n",
-     HF_EINVAL, 10, 9, "lines[0].sections[1]: expected a clump or buoy between two component "
-                       "sections, got one at the fairlead end"},
-    {"component and clump in one entry", HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
-     "    fairlead: [0, 0, -9]\n    sections:\n"
-     "      - {component: chain76, length: 5 m, clump: 5 kN}\n",
+     HF_EINVAL, 10, 9,
+     "lines[0].sections[1]: expected a clump or buoy between two component "
+     "sections, got one at the fairlead end"},
+    {"component and clump in one entry",
+     HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
+          "    fairlead: [0, 0, -9]\n    sections:\n"
+          "      - {component: chain76, length: 5 m, clump: 5 kN}\n",
      HF_EINVAL, 9, 9, "got more than one of component, clump and buoy"},
-    {"misspelt component type", "site: {depth: 85 m}\ncomponents:\n"
+    {"misspelt component type",
+     "site: {depth: 85 m}\ncomponents:\n"
      "  chain76: {type: studless-chain, grade: R3, diameter: 76 mm}\n" LINEA,
      HF_EINVAL, 3, 19, "components.chain76.type: expected a component type (studless_chain, "},
-    {"grade on a wire rope", HEAD "  wire: {type: spiral_strand, grade: R3, diameter: 64 mm}\n" LINEA,
-     HF_EINVAL, 4, 38, "components.wire.grade: expected no grade"},
+    {"grade on a wire rope",
+     HEAD "  wire: {type: spiral_strand, grade: R3, diameter: 64 mm}\n" LINEA, HF_EINVAL, 4, 38,
+     "components.wire.grade: expected no grade"},
     {"misspelt anchor kind", VALID "    anchor_kind: gravty\n", HF_EINVAL, 10, 18,
      "lines[0].anchor_kind: expected an anchor kind (drag, gravity, pile, plate), got \"gravty\"; "
      "did you mean \"gravity\"?"},
@@ -118,81 +149,109 @@ static const bad_case bad[] = {
      "lines[0].block_weight: expected a positive force (required), got nothing"},
     {"block weight on a drag anchor", VALID "    block_weight: 40 kN\n", HF_EINVAL, 10, 5,
      "lines[0].block_weight: expected block_weight only with anchor_kind: gravity"},
-    {"force vector with a direction", VALID "loads:\n  - name: w\n    force: [100 kN, 0]\n"
-     "    direction: 90 deg\n", HF_EINVAL, 13, 5,
-     "loads[0].direction: expected no direction with a force given as [fx, fy]"},
+    {"force vector with a direction",
+     VALID "loads:\n  - name: w\n    force: [100 kN, 0]\n"
+           "    direction: 90 deg\n",
+     HF_EINVAL, 13, 5, "loads[0].direction: expected no direction with a force given as [fx, fy]"},
     {"load without any force", VALID "loads:\n  - name: w\n", HF_EINVAL, 11, 5,
      "loads[0]: expected at least one of force, moment, wind and current, got none"},
-    {"duplicate load names", VALID "loads:\n  - name: w\n    force: [1 kN, 0]\n"
-     "  - name: w\n    force: [2 kN, 0]\n", HF_EINVAL, 13, 11,
+    {"duplicate load names",
+     VALID "loads:\n  - name: w\n    force: [1 kN, 0]\n"
+           "  - name: w\n    force: [2 kN, 0]\n",
+     HF_EINVAL, 13, 11,
      "loads[1].name: expected a unique load name, got \"w\" again (first at 11:5)"},
     {"misspelt criteria preset", VALID "criteria: {preset: api-rp2sk}\n", HF_EINVAL, 10, 20,
      "criteria.preset: expected a criteria preset (api-rp-2sk, "},
     {"safety factor below 1", VALID "criteria: {intact_factor: 0.8}\n", HF_EINVAL, 10, 27,
      "criteria.intact_factor: expected 0 (no check) or a safety factor >= 1, got \"0.8\""},
     /* issue 12 item 17: clear messages for near misses */
-    {"abbreviated component type", "site: {depth: 85 m}\ncomponents:\n"
-     "  chain76: {type: studless, grade: R3, diameter: 76 mm}\n" LINEA, HF_EINVAL, 3, 19,
+    {"abbreviated component type",
+     "site: {depth: 85 m}\ncomponents:\n"
+     "  chain76: {type: studless, grade: R3, diameter: 76 mm}\n" LINEA,
+     HF_EINVAL, 3, 19,
      "components.chain76.type: expected a component type (studless_chain, studlink_chain, "
      "six_strand, spiral_strand, polyester, nylon, custom), got \"studless\"; did you mean "
      "\"studless_chain\"?"},
-    {"decimal comma in a block value", "site:\n  depth: 85,5 m\ncomponents:\n"
-     "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n" LINEA, HF_EINVAL, 2, 10,
+    {"decimal comma in a block value",
+     "site:\n  depth: 85,5 m\ncomponents:\n"
+     "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n" LINEA,
+     HF_EINVAL, 2, 10,
      "site.depth: expected a length, got \"85,5 m\": a decimal comma? write \"85.5 m\""},
-    {"decimal comma in a flow mapping", "site: {depth: 85,5 m}\ncomponents:\n"
-     "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n" LINEA, HF_EINVAL, 1, 18,
+    {"decimal comma in a flow mapping",
+     "site: {depth: 85,5 m}\ncomponents:\n"
+     "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n" LINEA,
+     HF_EINVAL, 1, 18,
      "site: expected a key of the site, got \"5 m\": a decimal comma? in a {...} mapping a "
      "comma separates entries: write \"85.5 m\""},
     /* issue 12 item 6: names that would write DIR/.csv or shadow an index */
-    {"empty line name", HEAD "lines:\n  - name: \"\"\n    anchor: [-500, 0]\n"
-     "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: 520 m}\n",
-     HF_EINVAL, 5, 11, "lines[0].name: expected a line name of at least one letter, digit, '_' "
+    {"empty line name",
+     HEAD "lines:\n  - name: \"\"\n    anchor: [-500, 0]\n"
+          "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: 520 m}\n",
+     HF_EINVAL, 5, 11,
+     "lines[0].name: expected a line name of at least one letter, digit, '_' "
      "or '-', got an empty name"},
-    {"numeric line name", HEAD "lines:\n  - name: 7\n    anchor: [-500, 0]\n"
-     "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: 520 m}\n",
-     HF_EINVAL, 5, 11, "lines[0].name: expected a line name with at least one letter, '_' or '-' "
+    {"numeric line name",
+     HEAD "lines:\n  - name: 7\n    anchor: [-500, 0]\n"
+          "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: 520 m}\n",
+     HF_EINVAL, 5, 11,
+     "lines[0].name: expected a line name with at least one letter, '_' or '-' "
      "(a number would be read as an index in lines[INDEX]), got \"7\""},
     {"numeric load name", VALID "loads:\n  - name: 2\n    force: [1 kN, 0]\n", HF_EINVAL, 11, 11,
      "loads[0].name: expected a load name with at least one letter"},
     {"empty study name", VALID "studies:\n  - {name: '', kind: lines}\n", HF_EINVAL, 11, 12,
      "studies[0].name: expected a study name of at least one letter"},
     /* issue 12 item 3: one parameter varied twice, through an alias */
-    {"parameter varied twice in a study", VALID "studies:\n  - name: s\n    kind: sweep\n"
-     "    vary:\n      - {path: \"lines[0].sections[0].length\", values: [500 m]}\n"
-     "      - {path: \"lines[a].sections[0].length\", values: [510 m]}\n", HF_EINVAL, 15, 16,
+    {"parameter varied twice in a study",
+     VALID "studies:\n  - name: s\n    kind: sweep\n"
+           "    vary:\n      - {path: \"lines[0].sections[0].length\", values: [500 m]}\n"
+           "      - {path: \"lines[a].sections[0].length\", values: [510 m]}\n",
+     HF_EINVAL, 15, 16,
      "studies[0].vary[1].path: expected each parameter varied once, got "
      "\"lines[a].sections[0].length\", which sets the same value as "
      "\"lines[0].sections[0].length\" (vary[0])"},
     {"misspelt study kind", VALID "studies:\n  - {name: s, kind: sweeep}\n", HF_EINVAL, 11, 21,
      "studies[0].kind: expected a study kind (lines, curve, stiffness, balance, sweep, invert), "
      "got \"sweeep\"; did you mean \"sweep\"?"},
-    {"unknown parameter path", VALID "studies:\n  - name: s\n    kind: sweep\n    vary:\n"
-     "      - {path: site.dept, values: [80 m]}\n", HF_EINVAL, 14, 16,
+    {"unknown parameter path",
+     VALID "studies:\n  - name: s\n    kind: sweep\n    vary:\n"
+           "      - {path: site.dept, values: [80 m]}\n",
+     HF_EINVAL, 14, 16,
      "studies[0].vary[0].path: parameter path \"site.dept\": unknown site parameter"},
-    {"range with a zero step", VALID "studies:\n  - name: s\n    kind: sweep\n    vary:\n"
-     "      - {path: site.depth, range: [80 m, 90 m, 0 m]}\n", HF_EINVAL, 14, 48,
-     "studies[0].vary[0].range[2]: expected a non-zero step pointing from 80 m to 90 m, got \"0 m\""},
-    {"zipped lists of unequal length", VALID "studies:\n  - name: s\n    kind: sweep\n    vary:\n"
-     "      - {path: site.depth, values: [80 m, 90 m]}\n"
-     "      - {path: site.water_level, values: [1 m]}\n    combine: zip\n", HF_EINVAL, 16, 14,
+    {"range with a zero step",
+     VALID "studies:\n  - name: s\n    kind: sweep\n    vary:\n"
+           "      - {path: site.depth, range: [80 m, 90 m, 0 m]}\n",
+     HF_EINVAL, 14, 48,
+     "studies[0].vary[0].range[2]: expected a non-zero step pointing from 80 m to 90 m, got \"0 "
+     "m\""},
+    {"zipped lists of unequal length",
+     VALID "studies:\n  - name: s\n    kind: sweep\n    vary:\n"
+           "      - {path: site.depth, values: [80 m, 90 m]}\n"
+           "      - {path: site.water_level, values: [1 m]}\n    combine: zip\n",
+     HF_EINVAL, 16, 14,
      "studies[0].combine: expected lists of equal length for zip, got 2 and 1 values"},
-    {"unknown invert output", VALID "studies:\n  - name: inv\n    kind: invert\n"
-     "    vary: {path: \"lines[a].sections[0].length\", range: [500 m, 540 m]}\n"
-     "    target: {output: fairlead_tensoin, line: a, value: 100 kN}\n", HF_EINVAL, 14, 22,
-     "fairlead_tensoin"},
-    {"invert target on an unknown line", VALID "studies:\n  - name: inv\n    kind: invert\n"
-     "    vary: {path: \"lines[a].sections[0].length\", range: [500 m, 540 m]}\n"
-     "    target: {output: fairlead_tension, line: b, value: 100 kN}\n", HF_EINVAL, 14, 46,
-     "studies[0].target.line: expected the name of a line, got \"b\""},
-    {"balance study naming an unknown load", VALID "loads:\n"
-     "  - {name: storm, force: 100 kN, direction: 0 deg}\nstudies:\n"
-     "  - {name: b, kind: balance, loads: [strom]}\n", HF_EINVAL, 13, 38,
+    {"unknown invert output",
+     VALID "studies:\n  - name: inv\n    kind: invert\n"
+           "    vary: {path: \"lines[a].sections[0].length\", range: [500 m, 540 m]}\n"
+           "    target: {output: fairlead_tensoin, line: a, value: 100 kN}\n",
+     HF_EINVAL, 14, 22, "fairlead_tensoin"},
+    {"invert target on an unknown line",
+     VALID "studies:\n  - name: inv\n    kind: invert\n"
+           "    vary: {path: \"lines[a].sections[0].length\", range: [500 m, 540 m]}\n"
+           "    target: {output: fairlead_tension, line: b, value: 100 kN}\n",
+     HF_EINVAL, 14, 46, "studies[0].target.line: expected the name of a line, got \"b\""},
+    {"balance study naming an unknown load",
+     VALID "loads:\n"
+           "  - {name: storm, force: 100 kN, direction: 0 deg}\nstudies:\n"
+           "  - {name: b, kind: balance, loads: [strom]}\n",
+     HF_EINVAL, 13, 38,
      "studies[0].loads[0]: expected the name of a load case, got \"strom\"; did you mean "
      "\"storm\"?"},
-    {"duplicate study names", VALID "studies:\n  - {name: r, kind: lines}\n"
-     "  - {name: r, kind: stiffness}\n", HF_EINVAL, 12, 12,
-     "studies[1].name: expected a unique study name, got \"r\" again"},
-    {"alias of the wrong type", "site: &s {depth: 85 m}\ncomponents:\n"
+    {"duplicate study names",
+     VALID "studies:\n  - {name: r, kind: lines}\n"
+           "  - {name: r, kind: stiffness}\n",
+     HF_EINVAL, 12, 12, "studies[1].name: expected a unique study name, got \"r\" again"},
+    {"alias of the wrong type",
+     "site: &s {depth: 85 m}\ncomponents:\n"
      "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n" LINEA "title: *s\n",
      HF_EINVAL, 1, 7, "title: expected a title (text), got a mapping"},
     {"alias to an undefined anchor", VALID "title: *nowhere\n", HF_EINVAL, 10, 8,
@@ -202,53 +261,61 @@ static const bad_case bad[] = {
     {"a second YAML document", VALID "---\nsite: {depth: 5 m}\n", HF_EINVAL, 10, 1,
      "expected one YAML document in a case file, got a second one"},
     {"empty file", "", HF_EINVAL, 1, 1, "got an empty file"},
-    {"a list as a key in a later section entry", HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
-     "    fairlead: [0, 0, -9]\n    sections:\n      - {clump: 5 kN}\n      - {[x]: 1}\n",
+    {"a list as a key in a later section entry",
+     HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
+          "    fairlead: [0, 0, -9]\n    sections:\n      - {clump: 5 kN}\n      - {[x]: 1}\n",
      HF_EINVAL, 9, 9, "got one at the anchor end"},
     {"a mapping as a key in a study", VALID "studies:\n  - {{a: 1}: 2, kind: lines}\n", HF_EINVAL,
      11, 6, "studies[0]: expected a key name in a lines study, got a mapping"},
     {"a case that is a list", "- site\n- lines\n", HF_EINVAL, 1, 1,
      "expected a case file (a mapping of keys to values), got a list"},
     {"comment-only file", "# nothing here\n", HF_EINVAL, 1, 1, "got an empty file"},
-    {"water level below the seabed", "site: {depth: 85 m, water_level: -90 m}\ncomponents:\n"
+    {"water level below the seabed",
+     "site: {depth: 85 m, water_level: -90 m}\ncomponents:\n"
      "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n" LINEA,
      HF_EINVAL, 1, 34, "site.water_level: expected a water level above the seabed"},
-    {"a length where a mass per metre belongs", "site: {depth: 85 m}\ncomponents:\n"
+    {"a length where a mass per metre belongs",
+     "site: {depth: 85 m}\ncomponents:\n"
      "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm, mass: 3 m}\n" LINEA,
      HF_EINVAL, 3, 69, "components.chain76.mass: expected a mass per length, got \"3 m\""},
     {"hull outline of two points", VALID "hull: {outline: [[0, 0], [1, 1]]}\n", HF_EINVAL, 10, 17,
      "hull.outline: expected a polygon of at least 3 hull-frame points"},
-    {"sweep value of the wrong kind", VALID "studies:\n  - name: s\n    kind: sweep\n    vary:\n"
-     "      - {path: site.water_level, values: [1 kN]}\n", HF_EINVAL, 14, 43,
-     "studies[0].vary[0].values[0]: expected a length, got \"1 kN\""},
-    {"line name with a space", HEAD "lines:\n  - name: bow port\n    anchor: [-500, 0]\n"
-     "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: 520 m}\n",
+    {"sweep value of the wrong kind",
+     VALID "studies:\n  - name: s\n    kind: sweep\n    vary:\n"
+           "      - {path: site.water_level, values: [1 kN]}\n",
+     HF_EINVAL, 14, 43, "studies[0].vary[0].values[0]: expected a length, got \"1 kN\""},
+    {"line name with a space",
+     HEAD "lines:\n  - name: bow port\n    anchor: [-500, 0]\n"
+          "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: 520 m}\n",
      HF_EINVAL, 5, 11, "lines[0].name: expected a line name made of letters, digits, '_' and '-'"},
     {"lines as a mapping", HEAD "lines: {}\n", HF_EINVAL, 4, 8,
      "lines: expected a list of lines, got a mapping"},
-    {"custom component without a breaking load", HEAD
-     "  heavy: {type: custom, wet_weight: 1.1 kN/m, axial_stiffness: 500 MN}\n" LINEA,
+    {"custom component without a breaking load",
+     HEAD "  heavy: {type: custom, wet_weight: 1.1 kN/m, axial_stiffness: 500 MN}\n" LINEA,
      HF_EINVAL, 4, 10, "components.heavy: "},
     {"uplift limit of 95 degrees", VALID "    max_uplift: 95 deg\n", HF_EINVAL, 10, 17,
      "lines[0].max_uplift: expected an angle from 0 to below 90 deg, got \"95 deg\""},
-    {"empty value", "site: {depth: }\ncomponents:\n"
+    {"empty value",
+     "site: {depth: }\ncomponents:\n"
      "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n" LINEA,
      HF_EINVAL, 1, 15, "site.depth: expected a length, got nothing"},
-    {"negative friction on a clump", HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
-     "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: 200 m}\n"
-     "      - {clump: 20 kN, friction: -0.3}\n      - {component: chain76, length: 320 m}\n",
+    {"negative friction on a clump",
+     HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
+          "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: 200 m}\n"
+          "      - {clump: 20 kN, friction: -0.3}\n      - {component: chain76, length: 320 m}\n",
      HF_EINVAL, 10, 34,
      "lines[0].sections[1].friction: expected a plain number >= 0, got \"-0.3\""},
-    {"curve range that never reaches its end", VALID "studies:\n  - name: c\n    kind: curve\n"
-     "    direction: 0 deg\n    range: [0 m, 10 m, -1 m]\n", HF_EINVAL, 14, 24,
-     "studies[0].range[2]: expected a non-zero step pointing from 0 m to 10 m"},
+    {"curve range that never reaches its end",
+     VALID "studies:\n  - name: c\n    kind: curve\n"
+           "    direction: 0 deg\n    range: [0 m, 10 m, -1 m]\n",
+     HF_EINVAL, 14, 24, "studies[0].range[2]: expected a non-zero step pointing from 0 m to 10 m"},
 };
 #define NBAD (sizeof bad / sizeof bad[0])
 
 /* Loads text; checks status, location and fragment; the model must be empty after.
  * Returns 1 when all holds, else prints why and returns 0. */
 static int check_bad(const char *what, const char *text, size_t len, hf_status status, int line,
-                       int col, const char *frag)
+                     int col, const char *frag)
 {
     hf_model m;
     hf_error err;
@@ -260,8 +327,8 @@ static int check_bad(const char *what, const char *text, size_t len, hf_status s
     int ok = 1;
     if (st != status || err.status != status || strncmp(err.text, where, strlen(where)) ||
         !strstr(err.text, frag)) {
-        print_error("%s: got status %d, message\n  %s\nexpected status %d at %s with\n  %s\n",
-                    what, (int)st, err.text, (int)status, where, frag);
+        print_error("%s: got status %d, message\n  %s\nexpected status %d at %s with\n  %s\n", what,
+                    (int)st, err.text, (int)status, where, frag);
         ok = 0;
     }
     if (m.nlines || m.lines || m.components || m.source_path || m.title) {
@@ -315,9 +382,8 @@ static void minimal_case_is_valid(void **state)
     /* no studies: section gives an empty study list */
     hf_study_list sl;
     hf_study_list_init(&sl);
-    assert_int_equal(hf_case_load_buffer_with_studies(VALID, strlen(VALID), "t.yaml", &m, &sl,
-                                                      &err),
-                     HF_OK);
+    assert_int_equal(
+        hf_case_load_buffer_with_studies(VALID, strlen(VALID), "t.yaml", &m, &sl, &err), HF_OK);
     assert_int_equal(sl.n, 0);
     assert_null(sl.v);
     hf_study_list_free(&sl);
@@ -365,7 +431,7 @@ static void limits_named(void **state)
 
     /* more than HF_LINE_MAX_SECTIONS component sections */
     n = (size_t)sprintf(buf, HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
-                             "    fairlead: [0, 0, -9]\n    sections:\n");
+                                  "    fairlead: [0, 0, -9]\n    sections:\n");
     for (int i = 0; i <= HF_LINE_MAX_SECTIONS; i++)
         n += (size_t)sprintf(buf + n, "      - {component: chain76, length: 17 m}\n");
     expect_bad("too many sections", buf, n, HF_ELIMIT, 9 + HF_LINE_MAX_SECTIONS, 9,
@@ -400,22 +466,21 @@ static void limits_named(void **state)
 static void aliases_expand(void **state)
 {
     (void)state;
-    static const char yaml[] =
-        "site: {depth: 85 m}\n"
-        "components:\n"
-        "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n"
-        "lines:\n"
-        "  - name: a\n"
-        "    anchor: [-500, 0]\n"
-        "    fairlead: [0, 0, -9]\n"
-        "    sections: &cc\n"
-        "      - {component: chain76, length: &len 260 m}\n"
-        "      - {clump: 35 kN}\n"
-        "      - {component: chain76, length: *len}\n"
-        "  - name: b\n"
-        "    anchor: [500, 0]\n"
-        "    fairlead: [0, 0, -9]\n"
-        "    sections: *cc\n";
+    static const char yaml[] = "site: {depth: 85 m}\n"
+                               "components:\n"
+                               "  chain76: {type: studless_chain, grade: R3, diameter: 76 mm}\n"
+                               "lines:\n"
+                               "  - name: a\n"
+                               "    anchor: [-500, 0]\n"
+                               "    fairlead: [0, 0, -9]\n"
+                               "    sections: &cc\n"
+                               "      - {component: chain76, length: &len 260 m}\n"
+                               "      - {clump: 35 kN}\n"
+                               "      - {component: chain76, length: *len}\n"
+                               "  - name: b\n"
+                               "    anchor: [500, 0]\n"
+                               "    fairlead: [0, 0, -9]\n"
+                               "    sections: *cc\n";
     hf_model m;
     hf_error err;
     hf_model_init(&m);
@@ -430,8 +495,9 @@ static void aliases_expand(void **state)
     char buf[2048];
     size_t n = (size_t)sprintf(buf, VALID "x0: &a0 [0, 0, 0, 0, 0, 0, 0, 0, 0, 0]\n");
     for (int k = 1; k <= 6; k++)
-        n += (size_t)sprintf(buf + n, "x%d: &a%d [*a%d, *a%d, *a%d, *a%d, *a%d, *a%d, *a%d, *a%d, "
-                                      "*a%d, *a%d]\n",
+        n += (size_t)sprintf(buf + n,
+                             "x%d: &a%d [*a%d, *a%d, *a%d, *a%d, *a%d, *a%d, *a%d, *a%d, "
+                             "*a%d, *a%d]\n",
                              k, k, k - 1, k - 1, k - 1, k - 1, k - 1, k - 1, k - 1, k - 1, k - 1,
                              k - 1);
     hf_status st = hf_case_load_buffer(buf, n, "t.yaml", &m, &err);
@@ -536,8 +602,8 @@ static void full_case_loads(void **state)
     hf_model_init(&m);
     hf_study_list sl;
     hf_study_list_init(&sl);
-    hf_status st = hf_case_load_buffer_with_studies(full_case, strlen(full_case), "full.yaml", &m,
-                                                    &sl, &err);
+    hf_status st =
+        hf_case_load_buffer_with_studies(full_case, strlen(full_case), "full.yaml", &m, &sl, &err);
     if (st != HF_OK)
         fail_msg("%s", err.text);
     const double deg = M_PI / 180.0;
@@ -712,7 +778,7 @@ static void demo_cases_load(void **state)
         kinds |= 1 << sl.v[i].kind;
     assert_int_equal(kinds, 0x3f); /* every study kind appears */
     for (size_t i = 0; i < m.nlines; i++) {
-        assert_int_equal(m.lines[i].line.n, 3);       /* chain - wire - chain */
+        assert_int_equal(m.lines[i].line.n, 3);         /* chain - wire - chain */
         assert_true(m.lines[i].line.joint[0].load > 0); /* with a clump */
         assert_int_equal(m.components[m.lines[i].pieces[2].component].comp.type,
                          HF_COMP_SPIRAL_STRAND);
@@ -774,14 +840,10 @@ static void docs_skeleton_loads(void **state)
 int main(void)
 {
     const struct CMUnitTest tests[] = {
-        cmocka_unit_test(minimal_case_is_valid),
-        cmocka_unit_test(malformed_table),
-        cmocka_unit_test(limits_named),
-        cmocka_unit_test(aliases_expand),
-        cmocka_unit_test(unreadable_file),
-        cmocka_unit_test(full_case_loads),
-        cmocka_unit_test(docs_skeleton_loads),
-        cmocka_unit_test(allocation_failures),
+        cmocka_unit_test(minimal_case_is_valid), cmocka_unit_test(malformed_table),
+        cmocka_unit_test(limits_named),          cmocka_unit_test(aliases_expand),
+        cmocka_unit_test(unreadable_file),       cmocka_unit_test(full_case_loads),
+        cmocka_unit_test(docs_skeleton_loads),   cmocka_unit_test(allocation_failures),
         cmocka_unit_test(demo_cases_load),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);

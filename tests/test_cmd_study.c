@@ -175,10 +175,10 @@ static int teardown(void **s)
     return hf_test_tmpdir_remove(dir) == 0 ? 0 : -1;
 }
 
-#define SWEEP_ARGS                                                                               \
-    "sweep", path_in("quarrel.yaml"), "--vary", "site.water_level=-1.5:1.5:0.01", "--vary",     \
-        "lines[north].sections[3].length=110,111.385,112.7", "--output", "fairlead_tension",     \
-        "--output", "max_utilisation", "--output", "stiffness_surge", "--output", "offset_gale", \
+#define SWEEP_ARGS                                                                                 \
+    "sweep", path_in("quarrel.yaml"), "--vary", "site.water_level=-1.5:1.5:0.01", "--vary",        \
+        "lines[north].sections[3].length=110,111.385,112.7", "--output", "fairlead_tension",       \
+        "--output", "max_utilisation", "--output", "stiffness_surge", "--output", "offset_gale",   \
         "--quiet"
 
 static void test_jobs_identical(void **s)
@@ -212,10 +212,9 @@ static void test_shards_concatenate(void **s)
     const char *shard[] = {"1/4", "2/4", "3/4", "4/4"};
     for (int k = 0; k < 4; k++) {
         char *part = path_in("part.csv");
-        assert_int_equal(
-            exit_code(run(NULL, 0, 0, NULL, SWEEP_ARGS, "--jobs", k % 2 ? "1" : "2", "--shard",
-                          shard[k], "--csv", part, NULL)),
-            0);
+        assert_int_equal(exit_code(run(NULL, 0, 0, NULL, SWEEP_ARGS, "--jobs", k % 2 ? "1" : "2",
+                                       "--shard", shard[k], "--csv", part, NULL)),
+                         0);
         size_t n;
         char *t = hf_test_file_read(part, &n);
         assert_non_null(t);
@@ -244,7 +243,7 @@ static void test_sweep_interrupted(void **s)
         watch = NULL;
         assert_true(WIFSIGNALED(st) && WTERMSIG(st) == sigs[i]); /* it was still running */
         struct stat sb;
-        assert_int_equal(stat(out, &sb), -1); /* no partial file */
+        assert_int_equal(stat(out, &sb), -1);             /* no partial file */
         assert_int_equal(count_named(dir, "big.csv"), 0); /* and no temporary left */
     }
 }
@@ -263,8 +262,7 @@ static void test_run_interrupted_and_complete(void **s)
     char *c = path_in("big-run.yaml"), *out = path_in("big-out");
     write_file(c, hf_test_case_quarrel, studies_big);
     watch = out;
-    int st = run(NULL, 0.2, SIGTERM, NULL, "run", c, "--out", out, "--jobs", "2", "--quiet",
-                 NULL);
+    int st = run(NULL, 0.2, SIGTERM, NULL, "run", c, "--out", out, "--jobs", "2", "--quiet", NULL);
     watch = NULL;
     assert_true(WIFSIGNALED(st) && WTERMSIG(st) == SIGTERM);
     /* The results folder is untouched (a run replaces it as a whole, at the
@@ -303,8 +301,8 @@ static void test_run_interrupted_and_complete(void **s)
     out = path_in("full-out");
     write_file(c, hf_test_case_quarrel, studies);
     assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "run", c, "--out", out, "--quiet", NULL)), 1);
-    const char *files[] = {"rest.csv", "k.csv", "surge.csv", "storm.csv", "tide.csv",
-                           "pretension.csv", "summary.txt", "report.html"};
+    const char *files[] = {"rest.csv", "k.csv",          "surge.csv",   "storm.csv",
+                           "tide.csv", "pretension.csv", "summary.txt", "report.html"};
     for (size_t i = 0; i < sizeof files / sizeof files[0]; i++) {
         snprintf(p, sizeof p, "%s/%s", out, files[i]);
         assert_int_equal(stat(p, &sb), 0);
@@ -378,9 +376,9 @@ static void test_run_interrupted_and_complete(void **s)
                               "    outputs: [tension_of_everything]\n";
     c = path_in("bad-run.yaml");
     write_file(c, hf_test_case_quarrel, bad);
-    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "run", c, "--out", path_in("bad-out"),
-                                   "--quiet", NULL)),
-                     2);
+    assert_int_equal(
+        exit_code(run(NULL, 0, 0, NULL, "run", c, "--out", path_in("bad-out"), "--quiet", NULL)),
+        2);
     assert_int_equal(count_named(path_in("bad-out"), "tide"), 0);
 }
 
@@ -443,10 +441,10 @@ static void test_cli_errors(void **s)
                                    "fairlead_tension:north=5000kN", NULL)),
                      3);
     char *o = path_in("inv.csv");
-    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "invert", c, "--vary",
-                                   "lines[north].anchor_radius=400:425", "--target",
-                                   "fairlead_horizontal:north=150.35kN", "--csv", o, NULL)),
-                     0);
+    assert_int_equal(
+        exit_code(run(NULL, 0, 0, NULL, "invert", c, "--vary", "lines[north].anchor_radius=400:425",
+                      "--target", "fairlead_horizontal:north=150.35kN", "--csv", o, NULL)),
+        0);
     size_t n;
     char *t = hf_test_file_read(o, &n);
     assert_non_null(strstr(t, "lines[north].anchor_radius,"));
@@ -518,10 +516,10 @@ static void test_slurm_scripts(void **s)
                                    "--csv", part2, "--quiet", NULL)),
                      0);
     assert_int_equal(system(cmd), 0); /* back in place: merges again */
-    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "sweep", path_in("quarrel.yaml"), "--vary",
-                                   "site.water_level=-1.5:1.5:0.5", "--csv", part2, "--quiet",
-                                   NULL)),
-                     0);
+    assert_int_equal(
+        exit_code(run(NULL, 0, 0, NULL, "sweep", path_in("quarrel.yaml"), "--vary",
+                      "site.water_level=-1.5:1.5:0.5", "--csv", part2, "--quiet", NULL)),
+        0);
     assert_int_equal(stat(side, &sb), 0); /* the old sidecar is still there */
     assert_int_not_equal(system(cmd), 0);
 }
@@ -552,8 +550,8 @@ static void test_docs_slurm_example(void **s)
     snprintf(args, sizeof args, "%.*s", (int)la, a);
     free(doc);
     snprintf(cmd, sizeof cmd,
-             "set -f; '%s' sweep '%s/%s' %s --shard 1/1000 --quiet --csv /dev/null 2>&1", bin,
-             root, casef, args);
+             "set -f; '%s' sweep '%s/%s' %s --shard 1/1000 --quiet --csv /dev/null 2>&1", bin, root,
+             casef, args);
     assert_int_equal(system(cmd), 0);
 }
 
@@ -577,13 +575,13 @@ static void test_sweep_size_and_help(void **s)
     assert_int_equal(stat(csv, &sb), -1);
     /* the same sweep cut into a million parts is small enough per part */
     assert_int_equal(HF_TEST_RUN(&io, "sweep", c, "--vary", "site.depth=60:61:1e-5", "--vary",
-                                 "site.water_level=0:1:1e-5", "--shard", "1000000/1000000",
-                                 "--csv", csv, "--quiet"),
+                                 "site.water_level=0:1:1e-5", "--shard", "1000000/1000000", "--csv",
+                                 csv, "--quiet"),
                      0);
     assert_int_equal(HF_TEST_RUN(&io, "sweep", "--help"), 0);
-    static const char *const names[] = {"fairlead_tension[:LINE]", "anchor_T_<line>_kN",
-                                        "stiffness_yaw_kNm_per_rad", "offset_<load>",
-                                        "vertical_load", "worst_line"};
+    static const char *const names[] = {
+        "fairlead_tension[:LINE]", "anchor_T_<line>_kN", "stiffness_yaw_kNm_per_rad",
+        "offset_<load>",           "vertical_load",      "worst_line"};
     for (size_t i = 0; i < sizeof names / sizeof names[0]; i++)
         if (!strstr(out, names[i]))
             fail_msg("sweep --help does not list %s", names[i]);
@@ -606,9 +604,15 @@ static char *sweep_on_terminal(int quiet)
         int nul = open("/dev/null", O_WRONLY);
         dup2(nul, 1);
         dup2(slave, 2);
-        const char *argv[] = {bin, "sweep", path_in("quarrel.yaml"), "--vary",
-                              "site.water_level=-1.5:1.5:0.0001", "--jobs", "1",
-                              quiet ? "--quiet" : NULL, NULL};
+        const char *argv[] = {bin,
+                              "sweep",
+                              path_in("quarrel.yaml"),
+                              "--vary",
+                              "site.water_level=-1.5:1.5:0.0001",
+                              "--jobs",
+                              "1",
+                              quiet ? "--quiet" : NULL,
+                              NULL};
         execv(bin, (char *const *)argv);
         _exit(127);
     }

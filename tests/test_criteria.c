@@ -181,27 +181,26 @@ static void test_holding(void **state)
     /* UFC 4-159-03 table 3-7: high-efficiency drag anchors need an ultimate
      * holding capacity of 2.0 times the load: 961 kN against 480.5 kN is
      * exactly 2.0 (passes), against 480.6 kN just below (fails). */
-    assert_int_equal(hf_criteria_holding_evaluate(p, HF_HOLDING_HIGH_EFFICIENCY, 961e3, 480.5e3,
-                                                  &h, NULL),
-                     HF_OK);
+    assert_int_equal(
+        hf_criteria_holding_evaluate(p, HF_HOLDING_HIGH_EFFICIENCY, 961e3, 480.5e3, &h, NULL),
+        HF_OK);
     assert_float_equal(h.factor, 2.0, 1e-15);
     assert_float_equal(h.required, 2.0, 0.0);
     assert_true(h.checked && h.passed);
-    assert_int_equal(hf_criteria_holding_evaluate(p, HF_HOLDING_HIGH_EFFICIENCY, 961e3, 480.6e3,
-                                                  &h, NULL),
-                     HF_OK);
+    assert_int_equal(
+        hf_criteria_holding_evaluate(p, HF_HOLDING_HIGH_EFFICIENCY, 961e3, 480.6e3, &h, NULL),
+        HF_OK);
     assert_false(h.passed);
     /* stockless 1.5: 961 / 640 = 1.5016 passes; pile and plate 3.0 fails */
-    assert_int_equal(
-        hf_criteria_holding_evaluate(p, HF_HOLDING_STOCKLESS, 961e3, 640e3, &h, NULL), HF_OK);
+    assert_int_equal(hf_criteria_holding_evaluate(p, HF_HOLDING_STOCKLESS, 961e3, 640e3, &h, NULL),
+                     HF_OK);
     assert_true(h.passed);
     assert_float_equal(h.factor, 961.0 / 640.0, 1e-15);
-    assert_int_equal(
-        hf_criteria_holding_evaluate(p, HF_HOLDING_PILE_PLATE, 961e3, 640e3, &h, NULL), HF_OK);
+    assert_int_equal(hf_criteria_holding_evaluate(p, HF_HOLDING_PILE_PLATE, 961e3, 640e3, &h, NULL),
+                     HF_OK);
     assert_false(h.passed);
     /* zero load: no factor, passes */
-    assert_int_equal(hf_criteria_holding_evaluate(p, HF_HOLDING_SHIP, 961e3, 0.0, &h, NULL),
-                     HF_OK);
+    assert_int_equal(hf_criteria_holding_evaluate(p, HF_HOLDING_SHIP, 961e3, 0.0, &h, NULL), HF_OK);
     assert_false(h.has_factor);
     assert_true(h.passed);
     /* a preset without the table: reported, not checked */
@@ -214,15 +213,14 @@ static void test_holding(void **state)
     /* bad input */
     hf_error e;
     hf_error_clear(&e);
-    assert_int_equal(hf_criteria_holding_evaluate(p, HF_HOLDING_SHIP, 0.0, 1.0, &h, &e),
-                     HF_EINVAL);
+    assert_int_equal(hf_criteria_holding_evaluate(p, HF_HOLDING_SHIP, 0.0, 1.0, &h, &e), HF_EINVAL);
     assert_non_null(strstr(e.text, "capacity"));
     assert_int_equal(hf_criteria_holding_evaluate(p, HF_HOLDING_SHIP, 1.0, -1.0, &h, NULL),
                      HF_EINVAL);
     assert_int_equal(hf_criteria_holding_evaluate(p, HF_HOLDING_SHIP, 1.0, NAN, &h, NULL),
                      HF_EINVAL);
-    assert_int_equal(
-        hf_criteria_holding_evaluate(p, HF_HOLDING_NCLASSES, 1.0, 1.0, &h, NULL), HF_EINVAL);
+    assert_int_equal(hf_criteria_holding_evaluate(p, HF_HOLDING_NCLASSES, 1.0, 1.0, &h, NULL),
+                     HF_EINVAL);
 }
 
 static void test_holding_names(void **state)

@@ -790,16 +790,15 @@ static void file_size_limit_cli(void **state)
     snprintf(run, sizeof run, "%s/run", tmp);
 
     /* A 20,001-row sweep CSV (about 2 MB) under a 64 KiB limit. */
-    const char *sweep[] = {bin,   "sweep", casefile, "--vary", "site.water_level=-1:1:0.0001",
-                           "--csv", csv,   "--quiet", NULL};
+    const char *sweep[] = {bin,     "sweep", casefile,  "--vary", "site.water_level=-1:1:0.0001",
+                           "--csv", csv,     "--quiet", NULL};
     int rc = run_size_limited(sweep, 65536, NULL, err, sizeof err);
     if (rc != 2)
         fail_msg("sweep under ulimit -f: exit %d, expected 2; stderr: %s", rc, err);
     assert_non_null(strstr(err, "holdfast"));
     struct stat st;
     if (stat(csv, &st) == 0)
-        fail_msg("%s exists (%lld bytes) although its writing failed", csv,
-                 (long long)st.st_size);
+        fail_msg("%s exists (%lld bytes) although its writing failed", csv, (long long)st.st_size);
 
     /* Line profiles (one CSV per line) under a 4 KiB limit. */
     const char *lines[] = {bin, "lines", casefile, "--profiles", prof, NULL};

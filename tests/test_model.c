@@ -254,7 +254,8 @@ static void lookup_every_path_form(void **state)
         {"lines[east].sections[6].length", "has 5 sections entries (0..4), got index 6"},
         {"lines[east].sections[-1].length", "0-based index"},
         {"lines[east].sections[x].length", "0-based index"},
-        {"lines[east].sections[1].length", "sections[1] of line east is a clump; expected \"clump\""},
+        {"lines[east].sections[1].length",
+         "sections[1] of line east is a clump; expected \"clump\""},
         {"lines[east].sections[3].clump", "is a buoy; expected \"buoy\""},
         {"lines[east].sections[0].clump", "is a component section; expected \"length\""},
         {"lines[east", "expected lines[NAME] or lines[INDEX]"},
@@ -370,12 +371,12 @@ static void set_refuses_invalid_values(void **state)
         {"site.depth", 0.0, "expected a positive length"},
         {"site.depth", NAN, "expected a finite value"},
         {"site.depth", INFINITY, "expected a finite value"},
-        {"site.depth", 4.75, "fairlead above the seabed"},     /* 6.45 m < 6.5 m */
+        {"site.depth", 4.75, "fairlead above the seabed"}, /* 6.45 m < 6.5 m */
         {"site.water_level", -57.5, "fairlead above the seabed"},
         {"site.water_level", -80.0, "above -depth"},
         {"site.water_density", -1.0, "expected a positive density"},
         {"components.ch.diameter", 0.0, "expected a positive length"},
-        {"components.ch.diameter", 0.9, "components.ch"},       /* outside the chain range */
+        {"components.ch.diameter", 0.9, "components.ch"}, /* outside the chain range */
         {"components.ch.mass", -140.0, "expected a positive mass"},
         {"components.ch.seabed_friction", -0.1, "non-negative seabed_friction"},
         {"lines[east].sections[0].length", -240.0, "expected a positive length"},

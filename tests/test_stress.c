@@ -474,7 +474,7 @@ static void random_lines(void **state)
         }
         for (long i = 0; i < NCASES; i++)
             if (again[i].hash != first[i].hash || (run > 0 && (again[i].status != first[i].status ||
-                                                                again[i].regime != first[i].regime)))
+                                                               again[i].regime != first[i].regime)))
                 mism[run]++;
     }
     free(again);
@@ -797,8 +797,8 @@ static void random_spreads(void **state)
     free(d);
     int misses = 0;
     misses += expect_zero("plain pass, serial: non-finite results or undocumented statuses", bad_a);
-    misses += expect_zero("plain pass, 2 threads: non-finite results or undocumented statuses",
-                          bad_b);
+    misses +=
+        expect_zero("plain pass, 2 threads: non-finite results or undocumented statuses", bad_b);
     misses += expect_zero("plain pass: difference checks run, serial", fd_a);
     misses += expect_zero("plain pass: difference checks run, 2 threads", fd_b);
     misses += expect_zero("checking pass, serial: contract failures", bad_c);

@@ -12,11 +12,11 @@
 #include "holdfast/study.h"
 
 /* |a - b| <= tol, with both values in the failure message. */
-#define assert_near(a, b, tol) \
-    do { \
-        double a_ = (a), b_ = (b); \
-        if (!(fabs(a_ - b_) <= (tol))) \
-            fail_msg("%.17g != %.17g (tolerance %g)", a_, b_, (double)(tol)); \
+#define assert_near(a, b, tol)                                                                     \
+    do {                                                                                           \
+        double a_ = (a), b_ = (b);                                                                 \
+        if (!(fabs(a_ - b_) <= (tol)))                                                             \
+            fail_msg("%.17g != %.17g (tolerance %g)", a_, b_, (double)(tol));                      \
     } while (0)
 
 static hf_vary range(const char *path, double from, double to, double step)
@@ -265,8 +265,9 @@ static void test_shard_parse(void **s)
     assert_int_equal(hf_study_shard_parse("3/17", &k, &n, &e), HF_OK);
     assert_int_equal(k, 3);
     assert_int_equal(n, 17);
-    const char *bad[] = {"", "0/4", "5/4", "1/0", "-1/4", "1/-4", "1/4x", "1 /4", "a/b", "1",
-                         "1/1000001", "99999999999999999999/1", "1/4/5", "+1/4"};
+    const char *bad[] = {"",      "0/4",  "5/4", "1/0", "-1/4",      "1/-4",
+                         "1/4x",  "1 /4", "a/b", "1",   "1/1000001", "99999999999999999999/1",
+                         "1/4/5", "+1/4"};
     for (size_t i = 0; i < sizeof bad / sizeof bad[0]; i++)
         assert_int_equal(hf_study_shard_parse(bad[i], &k, &n, &e), HF_EINVAL);
 }

@@ -1247,10 +1247,11 @@ static void test_direction_label(void **state)
         double rad;
         const char *want;
     } c[] = {
-        {-M_PI / 2, "270 deg"}, {0.0, "0 deg"},         {-0.0, "0 deg"},
-        {2 * M_PI, "0 deg"},    {-2 * M_PI, "0 deg"},   {M_PI / 6, "30 deg"},
-        {-M_PI / 6, "330 deg"}, {7 * M_PI / 2, "270 deg"}, {-1e-12, "0 deg"},
-        {123.4 * M_PI / 180, "123.4 deg"},
+        {-M_PI / 2, "270 deg"}, {0.0, "0 deg"},
+        {-0.0, "0 deg"},        {2 * M_PI, "0 deg"},
+        {-2 * M_PI, "0 deg"},   {M_PI / 6, "30 deg"},
+        {-M_PI / 6, "330 deg"}, {7 * M_PI / 2, "270 deg"},
+        {-1e-12, "0 deg"},      {123.4 * M_PI / 180, "123.4 deg"},
     };
     for (size_t i = 0; i < sizeof c / sizeof c[0]; i++) {
         hf_svg_direction_label(c[i].rad, b, sizeof b);
@@ -1285,9 +1286,21 @@ static void test_plan_key_and_scale_bar(void **state)
         snprintf(nb[i], sizeof nb[i], "pt-%d", i + 1);
         names[i] = nb[i];
     }
-    hf_svg_plan p = {"Plan", L,        names, (const double(*)[2])anchor, (const double(*)[2])fair,
-                     NULL,   0,        NULL,  {0, 0},                     1,
-                     -M_PI / 2, "gale: 550 kN", 0, {0, 0},                NULL};
+    hf_svg_plan p = {"Plan",
+                     L,
+                     names,
+                     (const double(*)[2])anchor,
+                     (const double(*)[2])fair,
+                     NULL,
+                     0,
+                     NULL,
+                     {0, 0},
+                     1,
+                     -M_PI / 2,
+                     "gale: 550 kN",
+                     0,
+                     {0, 0},
+                     NULL};
     FILE *f = tmpfile();
     assert_int_equal(hf_svg_figure_plan(f, &p, 1, NULL), HF_OK);
     char *svg = hf_test_stream_read(f, 1);

@@ -194,9 +194,9 @@ static void test_vary_parse(void **s)
     (void)s;
     hf_vary v;
     hf_error e;
-    assert_int_equal(hf_sweep_vary_parse(&model, "components.chain76.diameter=70mm:90mm:2.5mm", 0,
-                                         &v, &e),
-                     HF_OK);
+    assert_int_equal(
+        hf_sweep_vary_parse(&model, "components.chain76.diameter=70mm:90mm:2.5mm", 0, &v, &e),
+        HF_OK);
     assert_int_equal(hf_study_vary_count(&v), 9);
     assert_true(fabs(v.from - 0.070) < 1e-15 && fabs(v.step - 0.0025) < 1e-15);
     hf_sweep_vary_clear(&v);
@@ -217,9 +217,11 @@ static void test_vary_parse(void **s)
     assert_int_equal(hf_sweep_vary_parse(&model, "hull.heading=350:370", 1, &v, &e), HF_OK);
     assert_true(v.from < v.to);
     hf_sweep_vary_clear(&v);
-    const char *bad[] = {"site.depth", "=1,2", "site.depth=", "site.depth=1:2",
-                         "site.depth=3:1:1", "site.depth=1:2:0", "site.depth=1,nan",
-                         "site.depth=1e309", "site.depth=3 kN", "site.deep=1,2",
+    const char *bad[] = {"site.depth",         "=1,2",
+                         "site.depth=",        "site.depth=1:2",
+                         "site.depth=3:1:1",   "site.depth=1:2:0",
+                         "site.depth=1,nan",   "site.depth=1e309",
+                         "site.depth=3 kN",    "site.deep=1,2",
                          "site.depth=1:2,3:4", "site.depth=1::2"};
     for (size_t i = 0; i < sizeof bad / sizeof bad[0]; i++)
         assert_int_not_equal(hf_sweep_vary_parse(&model, bad[i], 0, &v, &e), HF_OK);
@@ -268,9 +270,9 @@ static void test_invert_hits_target(void **s)
     assert_true(fabs(t - 300e3) <= 1e-6 * 300e3);
     /* Anchor radius for a 150.35 kN horizontal fairlead force. */
     assert_int_equal(hf_output_parse(&model, "fairlead_horizontal:north", &o, &e), HF_OK);
-    assert_int_equal(hf_invert_solve(&model, "lines[north].anchor_radius", 400.0, 425.0, &o,
-                                     150.35e3, &res, &e),
-                     HF_OK);
+    assert_int_equal(
+        hf_invert_solve(&model, "lines[north].anchor_radius", 400.0, 425.0, &o, 150.35e3, &res, &e),
+        HF_OK);
     double h = check_output("lines[north].anchor_radius", res.value, "h_north");
     assert_true(fabs(h - 150.35e3) <= 1e-6 * 150.35e3);
     /* A surge stiffness of 21.7 kN/m from the wire length of line north. */
@@ -309,9 +311,9 @@ static void test_invert_clump_for_stiffness(void **s)
     hf_output o;
     assert_int_equal(hf_output_parse(&one, "stiffness_surge", &o, &e), HF_OK);
     hf_invert_result res;
-    assert_int_equal(hf_invert_solve(&one, "lines[bow].sections[2].clump", 10e3, 300e3, &o,
-                                     13.385e3, &res, &e),
-                     HF_OK);
+    assert_int_equal(
+        hf_invert_solve(&one, "lines[bow].sections[2].clump", 10e3, 300e3, &o, 13.385e3, &res, &e),
+        HF_OK);
     /* Independent check: set the clump found and solve the spread directly. */
     hf_param p;
     assert_int_equal(hf_model_param_lookup(&one, "lines[bow].sections[2].clump", &p, &e), HF_OK);
@@ -354,7 +356,8 @@ static void test_invert_hand_catenary(void **s)
     hf_model hand;
     hf_model_init(&hand);
     hf_error e;
-    assert_int_equal(hf_case_load_buffer(hand_text, strlen(hand_text), "hand.yaml", &hand, &e), HF_OK);
+    assert_int_equal(hf_case_load_buffer(hand_text, strlen(hand_text), "hand.yaml", &hand, &e),
+                     HF_OK);
     hf_output o;
     assert_int_equal(hf_output_parse(&hand, "fairlead_tension:one", &o, &e), HF_OK);
     hf_invert_result res;
@@ -386,38 +389,38 @@ static void test_invert_not_bracketed(void **s)
     hf_error e;
     hf_invert_result res;
     assert_int_equal(hf_output_parse(&model, "fairlead_tension:north", &o, &e), HF_OK);
-    assert_int_equal(hf_invert_solve(&model, "lines[north].sections[3].length", 111.0, 125.0, &o,
-                                     5e6, &res, &e),
-                     HF_ERANGE);
+    assert_int_equal(
+        hf_invert_solve(&model, "lines[north].sections[3].length", 111.0, 125.0, &o, 5e6, &res, &e),
+        HF_ERANGE);
     /* The message gives the outputs at both ends of the bracket. */
     assert_non_null(strstr(e.text, "at 111"));
     assert_non_null(strstr(e.text, "at 125"));
     assert_non_null(strstr(e.text, "kN"));
-    assert_int_equal(hf_invert_solve(&model, "lines[north].sections[3].length", 125.0, 111.0, &o,
-                                     3e5, &res, &e),
-                     HF_EINVAL);
-    assert_int_equal(hf_invert_solve(&model, "lines[north].sections[3].length", 100.0, 125.0, &o,
-                                     NAN, &res, &e),
-                     HF_EINVAL);
+    assert_int_equal(
+        hf_invert_solve(&model, "lines[north].sections[3].length", 125.0, 111.0, &o, 3e5, &res, &e),
+        HF_EINVAL);
+    assert_int_equal(
+        hf_invert_solve(&model, "lines[north].sections[3].length", 100.0, 125.0, &o, NAN, &res, &e),
+        HF_EINVAL);
     assert_int_equal(hf_invert_solve(&model, "site.nowhere", 1.0, 2.0, &o, 3e5, &res, &e),
                      HF_EINVAL);
     /* A bracket end where the case cannot be built is named. */
-    assert_int_equal(hf_invert_solve(&model, "lines[north].sections[3].length", -10.0, 125.0, &o,
-                                     3e5, &res, &e),
-                     HF_ERANGE);
+    assert_int_equal(
+        hf_invert_solve(&model, "lines[north].sections[3].length", -10.0, 125.0, &o, 3e5, &res, &e),
+        HF_ERANGE);
     assert_non_null(strstr(e.text, "lower end"));
     /* Messages name the output in full (its line or load) and give the
      * parameter in the unit people read: degrees for angles (issue 12 item 17). */
-    assert_int_equal(hf_invert_solve(&model, "lines[north].sections[3].length", 111.0, 125.0, &o,
-                                     5e6, &res, &e),
-                     HF_ERANGE);
+    assert_int_equal(
+        hf_invert_solve(&model, "lines[north].sections[3].length", 111.0, 125.0, &o, 5e6, &res, &e),
+        HF_ERANGE);
     assert_non_null(strstr(e.text, "fairlead_tension:north = 5000 kN"));
     assert_non_null(strstr(e.text, "[111 m, 125 m]"));
     assert_int_equal(hf_output_parse(&model, "offset_gale", &o, &e), HF_OK);
     const double deg = M_PI / 180.0;
-    assert_int_equal(hf_invert_solve(&model, "hull.heading", 10.0 * deg, 12.5 * deg, &o, 1e3,
-                                     &res, &e),
-                     HF_ERANGE);
+    assert_int_equal(
+        hf_invert_solve(&model, "hull.heading", 10.0 * deg, 12.5 * deg, &o, 1e3, &res, &e),
+        HF_ERANGE);
     assert_non_null(strstr(e.text, "offset_gale = 1000 m"));
     assert_non_null(strstr(e.text, "[10 deg, 12.5 deg]"));
 }

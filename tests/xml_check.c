@@ -182,4 +182,3 @@ const char *hf_test_xml_check(const char *doc)
         return xml_fail(doc, p, "no root element");
     return NULL;
 }
-

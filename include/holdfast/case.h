@@ -15,10 +15,10 @@
 #include "holdfast/study.h"
 
 /* Documented input limits. */
-#define HF_CASE_MAX_BYTES (64u << 20)   /* case file size, bytes */
-#define HF_CASE_MAX_DEPTH 32            /* YAML nesting depth */
-#define HF_CASE_MAX_SCALAR 4096         /* length of one scalar, bytes */
-#define HF_CASE_MAX_NODES 1000000       /* YAML values (scalars, lists, maps) in one file */
+#define HF_CASE_MAX_BYTES (64u << 20) /* case file size, bytes */
+#define HF_CASE_MAX_DEPTH 32          /* YAML nesting depth */
+#define HF_CASE_MAX_SCALAR 4096       /* length of one scalar, bytes */
+#define HF_CASE_MAX_NODES 1000000     /* YAML values (scalars, lists, maps) in one file */
 
 /* Loads the case file at `path` into m (initialised by the caller with
  * hf_model_init) and resolves it, and its `studies:` section into `studies`
@@ -35,7 +35,7 @@ hf_status hf_case_load(const char *path, hf_model *m, hf_error *err);
 /* The same from a buffer; `name` stands for the file name in messages. */
 hf_status hf_case_load_buffer_with_studies(const char *text, size_t len, const char *name,
                                            hf_model *m, hf_study_list *studies, hf_error *err);
-hf_status hf_case_load_buffer(const char *text, size_t len, const char *name,
-                              hf_model *m, hf_error *err);
+hf_status hf_case_load_buffer(const char *text, size_t len, const char *name, hf_model *m,
+                              hf_error *err);
 
 #endif

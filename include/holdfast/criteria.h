@@ -33,18 +33,18 @@ typedef enum {
 
 /* One preset of required line safety factors (on MBL) with its source. */
 typedef struct {
-    const char *name;   /* "api-rp-2sk", ... */
-    const char *title;  /* human title of the rule set */
-    const char *source; /* static text: document, edition, clause; "(from memory)"
-                           where the value was not confirmed in the text */
-    int from_memory;    /* 1 when any value was recalled, not read in the source
-                           (the source text says which ones) */
+    const char *name;        /* "api-rp-2sk", ... */
+    const char *title;       /* human title of the rule set */
+    const char *source;      /* static text: document, edition, clause; "(from memory)"
+                                where the value was not confirmed in the text */
+    int from_memory;         /* 1 when any value was recalled, not read in the source
+                                (the source text says which ones) */
     int damaged_from_memory; /* 1 when the one-line-broken factors were recalled */
-    int uses_analysis;  /* 1 when the factors depend on quasi-static vs dynamic */
-    double intact_qs;   /* required MBL/T, intact, quasi-static analysis */
-    double damaged_qs;  /* required MBL/T, one line broken, quasi-static */
-    double intact_dyn;  /* required MBL/T, intact, dynamic analysis */
-    double damaged_dyn; /* required MBL/T, one line broken, dynamic */
+    int uses_analysis;       /* 1 when the factors depend on quasi-static vs dynamic */
+    double intact_qs;        /* required MBL/T, intact, quasi-static analysis */
+    double damaged_qs;       /* required MBL/T, one line broken, quasi-static */
+    double intact_dyn;       /* required MBL/T, intact, dynamic analysis */
+    double damaged_dyn;      /* required MBL/T, one line broken, dynamic */
     /* Raw partial factors of the DNV-OS-E301-style presets (0 for the
      * others), kept visible because the equivalent factors above are our
      * conversion: required MBL/T = gamma_dyn / capacity (see criteria.c). */
@@ -55,12 +55,12 @@ typedef struct {
     double capacity;       /* characteristic capacity as a fraction of MBL, - */
     /* Further values of the preset's table (0 where the preset gives none);
      * table_source names where they were read. */
-    double bend_factor;        /* required MBL/T for chain around bends, intact, - */
-    double wet_nylon_strength; /* effective strength of wet nylon as a fraction of
-                                  its (dry) break strength, - */
+    double bend_factor;                  /* required MBL/T for chain around bends, intact, - */
+    double wet_nylon_strength;           /* effective strength of wet nylon as a fraction of
+                                            its (dry) break strength, - */
     double holding[HF_HOLDING_NCLASSES]; /* required ultimate holding capacity over
                                             the anchor load, per anchor class, - */
-    const char *table_source;  /* static text, or NULL when the values above are all 0 */
+    const char *table_source;            /* static text, or NULL when the values above are all 0 */
 } hf_criteria_preset;
 
 /* Number of presets and the i-th one (i < count; NULL otherwise). */

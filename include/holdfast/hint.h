@@ -11,8 +11,8 @@
 #include <stddef.h>
 
 typedef struct {
-    const char *best;  /* the closest candidate so far (borrowed), or NULL */
-    size_t d;          /* its distance */
+    const char *best; /* the closest candidate so far (borrowed), or NULL */
+    size_t d;         /* its distance */
 } hf_hint;
 
 /* Empty hint. */

@@ -42,8 +42,7 @@ typedef struct {
  *              was not reached in HF_INVERT_MAX_ITER iterations
  *   HF_ENOMEM */
 hf_status hf_invert_solve(const hf_model *m, const char *path, double lo, double hi,
-                          const hf_output *o, double target, hf_invert_result *res,
-                          hf_error *err);
+                          const hf_output *o, double target, hf_invert_result *res, hf_error *err);
 
 /* Text of a study's target for hf_output_parse: "output" or
  * "output:line" into buf (cap bytes). */
@@ -54,8 +53,7 @@ void hf_invert_target_text(const char *output, const char *line, char *buf, size
  * with the value in the parameter's SI unit (degrees for angles) and target
  * and achieved in the output's column unit (kN, kN/m, kN m/rad, m, -).
  * HF_EIO when the write fails. */
-hf_status hf_invert_write_csv(FILE *out, const hf_model *m, const char *path,
-                              const hf_output *o, double target, const hf_invert_result *res,
-                              hf_error *err);
+hf_status hf_invert_write_csv(FILE *out, const hf_model *m, const char *path, const hf_output *o,
+                              double target, const hf_invert_result *res, hf_error *err);
 
 #endif

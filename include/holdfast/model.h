@@ -21,9 +21,9 @@
 #define HF_MODEL_MAX_NAME 128
 
 typedef struct {
-    double depth;          /* water depth from the datum to the flat seabed, m (> 0) */
-    double water_level;    /* still water level above the datum (tide), m; default 0 */
-    double water_density;  /* kg/m^3; default 1025 */
+    double depth;         /* water depth from the datum to the flat seabed, m (> 0) */
+    double water_level;   /* still water level above the datum (tide), m; default 0 */
+    double water_density; /* kg/m^3; default 1025 */
 } hf_site;
 
 typedef struct {
@@ -37,78 +37,78 @@ typedef enum { HF_PIECE_SECTION = 0, HF_PIECE_CLUMP, HF_PIECE_BUOY } hf_piece_ki
 /* One entry of a line's `sections:` list, anchor first. */
 typedef struct {
     hf_piece_kind kind;
-    size_t component;  /* section: index into hf_model.components */
-    double length;     /* section: unstretched length, m */
-    double load;       /* clump: net weight in water, buoy: net lift; N, > 0 in both */
-    double friction;   /* clump/buoy: seabed friction, -; default 1.0 */
+    size_t component; /* section: index into hf_model.components */
+    double length;    /* section: unstretched length, m */
+    double load;      /* clump: net weight in water, buoy: net lift; N, > 0 in both */
+    double friction;  /* clump/buoy: seabed friction, -; default 1.0 */
 } hf_piece;
 
 typedef enum {
-    HF_ANCHOR_DRAG = 0,  /* drag-embedment anchor (default) */
-    HF_ANCHOR_GRAVITY,   /* gravity (deadweight) block */
+    HF_ANCHOR_DRAG = 0, /* drag-embedment anchor (default) */
+    HF_ANCHOR_GRAVITY,  /* gravity (deadweight) block */
     HF_ANCHOR_PILE,
     HF_ANCHOR_PLATE
 } hf_anchor_kind;
 
 typedef struct {
     hf_anchor_kind kind;
-    double weight;            /* gravity block: submerged weight, N */
-    double friction;          /* gravity block on the seabed, -; default 0.5 */
-    double max_uplift_angle;  /* drag anchor: allowed uplift angle, rad; default 0 */
+    double weight;           /* gravity block: submerged weight, N */
+    double friction;         /* gravity block on the seabed, -; default 0.5 */
+    double max_uplift_angle; /* drag anchor: allowed uplift angle, rad; default 0 */
 } hf_anchor;
 
 typedef struct {
     char *name;
-    double anchor[2];      /* global x, y of the anchor on the seabed, m */
-    double fairlead[3];    /* hull-frame x, y, z of the fairlead, m */
+    double anchor[2];   /* global x, y of the anchor on the seabed, m */
+    double fairlead[3]; /* hull-frame x, y, z of the fairlead, m */
     hf_anchor anchor_spec;
     size_t npieces;
     hf_piece *pieces;
-    hf_line line;          /* built by hf_model_resolve() from pieces and components */
+    hf_line line; /* built by hf_model_resolve() from pieces and components */
     int src_line, src_col;
 } hf_model_line;
 
 typedef struct {
-    double position[2];    /* global x, y of the hull reference point, m */
-    double heading;        /* rad, counterclockwise from global x, seen from above */
+    double position[2]; /* global x, y of the hull reference point, m */
+    double heading;     /* rad, counterclockwise from global x, seen from above */
     size_t noutline;
-    double (*outline)[2];  /* optional hull-frame polygon for plots, m */
+    double (*outline)[2]; /* optional hull-frame polygon for plots, m */
 } hf_hull;
 
 /* A drag load 1/2 rho C A V^2 acting toward `direction`. */
 typedef struct {
-    double density;        /* fluid density, kg/m^3 (air 1.225, water: site) */
-    double coefficient;    /* drag coefficient C, - */
-    double area;           /* projected area A, m^2 */
-    double speed;          /* V, m/s */
-    double direction;      /* rad, counterclockwise from global x: where the load pushes to */
+    double density;     /* fluid density, kg/m^3 (air 1.225, water: site) */
+    double coefficient; /* drag coefficient C, - */
+    double area;        /* projected area A, m^2 */
+    double speed;       /* V, m/s */
+    double direction;   /* rad, counterclockwise from global x: where the load pushes to */
 } hf_drag;
 
 typedef struct {
     char *name;
-    double force;          /* magnitude of the direct force, N (>= 0) */
-    double direction;      /* direction the force acts toward, rad from global x */
-    double moment;         /* yaw moment about the reference point, N m (ccw +) */
+    double force;     /* magnitude of the direct force, N (>= 0) */
+    double direction; /* direction the force acts toward, rad from global x */
+    double moment;    /* yaw moment about the reference point, N m (ccw +) */
     size_t ndrag;
-    hf_drag *drag;         /* wind and current terms */
-    int no_force;          /* 1 when the case gives no direct force (force: absent): the
-                              load is its drag terms and moment; 0 (the default) otherwise */
+    hf_drag *drag; /* wind and current terms */
+    int no_force;  /* 1 when the case gives no direct force (force: absent): the
+                      load is its drag terms and moment; 0 (the default) otherwise */
 } hf_load;
 
 typedef enum { HF_ANALYSIS_QUASI_STATIC = 0, HF_ANALYSIS_DYNAMIC } hf_analysis_kind;
 
 typedef struct {
-    char *preset;             /* preset name, or NULL for user factors only */
+    char *preset; /* preset name, or NULL for user factors only */
     hf_analysis_kind analysis;
-    double factor_intact;     /* required MBL / tension, intact; 0 = no check */
-    double factor_damaged;    /* one line broken; 0 = no check */
-    double max_offset;        /* allowed horizontal offset, m; 0 = no check */
-    const char *source;       /* static text: where the factors come from */
+    double factor_intact;  /* required MBL / tension, intact; 0 = no check */
+    double factor_damaged; /* one line broken; 0 = no check */
+    double max_offset;     /* allowed horizontal offset, m; 0 = no check */
+    const char *source;    /* static text: where the factors come from */
 } hf_criteria;
 
 typedef struct {
     char *title;
-    char *source_path;     /* the case file's path, for messages and reports */
+    char *source_path; /* the case file's path, for messages and reports */
     hf_site site;
     size_t ncomponents;
     hf_model_component *components;
@@ -156,11 +156,11 @@ size_t hf_model_load_find(const hf_model *m, const char *name);
  * a direct force (no_force 0): on a load made only of drag terms the lookup
  * is refused rather than adding a force the case file does not have. */
 typedef struct {
-    double *value;   /* where the SI value lives in the model (NULL for derived paths) */
+    double *value; /* where the SI value lives in the model (NULL for derived paths) */
     hf_dim dim;
-    int kind;        /* internal: what to re-derive after a change */
-    size_t index;    /* internal */
-    size_t sub;      /* internal: second index (section entry, property, coordinate) */
+    int kind;     /* internal: what to re-derive after a change */
+    size_t index; /* internal */
+    size_t sub;   /* internal: second index (section entry, property, coordinate) */
 } hf_param;
 
 /* Finds the parameter at `path` in m.  HF_EINVAL with a message listing what
@@ -170,8 +170,7 @@ hf_status hf_model_param_lookup(hf_model *m, const char *path, hf_param *p, hf_e
 /* Reads the parameter's SI value into *value.  HF_OK, or HF_EINVAL with a
  * message (and *value untouched) for a parameter that was not looked up or
  * whose value cannot be read (an index outside the model). */
-hf_status hf_model_param_get(const hf_model *m, const hf_param *p, double *value,
-                             hf_error *err);
+hf_status hf_model_param_get(const hf_model *m, const hf_param *p, double *value, hf_error *err);
 
 /* Sets the parameter's SI value; re-resolves what depends on it and returns
  * HF_EINVAL when the value makes the model invalid (the model is then left

@@ -22,10 +22,20 @@
 #include "holdfast/units.h"
 
 typedef enum {
-    HF_OUT_FAIRLEAD_TENSION = 0, HF_OUT_FAIRLEAD_HORIZONTAL, HF_OUT_FAIRLEAD_VERTICAL,
-    HF_OUT_ANCHOR_TENSION, HF_OUT_UTILISATION, HF_OUT_MAX_TENSION, HF_OUT_MAX_UTILISATION,
-    HF_OUT_STIFFNESS_SURGE, HF_OUT_STIFFNESS_SWAY, HF_OUT_STIFFNESS_HEAVE, HF_OUT_STIFFNESS_YAW,
-    HF_OUT_VERTICAL_LOAD, HF_OUT_OFFSET, HF_OUT_COUNT
+    HF_OUT_FAIRLEAD_TENSION = 0,
+    HF_OUT_FAIRLEAD_HORIZONTAL,
+    HF_OUT_FAIRLEAD_VERTICAL,
+    HF_OUT_ANCHOR_TENSION,
+    HF_OUT_UTILISATION,
+    HF_OUT_MAX_TENSION,
+    HF_OUT_MAX_UTILISATION,
+    HF_OUT_STIFFNESS_SURGE,
+    HF_OUT_STIFFNESS_SWAY,
+    HF_OUT_STIFFNESS_HEAVE,
+    HF_OUT_STIFFNESS_YAW,
+    HF_OUT_VERTICAL_LOAD,
+    HF_OUT_OFFSET,
+    HF_OUT_COUNT
 } hf_output_kind;
 
 /* One entry of the catalogue (static data, never freed). */
@@ -48,17 +58,17 @@ typedef struct {
 /* One parsed output name. */
 typedef struct {
     hf_output_kind kind;
-    size_t line;   /* per-line kinds: line index, or HF_OUTPUT_ALL */
-    size_t load;   /* HF_OUT_OFFSET: load index */
+    size_t line; /* per-line kinds: line index, or HF_OUTPUT_ALL */
+    size_t load; /* HF_OUT_OFFSET: load index */
 } hf_output;
 
 /* One column of outputs in a table or CSV row. */
 typedef struct {
     hf_output_kind kind;
-    size_t line;   /* per-line kinds: the line */
-    size_t load;   /* HF_OUT_OFFSET: the load */
-    int sub;       /* 0 the value; 1 the line name of max_tension / max_utilisation
-                      (max_tension_line, worst_line); HF_OUT_OFFSET: 0 surge, 1 sway, 2 yaw */
+    size_t line; /* per-line kinds: the line */
+    size_t load; /* HF_OUT_OFFSET: the load */
+    int sub;     /* 0 the value; 1 the line name of max_tension / max_utilisation
+                    (max_tension_line, worst_line); HF_OUT_OFFSET: 0 surge, 1 sway, 2 yaw */
 } hf_output_column;
 
 /* The catalogue entry of kind k, or NULL for a kind out of range. */
@@ -88,8 +98,7 @@ void hf_output_text(const hf_model *m, const hf_output *o, char *buf, size_t cap
  * without :LINE, value and line name for max_tension / max_utilisation,
  * surge, sway and yaw for offset_<load>, else one.  Writes at most cap
  * columns into cols (may be NULL when cap is 0) and returns how many o gives. */
-size_t hf_output_columns(const hf_model *m, const hf_output *o, hf_output_column *cols,
-                         size_t cap);
+size_t hf_output_columns(const hf_model *m, const hf_output *o, hf_output_column *cols, size_t cap);
 
 /* The column's name with its unit ("T_bow_kN", "stiffness_surge_kN_per_m",
  * "offset_storm_yaw_deg", "worst_line") into buf (cap bytes). */

@@ -25,10 +25,10 @@
 #include "holdfast/status.h"
 
 /* Documented limits. */
-#define HF_STUDY_MAX_VARY 16                 /* varied parameters in one sweep */
-#define HF_STUDY_MAX_VALUES 100000000u       /* values of one range or list */
-#define HF_STUDY_MAX_CASES 1000000000000ull  /* cases in one sweep (1e12) */
-#define HF_STUDY_MAX_SHARDS 1000000u         /* N of --shard K/N */
+#define HF_STUDY_MAX_VARY 16                /* varied parameters in one sweep */
+#define HF_STUDY_MAX_VALUES 100000000u      /* values of one range or list */
+#define HF_STUDY_MAX_CASES 1000000000000ull /* cases in one sweep (1e12) */
+#define HF_STUDY_MAX_SHARDS 1000000u        /* N of --shard K/N */
 
 /* ---- the study list of a case ----
  *
@@ -38,13 +38,17 @@
  * holds only the physical model.  Units SI (angles in rad). */
 
 typedef enum {
-    HF_STUDY_LINES = 0, HF_STUDY_CURVE, HF_STUDY_STIFFNESS, HF_STUDY_BALANCE,
-    HF_STUDY_SWEEP, HF_STUDY_INVERT
+    HF_STUDY_LINES = 0,
+    HF_STUDY_CURVE,
+    HF_STUDY_STIFFNESS,
+    HF_STUDY_BALANCE,
+    HF_STUDY_SWEEP,
+    HF_STUDY_INVERT
 } hf_study_kind;
 
 /* One varied parameter: a range (from, to, step) or a list of values. */
 typedef struct {
-    char *path;            /* e.g. "lines[bow-port].sections[2].length" */
+    char *path; /* e.g. "lines[bow-port].sections[2].length" */
     hf_dim dim;
     size_t nvalues;        /* list form: number of values, else 0 */
     double *values;        /* list form, SI */
@@ -52,21 +56,22 @@ typedef struct {
 } hf_vary;
 
 typedef struct {
-    char *name;            /* names the CSV file: <name>.csv */
+    char *name; /* names the CSV file: <name>.csv */
     hf_study_kind kind;
     double offset[3];      /* lines, stiffness: x, y (m), heading (rad) offsets */
     double direction;      /* curve: rad */
     double from, to, step; /* curve: offsets, m */
     size_t nloads;         /* balance: load names, 0 = all */
     char **loads;
-    size_t nvary;          /* sweep: parameters; invert: exactly one */
+    size_t nvary; /* sweep: parameters; invert: exactly one */
     hf_vary *vary;
-    int zip;               /* sweep: 1 = zipped lists, 0 = full factorial grid */
-    size_t noutputs;       /* sweep: chosen output names, 0 = defaults */
+    int zip;         /* sweep: 1 = zipped lists, 0 = full factorial grid */
+    size_t noutputs; /* sweep: chosen output names, 0 = defaults */
     char **outputs;
-    char *target_output;   /* invert: "fairlead_tension", "fairlead_horizontal", "stiffness_surge", ... */
-    char *target_line;     /* invert: line name, where the output is per line */
-    double target_value;   /* invert: SI */
+    char *target_output; /* invert: "fairlead_tension", "fairlead_horizontal", "stiffness_surge",
+                            ... */
+    char *target_line;   /* invert: line name, where the output is per line */
+    double target_value; /* invert: SI */
 } hf_study;
 
 /* The studies of a case, in file order.  Owns everything it points to. */
@@ -124,9 +129,9 @@ double hf_study_vary_value(const hf_vary *v, size_t i);
 typedef struct {
     size_t nvary;
     const hf_vary *vary;
-    int zip;                          /* 1: zipped lists, case k takes value k of each */
-    size_t count[HF_STUDY_MAX_VARY];  /* values of each parameter */
-    uint64_t ncases;                  /* number of cases */
+    int zip;                         /* 1: zipped lists, case k takes value k of each */
+    size_t count[HF_STUDY_MAX_VARY]; /* values of each parameter */
+    uint64_t ncases;                 /* number of cases */
 } hf_study_grid;
 
 /* Sets up the case space.  Full factorial grid (zip 0): the first parameter
@@ -148,8 +153,7 @@ void hf_study_grid_values(const hf_study_grid *g, uint64_t k, double *values);
 /* The cases [*begin, *end) of shard k (1-based, 1 <= k <= n) of n contiguous,
  * near-equal parts of `total` cases (sizes differ by at most one, the larger
  * ones first).  The shards of 1..n cover 0..total exactly once, in order. */
-void hf_study_shard_range(uint64_t total, unsigned k, unsigned n, uint64_t *begin,
-                          uint64_t *end);
+void hf_study_shard_range(uint64_t total, unsigned k, unsigned n, uint64_t *begin, uint64_t *end);
 
 /* Parses "K/N" (1 <= K <= N <= HF_STUDY_MAX_SHARDS, plain decimal integers).
  * HF_EINVAL with a message otherwise. */
@@ -182,14 +186,14 @@ typedef void (*hf_study_progress_fn)(void *ctx, uint64_t done, uint64_t total);
 #define HF_STUDY_CHAIN 16
 
 typedef struct {
-    int jobs;                /* threads, >= 1 (states must hold this many) */
-    size_t row_cap;          /* bytes reserved per row, including '\0' (>= 2) */
-    size_t block;            /* cases per block (0 = automatic: ~4 MiB of rows, 256..16384
-                                cases; always rounded up to a multiple of HF_STUDY_CHAIN) */
-    hf_study_progress_fn progress;  /* may be NULL */
+    int jobs;                      /* threads, >= 1 (states must hold this many) */
+    size_t row_cap;                /* bytes reserved per row, including '\0' (>= 2) */
+    size_t block;                  /* cases per block (0 = automatic: ~4 MiB of rows, 256..16384
+                                      cases; always rounded up to a multiple of HF_STUDY_CHAIN) */
+    hf_study_progress_fn progress; /* may be NULL */
     void *progress_ctx;
-    volatile int *stop;      /* optional: when *stop becomes non-zero the stream stops
-                                after the current block with HF_EIO "interrupted" */
+    volatile int *stop; /* optional: when *stop becomes non-zero the stream stops
+                           after the current block with HF_EIO "interrupted" */
 } hf_study_stream_options;
 
 /* Evaluates cases [begin, end) with `row` on opt->jobs OpenMP threads, thread

@@ -203,14 +203,14 @@ size_t hf_svg_sections_from_line(const hf_line *line, double required, hf_svg_se
  * The vertical scale is exaggerated when the span is much longer than
  * deep (stated on the figure). */
 typedef struct {
-    const char *title;        /* e.g. "Line bow-port at rest" (escaped) */
-    const hf_line_point *pts; /* profile, anchor first (hf_line_profile) */
-    size_t npts;              /* >= 2 */
-    double water_height;      /* still water level above the seabed, m (> 0) */
-    int has_touchdown;        /* 1: mark touchdown at touchdown_x */
-    double touchdown_x;       /* m from the anchor */
-    double tension_limit;     /* N: one allowed tension (MBL / factor) for the whole
-                               * line, used when nsections is 0; 0 = none */
+    const char *title;              /* e.g. "Line bow-port at rest" (escaped) */
+    const hf_line_point *pts;       /* profile, anchor first (hf_line_profile) */
+    size_t npts;                    /* >= 2 */
+    double water_height;            /* still water level above the seabed, m (> 0) */
+    int has_touchdown;              /* 1: mark touchdown at touchdown_x */
+    double touchdown_x;             /* m from the anchor */
+    double tension_limit;           /* N: one allowed tension (MBL / factor) for the whole
+                                     * line, used when nsections is 0; 0 = none */
     size_t nsections;               /* 0: no section data */
     const hf_svg_section *sections; /* nsections, anchor first, end_arc increasing;
                                      * points beyond the last end belong to it */
@@ -238,9 +238,9 @@ hf_status hf_svg_figure_elevation_group(FILE *out, const hf_svg_elevation *e,
  * with a key entry.  The still water level is e[0].water_height (the lines
  * share one site).  n >= 1; names NULL gives "line 1", ...  Statuses as
  * hf_svg_figure_elevation for each e[i] (the message names the line). */
-hf_status hf_svg_figure_elevation_overlay(FILE *out, const char *title,
-                                          const hf_svg_elevation *e, const char *const *names,
-                                          size_t n, int standalone, hf_error *err);
+hf_status hf_svg_figure_elevation_overlay(FILE *out, const char *title, const hf_svg_elevation *e,
+                                          const char *const *names, size_t n, int standalone,
+                                          hf_error *err);
 
 /* A direction as figures print it: the angle in degrees reduced to
  * [0, 360), counter-clockwise from global x, "%.4g deg" ("270 deg" for

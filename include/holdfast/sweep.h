@@ -87,10 +87,10 @@ uint64_t hf_sweep_fingerprint(const hf_sweep *s, const void *extra, size_t n);
 hf_status hf_sweep_write_header(const hf_sweep *s, FILE *out, hf_error *err);
 
 typedef struct {
-    uint64_t begin, end;     /* cases [begin, end) to write, end <= ncases */
-    hf_study_progress_fn progress;  /* may be NULL */
+    uint64_t begin, end;           /* cases [begin, end) to write, end <= ncases */
+    hf_study_progress_fn progress; /* may be NULL */
     void *progress_ctx;
-    volatile int *stop;      /* optional stop flag (see hf_study_stream_options) */
+    volatile int *stop; /* optional stop flag (see hf_study_stream_options) */
 } hf_sweep_range;
 
 /* Writes the rows of cases [r->begin, r->end) to out, in case order, on the
@@ -113,20 +113,20 @@ hf_status hf_sweep_write_rows(hf_sweep *s, const hf_sweep_range *r, FILE *out, h
  * (hf_output_column_is_line) hold the line's index (0-based, as a double) or
  * NAN. */
 typedef struct {
-    size_t nvary;               /* varied parameters */
-    char **vary_names;          /* nvary column names with units ("site.depth_m") */
-    hf_dim *vary_dim;           /* nvary dimensions of the varied parameters */
-    size_t ncols;               /* output columns */
-    char **col_names;           /* ncols column names with units ("T_bow_kN") */
-    hf_output_column *cols;     /* ncols: what each output column is (outputs.h) */
-    uint64_t cap;               /* rows the table can hold */
-    uint64_t first;             /* case number of row 0 (the range's begin) */
-    uint64_t nrows;             /* rows held: min(cap, cases run) */
-    uint64_t total;             /* cases run into the table (may exceed nrows) */
-    uint64_t failed;            /* rows held whose status is not HF_OK */
-    double *vary;               /* nrows x nvary: row i, parameter j at [i * nvary + j] */
-    hf_status *status;          /* nrows statuses (hf_sweep_status_word gives the word) */
-    double *out;                /* nrows x ncols: row i, column c at [i * ncols + c] */
+    size_t nvary;           /* varied parameters */
+    char **vary_names;      /* nvary column names with units ("site.depth_m") */
+    hf_dim *vary_dim;       /* nvary dimensions of the varied parameters */
+    size_t ncols;           /* output columns */
+    char **col_names;       /* ncols column names with units ("T_bow_kN") */
+    hf_output_column *cols; /* ncols: what each output column is (outputs.h) */
+    uint64_t cap;           /* rows the table can hold */
+    uint64_t first;         /* case number of row 0 (the range's begin) */
+    uint64_t nrows;         /* rows held: min(cap, cases run) */
+    uint64_t total;         /* cases run into the table (may exceed nrows) */
+    uint64_t failed;        /* rows held whose status is not HF_OK */
+    double *vary;           /* nrows x nvary: row i, parameter j at [i * nvary + j] */
+    hf_status *status;      /* nrows statuses (hf_sweep_status_word gives the word) */
+    double *out;            /* nrows x ncols: row i, column c at [i * ncols + c] */
 } hf_sweep_table;
 
 /* A table for sweep s (column names and kinds copied from it) holding at
