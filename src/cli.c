@@ -6,9 +6,11 @@
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
+#include <time.h>
 #include "holdfast/alloc.h"
 #include "holdfast/case.h"
 #include "holdfast/cli.h"
+#include "holdfast/outputs.h"
 #include "holdfast/units.h"
 
 int hf_cli_exit_code(hf_status s)
@@ -418,4 +420,55 @@ hf_status hf_cli_make_dir(const char *what, const char *dir, hf_error *err)
     if (stat(dir, &sb) != 0 || !S_ISDIR(sb.st_mode))
         return hf_error_set(err, HF_EIO, "%s: '%s' is not a directory", what, dir);
     return HF_OK;
+}
+
+static double cli_now(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (double)ts.tv_sec + 1e-9 * (double)ts.tv_nsec;
+}
+
+void hf_cli_bar_start(hf_cli_bar *b)
+{
+    b->start = cli_now();
+    b->last = 0.0;
+    b->drawn = 0;
+}
+
+void hf_cli_bar_draw(hf_cli_bar *b, unsigned long long done, unsigned long long total,
+                     const char *what)
+{
+    double t = cli_now();
+    if (done < total && t - b->last < 0.1)
+        return;
+    b->last = t;
+    b->drawn = 1;
+    double f = total ? (double)done / (double)total : 1.0;
+    int w = 30, fill = (int)(f * w + 0.5);
+    double rate = t > b->start ? (double)done / (t - b->start) : 0.0;
+    double eta = rate > 0 ? (double)(total - done) / rate : 0.0;
+    char cells[64];
+    for (int i = 0; i < w; i++)
+        cells[i] = i < fill ? '#' : '.';
+    cells[w] = '\0';
+    fprintf(stderr, "\r  [%s] %5.1f%%  %llu/%llu %s  %.0f/s  %.0f s left   ", cells, 100.0 * f,
+            done, total, what, rate, eta);
+    fflush(stderr);
+}
+
+void hf_cli_bar_clear(hf_cli_bar *b)
+{
+    if (b->drawn)
+        fprintf(stderr, "\r%70s\r", "");
+    b->drawn = 0;
+}
+
+int hf_cli_help_outputs(const char *arg, const char *head, const char *tail)
+{
+    if (!hf_cli_help(arg, head))
+        return 0;
+    hf_output_write_help(stdout, "  ");
+    fputs(tail, stdout);
+    return 1;
 }

@@ -194,39 +194,9 @@ static void print_load(FILE *out, const hf_load *l, const double f[3])
     fprintf(out, "   (loads are fixed in the global frame)\n");
 }
 
-/* Progress on a terminal: conditions done, redrawn at most ten times a
- * second.  Shown when standard error is a terminal and standard output is
- * not (when the report goes to the terminal, its lines are the progress). */
-typedef struct {
-    double start, last; /* s */
-    int drawn;
-} bar;
-
-static double now(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return (double)ts.tv_sec + 1e-9 * (double)ts.tv_nsec;
-}
-
-static void bar_draw(bar *b, size_t done, size_t total)
-{
-    double t = now();
-    if (done < total && t - b->last < 0.1)
-        return;
-    b->last = t;
-    b->drawn = 1;
-    double f = total ? (double)done / (double)total : 1.0;
-    int w = 30, fill = (int)(f * w + 0.5);
-    double rate = t > b->start ? (double)done / (t - b->start) : 0.0;
-    char cells[64];
-    for (int i = 0; i < w; i++)
-        cells[i] = i < fill ? '#' : '.';
-    cells[w] = '\0';
-    fprintf(stderr, "\r  [%s] %5.1f%%  %zu/%zu conditions  %.0f s left   ", cells, 100.0 * f, done,
-            total, rate > 0 ? (double)(total - done) / rate : 0.0);
-    fflush(stderr);
-}
+/* Progress on a terminal (the shared bar of cli.h, counted in conditions):
+ * shown when standard error is a terminal and standard output is not (when
+ * the report goes to the terminal, its lines are the progress). */
 
 /* What the balance command writes as results arrive. */
 typedef struct {
@@ -234,7 +204,7 @@ typedef struct {
     FILE *out;     /* the readable report, or NULL */
     hf_outfile *f; /* the CSV, or NULL */
     size_t nonfinite;
-    bar progress;
+    hf_cli_bar progress;
     int show_progress;
 } sink_ctx;
 
@@ -273,7 +243,7 @@ static void on_progress(void *ctx, size_t done, size_t total)
 {
     sink_ctx *c = ctx;
     if (c->show_progress)
-        bar_draw(&c->progress, done, total);
+        hf_cli_bar_draw(&c->progress, done, total, "conditions");
 }
 
 /* The load cases named by --load (in case-file order, each once) into
@@ -317,7 +287,8 @@ static int balance(const hf_model *m, const char *path, const char *csv, const s
     hf_error err;
     hf_error_clear(&err);
     int human = !csv || strcmp(csv, "-") != 0;
-    sink_ctx c = {m, human ? stdout : NULL, NULL, 0, {now(), 0.0, 0}, 0};
+    sink_ctx c = {m, human ? stdout : NULL, NULL, 0, {0.0, 0.0, 0}, 0};
+    hf_cli_bar_start(&c.progress);
     c.show_progress = isatty(fileno(stderr)) && !isatty(fileno(stdout));
     if (csv && !(c.f = hf_cli_csv_begin(csv, hf_results_balance_header_write, m, &err)))
         return hf_cli_fail(&err);
@@ -330,8 +301,7 @@ static int balance(const hf_model *m, const char *path, const char *csv, const s
     hf_analysis_balance_sink sink = {&c, on_load, on_condition, on_load_end, on_progress};
     hf_analysis_balance_count n;
     hf_status st = hf_analysis_balance_run(m, which, nwhich, &sink, &n, &err);
-    if (c.progress.drawn)
-        fprintf(stderr, "\r%60s\r", "");
+    hf_cli_bar_clear(&c.progress);
     if (st != HF_OK) {
         hf_outfile_abort(c.f);
         return hf_cli_fail(&err);

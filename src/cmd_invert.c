@@ -31,22 +31,12 @@ static const char usage_tail[] =
     "Exit status: 0 found, 2 bad input, 3 target not reachable in the bracket\n"
     "(the message gives the outputs at both ends) or no convergence.\n";
 
-/* --help: the usage, the output catalogue (outputs.h), the closing lines. */
-static int help(const char *arg)
-{
-    if (!hf_cli_help(arg, usage_head))
-        return 0;
-    hf_output_write_help(stdout, "  ");
-    fputs(usage_tail, stdout);
-    return 1;
-}
-
 int hf_cmd_invert(int argc, char **argv)
 {
     const char *case_path = NULL, *vary_text = NULL, *target_text = NULL, *csv = NULL;
     for (int i = 1; i < argc; i++) {
         const char *a = argv[i];
-        if (help(a))
+        if (hf_cli_help_outputs(a, usage_head, usage_tail))
             return HF_EXIT_OK;
         /* --vary and --target once each; a repeat is reported below */
         if ((!vary_text && hf_cli_value(argc, argv, &i, "--vary", &vary_text)) ||

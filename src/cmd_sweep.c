@@ -44,49 +44,10 @@ static const char usage_tail[] =
     "See docs/studies.md.  Exit status: 0 written (failed cases carry their status),\n"
     "2 bad input (also a sweep over the size limit), 3 numerical failure.\n";
 
-/* --help: the usage, the output catalogue (outputs.h), the closing lines. */
-static int help(const char *arg)
-{
-    if (!hf_cli_help(arg, usage_head))
-        return 0;
-    hf_output_write_help(stdout, "  ");
-    fputs(usage_tail, stdout);
-    return 1;
-}
-
-typedef struct {
-    double start; /* s */
-    double last;  /* s, last drawn */
-    int drawn;
-} bar;
-
-static double now(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return (double)ts.tv_sec + 1e-9 * (double)ts.tv_nsec;
-}
-
-/* Progress bar on stderr, redrawn at most ten times a second. */
+/* The sweep's progress callback: the shared bar (cli.h), counted in cases. */
 static void progress(void *ctx, uint64_t done, uint64_t total)
 {
-    bar *b = ctx;
-    double t = now();
-    if (done < total && t - b->last < 0.1)
-        return;
-    b->last = t;
-    b->drawn = 1;
-    double f = total ? (double)done / (double)total : 1.0;
-    int w = 30, fill = (int)(f * w + 0.5);
-    double rate = t > b->start ? (double)done / (t - b->start) : 0.0;
-    double eta = rate > 0 ? (double)(total - done) / rate : 0.0;
-    char cells[64];
-    for (int i = 0; i < w; i++)
-        cells[i] = i < fill ? '#' : '.';
-    cells[w] = '\0';
-    fprintf(stderr, "\r  [%s] %5.1f%%  %llu/%llu cases  %.0f/s  %.0f s left   ", cells, 100.0 * f,
-            (unsigned long long)done, (unsigned long long)total, rate, eta);
-    fflush(stderr);
+    hf_cli_bar_draw(ctx, (unsigned long long)done, (unsigned long long)total, "cases");
 }
 
 /* The command line of a sweep. */
@@ -104,7 +65,7 @@ static int parse_args(int argc, char **argv, options *o)
     hf_error err;
     for (int i = 1; i < argc; i++) {
         const char *a = argv[i], *v = NULL;
-        if (help(a))
+        if (hf_cli_help_outputs(a, usage_head, usage_tail))
             return HF_EXIT_OK;
         if (hf_cli_value(argc, argv, &i, "--vary", &o->vary_text[o->nvary])) {
             o->nvary++;
@@ -188,7 +149,8 @@ static int write_sweep(hf_sweep *s, const options *o, unsigned part, hf_sweep_ra
 {
     hf_error err;
     hf_error_clear(&err);
-    bar b = {now(), 0.0, 0};
+    hf_cli_bar b;
+    hf_cli_bar_start(&b);
     if (!o->quiet && isatty(STDERR_FILENO)) {
         r->progress = progress;
         r->progress_ctx = &b;

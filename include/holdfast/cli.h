@@ -244,4 +244,26 @@ hf_status hf_cli_make_dir(const char *what, const char *dir, hf_error *err);
  * commands written before that module). */
 #define hf_cli_caution hf_caution_text
 
+/* A progress bar on standard error for long runs (sweep cases, balance
+ * conditions), redrawn at most ten times a second.  Start it with
+ * hf_cli_bar_start; hf_cli_bar_draw(b, done, total, "cases") draws
+ * "[####....]  42.0%  420/1000 cases  120/s  5 s left"; hf_cli_bar_clear
+ * wipes the line if anything was drawn.  The caller decides whether a
+ * terminal is there to see it. */
+typedef struct {
+    double start; /* s, monotonic clock */
+    double last;  /* s, last drawn */
+    int drawn;    /* 1 once a bar was drawn */
+} hf_cli_bar;
+
+void hf_cli_bar_start(hf_cli_bar *b);
+void hf_cli_bar_draw(hf_cli_bar *b, unsigned long long done, unsigned long long total,
+                     const char *what);
+void hf_cli_bar_clear(hf_cli_bar *b);
+
+/* --help of a command whose text lists the output catalogue: when arg asks
+ * for help, prints head, the catalogue (hf_output_write_help) and tail on
+ * standard output and returns 1; else returns 0. */
+int hf_cli_help_outputs(const char *arg, const char *head, const char *tail);
+
 #endif
