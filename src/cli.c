@@ -7,6 +7,7 @@
 #include <string.h>
 #include <sys/stat.h>
 #include <time.h>
+#include "holdfast/hint.h"
 #include "holdfast/alloc.h"
 #include "holdfast/case.h"
 #include "holdfast/cli.h"
@@ -36,32 +37,6 @@ int hf_cli_fail_status(hf_status s, const char *text)
     return hf_cli_fail(&e);
 }
 
-/* Levenshtein distance of a and b, capped at 99 (names are short). */
-static size_t distance(const char *a, const char *b)
-{
-    size_t na = strlen(a), nb = strlen(b);
-    if (na > 64 || nb > 64)
-        return 99;
-    size_t row[65];
-    for (size_t j = 0; j <= nb; j++)
-        row[j] = j;
-    for (size_t i = 1; i <= na; i++) {
-        size_t diag = row[0];
-        row[0] = i;
-        for (size_t j = 1; j <= nb; j++) {
-            size_t up = row[j];
-            size_t best = diag + (a[i - 1] != b[j - 1]);
-            if (up + 1 < best)
-                best = up + 1;
-            if (row[j - 1] + 1 < best)
-                best = row[j - 1] + 1;
-            row[j] = best;
-            diag = up;
-        }
-    }
-    return row[nb];
-}
-
 const char *hf_cli_suggest(const char *word, const char *const *names, size_t n)
 {
     const char *best = NULL;
@@ -71,7 +46,7 @@ const char *hf_cli_suggest(const char *word, const char *const *names, size_t n)
     for (size_t i = 0; i < n; i++) {
         if (!names[i])
             continue;
-        size_t d = distance(word, names[i]);
+        size_t d = hf_hint_distance(word, names[i]);
         if (d < bd) {
             bd = d;
             best = names[i];

@@ -8,6 +8,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <strings.h>
+#include "holdfast/hint.h"
 #include "holdfast/units.h"
 
 /* Conversion factors to SI.  Source: NIST Special Publication 811, 2008
@@ -288,32 +289,6 @@ static int same_nocase(const char *a, const char *b)
     return *a == *b;
 }
 
-/* Levenshtein distance of two short strings, capped at 9. */
-static int distance(const char *a, const char *b)
-{
-    size_t la = strlen(a), lb = strlen(b);
-    int row[24];
-    if (la > 22 || lb > 22)
-        return 9;
-    for (size_t j = 0; j <= lb; j++)
-        row[j] = (int)j;
-    for (size_t i = 1; i <= la; i++) {
-        int diag = row[0];
-        row[0] = (int)i;
-        for (size_t j = 1; j <= lb; j++) {
-            int up = row[j];
-            int best = diag + (a[i - 1] != b[j - 1]);
-            if (up + 1 < best)
-                best = up + 1;
-            if (row[j - 1] + 1 < best)
-                best = row[j - 1] + 1;
-            row[j] = best;
-            diag = up;
-        }
-    }
-    return row[lb] > 9 ? 9 : row[lb];
-}
-
 /* A unit of dimension `want` close to the spelling `norm` (same letters but
  * another case or, when `edits`, one edit away), or NULL. */
 static const unit *suggest(const char *norm, hf_dim want, int edits)
@@ -322,7 +297,7 @@ static const unit *suggest(const char *norm, hf_dim want, int edits)
         if (units[i].dim == want && same_nocase(units[i].name, norm))
             return &units[i];
     for (size_t i = 0; edits && i < NUNITS; i++)
-        if (units[i].dim == want && distance(units[i].name, norm) <= 1)
+        if (units[i].dim == want && hf_hint_distance(units[i].name, norm) <= 1)
             return &units[i];
     return NULL;
 }
