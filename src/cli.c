@@ -438,12 +438,3 @@ void hf_cli_bar_clear(hf_cli_bar *b)
         fprintf(stderr, "\r%70s\r", "");
     b->drawn = 0;
 }
-
-int hf_cli_help_outputs(const char *arg, const char *head, const char *tail)
-{
-    if (!hf_cli_help(arg, head))
-        return 0;
-    hf_output_write_help(stdout, "  ");
-    fputs(tail, stdout);
-    return 1;
-}

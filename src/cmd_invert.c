@@ -31,27 +31,37 @@ static const char usage_tail[] =
     "Exit status: 0 found, 2 bad input, 3 target not reachable in the bracket\n"
     "(the message gives the outputs at both ends) or no convergence.\n";
 
+/* --help after the usage head: the output catalogue and the closing lines. */
+static void help_more(FILE *out)
+{
+    hf_output_write_help(out, "  ");
+    fputs(usage_tail, out);
+}
+
 int hf_cmd_invert(int argc, char **argv)
 {
     const char *case_path = NULL, *vary_text = NULL, *target_text = NULL, *csv = NULL;
-    for (int i = 1; i < argc; i++) {
-        const char *a = argv[i];
-        if (hf_cli_help_outputs(a, usage_head, usage_tail))
-            return HF_EXIT_OK;
-        /* --vary and --target once each; a repeat is reported below */
-        if ((!vary_text && hf_cli_value(argc, argv, &i, "--vary", &vary_text)) ||
-            (!target_text && hf_cli_value(argc, argv, &i, "--target", &target_text)) ||
-            hf_cli_value(argc, argv, &i, "--csv", &csv))
-            continue;
-        if (a[0] == '-' && a[1]) {
-            return hf_cli_usage_error("invert", "unknown or repeated option, or missing value: %s",
-                                      a);
-        } else if (!case_path) {
-            case_path = a;
-        } else {
-            return hf_cli_usage_error("invert", "one case file expected, got \"%s\" too", a);
-        }
-    }
+    int nvary = 0, ntarget = 0;
+    const hf_cli_opt opts[] = {
+        {.name = "--vary",
+         .missing = "--vary needs PATH=LO:HI",
+         .nonempty = 1,
+         .value = &vary_text,
+         .count = &nvary},
+        {.name = "--target",
+         .missing = "--target needs OUTPUT[:LINE]=VALUE",
+         .nonempty = 1,
+         .value = &target_text,
+         .count = &ntarget},
+        HF_CLI_OPT_CSV(&csv),
+    };
+    int prc = hf_cli_parse_case_args_help(argc, argv, "invert", usage_head, help_more, opts,
+                                          sizeof opts / sizeof opts[0], &case_path);
+    if (prc != HF_CLI_CONTINUE)
+        return prc;
+    if (nvary > 1 || ntarget > 1)
+        return hf_cli_usage_error("invert", "--vary and --target are given once each (an "
+                                            "inversion varies one parameter for one target)");
     if (!case_path || !vary_text || !target_text)
         return hf_cli_usage_error("invert", "expected CASE --vary PATH=LO:HI --target "
                                             "OUTPUT[:LINE]=VALUE");

@@ -59,40 +59,52 @@ typedef struct {
     const char **outputs;   /* argc entries */
 } options;
 
-/* Parses the options; HF_CLI_CONTINUE, or the exit status (help, usage error). */
+/* --help after the usage head: the output catalogue and the closing lines. */
+static void help_more(FILE *out)
+{
+    hf_output_write_help(out, "  ");
+    fputs(usage_tail, out);
+}
+
+/* Parses the options with the shared parser (cli.h); HF_CLI_CONTINUE, or the
+ * exit status (help, usage error). */
 static int parse_args(int argc, char **argv, options *o)
 {
     hf_error err;
-    for (int i = 1; i < argc; i++) {
-        const char *a = argv[i], *v = NULL;
-        if (hf_cli_help_outputs(a, usage_head, usage_tail))
-            return HF_EXIT_OK;
-        if (hf_cli_value(argc, argv, &i, "--vary", &o->vary_text[o->nvary])) {
-            o->nvary++;
-        } else if (hf_cli_value(argc, argv, &i, "--output", &o->outputs[o->noutputs])) {
-            o->noutputs++;
-        } else if (hf_cli_value(argc, argv, &i, "--csv", &o->csv) ||
-                   hf_cli_value(argc, argv, &i, "--shard", &o->shard)) {
-            continue;
-        } else if (hf_cli_value(argc, argv, &i, "--jobs", &v)) {
-            if (hf_cli_parse_jobs(v, &o->jobs, &err) != HF_OK)
-                return hf_cli_usage_error("sweep", "%s", err.text);
-        } else if (!strcmp(a, "--zip")) {
-            o->zip = 1;
-        } else if (!strcmp(a, "--allow-large")) {
-            o->allow_large = 1;
-        } else if (!strcmp(a, "--quiet") || !strcmp(a, "-q")) {
-            o->quiet = 1;
-        } else if (a[0] == '-' && a[1]) {
-            return hf_cli_usage_error("sweep", "unknown option or missing value: %s", a);
-        } else if (!o->case_path) {
-            o->case_path = a;
-        } else {
-            return hf_cli_usage_error("sweep", "one case file expected, got \"%s\" too", a);
-        }
-    }
-    if (!o->case_path)
-        return hf_cli_usage_error("sweep", "no case file given");
+    int nvary = 0, noutputs = 0, zip = 0, large = 0, quiet = 0;
+    const char *jobs = NULL;
+    const hf_cli_opt opts[] = {
+        {.name = "--vary",
+         .missing = "--vary needs PATH=SPEC",
+         .nonempty = 1,
+         .count = &nvary,
+         .list = o->vary_text,
+         .list_cap = (size_t)argc},
+        {.name = "--output",
+         .missing = "--output needs a NAME",
+         .nonempty = 1,
+         .count = &noutputs,
+         .list = o->outputs,
+         .list_cap = (size_t)argc},
+        HF_CLI_OPT_CSV(&o->csv),
+        HF_CLI_OPT_VALUE("--shard", "--shard needs K/N", &o->shard),
+        HF_CLI_OPT_VALUE("--jobs", "--jobs needs N", &jobs),
+        HF_CLI_OPT_FLAG("--zip", &zip),
+        HF_CLI_OPT_FLAG("--allow-large", &large),
+        HF_CLI_OPT_FLAG("--quiet", &quiet),
+        HF_CLI_OPT_FLAG("-q", &quiet),
+    };
+    int rc = hf_cli_parse_case_args_help(argc, argv, "sweep", usage_head, help_more, opts,
+                                         sizeof opts / sizeof opts[0], &o->case_path);
+    if (rc != HF_CLI_CONTINUE)
+        return rc;
+    o->nvary = (size_t)nvary;
+    o->noutputs = (size_t)noutputs;
+    o->zip = zip > 0;
+    o->allow_large = large > 0;
+    o->quiet = quiet > 0;
+    if (jobs && hf_cli_parse_jobs(jobs, &o->jobs, &err) != HF_OK)
+        return hf_cli_usage_error("sweep", "%s", err.text);
     if (o->nvary == 0)
         return hf_cli_usage_error("sweep", "no --vary PATH=SPEC given");
     return HF_CLI_CONTINUE;

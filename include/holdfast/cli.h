@@ -261,9 +261,4 @@ void hf_cli_bar_draw(hf_cli_bar *b, unsigned long long done, unsigned long long 
                      const char *what);
 void hf_cli_bar_clear(hf_cli_bar *b);
 
-/* --help of a command whose text lists the output catalogue: when arg asks
- * for help, prints head, the catalogue (hf_output_write_help) and tail on
- * standard output and returns 1; else returns 0. */
-int hf_cli_help_outputs(const char *arg, const char *head, const char *tail);
-
 #endif
