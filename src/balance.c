@@ -147,8 +147,8 @@ hf_status hf_balance_load_force(const hf_load *load, double f[3], hf_error *err)
         !isfinite(load->moment))
         return hf_error_set(err, HF_EINVAL,
                             "loads[%s]: expected a finite force >= 0, direction and moment, got "
-                            "force %.10g N, direction %.10g rad, moment %.10g N m",
-                            name, load->force, load->direction, load->moment);
+                            "force %.10g N, direction %.10g deg, moment %.10g N m",
+                            name, load->force, load->direction * (180.0 / M_PI), load->moment);
     double fx = load->force * cos(load->direction);
     double fy = load->force * sin(load->direction);
     for (size_t k = 0; k < load->ndrag; k++) {

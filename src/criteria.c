@@ -251,8 +251,8 @@ hf_status hf_criteria_anchor_evaluate(const hf_anchor *a, double h, double v,
             memset(out, 0, sizeof *out);
             return hf_error_set(
                 err, HF_EINVAL,
-                "anchor check: max_uplift_angle must be in [0, 90) deg, got %.10g rad",
-                a->max_uplift_angle);
+                "anchor check: max_uplift_angle must be in [0, 90) deg, got %.10g deg",
+                a->max_uplift_angle * (180.0 / M_PI));
         }
         /* Drag-embedment anchors: zero uplift angle intact (DNV-RP-E301 scope,
          * API RP 2SK, from memory) unless the user allows an angle. */
