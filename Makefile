@@ -109,7 +109,14 @@ $(CMD_TESTS:%=$(BUILD)/test_%): $(CMD_OBJ)
 $(BUILD)/test_%: $(BUILD)/tobj/test_%.o $(TEST_SUPPORT_OBJ) $(LIB)
 	$(CC) $(ALL_LDFLAGS) -o $@ $(filter %.o,$^) $(LIB) $(CMOCKA_LIBS) $(ALL_LDLIBS)
 
-tests: $(TEST_BIN) $(BIN)
+# The fuzz harness is built only by `make fuzz` (clang); compiling it here as
+# well (syntax only) keeps it in step with the library's headers.
+$(BUILD)/fuzz_case.checked: fuzz/fuzz_case.c
+	@mkdir -p $(dir $@)
+	$(CC) $(ALL_CFLAGS) -MMD -MP -MT $@ -MF $(BUILD)/fuzz_case.d -fsyntax-only $<
+	@touch $@
+
+tests: $(TEST_BIN) $(BIN) $(BUILD)/fuzz_case.checked
 
 # Every test binary runs even when one fails; the summary line counts them.
 check: tests
@@ -148,5 +155,5 @@ help:
 
 # Further targets (bench, sanitize, fuzz, valgrind...) live in mk/*.mk.
 -include $(wildcard mk/*.mk)
--include $(wildcard $(BUILD)/obj/*.d $(BUILD)/tobj/*.d)
+-include $(wildcard $(BUILD)/fuzz_case.d $(BUILD)/obj/*.d $(BUILD)/tobj/*.d)
 .SECONDARY:

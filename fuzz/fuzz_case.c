@@ -18,6 +18,7 @@
 #include <string.h>
 #include "holdfast/case.h"
 #include "holdfast/line.h"
+#include "holdfast/study.h"
 #include "holdfast/model.h"
 #include "holdfast/status.h"
 
@@ -50,10 +51,13 @@ static void check_model(const hf_model *m)
 int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 {
     hf_model m;
+    hf_study_list sl;
     hf_error err;
     hf_model_init(&m);
+    hf_study_list_init(&sl);
     hf_error_clear(&err);
-    hf_status st = hf_case_load_buffer((const char *)data, size, "fuzz.yaml", &m, &err);
+    hf_status st =
+        hf_case_load_buffer_with_studies((const char *)data, size, "fuzz.yaml", &m, &sl, &err);
     switch (st) {
     case HF_OK: {
         check_model(&m);
@@ -71,12 +75,13 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
         if (err.status != st || err.text[0] == '\0' ||
             memchr(err.text, '\0', sizeof err.text) == NULL)
             __builtin_trap();
-        if (m.nlines != 0 || m.lines != NULL || m.ncomponents != 0 || m.nstudies != 0)
+        if (m.nlines != 0 || m.lines != NULL || m.ncomponents != 0 || sl.n != 0)
             __builtin_trap();
         break;
     default:
         __builtin_trap();
     }
     hf_model_free(&m);
+    hf_study_list_free(&sl);
     return 0;
 }
