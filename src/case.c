@@ -758,6 +758,15 @@ static hf_status line_ends(ctx *c, const node *n, hf_model_line *l)
                   "expected a fairlead above the seabed (z >= %g m in the hull frame), got %s",
                   seabed, GOT(fl->kids[2]));
         pop(c, m2);
+    } else if (st == HF_OK && l->fairlead[2] > 0.0) {
+        /* Issue 12 item 2: the model uses submerged weights, so no point of a
+         * line may be above the still water level (z = 0 in the hull frame). */
+        size_t m2 = push(c, "[2]");
+        st = fail(c, fl->kids[2],
+                  "expected a fairlead at or below the still water level (z <= 0 m in the "
+                  "hull frame: lines are modelled with their submerged weight), got %s",
+                  GOT(fl->kids[2]));
+        pop(c, m2);
     }
     pop(c, mark);
     return st;

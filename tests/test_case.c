@@ -79,6 +79,11 @@ static const bad_case bad[] = {
      HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
           "    fairlead: [0, 0, -90]\n    sections:\n      - {component: chain76, length: 520 m}\n",
      HF_EINVAL, 7, 22, "lines[0].fairlead[2]: expected a fairlead above the seabed (z >= -85 m"},
+    {"fairlead above the still water level (issue 12 item 2)",
+     HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
+          "    fairlead: [0, 0, 2.5]\n    sections:\n      - {component: chain76, length: 520 m}\n",
+     HF_EINVAL, 7, 22,
+     "lines[0].fairlead[2]: expected a fairlead at or below the still water level (z <= 0 m"},
     {"a force where a length belongs",
      HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
           "    fairlead: [0, 0, -9]\n    sections:\n      - {component: chain76, length: 300 kN}\n",
