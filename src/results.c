@@ -13,7 +13,7 @@ const char *const hf_results_lines_columns[HF_RESULTS_LINES_COLUMNS] = {
     "line", "status", "fairlead_tension_kN", "fairlead_horizontal_kN", "fairlead_vertical_kN",
     "top_angle_deg", "anchor_tension_kN", "anchor_vertical_kN", "anchor_uplift_deg",
     "grounded_m", "span_m", "max_utilisation", "height_m", "anchor_horizontal_kN",
-    "touchdown_m", "max_tension_kN"};
+    "touchdown_m", "max_tension_kN", "alert"};
 /* clang-format on */
 
 const char *const hf_results_stiffness_columns[HF_RESULTS_STIFFNESS_COLUMNS] = {
@@ -61,6 +61,24 @@ double hf_results_line_top_angle_deg(const hf_line_state *s)
     return atan2(s->v, s->h) * 180.0 / M_PI;
 }
 
+int hf_results_line_overloaded(const hf_spread_result *r, size_t i)
+{
+    return hf_results_line_solved(r, i) && r->states[i].max_utilisation >= 1.0;
+}
+
+const char *hf_results_line_alert(const hf_spread_result *r, size_t i)
+{
+    return hf_results_line_overloaded(r, i) ? HF_RESULTS_ALERT_OVERLOADED : "";
+}
+
+size_t hf_results_first_overloaded(const hf_spread_result *r)
+{
+    for (size_t i = 0; i < r->nlines; i++)
+        if (hf_results_line_overloaded(r, i))
+            return i;
+    return (size_t)-1;
+}
+
 size_t hf_results_lines_write(FILE *out, const hf_model *m, const hf_spread_result *r)
 {
     hf_csv c;
@@ -86,6 +104,7 @@ size_t hf_results_lines_write(FILE *out, const hf_model *m, const hf_spread_resu
             hf_csv_field_double(&c, s->anchor_h / 1e3);
             hf_csv_field_double(&c, s->touchdown_x);
             hf_csv_field_double(&c, r->line_tension[i] / 1e3);
+            hf_csv_field_str(&c, hf_results_line_alert(r, i));
         } else {
             for (int k = 2; k < HF_RESULTS_LINES_COLUMNS; k++)
                 hf_csv_field_empty(&c);

@@ -206,7 +206,7 @@ static void test_headers_exact(void **state)
                              "fairlead_vertical_kN,top_angle_deg,anchor_tension_kN,"
                              "anchor_vertical_kN,anchor_uplift_deg,grounded_m,span_m,"
                              "max_utilisation,height_m,anchor_horizontal_kN,touchdown_m,"
-                             "max_tension_kN");
+                             "max_tension_kN,alert");
     assert_int_equal(count_lines(c.buf), 1 + NL);
     cap_free(&c);
 
@@ -277,6 +277,7 @@ static void test_lines_rows_parse_back(void **state)
     near(num(f[13]), s->anchor_h / 1e3, 1e-9);
     near(num(f[14]), s->touchdown_x, 1e-9);
     near(num(f[15]), fx.line_tension[0] / 1e3, 1e-9);
+    assert_string_equal(f[16], ""); /* utilisation 0.13: not overloaded */
 
     /* A name with a comma comes back whole (RFC 4180 quoting). */
     line_at(c.buf, 2, row, sizeof row);
@@ -333,6 +334,36 @@ static void test_lines_nonfinite_counted(void **state)
     assert_string_equal(f[14], "");
     near(num(f[3]), fx.states[0].h / 1e3, 1e-9);
     cap_free(&c);
+}
+
+/* Overload is a state (issue 13): utilisation >= 1 marks the line
+ * "overloaded" in the alert column, exactly at 1 included; a line that did
+ * not solve is never marked. */
+static void test_lines_alert_overloaded(void **state)
+{
+    (void)state;
+    fixture fx;
+    lines_case(&fx);
+    assert_int_equal(hf_results_first_overloaded(&fx.r), (size_t)-1);
+    fx.states[0].max_utilisation = 1.0;
+    fx.states[2].max_utilisation = 5.0; /* failed line: no mark */
+    assert_int_equal(hf_results_line_overloaded(&fx.r, 0), 1);
+    assert_int_equal(hf_results_line_overloaded(&fx.r, 2), 0);
+    assert_int_equal(hf_results_first_overloaded(&fx.r), 0);
+    capture c;
+    cap_open(&c);
+    assert_int_equal(hf_results_lines_write(c.f, &fx.m, &fx.r), 0);
+    cap_close(&c);
+    char row[4096], *f[64];
+    line_at(c.buf, 1, row, sizeof row);
+    assert_int_equal(split(row, f, 64), HF_RESULTS_LINES_COLUMNS);
+    assert_string_equal(f[16], "overloaded");
+    line_at(c.buf, 3, row, sizeof row);
+    assert_int_equal(split(row, f, 64), HF_RESULTS_LINES_COLUMNS);
+    assert_string_equal(f[16], "");
+    cap_free(&c);
+    fx.states[0].max_utilisation = nextafter(1.0, 0.0);
+    assert_int_equal(hf_results_line_overloaded(&fx.r, 0), 0);
 }
 
 static void test_stiffness_parse_back(void **state)
@@ -581,6 +612,7 @@ int main(void)
         cmocka_unit_test(test_headers_exact),
         cmocka_unit_test(test_lines_rows_parse_back),
         cmocka_unit_test(test_lines_nonfinite_counted),
+        cmocka_unit_test(test_lines_alert_overloaded),
         cmocka_unit_test(test_stiffness_parse_back),
         cmocka_unit_test(test_curve_rows),
         cmocka_unit_test(test_balance_rows),

@@ -30,8 +30,8 @@
 #include "holdfast/spread.h"
 #include "holdfast/status.h"
 
-/* Columns of the lines CSV (16) and of the stiffness CSV (7). */
-#define HF_RESULTS_LINES_COLUMNS 16
+/* Columns of the lines CSV (17) and of the stiffness CSV (7). */
+#define HF_RESULTS_LINES_COLUMNS 17
 #define HF_RESULTS_STIFFNESS_COLUMNS 7
 /* Fixed columns of the curve CSV before T_<line>_kN, and of the balance CSV
  * before and after Tmax_<line>_kN. */
@@ -60,6 +60,21 @@ int hf_results_line_solved(const hf_spread_result *r, size_t i);
  * static string or buf. */
 const char *hf_results_line_status(const hf_spread_result *r, size_t i, char *buf, size_t cap);
 
+/* The mark of the "alert" column for a line whose tension reaches the
+ * breaking load (MBL) of one of its sections: utilisation T/MBL >= 1. */
+#define HF_RESULTS_ALERT_OVERLOADED "overloaded"
+
+/* 1 when line i of r was solved and is overloaded (max utilisation >= 1),
+ * else 0.  An overloaded line is a state, not a failure: the numbers stay,
+ * the alert column and the exit status 1 report it. */
+int hf_results_line_overloaded(const hf_spread_result *r, size_t i);
+
+/* HF_RESULTS_ALERT_OVERLOADED when line i is overloaded, else "" (static). */
+const char *hf_results_line_alert(const hf_spread_result *r, size_t i);
+
+/* Index of the first overloaded line of r, (size_t)-1 when none is. */
+size_t hf_results_first_overloaded(const hf_spread_result *r);
+
 /* Angle of the line above horizontal at the fairlead, degrees: atan2(V, H). */
 double hf_results_line_top_angle_deg(const hf_line_state *s);
 
@@ -68,8 +83,9 @@ double hf_results_line_top_angle_deg(const hf_line_state *s);
  * status, then fairlead tension, horizontal, vertical (kN), top angle (deg),
  * anchor tension, anchor vertical (kN), anchor uplift (deg), grounded length,
  * span (m), max utilisation, fairlead height (m), anchor horizontal (kN),
- * touchdown (m), largest tension along the line (kN).  A broken or failed
- * line keeps its name and status, its 14 values are left empty.  Returns the
+ * touchdown (m), largest tension along the line (kN), alert
+ * (hf_results_line_alert).  A broken or failed line keeps its name and
+ * status, its 15 other cells are left empty.  Returns the
  * number of non-finite values left empty (0 normally). */
 size_t hf_results_lines_write(FILE *out, const hf_model *m, const hf_spread_result *r);
 
