@@ -223,6 +223,9 @@ int hf_cmd_lines(int argc, char **argv)
         rc = hf_cli_fail(&pc.err);
         goto done;
     }
+    for (size_t i = 0; i < pc.m.nlines; i++)
+        hf_results_stretch_warn(stderr, cmd, pc.m.lines[i].name, &res->geom[i],
+                                &pc.m.lines[i].line);
     rc = report_overload(&pc.m, res, pc.offset);
     if (st != HF_OK)
         rc = hf_cli_fail(&solve_err);

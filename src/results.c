@@ -79,6 +79,24 @@ size_t hf_results_first_overloaded(const hf_spread_result *r)
     return (size_t)-1;
 }
 
+double hf_results_line_needed_strain(const hf_spread_geom *g, const hf_line *l)
+{
+    return hypot(g->x, g->z) / hf_line_length(l) - 1.0;
+}
+
+int hf_results_stretch_warn(FILE *err, const char *cmd, const char *name, const hf_spread_geom *g,
+                            const hf_line *l)
+{
+    double e = hf_results_line_needed_strain(g, l);
+    if (!(e > 0.0))
+        return 0;
+    fprintf(err,
+            "holdfast %s: warning: line %s must stretch %.2f %% to reach its anchor (straight "
+            "fairlead-anchor distance %.1f m > unstretched length %.1f m)\n",
+            cmd, name, 100.0 * e, hypot(g->x, g->z), hf_line_length(l));
+    return 1;
+}
+
 size_t hf_results_lines_write(FILE *out, const hf_model *m, const hf_spread_result *r)
 {
     hf_csv c;

@@ -394,10 +394,14 @@ static void test_lines_overloaded(void **state)
     assert_int_equal(HF_TEST_RUN(&both, "lines", stub), 1);
     assert_non_null(strstr(out, "holdfast lines: line stub is overloaded: utilisation "));
     assert_non_null(strstr(out, "kN >= MBL 4730.0 kN) at offset 0,0,0"));
+    /* hypot(461, 42) / 90 - 1 = 4.1434 (Pythagoras) */
+    assert_non_null(
+        strstr(out, "holdfast lines: warning: line stub must stretch 414.34 % to reach"));
     assert_non_null(strstr(out, "CAUTION"));
     /* the small case's lines are far from breaking: no mark, exit 0 */
     assert_int_equal(HF_TEST_RUN(&both, "lines", small), 0);
     assert_null(strstr(out, "overloaded"));
+    assert_null(strstr(out, "must stretch"));
 }
 
 /* A line the flat-seabed model cannot represent: exit 3, the line named, and

@@ -75,6 +75,18 @@ const char *hf_results_line_alert(const hf_spread_result *r, size_t i);
 /* Index of the first overloaded line of r, (size_t)-1 when none is. */
 size_t hf_results_first_overloaded(const hf_spread_result *r);
 
+/* Strain a line needs to reach its anchor: the straight fairlead-anchor
+ * distance hypot(g->x, g->z) over the unstretched length of l, minus 1
+ * (a fraction; <= 0 when the line is long enough to reach it slack). */
+double hf_results_line_needed_strain(const hf_spread_geom *g, const hf_line *l);
+
+/* When line `name` (geometry g, line l) must stretch beyond its unstretched
+ * length to reach its anchor, writes one line to err:
+ * "holdfast <cmd>: warning: line <name> must stretch <e> % to reach its
+ * anchor (...)" and returns 1; otherwise writes nothing and returns 0. */
+int hf_results_stretch_warn(FILE *err, const char *cmd, const char *name, const hf_spread_geom *g,
+                            const hf_line *l);
+
 /* Angle of the line above horizontal at the fairlead, degrees: atan2(V, H). */
 double hf_results_line_top_angle_deg(const hf_line_state *s);
 
