@@ -185,7 +185,13 @@ static hf_status header(FILE *out, const hf_model *m, const char *const *head, s
 
 hf_status hf_results_curve_header_write(FILE *out, const hf_model *m, hf_error *err)
 {
-    return header(out, m, hf_results_curve_columns, HF_RESULTS_CURVE_FIXED, "T", NULL, 0, err);
+    static const char *const tail[] = {"alert"};
+    return header(out, m, hf_results_curve_columns, HF_RESULTS_CURVE_FIXED, "T", tail, 1, err);
+}
+
+int hf_results_curve_overloaded(const hf_analysis_curve *c, size_t k)
+{
+    return c->status[k] == HF_OK && c->max_utilisation[k] >= 1.0;
 }
 
 size_t hf_results_curve_row_write(FILE *out, const hf_model *m, const hf_analysis_curve *c,
@@ -195,7 +201,7 @@ size_t hf_results_curve_row_write(FILE *out, const hf_model *m, const hf_analysi
     hf_csv_init(&w, out, 0);
     hf_csv_field_double(&w, c->offset[k]);
     if (c->status[k] != HF_OK) {
-        for (size_t j = 1; j < HF_RESULTS_CURVE_FIXED + m->nlines; j++)
+        for (size_t j = 1; j < HF_RESULTS_CURVE_FIXED + m->nlines + 1; j++)
             hf_csv_field_empty(&w);
         hf_csv_end_row(&w);
         return 0;
@@ -212,6 +218,7 @@ size_t hf_results_curve_row_write(FILE *out, const hf_model *m, const hf_analysi
     hf_csv_field_double(&w, c->max_utilisation[k]);
     for (size_t i = 0; i < m->nlines; i++)
         hf_csv_field_double(&w, c->fairlead_tension[k * c->nlines + i] / 1e3);
+    hf_csv_field_str(&w, hf_results_curve_overloaded(c, k) ? HF_RESULTS_ALERT_OVERLOADED : "");
     hf_csv_end_row(&w);
     return w.nonfinite;
 }

@@ -154,21 +154,24 @@ static void test_curve_against_lines(void **state)
     const double dir_deg = 33.5, d = dir_deg * M_PI / 180.0;
     char dir_arg[32];
     snprintf(dir_arg, sizeof dir_arg, "%g", dir_deg);
+    /* at -12 m and +12 m a chain passes its MBL: exit 1, the CSV complete */
     assert_int_equal(HF_TEST_RUN(&quiet, "curve", small, "--direction", dir_arg, "--range",
                                  "-12:12:4", "--csv", "-"),
-                     0);
+                     1);
     static char curve[OUT_CAP];
     memcpy(curve, out, OUT_CAP);
     char *cur = curve, *line = hf_test_line_next(&cur);
     assert_non_null(line);
     assert_string_equal(line, "offset_m,restoring_kN,force_x_kN,force_y_kN,moment_z_kNm,"
                               "stiffness_kN_per_m,max_tension_kN,max_tension_line,max_utilisation,"
-                              "T_bow-port_kN,T_bow-stbd_kN,T_stern-port_kN,T_stern-stbd_kN");
+                              "T_bow-port_kN,T_bow-stbd_kN,T_stern-port_kN,T_stern-stbd_kN,alert");
     int rows = 0;
     double last = -INFINITY;
     while ((line = hf_test_line_next(&cur))) {
         char *f[16] = {0};
-        assert_int_equal(hf_test_csv_split(line, f, 16), 13);
+        assert_int_equal(hf_test_csv_split(line, f, 16), 14);
+        /* alert: "overloaded" exactly when max_utilisation >= 1 */
+        assert_string_equal(f[13], strtod(f[8], NULL) >= 1.0 ? "overloaded" : "");
         double s = strtod(f[0], NULL), restoring = strtod(f[1], NULL);
         double fx = strtod(f[2], NULL), fy = strtod(f[3], NULL);
         assert_true(fabs(s - (-12.0 + 4.0 * rows)) < 1e-9);

@@ -232,7 +232,7 @@ static void test_headers_exact(void **state)
     cap_close(&c);
     assert_string_equal(c.buf, "offset_m,restoring_kN,force_x_kN,force_y_kN,moment_z_kNm,"
                                "stiffness_kN_per_m,max_tension_kN,max_tension_line,"
-                               "max_utilisation,T_north_kN,T_south-east_kN,T_w_3_kN\n");
+                               "max_utilisation,T_north_kN,T_south-east_kN,T_w_3_kN,alert\n");
     cap_free(&c);
 
     cap_open(&c);
@@ -438,6 +438,7 @@ static void test_curve_rows(void **state)
     cv->offset[1] = 12.5;
     cv->max_tension_line[2] = (size_t)-1;
     cv->moment_z[2] = NAN;
+    cv->max_utilisation[2] = 1.0; /* overloaded exactly at T = MBL */
     capture c;
     cap_open(&c);
     assert_int_equal(hf_results_curve_row_write(c.f, &fx.m, cv, 0), 0);
@@ -446,7 +447,7 @@ static void test_curve_rows(void **state)
     cap_close(&c);
     char row[4096], *f[32];
     line_at(c.buf, 0, row, sizeof row);
-    assert_int_equal(split(row, f, 32), HF_RESULTS_CURVE_FIXED + NL);
+    assert_int_equal(split(row, f, 32), HF_RESULTS_CURVE_FIXED + NL + 1);
     near(num(f[0]), -7.25, 1e-9);
     for (int j = 1; j <= 6; j++)
         near(num(f[j]), v[j] / 1e3, 1e-9);
@@ -454,13 +455,19 @@ static void test_curve_rows(void **state)
     near(num(f[8]), v[7], 1e-9);
     for (size_t i = 0; i < NL; i++)
         near(num(f[9 + i]), (512345.25 + 13771.3 * (double)i) / 1e3, 1e-9);
+    assert_string_equal(f[9 + NL], ""); /* utilisation 0.227 */
     /* A failed offset: the offset, then every field empty. */
     line_at(c.buf, 1, row, sizeof row);
-    assert_string_equal(row, "12.5,,,,,,,,,,,");
+    assert_string_equal(row, "12.5,,,,,,,,,,,,");
     line_at(c.buf, 2, row, sizeof row);
-    assert_int_equal(split(row, f, 32), HF_RESULTS_CURVE_FIXED + NL);
+    assert_int_equal(split(row, f, 32), HF_RESULTS_CURVE_FIXED + NL + 1);
     assert_string_equal(f[4], "");
     assert_string_equal(f[7], "");
+    assert_string_equal(f[9 + NL], "overloaded");
+    assert_int_equal(hf_results_curve_overloaded(cv, 2), 1);
+    assert_int_equal(hf_results_curve_overloaded(cv, 0), 0);
+    cv->max_utilisation[1] = 3.0; /* a failed point is never marked */
+    assert_int_equal(hf_results_curve_overloaded(cv, 1), 0);
     cap_free(&c);
     hf_analysis_curve_free(cv);
 }

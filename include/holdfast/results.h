@@ -120,14 +120,20 @@ void hf_results_stiffness_for_people(double K[6][6], const double force[6], doub
 /* ---- curve: restoring force and stiffness against offset ---- */
 
 /* Writes the curve CSV header: hf_results_curve_columns then T_<line>_kN per
- * line of m.  Returns HF_OK, or HF_ELIMIT (err set, nothing written) when a
- * line name is longer than HF_MODEL_MAX_NAME bytes (the case file limit). */
+ * line of m, then alert.  Returns HF_OK, or HF_ELIMIT (err set, nothing
+ * written) when a line name is longer than HF_MODEL_MAX_NAME bytes (the case
+ * file limit). */
 hf_status hf_results_curve_header_write(FILE *out, const hf_model *m, hf_error *err);
+
+/* 1 when point k of curve c solved and a line is overloaded there (max
+ * utilisation >= 1), else 0. */
+int hf_results_curve_overloaded(const hf_analysis_curve *c, size_t k);
 
 /* Writes row k < c->n of curve c (computed for m; include/holdfast/analysis.h):
  * the point (forces in kN, moment in kN m, stiffness in kN/m), the name of
  * the line with the largest tension ("" when none) and each line's fairlead
- * tension in kN.  A point that did not solve is written as its offset with
+ * tension in kN, then alert ("overloaded" when hf_results_curve_overloaded,
+ * else empty).  A point that did not solve is written as its offset with
  * every other field empty (not counted: the gap is intended).  Returns the
  * number of non-finite values left empty. */
 size_t hf_results_curve_row_write(FILE *out, const hf_model *m, const hf_analysis_curve *c,
