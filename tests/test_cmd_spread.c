@@ -401,6 +401,16 @@ static void test_lines_overloaded(void **state)
     assert_non_null(
         strstr(out, "holdfast lines: warning: line stub must stretch 414.34 % to reach"));
     assert_non_null(strstr(out, "CAUTION"));
+    /* sweep: the short lengths are overloaded, 470 m is not; the CSV is
+     * complete and the first overloaded case is named */
+    assert_int_equal(HF_TEST_RUN(&both, "sweep", stub, "--vary",
+                                 "lines[stub].sections[0].length=90:470:95", "--csv", "-"),
+                     1);
+    assert_non_null(strstr(out, ",alert\n"));
+    assert_non_null(strstr(out, "\n90,ok,"));
+    assert_non_null(strstr(out, "\n470,ok,"));
+    assert_non_null(strstr(out, "holdfast sweep: line stub is overloaded: utilisation "));
+    assert_non_null(strstr(out, "at case lines[stub].sections[0].length=90 m\n"));
     /* the small case's lines are far from breaking: no mark, exit 0 */
     assert_int_equal(HF_TEST_RUN(&both, "lines", small), 0);
     assert_null(strstr(out, "overloaded"));
