@@ -6,6 +6,7 @@
 #include "holdfast/case.h"
 #include "holdfast/cli.h"
 #include "holdfast/criteria.h"
+#include "holdfast/results.h"
 #include "holdfast/spread.h"
 
 static const char help[] =
@@ -98,6 +99,8 @@ static void print_lines(const hf_model *m)
                l->name, anchor_kinds[l->anchor_spec.kind], l->anchor[0], l->anchor[1],
                l->fairlead[0], l->fairlead[1], l->fairlead[2], span, height,
                hf_line_length(&l->line));
+        if (isfinite(span))
+            hf_results_stretch_warn(stderr, "check", l->name, &g, &l->line);
         if (l->anchor_spec.kind == HF_ANCHOR_GRAVITY)
             printf("    gravity block: submerged weight %.1f kN, friction %.2f\n",
                    l->anchor_spec.weight / 1e3, l->anchor_spec.friction);

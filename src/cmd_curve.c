@@ -23,6 +23,7 @@ static const char usage_text[] =
     "  force_x_kN, force_y_kN, moment_z_kNm  the mooring load on the hull\n"
     "  stiffness_kN_per_m  d(restoring)/d(offset) from the analytic 6x6 stiffness\n"
     "  max_tension_kN, max_tension_line, max_utilisation, T_<line>_kN (fairlead tension)\n"
+    "  alert               'overloaded' when a line's utilisation T/MBL >= 1, else empty\n"
     "Each offset is warm-started from the previous one.\n"
     "\n"
     "options:\n"
@@ -31,24 +32,47 @@ static const char usage_text[] =
     "  --csv FILE|-          write the curve as CSV (- = standard output)\n"
     "  --help                show this text\n"
     "\n"
-    "exit status: 0 ok, 2 bad input or usage, 3 numerical failure\n";
+    "exit status: 0 ok, 1 a line is overloaded at some offset (the output is still\n"
+    "complete; stderr names the first such point), 2 bad input or usage, 3\n"
+    "numerical failure\n";
 
 static void table_header(FILE *out)
 {
-    fprintf(out, "%10s %12s %12s %12s %13s %12s %12s %-14s %7s\n", "offset m", "restoring kN",
-            "Fx kN", "Fy kN", "Mz kN m", "k kN/m", "T max kN", "line", "util");
+    fprintf(out, "%10s %12s %12s %12s %13s %12s %12s %-14s %7s %s\n", "offset m", "restoring kN",
+            "Fx kN", "Fy kN", "Mz kN m", "k kN/m", "T max kN", "line", "util", "alert");
 }
 
 static void table_row(FILE *out, const hf_model *m, const hf_analysis_curve *c, size_t k)
 {
     size_t tl = c->max_tension_line[k];
-    fprintf(out, "%10.3f %12.2f %12.2f %12.2f %13.1f %12.3f %12.2f %-14s %7.4f\n", c->offset[k],
+    int over = hf_results_curve_overloaded(c, k);
+    fprintf(out, "%10.3f %12.2f %12.2f %12.2f %13.1f %12.3f %12.2f %-14s %7.4f%s\n", c->offset[k],
             hf_cli_zero_small(c->restoring[k] / 1e3, 0.005),
             hf_cli_zero_small(c->force_x[k] / 1e3, 0.005),
             hf_cli_zero_small(c->force_y[k] / 1e3, 0.005),
             hf_cli_zero_small(c->moment_z[k] / 1e3, 0.05), c->stiffness[k] / 1e3,
-            c->max_tension[k] / 1e3, tl < m->nlines ? m->lines[tl].name : "",
-            c->max_utilisation[k]);
+            c->max_tension[k] / 1e3, tl < m->nlines ? m->lines[tl].name : "", c->max_utilisation[k],
+            over ? " " HF_RESULTS_ALERT_OVERLOADED : "");
+}
+
+/* One line on stderr for the first overloaded point of c (none: returns
+ * HF_EXIT_OK): the most utilised line there, its utilisation and tension,
+ * the offset.  Returns HF_EXIT_CRITERION when a point is overloaded. */
+static int report_overload(const hf_model *m, const hf_analysis_curve *c, double dir)
+{
+    for (size_t k = 0; k < c->n; k++) {
+        if (!hf_results_curve_overloaded(c, k))
+            continue;
+        size_t i = c->max_utilisation_line[k];
+        fprintf(stderr,
+                "holdfast curve: line %s is overloaded: utilisation %.1f (T %.1f kN) at offset "
+                "%.6g m along %.6g deg\n",
+                hf_results_line_name(m, i), c->max_utilisation[k],
+                i < c->nlines ? c->line_tension[k * c->nlines + i] / 1e3 : NAN, c->offset[k],
+                dir * 180.0 / M_PI);
+        return HF_EXIT_CRITERION;
+    }
+    return HF_EXIT_OK;
 }
 
 /* The options of one curve command. */
@@ -159,7 +183,7 @@ static int write_curve(const hf_model *m, const hf_analysis_curve *c, const curv
         summary(out, m, c, a);
     if (human)
         fprintf(out, "\n%s", hf_caution_text);
-    return HF_EXIT_OK;
+    return report_overload(m, c, a->dir);
 }
 
 int hf_cmd_curve(int argc, char **argv)

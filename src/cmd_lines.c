@@ -21,7 +21,9 @@ static const char usage_text[] =
     "(m, m, degrees) and prints one row per line: status (regime or failure),\n"
     "fairlead tension and its horizontal and vertical parts, the line's angle\n"
     "above horizontal at the fairlead, the anchor load and uplift angle, the length\n"
-    "resting on the seabed, the horizontal span and the largest utilisation (T/MBL).\n"
+    "resting on the seabed, the horizontal span and the largest utilisation (T/MBL);\n"
+    "a line whose tension reaches the breaking load (utilisation >= 1) is marked\n"
+    "'overloaded' (CSV column alert, last) and named in a message on stderr.\n"
     "\n"
     "options:\n"
     "  --offset X,Y,HEADING_DEG  offset from the case's hull pose\n"
@@ -30,16 +32,17 @@ static const char usage_text[] =
     "                            global coordinates (DIR is created when missing)\n"
     "  --help                    show this text\n"
     "\n"
-    "exit status: 0 ok, 2 bad input or usage, 3 numerical failure\n";
+    "exit status: 0 ok, 1 a line is overloaded (output still complete), 2 bad\n"
+    "input or usage, 3 numerical failure\n";
 
 static void write_table(FILE *out, const hf_model *m, const hf_pose *p, const hf_spread_result *r)
 {
     fprintf(out, "%s\n", m->title ? m->title : "");
     fprintf(out, "hull pose: x %.3f m, y %.3f m, heading %.3f deg; water depth %.2f m\n\n",
             p->surge, p->sway, p->yaw * 180.0 / M_PI, hf_model_water_height(m));
-    fprintf(out, "%-14s %-10s %10s %10s %10s %7s %10s %7s %9s %9s %7s\n", "line", "status",
+    fprintf(out, "%-14s %-10s %10s %10s %10s %7s %10s %7s %9s %9s %7s %s\n", "line", "status",
             "T top kN", "H kN", "V kN", "top deg", "T anch kN", "upl deg", "ground m", "span m",
-            "util");
+            "util", "alert");
     for (size_t i = 0; i < m->nlines; i++) {
         char buf[HF_ERROR_TEXT];
         const hf_line_state *s = &r->states[i];
@@ -48,10 +51,11 @@ static void write_table(FILE *out, const hf_model *m, const hf_pose *p, const hf
             fprintf(out, "%-14s %s\n", m->lines[i].name, st);
             continue;
         }
-        fprintf(out, "%-14s %-10s %10.1f %10.1f %10.1f %7.2f %10.1f %7.2f %9.1f %9.1f %7.3f\n",
+        fprintf(out, "%-14s %-10s %10.1f %10.1f %10.1f %7.2f %10.1f %7.2f %9.1f %9.1f %7.3f%s%s\n",
                 m->lines[i].name, st, s->tension / 1e3, s->h / 1e3, s->v / 1e3,
                 hf_results_line_top_angle_deg(s), s->anchor_tension / 1e3,
-                s->anchor_angle * 180.0 / M_PI, s->grounded, r->geom[i].x, s->max_utilisation);
+                s->anchor_angle * 180.0 / M_PI, s->grounded, r->geom[i].x, s->max_utilisation,
+                hf_results_line_overloaded(r, i) ? " " : "", hf_results_line_alert(r, i));
     }
     if (r->status == HF_OK) {
         fprintf(
@@ -165,6 +169,24 @@ static hf_status write_profiles(const char *dir, const char *case_path, const hf
     return s;
 }
 
+/* One line on stderr for the first overloaded line of r (none: returns
+ * HF_EXIT_OK): its utilisation, the tension and MBL of its most utilised
+ * section and the offset.  Returns HF_EXIT_CRITERION when a line is. */
+static int report_overload(const hf_model *m, const hf_spread_result *r, const double off[3])
+{
+    size_t i = hf_results_first_overloaded(r);
+    if (i == (size_t)-1)
+        return HF_EXIT_OK;
+    const hf_line_state *s = &r->states[i];
+    size_t k = s->max_section;
+    fprintf(stderr,
+            "holdfast lines: line %s is overloaded: utilisation %.1f (T %.1f kN >= MBL %.1f kN) "
+            "at offset %.6g,%.6g,%.6g\n",
+            hf_results_line_name(m, i), s->max_utilisation, s->section[k].t_max / 1e3,
+            m->lines[i].line.sec[k].mbl / 1e3, off[0], off[1], off[2] * 180.0 / M_PI);
+    return HF_EXIT_CRITERION;
+}
+
 int hf_cmd_lines(int argc, char **argv)
 {
     const char *cmd = "lines", *profiles = NULL;
@@ -201,6 +223,10 @@ int hf_cmd_lines(int argc, char **argv)
         rc = hf_cli_fail(&pc.err);
         goto done;
     }
+    for (size_t i = 0; i < pc.m.nlines; i++)
+        hf_results_stretch_warn(stderr, cmd, pc.m.lines[i].name, &res->geom[i],
+                                &pc.m.lines[i].line);
+    rc = report_overload(&pc.m, res, pc.offset);
     if (st != HF_OK)
         rc = hf_cli_fail(&solve_err);
 done:

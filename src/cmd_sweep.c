@@ -41,8 +41,11 @@ static const char usage_head[] =
 
 static const char usage_tail[] =
     "\n"
+    "The last column, alert, is 'overloaded' when a line's utilisation T/MBL >= 1\n"
+    "in that case, else empty.\n"
     "See docs/studies.md.  Exit status: 0 written (failed cases carry their status),\n"
-    "2 bad input (also a sweep over the size limit), 3 numerical failure.\n";
+    "1 written but a case has an overloaded line (stderr names the first), 2 bad\n"
+    "input (also a sweep over the size limit), 3 numerical failure.\n";
 
 /* The sweep's progress callback: the shared bar (cli.h), counted in cases. */
 static void progress(void *ctx, uint64_t done, uint64_t total)
@@ -192,6 +195,11 @@ static int write_sweep(hf_sweep *s, const options *o, unsigned part, hf_sweep_ra
                 "holdfast sweep: %llu of %llu cases did not solve; their rows say why in the "
                 "status column\n",
                 (unsigned long long)failed, (unsigned long long)(r->end - r->begin));
+    char over[1024];
+    if (hf_sweep_overload_text(s, over, sizeof over)) {
+        fprintf(stderr, "holdfast sweep: %s\n", over);
+        return HF_EXIT_CRITERION;
+    }
     return HF_EXIT_OK;
 }
 

@@ -13,7 +13,7 @@ const char *const hf_results_lines_columns[HF_RESULTS_LINES_COLUMNS] = {
     "line", "status", "fairlead_tension_kN", "fairlead_horizontal_kN", "fairlead_vertical_kN",
     "top_angle_deg", "anchor_tension_kN", "anchor_vertical_kN", "anchor_uplift_deg",
     "grounded_m", "span_m", "max_utilisation", "height_m", "anchor_horizontal_kN",
-    "touchdown_m", "max_tension_kN"};
+    "touchdown_m", "max_tension_kN", "alert"};
 /* clang-format on */
 
 const char *const hf_results_stiffness_columns[HF_RESULTS_STIFFNESS_COLUMNS] = {
@@ -61,6 +61,42 @@ double hf_results_line_top_angle_deg(const hf_line_state *s)
     return atan2(s->v, s->h) * 180.0 / M_PI;
 }
 
+int hf_results_line_overloaded(const hf_spread_result *r, size_t i)
+{
+    return hf_results_line_solved(r, i) && r->states[i].max_utilisation >= 1.0;
+}
+
+const char *hf_results_line_alert(const hf_spread_result *r, size_t i)
+{
+    return hf_results_line_overloaded(r, i) ? HF_RESULTS_ALERT_OVERLOADED : "";
+}
+
+size_t hf_results_first_overloaded(const hf_spread_result *r)
+{
+    for (size_t i = 0; i < r->nlines; i++)
+        if (hf_results_line_overloaded(r, i))
+            return i;
+    return (size_t)-1;
+}
+
+double hf_results_line_needed_strain(const hf_spread_geom *g, const hf_line *l)
+{
+    return hypot(g->x, g->z) / hf_line_length(l) - 1.0;
+}
+
+int hf_results_stretch_warn(FILE *err, const char *cmd, const char *name, const hf_spread_geom *g,
+                            const hf_line *l)
+{
+    double e = hf_results_line_needed_strain(g, l);
+    if (!(e > 0.0))
+        return 0;
+    fprintf(err,
+            "holdfast %s: warning: line %s must stretch %.2f %% to reach its anchor (straight "
+            "fairlead-anchor distance %.1f m > unstretched length %.1f m)\n",
+            cmd, name, 100.0 * e, hypot(g->x, g->z), hf_line_length(l));
+    return 1;
+}
+
 size_t hf_results_lines_write(FILE *out, const hf_model *m, const hf_spread_result *r)
 {
     hf_csv c;
@@ -86,6 +122,7 @@ size_t hf_results_lines_write(FILE *out, const hf_model *m, const hf_spread_resu
             hf_csv_field_double(&c, s->anchor_h / 1e3);
             hf_csv_field_double(&c, s->touchdown_x);
             hf_csv_field_double(&c, r->line_tension[i] / 1e3);
+            hf_csv_field_str(&c, hf_results_line_alert(r, i));
         } else {
             for (int k = 2; k < HF_RESULTS_LINES_COLUMNS; k++)
                 hf_csv_field_empty(&c);
@@ -148,7 +185,13 @@ static hf_status header(FILE *out, const hf_model *m, const char *const *head, s
 
 hf_status hf_results_curve_header_write(FILE *out, const hf_model *m, hf_error *err)
 {
-    return header(out, m, hf_results_curve_columns, HF_RESULTS_CURVE_FIXED, "T", NULL, 0, err);
+    static const char *const tail[] = {"alert"};
+    return header(out, m, hf_results_curve_columns, HF_RESULTS_CURVE_FIXED, "T", tail, 1, err);
+}
+
+int hf_results_curve_overloaded(const hf_analysis_curve *c, size_t k)
+{
+    return c->status[k] == HF_OK && c->max_utilisation[k] >= 1.0;
 }
 
 size_t hf_results_curve_row_write(FILE *out, const hf_model *m, const hf_analysis_curve *c,
@@ -158,7 +201,7 @@ size_t hf_results_curve_row_write(FILE *out, const hf_model *m, const hf_analysi
     hf_csv_init(&w, out, 0);
     hf_csv_field_double(&w, c->offset[k]);
     if (c->status[k] != HF_OK) {
-        for (size_t j = 1; j < HF_RESULTS_CURVE_FIXED + m->nlines; j++)
+        for (size_t j = 1; j < HF_RESULTS_CURVE_FIXED + m->nlines + 1; j++)
             hf_csv_field_empty(&w);
         hf_csv_end_row(&w);
         return 0;
@@ -175,6 +218,7 @@ size_t hf_results_curve_row_write(FILE *out, const hf_model *m, const hf_analysi
     hf_csv_field_double(&w, c->max_utilisation[k]);
     for (size_t i = 0; i < m->nlines; i++)
         hf_csv_field_double(&w, c->fairlead_tension[k * c->nlines + i] / 1e3);
+    hf_csv_field_str(&w, hf_results_curve_overloaded(c, k) ? HF_RESULTS_ALERT_OVERLOADED : "");
     hf_csv_end_row(&w);
     return w.nonfinite;
 }

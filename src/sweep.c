@@ -6,6 +6,7 @@
 #include <string.h>
 #include "holdfast/alloc.h"
 #include "holdfast/csv.h"
+#include "holdfast/results.h"
 #include "holdfast/sweep.h"
 
 #define NONE ((size_t)-1)
@@ -50,6 +51,10 @@ typedef struct {
     double (*bal_offset)[3]; /* per distinct load: surge, sway (m), yaw (rad) */
     double *vals;            /* ncols: the current row's outputs, column units */
     uint64_t failed;         /* emitted cases whose status was not ok */
+    uint64_t over_n;         /* emitted cases with an overloaded line */
+    uint64_t over_k;         /* the first of them (valid when over_n) */
+    double over_util;        /* its max utilisation, - */
+    size_t over_line;        /* its most utilised line */
     hf_error err;
 } thread_state;
 
@@ -273,6 +278,13 @@ static void row_values(thread_state *t, hf_status st)
         t->vals[c] = st == HF_OK ? column_value(t, &s->cols[c]) : NAN;
 }
 
+/* 1 when case st solved in full and a line's utilisation T/MBL >= 1 at
+ * rest (the alert column's rule, include/holdfast/results.h). */
+static int overloaded(const thread_state *t, hf_status st)
+{
+    return st == HF_OK && t->res.max_utilisation >= 1.0;
+}
+
 static int format_row(thread_state *t, uint64_t k, hf_status st, char *buf, size_t cap)
 {
     const hf_sweep *s = t->plan;
@@ -296,6 +308,7 @@ static int format_row(thread_state *t, uint64_t k, hf_status st, char *buf, size
             p = put_num(p, x);
         }
     }
+    p = put_text(p, overloaded(t, st) ? "overloaded" : "");
     *p++ = '\n';
     *p = '\0';
     return (int)(p - buf);
@@ -326,6 +339,11 @@ static int sweep_row(void *state, uint64_t k, int start, int emit, char *buf, si
         return 0;
     if (st != HF_OK)
         t->failed++;
+    if (overloaded(t, st) && (!t->over_n++ || k < t->over_k)) {
+        t->over_k = k;
+        t->over_util = t->res.max_utilisation;
+        t->over_line = t->res.max_utilisation_line;
+    }
     int n = format_row(t, k, st, buf, cap);
     keep_row(t, k, st);
     return n;
@@ -493,7 +511,7 @@ hf_sweep *hf_sweep_alloc(const hf_model *m, const hf_vary *vary, size_t nvary, i
     }
     /* Every field: a separator and at most HF_CSV_NUMBER_MAX - 1 characters,
      * or a quoted line name; the status word; the newline and NUL. */
-    s->row_cap = (nvary + s->ncols + 1) * (HF_CSV_NUMBER_MAX + 1) + 2 * (longest + 1) + 32;
+    s->row_cap = (nvary + s->ncols + 1) * (HF_CSV_NUMBER_MAX + 1) + 2 * (longest + 1) + 48;
     s->jobs = jobs;
     s->th = hf_calloc((size_t)jobs, sizeof *s->th);
     if (!s->th) {
@@ -618,6 +636,7 @@ hf_status hf_sweep_write_header(const hf_sweep *s, FILE *out, hf_error *err)
         hf_output_column_name(s->base, &s->cols[i].c, name, sizeof name);
         hf_csv_field_str(&c, name);
     }
+    hf_csv_field_str(&c, "alert");
     hf_csv_end_row(&c);
     if (ferror(out))
         return hf_error_set(err, HF_EIO, "writing the sweep header failed");
@@ -895,4 +914,25 @@ hf_status hf_sweep_vary_parse(hf_model *m, const char *text, int bracket, hf_var
         a = b ? b + 1 : a + n;
     }
     return HF_OK;
+}
+
+int hf_sweep_overload_text(const hf_sweep *s, char *buf, size_t cap)
+{
+    const thread_state *w = NULL;
+    for (int t = 0; t < s->jobs; t++)
+        if (s->th[t]->over_n && (!w || s->th[t]->over_k < w->over_k))
+            w = s->th[t];
+    if (!w)
+        return 0;
+    double v[HF_STUDY_MAX_VARY];
+    vary_values(s, w->over_k, v);
+    int n = snprintf(buf, cap, "line %s is overloaded: utilisation %.1f at case",
+                     hf_results_line_name(s->base, w->over_line), w->over_util);
+    for (size_t j = 0; j < s->grid.nvary && n >= 0 && (size_t)n < cap; j++) {
+        char u[32];
+        hf_output_unit_for_column(s->dim[j], u, sizeof u);
+        n += snprintf(buf + n, cap - (size_t)n, "%s %s=%.6g%s%s", j ? "," : "", s->vary[j].path,
+                      v[j], *u ? " " : "", u);
+    }
+    return 1;
 }

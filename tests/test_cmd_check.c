@@ -87,6 +87,34 @@ static void malformed_case_exits_2_with_location(void **state)
         fail_msg("stderr:\n%s\nexpected it to start with:\n%s", err, want);
 }
 
+/* Issue 13: a line too short to reach its anchor is valid input but gets a
+ * warning with the strain it needs.  Fictional: 90 m of chain to an anchor
+ * 461 m away in 48 m of water (fairlead 6 m down) at invented Brannock Cove.
+ * Strain = hypot(461, 42) / 90 - 1 = 462.909 / 90 - 1 = 4.1434 (Pythagoras). */
+static void short_line_warns_with_strain(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    char path[320];
+    snprintf(path, sizeof path, "%s/short.yaml", dir);
+    hf_test_file_write(path, "title: Fictional short chain at Brannock Cove\n"
+                             "site: {depth: 48 m}\n"
+                             "components:\n"
+                             "  chain: {type: studless_chain, grade: R3S, diameter: 52 mm}\n"
+                             "lines:\n"
+                             "  - name: stub\n"
+                             "    anchor: [-461, 0]\n"
+                             "    fairlead: [0, 0, -6]\n"
+                             "    sections:\n"
+                             "      - {component: chain, length: 90 m}\n");
+    assert_int_equal(HF_TEST_RUN(&io, "check", path), 0);
+    assert_non_null(strstr(out, "the case is valid"));
+    if (!strstr(err, "holdfast check: warning: line stub must stretch 414.34 % to reach its "
+                     "anchor (straight fairlead-anchor distance 462.9 m > unstretched length "
+                     "90.0 m)\n"))
+        fail_msg("stderr:\n%s", err);
+}
+
 static void usage_and_help(void **state)
 {
     (void)state;
@@ -107,6 +135,7 @@ int main(void)
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(demo_cases_are_valid),
         cmocka_unit_test(malformed_case_exits_2_with_location),
+        cmocka_unit_test(short_line_warns_with_strain),
         cmocka_unit_test(usage_and_help),
     };
     return cmocka_run_group_tests(tests, setup, teardown);

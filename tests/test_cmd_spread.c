@@ -18,6 +18,7 @@ static char dir[256];    /* scratch directory */
 static char small[320];  /* small fictional case */
 static char buoyed[320]; /* case whose line the model cannot represent */
 static char oc3[512];
+static char stub[320]; /* 90 m of chain to an anchor 461 m away */
 
 #define OUT_CAP (1 << 18)
 static char out[OUT_CAP];
@@ -64,6 +65,18 @@ static const char buoy_case[] = "title: Fictional buoyed line at Tarrow Reach\n"
                                 "      - {buoy: 12 kN}\n"
                                 "      - {component: ch, length: 120 m}\n";
 
+/* Fictional: a 90 m chain to an anchor 461 m away in 48 m of water at the
+ * invented Brannock Cove (issue 13); the elastic solve needs a strain far
+ * past breaking.  MBL 4.73 MN invented. */
+static const char stub_case[] = "title: Fictional short chain at Brannock Cove\n"
+                                "site: {depth: 48 m}\n"
+                                "components:\n"
+                                "  ch: {type: custom, wet_weight: 0.4588 kN/m, axial_stiffness: "
+                                "220 MN, breaking_load: 4.73 MN}\n"
+                                "lines:\n"
+                                "  - {name: stub, anchor: [-461, 0], fairlead: [0, 0, -6],\n"
+                                "     sections: [{component: ch, length: 90 m}]}\n";
+
 static int setup(void **state)
 {
     (void)state;
@@ -77,6 +90,8 @@ static int setup(void **state)
     hf_test_root_path(oc3, sizeof oc3, "tests/data/oc3.yaml");
     hf_test_file_write(small, small_case);
     hf_test_file_write(buoyed, buoy_case);
+    snprintf(stub, sizeof stub, "%s/stub.yaml", dir);
+    hf_test_file_write(stub, stub_case);
     return 0;
 }
 
@@ -139,21 +154,24 @@ static void test_curve_against_lines(void **state)
     const double dir_deg = 33.5, d = dir_deg * M_PI / 180.0;
     char dir_arg[32];
     snprintf(dir_arg, sizeof dir_arg, "%g", dir_deg);
+    /* at -12 m and +12 m a chain passes its MBL: exit 1, the CSV complete */
     assert_int_equal(HF_TEST_RUN(&quiet, "curve", small, "--direction", dir_arg, "--range",
                                  "-12:12:4", "--csv", "-"),
-                     0);
+                     1);
     static char curve[OUT_CAP];
     memcpy(curve, out, OUT_CAP);
     char *cur = curve, *line = hf_test_line_next(&cur);
     assert_non_null(line);
     assert_string_equal(line, "offset_m,restoring_kN,force_x_kN,force_y_kN,moment_z_kNm,"
                               "stiffness_kN_per_m,max_tension_kN,max_tension_line,max_utilisation,"
-                              "T_bow-port_kN,T_bow-stbd_kN,T_stern-port_kN,T_stern-stbd_kN");
+                              "T_bow-port_kN,T_bow-stbd_kN,T_stern-port_kN,T_stern-stbd_kN,alert");
     int rows = 0;
     double last = -INFINITY;
     while ((line = hf_test_line_next(&cur))) {
         char *f[16] = {0};
-        assert_int_equal(hf_test_csv_split(line, f, 16), 13);
+        assert_int_equal(hf_test_csv_split(line, f, 16), 14);
+        /* alert: "overloaded" exactly when max_utilisation >= 1 */
+        assert_string_equal(f[13], strtod(f[8], NULL) >= 1.0 ? "overloaded" : "");
         double s = strtod(f[0], NULL), restoring = strtod(f[1], NULL);
         double fx = strtod(f[2], NULL), fy = strtod(f[3], NULL);
         assert_true(fabs(s - (-12.0 + 4.0 * rows)) < 1e-9);
@@ -165,16 +183,21 @@ static void test_curve_against_lines(void **state)
         if (rows % 2 == 0) {
             char offset[80];
             snprintf(offset, sizeof offset, "%.17g,%.17g,0", s * cos(d), s * sin(d));
-            assert_int_equal(HF_TEST_RUN(&quiet, "lines", small, "--offset", offset, "--csv", "-"),
-                             0);
+            /* 12 m out, the most loaded chain passes its MBL: exit 1 then */
+            int lrc = HF_TEST_RUN(&quiet, "lines", small, "--offset", offset, "--csv", "-");
+            assert_true(lrc == 0 || lrc == 1);
             char *lc = out, *ll = hf_test_line_next(&lc);
             double sum = 0.0;
+            int over = 0;
             for (int i = 0; i < 4; i++) {
                 ll = hf_test_line_next(&lc);
                 assert_non_null(ll);
                 char *g[20] = {0};
-                assert_true(hf_test_csv_split(ll, g, 20) >= 12);
+                assert_int_equal(hf_test_csv_split(ll, g, 20), 17);
                 assert_string_equal(g[0], names[i]);
+                /* alert: "overloaded" exactly when max_utilisation >= 1 */
+                assert_string_equal(g[16], strtod(g[11], NULL) >= 1.0 ? "overloaded" : "");
+                over |= g[16][0] != '\0';
                 assert_true(!strcmp(g[1], "touchdown") || !strcmp(g[1], "suspended"));
                 double h = strtod(g[3], NULL), t = strtod(g[2], NULL);
                 /* fairlead in global axes: rest pose (1.25, -0.75, heading 3.5 deg) + offset */
@@ -187,6 +210,7 @@ static void test_curve_against_lines(void **state)
                 assert_true(fabs(strtod(f[9 + i], NULL) - t) <= 1e-8 * t);
             }
             assert_true(fabs(sum - restoring) <= 1e-7 * fabs(sum) + 1e-6);
+            assert_int_equal(lrc, over);
         }
         rows++;
     }
@@ -360,6 +384,39 @@ static void test_usage_errors(void **state)
     }
 }
 
+/* Overload is a state (issue 13): the CSV is complete with alert
+ * "overloaded" in its last column, the table carries the mark, stderr names
+ * the line, and the exit status is 1 (a criterion failed). */
+static void test_lines_overloaded(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    assert_int_equal(HF_TEST_RUN(&quiet, "lines", stub, "--csv", "-"), 1);
+    assert_non_null(strstr(out, ",alert\n"));
+    assert_non_null(strstr(out, ",overloaded\n"));
+    assert_int_equal(HF_TEST_RUN(&both, "lines", stub), 1);
+    assert_non_null(strstr(out, "holdfast lines: line stub is overloaded: utilisation "));
+    assert_non_null(strstr(out, "kN >= MBL 4730.0 kN) at offset 0,0,0"));
+    /* hypot(461, 42) / 90 - 1 = 4.1434 (Pythagoras) */
+    assert_non_null(
+        strstr(out, "holdfast lines: warning: line stub must stretch 414.34 % to reach"));
+    assert_non_null(strstr(out, "CAUTION"));
+    /* sweep: the short lengths are overloaded, 470 m is not; the CSV is
+     * complete and the first overloaded case is named */
+    assert_int_equal(HF_TEST_RUN(&both, "sweep", stub, "--vary",
+                                 "lines[stub].sections[0].length=90:470:95", "--csv", "-"),
+                     1);
+    assert_non_null(strstr(out, ",alert\n"));
+    assert_non_null(strstr(out, "\n90,ok,"));
+    assert_non_null(strstr(out, "\n470,ok,"));
+    assert_non_null(strstr(out, "holdfast sweep: line stub is overloaded: utilisation "));
+    assert_non_null(strstr(out, "at case lines[stub].sections[0].length=90 m\n"));
+    /* the small case's lines are far from breaking: no mark, exit 0 */
+    assert_int_equal(HF_TEST_RUN(&both, "lines", small), 0);
+    assert_null(strstr(out, "overloaded"));
+    assert_null(strstr(out, "must stretch"));
+}
+
 /* A line the flat-seabed model cannot represent: exit 3, the line named, and
  * no CSV file left behind. */
 static void test_numerical_failure(void **state)
@@ -442,7 +499,7 @@ int main(void)
         cmocka_unit_test(test_curve_stiffness_column), cmocka_unit_test(test_curve_table_and_file),
         cmocka_unit_test(test_lines_csv_and_profiles), cmocka_unit_test(test_usage_errors),
         cmocka_unit_test(test_man_page_complete),      cmocka_unit_test(test_profile_is_the_case),
-        cmocka_unit_test(test_numerical_failure),
+        cmocka_unit_test(test_numerical_failure),      cmocka_unit_test(test_lines_overloaded),
     };
     return cmocka_run_group_tests(tests, setup, teardown);
 }

@@ -206,7 +206,7 @@ static void test_headers_exact(void **state)
                              "fairlead_vertical_kN,top_angle_deg,anchor_tension_kN,"
                              "anchor_vertical_kN,anchor_uplift_deg,grounded_m,span_m,"
                              "max_utilisation,height_m,anchor_horizontal_kN,touchdown_m,"
-                             "max_tension_kN");
+                             "max_tension_kN,alert");
     assert_int_equal(count_lines(c.buf), 1 + NL);
     cap_free(&c);
 
@@ -232,7 +232,7 @@ static void test_headers_exact(void **state)
     cap_close(&c);
     assert_string_equal(c.buf, "offset_m,restoring_kN,force_x_kN,force_y_kN,moment_z_kNm,"
                                "stiffness_kN_per_m,max_tension_kN,max_tension_line,"
-                               "max_utilisation,T_north_kN,T_south-east_kN,T_w_3_kN\n");
+                               "max_utilisation,T_north_kN,T_south-east_kN,T_w_3_kN,alert\n");
     cap_free(&c);
 
     cap_open(&c);
@@ -277,6 +277,7 @@ static void test_lines_rows_parse_back(void **state)
     near(num(f[13]), s->anchor_h / 1e3, 1e-9);
     near(num(f[14]), s->touchdown_x, 1e-9);
     near(num(f[15]), fx.line_tension[0] / 1e3, 1e-9);
+    assert_string_equal(f[16], ""); /* utilisation 0.13: not overloaded */
 
     /* A name with a comma comes back whole (RFC 4180 quoting). */
     line_at(c.buf, 2, row, sizeof row);
@@ -333,6 +334,36 @@ static void test_lines_nonfinite_counted(void **state)
     assert_string_equal(f[14], "");
     near(num(f[3]), fx.states[0].h / 1e3, 1e-9);
     cap_free(&c);
+}
+
+/* Overload is a state (issue 13): utilisation >= 1 marks the line
+ * "overloaded" in the alert column, exactly at 1 included; a line that did
+ * not solve is never marked. */
+static void test_lines_alert_overloaded(void **state)
+{
+    (void)state;
+    fixture fx;
+    lines_case(&fx);
+    assert_int_equal(hf_results_first_overloaded(&fx.r), (size_t)-1);
+    fx.states[0].max_utilisation = 1.0;
+    fx.states[2].max_utilisation = 5.0; /* failed line: no mark */
+    assert_int_equal(hf_results_line_overloaded(&fx.r, 0), 1);
+    assert_int_equal(hf_results_line_overloaded(&fx.r, 2), 0);
+    assert_int_equal(hf_results_first_overloaded(&fx.r), 0);
+    capture c;
+    cap_open(&c);
+    assert_int_equal(hf_results_lines_write(c.f, &fx.m, &fx.r), 0);
+    cap_close(&c);
+    char row[4096], *f[64];
+    line_at(c.buf, 1, row, sizeof row);
+    assert_int_equal(split(row, f, 64), HF_RESULTS_LINES_COLUMNS);
+    assert_string_equal(f[16], "overloaded");
+    line_at(c.buf, 3, row, sizeof row);
+    assert_int_equal(split(row, f, 64), HF_RESULTS_LINES_COLUMNS);
+    assert_string_equal(f[16], "");
+    cap_free(&c);
+    fx.states[0].max_utilisation = nextafter(1.0, 0.0);
+    assert_int_equal(hf_results_line_overloaded(&fx.r, 0), 0);
 }
 
 static void test_stiffness_parse_back(void **state)
@@ -407,6 +438,7 @@ static void test_curve_rows(void **state)
     cv->offset[1] = 12.5;
     cv->max_tension_line[2] = (size_t)-1;
     cv->moment_z[2] = NAN;
+    cv->max_utilisation[2] = 1.0; /* overloaded exactly at T = MBL */
     capture c;
     cap_open(&c);
     assert_int_equal(hf_results_curve_row_write(c.f, &fx.m, cv, 0), 0);
@@ -415,7 +447,7 @@ static void test_curve_rows(void **state)
     cap_close(&c);
     char row[4096], *f[32];
     line_at(c.buf, 0, row, sizeof row);
-    assert_int_equal(split(row, f, 32), HF_RESULTS_CURVE_FIXED + NL);
+    assert_int_equal(split(row, f, 32), HF_RESULTS_CURVE_FIXED + NL + 1);
     near(num(f[0]), -7.25, 1e-9);
     for (int j = 1; j <= 6; j++)
         near(num(f[j]), v[j] / 1e3, 1e-9);
@@ -423,13 +455,19 @@ static void test_curve_rows(void **state)
     near(num(f[8]), v[7], 1e-9);
     for (size_t i = 0; i < NL; i++)
         near(num(f[9 + i]), (512345.25 + 13771.3 * (double)i) / 1e3, 1e-9);
+    assert_string_equal(f[9 + NL], ""); /* utilisation 0.227 */
     /* A failed offset: the offset, then every field empty. */
     line_at(c.buf, 1, row, sizeof row);
-    assert_string_equal(row, "12.5,,,,,,,,,,,");
+    assert_string_equal(row, "12.5,,,,,,,,,,,,");
     line_at(c.buf, 2, row, sizeof row);
-    assert_int_equal(split(row, f, 32), HF_RESULTS_CURVE_FIXED + NL);
+    assert_int_equal(split(row, f, 32), HF_RESULTS_CURVE_FIXED + NL + 1);
     assert_string_equal(f[4], "");
     assert_string_equal(f[7], "");
+    assert_string_equal(f[9 + NL], "overloaded");
+    assert_int_equal(hf_results_curve_overloaded(cv, 2), 1);
+    assert_int_equal(hf_results_curve_overloaded(cv, 0), 0);
+    cv->max_utilisation[1] = 3.0; /* a failed point is never marked */
+    assert_int_equal(hf_results_curve_overloaded(cv, 1), 0);
     cap_free(&c);
     hf_analysis_curve_free(cv);
 }
@@ -581,6 +619,7 @@ int main(void)
         cmocka_unit_test(test_headers_exact),
         cmocka_unit_test(test_lines_rows_parse_back),
         cmocka_unit_test(test_lines_nonfinite_counted),
+        cmocka_unit_test(test_lines_alert_overloaded),
         cmocka_unit_test(test_stiffness_parse_back),
         cmocka_unit_test(test_curve_rows),
         cmocka_unit_test(test_balance_rows),

@@ -101,7 +101,7 @@ static void test_rows_equal_individual_runs(void **s)
     fclose(f);
     const char *header = "lines[north].sections[3].length_m,site.water_level_m,status,T_north_kN,"
                          "T_southwest_kN,T_southeast_kN,anchor_T_southwest_kN,"
-                         "stiffness_surge_kN_per_m,max_utilisation,worst_line\n";
+                         "stiffness_surge_kN_per_m,max_utilisation,worst_line,alert\n";
     assert_memory_equal(text, header, strlen(header));
     const char *row = text + strlen(header);
     for (int k = 0; k < 12; k++) {
@@ -132,6 +132,9 @@ static void test_rows_equal_individual_runs(void **s)
         assert_true(fabs(um - res.max_utilisation) <= 1e-8 * um);
         field(row, 9, word, sizeof word);
         assert_string_equal(word, model.lines[res.max_utilisation_line].name);
+        /* alert (issue 13): "overloaded" exactly when max utilisation >= 1 */
+        field(row, 10, word, sizeof word);
+        assert_string_equal(word, res.max_utilisation >= 1.0 ? "overloaded" : "");
         hf_spread_free(ws);
         hf_model_free(&copy);
         row = strchr(row, '\n') + 1;
@@ -550,7 +553,7 @@ static void test_failed_row_is_empty(void **s)
     assert_non_null(sw);
     char buf[4096];
     assert_int_equal(hf_sweep_case_row(sw, 1, buf, sizeof buf, &e), HF_OK);
-    assert_string_equal(buf, "1e+12,no_equilibrium,,,,,,\n");
+    assert_string_equal(buf, "1e+12,no_equilibrium,,,,,,,\n");
     assert_int_equal(hf_sweep_case_row(sw, 0, buf, sizeof buf, &e), HF_OK);
     assert_true(!strncmp(buf, "400000,ok,", 10));
     hf_sweep_table *t = hf_sweep_table_alloc(sw, 2, &e);

@@ -30,8 +30,8 @@
 #include "holdfast/spread.h"
 #include "holdfast/status.h"
 
-/* Columns of the lines CSV (16) and of the stiffness CSV (7). */
-#define HF_RESULTS_LINES_COLUMNS 16
+/* Columns of the lines CSV (17) and of the stiffness CSV (7). */
+#define HF_RESULTS_LINES_COLUMNS 17
 #define HF_RESULTS_STIFFNESS_COLUMNS 7
 /* Fixed columns of the curve CSV before T_<line>_kN, and of the balance CSV
  * before and after Tmax_<line>_kN. */
@@ -60,6 +60,33 @@ int hf_results_line_solved(const hf_spread_result *r, size_t i);
  * static string or buf. */
 const char *hf_results_line_status(const hf_spread_result *r, size_t i, char *buf, size_t cap);
 
+/* The mark of the "alert" column for a line whose tension reaches the
+ * breaking load (MBL) of one of its sections: utilisation T/MBL >= 1. */
+#define HF_RESULTS_ALERT_OVERLOADED "overloaded"
+
+/* 1 when line i of r was solved and is overloaded (max utilisation >= 1),
+ * else 0.  An overloaded line is a state, not a failure: the numbers stay,
+ * the alert column and the exit status 1 report it. */
+int hf_results_line_overloaded(const hf_spread_result *r, size_t i);
+
+/* HF_RESULTS_ALERT_OVERLOADED when line i is overloaded, else "" (static). */
+const char *hf_results_line_alert(const hf_spread_result *r, size_t i);
+
+/* Index of the first overloaded line of r, (size_t)-1 when none is. */
+size_t hf_results_first_overloaded(const hf_spread_result *r);
+
+/* Strain a line needs to reach its anchor: the straight fairlead-anchor
+ * distance hypot(g->x, g->z) over the unstretched length of l, minus 1
+ * (a fraction; <= 0 when the line is long enough to reach it slack). */
+double hf_results_line_needed_strain(const hf_spread_geom *g, const hf_line *l);
+
+/* When line `name` (geometry g, line l) must stretch beyond its unstretched
+ * length to reach its anchor, writes one line to err:
+ * "holdfast <cmd>: warning: line <name> must stretch <e> % to reach its
+ * anchor (...)" and returns 1; otherwise writes nothing and returns 0. */
+int hf_results_stretch_warn(FILE *err, const char *cmd, const char *name, const hf_spread_geom *g,
+                            const hf_line *l);
+
 /* Angle of the line above horizontal at the fairlead, degrees: atan2(V, H). */
 double hf_results_line_top_angle_deg(const hf_line_state *s);
 
@@ -68,8 +95,9 @@ double hf_results_line_top_angle_deg(const hf_line_state *s);
  * status, then fairlead tension, horizontal, vertical (kN), top angle (deg),
  * anchor tension, anchor vertical (kN), anchor uplift (deg), grounded length,
  * span (m), max utilisation, fairlead height (m), anchor horizontal (kN),
- * touchdown (m), largest tension along the line (kN).  A broken or failed
- * line keeps its name and status, its 14 values are left empty.  Returns the
+ * touchdown (m), largest tension along the line (kN), alert
+ * (hf_results_line_alert).  A broken or failed line keeps its name and
+ * status, its 15 other cells are left empty.  Returns the
  * number of non-finite values left empty (0 normally). */
 size_t hf_results_lines_write(FILE *out, const hf_model *m, const hf_spread_result *r);
 
@@ -92,14 +120,20 @@ void hf_results_stiffness_for_people(double K[6][6], const double force[6], doub
 /* ---- curve: restoring force and stiffness against offset ---- */
 
 /* Writes the curve CSV header: hf_results_curve_columns then T_<line>_kN per
- * line of m.  Returns HF_OK, or HF_ELIMIT (err set, nothing written) when a
- * line name is longer than HF_MODEL_MAX_NAME bytes (the case file limit). */
+ * line of m, then alert.  Returns HF_OK, or HF_ELIMIT (err set, nothing
+ * written) when a line name is longer than HF_MODEL_MAX_NAME bytes (the case
+ * file limit). */
 hf_status hf_results_curve_header_write(FILE *out, const hf_model *m, hf_error *err);
+
+/* 1 when point k of curve c solved and a line is overloaded there (max
+ * utilisation >= 1), else 0. */
+int hf_results_curve_overloaded(const hf_analysis_curve *c, size_t k);
 
 /* Writes row k < c->n of curve c (computed for m; include/holdfast/analysis.h):
  * the point (forces in kN, moment in kN m, stiffness in kN/m), the name of
  * the line with the largest tension ("" when none) and each line's fairlead
- * tension in kN.  A point that did not solve is written as its offset with
+ * tension in kN, then alert ("overloaded" when hf_results_curve_overloaded,
+ * else empty).  A point that did not solve is written as its offset with
  * every other field empty (not counted: the gap is intended).  Returns the
  * number of non-finite values left empty. */
 size_t hf_results_curve_row_write(FILE *out, const hf_model *m, const hf_analysis_curve *c,

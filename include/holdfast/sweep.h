@@ -182,4 +182,11 @@ void hf_sweep_vary_clear(hf_vary *v);
 /* Cases whose status was not "ok" among the rows written so far. */
 uint64_t hf_sweep_failed_count(const hf_sweep *s);
 
+/* When a row written so far has an overloaded line (alert column
+ * "overloaded": max utilisation T/MBL >= 1 at rest), formats into buf (cap
+ * bytes, cut to fit) "line <name> is overloaded: utilisation <u> at case
+ * <path>=<value> <unit>, ..." for the first such case and returns 1; else
+ * returns 0 and leaves buf alone. */
+int hf_sweep_overload_text(const hf_sweep *s, char *buf, size_t cap);
+
 #endif
