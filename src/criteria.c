@@ -391,3 +391,8 @@ hf_status hf_criteria_holding_evaluate(const hf_criteria_preset *p, hf_holding_c
     out->passed = !out->checked || capacity >= out->required * load;
     return HF_OK;
 }
+
+int hf_criteria_overloaded(double utilisation)
+{
+    return utilisation >= 1.0;
+}

@@ -63,7 +63,7 @@ double hf_results_line_top_angle_deg(const hf_line_state *s)
 
 int hf_results_line_overloaded(const hf_spread_result *r, size_t i)
 {
-    return hf_results_line_solved(r, i) && r->states[i].max_utilisation >= 1.0;
+    return hf_results_line_solved(r, i) && hf_criteria_overloaded(r->states[i].max_utilisation);
 }
 
 const char *hf_results_line_alert(const hf_spread_result *r, size_t i)
@@ -191,7 +191,7 @@ hf_status hf_results_curve_header_write(FILE *out, const hf_model *m, hf_error *
 
 int hf_results_curve_overloaded(const hf_analysis_curve *c, size_t k)
 {
-    return c->status[k] == HF_OK && c->max_utilisation[k] >= 1.0;
+    return c->status[k] == HF_OK && hf_criteria_overloaded(c->max_utilisation[k]);
 }
 
 size_t hf_results_curve_row_write(FILE *out, const hf_model *m, const hf_analysis_curve *c,

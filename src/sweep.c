@@ -5,6 +5,7 @@
 #include <stdint.h>
 #include <string.h>
 #include "holdfast/alloc.h"
+#include "holdfast/criteria.h"
 #include "holdfast/csv.h"
 #include "holdfast/results.h"
 #include "holdfast/sweep.h"
@@ -278,11 +279,11 @@ static void row_values(thread_state *t, hf_status st)
         t->vals[c] = st == HF_OK ? column_value(t, &s->cols[c]) : NAN;
 }
 
-/* 1 when case st solved in full and a line's utilisation T/MBL >= 1 at
- * rest (the alert column's rule, include/holdfast/results.h). */
+/* 1 when case st solved in full and a line is overloaded at rest
+ * (hf_criteria_overloaded, the alert column's rule). */
 static int overloaded(const thread_state *t, hf_status st)
 {
-    return st == HF_OK && t->res.max_utilisation >= 1.0;
+    return st == HF_OK && hf_criteria_overloaded(t->res.max_utilisation);
 }
 
 static int format_row(thread_state *t, uint64_t k, hf_status st, char *buf, size_t cap)

@@ -204,4 +204,10 @@ hf_status hf_criteria_holding_evaluate(const hf_criteria_preset *p, hf_holding_c
 /* Stable name of an anchor kind: "drag", "gravity", "pile", "plate". */
 const char *hf_criteria_anchor_kind_name(hf_anchor_kind k);
 
+/* 1 when a utilisation T/MBL means an overloaded line: the tension has
+ * reached the minimum breaking load of a section (u >= 1; the trade's
+ * definition of MBL).  The one rule behind every `alert` column, message and
+ * figure mark; 0 for NaN. */
+int hf_criteria_overloaded(double utilisation);
+
 #endif
