@@ -71,6 +71,9 @@ hf_status hf_line_check(const hf_line *line, hf_error *err)
     if (line->n < 1 || line->n > NMAX)
         return hf_error_set(err, HF_EINVAL, "a line needs 1 to %d sections, got %zu", NMAX,
                             line->n);
+    if (line->slope != 0.0)
+        return hf_error_set(err, HF_EUNSUPPORTED,
+                            "a sloped seabed is not supported by this version of the line solver");
     for (size_t i = 0; i < line->n; i++) {
         const hf_section *s = &line->sec[i];
         if (!finite_pos(s->length))
@@ -84,6 +87,11 @@ hf_status hf_line_check(const hf_line *line, hf_error *err)
             return hf_error_set(err, HF_EINVAL, "section %zu: MBL must be finite and > 0", i);
         if (!isfinite(s->friction) || s->friction < 0.0)
             return hf_error_set(err, HF_EINVAL, "section %zu: friction must be finite and >= 0", i);
+        if (s->strain[0] != 0.0 || s->strain[1] != 0.0 || s->strain[2] != 0.0)
+            return hf_error_set(err, HF_EUNSUPPORTED,
+                                "section %zu: a load-dependent stretch law is not supported by "
+                                "this version of the line solver",
+                                i);
         if (i + 1 < line->n) {
             const hf_joint *j = &line->joint[i];
             if (!isfinite(j->load))

@@ -268,10 +268,10 @@ static hf_line three_with_clump(double mu)
     hf_line l;
     memset(&l, 0, sizeof l);
     l.n = 3;
-    l.sec[0] = (hf_section){312.5, 1136.0, 5.46e8, 6.1e6, mu}; /* chain */
-    l.sec[1] = (hf_section){438.2, 165.3, 3.71e8, 5.3e6, 0.6}; /* wire */
-    l.sec[2] = (hf_section){41.7, 1136.0, 5.46e8, 6.1e6, mu};  /* chain */
-    l.joint[0] = (hf_joint){78.4e3, 1.0};                      /* clump */
+    l.sec[0] = (hf_section){312.5, 1136.0, 5.46e8, 6.1e6, mu, {0.0, 0.0, 0.0}}; /* chain */
+    l.sec[1] = (hf_section){438.2, 165.3, 3.71e8, 5.3e6, 0.6, {0.0, 0.0, 0.0}}; /* wire */
+    l.sec[2] = (hf_section){41.7, 1136.0, 5.46e8, 6.1e6, mu, {0.0, 0.0, 0.0}};  /* chain */
+    l.joint[0] = (hf_joint){78.4e3, 1.0};                                       /* clump */
     return l;
 }
 
@@ -490,9 +490,9 @@ static void test_lazy_wave(void **state)
     hf_line l;
     memset(&l, 0, sizeof l);
     l.n = 3;
-    l.sec[0] = (hf_section){300.0, 1100.0, 5e8, 6e6, 1.0};
-    l.sec[1] = (hf_section){200.0, 300.0, 3e8, 5e6, 0.6};
-    l.sec[2] = (hf_section){250.0, 300.0, 3e8, 5e6, 0.6};
+    l.sec[0] = (hf_section){300.0, 1100.0, 5e8, 6e6, 1.0, {0.0, 0.0, 0.0}};
+    l.sec[1] = (hf_section){200.0, 300.0, 3e8, 5e6, 0.6, {0.0, 0.0, 0.0}};
+    l.sec[2] = (hf_section){250.0, 300.0, 3e8, 5e6, 0.6, {0.0, 0.0, 0.0}};
     l.joint[1] = (hf_joint){-120e3, 0.5};
     double Xs[] = {452.5, 537.0, 655.5, 731.0, 752.0};
     for (size_t i = 0; i < 5; i++) {
@@ -781,8 +781,8 @@ static void test_refusal_says_what_was_found(void **state)
     hf_line l;
     memset(&l, 0, sizeof l);
     l.n = 2;
-    l.sec[0] = (hf_section){103.7, 987.5, 4.9e8, 5e6, 0.5};
-    l.sec[1] = (hf_section){546.3, 987.5, 4.9e8, 5e6, 0.5};
+    l.sec[0] = (hf_section){103.7, 987.5, 4.9e8, 5e6, 0.5, {0.0, 0.0, 0.0}};
+    l.sec[1] = (hf_section){546.3, 987.5, 4.9e8, 5e6, 0.5, {0.0, 0.0, 0.0}};
     l.joint[0] = (hf_joint){-693.4e3, 0.5};
     hf_line_state s;
     assert_int_equal(hf_line_solve(&l, 431.2, 94.6, NULL, NULL, &s), HF_EUNSUPPORTED);
@@ -835,8 +835,8 @@ static void test_clump_and_buoy_on_seabed(void **state)
     hf_line l;
     memset(&l, 0, sizeof l);
     l.n = 2;
-    l.sec[0] = (hf_section){300.0, 903.7, 5.2e8, 6e6, 0.1};
-    l.sec[1] = (hf_section){560.0, 903.7, 5.2e8, 6e6, 0.1};
+    l.sec[0] = (hf_section){300.0, 903.7, 5.2e8, 6e6, 0.1, {0.0, 0.0, 0.0}};
+    l.sec[1] = (hf_section){560.0, 903.7, 5.2e8, 6e6, 0.1, {0.0, 0.0, 0.0}};
     l.joint[0] = (hf_joint){120e3 - 70e3, 0.8};
     hf_line_state s;
     assert_int_equal(hf_line_solve(&l, 838.6, 71.3, NULL, NULL, &s), HF_OK);

@@ -76,9 +76,9 @@ static void irregular(fixture *fx)
     hf_line *l = &fx->lines[1].line;
     memset(l, 0, sizeof *l);
     l->n = 3;
-    l->sec[0] = (hf_section){290.0, 1163.7, 6.35e8, 6.2e6, 1.0};
-    l->sec[1] = (hf_section){385.0, 212.4, 4.1e8, 5.1e6, 0.6};
-    l->sec[2] = (hf_section){78.5, 1163.7, 6.35e8, 6.2e6, 1.0};
+    l->sec[0] = (hf_section){290.0, 1163.7, 6.35e8, 6.2e6, 1.0, {0.0, 0.0, 0.0}};
+    l->sec[1] = (hf_section){385.0, 212.4, 4.1e8, 5.1e6, 0.6, {0.0, 0.0, 0.0}};
+    l->sec[2] = (hf_section){78.5, 1163.7, 6.35e8, 6.2e6, 1.0, {0.0, 0.0, 0.0}};
     l->joint[0] = (hf_joint){61300.0, 1.0};
     fx->m.hull.position[0] = 3.85;
     fx->m.hull.position[1] = -2.17;

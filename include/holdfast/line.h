@@ -22,11 +22,16 @@
 #define HF_LINE_MAX_SECTIONS 32
 
 typedef struct {
-    double length;   /* unstretched length, m (> 0) */
-    double weight;   /* wet (submerged) weight per unstretched metre, N/m (> 0) */
-    double ea;       /* axial stiffness EA, N (> 0, may be huge for "inextensible") */
-    double mbl;      /* minimum breaking load, N (> 0) */
-    double friction; /* axial seabed friction coefficient, - (>= 0) */
+    double length;    /* unstretched length, m (> 0) */
+    double weight;    /* wet (submerged) weight per unstretched metre, N/m (> 0) */
+    double ea;        /* axial stiffness EA, N (> 0, may be huge for "inextensible") */
+    double mbl;       /* minimum breaking load, N (> 0) */
+    double friction;  /* axial seabed friction coefficient, - (>= 0) */
+    double strain[3]; /* optional load-dependent stretch (fibre ropes): strain =
+                       * strain[0] t + strain[1] t^2 + strain[2] t^3 with t = T / mbl;
+                       * all three 0 (the default) means linear, strain = T / ea.
+                       * A non-zero law must give a strain increasing with T over
+                       * 0 <= t <= 1 (checked by hf_line_check). */
 } hf_section;
 
 typedef struct {
@@ -39,6 +44,10 @@ typedef struct {
     hf_section sec[HF_LINE_MAX_SECTIONS]; /* sec[0] at the anchor ... sec[n-1] at the fairlead */
     hf_joint joint[HF_LINE_MAX_SECTIONS]; /* joint[i] joins sec[i] and sec[i+1], i < n-1; others
                                              unused */
+    double slope; /* seabed slope in the line's vertical plane, rad: the seabed is the
+                   * straight line through the anchor rising at this angle toward the
+                   * fairlead (negative: falling toward the fairlead); 0 = flat, the
+                   * default.  |slope| < 0.5 rad. */
 } hf_line;
 
 /* The regime of a solved line. */
