@@ -174,8 +174,7 @@ size_t hf_results_lines_write(FILE *out, const hf_model *m, const hf_spread_resu
     return c.nonfinite;
 }
 
-void hf_results_stiffness_row(double K[6][6], const double force[6], int i,
-                              hf_results_cell *cells)
+void hf_results_stiffness_row(double K[6][6], const double force[6], int i, hf_results_cell *cells)
 {
     cells[0] = text(i < 6 ? dof[i] : "static_load");
     for (int j = 0; j < 6; j++)
@@ -209,9 +208,8 @@ static hf_status check_names(const hf_model *m, hf_error *err)
 
 /* Column j of a header head[0..nhead-1], <per>_<line>_kN per line of m,
  * tail[0..ntail-1], into buf (cap bytes).  Returns buf. */
-static const char *column(const hf_model *m, const char *const *head, size_t nhead,
-                          const char *per, const char *const *tail, size_t j, char *buf,
-                          size_t cap)
+static const char *column(const hf_model *m, const char *const *head, size_t nhead, const char *per,
+                          const char *const *tail, size_t j, char *buf, size_t cap)
 {
     if (j < nhead)
         snprintf(buf, cap, "%s", head[j]);

@@ -92,8 +92,7 @@ const char *hf_results_balance_column_name(const hf_model *m, size_t j, char *bu
  * then must outlive their use.  Pure functions: no allocation, no output. */
 void hf_results_lines_row(const hf_model *m, const hf_spread_result *r, size_t i,
                           hf_results_cell *cells, hf_results_text *t);
-void hf_results_stiffness_row(double K[6][6], const double force[6], int i,
-                              hf_results_cell *cells);
+void hf_results_stiffness_row(double K[6][6], const double force[6], int i, hf_results_cell *cells);
 hf_results_cell hf_results_curve_cell(const hf_model *m, const hf_analysis_curve *c, size_t k,
                                       size_t j);
 hf_results_cell hf_results_balance_cell(const hf_model *m, const hf_load *load,
