@@ -321,16 +321,6 @@ static hf_session_table *table_alloc(size_t cols, size_t rows)
     return t;
 }
 
-/* A copy of text through the project allocator, or NULL. */
-static char *dup(const char *text)
-{
-    size_t n = strlen(text) + 1;
-    char *d = hf_malloc(n);
-    if (d)
-        memcpy(d, text, n);
-    return d;
-}
-
 /* Factor from the unit a column name declares to SI: the name's unit
  * suffix as results.h writes it (kN, kNm, kN_per_m -> 1e3; deg -> pi/180;
  * m, plain numbers -> 1). */
@@ -347,7 +337,7 @@ static double name_scale(const char *name)
 /* Names column j (scale from the name unless scale > 0).  HF_ENOMEM or HF_OK. */
 static hf_status table_name(hf_session_table *t, size_t j, const char *name, double scale)
 {
-    if (!(t->names[j] = dup(name)))
+    if (!(t->names[j] = hf_strdup(name)))
         return HF_ENOMEM;
     t->scale[j] = scale > 0.0 ? scale : name_scale(name);
     return HF_OK;
@@ -360,7 +350,7 @@ static hf_status table_put(hf_session_table *t, size_t i, size_t j, hf_results_c
     if (c.kind == HF_RESULTS_TEXT) {
         t->text_col[j] = 1;
         t->scale[j] = 0.0;
-        if (!(t->texts[k] = dup(c.text)))
+        if (!(t->texts[k] = hf_strdup(c.text)))
             return HF_ENOMEM;
         t->empty[k] = c.text[0] == '\0';
     } else if (c.kind == HF_RESULTS_NUMBER) {
