@@ -58,24 +58,32 @@ class _Table:
     def __exit__(self, *exc):
         self.lib.hf_session_table_free(self.h)
 
-    def read(self):
-        """(names, text flags, rows as lists: str for text, float, None for empty)."""
+    def columns(self):
+        """(names, text flags) of the columns."""
         lib, h = self.lib, self.h
-        nrows, ncols = lib.hf_session_table_rows(h), lib.hf_session_table_columns(h)
-        names = [_text(lib.hf_session_table_column(h, j)) for j in range(ncols)]
-        is_text = [bool(lib.hf_session_table_is_text(h, j)) for j in range(ncols)]
+        ncols = lib.hf_session_table_columns(h)
+        return ([_text(lib.hf_session_table_column(h, j)) for j in range(ncols)],
+                [bool(lib.hf_session_table_is_text(h, j)) for j in range(ncols)])
+
+    def rows(self, is_text):
+        """The rows as lists: str in text columns, float in numeric columns,
+        None where the CSV leaves the cell empty (the C table has NaN there:
+        a value that is not finite is never written as a number)."""
+        lib, h = self.lib, self.h
+        nrows, ncols = lib.hf_session_table_rows(h), len(is_text)
         values = lib.hf_session_table_values(h)[:nrows * ncols] if nrows else []
+        text = lib.hf_session_table_text
+        isfinite = math.isfinite
         rows = []
         for i in range(nrows):
-            row = []
+            row = values[i * ncols:(i + 1) * ncols]
             for j in range(ncols):
                 if is_text[j]:
-                    row.append(_text(lib.hf_session_table_text(h, i, j)))
-                else:
-                    v = values[i * ncols + j]
-                    row.append(None if lib.hf_session_table_is_empty(h, i, j) else v)
+                    row[j] = _text(text(h, i, j))
+                elif not isfinite(row[j]):
+                    row[j] = None
             rows.append(row)
-        return names, is_text, rows
+        return rows
 
 
 class Case:
@@ -88,6 +96,7 @@ class Case:
     def __init__(self, path=None, *, _text=None, _name=None):
         lib = _lib.library()
         self._lib = lib
+        self._columns = {}
         self._s = lib.hf_session_alloc()
         if not self._s:
             raise MemoryError("holdfast: out of memory for a session")
@@ -153,13 +162,20 @@ class Case:
             warnings.warn(line, HoldfastWarning, stacklevel=3)
 
     def _table(self, call, *args):
+        """(column names, text flags, rows) of the table `call` returns.  The
+        columns of a kind of table do not change while the case is loaded
+        (set() changes values, not lines), so they are read once."""
         out = ctypes.c_void_p()
         st = call(self._session(), *args, ctypes.byref(out))
         self._check(st)
         with _Table(self._lib, out) as t:
-            result = t.read()
+            key = call.__name__
+            if key not in self._columns:
+                self._columns[key] = t.columns()
+            names, is_text = self._columns[key]
+            rows = t.rows(is_text)
         self._warn()
-        return result
+        return names, is_text, rows
 
     def _parse(self, value, dim, what):
         """A number (SI) or a string with units of dimension dim, as SI float."""
