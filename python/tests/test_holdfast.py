@@ -244,5 +244,69 @@ class TestErrors(unittest.TestCase):
             case.lines()
 
 
+class TestThreads(unittest.TestCase):
+    def test_separate_cases_on_separate_threads(self):
+        # session.h: separate sessions may run at the same time (ctypes
+        # releases the GIL during each C call); each thread's results must
+        # equal the same evaluations run one after the other
+        import threading
+        path = "lines[practice].sections[0].length"
+        lengths = [366.0 + 0.37 * k for k in range(40)]
+
+        def run(out):
+            case = holdfast.Case(CASES[2])
+            for L in lengths:
+                case.set(path, L)
+                out.append(case.lines()[0])
+
+        serial, results = [], [[], [], []]
+        run(serial)
+        threads = [threading.Thread(target=run, args=(r,)) for r in results]
+        for t in threads:
+            t.start()
+        for t in threads:
+            t.join()
+        for r in results:
+            self.assertEqual(r, serial)
+
+
+class TestSpeed(unittest.TestCase):
+    def test_library_loop_at_least_50_times_faster_than_processes(self):
+        # issue 16: set(length) + lines() against writing the case and
+        # starting `holdfast lines` per evaluation.  Measured 757x on the
+        # 2-core build machine under load (examples/python/speed.py); the
+        # threshold leaves a factor 15 of margin.  The faster of two rounds
+        # of each is taken so a burst of load on the machine does not decide.
+        import time
+        case = holdfast.Case(CASES[2])
+        path = "lines[practice].sections[0].length"
+        with open(CASES[2]) as f:
+            text = f.read()
+
+        def lib(n):
+            t = time.perf_counter()
+            for k in range(n):
+                case.set(path, 366.0 + 0.01 * k)
+                case.lines()
+            return (time.perf_counter() - t) / n
+
+        def proc(n):
+            with tempfile.TemporaryDirectory() as d:
+                edited = os.path.join(d, "case.yaml")
+                t = time.perf_counter()
+                for k in range(n):
+                    with open(edited, "w") as f:
+                        f.write(text.replace("length: 370 m}", "length: %r m}" % (366.0 + k), 1))
+                    header, rows = cli_csv("lines", edited)
+                    float(rows[0][header.index("fairlead_tension_kN")])
+                return (time.perf_counter() - t) / n
+
+        t_lib = min(lib(300), lib(300))
+        t_proc = min(proc(8), proc(8))
+        self.assertGreaterEqual(t_proc / t_lib, 50.0,
+                                "library %.1f us, process %.1f us per evaluation"
+                                % (t_lib * 1e6, t_proc * 1e6))
+
+
 if __name__ == "__main__":
     unittest.main()
