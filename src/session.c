@@ -617,13 +617,14 @@ hf_status hf_session_balance(hf_session *s, const char *const *loads, size_t nlo
     hf_analysis_balance_count count;
     hf_error err;
     hf_error_clear(&err);
-    if (st == HF_OK &&
-        (st = hf_analysis_balance_run(&s->m, which, nwhich, &sink, &count, &err)) != HF_OK)
-        fail(s, &err);
-    else if (st == HF_OK)
-        st = deliver(s, b.t, HF_OK, out), b.t = NULL;
-    else
+    if (st != HF_OK) {
         st = failf(s, st, "out of memory for a result table");
+    } else if ((st = hf_analysis_balance_run(&s->m, which, nwhich, &sink, &count, &err)) != HF_OK) {
+        fail(s, &err);
+    } else {
+        st = deliver(s, b.t, HF_OK, out); /* *out owns it now */
+        b.t = NULL;
+    }
 done:
     hf_session_table_free(b.t);
     hf_free(which);
