@@ -157,6 +157,35 @@ class TestBalance(CsvCompare):
             case.balance(["head-strom"])
         self.assertIn('no load case named "head-strom"', str(e.exception))
 
+    def test_balance_without_equilibrium(self):
+        # 280 m of top chain on every barge line: under beam-storm the spread
+        # finds no equilibrium (the CLI exits 3 and leaves the values empty);
+        # the package returns the rows with status and message, values None,
+        # and warns - never a NaN
+        case = holdfast.Case(CASES[0])
+        for name in case.line_names:
+            case.set("lines[%s].sections[3].length" % name, "280 m")
+        with open(CASES[0]) as f:
+            text = f.read()
+        self.assertEqual(text.count("length: 180 m}"), 1)  # one section list, aliased
+        with tempfile.TemporaryDirectory() as d:
+            path = os.path.join(d, "long.yaml")
+            with open(path, "w") as f:
+                f.write(text.replace("length: 180 m}", "length: 280 m}"))
+            header, rows = cli_csv("balance", path, "--load", "beam-storm", ok=(3,))
+        with warnings.catch_warnings(record=True) as w:
+            warnings.simplefilter("always")
+            got = case.balance("beam-storm")
+        self.assertTrue(any(issubclass(x.category, holdfast.HoldfastWarning) for x in w))
+        self.assertEqual(len(got), len(rows))
+        for exp, row in zip(rows, got):
+            self.assert_row(header, exp, row, "280 m")
+        bad = [r for r in got if r["status"] != "ok"]
+        self.assertTrue(bad)
+        for r in bad:
+            self.assertIsNone(r["surge_m"])
+            self.assertTrue(r["message"])
+
 
 BAD_CASE = """title: fictional
 site:
