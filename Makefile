@@ -8,6 +8,11 @@ OPT      ?= -O2 -g
 SANITIZE ?=
 PKGS      = gsl yaml-0.1
 VERSION   = 0.1.0
+# Shared library version: the soname is libholdfast.so.$(SO_MAJOR); the major
+# number changes when a public function or struct changes incompatibly
+# (docs/library.md, "Versioning").
+SO_MAJOR  = 1
+SO_VERSION = $(SO_MAJOR).0.0
 
 WARN  = -Wall
 WARN += -Wextra
@@ -69,11 +74,25 @@ TEST_SUPPORT_OBJ := $(TEST_SUPPORT:tests/%.c=$(BUILD)/tobj/%.o)
 CMD_TESTS = cli report
 LIB      := $(BUILD)/libholdfast.a
 BIN      := $(BUILD)/holdfast
+# The shared library: the same library sources compiled -fPIC into a
+# directory of their own, linked with GSL, libyaml, libm and OpenMP, and
+# exporting only the hf_* names (mk/libholdfast.map).  SHLIB is the real
+# file; SHLIB_SONAME and SHLIB_DEV are the symlinks the loader and the
+# linker (-lholdfast) look for.
+PIC_OBJ  := $(LIB_SRC:src/%.c=$(BUILD)/picobj/%.o)
+SHLIB_MAP    = mk/libholdfast.map
+SHLIB        := $(BUILD)/libholdfast.so.$(SO_VERSION)
+SHLIB_SONAME := $(BUILD)/libholdfast.so.$(SO_MAJOR)
+SHLIB_DEV    := $(BUILD)/libholdfast.so
+# -z defs: every symbol the library uses must come from a library it links,
+# so a user links -lholdfast only.  Sanitizer runtimes are resolved by the
+# program that loads the library, so that check is off in those builds.
+SHLIB_DEFS := $(if $(SANITIZE),,-Wl,-z,defs)
 
 # A target whose recipe fails is deleted, never left half-built.
 .DELETE_ON_ERROR:
 .PHONY: all check demo clean install uninstall debug tests help
-all: $(BIN)
+all: $(BIN) $(SHLIB_DEV)
 
 # Every object depends on $(BUILD)/flags, which changes only when the
 # compiler or a flag does: a build with other flags rebuilds everything.
@@ -93,6 +112,10 @@ $(BUILD)/obj/%.o: src/%.c $(BUILD)/flags
 	@mkdir -p $(dir $@)
 	$(CC) $(ALL_CFLAGS) -MMD -MP -c $< -o $@
 
+$(BUILD)/picobj/%.o: src/%.c $(BUILD)/flags
+	@mkdir -p $(dir $@)
+	$(CC) $(ALL_CFLAGS) -fPIC -MMD -MP -c $< -o $@
+
 $(BUILD)/tobj/%.o: tests/%.c $(BUILD)/flags
 	@mkdir -p $(dir $@)
 	$(CC) $(ALL_CFLAGS) $(CMOCKA_CFLAGS) -MMD -MP -c $< -o $@
@@ -101,10 +124,26 @@ $(LIB): $(LIB_OBJ)
 	@rm -f $@
 	$(AR) rcs $@ $^
 
+$(SHLIB): $(PIC_OBJ) $(SHLIB_MAP)
+	$(CC) -shared -Wl,-soname,libholdfast.so.$(SO_MAJOR) -Wl,--version-script=$(SHLIB_MAP) \
+	    $(SHLIB_DEFS) $(ALL_LDFLAGS) -o $@ $(PIC_OBJ) $(ALL_LDLIBS)
+
+$(SHLIB_SONAME): $(SHLIB)
+	ln -sf $(notdir $<) $@
+
+$(SHLIB_DEV): $(SHLIB_SONAME)
+	ln -sf $(notdir $<) $@
+
 $(BIN): $(BUILD)/obj/main.o $(CMD_OBJ) $(LIB)
 	$(CC) $(ALL_LDFLAGS) -o $@ $^ $(ALL_LDLIBS)
 
 $(CMD_TESTS:%=$(BUILD)/test_%): $(CMD_OBJ)
+
+# test_shlib links the shared library as a user does (-lholdfast, nothing
+# else of holdfast's), found next to it at run time through $$ORIGIN.
+$(BUILD)/test_shlib: $(BUILD)/tobj/test_shlib.o $(TEST_SUPPORT_OBJ) $(SHLIB_DEV)
+	$(CC) $(ALL_LDFLAGS) -o $@ $(filter %.o,$^) -L$(BUILD) -Wl,-rpath,'$$ORIGIN' -lholdfast \
+	    $(CMOCKA_LIBS) -pthread -lm
 
 $(BUILD)/test_%: $(BUILD)/tobj/test_%.o $(TEST_SUPPORT_OBJ) $(LIB)
 	$(CC) $(ALL_LDFLAGS) -o $@ $(filter %.o,$^) $(LIB) $(CMOCKA_LIBS) $(ALL_LDLIBS)
@@ -129,7 +168,7 @@ demo: $(BIN)
 debug:
 	$(MAKE) BUILD=build-debug OPT='-O0 -g3' check
 
-install: $(BIN)
+install: $(BIN) $(SHLIB_DEV)
 	install -D -m 755 $(BIN) $(DESTDIR)$(PREFIX)/bin/holdfast
 	install -D -m 644 docs/holdfast.1 $(DESTDIR)$(PREFIX)/share/man/man1/holdfast.1
 
@@ -155,5 +194,5 @@ help:
 
 # Further targets (bench, sanitize, fuzz, valgrind...) live in mk/*.mk.
 -include $(wildcard mk/*.mk)
--include $(wildcard $(BUILD)/fuzz_case.d $(BUILD)/obj/*.d $(BUILD)/tobj/*.d)
+-include $(wildcard $(BUILD)/fuzz_case.d $(BUILD)/obj/*.d $(BUILD)/picobj/*.d $(BUILD)/tobj/*.d)
 .SECONDARY:
