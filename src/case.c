@@ -455,7 +455,49 @@ static hf_status choose(ctx *c, const node *n, const char *what, const char *con
 
 /* ---- site ---- */
 
-static const char *const site_keys[] = {"depth", "water_density", "water_level", NULL};
+static const char *const site_keys[] = {"depth", "water_density", "water_level", "water_levels",
+                                        NULL};
+
+/* site.water_levels (helper A, issue 13): a list of still water levels; a
+ * list of two is the range [low, high], expanded to low, low + 0.1 m, ...
+ * and high itself (HF_MODEL_LEVEL_STEP).  Each level must lie above the
+ * seabed; a range needs low < high. */
+static hf_status water_levels(ctx *c, const node *n, hf_site *s)
+{
+    char gotbuf[96];
+    if (n->type != N_SEQ || n->n == 0 || n->n > HF_MODEL_MAX_LEVELS)
+        return fail(c, n, "expected a list of water levels ([low, high] or up to %d levels), got %s",
+                    HF_MODEL_MAX_LEVELS, n->type == N_SEQ ? "an empty or too long list" : GOT(n));
+    double v[HF_MODEL_MAX_LEVELS];
+    for (size_t i = 0; i < n->n; i++) {
+        size_t mark = push(c, "[%zu]", i);
+        hf_status st = quantity(c, n->kids[i], HF_DIM_LENGTH, &v[i]);
+        if (st == HF_OK && !(s->depth + v[i] > 0.0))
+            st = fail(c, n->kids[i], "expected a water level above the seabed (> -%g m), got %s",
+                      s->depth, GOT(n->kids[i]));
+        pop(c, mark);
+        if (st != HF_OK)
+            return st;
+    }
+    s->water_levels_range = n->n == 2;
+    if (n->n != 2) {
+        memcpy(s->water_levels, v, n->n * sizeof *v);
+        s->nwater_levels = n->n;
+        return HF_OK;
+    }
+    double span = (v[1] - v[0]) / HF_MODEL_LEVEL_STEP;
+    if (!(span > 0.0) || span > HF_MODEL_MAX_LEVELS - 2)
+        return fail(c, n,
+                    "expected [low, high] with low < high and at most %d levels %g m apart, "
+                    "got [%s, %s]",
+                    HF_MODEL_MAX_LEVELS, HF_MODEL_LEVEL_STEP, n->kids[0]->text, n->kids[1]->text);
+    size_t k = 0;
+    while (k < HF_MODEL_MAX_LEVELS - 1 && (double)k < span - 1e-6)
+        s->water_levels[k] = v[0] + (double)k * HF_MODEL_LEVEL_STEP, k++;
+    s->water_levels[k++] = v[1];
+    s->nwater_levels = k;
+    return HF_OK;
+}
 
 static hf_status load_site(ctx *c, const node *n)
 {
@@ -473,6 +515,11 @@ static hf_status load_site(ctx *c, const node *n)
         st = fail(c, get(n, "water_level"),
                   "expected a water level above the seabed (> -%g m), got %s", s->depth,
                   GOT(get(n, "water_level")));
+        pop(c, mark);
+    }
+    if (st == HF_OK && get(n, "water_levels")) {
+        size_t mark = pushkey(c, "water_levels");
+        st = water_levels(c, get(n, "water_levels"), s);
         pop(c, mark);
     }
     return st;

@@ -19,11 +19,21 @@
 /* Documented limits (errors name them when hit). */
 #define HF_MODEL_MAX_LINES 100000
 #define HF_MODEL_MAX_NAME 128
+#define HF_MODEL_MAX_LEVELS 512          /* still water levels of an envelope */
+#define HF_MODEL_LEVEL_STEP 0.1          /* m: spacing of a [low, high] envelope */
 
 typedef struct {
     double depth;         /* water depth from the datum to the flat seabed, m (> 0) */
     double water_level;   /* still water level above the datum (tide), m; default 0 */
     double water_density; /* kg/m^3; default 1025 */
+    /* The envelope of still water levels (tide plus surge) a design check covers
+     * (site.water_levels; docs/case-format.md), m above the datum, ascending as given.
+     * 0 levels: the case gives none, the checks cover water_level alone.  A case's
+     * [low, high] is expanded here: low, low + HF_MODEL_LEVEL_STEP, ... and high
+     * itself (water_levels_range 1). */
+    size_t nwater_levels;
+    int water_levels_range;
+    double water_levels[HF_MODEL_MAX_LEVELS];
 } hf_site;
 
 typedef struct {

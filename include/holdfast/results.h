@@ -46,6 +46,58 @@ extern const char *const hf_results_curve_columns[HF_RESULTS_CURVE_FIXED];
 extern const char *const hf_results_balance_head[HF_RESULTS_BALANCE_HEAD];
 extern const char *const hf_results_balance_tail[HF_RESULTS_BALANCE_TAIL];
 
+/* ---- result cells: one row of a table before it is written ----
+ *
+ * Each writer below builds its rows as cells first (the *_row functions) and
+ * writes the cells, so the session tables (session.h) and the CSV files get
+ * the same numbers from one computation.  A number is in the unit its column
+ * name declares (kN, kN m, deg, m); a number that is not finite is written
+ * as an empty field and counted; an empty cell is written empty and not
+ * counted (a broken line, a condition without result: the gap is intended).
+ * A text column's cell is always text ("" when there is nothing to say), so
+ * every column is either numeric or text whatever the row. */
+typedef enum {
+    HF_RESULTS_EMPTY = 0, /* numeric column, no value (written empty, not counted) */
+    HF_RESULTS_NUMBER,    /* value, in the column's unit */
+    HF_RESULTS_TEXT       /* text (borrowed: the model, a static string or the caller's scratch) */
+} hf_results_cell_kind;
+
+typedef struct {
+    hf_results_cell_kind kind;
+    double value;
+    const char *text;
+} hf_results_cell;
+
+/* Scratch space for the formatted text cells of one row (status, condition,
+ * criterion); the cells point into it, so it must outlive their use. */
+typedef struct {
+    char a[HF_ERROR_TEXT];
+    char b[HF_MODEL_MAX_NAME + 32];
+} hf_results_text;
+
+/* Name of column j (< the table's column count) of the curve CSV
+ * (HF_RESULTS_CURVE_FIXED + nlines + 1 columns) or of the balance CSV
+ * (HF_RESULTS_BALANCE_HEAD + nlines + HF_RESULTS_BALANCE_TAIL columns) of
+ * model m into buf (cap bytes, at least HF_MODEL_MAX_NAME + 16).  Returns buf. */
+size_t hf_results_curve_ncolumns(const hf_model *m);
+size_t hf_results_balance_ncolumns(const hf_model *m);
+const char *hf_results_curve_column_name(const hf_model *m, size_t j, char *buf, size_t cap);
+const char *hf_results_balance_column_name(const hf_model *m, size_t j, char *buf, size_t cap);
+
+/* The cells of one row of the lines CSV (line i, HF_RESULTS_LINES_COLUMNS
+ * cells) and of the stiffness CSV (row i: 0..5 surge..yaw, 6 static_load;
+ * HF_RESULTS_STIFFNESS_COLUMNS cells), and cell j of a row of the curve CSV
+ * (point k) and of the balance CSV (condition r of load case `load`), whose
+ * width depends on the number of lines.  Text cells may point into *t, which
+ * then must outlive their use.  Pure functions: no allocation, no output. */
+void hf_results_lines_row(const hf_model *m, const hf_spread_result *r, size_t i,
+                          hf_results_cell *cells, hf_results_text *t);
+void hf_results_stiffness_row(double K[6][6], const double force[6], int i, hf_results_cell *cells);
+hf_results_cell hf_results_curve_cell(const hf_model *m, const hf_analysis_curve *c, size_t k,
+                                      size_t j);
+hf_results_cell hf_results_balance_cell(const hf_model *m, const hf_load *load,
+                                        const hf_balance_result *r, size_t j, hf_results_text *t);
+
 /* ---- lines: one row per line at one pose ---- */
 
 /* Name of line i of m for messages and cells, "-" when i is out of range or
