@@ -190,7 +190,8 @@ static void sweep_figure(hf_report *rep, const hf_model *m, const hf_study *s,
         output_label(t, yl, sizeof yl);
         sweep_legend(s, ic, ncurves, names, cn);
         hf_output_kind k0 = t->cols[0].kind;
-        int util = k0 == HF_OUT_UTILISATION || k0 == HF_OUT_MAX_UTILISATION;
+        int util = k0 == HF_OUT_UTILISATION || k0 == HF_OUT_MAX_UTILISATION ||
+                   k0 == HF_OUT_UTILISATION_AT || k0 == HF_OUT_MAX_UTILISATION_AT;
         /* Legend title: the last part of the curve parameter's path ("length");
          * the caption names the whole path. */
         const char *lt = strrchr(s->vary[ic].path, '.');
