@@ -443,12 +443,24 @@ static void balance_check(const balance_ctx *c, const hf_load *l, const hf_balan
     hf_report_check(c->rep, item, req, res, r->passed);
 }
 
+/* What the check of condition r covered, for the report's verdict: the
+ * load case, the condition and the still water level it was solved at. */
+static void balance_scope(const balance_ctx *c, const hf_load *l, const hf_balance_result *r)
+{
+    size_t load = l >= c->m->loads && l < c->m->loads + c->m->nloads
+                      ? (size_t)(l - c->m->loads)
+                      : hf_model_load_find(c->m, l->name);
+    size_t cond = r->broken == HF_BALANCE_NONE ? 0 : r->broken + 1;
+    hf_report_scope_add(c->rep, load, cond, c->m->site.water_level);
+}
+
 static hf_status balance_row(void *ctx, const hf_load *l, const hf_balance_result *r, hf_error *err)
 {
     balance_ctx *c = ctx;
     (void)err;
     c->nonfinite += hf_results_balance_row_write(c->out, c->m, l, r);
     balance_check(c, l, r);
+    balance_scope(c, l, r);
     return HF_OK;
 }
 
