@@ -599,6 +599,67 @@ static void test_sweep_at_load_overload(void **s)
     assert_non_null(strstr(err, "loads[gale].force=9e+06 N"));
 }
 
+/* Lines of a text (its newlines). */
+static size_t nlines_of(const char *t)
+{
+    size_t n = 0;
+    for (; *t; t++)
+        n += *t == '\n';
+    return n;
+}
+
+/* Issue 13 item 5: a case without studies: gets the default report (every
+ * line at rest, the stiffness, curves along surge and sway, the balance of
+ * every load case) instead of "nothing to run". */
+static void test_run_default_report(void **s)
+{
+    (void)s;
+    char *out = path_in("defaults"), *c = path_in("quarrel.yaml");
+    char o[600];
+    snprintf(o, sizeof o, "%s", out);
+    /* exit 1: the quarrel buoy's load finds no equilibrium with line
+     * southwest broken (a criterion failure, not an error) */
+    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "run", c, "--out", o, "--quiet", NULL)), 1);
+    static const char *const want[] = {"rest.csv",       "stiffness.csv", "surge-curve.csv",
+                                       "sway-curve.csv", "balance.csv",   "report.html",
+                                       "summary.txt"};
+    char p[700];
+    for (size_t i = 0; i < sizeof want / sizeof want[0]; i++) {
+        snprintf(p, sizeof p, "%s/%s", o, want[i]);
+        size_t n = 0;
+        char *t = hf_test_file_read(p, &n);
+        if (!t)
+            fail_msg("the default run wrote no %s", want[i]);
+        assert_true(n > 0);
+        if (!strcmp(want[i], "rest.csv"))
+            assert_int_equal(nlines_of(t), 1 + 3); /* header + the 3 lines */
+        if (strstr(want[i], "curve.csv"))
+            assert_int_equal(nlines_of(t), 1 + 41); /* -R..R in 40 steps */
+        if (!strcmp(want[i], "balance.csv"))        /* 1 load case x (intact + 3 broken) */
+            assert_int_equal(nlines_of(t), 1 + 4);
+        if (!strcmp(want[i], "summary.txt")) {
+            assert_non_null(strstr(t, "surge-curve"));
+            assert_non_null(strstr(t, "sway-curve"));
+            assert_non_null(strstr(t, "criterion"));
+        }
+        if (!strcmp(want[i], "report.html")) {
+            hf_test_assert_xml(t);
+            assert_non_null(strstr(t, "this is the default report"));
+            assert_non_null(strstr(t, "1 of 1 load case"));
+            assert_non_null(strstr(t, "4 of 4 conditions"));
+        }
+        free(t);
+    }
+    /* the curve along surge starts at -R: 1.5 x no limit -> 10 % of the
+     * smallest anchor-fairlead distance (~416 m) = 41.6 m, rounded up to 50 m */
+    snprintf(p, sizeof p, "%s/surge-curve.csv", o);
+    char *t = hf_test_file_read(p, NULL), *cur = t;
+    assert_non_null(t);
+    hf_test_line_next(&cur);
+    HF_TEST_ASSERT_NEAR(strtod(cur, NULL), -50.0, 1e-12);
+    free(t);
+}
+
 static void test_slurm_scripts(void **s)
 {
     (void)s;
@@ -832,6 +893,7 @@ int main(void)
         cmocka_unit_test(test_progress_bar),
         cmocka_unit_test(test_sweep_at_load_matches_balance),
         cmocka_unit_test(test_sweep_at_load_overload),
+        cmocka_unit_test(test_run_default_report),
     };
     return cmocka_run_group_tests(tests, setup, teardown);
 }
