@@ -31,7 +31,8 @@ static const char css[] =
     ".verdict{font-size:18px;font-weight:bold;padding:10px 14px;margin:8px 0 4px;"
     "border:3px solid #000}\n"
     ".verdict.ok{background:#e3f1e8}.verdict.bad{background:#fbe0dc}"
-    ".verdict.none{background:#f0f0f0}\n"
+    ".verdict.none{background:#f0f0f0}.verdict.partial{background:#fff0c2}\n"
+    ".verdict .scope{display:block;font-size:14px;font-weight:normal;margin-top:4px}\n"
     "table{border-collapse:collapse;margin:8px 0 16px;font-size:13.5px}\n"
     "table.component{min-width:60%}table.component td:last-child{font-size:12.5px}\n"
     "caption{text-align:left;font-weight:bold;padding:4px 0}\n"
@@ -479,10 +480,242 @@ static void lines_section(hf_report *r, const hf_model *m)
     hf_report_table_end(r);
 }
 
+/* ---- the scope of the checks ------------------------------------------------ */
+
+static void scope_begin(hf_report *r, const hf_model *m)
+{
+    r->model = m;
+    if (!m)
+        return;
+    r->scope_load = hf_calloc(m->nloads ? m->nloads : 1, 1);
+    r->scope_cond = hf_calloc(m->nlines + 1, 1);
+    r->scope_lost = !r->scope_load || !r->scope_cond;
+}
+
+static void scope_free(hf_report *r)
+{
+    hf_free(r->scope_load);
+    hf_free(r->scope_cond);
+    r->scope_load = r->scope_cond = NULL;
+}
+
+/* Two levels are one when they differ by less than a micrometre (levels are
+ * entered in m with a few decimals; a sweep's grid values carry rounding). */
+static int same_level(double a, double b)
+{
+    return fabs(a - b) <= 1e-6;
+}
+
+void hf_report_scope_add(hf_report *r, size_t load, size_t cond, double level)
+{
+    const hf_model *m = r->model;
+    if (!m || !r->scope_load || !r->scope_cond || load >= m->nloads || cond > m->nlines ||
+        !isfinite(level)) {
+        r->scope_lost = 1;
+        return;
+    }
+    r->nscoped++;
+    r->scope_load[load] = 1;
+    r->scope_cond[cond] = 1;
+    for (size_t i = 0; i < r->nscope_levels; i++)
+        if (same_level(r->scope_level[i], level))
+            return;
+    if (r->nscope_levels < HF_REPORT_MAX_LEVELS)
+        r->scope_level[r->nscope_levels++] = level;
+    else
+        r->scope_lost = 1;
+}
+
+size_t hf_report_levels_declared(const hf_model *m, double *out, size_t cap)
+{
+    if (!m)
+        return 0;
+    if (cap)
+        out[0] = m->site.water_level;
+    return 1;
+}
+
+/* What the checks covered against what the case declares. */
+typedef struct {
+    size_t loads, loads_done;   /* load cases */
+    size_t levels, levels_done; /* declared still water levels, of them checked */
+    double lo, hi;              /* the declared levels' range, m */
+    size_t conds, conds_done;   /* conditions: intact + each line broken */
+    int complete;               /* every declared load, level and condition checked */
+} scope_count;
+
+static void scope_counts(const hf_report *r, scope_count *c)
+{
+    const hf_model *m = r->model;
+    double lv[HF_REPORT_MAX_LEVELS];
+    memset(c, 0, sizeof *c);
+    c->loads = m->nloads;
+    c->conds = m->nlines + 1;
+    c->levels = hf_report_levels_declared(m, lv, HF_REPORT_MAX_LEVELS);
+    for (size_t i = 0; i < m->nloads && r->scope_load; i++)
+        c->loads_done += r->scope_load[i];
+    for (size_t i = 0; i <= m->nlines && r->scope_cond; i++)
+        c->conds_done += r->scope_cond[i];
+    c->lo = c->hi = c->levels ? lv[0] : 0.0;
+    for (size_t i = 0; i < c->levels && i < HF_REPORT_MAX_LEVELS; i++) {
+        c->lo = fmin(c->lo, lv[i]);
+        c->hi = fmax(c->hi, lv[i]);
+        for (size_t j = 0; j < r->nscope_levels; j++)
+            if (same_level(lv[i], r->scope_level[j])) {
+                c->levels_done++;
+                break;
+            }
+    }
+    c->complete = !r->scope_lost && c->loads > 0 && c->loads_done == c->loads &&
+                  c->conds_done == c->conds && c->levels_done == c->levels;
+}
+
+/* "1.9 m" or "0 to 3.4 m" for the range lo..hi. */
+static void level_range(char *buf, size_t cap, double lo, double hi)
+{
+    char a[32], b[32];
+    hf_report_number(a, sizeof a, lo, 4);
+    hf_report_number(b, sizeof b, hi, 4);
+    if (same_level(lo, hi))
+        snprintf(buf, cap, "%s m", a);
+    else
+        snprintf(buf, cap, "%s to %s m", a, b);
+}
+
+/* The scope sentence: "2 of 2 load cases x 1 of 1 still water level
+ * (1.9 m above datum) x 5 of 5 conditions (intact and each of the 4 lines
+ * broken)". */
+static void scope_sentence(const scope_count *c, char *buf, size_t cap)
+{
+    char lv[80];
+    level_range(lv, sizeof lv, c->lo, c->hi);
+    snprintf(buf, cap,
+             "%zu of %zu load case%s \xc3\x97 %zu of %zu still water level%s (%s above datum) "
+             "\xc3\x97 %zu "
+             "of %zu conditions (intact and each of the %zu line%s broken)",
+             c->loads_done, c->loads, c->loads == 1 ? "" : "s", c->levels_done, c->levels,
+             c->levels == 1 ? "" : "s", lv, c->conds_done, c->conds, c->conds - 1,
+             c->conds == 2 ? "" : "s");
+}
+
+/* What was left out, for the amber banner. */
+static void scope_missing(const hf_report *r, const scope_count *c, char *buf, size_t cap)
+{
+    size_t n = 0;
+    buf[0] = '\0';
+    if (c->loads_done < c->loads)
+        n += (size_t)snprintf(buf + n, cap - n, " %zu load case%s not checked;",
+                              c->loads - c->loads_done, c->loads - c->loads_done == 1 ? "" : "s");
+    if (c->levels_done < c->levels && n < cap)
+        n += (size_t)snprintf(buf + n, cap - n, " %zu declared water level%s not checked;",
+                              c->levels - c->levels_done,
+                              c->levels - c->levels_done == 1 ? "" : "s");
+    if (c->conds_done < c->conds && n < cap)
+        n += (size_t)snprintf(buf + n, cap - n,
+                              " %zu condition%s (intact or a line broken) not "
+                              "checked;",
+                              c->conds - c->conds_done, c->conds - c->conds_done == 1 ? "" : "s");
+    if ((r->scope_lost || r->nscoped < r->nchecks) && n < cap)
+        snprintf(buf + n, cap - n, " some checks did not record what they covered;");
+}
+
+/* Which criteria the checks apply: line factors, offset limit, anchors. */
+static void criteria_sentence(const hf_model *m, char *buf, size_t cap)
+{
+    const hf_criteria *cr = &m->criteria;
+    char a[32], b[32], o[48];
+    hf_report_number(a, sizeof a, cr->factor_intact, 4);
+    hf_report_number(b, sizeof b, cr->factor_damaged, 4);
+    hf_report_number(o, sizeof o, cr->max_offset, 4);
+    int drag = 0, gravity = 0, other = 0;
+    for (size_t i = 0; i < m->nlines; i++) {
+        hf_anchor_kind k = m->lines[i].anchor_spec.kind;
+        drag |= k == HF_ANCHOR_DRAG;
+        gravity |= k == HF_ANCHOR_GRAVITY;
+        other |= k == HF_ANCHOR_PILE || k == HF_ANCHOR_PLATE;
+    }
+    size_t n = (size_t)snprintf(
+        buf, cap,
+        "Criteria: line safety factor MBL/T at least %s intact and %s with one line "
+        "broken%s%s%s; %s%s%s; anchors:%s%s%s%s.",
+        cr->factor_intact > 0 ? a : "(none)", cr->factor_damaged > 0 ? b : "(none)",
+        cr->preset ? " (" : "", cr->preset ? cr->preset : "", cr->preset ? ")" : "",
+        cr->max_offset > 0 ? "horizontal offset at most " : "no offset limit",
+        cr->max_offset > 0 ? o : "", cr->max_offset > 0 ? " m" : "",
+        drag ? " drag anchors no uplift beyond their allowed angle" : "",
+        drag && gravity ? "," : "",
+        gravity ? " gravity blocks sliding and uplift factors (equilibrium, factor 1)" : "",
+        other ? (drag || gravity ? ", piles and plates reported without a check"
+                                 : " piles and plates reported without a check")
+              : "");
+    (void)n;
+}
+
+/* The verdict banner (shown first by CSS order). */
+static void verdict(hf_report *r)
+{
+    FILE *out = r->out;
+    if (r->nchecks == 0) {
+        fputs("<div class=\"verdict none\">No criteria checks were made.", out);
+        if (r->model && r->model->nloads)
+            fprintf(out,
+                    "<span class=\"scope\">The case declares %zu load case%s; no balance "
+                    "study checked %s.</span>",
+                    r->model->nloads, r->model->nloads == 1 ? "" : "s",
+                    r->model->nloads == 1 ? "it" : "them");
+        fputs("</div>\n", out);
+        return;
+    }
+    if (!r->model) {
+        if (r->nfailed == 0)
+            fprintf(out, "<div class=\"verdict ok\">All %zu criteria check%s passed.</div>\n",
+                    r->nchecks, r->nchecks == 1 ? "" : "s");
+        else
+            fprintf(out,
+                    "<div class=\"verdict bad\">%zu of %zu criteria check%s FAILED. The failed "
+                    "checks are marked FAIL in the tables below.</div>\n",
+                    r->nfailed, r->nchecks, r->nchecks == 1 ? "" : "s");
+        return;
+    }
+    scope_count c;
+    scope_counts(r, &c);
+    char sc[512], cr[640], miss[400];
+    scope_sentence(&c, sc, sizeof sc);
+    criteria_sentence(r->model, cr, sizeof cr);
+    scope_missing(r, &c, miss, sizeof miss);
+    int complete = c.complete && r->nscoped >= r->nchecks;
+    const char *cls = r->nfailed ? "bad" : complete ? "ok" : "partial";
+    fprintf(out, "<div class=\"verdict %s\">", cls);
+    if (r->nfailed)
+        fprintf(out,
+                "%zu of %zu criteria check%s FAILED. The failed checks are marked FAIL in the "
+                "tables below.",
+                r->nfailed, r->nchecks, r->nchecks == 1 ? "" : "s");
+    else if (complete)
+        fprintf(out, "All %zu criteria check%s passed, covering everything the case declares.",
+                r->nchecks, r->nchecks == 1 ? "" : "s");
+    else
+        fprintf(out,
+                "All %zu criteria check%s passed, but they cover less than the case declares: "
+                "this is not a verdict on the whole case.",
+                r->nchecks, r->nchecks == 1 ? "" : "s");
+    fputs("<span class=\"scope\">Checked: ", out);
+    esc(r, sc);
+    fputs(".", out);
+    if (miss[0]) {
+        fputs(" Not checked:", out);
+        esc(r, miss);
+    }
+    fputs(" ", out);
+    esc(r, cr);
+    fputs("</span></div>\n", out);
+}
+
 void hf_report_begin(hf_report *r, FILE *out, const hf_model *m, const char *command)
 {
     memset(r, 0, sizeof *r);
     r->out = out;
+    scope_begin(r, m);
     const char *title = m && m->title         ? m->title
                         : m && m->source_path ? m->source_path
                                               : "holdfast";
@@ -516,16 +749,8 @@ hf_status hf_report_end(hf_report *r, hf_error *err)
 {
     close_section(r);
     FILE *out = r->out;
-    if (r->nchecks == 0)
-        fputs("<div class=\"verdict none\">No criteria checks were made.</div>\n", out);
-    else if (r->nfailed == 0)
-        fprintf(out, "<div class=\"verdict ok\">All %zu criteria check%s passed.</div>\n",
-                r->nchecks, r->nchecks == 1 ? "" : "s");
-    else
-        fprintf(out,
-                "<div class=\"verdict bad\">%zu of %zu criteria check%s FAILED. The failed "
-                "checks are marked FAIL in the tables below.</div>\n",
-                r->nfailed, r->nchecks, r->nchecks == 1 ? "" : "s");
+    verdict(r);
+    scope_free(r);
     fputs("<footer>\n", out);
     caution(r);
     fputs("<p>Passing these checks is not an approval. holdfast is free software "

@@ -190,7 +190,8 @@ static void sweep_figure(hf_report *rep, const hf_model *m, const hf_study *s,
         output_label(t, yl, sizeof yl);
         sweep_legend(s, ic, ncurves, names, cn);
         hf_output_kind k0 = t->cols[0].kind;
-        int util = k0 == HF_OUT_UTILISATION || k0 == HF_OUT_MAX_UTILISATION;
+        int util = k0 == HF_OUT_UTILISATION || k0 == HF_OUT_MAX_UTILISATION ||
+                   k0 == HF_OUT_UTILISATION_AT || k0 == HF_OUT_MAX_UTILISATION_AT;
         /* Legend title: the last part of the curve parameter's path ("length");
          * the caption names the whole path. */
         const char *lt = strrchr(s->vary[ic].path, '.');
@@ -442,12 +443,24 @@ static void balance_check(const balance_ctx *c, const hf_load *l, const hf_balan
     hf_report_check(c->rep, item, req, res, r->passed);
 }
 
+/* What the check of condition r covered, for the report's verdict: the
+ * load case, the condition and the still water level it was solved at. */
+static void balance_scope(const balance_ctx *c, const hf_load *l, const hf_balance_result *r)
+{
+    size_t load = l >= c->m->loads && l < c->m->loads + c->m->nloads
+                      ? (size_t)(l - c->m->loads)
+                      : hf_model_load_find(c->m, l->name);
+    size_t cond = r->broken == HF_BALANCE_NONE ? 0 : r->broken + 1;
+    hf_report_scope_add(c->rep, load, cond, c->m->site.water_level);
+}
+
 static hf_status balance_row(void *ctx, const hf_load *l, const hf_balance_result *r, hf_error *err)
 {
     balance_ctx *c = ctx;
     (void)err;
     c->nonfinite += hf_results_balance_row_write(c->out, c->m, l, r);
     balance_check(c, l, r);
+    balance_scope(c, l, r);
     return HF_OK;
 }
 
@@ -587,6 +600,74 @@ static hf_status run_invert(const hf_model *m, const hf_study *s, int jobs, FILE
              ou, res.relative_error, res.lo * vs, res.hi * vs, vu, res.iterations);
     hf_report_paragraph(rep, para);
     return hf_invert_write_csv(out, m, s->vary[0].path, &o, s->target_value, &res, err);
+}
+
+/* ---- the default studies of a case without a studies: section ---- */
+
+/* The 1-2-5 round number at or above x > 0 (1, 2, 5, 10, 20, ...). */
+static double round_up_125(double x)
+{
+    double p = pow(10.0, floor(log10(x)));
+    static const double f[] = {1.0, 2.0, 5.0, 10.0};
+    for (int i = 0; i < 4; i++)
+        if (f[i] * p >= x * (1.0 - 1e-12))
+            return f[i] * p;
+    return 10.0 * p;
+}
+
+double hf_studyrun_default_range(const hf_model *m)
+{
+    double r = 1.5 * m->criteria.max_offset;
+    if (!(r > 0)) {
+        hf_pose pose;
+        hf_spread_pose_rest(m, &pose);
+        double dmin = INFINITY;
+        for (size_t i = 0; i < m->nlines; i++) {
+            hf_spread_geom g;
+            if (hf_spread_line_geometry(m, i, &pose, &g, NULL) == HF_OK && g.x < dmin)
+                dmin = g.x;
+        }
+        r = isfinite(dmin) ? 0.1 * dmin : 1.0;
+    }
+    return round_up_125(r < 1.0 ? 1.0 : r);
+}
+
+/* Appends a study of kind k named `name` to sl (capacity 5). */
+static hf_study *add_default(hf_study_list *sl, const char *name, hf_study_kind k)
+{
+    hf_study *s = &sl->v[sl->n];
+    memset(s, 0, sizeof *s);
+    s->kind = k;
+    if (!(s->name = hf_strdup(name)))
+        return NULL;
+    sl->n++;
+    return s;
+}
+
+hf_status hf_studyrun_defaults(const hf_model *m, hf_study_list *sl, hf_error *err)
+{
+    hf_study_list_free(sl);
+    if (!m || m->nlines == 0)
+        return hf_error_set(err, HF_EINVAL, "default studies: the case has no lines");
+    if (!(sl->v = hf_calloc(5, sizeof *sl->v)))
+        return hf_error_set(err, HF_ENOMEM, "out of memory for the default studies");
+    double r = hf_studyrun_default_range(m), h = m->hull.heading;
+    hf_study *s[5] = {add_default(sl, "rest", HF_STUDY_LINES),
+                      add_default(sl, "stiffness", HF_STUDY_STIFFNESS),
+                      add_default(sl, "surge-curve", HF_STUDY_CURVE),
+                      add_default(sl, "sway-curve", HF_STUDY_CURVE),
+                      m->nloads ? add_default(sl, "balance", HF_STUDY_BALANCE) : NULL};
+    if (sl->n != (m->nloads ? 5u : 4u)) { /* a name could not be copied */
+        hf_study_list_free(sl);
+        return hf_error_set(err, HF_ENOMEM, "out of memory for the default studies");
+    }
+    for (int i = 2; i < 4; i++) {
+        s[i]->direction = h + (i == 3 ? M_PI / 2 : 0.0);
+        s[i]->from = -r;
+        s[i]->to = r;
+        s[i]->step = r / 20.0;
+    }
+    return HF_OK;
 }
 
 /* The study of each kind, indexed by hf_study_kind (the order of hf_study_kind_name). */

@@ -171,7 +171,12 @@ static void test_report_complete_and_well_formed(void **state)
     /* the verdict in plain words */
     assert_int_equal(r.nchecks, 3);
     assert_int_equal(r.nfailed, 0);
-    assert_non_null(strstr(html, "All 3 criteria checks passed."));
+    /* checks that record no scope cover none of the case's load cases: the
+     * banner may not be green (issue 13 item 4) */
+    assert_non_null(strstr(html, "<div class=\"verdict partial\">All 3 criteria checks passed, "
+                                 "but they cover less than the case declares"));
+    assert_non_null(strstr(html, "1 load case not checked"));
+    assert_null(strstr(html, "verdict ok"));
     assert_int_equal(count(html, ">PASS<"), 3);
     assert_int_equal(count(html, ">FAIL<"), 0);
     /* self-contained: no script, no external resource, nothing fetched */
@@ -181,6 +186,82 @@ static void test_report_complete_and_well_formed(void **state)
     assert_null(strstr(html, "@import"));
     assert_null(strstr(html, "url("));
     assert_int_equal(count(html, "http"), count(html, "xmlns=\"http://www.w3.org/2000/svg\""));
+    free(html);
+    hf_model_free(&m);
+}
+
+/* The banner states its scope (issue 13 item 4): green only when the checks
+ * cover every load case, still water level and condition the case declares;
+ * amber when they passed over less, naming what was left out. */
+static char *scoped_report(hf_model *m, size_t nconds, int fail)
+{
+    FILE *f = tmpfile();
+    assert_non_null(f);
+    hf_report r;
+    hf_report_begin(&r, f, m, "holdfast run ellery.yaml");
+    hf_report_section(&r, "Mean position under load", NULL);
+    for (size_t c = 0; c < nconds; c++) {
+        char item[64];
+        snprintf(item, sizeof item, "load gale, condition %zu", c);
+        hf_report_check(&r, item, "MBL/T at least 2", "4.2", !(fail && c == 1));
+        hf_report_scope_add(&r, 0, c, m->site.water_level);
+    }
+    hf_report_scope_add(&r, 7, 0, 0.0); /* out of range: ignored, scope marked incomplete */
+    assert_int_equal(r.scope_lost, 1);
+    r.scope_lost = 0; /* (undo, to test the counts alone) */
+    assert_int_equal(hf_report_end(&r, NULL), HF_OK);
+    assert_null(r.scope_load); /* freed by the end */
+    char *html = hf_test_stream_read(f, 1);
+    fclose(f);
+    hf_test_assert_xml(html);
+    return html;
+}
+
+static void test_report_verdict_scope(void **state)
+{
+    (void)state;
+    hf_model m;
+    load_case(&m);
+    double lv[4];
+    assert_int_equal(hf_report_levels_declared(&m, lv, 4), 1);
+    assert_true(lv[0] == m.site.water_level);
+    /* every condition of the one load case at the one level: green, with the scope */
+    char *html = scoped_report(&m, 4, 0);
+    assert_non_null(strstr(html, "<div class=\"verdict ok\">All 4 criteria checks passed, "
+                                 "covering everything the case declares."));
+    assert_non_null(strstr(html, "1 of 1 load case \xc3\x97 1 of 1 still water level (0 m above "
+                                 "datum) \xc3\x97 4 of 4 conditions (intact and each of the 3 "
+                                 "lines broken)"));
+    assert_non_null(strstr(html, "MBL/T at least 2 intact and 1.43 with one line broken "
+                                 "(api-rp-2sk)"));
+    assert_non_null(strstr(html, "no offset limit"));
+    free(html);
+    /* the intact condition only: amber, and what is missing is said */
+    html = scoped_report(&m, 1, 0);
+    assert_null(strstr(html, "verdict ok"));
+    assert_non_null(strstr(html, "<div class=\"verdict partial\">All 1 criteria check passed, "
+                                 "but they cover less"));
+    assert_non_null(strstr(html, "1 of 4 conditions"));
+    assert_non_null(strstr(html, "3 conditions (intact or a line broken) not checked"));
+    free(html);
+    /* a failure is red whatever the scope, and the scope is still stated */
+    html = scoped_report(&m, 4, 1);
+    assert_non_null(strstr(html, "<div class=\"verdict bad\">1 of 4 criteria checks FAILED."));
+    assert_non_null(strstr(html, "4 of 4 conditions"));
+    free(html);
+    /* a second load case the checks never reach: amber */
+    hf_load *nl = hf_realloc(m.loads, 2 * sizeof *nl);
+    assert_non_null(nl);
+    m.loads = nl;
+    m.loads[1] = m.loads[0];
+    m.loads[1].name = hf_strdup("swell");
+    m.loads[1].drag = NULL;
+    m.loads[1].ndrag = 0;
+    m.nloads = 2;
+    html = scoped_report(&m, 4, 0);
+    assert_non_null(strstr(html, "verdict partial"));
+    assert_non_null(strstr(html, "1 of 2 load cases"));
+    assert_non_null(strstr(html, "1 load case not checked"));
     free(html);
     hf_model_free(&m);
 }
@@ -367,6 +448,7 @@ int main(void)
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_report_complete_and_well_formed),
         cmocka_unit_test(test_report_failed_check_is_plain),
+        cmocka_unit_test(test_report_verdict_scope),
         cmocka_unit_test(test_report_empty_and_no_checks),
         cmocka_unit_test(test_report_write_error),
         cmocka_unit_test(test_report_number),
