@@ -307,6 +307,17 @@ static void kv(hf_report *r, const char *k, const char *v)
     fputs("</td></tr>\n", r->out);
 }
 
+/* A direction in the one convention of holdfast's outputs: degrees in
+ * [0, 360), counter-clockwise from global x (hf_svg_direction_label),
+ * without the unit (the column heading carries it). */
+static void direction_deg(char *buf, size_t cap, double rad)
+{
+    hf_svg_direction_label(rad, buf, cap);
+    char *u = strstr(buf, " deg");
+    if (u)
+        *u = '\0';
+}
+
 static void case_section(hf_report *r, const hf_model *m)
 {
     char a[64], b[64], c[64], t[512];
@@ -364,11 +375,14 @@ static void case_section(hf_report *r, const hf_model *m)
             double fx = lf[0], fy = lf[1];
             char f1[48], f2[48], f3[48], f4[16], f5[48], f6[48];
             hf_report_number(f1, sizeof f1, ld->force / 1e3, 4);
-            hf_report_number(f2, sizeof f2, ld->direction * 180 / M_PI, 4);
+            direction_deg(f2, sizeof f2, ld->direction);
             hf_report_number(f3, sizeof f3, ld->moment / 1e3, 4);
             snprintf(f4, sizeof f4, "%zu", ld->ndrag);
             hf_report_number(f5, sizeof f5, hypot(fx, fy) / 1e3, 4);
-            hf_report_number(f6, sizeof f6, atan2(fy, fx) * 180 / M_PI, 4);
+            if (hypot(fx, fy) > 0)
+                direction_deg(f6, sizeof f6, atan2(fy, fx));
+            else
+                snprintf(f6, sizeof f6, "-"); /* no resultant, no direction */
             const char *cells[7] = {ld->name, f1, f2, f3, f4, f5, f6};
             hf_report_table_row(r, cells);
         }
@@ -856,9 +870,17 @@ done:
     return s;
 }
 
-hf_status hf_report_svg_elevation(FILE *out, const hf_model *m, size_t i, const hf_line_state *st,
-                                  int standalone, hf_error *err)
+/* One line's elevation data: e (title left to the caller) with its profile
+ * *pts and sections *secs (hf_malloc'd here; the caller frees both, also on
+ * failure).  The allowed tension of each section is MBL / the intact factor
+ * of the criteria (none without one). */
+static hf_status elevation_data(const hf_model *m, size_t i, const hf_line_state *st,
+                                hf_svg_elevation *e, hf_line_point **pts, hf_svg_section **secs,
+                                hf_error *err)
 {
+    *pts = NULL;
+    *secs = NULL;
+    memset(e, 0, sizeof *e);
     if (!m || i >= m->nlines || !st || st->status != HF_OK)
         return hf_error_set(err, HF_EINVAL, "elevation figure: no solved line %zu", i);
     const hf_line *line = &m->lines[i].line;
@@ -869,27 +891,161 @@ hf_status hf_report_svg_elevation(FILE *out, const hf_model *m, size_t i, const 
     if (n < 2)
         return hf_error_set(err, HF_EINVAL, "elevation figure: line '%s' is not solved",
                             m->lines[i].name);
-    hf_line_point *pts = hf_malloc(n * sizeof *pts);
-    if (!pts)
+    size_t ns = hf_svg_sections_from_line(line, 0.0, NULL, 0);
+    *pts = hf_malloc(n * sizeof **pts);
+    *secs = hf_malloc((ns ? ns : 1) * sizeof **secs);
+    if (!*pts || !*secs)
         return hf_error_set(err, HF_ENOMEM, "elevation figure: out of memory");
-    n = hf_line_profile(line, st, spacing, pts, n);
-    char title[256], kn[48];
+    e->pts = *pts;
+    e->npts = hf_line_profile(line, st, spacing, *pts, n);
+    e->water_height = hf_model_water_height(m);
+    e->has_touchdown = st->regime == HF_LINE_TOUCHDOWN || st->regime == HF_LINE_SLACK;
+    e->touchdown_x = st->touchdown_x;
+    /* every section's MBL (overload marks) and allowed tension (drawn) */
+    e->nsections =
+        hf_svg_sections_from_line(line, hf_criteria_required(&m->criteria, 0), *secs, ns);
+    e->sections = *secs;
+    return HF_OK;
+}
+
+/* The title of line i's elevation: "Line bow: fairlead tension 812 kN, touchdown". */
+static void elevation_title(const hf_model *m, size_t i, const hf_line_state *st, char *buf,
+                            size_t cap)
+{
+    char kn[48];
     hf_report_number(kn, sizeof kn, st->tension / 1e3, 4);
-    snprintf(title, sizeof title, "Line %.160s: fairlead tension %s kN, %s", m->lines[i].name, kn,
+    snprintf(buf, cap, "Line %.160s: fairlead tension %s kN, %s", m->lines[i].name, kn,
              hf_line_regime_name(st->regime));
-    hf_svg_elevation e = {0};
-    e.title = title;
-    e.pts = pts;
-    e.npts = n;
-    e.water_height = hf_model_water_height(m);
-    e.has_touchdown = st->regime == HF_LINE_TOUCHDOWN || st->regime == HF_LINE_SLACK;
-    e.touchdown_x = st->touchdown_x;
-    double f = hf_criteria_required(&m->criteria, 0);
-    if (f > 0 && st->max_section < line->n)
-        e.tension_limit = line->sec[st->max_section].mbl / f;
-    hf_status s = hf_svg_figure_elevation(out, &e, standalone, err);
+}
+
+hf_status hf_report_svg_elevation(FILE *out, const hf_model *m, size_t i, const hf_line_state *st,
+                                  int standalone, hf_error *err)
+{
+    hf_svg_elevation e;
+    hf_line_point *pts;
+    hf_svg_section *secs;
+    hf_status s = elevation_data(m, i, st, &e, &pts, &secs, err);
+    char title[256];
+    if (s == HF_OK) {
+        elevation_title(m, i, st, title, sizeof title);
+        e.title = title;
+        s = hf_svg_figure_elevation(out, &e, standalone, err);
+    }
     hf_free(pts);
+    hf_free(secs);
     return s;
+}
+
+hf_status hf_report_svg_elevation_group(FILE *out, const hf_model *m, const size_t *idx, size_t n,
+                                        const hf_line_state *st, int standalone, hf_error *err)
+{
+    if (!idx || n == 0 || n > m->nlines)
+        return hf_error_set(err, HF_EINVAL, "elevation figure: no lines in the group");
+    const char **names = hf_malloc(n * sizeof *names);
+    if (!names)
+        return hf_error_set(err, HF_ENOMEM, "elevation figure: out of memory");
+    for (size_t k = 0; k < n; k++)
+        names[k] = idx[k] < m->nlines ? m->lines[idx[k]].name : "?";
+    hf_svg_elevation e;
+    hf_line_point *pts;
+    hf_svg_section *secs;
+    hf_status s = elevation_data(m, idx[0], st, &e, &pts, &secs, err);
+    char title[256];
+    if (s == HF_OK) {
+        elevation_title(m, idx[0], st, title, sizeof title);
+        e.title = title;
+        s = n == 1 ? hf_svg_figure_elevation(out, &e, standalone, err)
+                   : hf_svg_figure_elevation_group(out, &e, names, n, standalone, err);
+    }
+    hf_free(pts);
+    hf_free(secs);
+    hf_free(names);
+    return s;
+}
+
+hf_status hf_report_svg_elevation_overlay(FILE *out, const hf_model *m, const hf_spread_result *r,
+                                          int standalone, hf_error *err)
+{
+    size_t nl = m ? m->nlines : 0, n = 0;
+    if (!r || nl == 0)
+        return hf_error_set(err, HF_EINVAL, "overlay figure: no solved lines");
+    hf_svg_elevation *e = hf_calloc(nl, sizeof *e);
+    hf_line_point **pts = hf_calloc(nl, sizeof *pts);
+    hf_svg_section **secs = hf_calloc(nl, sizeof *secs);
+    const char **names = hf_calloc(nl, sizeof *names);
+    hf_status s = e && pts && secs && names
+                      ? HF_OK
+                      : hf_error_set(err, HF_ENOMEM, "overlay figure: out of memory");
+    for (size_t i = 0; i < nl && s == HF_OK; i++) {
+        if ((r->broken && r->broken[i]) || r->states[i].status != HF_OK)
+            continue; /* a broken or unsolved line is not drawn */
+        s = elevation_data(m, i, &r->states[i], &e[n], &pts[n], &secs[n], err);
+        names[n++] = m->lines[i].name;
+    }
+    if (s == HF_OK && n == 0)
+        s = hf_error_set(err, HF_EINVAL, "overlay figure: no solved lines");
+    if (s == HF_OK)
+        s = hf_svg_figure_elevation_overlay(out, "All lines in their own vertical planes", e, names,
+                                            n, standalone, err);
+    for (size_t i = 0; pts && secs && i < nl; i++) {
+        hf_free(pts[i]);
+        hf_free(secs[i]);
+    }
+    hf_free(e);
+    hf_free(pts);
+    hf_free(secs);
+    hf_free(names);
+    return s;
+}
+
+/* Two lengths (m) or forces (N) of two lines are the same: within 1e-9 of
+ * the larger (values parsed from the same text are equal exactly). */
+static int same_value(double a, double b)
+{
+    return fabs(a - b) <= 1e-9 * fmax(fabs(a), fabs(b));
+}
+
+/* 1 when lines i and j have the same make-up (pieces in order: the same
+ * component and length, the same clump or buoy load) and the same geometry
+ * at pose p up to a rotation about the vertical (horizontal anchor-fairlead
+ * distance and fairlead height). */
+static int same_line(const hf_model *m, size_t i, size_t j, const hf_pose *p)
+{
+    const hf_model_line *a = &m->lines[i], *b = &m->lines[j];
+    if (a->npieces != b->npieces)
+        return 0;
+    for (size_t k = 0; k < a->npieces; k++) {
+        const hf_piece *x = &a->pieces[k], *y = &b->pieces[k];
+        if (x->kind != y->kind || x->component != y->component ||
+            !same_value(x->length, y->length) || !same_value(x->load, y->load) ||
+            !same_value(x->friction, y->friction))
+            return 0;
+    }
+    hf_spread_geom ga, gb;
+    if (hf_spread_line_geometry(m, i, p, &ga, NULL) != HF_OK ||
+        hf_spread_line_geometry(m, j, p, &gb, NULL) != HF_OK)
+        return 0;
+    return fabs(ga.x - gb.x) <= 1e-6 * fmax(1.0, ga.x) && fabs(ga.z - gb.z) <= 1e-6;
+}
+
+size_t hf_report_line_groups(const hf_model *m, const hf_pose *pose, size_t *group)
+{
+    hf_pose rest;
+    if (!pose) {
+        hf_spread_pose_rest(m, &rest);
+        pose = &rest;
+    }
+    size_t n = 0;
+    for (size_t i = 0; i < m->nlines; i++) {
+        group[i] = i;
+        for (size_t j = 0; j < i; j++)
+            if (group[j] == j && same_line(m, j, i, pose)) {
+                group[i] = j;
+                break;
+            }
+        n += group[i] == i;
+    }
+    return n;
 }
 
 hf_status hf_report_svg_curve(FILE *out, const hf_model *m, const hf_analysis_curve *c,

@@ -25,31 +25,67 @@ static void report_fail_note(hf_report *rep, const char *what, const hf_error *e
     hf_report_note(rep, "note", buf);
 }
 
-/* Elevation figures of every solved line of r (at most `max` lines). */
+/* One elevation per group of identical lines of r at `pose` (at most `max`
+ * groups; hf_report_line_groups), then every line overlaid in one figure
+ * when there are two groups or more.  Broken and unsolved lines are left
+ * out. */
 static void report_elevations(hf_report *rep, const hf_model *m, const hf_spread_result *r,
-                              size_t max, const char *when)
+                              const hf_pose *pose, size_t max, const char *when)
 {
-    size_t n = m->nlines < max ? m->nlines : max;
-    for (size_t i = 0; i < n; i++) {
-        if (r->broken[i] || r->states[i].status != HF_OK)
+    size_t nl = m->nlines, *group = hf_malloc(nl * sizeof *group),
+           *idx = hf_malloc(nl * sizeof *idx), shown = 0, ngroups = 0;
+    hf_error e;
+    hf_error_clear(&e);
+    if (!group || !idx) {
+        hf_error_set(&e, HF_ENOMEM, "out of memory");
+        report_fail_note(rep, "The elevations", &e);
+        nl = 0;
+    } else {
+        ngroups = hf_report_line_groups(m, pose, group);
+    }
+    for (size_t i = 0; i < nl && shown < max; i++) {
+        size_t n = 0;
+        for (size_t j = i; group[i] == i && j < nl; j++)
+            if (group[j] == i && !r->broken[j] && r->states[j].status == HF_OK)
+                idx[n++] = j;
+        if (n == 0)
             continue;
-        hf_error e;
-        hf_error_clear(&e);
         FILE *f = hf_report_figure_begin(rep);
-        hf_status st = hf_report_svg_elevation(f, m, i, &r->states[i], 0, &e);
-        char cap[HF_MODEL_MAX_NAME + 128];
-        snprintf(cap, sizeof cap, "Line %s %s: profile and tension along the line.",
-                 m->lines[i].name, when);
+        hf_status st = hf_report_svg_elevation_group(f, m, idx, n, &r->states[idx[0]], 0, &e);
+        char cap[HF_MODEL_MAX_NAME + 200];
+        if (n == 1)
+            snprintf(cap, sizeof cap, "Line %s %s: profile and tension along the line.",
+                     m->lines[idx[0]].name, when);
+        else
+            snprintf(cap, sizeof cap,
+                     "%zu lines of one make-up and geometry (up to a rotation) %s, drawn once: "
+                     "profile and tension along the line.",
+                     n, when);
         hf_report_figure_end(rep, cap);
         if (st != HF_OK)
             report_fail_note(rep, "An elevation", &e);
+        shown++;
     }
-    if (m->nlines > n) {
-        char buf[128];
-        snprintf(buf, sizeof buf, "Elevations of the first %zu of %zu lines are shown.", n,
-                 m->nlines);
+    if (ngroups > shown) {
+        char buf[160];
+        snprintf(buf, sizeof buf, "Elevations of the first %zu of %zu groups of lines are shown.",
+                 shown, ngroups);
         hf_report_paragraph(rep, buf);
     }
+    if (ngroups >= 2) {
+        FILE *f = hf_report_figure_begin(rep);
+        hf_status st = hf_report_svg_elevation_overlay(f, m, r, 0, &e);
+        char cap[160];
+        snprintf(cap, sizeof cap,
+                 "Every line %s overlaid, each in its own vertical plane with its anchor at "
+                 "distance 0.",
+                 when);
+        hf_report_figure_end(rep, cap);
+        if (st != HF_OK)
+            report_fail_note(rep, "The overlay", &e);
+    }
+    hf_free(group);
+    hf_free(idx);
 }
 
 /* The rest pose: plan and every line's elevation. */
@@ -69,7 +105,7 @@ void hf_studyrun_rest(hf_report *rep, const hf_model *m)
     hf_analysis_pose_init(&at);
     static const double zero[3] = {0.0, 0.0, 0.0};
     if (hf_analysis_pose_solve(&at, m, zero, 0, &e) == HF_OK)
-        report_elevations(rep, m, &at.res, 12, "at rest");
+        report_elevations(rep, m, &at.res, &at.pose, 12, "at rest");
     else
         report_fail_note(rep, "The rest pose", &e);
     hf_analysis_pose_clear(&at);
@@ -312,7 +348,7 @@ static hf_status run_lines(const hf_model *m, const hf_study *s, int jobs, FILE 
         }
         hf_report_table_end(rep);
         if (s->offset[0] != 0.0 || s->offset[1] != 0.0 || s->offset[2] != 0.0)
-            report_elevations(rep, m, &r, 12, "at this pose");
+            report_elevations(rep, m, &r, &at.pose, 12, "at this pose");
         else
             hf_report_paragraph(rep, "The pose is the rest pose: the elevations are above.");
     }
@@ -378,11 +414,12 @@ static hf_status run_curve(const hf_model *m, const hf_study *s, int jobs, FILE 
     for (size_t k = 0; k < n; k++)
         nonfinite += hf_results_curve_row_write(out, m, c, k);
     oc->nonfinite += nonfinite;
-    snprintf(oc->note, sizeof oc->note, "%zu offsets along %.4g deg, %zu failed", n,
-             s->direction * 180.0 / M_PI, c->nfailed);
+    char dir[32]; /* one convention: 0-360 deg counter-clockwise from x */
+    hf_svg_direction_label(s->direction, dir, sizeof dir);
+    snprintf(oc->note, sizeof oc->note, "%zu offsets along %s, %zu failed", n, dir, c->nfailed);
     char head[HF_MODEL_MAX_NAME + 64], label[64];
     snprintf(head, sizeof head, "Restoring curve: %s", s->name);
-    snprintf(label, sizeof label, "direction %.4g deg", s->direction * 180.0 / M_PI);
+    snprintf(label, sizeof label, "direction %s", dir);
     hf_report_section(rep, head,
                       "Restoring force and stiffness against a horizontal offset of the hull "
                       "along one direction, heading fixed; line tensions and utilisations.");

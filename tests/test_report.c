@@ -266,6 +266,127 @@ static void test_report_verdict_scope(void **state)
     hf_model_free(&m);
 }
 
+/* A fictional pontoon at the invented Gannet Cove: four corner chains of one
+ * make-up and geometry (each the others rotated about the vertical), and a
+ * tail of chain and spiral strand. */
+static const char cove_text[] =
+    "title: Gannet Cove pontoon (fictional)\n"
+    "site: {depth: 12.5 m}\n"
+    "components:\n"
+    "  chain-a: {type: studless_chain, grade: R3, diameter: 38 mm}\n"
+    "  wire-b: {type: spiral_strand, diameter: 40 mm}\n"
+    "lines:\n"
+    "  - {name: ne, anchor: [36.87, 31.87], fairlead: [10, 5, -0.5],\n"
+    "     sections: [{component: chain-a, length: 40 m}]}\n"
+    "  - {name: nw, anchor: [-36.87, 31.87], fairlead: [-10, 5, -0.5],\n"
+    "     sections: [{component: chain-a, length: 40 m}]}\n"
+    "  - {name: sw, anchor: [-36.87, -31.87], fairlead: [-10, -5, -0.5],\n"
+    "     sections: [{component: chain-a, length: 40 m}]}\n"
+    "  - {name: se, anchor: [36.87, -31.87], fairlead: [10, -5, -0.5],\n"
+    "     sections: [{component: chain-a, length: 40 m}]}\n"
+    "  - {name: tail, anchor: [0, -70], fairlead: [0, -5, -0.5],\n"
+    "     sections: [{component: chain-a, length: 30 m},\n"
+    "                {component: wire-b, length: 40 m}]}\n"
+    "criteria: {preset: api-rp-2sk}\n";
+
+/* The distinct y1 of the dash-dot allowed-tension steps of an elevation. */
+static size_t allowed_steps(const char *svg, double *y, size_t cap)
+{
+    size_t n = 0;
+    for (const char *p = strstr(svg, "<line "); p; p = strstr(p + 1, "<line ")) {
+        const char *end = strchr(p, '>');
+        const char *d = strstr(p, "stroke-dasharray=\"8 3 2 3\"");
+        const char *y1 = strstr(p, " y1=\""), *x1 = strstr(p, " x1=\""), *x2 = strstr(p, " x2=\"");
+        if (!d || d > end || !y1 || y1 > end || !x1 || !x2 || x2 > end)
+            continue;
+        if (strtod(x2 + 5, NULL) - strtod(x1 + 5, NULL) < 30) /* the key's 26 px sample */
+            continue;
+        double v = strtod(y1 + 5, NULL);
+        size_t k = 0;
+        while (k < n && fabs(y[k] - v) > 0.01)
+            k++;
+        if (k == n && n < cap)
+            y[n++] = v;
+    }
+    return n;
+}
+
+/* Issue 13 item 3: identical lines share one elevation, all lines overlay
+ * in one, and the allowed tension of each section is drawn. */
+static void test_report_elevation_groups(void **state)
+{
+    (void)state;
+    hf_model m;
+    hf_error err;
+    hf_model_init(&m);
+    assert_int_equal(hf_case_load_buffer(cove_text, strlen(cove_text), "cove.yaml", &m, &err),
+                     HF_OK);
+    size_t group[5];
+    assert_int_equal(hf_report_line_groups(&m, NULL, group), 2);
+    for (size_t i = 0; i < 4; i++)
+        assert_int_equal(group[i], 0);
+    assert_int_equal(group[4], 4);
+    /* away from rest the symmetry breaks: a surge offset separates the corners */
+    hf_pose pose;
+    hf_spread_pose_rest(&m, &pose);
+    pose.surge += 2.385;
+    assert_int_equal(hf_report_line_groups(&m, &pose, group), 3);
+    hf_spread *ws = hf_spread_alloc(&m, &err);
+    assert_non_null(ws);
+    hf_spread_result res;
+    hf_spread_pose_rest(&m, &pose);
+    assert_int_equal(hf_spread_solve(ws, &pose, &res, &err), HF_OK);
+    /* the four corners drawn once */
+    size_t idx[4] = {0, 1, 2, 3};
+    FILE *f = tmpfile();
+    assert_int_equal(hf_report_svg_elevation_group(f, &m, idx, 4, &res.states[0], 1, &err), HF_OK);
+    char *svg = hf_test_stream_read(f, 1);
+    fclose(f);
+    hf_test_assert_xml(svg);
+    assert_non_null(strstr(svg, "Drawn once for 4 lines of the same make-up and geometry: ne, "
+                                "nw, sw, se"));
+    double y[8];
+    assert_int_equal(allowed_steps(svg, y, 8), 1); /* one chain: one allowed tension */
+    /* chain R3 38 mm: MBL = 0.0223 d^2 (44 - 0.08 d) kN = 1318.96 kN (IACS UR W22 /
+     * DNV-OS-E302 form), allowed MBL / 2.00 (API RP 2SK intact, from memory) */
+    double mbl = 0.0223 * 38 * 38 * (44 - 0.08 * 38);
+    HF_TEST_ASSERT_NEAR(m.lines[0].line.sec[0].mbl / 1e3, mbl, 1e-6 * mbl);
+    char want[64];
+    snprintf(want, sizeof want, ">allowed %.4g kN<", mbl / 2);
+    assert_non_null(strstr(svg, want));
+    free(svg);
+    /* the tail: chain then strand, two different allowed tensions, both drawn */
+    f = tmpfile();
+    assert_int_equal(hf_report_svg_elevation(f, &m, 4, &res.states[4], 1, &err), HF_OK);
+    svg = hf_test_stream_read(f, 1);
+    fclose(f);
+    hf_test_assert_xml(svg);
+    assert_true(m.lines[4].line.sec[0].mbl != m.lines[4].line.sec[1].mbl);
+    assert_int_equal(allowed_steps(svg, y, 8), 2);
+    assert_true(fabs(y[0] - y[1]) > 1.0);
+    free(svg);
+    /* every line overlaid in one figure, with a legend of the five names */
+    f = tmpfile();
+    assert_int_equal(hf_report_svg_elevation_overlay(f, &m, &res, 1, &err), HF_OK);
+    svg = hf_test_stream_read(f, 1);
+    fclose(f);
+    hf_test_assert_xml(svg);
+    assert_non_null(strstr(svg, "All lines in their own vertical planes"));
+    for (size_t i = 0; i < 5; i++) {
+        snprintf(want, sizeof want, ">%s<", m.lines[i].name);
+        assert_non_null(strstr(svg, want));
+    }
+    free(svg);
+    /* a group without lines is refused before anything is written */
+    f = tmpfile();
+    assert_int_equal(hf_report_svg_elevation_group(f, &m, idx, 0, &res.states[0], 1, &err),
+                     HF_EINVAL);
+    assert_int_equal(ftell(f), 0);
+    fclose(f);
+    hf_spread_free(ws);
+    hf_model_free(&m);
+}
+
 static void test_report_failed_check_is_plain(void **state)
 {
     (void)state;
@@ -449,6 +570,7 @@ int main(void)
         cmocka_unit_test(test_report_complete_and_well_formed),
         cmocka_unit_test(test_report_failed_check_is_plain),
         cmocka_unit_test(test_report_verdict_scope),
+        cmocka_unit_test(test_report_elevation_groups),
         cmocka_unit_test(test_report_empty_and_no_checks),
         cmocka_unit_test(test_report_write_error),
         cmocka_unit_test(test_report_number),

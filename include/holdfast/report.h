@@ -164,11 +164,37 @@ hf_status hf_report_svg_plan(FILE *out, const hf_model *m, const hf_pose *pose,
 
 /* Elevation of line i of m in the solved state st (HF_OK status): profile
  * sampled by hf_line_profile at about 500 points, touchdown marked, the
- * allowed tension MBL / intact factor (criteria) of the most loaded section
- * drawn when the case has an intact factor.  Allocates the profile
+ * allowed tension MBL / intact factor (criteria) of each section drawn over
+ * that section when the case has an intact factor, points whose tension
+ * reaches their section's MBL crossed.  Allocates the profile
  * (hf_malloc) and frees it.  HF_OK, HF_ENOMEM, HF_EINVAL. */
 hf_status hf_report_svg_elevation(FILE *out, const hf_model *m, size_t i, const hf_line_state *st,
                                   int standalone, hf_error *err);
+
+/* Elevation of a group of identical lines (hf_report_line_groups): the
+ * lines idx[0..n) of m drawn once from line idx[0]'s solved state st, with
+ * a caption naming them all (n == 1: the plain elevation).  Every section's
+ * allowed tension (MBL / intact factor) is drawn and overloaded points are
+ * crossed, as in hf_report_svg_elevation.  Allocates the profile and names
+ * (hf_malloc) and frees them.  HF_OK, HF_ENOMEM, HF_EINVAL. */
+hf_status hf_report_svg_elevation_group(FILE *out, const hf_model *m, const size_t *idx, size_t n,
+                                        const hf_line_state *st, int standalone, hf_error *err);
+
+/* Every solved, unbroken line of the solve r of m overlaid in one elevation
+ * (hf_svg_figure_elevation_overlay): each in its own vertical plane with its
+ * anchor at distance 0, its tension, its sections' allowed tensions and its
+ * overloaded points.  Allocates and frees.  HF_OK, HF_ENOMEM, HF_EINVAL (no
+ * solved line). */
+hf_status hf_report_svg_elevation_overlay(FILE *out, const hf_model *m, const hf_spread_result *r,
+                                          int standalone, hf_error *err);
+
+/* Groups identical lines of m: the same make-up (pieces in order: the same
+ * component and length, clump or buoy load and friction) and the same
+ * geometry at `pose` (NULL: the rest pose) up to a rotation about the
+ * vertical (horizontal anchor-fairlead distance within 1e-6 relative,
+ * fairlead height within 1 micrometre).  group[i] (nlines entries) gets the
+ * index of the first line of line i's group; returns the number of groups. */
+size_t hf_report_line_groups(const hf_model *m, const hf_pose *pose, size_t *group);
 
 /* Restoring-curve figure (hf_svg_figure_curve) of curve c, computed for m
  * (include/holdfast/analysis.h; failed offsets are NaN: gaps), titled
