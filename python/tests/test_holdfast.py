@@ -157,6 +157,28 @@ class TestBalance(CsvCompare):
             case.balance(["head-strom"])
         self.assertIn('no load case named "head-strom"', str(e.exception))
 
+    def test_balance_over_water_levels(self):
+        # site.water_levels (a list of three levels): balance runs every load
+        # case at every level, as the command line does
+        with open(CASES[1]) as f:
+            text = f.read()
+        key = "  water_level: 1.9 m"
+        self.assertEqual(text.count(key), 1)
+        text = text.replace(key, key + "\n  water_levels: [0.6 m, 1.9 m, 2.75 m]", 1)
+        with tempfile.TemporaryDirectory() as d:
+            path = os.path.join(d, "levels.yaml")
+            with open(path, "w") as f:
+                f.write(text)
+            header, rows = cli_csv("balance", path, ok=(0, 1, 3))
+        case = holdfast.Case.from_string(text, name="levels.yaml")
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore", holdfast.HoldfastWarning)
+            got = case.balance()
+        self.assertEqual(len(got), len(rows))
+        self.assertEqual(sorted({r["water_level_m"] for r in got}), [0.6, 1.9, 2.75])
+        for exp, row in zip(rows, got):
+            self.assert_row(header, exp, row, "levels")
+
     def test_balance_without_equilibrium(self):
         # 280 m of top chain on every barge line: under beam-storm the spread
         # finds no equilibrium (the CLI exits 3 and leaves the values empty);
