@@ -36,11 +36,15 @@ struct hf_session_table {
 
 /* ---- messages ---- */
 
-/* Records a failure: the status and message of e in s; returns the status. */
-static hf_status fail(hf_session *s, const hf_error *e)
+/* Records a failure of status st with e's message in s and returns st.
+ * st HF_OK (a constructor returned NULL): e's status, or HF_ENOMEM when e
+ * has none - a failure is never reported as success. */
+static hf_status fail(hf_session *s, hf_status st, const hf_error *e)
 {
-    snprintf(s->msg, sizeof s->msg, "%s", e->text[0] ? e->text : hf_status_str(e->status));
-    return e->status;
+    if (st == HF_OK)
+        st = e->status != HF_OK ? e->status : HF_ENOMEM;
+    snprintf(s->msg, sizeof s->msg, "%s", e->text[0] ? e->text : hf_status_str(st));
+    return st;
 }
 
 static hf_status failf(hf_session *s, hf_status st, const char *fmt, ...)
@@ -145,7 +149,7 @@ hf_status hf_session_load_file(hf_session *s, const char *path)
     hf_error_clear(&err);
     if ((st = hf_case_load(path, &m, &err)) != HF_OK) {
         hf_model_free(&m);
-        return fail(s, &err);
+        return fail(s, st, &err);
     }
     adopt(s, &m);
     return HF_OK;
@@ -164,7 +168,7 @@ hf_status hf_session_load_string(hf_session *s, const char *text, size_t len, co
     hf_error_clear(&err);
     if ((st = hf_case_load_buffer(text, len, name ? name : "<string>", &m, &err)) != HF_OK) {
         hf_model_free(&m);
-        return fail(s, &err);
+        return fail(s, st, &err);
     }
     adopt(s, &m);
     return HF_OK;
@@ -199,8 +203,9 @@ static hf_status lookup(hf_session *s, const char *path, hf_param *p)
         return failf(s, HF_EINVAL, "no parameter path given");
     hf_error err;
     hf_error_clear(&err);
-    if (hf_model_param_lookup(&s->m, path, p, &err) != HF_OK)
-        return fail(s, &err);
+    hf_status st = hf_model_param_lookup(&s->m, path, p, &err);
+    if (st != HF_OK)
+        return fail(s, st, &err);
     return HF_OK;
 }
 
@@ -215,7 +220,7 @@ hf_status hf_session_get(hf_session *s, const char *path, double *value)
     if (!value)
         return failf(s, HF_EINVAL, "%s: nowhere to store the value", path);
     if ((st = hf_model_param_get(&s->m, &p, value, &err)) != HF_OK)
-        return fail(s, &err);
+        return fail(s, st, &err);
     return HF_OK;
 }
 
@@ -436,8 +441,9 @@ static hf_status solve_pose(hf_session *s, const double offset[3], int stiffness
         hf_spread_reset(s->pose.ws);
     hf_error err;
     hf_error_clear(&err);
-    if (hf_analysis_pose_solve(&s->pose, &s->m, offset ? offset : none, stiffness, &err) != HF_OK)
-        return fail(s, &err);
+    hf_status st = hf_analysis_pose_solve(&s->pose, &s->m, offset ? offset : none, stiffness, &err);
+    if (st != HF_OK)
+        return fail(s, st, &err);
     return HF_OK;
 }
 
@@ -526,12 +532,12 @@ hf_status hf_session_curve(hf_session *s, double direction, const double *offset
     hf_error_clear(&err);
     hf_analysis_curve *c = hf_analysis_curve_alloc(&s->m, n, &err);
     if (!c)
-        return fail(s, &err);
+        return fail(s, HF_OK, &err);
     st = hf_analysis_curve_compute_at(c, &s->m, direction, offsets, &err);
     if (st != HF_OK)
-        fail(s, &err);
+        fail(s, st, &err);
     else if (c->nfailed)
-        st = fail(s, &c->first_error); /* 'holdfast curve' stops there too */
+        st = fail(s, c->first_error.status, &c->first_error); /* 'holdfast curve' stops there too */
     else
         st = curve_table(s, c, out);
     hf_analysis_curve_free(c);
@@ -612,13 +618,13 @@ static hf_status balance_run(hf_session *s, const size_t *which, size_t nwhich, 
     hf_error_clear(&err);
     hf_analysis_envelope *e = hf_analysis_envelope_alloc(&s->m, nlev, &err);
     if (!e)
-        return fail(s, &err);
+        return fail(s, HF_OK, &err);
     memcpy(e->level, levels, nlev * sizeof *levels);
     balance_ctx b = {s, t, &s->m};
     hf_analysis_envelope_sink sink = {{&b, NULL, on_condition, NULL, NULL}, on_level};
     hf_status st = hf_analysis_envelope_run(e, &s->m, which, nwhich, &sink, &err);
     if (st != HF_OK)
-        fail(s, &err);
+        fail(s, st, &err);
     else if (e->overloaded)
         warnf(s,
               "%zu condition(s) with a line at or beyond its MBL (alert column); the most "
