@@ -558,6 +558,23 @@ static hf_status balance_plan(void *ctx, const hf_load *l, hf_status intact, con
     return HF_OK;
 }
 
+/* "<load>, <condition>, <level> m" of w, the level to 4 significant digits
+ * as everywhere in the report ("-" when nothing was found). */
+static void where_text(const hf_model *m, const hf_analysis_where *w, char *buf, size_t cap)
+{
+    if (w->load >= m->nloads) {
+        snprintf(buf, cap, "-");
+        return;
+    }
+    char lv[32];
+    hf_report_number(lv, sizeof lv, w->level, 4);
+    if (w->cond == 0)
+        snprintf(buf, cap, "%s, intact, %s m", m->loads[w->load].name, lv);
+    else
+        snprintf(buf, cap, "%s, broken:%s, %s m", m->loads[w->load].name,
+                 hf_results_line_name(m, w->cond - 1), lv);
+}
+
 /* The anchor cell of line i over envelope line el: kind, the governing
  * numbers against their requirement, where, PASS/FAIL ("" for no result). */
 static int envelope_anchor_cell(const hf_model *m, size_t i, const hf_analysis_envelope_line *el,
@@ -581,7 +598,7 @@ static int envelope_anchor_cell(const hf_model *m, size_t i, const hf_analysis_e
         fmt(r2, ru);
         fmt(x, el->sliding);
         fmt(y, el->uplift);
-        hf_results_where(m, &el->sliding_at, w, sizeof w);
+        where_text(m, &el->sliding_at, w, sizeof w);
         n += snprintf(buf + n, cap - (size_t)n, "; sliding factor %s (at least %s) at %s",
                       el->sliding_at.load != (size_t)-1 ? x : "- (never pulled)", r1, w);
         if ((size_t)n < cap)
@@ -592,7 +609,7 @@ static int envelope_anchor_cell(const hf_model *m, size_t i, const hf_analysis_e
         n += snprintf(buf + n, cap - (size_t)n, " (allowed %s)", x);
     }
     if (el->anchor_failed && n > 0 && (size_t)n < cap) {
-        hf_results_where(m, &el->anchor_fail_at, w, sizeof w);
+        where_text(m, &el->anchor_fail_at, w, sizeof w);
         snprintf(buf + n, cap - (size_t)n, "; FAIL in %zu conditions, first %s", el->anchor_failed,
                  w);
     } else if ((a->kind == HF_ANCHOR_PILE || a->kind == HF_ANCHOR_PLATE) && n > 0 &&
@@ -611,9 +628,15 @@ static void report_envelope(hf_report *rep, const hf_model *m, const hf_analysis
                                        "utilisation", "where (load, condition, water level)",
                                        "line check",  "anchor over the envelope",
                                        "verdict"};
-    char cap[600], scope[512];
-    hf_results_envelope_scope(m, e, scope, sizeof scope);
-    snprintf(cap, sizeof cap, "Worst of each line over %s", scope);
+    char cap[600], lo[32], hi[32];
+    hf_report_number(lo, sizeof lo, e->level[0], 4);
+    hf_report_number(hi, sizeof hi, e->level[e->nlevels - 1], 4);
+    snprintf(cap, sizeof cap,
+             "Worst of each line over %zu load case%s \xc3\x97 %zu still water level%s "
+             "(%s%s%s m) \xc3\x97 %zu conditions (intact and each line broken)",
+             e->nloads, e->nloads == 1 ? "" : "s", e->nlevels, e->nlevels == 1 ? "" : "s",
+             e->nlevels > 1 ? lo : "", e->nlevels > 1 ? " to " : "", e->nlevels > 1 ? hi : lo,
+             m->nlines + 1);
     hf_report_table_begin(rep, cap, cols, 7);
     for (size_t i = 0; i < m->nlines && i < e->nlines; i++) {
         const hf_analysis_envelope_line *el = &e->line[i];
@@ -624,11 +647,11 @@ static void report_envelope(hf_report *rep, const hf_model *m, const hf_analysis
         hf_report_number(u, sizeof u, el->utilisation, 4);
         if (found && hf_criteria_overloaded(el->utilisation))
             strcat(u, " OVERLOADED");
-        hf_results_where(m, &el->at, w, sizeof w);
+        where_text(m, &el->at, w, sizeof w);
         size_t nf = c->line_failed ? c->line_failed[i] : 0;
         if (nf) {
             char fw[2 * HF_MODEL_MAX_NAME + 64];
-            hf_results_where(m, &c->line_fail[i], fw, sizeof fw);
+            where_text(m, &c->line_fail[i], fw, sizeof fw);
             snprintf(lc, sizeof lc, "FAIL in %zu conditions, first %s", nf, fw);
         } else {
             char f1[32], f2[32];
@@ -696,11 +719,15 @@ static hf_status run_balance(const hf_model *m, const hf_study *s, int jobs, FIL
     hf_analysis_envelope_levels(m, e->level, nlev);
     char head[HF_MODEL_MAX_NAME + 64], intro[1024], scope[512];
     snprintf(head, sizeof head, "Mean position under load: %s", s->name);
+    char lv[64];
+    if (nlev == 1)
+        snprintf(lv, sizeof lv, "at the case's still water level");
+    else
+        snprintf(lv, sizeof lv, "at each of the %zu still water levels the case declares", nlev);
     snprintf(intro, sizeof intro,
              "Equilibrium in surge, sway and yaw under each load case, intact and with each line "
-             "broken in turn, at each of the %zu still water level%s the case declares, checked "
-             "against the case's criteria%s.",
-             nlev, nlev == 1 ? "" : "s",
+             "broken in turn, %s, checked against the case's criteria%s.",
+             lv,
              m->criteria.anchor_ignore_friction
                  ? "; anchor loads with the grounded line's seabed friction ignored "
                    "(criteria.anchor_line_friction: ignore)"
