@@ -542,11 +542,7 @@ void hf_report_scope_add(hf_report *r, size_t load, size_t cond, double level)
 
 size_t hf_report_levels_declared(const hf_model *m, double *out, size_t cap)
 {
-    if (!m)
-        return 0;
-    if (cap)
-        out[0] = m->site.water_level;
-    return 1;
+    return m ? hf_analysis_envelope_levels(m, out, cap) : 0;
 }
 
 /* What the checks covered against what the case declares. */
@@ -633,36 +629,70 @@ static void scope_missing(const hf_report *r, const scope_count *c, char *buf, s
         snprintf(buf + n, cap - n, " some checks did not record what they covered;");
 }
 
+/* The anchor part of the criteria sentence: the checks by anchor kind,
+ * the gravity blocks' required factors (the case's, or a range when lines
+ * set their own) and the anchor-load choice (seabed friction). */
+static void anchors_sentence(const hf_model *m, char *buf, size_t cap)
+{
+    int drag = 0, gravity = 0, other = 0;
+    double s_lo = INFINITY, s_hi = 0, u_lo = INFINITY, u_hi = 0;
+    for (size_t i = 0; i < m->nlines; i++) {
+        const hf_anchor *a = &m->lines[i].anchor_spec;
+        drag |= a->kind == HF_ANCHOR_DRAG;
+        other |= a->kind == HF_ANCHOR_PILE || a->kind == HF_ANCHOR_PLATE;
+        if (a->kind != HF_ANCHOR_GRAVITY)
+            continue;
+        gravity = 1;
+        double rs, ru;
+        hf_criteria_block_required(&m->criteria, a, &rs, &ru);
+        s_lo = fmin(s_lo, rs), s_hi = fmax(s_hi, rs), u_lo = fmin(u_lo, ru), u_hi = fmax(u_hi, ru);
+    }
+    char f[4][32], sl[80] = "", ul[80] = "";
+    hf_report_number(f[0], 32, s_lo, 4);
+    hf_report_number(f[1], 32, s_hi, 4);
+    hf_report_number(f[2], 32, u_lo, 4);
+    hf_report_number(f[3], 32, u_hi, 4);
+    if (gravity) {
+        snprintf(sl, sizeof sl, s_lo == s_hi ? "%s" : "%s to %s", f[0], f[1]);
+        snprintf(ul, sizeof ul, u_lo == u_hi ? "%s" : "%s to %s", f[2], f[3]);
+    }
+    size_t n = (size_t)snprintf(buf, cap, "anchors:%s%s",
+                                drag ? " drag anchors no uplift beyond "
+                                       "their allowed angle"
+                                     : "",
+                                drag && gravity ? "," : "");
+    if (gravity && n < cap)
+        n += (size_t)snprintf(buf + n, cap - n,
+                              " gravity blocks sliding factor at least %s and uplift factor at "
+                              "least %s",
+                              sl, ul);
+    if (other && n < cap)
+        n += (size_t)snprintf(buf + n, cap - n, "%s piles and plates reported without a check",
+                              drag || gravity ? "," : "");
+    if (n < cap)
+        snprintf(buf + n, cap - n, "; anchor loads %s",
+                 m->criteria.anchor_ignore_friction
+                     ? "with the grounded line's seabed friction ignored (anchor_line_friction: "
+                       "ignore)"
+                     : "as solved, the grounded line's seabed friction included");
+}
+
 /* Which criteria the checks apply: line factors, offset limit, anchors. */
 static void criteria_sentence(const hf_model *m, char *buf, size_t cap)
 {
     const hf_criteria *cr = &m->criteria;
-    char a[32], b[32], o[48];
+    char a[32], b[32], o[48], an[400];
     hf_report_number(a, sizeof a, cr->factor_intact, 4);
     hf_report_number(b, sizeof b, cr->factor_damaged, 4);
     hf_report_number(o, sizeof o, cr->max_offset, 4);
-    int drag = 0, gravity = 0, other = 0;
-    for (size_t i = 0; i < m->nlines; i++) {
-        hf_anchor_kind k = m->lines[i].anchor_spec.kind;
-        drag |= k == HF_ANCHOR_DRAG;
-        gravity |= k == HF_ANCHOR_GRAVITY;
-        other |= k == HF_ANCHOR_PILE || k == HF_ANCHOR_PLATE;
-    }
-    size_t n = (size_t)snprintf(
-        buf, cap,
-        "Criteria: line safety factor MBL/T at least %s intact and %s with one line "
-        "broken%s%s%s; %s%s%s; anchors:%s%s%s%s.",
-        cr->factor_intact > 0 ? a : "(none)", cr->factor_damaged > 0 ? b : "(none)",
-        cr->preset ? " (" : "", cr->preset ? cr->preset : "", cr->preset ? ")" : "",
-        cr->max_offset > 0 ? "horizontal offset at most " : "no offset limit",
-        cr->max_offset > 0 ? o : "", cr->max_offset > 0 ? " m" : "",
-        drag ? " drag anchors no uplift beyond their allowed angle" : "",
-        drag && gravity ? "," : "",
-        gravity ? " gravity blocks sliding and uplift factors (equilibrium, factor 1)" : "",
-        other ? (drag || gravity ? ", piles and plates reported without a check"
-                                 : " piles and plates reported without a check")
-              : "");
-    (void)n;
+    anchors_sentence(m, an, sizeof an);
+    snprintf(buf, cap,
+             "Criteria: line safety factor MBL/T at least %s intact and %s with one line "
+             "broken%s%s%s, and no line at its MBL; %s%s%s; %s.",
+             cr->factor_intact > 0 ? a : "(none)", cr->factor_damaged > 0 ? b : "(none)",
+             cr->preset ? " (" : "", cr->preset ? cr->preset : "", cr->preset ? ")" : "",
+             cr->max_offset > 0 ? "horizontal offset at most " : "no offset limit",
+             cr->max_offset > 0 ? o : "", cr->max_offset > 0 ? " m" : "", an);
 }
 
 /* The verdict banner (shown first by CSS order). */
@@ -693,7 +723,7 @@ static void verdict(hf_report *r)
     }
     scope_count c;
     scope_counts(r, &c);
-    char sc[512], cr[640], miss[400];
+    char sc[512], cr[1024], miss[400];
     scope_sentence(&c, sc, sizeof sc);
     criteria_sentence(r->model, cr, sizeof cr);
     scope_missing(r, &c, miss, sizeof miss);
