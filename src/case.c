@@ -466,7 +466,8 @@ static hf_status water_levels(ctx *c, const node *n, hf_site *s)
 {
     char gotbuf[96];
     if (n->type != N_SEQ || n->n == 0 || n->n > HF_MODEL_MAX_LEVELS)
-        return fail(c, n, "expected a list of water levels ([low, high] or up to %d levels), got %s",
+        return fail(c, n,
+                    "expected a list of water levels ([low, high] or up to %d levels), got %s",
                     HF_MODEL_MAX_LEVELS, n->type == N_SEQ ? "an empty or too long list" : GOT(n));
     double v[HF_MODEL_MAX_LEVELS];
     for (size_t i = 0; i < n->n; i++) {
@@ -633,10 +634,17 @@ static hf_status load_components(ctx *c, const node *n)
 
 static hf_status factor(ctx *c, const node *map, const char *key, double *out);
 
-static const char *const line_keys[] = {"name",           "anchor",      "fairlead",
-                                        "sections",       "anchor_kind", "block_weight",
-                                        "block_friction", "max_uplift",
-                                        "block_sliding_factor", "block_uplift_factor", NULL};
+static const char *const line_keys[] = {"name",
+                                        "anchor",
+                                        "fairlead",
+                                        "sections",
+                                        "anchor_kind",
+                                        "block_weight",
+                                        "block_friction",
+                                        "max_uplift",
+                                        "block_sliding_factor",
+                                        "block_uplift_factor",
+                                        NULL};
 static const char *const piece_keys[] = {"component", "length", "clump", "buoy", "friction", NULL};
 static const char *const anchor_kinds[] = {"drag", "gravity", "pile", "plate"};
 

@@ -43,7 +43,8 @@ static const char usage_text[] =
     "rest position; yaw is the turn from the rest heading, counterclockwise.\n"
     "\n"
     "options:\n"
-    "  --load NAME    analyse this load case only (repeat for several)\n"    "  --water-level LEVELS  the still water levels instead of the case's:\n"
+    "  --load NAME    analyse this load case only (repeat for several)\n"
+    "  --water-level LEVELS  the still water levels instead of the case's:\n"
     "                 FROM:TO:STEP (m; TO always included) or a list A,B,C\n"
     "  --csv FILE|-   write one CSV row per load case and condition (- = standard\n"
     "                 output; the readable report is then left out)\n"
@@ -169,7 +170,8 @@ static void print_condition(FILE *out, const hf_model *m, const hf_balance_resul
     fprintf(out, "\n  -- %s: equilibrium found (%d load steps, %d Newton iterations)\n", cn,
             r->steps, r->iterations);
     if (r->overloaded)
-        fprintf(out, "     OVERLOADED: line %s at utilisation %.3f (tension at or beyond its MBL)\n",
+        fprintf(out,
+                "     OVERLOADED: line %s at utilisation %.3f (tension at or beyond its MBL)\n",
                 hf_results_line_name(m, r->overloaded_line), r->utilisation[r->overloaded_line]);
     fprintf(out, "     offset: surge %.3f m, sway %.3f m (horizontal %.3f m), yaw %.3f deg\n",
             r->offset[0], r->offset[1], r->horizontal, r->offset[2] * RAD2DEG);
@@ -436,8 +438,10 @@ static int levels(const hf_model *m, const char *text, hf_analysis_envelope **e)
                 return hf_cli_usage_error("balance", "%s", err.text);
         }
         if (n == 0)
-            return hf_cli_usage_error("balance", "--water-level: expected FROM:TO:STEP or a list "
-                                                 "of levels, got \"%s\"", text);
+            return hf_cli_usage_error("balance",
+                                      "--water-level: expected FROM:TO:STEP or a list "
+                                      "of levels, got \"%s\"",
+                                      text);
     }
     for (size_t k = 0; k < n; k++)
         if (!(m->site.depth + v[k] > 0.0))
@@ -455,16 +459,15 @@ int hf_cmd_balance(int argc, char **argv)
     const char *cmd = "balance", *path = NULL, *csv = NULL, *wl = NULL;
     const char *names[HF_CLI_MAX_REPEAT];
     int nsel = 0;
-    const hf_cli_opt opts[] = {HF_CLI_OPT_CSV(&csv),
-                               {.name = "--load",
-                                .missing = "--load needs the NAME of a load case",
-                                .nonempty = 1,
-                                .count = &nsel,
-                                .list = names,
-                                .list_cap = HF_CLI_MAX_REPEAT},
-                               HF_CLI_OPT_VALUE("--water-level",
-                                                "--water-level needs FROM:TO:STEP or a list A,B",
-                                                &wl)};
+    const hf_cli_opt opts[] = {
+        HF_CLI_OPT_CSV(&csv),
+        {.name = "--load",
+         .missing = "--load needs the NAME of a load case",
+         .nonempty = 1,
+         .count = &nsel,
+         .list = names,
+         .list_cap = HF_CLI_MAX_REPEAT},
+        HF_CLI_OPT_VALUE("--water-level", "--water-level needs FROM:TO:STEP or a list A,B", &wl)};
     int rc = hf_cli_parse_case_args(argc, argv, cmd, usage_text, opts, 3, &path);
     if (rc != HF_CLI_CONTINUE)
         return rc;

@@ -24,9 +24,8 @@ const char *const hf_results_curve_columns[HF_RESULTS_CURVE_FIXED] = {
     "stiffness_kN_per_m", "max_tension_kN", "max_tension_line", "max_utilisation"};
 
 const char *const hf_results_balance_head[HF_RESULTS_BALANCE_HEAD] = {
-    "load",           "condition",      "water_level_m",    "status",
-    "surge_m",        "sway_m",         "yaw_deg",          "max_tension_kN",
-    "max_tension_line", "max_utilisation", "criterion",     "passed"};
+    "load",    "condition",      "water_level_m",    "status",          "surge_m",   "sway_m",
+    "yaw_deg", "max_tension_kN", "max_tension_line", "max_utilisation", "criterion", "passed"};
 
 const char *const hf_results_balance_anchor_groups[HF_RESULTS_BALANCE_ANCHOR][2] = {
     {"anchor_load", "_kN"}, {"angle", "_deg"}, {"sliding", ""}, {"uplift", ""}};
@@ -640,8 +639,9 @@ void hf_results_envelope_summary_write(FILE *out, const hf_model *m, const hf_an
     if (e->overloaded) {
         hf_analysis_where at = e->overload_at;
         hf_results_where(m, &at, w, sizeof w);
-        fprintf(out, "OVERLOADED: %zu conditions have a line at or beyond its MBL; worst: %s at "
-                     "utilisation %.3f (%s)\n",
+        fprintf(out,
+                "OVERLOADED: %zu conditions have a line at or beyond its MBL; worst: %s at "
+                "utilisation %.3f (%s)\n",
                 e->overloaded, hf_results_line_name(m, e->overload_line), e->overload_utilisation,
                 w);
     }

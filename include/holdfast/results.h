@@ -248,7 +248,6 @@ void hf_results_envelope_scope(const hf_model *m, const hf_analysis_envelope *e,
  * smallest gravity-block factors with where, the required factors, PASS/FAIL
  * with the first failure), the anchor-load choice (friction), and the worst
  * overload. */
-void hf_results_envelope_summary_write(FILE *out, const hf_model *m,
-                                       const hf_analysis_envelope *e);
+void hf_results_envelope_summary_write(FILE *out, const hf_model *m, const hf_analysis_envelope *e);
 
 #endif
