@@ -460,8 +460,9 @@ static const char *const site_keys[] = {"depth", "water_density", "water_level",
 
 /* site.water_levels (helper A, issue 13): a list of still water levels; a
  * list of two is the range [low, high], expanded to low, low + 0.1 m, ...
- * and high itself (HF_MODEL_LEVEL_STEP).  Each level must lie above the
- * seabed; a range needs low < high. */
+ * and high itself (HF_MODEL_LEVEL_STEP), each rounded to 1e-9 m so that 1.9
+ * is the double a case file's "1.9 m" gives (correctly rounded division).  Each level must lie
+ * above the seabed; a range needs low < high. */
 static hf_status water_levels(ctx *c, const node *n, hf_site *s)
 {
     char gotbuf[96];
@@ -494,7 +495,7 @@ static hf_status water_levels(ctx *c, const node *n, hf_site *s)
                     HF_MODEL_MAX_LEVELS, HF_MODEL_LEVEL_STEP, n->kids[0]->text, n->kids[1]->text);
     size_t k = 0;
     while (k < HF_MODEL_MAX_LEVELS - 1 && (double)k < span - 1e-6)
-        s->water_levels[k] = v[0] + (double)k * HF_MODEL_LEVEL_STEP, k++;
+        s->water_levels[k] = round((v[0] + (double)k * HF_MODEL_LEVEL_STEP) * 1e9) / 1e9, k++;
     s->water_levels[k++] = v[1];
     s->nwater_levels = k;
     return HF_OK;

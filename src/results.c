@@ -506,6 +506,47 @@ void hf_results_stiffness_for_people(double K[6][6], const double force[6], doub
     }
 }
 
+/* The failed check of anchor a (line name n) in words. */
+static void anchor_failure(const char *n, const hf_anchor_criterion *a, char *buf, size_t cap)
+{
+    if (a->kind == HF_ANCHOR_DRAG)
+        snprintf(buf, cap, "%s uplift angle %.2f deg > %.2f deg", n, a->angle * RAD2DEG,
+                 a->max_angle * RAD2DEG);
+    else if (a->has_uplift && a->uplift_factor < a->required_uplift)
+        snprintf(buf, cap, "%s uplift %.3f < %.2f", n, a->uplift_factor, a->required_uplift);
+    else
+        snprintf(buf, cap, "%s sliding %.3f < %.2f", n, a->sliding_factor, a->required_sliding);
+}
+
+void hf_results_balance_failure(const hf_model *m, const hf_balance_result *r, char *buf,
+                                size_t cap)
+{
+    buf[0] = '\0';
+    if (r->passed || r->status != HF_OK)
+        return;
+    size_t i = r->criterion_line;
+    const char *n = hf_results_line_name(m, i);
+    double req = hf_criteria_required(&m->criteria, r->broken != HF_BALANCE_NONE);
+    switch (r->criterion) {
+    case HF_CRIT_OVERLOAD:
+        snprintf(buf, cap, "%s overloaded: T/MBL %.3f", n, r->utilisation[i]);
+        break;
+    case HF_CRIT_LINE:
+        if (i < r->nlines)
+            snprintf(buf, cap, "MBL/T %.3f < %.3f (%s)", r->line[i].factor, req, n);
+        break;
+    case HF_CRIT_OFFSET:
+        snprintf(buf, cap, "offset %.2f m > %.2f m", r->horizontal, m->criteria.max_offset);
+        break;
+    case HF_CRIT_ANCHOR:
+        if (i < r->nlines && r->anchor)
+            anchor_failure(n, &r->anchor[i], buf, cap);
+        break;
+    default:
+        break;
+    }
+}
+
 /* ---- balance over a water-level envelope ---- */
 
 void hf_results_where(const hf_model *m, const hf_analysis_where *w, char *buf, size_t cap)

@@ -412,6 +412,13 @@ typedef struct {
     FILE *out;
     hf_report *rep;
     size_t nonfinite;
+    /* water-level envelope (helper A, issue 13): the model at the level being
+     * run, the number of levels, whether this level shows every condition and
+     * the plans (the level nearest the case's water_level), and the level */
+    const hf_model *at;
+    size_t nlevels;
+    int full;
+    double level;
 } balance_ctx;
 
 /* The requirement and the result of condition r, for the report. */
@@ -419,8 +426,12 @@ static void balance_check(const balance_ctx *c, const hf_load *l, const hf_balan
 {
     char cond[HF_MODEL_MAX_NAME + 16];
     hf_results_balance_condition(c->m, r, cond, sizeof cond);
-    char item[2 * HF_MODEL_MAX_NAME + 32], req[128], res[256], a[32], b2[32];
-    snprintf(item, sizeof item, "load %s, %s", l->name, cond);
+    char item[2 * HF_MODEL_MAX_NAME + 64], req[128], res[384], a[32], b2[32], why[160];
+    if (c->nlevels > 1)
+        snprintf(item, sizeof item, "load %s, %s, water level %.3g m", l->name, cond, c->level);
+    else
+        snprintf(item, sizeof item, "load %s, %s", l->name, cond);
+    hf_results_balance_failure(c->m, r, why, sizeof why);
     double need = hf_criteria_required(&c->m->criteria, r->broken != HF_BALANCE_NONE);
     fmt(a, need);
     if (need > 0)
@@ -435,9 +446,9 @@ static void balance_check(const balance_ctx *c, const hf_load *l, const hf_balan
     } else {
         fmt(a, r->max_utilisation > 0 ? 1.0 / r->max_utilisation : 0.0);
         fmt(b2, r->horizontal);
-        snprintf(res, sizeof res, "MBL/T %s (%s), offset %s m, governing: %s", a,
+        snprintf(res, sizeof res, "MBL/T %s (%s), offset %s m, governing: %s%s%s", a,
                  hf_results_line_name(c->m, r->max_utilisation_line), b2,
-                 hf_balance_criterion_name(r->criterion));
+                 hf_balance_criterion_name(r->criterion), why[0] ? "; " : "", why);
     }
     hf_report_check(c->rep, item, req, res, r->passed);
 }
@@ -446,8 +457,25 @@ static hf_status balance_row(void *ctx, const hf_load *l, const hf_balance_resul
 {
     balance_ctx *c = ctx;
     (void)err;
-    c->nonfinite += hf_results_balance_row_write(c->out, c->m, l, r);
-    balance_check(c, l, r);
+    c->nonfinite += hf_results_balance_row_write(c->out, c->at, l, r);
+    if (c->full || !r->passed) /* other levels: the failures and the envelope tables */
+        balance_check(c, l, r);
+    return HF_OK;
+}
+
+/* The next water level of the envelope (helper A, issue 13). */
+static hf_status balance_level(void *ctx, size_t k, double level, const hf_model *at, hf_error *err)
+{
+    balance_ctx *c = ctx;
+    (void)err;
+    double lv[HF_MODEL_MAX_LEVELS];
+    size_t n = hf_analysis_envelope_levels(c->m, lv, HF_MODEL_MAX_LEVELS), best = 0;
+    for (size_t j = 1; j < n; j++)
+        if (fabs(lv[j] - c->m->site.water_level) < fabs(lv[best] - c->m->site.water_level))
+            best = j;
+    c->at = at;
+    c->level = level;
+    c->full = k == best;
     return HF_OK;
 }
 
@@ -457,21 +485,45 @@ static hf_status balance_plan(void *ctx, const hf_load *l, hf_status intact, con
 {
     balance_ctx *c = ctx;
     (void)err;
-    if (intact != HF_OK)
+    if (intact != HF_OK || !c->full)
         return HF_OK;
     hf_pose pose;
-    hf_spread_pose_rest(c->m, &pose);
+    hf_spread_pose_rest(c->at, &pose);
     hf_spread_pose_offset(&pose, offset);
     hf_error fe;
     hf_error_clear(&fe);
     FILE *f = hf_report_figure_begin(c->rep);
-    hf_status fs = hf_report_svg_plan(f, c->m, &pose, NULL, l, 0, &fe);
+    hf_status fs = hf_report_svg_plan(f, c->at, &pose, NULL, l, 0, &fe);
     char cap[HF_MODEL_MAX_NAME + 96];
     snprintf(cap, sizeof cap, "Plan at the intact equilibrium under load %s.", l->name);
     hf_report_figure_end(c->rep, cap);
     if (fs != HF_OK)
         report_fail_note(c->rep, "The plan", &fe);
     return HF_OK;
+}
+
+/* The summary line of a balance study: counts, the worst line over the
+ * envelope with where, and the worst overload (helper A, issue 13). */
+static void balance_note(const hf_model *m, const hf_analysis_envelope *env,
+                         hf_studyrun_outcome *oc)
+{
+    size_t worst = 0;
+    for (size_t i = 1; i < env->nlines; i++)
+        if (env->line[i].utilisation > env->line[worst].utilisation)
+            worst = i;
+    char w[2 * HF_MODEL_MAX_NAME + 64], over[2 * HF_MODEL_MAX_NAME + 160] = "";
+    hf_results_where(m, &env->line[worst].at, w, sizeof w);
+    if (env->overloaded) {
+        char ow[2 * HF_MODEL_MAX_NAME + 64];
+        hf_results_where(m, &env->overload_at, ow, sizeof ow);
+        snprintf(over, sizeof over, "; OVERLOADED: line %s at utilisation %.3f (%s)",
+                 hf_results_line_name(m, env->overload_line), env->overload_utilisation, ow);
+    }
+    snprintf(oc->note, sizeof oc->note,
+             "%zu load cases x %zu water levels; %zu conditions failed a criterion (%zu without "
+             "equilibrium); worst line %s %.1f kN (%s)%s",
+             env->nloads, env->nlevels, env->count.failed, env->count.noresult,
+             hf_results_line_name(m, worst), env->line[worst].tension / 1e3, w, over);
 }
 
 static hf_status run_balance(const hf_model *m, const hf_study *s, int jobs, FILE *out,
@@ -495,20 +547,35 @@ static hf_status run_balance(const hf_model *m, const hf_study *s, int jobs, FIL
     hf_report_section(rep, head,
                       "Equilibrium in surge, sway and yaw under each load case, intact and with "
                       "each line broken in turn, checked against the case's criteria.");
-    balance_ctx c = {m, out, rep, 0};
-    hf_analysis_balance_sink sink = {&c, NULL, balance_row, balance_plan, NULL};
-    hf_analysis_balance_count n;
+    /* every load case at every water level of the case's envelope (helper A,
+     * issue 13; hf_analysis_envelope_run) */
+    double lv[HF_MODEL_MAX_LEVELS];
+    size_t nl = hf_analysis_envelope_levels(m, lv, HF_MODEL_MAX_LEVELS);
     hf_error e;
     hf_error_clear(&e);
-    hf_status st = hf_analysis_balance_run(m, nwhich ? which : NULL, nwhich, &sink, &n, &e);
+    hf_analysis_envelope *env = hf_analysis_envelope_alloc(m, nl, &e);
+    hf_status st = env ? HF_OK : e.status;
+    balance_ctx c = {m, out, rep, 0, m, nl, 1, m->site.water_level};
+    if (env) {
+        memcpy(env->level, lv, nl * sizeof *lv);
+        if (nl > 1)
+            hf_report_paragraph(rep, "Every condition is listed at the water level nearest the "
+                                     "case's site.water_level; at the other levels only the "
+                                     "conditions that fail. The tables below cover every level.");
+        hf_analysis_envelope_sink sink = {{&c, NULL, balance_row, balance_plan, NULL},
+                                          balance_level};
+        st = hf_analysis_envelope_run(env, m, nwhich ? which : NULL, nwhich, &sink, &e);
+    }
     hf_free(which);
-    if (st != HF_OK)
+    if (st != HF_OK) {
+        hf_analysis_envelope_free(env);
         return hf_error_set(err, e.status, "balance study %s: %.900s", s->name, e.text);
+    }
+    hf_report_balance_envelope(rep, m, env);
     oc->nonfinite += c.nonfinite;
-    oc->criterion_failed = n.failed > 0;
-    snprintf(oc->note, sizeof oc->note,
-             "%zu load cases; %zu conditions failed a criterion (%zu without equilibrium)", n.loads,
-             n.failed, n.noresult);
+    oc->criterion_failed = env->count.failed > 0;
+    balance_note(m, env, oc);
+    hf_analysis_envelope_free(env);
     return HF_OK;
 }
 

@@ -203,7 +203,7 @@ static void test_criterion_fails(void **state)
     /* the tight offset limit always fails, intact included */
     assert_int_equal(HF_TEST_RUN(&both, "balance", tight_case), 1);
     assert_non_null(strstr(out, "offset limit"));
-    assert_non_null(strstr(out, "verdict: FAIL (governing: offset)"));
+    assert_non_null(strstr(out, "verdict: FAIL (governing: offset; offset "));
     assert_non_null(strstr(out, "CAUTION"));
     assert_int_equal(HF_TEST_RUN(&quiet, "balance", tight_case, "--csv", "-"), 1);
     assert_non_null(strstr(out, "ebb,intact,0,ok,"));
@@ -251,7 +251,7 @@ static void test_anchor_kinds_report(void **state)
     /* With ne broken the hull drifts away from it, loading nw, and the light block
      * there slides (factor below 1): exit 1, governed by that anchor. */
     assert_int_equal(HF_TEST_RUN(&both, "balance", path), 1);
-    assert_non_null(strstr(out, "verdict: FAIL (governing: anchor:nw)"));
+    assert_non_null(strstr(out, "verdict: FAIL (governing: anchor:nw; nw sliding 0."));
     /* intact block of nw: the report's factors agree with the statics
      * mu (W - V) / H and W / V (REFERENCE.md section 4) from its own H and V */
     char *p = strstr(out, "\n    nw                 gravity");
@@ -502,6 +502,8 @@ static void test_envelope_levels(void **state)
     char env[400];
     write_variant(env, sizeof env, "range", "  water_levels: [-0.6 m, 0.45 m]\n", env_loads, "");
     assert_int_equal(HF_TEST_RUN(&quiet, "balance", env, "--csv", "-", "--load", "ebb"), 0);
+    static char ranged[OUT_CAP];
+    memcpy(ranged, out, sizeof ranged);
     static const double want[] = {-0.6, -0.5, -0.4, -0.3, -0.2, -0.1,
                                   0.0,  0.1,  0.2,  0.3,  0.4,  0.45};
     char *cur = out, *line = hf_test_line_next(&cur);
@@ -515,6 +517,18 @@ static void test_envelope_levels(void **state)
                 fail_msg("row %zu: level %s, expected %g", k * 5 + (size_t)c, f[2], want[k]);
         }
     assert_null(hf_test_line_next(&cur));
+    /* a level of the expanded range (-0.6 + 9 x 0.1) is the level a case file's
+     * "0.3 m" gives: the rows agree byte for byte with the edited case */
+    const char *r03 = strstr(ranged, "ebb,intact,0.3,");
+    assert_non_null(r03);
+    char one[400];
+    write_variant(one, sizeof one, "edited-0.3", "  water_level: 0.3 m\n", env_loads, "");
+    assert_int_equal(HF_TEST_RUN(&quiet, "balance", one, "--csv", "-", "--load", "ebb"), 0);
+    const char *e03 = strstr(out, "ebb,intact,0.3,");
+    assert_non_null(e03);
+    size_t len = strcspn(e03, "\n");
+    assert_int_equal(strcspn(r03, "\n"), len);
+    assert_memory_equal(r03, e03, len);
     assert_int_equal(HF_TEST_RUN(&quiet, "balance", env, "--csv", "-", "--load", "ebb",
                                  "--water-level", "0.2:0.45:0.1"),
                      0);
