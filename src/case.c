@@ -460,13 +460,15 @@ static const char *const site_keys[] = {"depth", "water_density", "water_level",
 
 /* site.water_levels (helper A, issue 13): a list of still water levels; a
  * list of two is the range [low, high], expanded to low, low + 0.1 m, ...
- * and high itself (HF_MODEL_LEVEL_STEP).  Each level must lie above the
- * seabed; a range needs low < high. */
+ * and high itself (HF_MODEL_LEVEL_STEP), each rounded to 1e-9 m so that 1.9
+ * is the double a case file's "1.9 m" gives (correctly rounded division).  Each level must lie
+ * above the seabed; a range needs low < high. */
 static hf_status water_levels(ctx *c, const node *n, hf_site *s)
 {
     char gotbuf[96];
     if (n->type != N_SEQ || n->n == 0 || n->n > HF_MODEL_MAX_LEVELS)
-        return fail(c, n, "expected a list of water levels ([low, high] or up to %d levels), got %s",
+        return fail(c, n,
+                    "expected a list of water levels ([low, high] or up to %d levels), got %s",
                     HF_MODEL_MAX_LEVELS, n->type == N_SEQ ? "an empty or too long list" : GOT(n));
     double v[HF_MODEL_MAX_LEVELS];
     for (size_t i = 0; i < n->n; i++) {
@@ -493,7 +495,7 @@ static hf_status water_levels(ctx *c, const node *n, hf_site *s)
                     HF_MODEL_MAX_LEVELS, HF_MODEL_LEVEL_STEP, n->kids[0]->text, n->kids[1]->text);
     size_t k = 0;
     while (k < HF_MODEL_MAX_LEVELS - 1 && (double)k < span - 1e-6)
-        s->water_levels[k] = v[0] + (double)k * HF_MODEL_LEVEL_STEP, k++;
+        s->water_levels[k] = round((v[0] + (double)k * HF_MODEL_LEVEL_STEP) * 1e9) / 1e9, k++;
     s->water_levels[k++] = v[1];
     s->nwater_levels = k;
     return HF_OK;
@@ -633,10 +635,17 @@ static hf_status load_components(ctx *c, const node *n)
 
 static hf_status factor(ctx *c, const node *map, const char *key, double *out);
 
-static const char *const line_keys[] = {"name",           "anchor",      "fairlead",
-                                        "sections",       "anchor_kind", "block_weight",
-                                        "block_friction", "max_uplift",
-                                        "block_sliding_factor", "block_uplift_factor", NULL};
+static const char *const line_keys[] = {"name",
+                                        "anchor",
+                                        "fairlead",
+                                        "sections",
+                                        "anchor_kind",
+                                        "block_weight",
+                                        "block_friction",
+                                        "max_uplift",
+                                        "block_sliding_factor",
+                                        "block_uplift_factor",
+                                        NULL};
 static const char *const piece_keys[] = {"component", "length", "clump", "buoy", "friction", NULL};
 static const char *const anchor_kinds[] = {"drag", "gravity", "pile", "plate"};
 

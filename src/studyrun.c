@@ -462,7 +462,8 @@ static void balance_check(const balance_ctx *c, const hf_load *l, const hf_balan
 {
     char cond[HF_MODEL_MAX_NAME + 16];
     hf_results_balance_condition(c->m, r, cond, sizeof cond);
-    char item[2 * HF_MODEL_MAX_NAME + 32], req[128], res[256], a[32], b2[32];
+    char item[2 * HF_MODEL_MAX_NAME + 32], req[128], res[384], a[32], b2[32], why[160];
+    hf_results_balance_failure(c->m, r, why, sizeof why); /* the failing number, if any */
     if (c->nlevels > 1) {
         char lv[32];
         hf_report_number(lv, sizeof lv, c->m->site.water_level, 4);
@@ -484,9 +485,9 @@ static void balance_check(const balance_ctx *c, const hf_load *l, const hf_balan
     } else {
         fmt(a, r->max_utilisation > 0 ? 1.0 / r->max_utilisation : 0.0);
         fmt(b2, r->horizontal);
-        snprintf(res, sizeof res, "MBL/T %s (%s), offset %s m, governing: %s", a,
+        snprintf(res, sizeof res, "MBL/T %s (%s), offset %s m, governing: %s%s%s", a,
                  hf_results_line_name(c->m, r->max_utilisation_line), b2,
-                 hf_balance_criterion_name(r->criterion));
+                 hf_balance_criterion_name(r->criterion), why[0] ? "; " : "", why);
     }
     hf_report_check(c->rep, item, req, res, r->passed);
 }
@@ -764,9 +765,16 @@ static hf_status run_balance(const hf_model *m, const hf_study *s, int jobs, FIL
     hf_results_envelope_scope(m, e, scope, sizeof scope);
     oc->nonfinite += c.nonfinite;
     oc->criterion_failed = e->count.failed > 0 || e->overloaded > 0;
+    char over[2 * HF_MODEL_MAX_NAME + 160] = "";
+    if (e->overloaded) {
+        char ow[2 * HF_MODEL_MAX_NAME + 64];
+        hf_results_where(m, &e->overload_at, ow, sizeof ow);
+        snprintf(over, sizeof over, "; OVERLOADED: line %s at utilisation %.3f (%s)",
+                 hf_results_line_name(m, e->overload_line), e->overload_utilisation, ow);
+    }
     snprintf(oc->note, sizeof oc->note,
-             "%s; %zu conditions failed a criterion (%zu without equilibrium)", scope,
-             e->count.failed, e->count.noresult);
+             "%s; %zu conditions failed a criterion (%zu without equilibrium)%s", scope,
+             e->count.failed, e->count.noresult, over);
     hf_analysis_envelope_free(e);
     return HF_OK;
 }

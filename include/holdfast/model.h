@@ -19,8 +19,8 @@
 /* Documented limits (errors name them when hit). */
 #define HF_MODEL_MAX_LINES 100000
 #define HF_MODEL_MAX_NAME 128
-#define HF_MODEL_MAX_LEVELS 512          /* still water levels of an envelope */
-#define HF_MODEL_LEVEL_STEP 0.1          /* m: spacing of a [low, high] envelope */
+#define HF_MODEL_MAX_LEVELS 512 /* still water levels of an envelope */
+#define HF_MODEL_LEVEL_STEP 0.1 /* m: spacing of a [low, high] envelope */
 
 typedef struct {
     double depth;         /* water depth from the datum to the flat seabed, m (> 0) */
