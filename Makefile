@@ -44,7 +44,7 @@ BUILDING := $(filter-out $(NOBUILD_GOALS),$(or $(MAKECMDGOALS),all))
 ifneq ($(BUILDING),)
 # Missing development packages are reported (or installed, as root) here,
 # before any compiler error can hide the real cause.
-DEPS_OK := $(shell sh scripts/ensure-deps.sh >&2 && echo yes)
+DEPS_OK := $(shell PYTHON=$(PYTHON) sh scripts/ensure-deps.sh >&2 && echo yes)
 ifneq ($(DEPS_OK),yes)
 $(error missing packages: see the message above)
 endif
