@@ -150,9 +150,12 @@ $(BIN): $(BUILD)/obj/main.o $(CMD_OBJ) $(LIB)
 
 $(CMD_TESTS:%=$(BUILD)/test_%): $(CMD_OBJ)
 
-# test_shlib links the shared library as a user does (-lholdfast, nothing
-# else of holdfast's), found next to it at run time through $$ORIGIN.
-$(BUILD)/test_shlib: $(BUILD)/tobj/test_shlib.o $(TEST_SUPPORT_OBJ) $(SHLIB_DEV)
+# The test programs of SHLIB_TESTS link the shared library as a user does
+# (-lholdfast, nothing else of holdfast's), found next to them at run time
+# through $$ORIGIN: test_shlib, and test_session, whose API is what the
+# Python package loads.
+SHLIB_TESTS = shlib session
+$(SHLIB_TESTS:%=$(BUILD)/test_%): $(BUILD)/test_%: $(BUILD)/tobj/test_%.o $(TEST_SUPPORT_OBJ) $(SHLIB_DEV)
 	$(CC) $(ALL_LDFLAGS) -o $@ $(filter %.o,$^) -L$(BUILD) -Wl,-rpath,'$$ORIGIN' -lholdfast \
 	    $(CMOCKA_LIBS) -pthread -lm
 
