@@ -232,11 +232,12 @@ clean:
 	rm -rf build build-* barge-results
 
 help:
-	@echo 'make [all]        build $(BIN)'
+	@echo 'make [all]        build $(BIN), $(LIB) and $(SHLIB_DEV) (docs/library.md)'
 	@echo 'make check        build and run every test (installs missing packages as root)'
 	@echo 'make demo         run the barge demo case into barge-results/'
 	@echo 'make debug        -O0 -g3 build and tests in build-debug/'
-	@echo 'make install      install into $$(DESTDIR)$$(PREFIX) (now $(DESTDIR)$(PREFIX))'
+	@echo 'make install      program, libraries, headers, holdfast.pc, man page, Python package'
+	@echo '                  into $$(DESTDIR)$$(PREFIX) (now $(DESTDIR)$(PREFIX))'
 	@echo 'make uninstall    remove what install put there'
 	@echo 'make lint         functions of src/*.c over 100 lines, library files using cli.h'
 	@echo 'make format       reformat sources with .clang-format'
