@@ -653,9 +653,11 @@ static hf_status evaluate(hf_balance *b, hf_balance_result *r, const hf_spread_r
         r->tension[i] = sr->line_tension[i];
         r->utilisation[i] = st->max_utilisation;
         hf_status s = hf_criteria_line_evaluate(t, mbl, req, &r->line[i], err);
+        double ah, av, rs, ru;
+        hf_criteria_anchor_forces(&m->criteria, st, &ah, &av);
+        hf_criteria_block_required(&m->criteria, &m->lines[i].anchor_spec, &rs, &ru);
         if (s == HF_OK)
-            s = hf_criteria_anchor_evaluate(&m->lines[i].anchor_spec, st->anchor_h, st->anchor_v,
-                                            HF_CRITERIA_GRAVITY_SLIDING, HF_CRITERIA_GRAVITY_UPLIFT,
+            s = hf_criteria_anchor_evaluate(&m->lines[i].anchor_spec, ah, av, rs, ru,
                                             &r->anchor[i], err);
         if (s != HF_OK)
             return s;

@@ -631,9 +631,12 @@ static hf_status load_components(ctx *c, const node *n)
 
 /* ---- lines ---- */
 
+static hf_status factor(ctx *c, const node *map, const char *key, double *out);
+
 static const char *const line_keys[] = {"name",           "anchor",      "fairlead",
                                         "sections",       "anchor_kind", "block_weight",
-                                        "block_friction", "max_uplift",  NULL};
+                                        "block_friction", "max_uplift",
+                                        "block_sliding_factor", "block_uplift_factor", NULL};
 static const char *const piece_keys[] = {"component", "length", "clump", "buoy", "friction", NULL};
 static const char *const anchor_kinds[] = {"drag", "gravity", "pile", "plate"};
 
@@ -839,8 +842,10 @@ static hf_status line_anchor(ctx *c, const node *n, hf_anchor *a)
         hf_anchor_kind kind;
     } only[] = {{"block_weight", HF_ANCHOR_GRAVITY},
                 {"block_friction", HF_ANCHOR_GRAVITY},
-                {"max_uplift", HF_ANCHOR_DRAG}};
-    for (size_t i = 0; i < 3; i++)
+                {"max_uplift", HF_ANCHOR_DRAG},
+                {"block_sliding_factor", HF_ANCHOR_GRAVITY},
+                {"block_uplift_factor", HF_ANCHOR_GRAVITY}};
+    for (size_t i = 0; i < sizeof only / sizeof only[0]; i++)
         if (get(n, only[i].key) && a->kind != only[i].kind) {
             size_t mark = pushkey(c, only[i].key);
             hf_status st = fail(c, getkey(n, only[i].key),
@@ -854,6 +859,10 @@ static hf_status line_anchor(ctx *c, const node *n, hf_anchor *a)
         st = req_quantity(c, n, "block_weight", HF_DIM_FORCE, POSITIVE, &a->weight);
         if (st == HF_OK)
             st = opt_quantity(c, n, "block_friction", HF_DIM_NONE, NONNEG, &a->friction);
+        if (st == HF_OK) /* helper A, issue 13: required factors of this block */
+            st = factor(c, n, "block_sliding_factor", &a->required_sliding);
+        if (st == HF_OK)
+            st = factor(c, n, "block_uplift_factor", &a->required_uplift);
     } else if (a->kind == HF_ANCHOR_DRAG) {
         st = opt_quantity(c, n, "max_uplift", HF_DIM_ANGLE, NONNEG, &a->max_uplift_angle);
         if (st == HF_OK && !(a->max_uplift_angle < M_PI / 2)) {
@@ -1092,8 +1101,15 @@ static hf_status load_loads(ctx *c, const node *n)
 
 /* ---- criteria ---- */
 
-static const char *const criteria_keys[] = {"preset",         "analysis",   "intact_factor",
-                                            "damaged_factor", "max_offset", NULL};
+static const char *const criteria_keys[] = {"preset",
+                                            "analysis",
+                                            "intact_factor",
+                                            "damaged_factor",
+                                            "max_offset",
+                                            "block_sliding_factor",
+                                            "block_uplift_factor",
+                                            "anchor_line_friction",
+                                            NULL};
 static const char *const analysis_names[] = {"quasi-static", "dynamic"};
 
 static hf_status factor(ctx *c, const node *map, const char *key, double *out)
@@ -1111,6 +1127,27 @@ static hf_status factor(ctx *c, const node *map, const char *key, double *out)
     }
     if (st == HF_OK)
         *out = f;
+    return st;
+}
+
+/* The anchor keys of `criteria:` (helper A, issue 13): required gravity-block
+ * factors for every line that gives none, and whether anchor loads include
+ * the grounded line's seabed friction (include, the default) or not (ignore). */
+static hf_status anchor_criteria(ctx *c, const node *n, hf_criteria *cr)
+{
+    static const char *const friction_names[] = {"include", "ignore"};
+    hf_status st = factor(c, n, "block_sliding_factor", &cr->block_sliding);
+    if (st == HF_OK)
+        st = factor(c, n, "block_uplift_factor", &cr->block_uplift);
+    const node *fn = get(n, "anchor_line_friction");
+    if (st == HF_OK && fn) {
+        size_t k, mark = pushkey(c, "anchor_line_friction");
+        st = choose(c, fn, "how anchor loads take the line's seabed friction", friction_names, 2,
+                    &k);
+        pop(c, mark);
+        if (st == HF_OK)
+            cr->anchor_ignore_friction = k == 1;
+    }
     return st;
 }
 
@@ -1159,6 +1196,8 @@ static hf_status load_criteria(ctx *c, const node *n)
         st = factor(c, n, "damaged_factor", &cr->factor_damaged);
     if (st == HF_OK)
         st = opt_quantity(c, n, "max_offset", HF_DIM_LENGTH, NONNEG, &cr->max_offset);
+    if (st == HF_OK)
+        st = anchor_criteria(c, n, cr);
     return st;
 }
 

@@ -24,11 +24,16 @@ const char *const hf_results_curve_columns[HF_RESULTS_CURVE_FIXED] = {
     "stiffness_kN_per_m", "max_tension_kN", "max_tension_line", "max_utilisation"};
 
 const char *const hf_results_balance_head[HF_RESULTS_BALANCE_HEAD] = {
-    "load",           "condition",        "status",          "surge_m",   "sway_m", "yaw_deg",
-    "max_tension_kN", "max_tension_line", "max_utilisation", "criterion", "passed"};
+    "load",           "condition",      "water_level_m",    "status",
+    "surge_m",        "sway_m",         "yaw_deg",          "max_tension_kN",
+    "max_tension_line", "max_utilisation", "criterion",     "passed"};
+
+const char *const hf_results_balance_anchor_groups[HF_RESULTS_BALANCE_ANCHOR][2] = {
+    {"anchor_load", "_kN"}, {"angle", "_deg"}, {"sliding", ""}, {"uplift", ""}};
 
 const char *const hf_results_balance_tail[HF_RESULTS_BALANCE_TAIL] = {
-    "horizontal_m", "max_utilisation_line", "min_line_factor", "required_line_factor", "message"};
+    "horizontal_m", "max_utilisation_line", "min_line_factor", "required_line_factor", "message",
+    "alert"};
 
 /* Rows of the stiffness matrix: the degrees of freedom (= columns 1..6). */
 static const char *const *const dof = hf_results_stiffness_columns + 1;
@@ -246,7 +251,8 @@ size_t hf_results_curve_ncolumns(const hf_model *m)
 
 size_t hf_results_balance_ncolumns(const hf_model *m)
 {
-    return HF_RESULTS_BALANCE_HEAD + m->nlines + HF_RESULTS_BALANCE_TAIL;
+    return HF_RESULTS_BALANCE_HEAD + m->nlines * (1 + HF_RESULTS_BALANCE_ANCHOR) +
+           HF_RESULTS_BALANCE_TAIL;
 }
 
 const char *hf_results_curve_column_name(const hf_model *m, size_t j, char *buf, size_t cap)
@@ -257,8 +263,20 @@ const char *hf_results_curve_column_name(const hf_model *m, size_t j, char *buf,
 
 const char *hf_results_balance_column_name(const hf_model *m, size_t j, char *buf, size_t cap)
 {
-    return column(m, hf_results_balance_head, HF_RESULTS_BALANCE_HEAD, "Tmax",
-                  hf_results_balance_tail, j, buf, cap);
+    /* Tmax: the largest tension along the line, not the fairlead tension
+     * that T_<line>_kN means in the curve and sweep CSVs (issue 11 item 2);
+     * then the anchor groups, each nlines wide */
+    size_t nl = m->nlines, per = HF_RESULTS_BALANCE_HEAD + nl;
+    if (j < per)
+        return column(m, hf_results_balance_head, HF_RESULTS_BALANCE_HEAD, "Tmax",
+                      hf_results_balance_tail, j, buf, cap);
+    if (j < per + HF_RESULTS_BALANCE_ANCHOR * nl) {
+        const char *const *g = hf_results_balance_anchor_groups[(j - per) / nl];
+        snprintf(buf, cap, "%s_%s%s", g[0], hf_results_line_name(m, (j - per) % nl), g[1]);
+        return buf;
+    }
+    snprintf(buf, cap, "%s", hf_results_balance_tail[j - per - HF_RESULTS_BALANCE_ANCHOR * nl]);
+    return buf;
 }
 
 hf_status hf_results_curve_header_write(FILE *out, const hf_model *m, hf_error *err)
@@ -349,10 +367,17 @@ double hf_results_balance_min_factor(const hf_balance_result *r)
 
 hf_status hf_results_balance_header_write(FILE *out, const hf_model *m, hf_error *err)
 {
-    /* Tmax: the largest tension along the line, not the fairlead tension
-     * that T_<line>_kN means in the curve and sweep CSVs (issue 11 item 2) */
-    return header(out, m, hf_results_balance_head, HF_RESULTS_BALANCE_HEAD, "Tmax",
-                  hf_results_balance_tail, HF_RESULTS_BALANCE_TAIL, err);
+    hf_status s = check_names(m, err);
+    if (s != HF_OK)
+        return s;
+    hf_csv c;
+    hf_csv_init(&c, out, 0);
+    for (size_t j = 0; j < hf_results_balance_ncolumns(m); j++) {
+        char name[HF_MODEL_MAX_NAME + 32];
+        hf_csv_field_str(&c, hf_results_balance_column_name(m, j, name, sizeof name));
+    }
+    hf_csv_end_row(&c);
+    return HF_OK;
 }
 
 /* A positive number, or an empty cell for 0 (= not checked / none); NaN
@@ -362,7 +387,7 @@ static hf_results_cell positive_or_empty(double v)
     return v > 0.0 || isnan(v) ? num(v) : empty();
 }
 
-/* Cell j of the columns after the per-line tensions (tail column j). */
+/* Cell j of the columns after the per-line tensions and anchors (tail column j). */
 static hf_results_cell balance_tail(const hf_model *m, const hf_load *load,
                                     const hf_balance_result *r, size_t j)
 {
@@ -379,17 +404,39 @@ static hf_results_cell balance_tail(const hf_model *m, const hf_load *load,
         return ok ? positive_or_empty(hf_results_balance_min_factor(r)) : empty();
     case 3:
         return positive_or_empty(hf_criteria_required(&m->criteria, r->broken != HF_BALANCE_NONE));
-    default:
+    case 4:
         return text(r->message);
+    default:
+        return text(ok && r->overloaded ? HF_RESULTS_ALERT_OVERLOADED : "");
     }
+}
+
+/* Cell of anchor group g (hf_results_balance_anchor_groups) of line i: empty
+ * for a broken line, no result, or a factor the anchor does not have. */
+static hf_results_cell balance_anchor(const hf_balance_result *r, size_t g, size_t i)
+{
+    if (r->status != HF_OK || !r->anchor || r->broken == i || i >= r->nlines)
+        return empty();
+    const hf_anchor_criterion *a = &r->anchor[i];
+    int gravity = a->kind == HF_ANCHOR_GRAVITY;
+    if (g == 0)
+        return num(a->load / 1e3);
+    if (g == 1)
+        return num(a->angle * RAD2DEG);
+    if (g == 2)
+        return gravity && a->has_sliding ? num(a->sliding_factor) : empty();
+    return gravity && a->has_uplift ? num(a->uplift_factor) : empty();
 }
 
 hf_results_cell hf_results_balance_cell(const hf_model *m, const hf_load *load,
                                         const hf_balance_result *r, size_t j, hf_results_text *t)
 {
     int ok = r->status == HF_OK;
-    if (j >= HF_RESULTS_BALANCE_HEAD + m->nlines)
-        return balance_tail(m, load, r, j - HF_RESULTS_BALANCE_HEAD - m->nlines);
+    size_t nl = m->nlines, per = HF_RESULTS_BALANCE_HEAD + nl;
+    if (j >= per + HF_RESULTS_BALANCE_ANCHOR * nl)
+        return balance_tail(m, load, r, j - per - HF_RESULTS_BALANCE_ANCHOR * nl);
+    if (j >= per)
+        return balance_anchor(r, (j - per) / nl, (j - per) % nl);
     if (j >= HF_RESULTS_BALANCE_HEAD)
         return ok ? num(r->tension[j - HF_RESULTS_BALANCE_HEAD] / 1e3) : empty();
     switch (j) {
@@ -399,13 +446,15 @@ hf_results_cell hf_results_balance_cell(const hf_model *m, const hf_load *load,
         hf_results_balance_condition(m, r, t->a, sizeof t->a);
         return text(t->a);
     case 2:
+        return num(m->site.water_level); /* the level the row was solved at */
+    case 3:
         return text(hf_status_str(r->status));
-    case 9:
+    case 10:
         hf_results_balance_criterion(m, r, t->b, sizeof t->b);
         return text(t->b);
-    case 10:
+    case 11:
         return num(r->passed ? 1 : 0);
-    case 7:
+    case 8:
         return text(ok && r->max_tension_line != HF_BALANCE_NONE
                         ? hf_results_line_name(m, r->max_tension_line)
                         : "");
@@ -415,13 +464,13 @@ hf_results_cell hf_results_balance_cell(const hf_model *m, const hf_load *load,
     if (!ok)
         return empty();
     switch (j) {
-    case 3:
-        return num(r->offset[0]);
     case 4:
-        return num(r->offset[1]);
+        return num(r->offset[0]);
     case 5:
-        return num(r->offset[2] * RAD2DEG);
+        return num(r->offset[1]);
     case 6:
+        return num(r->offset[2] * RAD2DEG);
+    case 7:
         return num(r->max_tension / 1e3);
     default:
         return num(r->max_utilisation);
@@ -455,5 +504,145 @@ void hf_results_stiffness_for_people(double K[6][6], const double force[6], doub
         Fp[i] = fabs(force[i]) < 1e-9 * fmax_ ? 0.0 : force[i] / 1e3;
         for (int j = 0; j < 6; j++)
             Kp[i][j] = fabs(K[i][j]) < 1e-9 * kmax ? 0.0 : K[i][j] / 1e3;
+    }
+}
+
+/* ---- balance over a water-level envelope ---- */
+
+void hf_results_where(const hf_model *m, const hf_analysis_where *w, char *buf, size_t cap)
+{
+    if (w->load >= m->nloads) {
+        snprintf(buf, cap, "-");
+        return;
+    }
+    char cn[HF_MODEL_MAX_NAME + 16];
+    if (w->cond == 0)
+        snprintf(cn, sizeof cn, "intact");
+    else
+        snprintf(cn, sizeof cn, "broken:%s", hf_results_line_name(m, w->cond - 1));
+    snprintf(buf, cap, "%s, %s, %.3g m", m->loads[w->load].name, cn, w->level);
+}
+
+void hf_results_envelope_scope(const hf_model *m, const hf_analysis_envelope *e, char *buf,
+                               size_t cap)
+{
+    double lo = INFINITY, hi = -INFINITY;
+    for (size_t k = 0; k < e->nlevels; k++)
+        lo = fmin(lo, e->level[k]), hi = fmax(hi, e->level[k]);
+    char lv[96];
+    if (e->nlevels == 1)
+        snprintf(lv, sizeof lv, "1 water level (%.3g m)", lo);
+    else
+        snprintf(lv, sizeof lv, "%zu water levels (%.3g to %.3g m)", e->nlevels, lo, hi);
+    snprintf(buf, cap,
+             "%zu load case%s x %s x %zu conditions (intact and each of %zu lines broken) = %zu "
+             "conditions",
+             e->nloads, e->nloads == 1 ? "" : "s", lv, m->nlines + 1, m->nlines,
+             e->nloads * e->nlevels * (m->nlines + 1));
+}
+
+static int same_where(const hf_analysis_where *a, const hf_analysis_where *b)
+{
+    return a->load == b->load && a->cond == b->cond && a->level == b->level;
+}
+
+/* Where the anchor values of el were found: once when they agree, else each. */
+static void envelope_anchor_where(FILE *out, const hf_model *m, const hf_analysis_envelope_line *el,
+                                  int gravity)
+{
+    const hf_analysis_where *w[4] = {&el->anchor_load_at, &el->angle_at, &el->sliding_at,
+                                     &el->uplift_at};
+    static const char *const what[4] = {"load", "angle", "sliding", "uplift"};
+    hf_analysis_where flat = {(size_t)-1, 0, 0.0};
+    if (!(el->angle > 0.0))
+        w[1] = &flat; /* no uplift anywhere: no place to name */
+    int all = 1;
+    for (int k = 1; k < (gravity ? 4 : 2); k++)
+        all &= w[k]->load == (size_t)-1 || same_where(w[0], w[k]);
+    char buf[2 * HF_MODEL_MAX_NAME + 64];
+    fprintf(out, "      at:");
+    for (int k = 0; k < (all ? 1 : gravity ? 4 : 2); k++) {
+        if (w[k]->load == (size_t)-1)
+            continue;
+        hf_results_where(m, w[k], buf, sizeof buf);
+        fprintf(out, "%s%s%s %s", k ? ";" : "", all ? "" : " ", all ? "" : what[k], buf);
+    }
+    fputc('\n', out);
+}
+
+/* One anchor's lines of the envelope summary. */
+static void envelope_anchor(FILE *out, const hf_model *m, size_t i,
+                            const hf_analysis_envelope_line *el)
+{
+    char w[2 * HF_MODEL_MAX_NAME + 64];
+    const hf_anchor *a = &m->lines[i].anchor_spec;
+    int gravity = a->kind == HF_ANCHOR_GRAVITY;
+    fprintf(out, "  %-18s %-8s", hf_results_line_name(m, i), hf_criteria_anchor_kind_name(a->kind));
+    if (el->anchor_load_at.load == (size_t)-1) {
+        fprintf(out, " no result\n");
+        return;
+    }
+    fprintf(out, " load %.1f kN, angle %.2f deg", el->anchor_load / 1e3, el->angle * RAD2DEG);
+    if (a->kind == HF_ANCHOR_DRAG)
+        fprintf(out, " (allowed %.2f)", a->max_uplift_angle * RAD2DEG);
+    if (gravity) {
+        double rs, ru;
+        hf_criteria_block_required(&m->criteria, a, &rs, &ru);
+        if (el->sliding_at.load != (size_t)-1)
+            fprintf(out, ", sliding %.3f (>= %.2f)", el->sliding, rs);
+        else
+            fprintf(out, ", sliding - (never pulled)");
+        if (el->uplift_at.load != (size_t)-1)
+            fprintf(out, ", uplift %.3f (>= %.2f)", el->uplift, ru);
+        else
+            fprintf(out, ", uplift - (never lifted)");
+    }
+    if (a->kind == HF_ANCHOR_PILE || a->kind == HF_ANCHOR_PLATE) {
+        fprintf(out, "  reported only\n");
+    } else if (el->anchor_failed) {
+        hf_results_where(m, &el->anchor_fail_at, w, sizeof w);
+        fprintf(out, "  FAIL in %zu conditions (first: %s)\n", el->anchor_failed, w);
+    } else {
+        fprintf(out, "  PASS\n");
+    }
+    envelope_anchor_where(out, m, el, gravity);
+}
+
+void hf_results_envelope_summary_write(FILE *out, const hf_model *m, const hf_analysis_envelope *e)
+{
+    char buf[512], w[2 * HF_MODEL_MAX_NAME + 64];
+    hf_results_envelope_scope(m, e, buf, sizeof buf);
+    fprintf(out, "\nenvelope: %s\n", buf);
+    fprintf(out, "worst line tension over the envelope:\n");
+    fprintf(out, "  %-18s %10s %11s %8s  %s\n", "line", "Tmax kN", "utilisation", "MBL/T",
+            "load, condition, water level");
+    for (size_t i = 0; i < m->nlines && i < e->nlines; i++) {
+        const hf_analysis_envelope_line *el = &e->line[i];
+        hf_results_where(m, &el->at, w, sizeof w);
+        if (el->at.load == (size_t)-1) {
+            fprintf(out, "  %-18s %10s %11s %8s  %s\n", hf_results_line_name(m, i), "-", "-", "-",
+                    "no result");
+            continue;
+        }
+        char fac[32];
+        if (el->utilisation > 0.0)
+            snprintf(fac, sizeof fac, "%.3f", 1.0 / el->utilisation);
+        else
+            snprintf(fac, sizeof fac, "-");
+        fprintf(out, "  %-18s %10.1f %11.4f %8s  %s%s\n", hf_results_line_name(m, i),
+                el->tension / 1e3, el->utilisation, fac, w,
+                hf_criteria_overloaded(el->utilisation) ? "  OVERLOADED" : "");
+    }
+    fprintf(out, "anchors over the envelope (largest load and angle, smallest factors)%s:\n",
+            m->criteria.anchor_ignore_friction ? ", line's seabed friction ignored" : "");
+    for (size_t i = 0; i < m->nlines && i < e->nlines; i++)
+        envelope_anchor(out, m, i, &e->line[i]);
+    if (e->overloaded) {
+        hf_analysis_where at = e->overload_at;
+        hf_results_where(m, &at, w, sizeof w);
+        fprintf(out, "OVERLOADED: %zu conditions have a line at or beyond its MBL; worst: %s at "
+                     "utilisation %.3f (%s)\n",
+                e->overloaded, hf_results_line_name(m, e->overload_line), e->overload_utilisation,
+                w);
     }
 }

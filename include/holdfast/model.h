@@ -65,6 +65,9 @@ typedef struct {
     double weight;           /* gravity block: submerged weight, N */
     double friction;         /* gravity block on the seabed, -; default 0.5 */
     double max_uplift_angle; /* drag anchor: allowed uplift angle, rad; default 0 */
+    /* gravity block: required factors of this line (block_sliding_factor,
+     * block_uplift_factor); 0 = the case's (hf_criteria) */
+    double required_sliding, required_uplift;
 } hf_anchor;
 
 typedef struct {
@@ -114,6 +117,12 @@ typedef struct {
     double factor_damaged; /* one line broken; 0 = no check */
     double max_offset;     /* allowed horizontal offset, m; 0 = no check */
     const char *source;    /* static text: where the factors come from */
+    /* anchors (docs/criteria.md section 3): required gravity-block factors of
+     * every line that gives none (block_sliding_factor, block_uplift_factor;
+     * 0 = HF_CRITERIA_GRAVITY_*, 1.0), and anchor_line_friction: ignore (1)
+     * to take anchor loads with the grounded line's seabed friction ignored */
+    double block_sliding, block_uplift;
+    int anchor_ignore_friction;
 } hf_criteria;
 
 typedef struct {
