@@ -96,7 +96,7 @@ static const bad_case bad[] = {
      6, 1, "YAML syntax: found a tab character that violates indentation"},
     {"unknown top-level key", HEAD "lins:\n  - name: a\n", HF_EINVAL, 4, 1,
      "expected a key of a case file (title, site, components, lines, hull, loads, criteria, "
-     "studies), got \"lins\"; did you mean \"lines\"?"},
+     "studies, environments), got \"lins\"; did you mean \"lines\"?"},
     {"unknown line key",
      HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
           "    fairlead: [0, 0, -9]\n    sectoins:\n      - {component: chain76, length: 520 m}\n",
