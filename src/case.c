@@ -1100,8 +1100,8 @@ static hf_status load_criteria(ctx *c, const node *n)
 
 /* ---- studies ---- */
 
-static const char *const kind_names[] = {"lines",   "curve", "stiffness",
-                                         "balance", "sweep", "invert"};
+static const char *const kind_names[] = {"lines", "curve",  "stiffness", "balance",
+                                         "sweep", "invert", "design"};
 static const char *const *const study_keys[] = {
     (const char *const[]){"name", "kind", "offset", NULL},
     (const char *const[]){"name", "kind", "direction", "range", NULL},
@@ -1109,9 +1109,11 @@ static const char *const *const study_keys[] = {
     (const char *const[]){"name", "kind", "loads", NULL},
     (const char *const[]){"name", "kind", "vary", "combine", "outputs", NULL},
     (const char *const[]){"name", "kind", "vary", "target", NULL},
+    (const char *const[]){"name", "kind", "environments", NULL}, /* case_env.c */
 };
 static const char *const study_what[] = {"a lines study",   "a curve study", "a stiffness study",
-                                         "a balance study", "a sweep study", "an invert study"};
+                                         "a balance study", "a sweep study", "an invert study",
+                                         "a design study"};
 static const char *const vary_keys[] = {"path", "range", "values", NULL};
 static const char *const invert_vary_keys[] = {"path", "range", NULL};
 static const char *const target_keys[] = {"output", "line", "value", NULL};
@@ -1511,9 +1513,10 @@ static hf_status study_invert(ctx *c, const node *n, hf_study *s)
 
 /* One loader per study kind, indexed by hf_study_kind. */
 typedef hf_status (*study_loader)(ctx *, const node *, hf_study *);
-static const study_loader study_body[] = {study_offset,  study_curve, study_offset,
-                                          study_balance, study_sweep, study_invert};
-_Static_assert(sizeof study_body / sizeof study_body[0] == HF_STUDY_INVERT + 1,
+static const study_loader study_body[] = {study_offset,     study_curve, study_offset,
+                                          study_balance,    study_sweep, study_invert,
+                                          hf_case_env_study};
+_Static_assert(sizeof study_body / sizeof study_body[0] == HF_STUDY_DESIGN + 1,
                "one loader per hf_study_kind");
 
 static hf_status load_study(ctx *c, const node *n, size_t index)
@@ -1526,9 +1529,9 @@ static hf_status load_study(ctx *c, const node *n, size_t index)
     if (!kn)
         return missing(c, n, "kind",
                        "a study kind (lines, curve, stiffness, balance, sweep, "
-                       "invert)");
+                       "invert, design)");
     size_t k, mark = pushkey(c, "kind");
-    hf_status st = choose(c, kn, "a study kind", kind_names, 6, &k);
+    hf_status st = choose(c, kn, "a study kind", kind_names, 7, &k);
     pop(c, mark);
     if (st != HF_OK)
         return st;

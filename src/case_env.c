@@ -343,3 +343,40 @@ hf_status hf_case_env_list(ctx *c, const node *n)
     hf_env_workspace_free(ws);
     return st;
 }
+
+/* ---- the design study ---- */
+
+hf_status hf_case_env_study(ctx *c, const node *n, hf_study *s)
+{
+    char gotbuf[96];
+    const hf_designdata *d = c->m->design;
+    if (!d || d->nenv == 0)
+        return hf_case_tree_fail(c, n,
+                                 "expected an environments: list in the case for a design study, "
+                                 "got none");
+    const node *v = hf_case_tree_get(n, "environments");
+    if (!v)
+        return HF_OK;
+    size_t mark = hf_case_tree_pushkey(c, "environments");
+    hf_status st = HF_OK;
+    if (v->type != N_SEQ || v->n == 0)
+        st = hf_case_tree_fail(c, v, "expected a list of environment names, got %s",
+                               v->type == N_SEQ ? "an empty list" : GOT(v));
+    else if (!(s->environments = hf_calloc(v->n, sizeof *s->environments)))
+        st = hf_case_tree_nomem(c);
+    for (size_t i = 0; st == HF_OK && i < v->n; i++) {
+        size_t m2 = hf_case_tree_pushindex(c, i);
+        st = hf_case_tree_name_dup(c, v->kids[i], "an environment name", &s->environments[i]);
+        if (st == HF_OK) {
+            s->nenvironments = i + 1;
+            if (hf_designdata_env_find(d, s->environments[i]) == (size_t)-1)
+                st = hf_case_tree_fail(c, v->kids[i],
+                                       "expected the name of an environment of "
+                                       "the case, got %s",
+                                       GOT(v->kids[i]));
+        }
+        hf_case_tree_pop(c, m2);
+    }
+    hf_case_tree_pop(c, mark);
+    return st;
+}

@@ -63,5 +63,8 @@ hf_status hf_case_tree_name_dup(ctx *c, const node *n, const char *what, char **
  * c->m->design (allocated on first use). */
 hf_status hf_case_env_hull(ctx *c, const node *n);
 hf_status hf_case_env_list(ctx *c, const node *n);
+/* The body of a `kind: design` study (its optional environments: list of
+ * names, each an environment of the case). */
+hf_status hf_case_env_study(ctx *c, const node *n, hf_study *s);
 
 #endif

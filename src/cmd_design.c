@@ -239,3 +239,60 @@ int hf_cmd_design(int argc, char **argv)
     hf_model_free(&m);
     return rc;
 }
+
+/* ---- for `holdfast check` ---- */
+
+static void check_tables(const hf_designdata *d)
+{
+    printf("\nhull for the design method: mass %.6g t (added %.6g t surge, %.6g t sway), yaw "
+           "inertia %.4g t m^2 (added %.4g), damping %.3g/%.3g/%.3g %% of critical\n",
+           d->mass / 1e3, d->added_mass[0] / 1e3, d->added_mass[1] / 1e3, d->yaw_inertia / 1e3,
+           d->added_yaw_inertia / 1e3, 100 * d->damping[0], 100 * d->damping[1],
+           100 * d->damping[2]);
+    printf("  areas: wind %.4g m^2, current %.4g m^2; length %.4g m\n", d->wind_area,
+           d->current_area, d->length);
+    for (int i = 0; i < HF_DD_NTABLES; i++) {
+        const hf_table *t = d->table[i];
+        if (!t)
+            continue;
+        double lo, hi;
+        hf_table_freq_range(t, &lo, &hi);
+        printf("  %-21s %s: ", hf_designdata_table_key(i), d->path[i]);
+        if (hf_table_nfreq(t))
+            printf("%zu frequencies %.3g to %.3g rad/s, ", hf_table_nfreq(t), lo, hi);
+        printf("%zu headings (largest gap %.1f deg)\n", hf_table_nheading(t),
+               hf_table_heading_gap_max(t) * RAD2DEG);
+    }
+}
+
+void hf_cmd_design_check_print(const hf_model *m)
+{
+    const hf_designdata *d = m->design;
+    if (!d)
+        return;
+    check_tables(d);
+    printf("\nenvironments (%zu; directions toward; coverage at the rest heading):\n", d->nenv);
+    hf_error err;
+    hf_env_workspace *ws = d->nenv ? hf_env_workspace_alloc(&err) : NULL;
+    hf_env_hull h;
+    hf_designdata_hull(d, m->site.water_density, &h);
+    for (size_t i = 0; i < d->nenv; i++) {
+        const hf_environment *e = &d->env[i].env;
+        printf("  %-20s", d->env[i].name);
+        if (e->has_wind)
+            printf(" wind %.3g m/s toward %.1f deg;", e->wind.speed, e->wind.direction * RAD2DEG);
+        if (e->has_current)
+            printf(" current %.3g m/s toward %.1f deg;", e->current.speed,
+                   e->current.direction * RAD2DEG);
+        if (e->has_waves)
+            printf(" waves Hs %.3g m, Tp %.3g s, gamma %.3g toward %.1f deg;", e->waves.hs,
+                   e->waves.tp, e->waves.gamma, e->waves.direction * RAD2DEG);
+        printf(" %.3g h\n", e->duration / 3600.0);
+        double out[2];
+        if (ws && e->has_waves && hf_env_check(&h, e, m->hull.heading, ws, out, &err) == HF_OK)
+            printf("  %-20s spectral energy outside the tables: RAOs %.3g %%, drift %.3g %% "
+                   "(at most %.3g %%)\n",
+                   "", 100 * out[0], 100 * out[1], 100 * HF_ENV_OUTSIDE_MAX);
+    }
+    hf_env_workspace_free(ws);
+}
