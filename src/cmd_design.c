@@ -95,9 +95,14 @@ static void print_budget(FILE *out, const hf_model *m, const hf_design_result *r
             r->mean.total_global[2] / 1e3);
     fprintf(out, "     T_n       surge %.1f s, sway %.1f s, yaw %.1f s\n", d[0].lf_period,
             d[1].lf_period, d[2].lf_period);
-    fprintf(out, "     LF        sig %.2f m, max %.2f m (surge var %.4g m^2, white noise %.4g)\n",
-            g->lf_sig, g->lf_max, d[0].lf_var, d[0].lf_var_white);
-    fprintf(out, "     WF        sig %.2f m, max %.2f m\n", g->wf_sig, g->wf_max);
+    fprintf(out, "     LF        sig %.2f m, max %.2f m along the mean offset\n", g->lf_sig,
+            g->lf_max);
+    fprintf(out,
+            "               variance surge %.4g m^2, sway %.4g m^2 (white-noise approximation "
+            "%.4g, %.4g)\n",
+            d[0].lf_var, d[1].lf_var, d[0].lf_var_white, d[1].lf_var_white);
+    fprintf(out, "     WF        sig %.2f m, max %.2f m along the mean offset\n", g->wf_sig,
+            g->wf_max);
     fprintf(out, "     LFmax+WFsig %.2f m, LFsig+WFmax %.2f m\n", g->combo_lf_max, g->combo_wf_max);
     fprintf(out, "     design    %8.2f m, yaw %.2f deg", g->offset, g->yaw * RAD2DEG);
     if (r->offset_checked)
