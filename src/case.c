@@ -434,7 +434,49 @@ static hf_status choose(ctx *c, const node *n, const char *what, const char *con
 
 /* ---- site ---- */
 
-static const char *const site_keys[] = {"depth", "water_density", "water_level", NULL};
+static const char *const site_keys[] = {"depth", "water_density", "water_level", "water_levels",
+                                        NULL};
+
+/* site.water_levels (helper A, issue 13): a list of still water levels; a
+ * list of two is the range [low, high], expanded to low, low + 0.1 m, ...
+ * and high itself (HF_MODEL_LEVEL_STEP).  Each level must lie above the
+ * seabed; a range needs low < high. */
+static hf_status water_levels(ctx *c, const node *n, hf_site *s)
+{
+    char gotbuf[96];
+    if (n->type != N_SEQ || n->n == 0 || n->n > HF_MODEL_MAX_LEVELS)
+        return fail(c, n, "expected a list of water levels ([low, high] or up to %d levels), got %s",
+                    HF_MODEL_MAX_LEVELS, n->type == N_SEQ ? "an empty or too long list" : GOT(n));
+    double v[HF_MODEL_MAX_LEVELS];
+    for (size_t i = 0; i < n->n; i++) {
+        size_t mark = push(c, "[%zu]", i);
+        hf_status st = quantity(c, n->kids[i], HF_DIM_LENGTH, &v[i]);
+        if (st == HF_OK && !(s->depth + v[i] > 0.0))
+            st = fail(c, n->kids[i], "expected a water level above the seabed (> -%g m), got %s",
+                      s->depth, GOT(n->kids[i]));
+        pop(c, mark);
+        if (st != HF_OK)
+            return st;
+    }
+    s->water_levels_range = n->n == 2;
+    if (n->n != 2) {
+        memcpy(s->water_levels, v, n->n * sizeof *v);
+        s->nwater_levels = n->n;
+        return HF_OK;
+    }
+    double span = (v[1] - v[0]) / HF_MODEL_LEVEL_STEP;
+    if (!(span > 0.0) || span > HF_MODEL_MAX_LEVELS - 2)
+        return fail(c, n,
+                    "expected [low, high] with low < high and at most %d levels %g m apart, "
+                    "got [%s, %s]",
+                    HF_MODEL_MAX_LEVELS, HF_MODEL_LEVEL_STEP, n->kids[0]->text, n->kids[1]->text);
+    size_t k = 0;
+    while (k < HF_MODEL_MAX_LEVELS - 1 && (double)k < span - 1e-6)
+        s->water_levels[k] = v[0] + (double)k * HF_MODEL_LEVEL_STEP, k++;
+    s->water_levels[k++] = v[1];
+    s->nwater_levels = k;
+    return HF_OK;
+}
 
 static hf_status load_site(ctx *c, const node *n)
 {
@@ -452,6 +494,11 @@ static hf_status load_site(ctx *c, const node *n)
         st = fail(c, get(n, "water_level"),
                   "expected a water level above the seabed (> -%g m), got %s", s->depth,
                   GOT(get(n, "water_level")));
+        pop(c, mark);
+    }
+    if (st == HF_OK && get(n, "water_levels")) {
+        size_t mark = pushkey(c, "water_levels");
+        st = water_levels(c, get(n, "water_levels"), s);
         pop(c, mark);
     }
     return st;
@@ -563,9 +610,12 @@ static hf_status load_components(ctx *c, const node *n)
 
 /* ---- lines ---- */
 
+static hf_status factor(ctx *c, const node *map, const char *key, double *out);
+
 static const char *const line_keys[] = {"name",           "anchor",      "fairlead",
                                         "sections",       "anchor_kind", "block_weight",
-                                        "block_friction", "max_uplift",  NULL};
+                                        "block_friction", "max_uplift",
+                                        "block_sliding_factor", "block_uplift_factor", NULL};
 static const char *const piece_keys[] = {"component", "length", "clump", "buoy", "friction", NULL};
 static const char *const anchor_kinds[] = {"drag", "gravity", "pile", "plate"};
 
@@ -771,8 +821,10 @@ static hf_status line_anchor(ctx *c, const node *n, hf_anchor *a)
         hf_anchor_kind kind;
     } only[] = {{"block_weight", HF_ANCHOR_GRAVITY},
                 {"block_friction", HF_ANCHOR_GRAVITY},
-                {"max_uplift", HF_ANCHOR_DRAG}};
-    for (size_t i = 0; i < 3; i++)
+                {"max_uplift", HF_ANCHOR_DRAG},
+                {"block_sliding_factor", HF_ANCHOR_GRAVITY},
+                {"block_uplift_factor", HF_ANCHOR_GRAVITY}};
+    for (size_t i = 0; i < sizeof only / sizeof only[0]; i++)
         if (get(n, only[i].key) && a->kind != only[i].kind) {
             size_t mark = pushkey(c, only[i].key);
             hf_status st = fail(c, getkey(n, only[i].key),
@@ -786,6 +838,10 @@ static hf_status line_anchor(ctx *c, const node *n, hf_anchor *a)
         st = req_quantity(c, n, "block_weight", HF_DIM_FORCE, POSITIVE, &a->weight);
         if (st == HF_OK)
             st = opt_quantity(c, n, "block_friction", HF_DIM_NONE, NONNEG, &a->friction);
+        if (st == HF_OK) /* helper A, issue 13: required factors of this block */
+            st = factor(c, n, "block_sliding_factor", &a->required_sliding);
+        if (st == HF_OK)
+            st = factor(c, n, "block_uplift_factor", &a->required_uplift);
     } else if (a->kind == HF_ANCHOR_DRAG) {
         st = opt_quantity(c, n, "max_uplift", HF_DIM_ANGLE, NONNEG, &a->max_uplift_angle);
         if (st == HF_OK && !(a->max_uplift_angle < M_PI / 2)) {
@@ -1028,8 +1084,15 @@ static hf_status load_loads(ctx *c, const node *n)
 
 /* ---- criteria ---- */
 
-static const char *const criteria_keys[] = {"preset",         "analysis",   "intact_factor",
-                                            "damaged_factor", "max_offset", NULL};
+static const char *const criteria_keys[] = {"preset",
+                                            "analysis",
+                                            "intact_factor",
+                                            "damaged_factor",
+                                            "max_offset",
+                                            "block_sliding_factor",
+                                            "block_uplift_factor",
+                                            "anchor_line_friction",
+                                            NULL};
 static const char *const analysis_names[] = {"quasi-static", "dynamic"};
 
 static hf_status factor(ctx *c, const node *map, const char *key, double *out)
@@ -1047,6 +1110,27 @@ static hf_status factor(ctx *c, const node *map, const char *key, double *out)
     }
     if (st == HF_OK)
         *out = f;
+    return st;
+}
+
+/* The anchor keys of `criteria:` (helper A, issue 13): required gravity-block
+ * factors for every line that gives none, and whether anchor loads include
+ * the grounded line's seabed friction (include, the default) or not (ignore). */
+static hf_status anchor_criteria(ctx *c, const node *n, hf_criteria *cr)
+{
+    static const char *const friction_names[] = {"include", "ignore"};
+    hf_status st = factor(c, n, "block_sliding_factor", &cr->block_sliding);
+    if (st == HF_OK)
+        st = factor(c, n, "block_uplift_factor", &cr->block_uplift);
+    const node *fn = get(n, "anchor_line_friction");
+    if (st == HF_OK && fn) {
+        size_t k, mark = pushkey(c, "anchor_line_friction");
+        st = choose(c, fn, "how anchor loads take the line's seabed friction", friction_names, 2,
+                    &k);
+        pop(c, mark);
+        if (st == HF_OK)
+            cr->anchor_ignore_friction = k == 1;
+    }
     return st;
 }
 
@@ -1095,6 +1179,8 @@ static hf_status load_criteria(ctx *c, const node *n)
         st = factor(c, n, "damaged_factor", &cr->factor_damaged);
     if (st == HF_OK)
         st = opt_quantity(c, n, "max_offset", HF_DIM_LENGTH, NONNEG, &cr->max_offset);
+    if (st == HF_OK)
+        st = anchor_criteria(c, n, cr);
     return st;
 }
 

@@ -26,31 +26,67 @@ static void report_fail_note(hf_report *rep, const char *what, const hf_error *e
     hf_report_note(rep, "note", buf);
 }
 
-/* Elevation figures of every solved line of r (at most `max` lines). */
+/* One elevation per group of identical lines of r at `pose` (at most `max`
+ * groups; hf_report_line_groups), then every line overlaid in one figure
+ * when there are two groups or more.  Broken and unsolved lines are left
+ * out. */
 static void report_elevations(hf_report *rep, const hf_model *m, const hf_spread_result *r,
-                              size_t max, const char *when)
+                              const hf_pose *pose, size_t max, const char *when)
 {
-    size_t n = m->nlines < max ? m->nlines : max;
-    for (size_t i = 0; i < n; i++) {
-        if (r->broken[i] || r->states[i].status != HF_OK)
+    size_t nl = m->nlines, *group = hf_malloc(nl * sizeof *group),
+           *idx = hf_malloc(nl * sizeof *idx), shown = 0, ngroups = 0;
+    hf_error e;
+    hf_error_clear(&e);
+    if (!group || !idx) {
+        hf_error_set(&e, HF_ENOMEM, "out of memory");
+        report_fail_note(rep, "The elevations", &e);
+        nl = 0;
+    } else {
+        ngroups = hf_report_line_groups(m, pose, group);
+    }
+    for (size_t i = 0; i < nl && shown < max; i++) {
+        size_t n = 0;
+        for (size_t j = i; group[i] == i && j < nl; j++)
+            if (group[j] == i && !r->broken[j] && r->states[j].status == HF_OK)
+                idx[n++] = j;
+        if (n == 0)
             continue;
-        hf_error e;
-        hf_error_clear(&e);
         FILE *f = hf_report_figure_begin(rep);
-        hf_status st = hf_report_svg_elevation(f, m, i, &r->states[i], 0, &e);
-        char cap[HF_MODEL_MAX_NAME + 128];
-        snprintf(cap, sizeof cap, "Line %s %s: profile and tension along the line.",
-                 m->lines[i].name, when);
+        hf_status st = hf_report_svg_elevation_group(f, m, idx, n, &r->states[idx[0]], 0, &e);
+        char cap[HF_MODEL_MAX_NAME + 200];
+        if (n == 1)
+            snprintf(cap, sizeof cap, "Line %s %s: profile and tension along the line.",
+                     m->lines[idx[0]].name, when);
+        else
+            snprintf(cap, sizeof cap,
+                     "%zu lines of one make-up and geometry (up to a rotation) %s, drawn once: "
+                     "profile and tension along the line.",
+                     n, when);
         hf_report_figure_end(rep, cap);
         if (st != HF_OK)
             report_fail_note(rep, "An elevation", &e);
+        shown++;
     }
-    if (m->nlines > n) {
-        char buf[128];
-        snprintf(buf, sizeof buf, "Elevations of the first %zu of %zu lines are shown.", n,
-                 m->nlines);
+    if (ngroups > shown) {
+        char buf[160];
+        snprintf(buf, sizeof buf, "Elevations of the first %zu of %zu groups of lines are shown.",
+                 shown, ngroups);
         hf_report_paragraph(rep, buf);
     }
+    if (ngroups >= 2) {
+        FILE *f = hf_report_figure_begin(rep);
+        hf_status st = hf_report_svg_elevation_overlay(f, m, r, 0, &e);
+        char cap[160];
+        snprintf(cap, sizeof cap,
+                 "Every line %s overlaid, each in its own vertical plane with its anchor at "
+                 "distance 0.",
+                 when);
+        hf_report_figure_end(rep, cap);
+        if (st != HF_OK)
+            report_fail_note(rep, "The overlay", &e);
+    }
+    hf_free(group);
+    hf_free(idx);
 }
 
 /* The rest pose: plan and every line's elevation. */
@@ -70,7 +106,7 @@ void hf_studyrun_rest(hf_report *rep, const hf_model *m)
     hf_analysis_pose_init(&at);
     static const double zero[3] = {0.0, 0.0, 0.0};
     if (hf_analysis_pose_solve(&at, m, zero, 0, &e) == HF_OK)
-        report_elevations(rep, m, &at.res, 12, "at rest");
+        report_elevations(rep, m, &at.res, &at.pose, 12, "at rest");
     else
         report_fail_note(rep, "The rest pose", &e);
     hf_analysis_pose_clear(&at);
@@ -191,7 +227,8 @@ static void sweep_figure(hf_report *rep, const hf_model *m, const hf_study *s,
         output_label(t, yl, sizeof yl);
         sweep_legend(s, ic, ncurves, names, cn);
         hf_output_kind k0 = t->cols[0].kind;
-        int util = k0 == HF_OUT_UTILISATION || k0 == HF_OUT_MAX_UTILISATION;
+        int util = k0 == HF_OUT_UTILISATION || k0 == HF_OUT_MAX_UTILISATION ||
+                   k0 == HF_OUT_UTILISATION_AT || k0 == HF_OUT_MAX_UTILISATION_AT;
         /* Legend title: the last part of the curve parameter's path ("length");
          * the caption names the whole path. */
         const char *lt = strrchr(s->vary[ic].path, '.');
@@ -312,7 +349,7 @@ static hf_status run_lines(const hf_model *m, const hf_study *s, int jobs, FILE 
         }
         hf_report_table_end(rep);
         if (s->offset[0] != 0.0 || s->offset[1] != 0.0 || s->offset[2] != 0.0)
-            report_elevations(rep, m, &r, 12, "at this pose");
+            report_elevations(rep, m, &r, &at.pose, 12, "at this pose");
         else
             hf_report_paragraph(rep, "The pose is the rest pose: the elevations are above.");
     }
@@ -378,11 +415,12 @@ static hf_status run_curve(const hf_model *m, const hf_study *s, int jobs, FILE 
     for (size_t k = 0; k < n; k++)
         nonfinite += hf_results_curve_row_write(out, m, c, k);
     oc->nonfinite += nonfinite;
-    snprintf(oc->note, sizeof oc->note, "%zu offsets along %.4g deg, %zu failed", n,
-             s->direction * 180.0 / M_PI, c->nfailed);
+    char dir[32]; /* one convention: 0-360 deg counter-clockwise from x */
+    hf_svg_direction_label(s->direction, dir, sizeof dir);
+    snprintf(oc->note, sizeof oc->note, "%zu offsets along %s, %zu failed", n, dir, c->nfailed);
     char head[HF_MODEL_MAX_NAME + 64], label[64];
     snprintf(head, sizeof head, "Restoring curve: %s", s->name);
-    snprintf(label, sizeof label, "direction %.4g deg", s->direction * 180.0 / M_PI);
+    snprintf(label, sizeof label, "direction %s", dir);
     hf_report_section(rep, head,
                       "Restoring force and stiffness against a horizontal offset of the hull "
                       "along one direction, heading fixed; line tensions and utilisations.");
@@ -443,12 +481,24 @@ static void balance_check(const balance_ctx *c, const hf_load *l, const hf_balan
     hf_report_check(c->rep, item, req, res, r->passed);
 }
 
+/* What the check of condition r covered, for the report's verdict: the
+ * load case, the condition and the still water level it was solved at. */
+static void balance_scope(const balance_ctx *c, const hf_load *l, const hf_balance_result *r)
+{
+    size_t load = l >= c->m->loads && l < c->m->loads + c->m->nloads
+                      ? (size_t)(l - c->m->loads)
+                      : hf_model_load_find(c->m, l->name);
+    size_t cond = r->broken == HF_BALANCE_NONE ? 0 : r->broken + 1;
+    hf_report_scope_add(c->rep, load, cond, c->m->site.water_level);
+}
+
 static hf_status balance_row(void *ctx, const hf_load *l, const hf_balance_result *r, hf_error *err)
 {
     balance_ctx *c = ctx;
     (void)err;
     c->nonfinite += hf_results_balance_row_write(c->out, c->m, l, r);
     balance_check(c, l, r);
+    balance_scope(c, l, r);
     return HF_OK;
 }
 
@@ -603,6 +653,74 @@ static hf_status run_design(const hf_model *m, const hf_study *s, int jobs, FILE
     snprintf(oc->note, sizeof oc->note,
              "%zu conditions; %zu failed a criterion, %zu without a result", n.conditions, n.failed,
              n.noresult);
+    return HF_OK;
+}
+
+/* ---- the default studies of a case without a studies: section ---- */
+
+/* The 1-2-5 round number at or above x > 0 (1, 2, 5, 10, 20, ...). */
+static double round_up_125(double x)
+{
+    double p = pow(10.0, floor(log10(x)));
+    static const double f[] = {1.0, 2.0, 5.0, 10.0};
+    for (int i = 0; i < 4; i++)
+        if (f[i] * p >= x * (1.0 - 1e-12))
+            return f[i] * p;
+    return 10.0 * p;
+}
+
+double hf_studyrun_default_range(const hf_model *m)
+{
+    double r = 1.5 * m->criteria.max_offset;
+    if (!(r > 0)) {
+        hf_pose pose;
+        hf_spread_pose_rest(m, &pose);
+        double dmin = INFINITY;
+        for (size_t i = 0; i < m->nlines; i++) {
+            hf_spread_geom g;
+            if (hf_spread_line_geometry(m, i, &pose, &g, NULL) == HF_OK && g.x < dmin)
+                dmin = g.x;
+        }
+        r = isfinite(dmin) ? 0.1 * dmin : 1.0;
+    }
+    return round_up_125(r < 1.0 ? 1.0 : r);
+}
+
+/* Appends a study of kind k named `name` to sl (capacity 5). */
+static hf_study *add_default(hf_study_list *sl, const char *name, hf_study_kind k)
+{
+    hf_study *s = &sl->v[sl->n];
+    memset(s, 0, sizeof *s);
+    s->kind = k;
+    if (!(s->name = hf_strdup(name)))
+        return NULL;
+    sl->n++;
+    return s;
+}
+
+hf_status hf_studyrun_defaults(const hf_model *m, hf_study_list *sl, hf_error *err)
+{
+    hf_study_list_free(sl);
+    if (!m || m->nlines == 0)
+        return hf_error_set(err, HF_EINVAL, "default studies: the case has no lines");
+    if (!(sl->v = hf_calloc(5, sizeof *sl->v)))
+        return hf_error_set(err, HF_ENOMEM, "out of memory for the default studies");
+    double r = hf_studyrun_default_range(m), h = m->hull.heading;
+    hf_study *s[5] = {add_default(sl, "rest", HF_STUDY_LINES),
+                      add_default(sl, "stiffness", HF_STUDY_STIFFNESS),
+                      add_default(sl, "surge-curve", HF_STUDY_CURVE),
+                      add_default(sl, "sway-curve", HF_STUDY_CURVE),
+                      m->nloads ? add_default(sl, "balance", HF_STUDY_BALANCE) : NULL};
+    if (sl->n != (m->nloads ? 5u : 4u)) { /* a name could not be copied */
+        hf_study_list_free(sl);
+        return hf_error_set(err, HF_ENOMEM, "out of memory for the default studies");
+    }
+    for (int i = 2; i < 4; i++) {
+        s[i]->direction = h + (i == 3 ? M_PI / 2 : 0.0);
+        s[i]->from = -r;
+        s[i]->to = r;
+        s[i]->step = r / 20.0;
+    }
     return HF_OK;
 }
 

@@ -126,7 +126,7 @@ static void test_pass_csv(void **state)
     assert_int_equal(HF_TEST_RUN(&quiet, "balance", pass_case, "--csv", "-"), 0);
     char *cur = out, *line = hf_test_line_next(&cur);
     assert_non_null(line);
-    const char *head = "load,condition,status,surge_m,sway_m,yaw_deg,max_tension_kN,"
+    const char *head = "load,condition,water_level_m,status,surge_m,sway_m,yaw_deg,max_tension_kN,"
                        "max_tension_line,max_utilisation,criterion,passed,Tmax_ne_kN,Tmax_nw_kN,"
                        "Tmax_sw_kN,Tmax_se_kN,";
     assert_memory_equal(line, head, strlen(head));
@@ -137,21 +137,22 @@ static void test_pass_csv(void **state)
         for (int c = 0; c < 5; c++) {
             line = hf_test_line_next(&cur);
             assert_non_null(line);
-            char *f[32];
-            assert_true(hf_test_csv_split(line, f, 32) >= 15);
+            char *f[64];
+            assert_true(hf_test_csv_split(line, f, 64) >= 15);
             assert_string_equal(f[0], k == 0 ? "breeze" : "ebb");
             assert_string_equal(f[1], cond[c]);
-            assert_string_equal(f[2], "ok");
-            assert_string_equal(f[10], "1");
+            assert_string_equal(f[2], "0"); /* site.water_level, the default 0 */
+            assert_string_equal(f[3], "ok");
+            assert_string_equal(f[11], "1");
             if (c > 0) /* the broken line carries nothing */
-                assert_float_equal(strtod(f[10 + c], NULL), 0.0, 0.0);
+                assert_float_equal(strtod(f[11 + c], NULL), 0.0, 0.0);
             if (k == 0 && c == 0) {
                 /* wind toward +y on a hull symmetric about y: sway only */
-                assert_true(strtod(f[4], NULL) > 0.0);
-                assert_float_equal(strtod(f[3], NULL), 0.0, 1e-6);
-                assert_float_equal(strtod(f[5], NULL), 0.0, 1e-6);
+                assert_true(strtod(f[5], NULL) > 0.0);
+                assert_float_equal(strtod(f[4], NULL), 0.0, 1e-6);
+                assert_float_equal(strtod(f[6], NULL), 0.0, 1e-6);
                 /* >= 8 significant digits in the CSV */
-                assert_true(strlen(f[6]) >= 9);
+                assert_true(strlen(f[7]) >= 9);
             }
         }
     assert_null(hf_test_line_next(&cur));
@@ -192,12 +193,12 @@ static void test_criterion_fails(void **state)
     char *cur = out, *line = hf_test_line_next(&cur);
     line = hf_test_line_next(&cur);
     assert_non_null(line);
-    char *f[32];
-    assert_true(hf_test_csv_split(line, f, 32) >= 15);
+    char *f[64];
+    assert_true(hf_test_csv_split(line, f, 64) >= 15);
     assert_string_equal(f[1], "intact");
-    assert_true(!strcmp(f[9], "line_factor:nw") || !strcmp(f[9], "line_factor:sw"));
-    assert_string_equal(f[10], "0");
-    double t = strtod(f[6], NULL);
+    assert_true(!strcmp(f[10], "line_factor:nw") || !strcmp(f[10], "line_factor:sw"));
+    assert_string_equal(f[11], "0");
+    double t = strtod(f[7], NULL);
     assert_true(t >= 467.0 && 1380.0 / t < 3.0);
     /* the tight offset limit always fails, intact included */
     assert_int_equal(HF_TEST_RUN(&both, "balance", tight_case), 1);
@@ -205,7 +206,7 @@ static void test_criterion_fails(void **state)
     assert_non_null(strstr(out, "verdict: FAIL (governing: offset)"));
     assert_non_null(strstr(out, "CAUTION"));
     assert_int_equal(HF_TEST_RUN(&quiet, "balance", tight_case, "--csv", "-"), 1);
-    assert_non_null(strstr(out, "ebb,intact,ok,"));
+    assert_non_null(strstr(out, "ebb,intact,0,ok,"));
     assert_non_null(strstr(out, ",offset,0,"));
 }
 
@@ -217,7 +218,7 @@ static void test_no_equilibrium_exit(void **state)
     assert_non_null(strstr(out, "no equilibrium"));
     assert_non_null(strstr(out, "CAUTION"));
     assert_int_equal(HF_TEST_RUN(&quiet, "balance", noeq_case, "--csv", "-"), 3);
-    assert_non_null(strstr(out, "absurd,intact,no equilibrium,,,,,,,equilibrium,0,"));
+    assert_non_null(strstr(out, "absurd,intact,0,no equilibrium,,,,,,,equilibrium,0,"));
 }
 
 /* The pontoon with a pile at ne and a gravity block at nw (invented). */

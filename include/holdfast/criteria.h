@@ -140,6 +140,23 @@ typedef struct {
 #define HF_CRITERIA_GRAVITY_SLIDING 1.0
 #define HF_CRITERIA_GRAVITY_UPLIFT 1.0
 
+/* Required gravity-block factors for anchor a under criteria c: the line's
+ * own (a->required_*), else the case's (c->block_*), else the defaults
+ * HF_CRITERIA_GRAVITY_* (1.0).  Either output may be NULL. */
+void hf_criteria_block_required(const hf_criteria *c, const hf_anchor *a, double *sliding,
+                                double *uplift);
+
+/* The forces a solved line puts on its anchor for the anchor checks, N:
+ * *h horizontal (toward the fairlead), *v upward.  As solved (s->anchor_h,
+ * s->anchor_v) by default; with c->anchor_ignore_friction the seabed
+ * friction of the grounded line is ignored: on the flat seabed the only
+ * horizontal force along the line is that friction, so the anchor then sees
+ * the horizontal tension of the suspended part, the fairlead's s->h, and the
+ * same vertical force (0 whenever part of the line is grounded).  The
+ * conservative choice for anchor design. */
+void hf_criteria_anchor_forces(const hf_criteria *c, const hf_line_state *s, double *h,
+                               double *v);
+
 /* Evaluates the anchor of one line from the forces the line puts on it:
  * h (N, >= 0, toward the fairlead) and v (N, >= 0, upward).  Drag anchors
  * pass when the uplift angle is <= a->max_uplift_angle (+ tolerance); gravity

@@ -19,11 +19,21 @@
 /* Documented limits (errors name them when hit). */
 #define HF_MODEL_MAX_LINES 100000
 #define HF_MODEL_MAX_NAME 128
+#define HF_MODEL_MAX_LEVELS 512          /* still water levels of an envelope */
+#define HF_MODEL_LEVEL_STEP 0.1          /* m: spacing of a [low, high] envelope */
 
 typedef struct {
     double depth;         /* water depth from the datum to the flat seabed, m (> 0) */
     double water_level;   /* still water level above the datum (tide), m; default 0 */
     double water_density; /* kg/m^3; default 1025 */
+    /* The envelope of still water levels (tide plus surge) a design check covers
+     * (site.water_levels; docs/case-format.md), m above the datum, ascending as given.
+     * 0 levels: the case gives none, the checks cover water_level alone.  A case's
+     * [low, high] is expanded here: low, low + HF_MODEL_LEVEL_STEP, ... and high
+     * itself (water_levels_range 1). */
+    size_t nwater_levels;
+    int water_levels_range;
+    double water_levels[HF_MODEL_MAX_LEVELS];
 } hf_site;
 
 typedef struct {
@@ -55,6 +65,9 @@ typedef struct {
     double weight;           /* gravity block: submerged weight, N */
     double friction;         /* gravity block on the seabed, -; default 0.5 */
     double max_uplift_angle; /* drag anchor: allowed uplift angle, rad; default 0 */
+    /* gravity block: required factors of this line (block_sliding_factor,
+     * block_uplift_factor); 0 = the case's (hf_criteria) */
+    double required_sliding, required_uplift;
 } hf_anchor;
 
 typedef struct {
@@ -104,6 +117,12 @@ typedef struct {
     double factor_damaged; /* one line broken; 0 = no check */
     double max_offset;     /* allowed horizontal offset, m; 0 = no check */
     const char *source;    /* static text: where the factors come from */
+    /* anchors (docs/criteria.md section 3): required gravity-block factors of
+     * every line that gives none (block_sliding_factor, block_uplift_factor;
+     * 0 = HF_CRITERIA_GRAVITY_*, 1.0), and anchor_line_friction: ignore (1)
+     * to take anchor loads with the grounded line's seabed friction ignored */
+    double block_sliding, block_uplift;
+    int anchor_ignore_friction;
 } hf_criteria;
 
 typedef struct {
