@@ -7,7 +7,9 @@
 #include "holdfast/balance.h"
 #include "holdfast/caution.h"
 #include "holdfast/criteria.h"
+#include "holdfast/report_design.h"
 #include "holdfast/report.h"
+#include "holdfast/results.h"
 #include "holdfast/svg.h"
 
 #ifndef HF_VERSION
@@ -388,6 +390,7 @@ static void case_section(hf_report *r, const hf_model *m)
         }
         hf_report_table_end(r);
     }
+    hf_report_design_case(r, m); /* issue 14: hull design data, environments */
 }
 
 /* One property row: name, value with unit, source. */
@@ -542,11 +545,7 @@ void hf_report_scope_add(hf_report *r, size_t load, size_t cond, double level)
 
 size_t hf_report_levels_declared(const hf_model *m, double *out, size_t cap)
 {
-    if (!m)
-        return 0;
-    if (cap)
-        out[0] = m->site.water_level;
-    return 1;
+    return m ? hf_analysis_envelope_levels(m, out, cap) : 0;
 }
 
 /* What the checks covered against what the case declares. */
@@ -633,36 +632,70 @@ static void scope_missing(const hf_report *r, const scope_count *c, char *buf, s
         snprintf(buf + n, cap - n, " some checks did not record what they covered;");
 }
 
+/* The anchor part of the criteria sentence: the checks by anchor kind,
+ * the gravity blocks' required factors (the case's, or a range when lines
+ * set their own) and the anchor-load choice (seabed friction). */
+static void anchors_sentence(const hf_model *m, char *buf, size_t cap)
+{
+    int drag = 0, gravity = 0, other = 0;
+    double s_lo = INFINITY, s_hi = 0, u_lo = INFINITY, u_hi = 0;
+    for (size_t i = 0; i < m->nlines; i++) {
+        const hf_anchor *a = &m->lines[i].anchor_spec;
+        drag |= a->kind == HF_ANCHOR_DRAG;
+        other |= a->kind == HF_ANCHOR_PILE || a->kind == HF_ANCHOR_PLATE;
+        if (a->kind != HF_ANCHOR_GRAVITY)
+            continue;
+        gravity = 1;
+        double rs, ru;
+        hf_criteria_block_required(&m->criteria, a, &rs, &ru);
+        s_lo = fmin(s_lo, rs), s_hi = fmax(s_hi, rs), u_lo = fmin(u_lo, ru), u_hi = fmax(u_hi, ru);
+    }
+    char f[4][32], sl[80] = "", ul[80] = "";
+    hf_report_number(f[0], 32, s_lo, 4);
+    hf_report_number(f[1], 32, s_hi, 4);
+    hf_report_number(f[2], 32, u_lo, 4);
+    hf_report_number(f[3], 32, u_hi, 4);
+    if (gravity) {
+        snprintf(sl, sizeof sl, s_lo == s_hi ? "%s" : "%s to %s", f[0], f[1]);
+        snprintf(ul, sizeof ul, u_lo == u_hi ? "%s" : "%s to %s", f[2], f[3]);
+    }
+    size_t n = (size_t)snprintf(buf, cap, "anchors:%s%s",
+                                drag ? " drag anchors no uplift beyond "
+                                       "their allowed angle"
+                                     : "",
+                                drag && gravity ? "," : "");
+    if (gravity && n < cap)
+        n += (size_t)snprintf(buf + n, cap - n,
+                              " gravity blocks sliding factor at least %s and uplift factor at "
+                              "least %s",
+                              sl, ul);
+    if (other && n < cap)
+        n += (size_t)snprintf(buf + n, cap - n, "%s piles and plates reported without a check",
+                              drag || gravity ? "," : "");
+    if (n < cap)
+        snprintf(buf + n, cap - n, "; anchor loads %s",
+                 m->criteria.anchor_ignore_friction
+                     ? "with the grounded line's seabed friction ignored (anchor_line_friction: "
+                       "ignore)"
+                     : "as solved, the grounded line's seabed friction included");
+}
+
 /* Which criteria the checks apply: line factors, offset limit, anchors. */
 static void criteria_sentence(const hf_model *m, char *buf, size_t cap)
 {
     const hf_criteria *cr = &m->criteria;
-    char a[32], b[32], o[48];
+    char a[32], b[32], o[48], an[400];
     hf_report_number(a, sizeof a, cr->factor_intact, 4);
     hf_report_number(b, sizeof b, cr->factor_damaged, 4);
     hf_report_number(o, sizeof o, cr->max_offset, 4);
-    int drag = 0, gravity = 0, other = 0;
-    for (size_t i = 0; i < m->nlines; i++) {
-        hf_anchor_kind k = m->lines[i].anchor_spec.kind;
-        drag |= k == HF_ANCHOR_DRAG;
-        gravity |= k == HF_ANCHOR_GRAVITY;
-        other |= k == HF_ANCHOR_PILE || k == HF_ANCHOR_PLATE;
-    }
-    size_t n = (size_t)snprintf(
-        buf, cap,
-        "Criteria: line safety factor MBL/T at least %s intact and %s with one line "
-        "broken%s%s%s; %s%s%s; anchors:%s%s%s%s.",
-        cr->factor_intact > 0 ? a : "(none)", cr->factor_damaged > 0 ? b : "(none)",
-        cr->preset ? " (" : "", cr->preset ? cr->preset : "", cr->preset ? ")" : "",
-        cr->max_offset > 0 ? "horizontal offset at most " : "no offset limit",
-        cr->max_offset > 0 ? o : "", cr->max_offset > 0 ? " m" : "",
-        drag ? " drag anchors no uplift beyond their allowed angle" : "",
-        drag && gravity ? "," : "",
-        gravity ? " gravity blocks sliding and uplift factors (equilibrium, factor 1)" : "",
-        other ? (drag || gravity ? ", piles and plates reported without a check"
-                                 : " piles and plates reported without a check")
-              : "");
-    (void)n;
+    anchors_sentence(m, an, sizeof an);
+    snprintf(buf, cap,
+             "Criteria: line safety factor MBL/T at least %s intact and %s with one line "
+             "broken%s%s%s, and no line at its MBL; %s%s%s; %s.",
+             cr->factor_intact > 0 ? a : "(none)", cr->factor_damaged > 0 ? b : "(none)",
+             cr->preset ? " (" : "", cr->preset ? cr->preset : "", cr->preset ? ")" : "",
+             cr->max_offset > 0 ? "horizontal offset at most " : "no offset limit",
+             cr->max_offset > 0 ? o : "", cr->max_offset > 0 ? " m" : "", an);
 }
 
 /* The verdict banner (shown first by CSS order). */
@@ -693,7 +726,7 @@ static void verdict(hf_report *r)
     }
     scope_count c;
     scope_counts(r, &c);
-    char sc[512], cr[640], miss[400];
+    char sc[512], cr[1024], miss[400];
     scope_sentence(&c, sc, sizeof sc);
     criteria_sentence(r->model, cr, sizeof cr);
     scope_missing(r, &c, miss, sizeof miss);
@@ -1082,4 +1115,107 @@ hf_status hf_report_svg_curve(FILE *out, const hf_model *m, const hf_analysis_cu
     hf_free(names);
     hf_free(lim);
     return s;
+}
+
+/* ---- balance over a water-level envelope (helper A, issue 13) ---- */
+
+/* A factor cell: the number, or "-" when none was found. */
+static void factor_cell(char *buf, size_t cap, double v, const hf_analysis_where *w)
+{
+    if (w->load == (size_t)-1)
+        snprintf(buf, cap, "-");
+    else
+        hf_report_number(buf, cap, v, 4);
+}
+
+/* The anchors' table of the envelope. */
+static void envelope_anchors(hf_report *r, const hf_model *m, const hf_analysis_envelope *e)
+{
+    static const char *const cols[] = {
+        "anchor",         "kind",          "largest load (kN)",           "uplift angle (deg)",
+        "sliding factor", "uplift factor", "required (sliding / uplift)", "check",
+        "where"};
+    hf_report_table_begin(r,
+                          m->criteria.anchor_ignore_friction
+                              ? "Anchors over the envelope (anchor loads with the seabed "
+                                "friction of the grounded line ignored)"
+                              : "Anchors over the envelope (anchor loads with the seabed "
+                                "friction of the grounded line)",
+                          cols, 9);
+    for (size_t i = 0; i < m->nlines && i < e->nlines; i++) {
+        const hf_analysis_envelope_line *el = &e->line[i];
+        const hf_anchor *a = &m->lines[i].anchor_spec;
+        char ld[32], ang[32], sl[32], up[32], req[64], chk[96], w[2 * HF_MODEL_MAX_NAME + 64];
+        factor_cell(ld, sizeof ld, el->anchor_load / 1e3, &el->anchor_load_at);
+        factor_cell(ang, sizeof ang, el->angle * 180.0 / M_PI, &el->angle_at);
+        factor_cell(sl, sizeof sl, el->sliding, &el->sliding_at);
+        factor_cell(up, sizeof up, el->uplift, &el->uplift_at);
+        double rs, ru;
+        hf_criteria_block_required(&m->criteria, a, &rs, &ru);
+        if (a->kind == HF_ANCHOR_GRAVITY)
+            snprintf(req, sizeof req, "%.2f / %.2f", rs, ru);
+        else if (a->kind == HF_ANCHOR_DRAG)
+            snprintf(req, sizeof req, "angle <= %.2f deg", a->max_uplift_angle * 180.0 / M_PI);
+        else
+            snprintf(req, sizeof req, "reported only");
+        const hf_analysis_where *at = &el->anchor_load_at;
+        if (el->anchor_failed) {
+            snprintf(chk, sizeof chk, "FAIL in %zu conditions", el->anchor_failed);
+            at = &el->anchor_fail_at;
+        } else {
+            snprintf(chk, sizeof chk, "%s",
+                     a->kind == HF_ANCHOR_PILE || a->kind == HF_ANCHOR_PLATE ? "-" : "PASS");
+            if (a->kind == HF_ANCHOR_GRAVITY && el->sliding_at.load != (size_t)-1)
+                at = &el->sliding_at;
+        }
+        hf_results_where(m, at, w, sizeof w);
+        const char *cells[] = {hf_results_line_name(m, i),
+                               hf_criteria_anchor_kind_name(a->kind),
+                               ld,
+                               ang,
+                               a->kind == HF_ANCHOR_GRAVITY ? sl : "-",
+                               a->kind == HF_ANCHOR_GRAVITY ? up : "-",
+                               req,
+                               chk,
+                               w};
+        hf_report_table_row(r, cells);
+    }
+    hf_report_table_end(r);
+}
+
+void hf_report_balance_envelope(hf_report *r, const hf_model *m, const hf_analysis_envelope *e)
+{
+    char scope[512], text[1024], w[2 * HF_MODEL_MAX_NAME + 64];
+    hf_results_envelope_scope(m, e, scope, sizeof scope);
+    snprintf(text, sizeof text, "Covered: %s.", scope);
+    hf_report_paragraph(r, text);
+    static const char *const cols[] = {"line", "largest tension (kN)", "utilisation T/MBL", "MBL/T",
+                                       "load case, condition, water level"};
+    hf_report_table_begin(r, "Worst tension of each line over the envelope", cols, 5);
+    for (size_t i = 0; i < m->nlines && i < e->nlines; i++) {
+        const hf_analysis_envelope_line *el = &e->line[i];
+        char t[32], u[32], f[32];
+        factor_cell(t, sizeof t, el->tension / 1e3, &el->at);
+        factor_cell(u, sizeof u, el->utilisation, &el->at);
+        factor_cell(f, sizeof f, el->utilisation > 0 ? 1.0 / el->utilisation : NAN, &el->at);
+        hf_results_where(m, &el->at, w, sizeof w);
+        const char *cells[] = {hf_results_line_name(m, i), t, u, f, w};
+        hf_report_table_row(r, cells);
+    }
+    hf_report_table_end(r);
+    envelope_anchors(r, m, e);
+    if (e->overloaded) {
+        hf_results_where(m, &e->overload_at, w, sizeof w);
+        snprintf(text, sizeof text,
+                 "OVERLOADED: %zu conditions have a line at or beyond its MBL; worst: %s at "
+                 "T/MBL %.3f (%s).",
+                 e->overloaded, hf_results_line_name(m, e->overload_line), e->overload_utilisation,
+                 w);
+        hf_report_note(r, "warning", text);
+    }
+    hf_results_where(m, &e->first_failed, w, sizeof w);
+    snprintf(text, sizeof text, "%zu of %zu conditions passed%s%s", e->count.passed,
+             e->count.conditions, e->count.failed ? "; first failure: " : "",
+             e->count.failed ? w : "");
+    hf_report_check(r, "balance envelope", scope, text, e->count.failed == 0);
 }

@@ -660,6 +660,104 @@ static void test_run_default_report(void **s)
     free(t);
 }
 
+/* The report's cell after `<td>name</td>` in the row of line `name` of the
+ * table captioned `caption`: cell k (0 = the one after the name), its text
+ * into buf (cap bytes). */
+static int report_cell(const char *html, const char *caption, const char *name, int k, char *buf,
+                       size_t cap)
+{
+    const char *t = strstr(html, caption);
+    char key[128];
+    snprintf(key, sizeof key, "<tr><td>%s</td>", name);
+    const char *r = t ? strstr(t, key) : NULL;
+    if (!r)
+        return 0;
+    r += strlen(key);
+    for (int i = 0; i <= k; i++) {
+        r = strstr(r, "<td");
+        if (!r)
+            return 0;
+        r = strchr(r, '>') + 1;
+        if (i == k) {
+            const char *e = strstr(r, "</td>");
+            snprintf(buf, cap, "%.*s", (int)(e - r), r);
+            return 1;
+        }
+    }
+    return 0;
+}
+
+/* Issue 13 item 5: the report's row per line over the water-level envelope
+ * (worst tension and where) equals the worst over separate `holdfast
+ * balance` runs of the case edited to each level (the reference the issue
+ * names). */
+static void test_run_envelope_table(void **s)
+{
+    (void)s;
+    static const double level[] = {-1.2, 0.9, 2.385};
+    const char *site = "site: {depth: 62 m}";
+    const char *at = strstr(hf_test_case_quarrel, site);
+    assert_non_null(at);
+    char text[4096];
+    snprintf(text, sizeof text,
+             "%.*ssite: {depth: 62 m, water_levels: [-1.2 m, 0.9 m, 2.385 m]}%s"
+             "studies:\n  - {name: storms, kind: balance}\n",
+             (int)(at - hf_test_case_quarrel), hf_test_case_quarrel, at + strlen(site));
+    char cp[600], out[600], rp[700];
+    snprintf(cp, sizeof cp, "%s", path_in("levels.yaml"));
+    snprintf(out, sizeof out, "%s", path_in("levels-run"));
+    write_file(cp, text, NULL);
+    /* exit 1: with southwest broken the buoy finds no equilibrium (a criterion failure) */
+    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "run", cp, "--out", out, "--quiet", NULL)), 1);
+    snprintf(rp, sizeof rp, "%s/report.html", out);
+    char *html = hf_test_file_read(rp, NULL);
+    assert_non_null(html);
+    assert_non_null(strstr(html, "3 of 3 still water levels (-1.2 to 2.385 m above datum)"));
+    static const char *const ln[3] = {"north", "southwest", "southeast"};
+    double worst[3] = {0, 0, 0};
+    char where[3][160];
+    for (size_t k = 0; k < 3; k++) {
+        char name[32], csv[32], *f[64];
+        snprintf(name, sizeof name, "edited-%zu.yaml", k);
+        snprintf(csv, sizeof csv, "edited-%zu.csv", k);
+        char *ep = path_in(name), *bp = path_in(csv);
+        write_file(ep, quarrel_at_level(level[k]), NULL);
+        int brc = exit_code(run(NULL, 0, 0, NULL, "balance", ep, "--csv", bp, NULL));
+        assert_true(brc == 0 || brc == 3);
+        char *bt = hf_test_file_read(bp, NULL), *cur = bt;
+        assert_non_null(bt);
+        size_t nf = hf_test_csv_split(hf_test_line_next(&cur), f, 64), col[3];
+        for (int i = 0; i < 3; i++) {
+            char cn[64];
+            snprintf(cn, sizeof cn, "Tmax_%s_kN", ln[i]);
+            col[i] = column_of(f, nf, cn);
+        }
+        char *row;
+        while ((row = hf_test_line_next(&cur)) != NULL && *row) {
+            hf_test_csv_split(row, f, 64);
+            for (int i = 0; i < 3; i++) {
+                double v = strtod(f[col[i]], NULL);
+                if (*f[col[i]] && v > worst[i]) {
+                    worst[i] = v;
+                    snprintf(where[i], sizeof where[i], "gale, %s, %.4g m", f[1], level[k]);
+                }
+            }
+        }
+        free(bt);
+    }
+    for (int i = 0; i < 3; i++) {
+        char cell[256];
+        assert_true(report_cell(html, "Worst of each line", ln[i], 0, cell, sizeof cell));
+        /* the report writes 4 significant digits */
+        HF_TEST_ASSERT_NEAR(strtod(cell, NULL), worst[i], 5e-4 * worst[i]);
+        assert_true(report_cell(html, "Worst of each line", ln[i], 2, cell, sizeof cell));
+        if (strcmp(cell, where[i]))
+            fail_msg("line %s: the report says the worst is at \"%s\", the balances at \"%s\"",
+                     ln[i], cell, where[i]);
+    }
+    free(html);
+}
+
 static void test_slurm_scripts(void **s)
 {
     (void)s;
@@ -894,6 +992,7 @@ int main(void)
         cmocka_unit_test(test_sweep_at_load_matches_balance),
         cmocka_unit_test(test_sweep_at_load_overload),
         cmocka_unit_test(test_run_default_report),
+        cmocka_unit_test(test_run_envelope_table),
     };
     return cmocka_run_group_tests(tests, setup, teardown);
 }
