@@ -371,6 +371,36 @@ static void test_hump_on_slack_stretch(void **state)
     }
 }
 
+/* A buoy near the fairlead: the line arrives at the fairlead from above
+ * (V < 0 at the fairlead), the buoy the highest point of the line.  Used
+ * to be refused with a message saying no shape exists (the solver never
+ * searched V < 0). */
+static void test_arriving_from_above(void **state)
+{
+    (void)state;
+    hf_line l;
+    memset(&l, 0, sizeof l);
+    l.n = 3;
+    l.sec[0] = (hf_section){250.0, 1000.0, 5e8, 6e6, 0.35, {0.0, 0.0, 0.0}};
+    l.sec[1] = (hf_section){150.0, 50.0, 1e8, 2e6, 0.2, {0.0, 0.0, 0.0}};
+    l.sec[2] = (hf_section){30.0, 50.0, 1e8, 2e6, 0.2, {0.0, 0.0, 0.0}};
+    l.joint[1] = (hf_joint){-60e3, 0.5};
+    const double cases[4][2] = {{340.0, 40.0}, {382.5, 40.0}, {417.3, 61.7}, {381.2, 78.4}};
+    for (size_t i = 0; i < 4; i++) {
+        hf_line_state s;
+        hf_status st = hf_line_solve(&l, cases[i][0], cases[i][1], NULL, NULL, &s);
+        if (st != HF_OK)
+            fail_msg("X = %g, Z = %g: %s", cases[i][0], cases[i][1], s.message);
+        if (!(s.v < 0.0))
+            fail_msg("X = %g, Z = %g: V = %g, expected < 0 (arriving from above)", cases[i][0],
+                     cases[i][1], s.v);
+        assert_true(s.z_max > cases[i][1]); /* the buoy above the fairlead */
+        assert_true(s.residual <= 1e-9);
+        verify_by_ode(&l, &s);
+        check_jacobian(&l, s.h, s.v);
+    }
+}
+
 /* The closed form against the converged bar chain: worst relative
  * difference of H and V (to the fairlead tension) for one shape class,
  * printed and held to tol.  Returns that difference. */
@@ -416,6 +446,15 @@ static void test_against_bar_chain(void **state)
     /* hump lifting the anchor's end */
     hf_line a = two_with_buoy(103.7, 546.3, 987.5, 4.9e8, 0.0, 693.4e3);
     against_barchain("lifted anchor", &a, 431.2, 94.6, 2e-4);
+    /* arriving from above: V < 0 at the fairlead */
+    hf_line f;
+    memset(&f, 0, sizeof f);
+    f.n = 3;
+    f.sec[0] = (hf_section){250.0, 1000.0, 5e8, 6e6, 0.0, {0.0, 0.0, 0.0}};
+    f.sec[1] = (hf_section){150.0, 50.0, 1e8, 2e6, 0.0, {0.0, 0.0, 0.0}};
+    f.sec[2] = (hf_section){30.0, 50.0, 1e8, 2e6, 0.0, {0.0, 0.0, 0.0}};
+    f.joint[1] = (hf_joint){-60e3, 0.5};
+    against_barchain("from above", &f, 382.5, 40.0, 2e-4);
 }
 
 int main(void)
@@ -426,6 +465,7 @@ int main(void)
         cmocka_unit_test(test_humps_with_friction),
         cmocka_unit_test(test_landing_sag_and_lifted_anchor),
         cmocka_unit_test(test_hump_on_slack_stretch),
+        cmocka_unit_test(test_arriving_from_above),
         cmocka_unit_test(test_against_bar_chain),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
