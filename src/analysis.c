@@ -45,7 +45,7 @@ void hf_analysis_profile_point(const hf_model *m, const hf_spread_result *r, siz
     const double *d = r->geom[i].dir;
     g[0] = m->lines[i].anchor[0] + p->x * d[0];
     g[1] = m->lines[i].anchor[1] + p->x * d[1];
-    g[2] = -hf_model_water_height(m) + p->z;
+    g[2] = -hf_model_water_height(m) + r->geom[i].anchor_rise + p->z; /* rise: sloped seabed */
 }
 
 /* ---- curve ---- */

@@ -434,8 +434,8 @@ static hf_status choose(ctx *c, const node *n, const char *what, const char *con
 
 /* ---- site ---- */
 
-static const char *const site_keys[] = {"depth", "water_density", "water_level", "water_levels",
-                                        NULL};
+static const char *const site_keys[] = {"depth",        "water_density", "water_level",
+                                        "water_levels", "seabed",        NULL};
 
 /* site.water_levels (helper A, issue 13): a list of still water levels; a
  * list of two is the range [low, high], expanded to low, low + 0.1 m, ...
@@ -480,6 +480,31 @@ static hf_status water_levels(ctx *c, const node *n, hf_site *s)
     return HF_OK;
 }
 
+/* site.seabed: {slope: ANGLE, toward: ANGLE} (issue 15): a plane through the
+ * datum seabed at the hull's rest position, rising at `slope` (0 to below
+ * HF_MODEL_MAX_SLOPE) toward the global direction `toward` (default 0). */
+static const char *const seabed_keys[] = {"slope", "toward", NULL};
+
+static hf_status load_seabed(ctx *c, const node *n)
+{
+    hf_site *s = &c->m->site;
+    size_t mark = pushkey(c, "seabed");
+    hf_status st = map_check(c, n, "the seabed", seabed_keys, "key");
+    if (st == HF_OK)
+        st = req_quantity(c, n, "slope", HF_DIM_ANGLE, NONNEG, &s->seabed_slope);
+    if (st == HF_OK && !(s->seabed_slope < HF_MODEL_MAX_SLOPE)) {
+        char gotbuf[96];
+        size_t m2 = pushkey(c, "slope");
+        st = fail(c, get(n, "slope"), "expected an angle from 0 to below %.4g deg, got %s",
+                  HF_MODEL_MAX_SLOPE * 180.0 / M_PI, GOT(get(n, "slope")));
+        pop(c, m2);
+    }
+    if (st == HF_OK)
+        st = opt_quantity(c, n, "toward", HF_DIM_ANGLE, ANY, &s->seabed_toward);
+    pop(c, mark);
+    return st;
+}
+
 static hf_status load_site(ctx *c, const node *n)
 {
     hf_site *s = &c->m->site;
@@ -503,14 +528,50 @@ static hf_status load_site(ctx *c, const node *n)
         st = water_levels(c, get(n, "water_levels"), s);
         pop(c, mark);
     }
+    if (st == HF_OK && get(n, "seabed"))
+        st = load_seabed(c, get(n, "seabed"));
     return st;
 }
 
 /* ---- components ---- */
 
-static const char *const comp_keys[] = {"type",          "grade",           "diameter",
-                                        "mass",          "wet_weight",      "axial_stiffness",
-                                        "breaking_load", "seabed_friction", NULL};
+static const char *const comp_keys[] = {
+    "type",          "grade",           "diameter", "mass", "wet_weight", "axial_stiffness",
+    "breaking_load", "seabed_friction", "strain",   NULL};
+
+/* components.NAME.strain (issue 15): `default` (the catalogue's approximate
+ * curve, polyester and nylon) or [a1, a2, a3], strain = a1 t + a2 t^2 +
+ * a3 t^3 with t = T / MBL.  Checked by hf_component_resolve. */
+static hf_status load_strain(ctx *c, const node *n, hf_component *comp)
+{
+    static const hf_dim none3[3] = {HF_DIM_NONE, HF_DIM_NONE, HF_DIM_NONE};
+    size_t mark = pushkey(c, "strain");
+    hf_status st = HF_OK;
+    if (n->type == N_SCALAR && !strcmp(n->text, "default")) {
+        comp->strain_kind = HF_STRAIN_DEFAULT;
+    } else {
+        st = vector(c, n, 3, none3,
+                    "a tension-strain curve: default, or [a1, a2, a3] for strain = a1 t + "
+                    "a2 t^2 + a3 t^3, t = T/MBL",
+                    comp->strain);
+        comp->strain_kind = HF_STRAIN_GIVEN;
+    }
+    if (st == HF_OK) {
+        hf_error sub;
+        hf_error_clear(&sub);
+        hf_component_type t = comp->type;
+        if (comp->strain_kind == HF_STRAIN_DEFAULT &&
+            hf_component_strain_default(t, comp->strain, NULL) != HF_OK)
+            st = fail(c, n,
+                      "expected [a1, a2, a3]: the catalogue has a default curve for polyester "
+                      "and nylon only, not for a %s",
+                      hf_component_type_name(t));
+        else if (hf_component_strain_check(comp->strain, &sub) != HF_OK)
+            st = fail(c, n, "%s", sub.text + strlen("strain: "));
+    }
+    pop(c, mark);
+    return st;
+}
 
 static hf_status load_component(ctx *c, const node *key, const node *n, hf_model_component *mc)
 {
@@ -576,6 +637,8 @@ static hf_status load_component(ctx *c, const node *key, const node *n, hf_model
         if (st == HF_OK)
             hf_component_give(comp, props[i].prop, v);
     }
+    if (st == HF_OK && get(n, "strain"))
+        st = load_strain(c, get(n, "strain"), comp);
     if (st != HF_OK)
         return st;
     hf_error sub;

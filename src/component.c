@@ -505,6 +505,87 @@ static void resolve_ea(hf_component *c, const kind *k, bool *approx)
     }
 }
 
+/* Default tension-strain curves, strain = a1 t + a2 t^2 + a3 t^3, t = T/MBL:
+ * stiffening with load, quasi-static, for a rope past its first loadings.
+ * Both are approximate and from memory, shaped to the common-practice ranges:
+ * polyester EA about 12-30 x MBL, load dependent (open textbook practice),
+ * here a tangent EA of 12.5 x MBL at slack rising to 25 x MBL at t = 2/3
+ * (20 x MBL at the MBL), 5 % strain at MBL; nylon far softer, tangent EA
+ * 3.3 to 7.9 x MBL, 17 % strain at MBL.
+ * Manufacturers' data govern: enter them for any design. */
+static const struct {
+    hf_component_type type;
+    double a[3];
+    const char *source;
+} strain_defaults[] = {
+    {HF_COMP_POLYESTER,
+     {0.080, -0.060, 0.030},
+     "approximate: enter the manufacturer's data (default polyester curve, from memory: strain "
+     "0.080 t - 0.060 t^2 + 0.030 t^3, t = T/MBL)"},
+    {HF_COMP_NYLON,
+     {0.30, -0.25, 0.12},
+     "approximate: enter the manufacturer's data (default nylon curve, from memory: strain "
+     "0.30 t - 0.25 t^2 + 0.12 t^3, t = T/MBL)"},
+};
+
+hf_status hf_component_strain_default(hf_component_type t, double a[3], const char **source)
+{
+    for (size_t i = 0; i < sizeof strain_defaults / sizeof strain_defaults[0]; i++)
+        if (strain_defaults[i].type == t) {
+            memcpy(a, strain_defaults[i].a, 3 * sizeof a[0]);
+            if (source)
+                *source = strain_defaults[i].source;
+            return HF_OK;
+        }
+    return HF_EINVAL;
+}
+
+hf_status hf_component_strain_check(const double a[3], hf_error *err)
+{
+    if (!isfinite(a[0]) || !isfinite(a[1]) || !isfinite(a[2]))
+        return hf_error_set(err, HF_EINVAL, "strain: expected finite coefficients");
+    /* the slope a1 + 2 a2 t + 3 a3 t^2 is a parabola: its minimum over [0, 1]
+     * is at an end or at its vertex t = -a2 / (3 a3) */
+    double lo = fmin(a[0], a[0] + 2 * a[1] + 3 * a[2]);
+    if (a[2] > 0) {
+        double tv = -a[1] / (3 * a[2]);
+        if (tv > 0 && tv < 1)
+            lo = fmin(lo, a[0] + 2 * a[1] * tv + 3 * a[2] * tv * tv);
+    }
+    if (!(lo > 0))
+        return hf_error_set(err, HF_EINVAL,
+                            "strain: expected a curve whose strain grows with tension over 0 <= "
+                            "T/MBL <= 1 (slope a1 + 2 a2 t + 3 a3 t^2 > 0), got [%.6g, %.6g, %.6g] "
+                            "(smallest slope %.6g)",
+                            a[0], a[1], a[2], lo);
+    if (!(a[0] + a[1] + a[2] < 1.0))
+        return hf_error_set(err, HF_EINVAL,
+                            "strain: expected a strain below 1 at the MBL, got %.6g",
+                            a[0] + a[1] + a[2]);
+    return HF_OK;
+}
+
+/* The tension-strain curve of c: the default filled in, the curve checked. */
+static hf_status resolve_strain(hf_component *c, hf_error *err)
+{
+    if (c->strain_kind == HF_STRAIN_LINEAR) {
+        c->strain[0] = c->strain[1] = c->strain[2] = 0.0;
+        c->strain_source = "linear: strain = T / EA";
+        return HF_OK;
+    }
+    if (c->strain_kind == HF_STRAIN_DEFAULT) {
+        if (hf_component_strain_default(c->type, c->strain, &c->strain_source) != HF_OK)
+            return hf_error_set(err, HF_EINVAL,
+                                "strain: the catalogue has a default curve for polyester and "
+                                "nylon only; give [a1, a2, a3] for a %s",
+                                hf_component_type_name(c->type));
+        c->approximate = true;
+    } else {
+        c->strain_source = "given: strain = a1 t + a2 t^2 + a3 t^3, t = T/MBL";
+    }
+    return hf_component_strain_check(c->strain, err);
+}
+
 hf_status hf_component_resolve(hf_component *c, double rho, hf_error *err)
 {
     bool approx = false;
@@ -529,6 +610,8 @@ hf_status hf_component_resolve(hf_component *c, double rho, hf_error *err)
         c->value[HF_PROP_FRICTION] = k->friction;
         c->source[HF_PROP_FRICTION] = k->fric_src;
     }
+    if ((st = resolve_strain(c, err)) != HF_OK)
+        return st;
     if (c->type == HF_COMP_CUSTOM)
         return resolve_custom(c, err);
     if ((st = check_diameter(c, k, err)) != HF_OK)
@@ -541,7 +624,7 @@ hf_status hf_component_resolve(hf_component *c, double rho, hf_error *err)
     if ((st = check_derived(c, HF_PROP_MBL, err)) != HF_OK ||
         (st = check_derived(c, HF_PROP_EA, err)) != HF_OK)
         return st;
-    c->approximate = approx;
+    c->approximate = approx || c->strain_kind == HF_STRAIN_DEFAULT;
     return HF_OK;
 }
 

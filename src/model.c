@@ -145,6 +145,67 @@ double hf_model_water_height(const hf_model *m)
     return m->site.depth + m->site.water_level;
 }
 
+/* ---- sloped seabed (issue 15): a plane through the datum seabed at the
+ * hull's rest position, see model.h ---- */
+
+double hf_model_seabed_rise(const hf_model *m, double x, double y)
+{
+    const hf_site *s = &m->site;
+    if (s->seabed_slope == 0.0)
+        return 0.0;
+    double dx = x - m->hull.position[0], dy = y - m->hull.position[1];
+    return tan(s->seabed_slope) * (dx * cos(s->seabed_toward) + dy * sin(s->seabed_toward));
+}
+
+double hf_model_seabed_slope_along(const hf_model *m, const double dir[2])
+{
+    const hf_site *s = &m->site;
+    if (s->seabed_slope == 0.0)
+        return 0.0;
+    double t =
+        tan(s->seabed_slope) * (dir[0] * cos(s->seabed_toward) + dir[1] * sin(s->seabed_toward));
+    /* across the slope: rounding of cos(toward) leaves ~1e-17, not a slope */
+    return fabs(t) < 1e-12 ? 0.0 : atan(t);
+}
+
+/* The sloped seabed's values, and every anchor under water and every
+ * fairlead above the seabed (at the rest pose) on it. */
+static hf_status check_seabed(const hf_model *m, hf_error *err)
+{
+    const hf_site *s = &m->site;
+    if (!(isfinite(s->seabed_slope) && s->seabed_slope >= 0.0 &&
+          s->seabed_slope < HF_MODEL_MAX_SLOPE))
+        return hf_error_set(err, HF_EINVAL,
+                            "site.seabed.slope: expected an angle from 0 to below %.4g deg, got "
+                            "%.10g deg",
+                            HF_MODEL_MAX_SLOPE * 180.0 / M_PI, s->seabed_slope * 180.0 / M_PI);
+    if (!isfinite(s->seabed_toward))
+        return hf_error_set(err, HF_EINVAL, "site.seabed.toward: expected a finite angle");
+    if (s->seabed_slope == 0.0)
+        return HF_OK;
+    double water = hf_model_water_height(m), ch = cos(m->hull.heading), sh = sin(m->hull.heading);
+    for (size_t i = 0; i < m->nlines; i++) {
+        const hf_model_line *l = &m->lines[i];
+        double ra = hf_model_seabed_rise(m, l->anchor[0], l->anchor[1]);
+        if (!(ra < water))
+            return hf_error_set(err, HF_EINVAL,
+                                "lines[%s].anchor: the sloping seabed (site.seabed) is %.6g m "
+                                "above the still water level there; expected an anchor under "
+                                "water",
+                                l->name, ra - water);
+        const double *f = l->fairlead;
+        double fx = m->hull.position[0] + ch * f[0] - sh * f[1];
+        double fy = m->hull.position[1] + sh * f[0] + ch * f[1];
+        double rf = hf_model_seabed_rise(m, fx, fy);
+        if (f[2] < rf - water)
+            return hf_error_set(err, HF_EINVAL,
+                                "lines[%s].fairlead: expected a fairlead above the sloping seabed "
+                                "(z >= %.10g m in the hull frame at rest), got z = %.10g m",
+                                l->name, rf - water, f[2]);
+    }
+    return HF_OK;
+}
+
 size_t hf_model_line_find(const hf_model *m, const char *name)
 {
     for (size_t i = 0; name && i < m->nlines; i++)
@@ -238,6 +299,8 @@ static hf_status build_line(const hf_model *m, hf_model_line *l, hf_error *err)
         s->ea = c->value[HF_PROP_EA];
         s->mbl = c->value[HF_PROP_MBL];
         s->friction = c->value[HF_PROP_FRICTION];
+        if (c->strain_kind != HF_STRAIN_LINEAR) /* issue 15: load-dependent stretch */
+            memcpy(s->strain, c->strain, sizeof s->strain);
     }
     if (pending)
         return hf_error_set(err, HF_EINVAL,
@@ -251,8 +314,10 @@ static hf_status build_line(const hf_model *m, hf_model_line *l, hf_error *err)
                             l->name);
     hf_error sub;
     hf_error_clear(&sub);
-    if (hf_line_check(ln, &sub) != HF_OK)
-        return hf_error_set(err, HF_EINVAL, "lines[%s]: %s", l->name, sub.text);
+    hf_status cs = hf_line_check(ln, &sub);
+    if (cs != HF_OK) /* what the solver does not take yet stays "unsupported" */
+        return hf_error_set(err, cs == HF_EUNSUPPORTED ? cs : HF_EINVAL, "lines[%s]: %s", l->name,
+                            sub.text);
     return HF_OK;
 }
 
@@ -304,6 +369,8 @@ static hf_status check_geometry(const hf_model *m, hf_error *err)
 hf_status hf_model_resolve(hf_model *m, hf_error *err)
 {
     hf_status st = check_geometry(m, err);
+    if (st == HF_OK)
+        st = check_seabed(m, err);
     if (st != HF_OK)
         return st;
     for (size_t i = 0; i < m->ncomponents; i++) {

@@ -16,6 +16,7 @@ struct hf_spread {
     double (*force)[3];    /* force on the hull at each fairlead, N */
     double *tension;       /* largest tension along each line, N */
     hf_line_state scratch; /* the solve's output before it replaces states[i] */
+    hf_line sloped;        /* a line with the seabed slope of its plane (sloped seabed only) */
 };
 
 #define NONE ((size_t)-1)
@@ -82,6 +83,12 @@ static void geometry(const hf_model *m, size_t i, const hf_pose *pose, double ro
     } else {
         g->dir[0] = 1.0;
         g->dir[1] = 0.0;
+    }
+    g->slope = g->anchor_rise = 0.0;
+    if (m->site.seabed_slope != 0.0) { /* sloped seabed: the anchor's own depth */
+        g->anchor_rise = hf_model_seabed_rise(m, m->lines[i].anchor[0], m->lines[i].anchor[1]);
+        g->z -= g->anchor_rise;
+        g->slope = hf_model_seabed_slope_along(m, g->dir);
     }
 }
 
@@ -214,6 +221,11 @@ static hf_status solve_line(hf_spread *ws, size_t i)
 {
     const hf_line *line = &ws->m->lines[i].line;
     const hf_spread_geom *g = &ws->geom[i];
+    if (g->slope != 0.0) { /* the model's line with its plane's seabed slope */
+        ws->sloped = *line;
+        ws->sloped.slope = g->slope;
+        line = &ws->sloped;
+    }
     hf_line_state *st = &ws->states[i];
     hf_line_state *out = &ws->scratch; /* the solver fills every field it reports */
     hf_status s = HF_EINVAL;
@@ -241,6 +253,26 @@ static void line_unsolved(hf_spread *ws, size_t i, hf_status s, const char *why)
     ws->warm[i] = 0;
 }
 
+/* A line on a sloped seabed that the line solver refused: when the line
+ * check names the reason (a solver without slope support refuses the slope
+ * itself), returns 1 with that status in *s and, when `report`, its message
+ * and the slope in err; 0 otherwise (nothing changed). */
+static int sloped_refusal(hf_spread *ws, size_t i, int report, hf_error *err, hf_status *s)
+{
+    hf_error why;
+    hf_error_clear(&why);
+    hf_status cs = hf_line_check(&ws->sloped, &why);
+    if (cs == HF_OK)
+        return 0;
+    char buf[32];
+    ws->states[i].status = *s = cs;
+    ws->states[i].message = "the line solver does not take this line on a sloped seabed";
+    if (report)
+        hf_error_set(err, cs, "line '%s': %s (seabed slope %.4g deg along the line's plane)",
+                     line_name(ws->m, i, buf), why.text, ws->geom[i].slope * 180.0 / M_PI);
+    return 1;
+}
+
 /* Solves line i at its geometry (ws->geom[i]) with the checks the line
  * solver cannot make, since it knows nothing of the water: the fairlead must
  * be between the seabed and the still water level, and no point of the
@@ -251,14 +283,16 @@ static hf_status line_at_pose(hf_spread *ws, size_t i, int report, hf_error *err
 {
     const hf_model *m = ws->m;
     const hf_spread_geom *g = &ws->geom[i];
-    double water = hf_model_water_height(m); /* still water level above the seabed, m */
+    /* still water level above the seabed at the anchor, m */
+    double water = hf_model_water_height(m) - g->anchor_rise;
+    double below = g->x * tan(g->slope) - g->z; /* fairlead below the seabed under it, m */
     char buf[32];
-    if (!(g->z >= 0.0)) {
+    if (!(below <= 0.0)) {
         line_unsolved(ws, i, HF_EINVAL, "fairlead below the seabed at this pose");
         return report ? hf_error_set(err, HF_EINVAL,
                                      "line '%s': the fairlead is %.6g m below the seabed at this "
                                      "hull pose",
-                                     line_name(m, i, buf), -g->z)
+                                     line_name(m, i, buf), below)
                       : HF_EINVAL;
     }
     if (g->fairlead[2] > 0.0) {
@@ -272,6 +306,8 @@ static hf_status line_at_pose(hf_spread *ws, size_t i, int report, hf_error *err
     }
     hf_status s = solve_line(ws, i);
     const hf_line_state *st = &ws->states[i];
+    if (s != HF_OK && g->slope != 0.0 && sloped_refusal(ws, i, report, err, &s))
+        return s;
     if (s != HF_OK && st->h > 0.0) /* a shape was found and refused: say which */
         return report ? hf_error_set(err, s,
                                      "line '%s': %s (horizontal span %.6g m, height %.6g m; "

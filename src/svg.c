@@ -950,6 +950,9 @@ static hf_status elev_layout(elev *L, double top, hf_error *err)
         }
         amax = fmax(amax, elev_allowed_max(e));
     }
+    double ts = tan(L->e[0].seabed_slope); /* a sloped seabed reaches below z = 0 */
+    if (ts != 0.0)
+        zmin = fmin(zmin, fmin(xmin * ts, xmax * ts));
     /* The seabed is the bottom of the panel (z = 0 unless the profile dips). */
     hf_status s =
         hf_svg_axes_init(&L->top, 90, top, 600, 270, xmin, xmax, zmin, zmax * 1.04, 0, err);
@@ -1011,6 +1014,35 @@ static void elev_label(FILE *out, elev *L, double px, double py, const spot *c, 
     elev_take(L, text_rect(px + c[k].dx, py + c[k].dy, c[k].anchor, TICK_PX, text));
 }
 
+/* A sloped seabed (issue 15): the line z = x tan(slope) through the anchor
+ * across the panel, the sand below it. */
+static void elev_slope(FILE *out, const elev *L)
+{
+    const hf_svg_axes *a = &L->top;
+    double ts = tan(L->e[0].seabed_slope), x0 = a->xt.lo, x1 = a->xt.hi;
+    double px0 = hf_svg_axes_px(a, x0), px1 = hf_svg_axes_px(a, x1);
+    double py0 = hf_svg_axes_py(a, x0 * ts), py1 = hf_svg_axes_py(a, x1 * ts);
+    double bot = a->top + a->height;
+    fputs("<polygon points=\"", out);
+    putnum(out, px0);
+    fputc(',', out);
+    putnum(out, clampp(py0));
+    fputc(' ', out);
+    putnum(out, px1);
+    fputc(',', out);
+    putnum(out, clampp(py1));
+    fputc(' ', out);
+    putnum(out, px1);
+    fputc(',', out);
+    putnum(out, fmax(bot, py1));
+    fputc(' ', out);
+    putnum(out, px0);
+    fputc(',', out);
+    putnum(out, fmax(bot, py0));
+    fputs("\" fill=\"" SEABED_FILL "\"/>\n", out);
+    seg(out, px0, py0, px1, py1, SEABED, 4, "");
+}
+
 /* Caption, seabed (a sand band under it when the axis reaches below), the
  * elevation axes and the still water level, with their labels. */
 static void elev_ground(FILE *out, elev *L)
@@ -1027,7 +1059,9 @@ static void elev_ground(FILE *out, elev *L)
         snprintf(cap, sizeof cap, "Side view in the line's vertical plane.");
     caption(out, 20, 48, cap);
     double sb = hf_svg_axes_py(top, 0.0), bot = top->top + top->height;
-    if (bot > sb + 0.5) {
+    if (L->e[0].seabed_slope != 0.0) { /* sloped: the seabed through the anchor */
+        elev_slope(out, L);
+    } else if (bot > sb + 0.5) {
         fputs("<rect x=\"", out);
         putnum(out, top->left);
         fputs("\" y=\"", out);
@@ -1041,7 +1075,10 @@ static void elev_ground(FILE *out, elev *L)
     hf_svg_axes_draw(out, top, "horizontal distance from the anchor (m)",
                      "height above the seabed (m)", "Elevation");
     double xr = top->left + top->width;
-    seg(out, top->left, sb, xr, sb, SEABED, 4, "");
+    if (L->e[0].seabed_slope != 0.0) /* drawn by elev_slope; labelled at its right end */
+        sb = hf_svg_axes_py(top, top->xt.hi * tan(L->e[0].seabed_slope));
+    else
+        seg(out, top->left, sb, xr, sb, SEABED, 4, "");
     double sw = hf_svg_axes_py(top, L->e[0].water_height);
     seg(out, top->left, sw, xr, sw, WATER, 1.5, "9 4");
     static const spot sbs[] = {{-4, -8, 'e'}, {-150, -8, 'e'}, {-300, -8, 'e'}, {-4, 16, 'e'}};

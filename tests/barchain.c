@@ -15,6 +15,8 @@
 #include <float.h>
 #include <math.h>
 #include <string.h>
+#include <gsl/gsl_errno.h>
+#include <gsl/gsl_odeiv2.h>
 #include "holdfast/alloc.h"
 
 typedef struct {
@@ -611,4 +613,55 @@ hf_status barchain_refine(const hf_line *line, double x, double z, size_t n, bar
     for (int q = 0; q < 3; q++)
         barchain_result_free(&lv[q]);
     return st;
+}
+
+/* ---- the elastic catenary ODEs (barchain_ode_span) ---- */
+
+typedef struct {
+    const hf_section *s;
+    double h, vb; /* H, and V at the section's lower end */
+} ode_par;
+
+static int ode_rhs(double t, const double y[], double f[], void *params)
+{
+    const ode_par *p = params;
+    double v = p->vb + p->s->weight * t, tt = hypot(p->h, v), e;
+    if (has_law(p->s)) {
+        double d;
+        e = law_eps(p->s, tt / p->s->mbl, &d);
+    } else {
+        e = tt / p->s->ea;
+    }
+    (void)y;
+    f[0] = (1.0 + e) * p->h / tt;
+    f[1] = (1.0 + e) * v / tt;
+    return GSL_SUCCESS;
+}
+
+hf_status barchain_ode_span(const hf_line *line, double h, double v, double *x, double *z)
+{
+    if (!line || line->n < 1 || line->n > HF_LINE_MAX_SECTIONS || !(h > 0) || !isfinite(h) ||
+        !isfinite(v))
+        return HF_EINVAL;
+    double ltot = hf_line_length(line), vb = v - hf_line_weight(line); /* V at the anchor */
+    double y[2] = {0.0, 0.0};
+    for (size_t i = 0; i < line->n; i++) {
+        ode_par p = {&line->sec[i], h, vb};
+        gsl_odeiv2_system sys = {ode_rhs, NULL, 2, &p};
+        gsl_odeiv2_driver *d = gsl_odeiv2_driver_alloc_y_new(
+            &sys, gsl_odeiv2_step_rk8pd, 1e-3 * line->sec[i].length, 1e-13 * ltot, 1e-13);
+        if (!d)
+            return HF_ENOMEM;
+        double t = 0.0;
+        int rc = gsl_odeiv2_driver_apply(d, &t, line->sec[i].length, y);
+        gsl_odeiv2_driver_free(d);
+        if (rc != GSL_SUCCESS)
+            return HF_ENOCONV;
+        vb += line->sec[i].weight * line->sec[i].length;
+        if (i + 1 < line->n)
+            vb += line->joint[i].load;
+    }
+    *x = y[0];
+    *z = y[1];
+    return HF_OK;
 }

@@ -7,6 +7,8 @@
 #include <string.h>
 #include <cmocka.h>
 #include "holdfast/component.h"
+#include "holdfast/case.h"
+#include "holdfast/model.h"
 
 #define SEAWATER 1025.0 /* kg/m^3, Tupper, Introduction to Naval Architecture */
 #define GN 9.80665      /* m/s^2, NIST SP 811 (2008) */
@@ -540,6 +542,128 @@ static void test_all_finite(void **state)
     }
 }
 
+/* ---- tension-strain curves (issue 15) ---- */
+
+/* The default curves: polyester's tangent stiffness T / (d strain) stays in
+ * the common-practice range EA = 12-30 x MBL (load dependent; open textbook
+ * practice, REFERENCE section 3) over 0 <= T/MBL <= 1 and stiffens with load;
+ * nylon is far softer (from memory: about 3-7 x MBL).  Other types have none. */
+static void test_strain_defaults(void **state)
+{
+    (void)state;
+    static const struct {
+        hf_component_type t;
+        double lo, hi; /* tangent EA / MBL range */
+    } want[] = {{HF_COMP_POLYESTER, 12.0, 30.0}, {HF_COMP_NYLON, 3.0, 8.0}};
+    for (size_t k = 0; k < 2; k++) {
+        double a[3];
+        const char *src = NULL;
+        assert_int_equal(hf_component_strain_default(want[k].t, a, &src), HF_OK);
+        assert_non_null(strstr(src, "approximate: enter the manufacturer's data"));
+        hf_error e;
+        assert_int_equal(hf_component_strain_check(a, &e), HF_OK);
+        for (int i = 0; i <= 100; i++) {
+            double t = i / 100.0, slope = a[0] + 2 * a[1] * t + 3 * a[2] * t * t;
+            double ea = 1.0 / slope; /* tangent EA in units of MBL */
+            if (!(ea >= want[k].lo && ea <= want[k].hi))
+                fail_msg("%s: tangent EA %.3g x MBL at t = %.2f outside %.0f-%.0f",
+                         hf_component_type_name(want[k].t), ea, t, want[k].lo, want[k].hi);
+        }
+        assert_true(a[1] < 0); /* stiffening at low load */
+    }
+    double a[3] = {9, 9, 9};
+    assert_int_equal(hf_component_strain_default(HF_COMP_STUDLESS_CHAIN, a, NULL), HF_EINVAL);
+    assert_int_equal(hf_component_strain_default(HF_COMP_SIX_STRAND, a, NULL), HF_EINVAL);
+    assert_true(a[0] == 9 && a[1] == 9 && a[2] == 9);
+}
+
+/* Curves that do not stretch more under more tension are refused, with the
+ * smallest slope named; edge numbers too. */
+static void test_strain_check(void **state)
+{
+    (void)state;
+    static const double bad[][3] = {
+        {-0.01, 0.05, 0.0},  /* shrinks at first */
+        {0.0, 0.04, 0.0},    /* no stiffness limit at slack: slope 0 at t = 0 */
+        {0.05, -0.05, 0.0},  /* slope 0.05 - 0.1 t < 0 past t = 0.5 */
+        {0.10, -0.20, 0.08}, /* vertex t = 0.833: slope 0.1 - 0.333 + 0.167 = -0.067 */
+        {0.6, 0.3, 0.2},     /* strain 1.1 at the MBL */
+        {NAN, 0, 0},         {0.05, INFINITY, 0},
+    };
+    for (size_t k = 0; k < sizeof bad / sizeof bad[0]; k++) {
+        hf_error e;
+        hf_error_clear(&e);
+        if (hf_component_strain_check(bad[k], &e) != HF_EINVAL)
+            fail_msg("curve %zu [%g, %g, %g] accepted", k, bad[k][0], bad[k][1], bad[k][2]);
+        assert_non_null(strstr(e.text, "strain"));
+    }
+    static const double good[][3] = {{0.0312, 0, 0}, {0.08, -0.06, 0.025}, {0.02, 0.01, 0.003}};
+    for (size_t k = 0; k < 3; k++)
+        assert_int_equal(hf_component_strain_check(good[k], NULL), HF_OK);
+}
+
+/* The case key: `strain: default` or [a1, a2, a3]; bad values at their
+ * file:line:col.  The model's line sections get the curve. */
+static const char strain_case[] = "site: {depth: 55 m}\n"
+                                  "components:\n"
+                                  "  rope: {type: %s, diameter: 96 mm, strain: %s}\n"
+                                  "lines:\n"
+                                  "  - {name: a, anchor: [420 m, 0 m], fairlead: [0 m, 0 m, -6 m], "
+                                  "sections: [{component: rope, length: 450 m}]}\n";
+
+static hf_status strain_load(const char *type, const char *strain, hf_model *m, hf_error *e)
+{
+    char text[1024];
+    int n = snprintf(text, sizeof text, strain_case, type, strain);
+    hf_model_init(m);
+    return hf_case_load_buffer(text, (size_t)n, "rope.yaml", m, e);
+}
+
+static void test_strain_case_key(void **state)
+{
+    (void)state;
+    static const struct {
+        const char *type, *strain, *text;
+    } bad[] = {
+        {"six_strand", "default", "components.rope.strain: expected [a1, a2, a3]"},
+        {"polyester", "[0.08, -0.06]", "components.rope.strain: expected a tension-strain"},
+        {"polyester", "[0.05, -0.05, 0]", "strain: expected a curve whose strain grows"},
+        {"polyester", "[0.05, 1 m, 0]", "components.rope.strain[1]"},
+        {"polyester", "linear", "components.rope.strain: expected a tension-strain"},
+    };
+    for (size_t k = 0; k < sizeof bad / sizeof bad[0]; k++) {
+        hf_model m;
+        hf_error e;
+        hf_error_clear(&e);
+        hf_status st = strain_load(bad[k].type, bad[k].strain, &m, &e);
+        if (st == HF_OK || !strstr(e.text, bad[k].text) || strncmp(e.text, "rope.yaml:3:", 12))
+            fail_msg("%s strain %s: status %d \"%s\", expected \"%s\"", bad[k].type, bad[k].strain,
+                     (int)st, e.text, bad[k].text);
+        hf_model_free(&m);
+    }
+    /* a valid curve reaches the line's sections, or the line solver refuses
+     * it as unsupported (until it takes strain laws) - never as bad input */
+    hf_model m;
+    hf_error e;
+    hf_error_clear(&e);
+    hf_status st = strain_load("nylon", "default", &m, &e);
+    if (st == HF_OK) {
+        double a[3];
+        assert_int_equal(hf_component_strain_default(HF_COMP_NYLON, a, NULL), HF_OK);
+        assert_memory_equal(m.lines[0].line.sec[0].strain, a, sizeof a);
+        assert_true(m.components[0].comp.approximate);
+    } else {
+        assert_int_equal(st, HF_EUNSUPPORTED);
+        assert_non_null(strstr(e.text, "load-dependent stretch"));
+    }
+    hf_model_free(&m);
+    /* without the key nothing changes: linear, no curve */
+    assert_int_equal(strain_load("polyester", "[0.05, 0, 0]", &m, &e) == HF_OK ||
+                         strstr(e.text, "load-dependent stretch") != NULL,
+                     1);
+    hf_model_free(&m);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -557,6 +681,9 @@ int main(void)
         cmocka_unit_test(test_errors_water),
         cmocka_unit_test(test_names),
         cmocka_unit_test(test_all_finite),
+        cmocka_unit_test(test_strain_defaults),
+        cmocka_unit_test(test_strain_check),
+        cmocka_unit_test(test_strain_case_key),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
 }

@@ -9,6 +9,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include "support.h"
+#include "barchain.h"
 #include "holdfast/alloc.h"
 #include "holdfast/case.h"
 #include "holdfast/spread.h"
@@ -686,6 +687,142 @@ static void test_asymmetric_at_symmetric_rest(void **state)
     hf_model_free(&m);
 }
 
+/* ---- sloped seabed (issue 15): site.seabed {slope, toward} ---- */
+
+/* A fictional cove: the seabed rises 3.7 deg toward 30 deg; hull at
+ * (12.5, -7.25) m, heading 20 deg; three lines of 40 mm chain. */
+static const char cove[] = "title: Fictional Brackwater Cove\n"
+                           "site:\n"
+                           "  depth: 38.5 m\n"
+                           "  seabed: {slope: %s, toward: 30 deg}\n"
+                           "components:\n"
+                           "  ch: {type: studless_chain, diameter: 40 mm, grade: R3}\n"
+                           "hull: {position: [12.5 m, -7.25 m], heading: 20 deg}\n"
+                           "lines:\n"
+                           "  - {name: n, anchor: [262.5 m, 95.1 m], fairlead: [6 m, 1.5 m, -4.2 "
+                           "m], sections: [{component: ch, length: 305 m}]}\n"
+                           "  - {name: w, anchor: [-231.7 m, 61.3 m], fairlead: [-6 m, 1.5 m, "
+                           "-4.2 m], sections: [{component: ch, length: 298 m}]}\n"
+                           "  - {name: s, anchor: [7.9 m, -283.4 m], fairlead: [0 m, -2 m, -4.2 "
+                           "m], sections: [{component: ch, length: 311 m}]}\n";
+
+static hf_status cove_load(const char *slope, hf_model *m, hf_error *e)
+{
+    char text[2048];
+    int n = snprintf(text, sizeof text, cove, slope);
+    assert_true(n > 0 && (size_t)n < sizeof text);
+    hf_model_init(m);
+    return hf_case_load_buffer(text, (size_t)n, "cove.yaml", m, e);
+}
+
+/* Each anchor at its own depth, each line with the seabed's slope along its
+ * own plane: the plane's height tan(a) (d . u) from the hull's rest
+ * position (plane geometry), the slope along a direction atan(tan(a) cos(b)). */
+static void test_sloped_seabed_geometry(void **state)
+{
+    (void)state;
+    hf_model m;
+    hf_error e;
+    if (cove_load("3.7 deg", &m, &e) != HF_OK)
+        fail_msg("%s", e.text);
+    const double a = 3.7 * M_PI / 180.0, t = 30.0 * M_PI / 180.0;
+    assert_float_equal(m.site.seabed_slope, a, 1e-15);
+    assert_float_equal(m.site.seabed_toward, t, 1e-15);
+    hf_pose p;
+    hf_spread_pose_rest(&m, &p);
+    for (size_t i = 0; i < m.nlines; i++) {
+        hf_spread_geom g;
+        assert_int_equal(hf_spread_line_geometry(&m, i, &p, &g, &e), HF_OK);
+        const double *an = m.lines[i].anchor;
+        double rise = tan(a) * ((an[0] - 12.5) * cos(t) + (an[1] + 7.25) * sin(t));
+        HF_TEST_ASSERT_NEAR(g.anchor_rise, rise, 1e-12 * fabs(rise));
+        HF_TEST_ASSERT_NEAR(g.z, g.fairlead[2] + 38.5 - rise, 1e-12 * 40.0);
+        double along = atan(tan(a) * (g.dir[0] * cos(t) + g.dir[1] * sin(t)));
+        HF_TEST_ASSERT_NEAR(g.slope, along, 1e-15);
+        assert_true(fabs(g.slope) > 0.01); /* every line really on a slope */
+    }
+    /* the solver either solves each line on its slope (then the bar-chain
+     * model must agree) or refuses with the line check's reason: never the
+     * generic "invalid line data" */
+    hf_spread *ws = ws_for(&m);
+    hf_spread_result r;
+    hf_status st = hf_spread_solve(ws, &p, &r, &e);
+    if (st != HF_OK) {
+        assert_int_equal(st, HF_EUNSUPPORTED);
+        assert_non_null(strstr(e.text, "slope"));
+        assert_null(strstr(e.text, "invalid line data"));
+    }
+    for (size_t i = 0; st == HF_OK && i < m.nlines; i++) {
+        hf_line ln = m.lines[i].line;
+        ln.slope = r.geom[i].slope;
+        barchain_result b;
+        memset(&b, 0, sizeof b);
+        assert_int_equal(barchain_solve(&ln, r.geom[i].x, r.geom[i].z, 400, &b), HF_OK);
+        double tol = 1e-4 * r.states[i].tension;
+        HF_TEST_ASSERT_NEAR(r.states[i].h, b.h, tol);
+        HF_TEST_ASSERT_NEAR(r.states[i].v, b.v, tol);
+        barchain_result_free(&b);
+    }
+    hf_spread_free(ws);
+    hf_model_free(&m);
+}
+
+/* slope 0 is the flat seabed, bit for bit (the golden snapshot checks the
+ * demo cases without the key). */
+static void test_sloped_seabed_zero_is_flat(void **state)
+{
+    (void)state;
+    hf_model flat, zero;
+    hf_error e;
+    if (cove_load("0 deg", &zero, &e) != HF_OK)
+        fail_msg("%s", e.text);
+    if (cove_load("0 deg", &flat, &e) != HF_OK)
+        fail_msg("%s", e.text);
+    flat.site.seabed_toward = 0.0; /* as if the key were absent */
+    hf_pose p;
+    hf_spread_pose_rest(&zero, &p);
+    hf_spread *w1 = ws_for(&zero), *w2 = ws_for(&flat);
+    hf_spread_result r1, r2;
+    double K1[6][6], K2[6][6];
+    assert_int_equal(hf_spread_stiffness(w1, &p, K1, &r1, &e), HF_OK);
+    assert_int_equal(hf_spread_stiffness(w2, &p, K2, &r2, &e), HF_OK);
+    assert_memory_equal(r1.force, r2.force, sizeof r1.force);
+    assert_memory_equal(K1, K2, sizeof K1);
+    for (size_t i = 0; i < zero.nlines; i++) {
+        assert_true(r1.geom[i].slope == 0.0 && r1.geom[i].anchor_rise == 0.0);
+        assert_memory_equal(&r1.states[i].h, &r2.states[i].h, sizeof(double));
+    }
+    hf_spread_free(w1);
+    hf_spread_free(w2);
+    hf_model_free(&zero);
+    hf_model_free(&flat);
+}
+
+/* Bad values get the file:line:col of the value and what was expected. */
+static void test_sloped_seabed_errors(void **state)
+{
+    (void)state;
+    static const struct {
+        const char *slope, *where, *what;
+    } bad[] = {
+        {"40 deg", "cove.yaml:4:19:", "site.seabed.slope: expected an angle from 0 to below 28.65"},
+        {"-2 deg", "cove.yaml:4:19:", "site.seabed.slope: expected an angle >= 0"},
+        {"3 m", "cove.yaml:4:19:", "site.seabed.slope"},
+        {"nan deg", "cove.yaml:4:19:", "site.seabed.slope"},
+        {"2 deg, towards: 3 deg", "cove.yaml:4:", "did you mean \"toward\""},
+        {"25 deg", "", "above the still water level there"}, /* the east anchor in air */
+    };
+    for (size_t k = 0; k < sizeof bad / sizeof bad[0]; k++) {
+        hf_model m;
+        hf_error e;
+        hf_status st = cove_load(bad[k].slope, &m, &e);
+        if (st == HF_OK || !strstr(e.text, bad[k].where) || !strstr(e.text, bad[k].what))
+            fail_msg("slope %s: status %d, message \"%s\"; expected \"%s\" and \"%s\"",
+                     bad[k].slope, (int)st, e.text, bad[k].where, bad[k].what);
+        hf_model_free(&m);
+    }
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -702,6 +839,9 @@ int main(void)
         cmocka_unit_test(test_failures),
         cmocka_unit_test(test_warm_start_and_reset),
         cmocka_unit_test(test_no_lines_and_alloc_failure),
+        cmocka_unit_test(test_sloped_seabed_geometry),
+        cmocka_unit_test(test_sloped_seabed_zero_is_flat),
+        cmocka_unit_test(test_sloped_seabed_errors),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
 }

@@ -654,7 +654,8 @@ static void test_figure_elevation(void **state)
     (void)state;
     hf_line_point pts[200];
     size_t n = make_profile(pts, 200);
-    hf_svg_elevation e = {"Line \"bow-port\" & co <rest>", pts, n, 58.25, 1, 420.0, 640e3, 0, NULL};
+    hf_svg_elevation e = {
+        "Line \"bow-port\" & co <rest>", pts, n, 58.25, 1, 420.0, 640e3, 0, NULL, 0.0};
     FILE *f = tmpfile();
     assert_non_null(f);
     hf_error err;
@@ -1004,7 +1005,8 @@ static void test_elevation_labels_clear(void **state)
     static hf_line_point pts[200];
     size_t n = make_steep(pts, 200);
     assert_true(104.1 - pts[n - 1].z > 2.8 && 104.1 - pts[n - 1].z < 3.0);
-    hf_svg_elevation e = {"Line weather-a (fictional)", pts, n, 104.1, 1, 300.0, 2.933e6, 0, NULL};
+    hf_svg_elevation e = {
+        "Line weather-a (fictional)", pts, n, 104.1, 1, 300.0, 2.933e6, 0, NULL, 0.0};
     FILE *f = tmpfile();
     assert_int_equal(hf_svg_figure_elevation(f, &e, 1, NULL), HF_OK);
     char *svg = hf_test_stream_read(f, 1);
@@ -1079,7 +1081,7 @@ static void test_elevation_sections_overload(void **state)
      * insert to arc 600 m (MBL 225 kN, allowed 75 kN: its suspended points
      * above 225 kN are overloaded), chain to the end (MBL 2,385 kN). */
     hf_svg_section sec[3] = {{300, 2.385e6, 795e3}, {600, 225e3, 75e3}, {1e9, 2.385e6, 795e3}};
-    hf_svg_elevation e = {"sections", pts, n, 58.25, 1, 420.0, 0, 3, sec};
+    hf_svg_elevation e = {"sections", pts, n, 58.25, 1, 420.0, 0, 3, sec, 0.0};
     size_t over = 0, first = 0;
     for (size_t i = 0; i < n; i++)
         if (pts[i].arc > 300 && pts[i].arc <= 600 && pts[i].tension >= 225e3 && !over++)
@@ -1178,7 +1180,7 @@ static void test_elevation_group_and_overlay(void **state)
     (void)state;
     static hf_line_point p1[200], p2[200];
     size_t n1 = make_profile(p1, 200), n2 = make_steep(p2, 200);
-    hf_svg_elevation e = {"Lines bow-a, bow-b", p1, n1, 58.25, 1, 420.0, 640e3, 0, NULL};
+    hf_svg_elevation e = {"Lines bow-a, bow-b", p1, n1, 58.25, 1, 420.0, 640e3, 0, NULL, 0.0};
     const char *names[3] = {"bow-a", "bow-b <port>", "stern-a"};
     FILE *f = tmpfile();
     assert_int_equal(hf_svg_figure_elevation_group(f, &e, names, 2, 1, NULL), HF_OK);
@@ -1442,7 +1444,7 @@ static void test_figures_degenerate(void **state)
 {
     (void)state;
     hf_line_point v[3] = {{0, 0, 0, 2385.0}, {5, 0, 5, 2385.0}, {10, 0, 10, 2385.0}};
-    hf_svg_elevation e = {"hanging", v, 3, 12.5, 0, 0, 0, 0, NULL};
+    hf_svg_elevation e = {"hanging", v, 3, 12.5, 0, 0, 0, 0, NULL, 0.0};
     FILE *f = tmpfile();
     assert_int_equal(hf_svg_figure_elevation(f, &e, 1, NULL), HF_OK);
     char *svg = hf_test_stream_read(f, 1);
@@ -1484,6 +1486,44 @@ static void test_figures_degenerate(void **state)
     fclose(f);
 }
 
+/* A sloped seabed (issue 15): the seabed rule runs through the anchor at the
+ * slope (its two ends on z = x tan(slope) to half a pixel, by the axis fit);
+ * slope 0 draws the flat seabed byte for byte. */
+static void test_figure_elevation_sloped_seabed(void **state)
+{
+    (void)state;
+    hf_line_point pts[200];
+    size_t n = make_profile(pts, 200);
+    hf_svg_elevation flat = {"Line s", pts, n, 58.25, 1, 420.0, 640e3, 0, NULL, 0.0};
+    hf_svg_elevation zero = flat, up = flat;
+    zero.seabed_slope = 0.0;
+    up.seabed_slope = 0.0415;
+    char *out[3];
+    const hf_svg_elevation *es[3] = {&flat, &zero, &up};
+    for (int k = 0; k < 3; k++) {
+        FILE *f = tmpfile();
+        assert_non_null(f);
+        assert_int_equal(hf_svg_figure_elevation(f, es[k], 1, NULL), HF_OK);
+        out[k] = hf_test_stream_read(f, 1);
+        hf_test_assert_xml(out[k]);
+    }
+    assert_string_equal(out[0], out[1]);
+    fit fx = axis_fit(out[2], 1, 84 + 270 + 19, 0, 0);
+    fit fz = axis_fit(out[2], 0, 82, 80, 84 + 270 + 6);
+    const char *sb = find_line(out[2], "#8a7650", 0); /* SEABED */
+    assert_non_null(sb);
+    double ts = tan(0.0415);
+    double px1 = attr_num(sb, "x1"), py1 = attr_num(sb, "y1");
+    double px2 = attr_num(sb, "x2"), py2 = attr_num(sb, "y2");
+    double d1 = (px1 - fx.a) / fx.b, d2 = (px2 - fx.a) / fx.b; /* back to metres */
+    assert_true(fabs(fit_px(&fz, d1 * ts) - py1) <= 0.5);
+    assert_true(fabs(fit_px(&fz, d2 * ts) - py2) <= 0.5);
+    assert_true(py2 < py1 - 5); /* rising toward the fairlead */
+    assert_non_null(strstr(out[2], "<polygon points="));
+    for (int k = 0; k < 3; k++)
+        free(out[k]);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -1498,6 +1538,7 @@ int main(void)
         cmocka_unit_test(test_escape_and_text),
         cmocka_unit_test(test_palette),
         cmocka_unit_test(test_figure_elevation),
+        cmocka_unit_test(test_figure_elevation_sloped_seabed),
         cmocka_unit_test(test_figure_plan),
         cmocka_unit_test(test_figure_plan_outline_and_errors),
         cmocka_unit_test(test_figure_curve),

@@ -45,6 +45,16 @@ typedef enum {
     HF_PROP_COUNT
 } hf_component_prop;
 
+/* Load-dependent stretch of a component (fibre ropes; issue 15): a cubic
+ * tension-strain polynomial strain = a1 t + a2 t^2 + a3 t^3 in t = T / MBL,
+ * increasing over 0 <= t <= 1 (hf_component_strain_check). */
+typedef enum {
+    HF_STRAIN_LINEAR = 0, /* strain = T / EA (the default) */
+    HF_STRAIN_GIVEN,      /* the user's coefficients (case key strain: [a1, a2, a3]) */
+    HF_STRAIN_DEFAULT     /* the catalogue's approximate curve (strain: default; polyester
+                           * and nylon only, hf_component_strain_default) */
+} hf_strain_kind;
+
 typedef struct {
     hf_component_type type;
     hf_chain_grade grade;              /* chain only; HF_GRADE_NONE otherwise */
@@ -53,6 +63,10 @@ typedef struct {
     unsigned given;                    /* bit p set: value[p] was given by the user */
     const char *source[HF_PROP_COUNT]; /* static text: where each value came from */
     bool approximate;                  /* true for wire and fibre: enter catalogue data */
+    hf_strain_kind strain_kind;        /* HF_STRAIN_LINEAR unless the case gives strain */
+    double strain[3];                  /* a1, a2, a3 (-) when strain_kind is not linear;
+                                        * filled by hf_component_resolve for the default */
+    const char *strain_source;         /* static text: where the curve comes from */
 } hf_component;
 
 /* Stable names: "studless_chain", "studlink_chain", "six_strand",
@@ -91,7 +105,22 @@ hf_status hf_component_resolve(hf_component *c, double rho, hf_error *err);
  *   stays 0, source "not given (informational only)").
  * - `approximate` is set when any value in use comes from an approximate
  *   formula (wire and fibre catalogue values, studlink EA, the stiffness of
- *   ship-grade studless chain); entering those values clears it. */
+ *   ship-grade studless chain); entering those values clears it.
+ * - A tension-strain curve (strain_kind not linear) is checked
+ *   (hf_component_strain_check); HF_STRAIN_DEFAULT fills strain[] from the
+ *   catalogue (HF_EINVAL for a type without one) and sets `approximate`.
+ *   EA keeps its value (shown by `check`) but a line solver that takes the
+ *   curve uses the curve for the stretch. */
+
+/* The catalogue's default tension-strain curve of type t (a[0..2] = a1, a2,
+ * a3; *source a static text marked approximate).  HF_OK for polyester and
+ * nylon; HF_EINVAL (a untouched) for every other type. */
+hf_status hf_component_strain_default(hf_component_type t, double a[3], const char **source);
+
+/* Checks a tension-strain polynomial: finite coefficients, slope
+ * a1 + 2 a2 t + 3 a3 t^2 > 0 over 0 <= t <= 1 (stretch grows with tension),
+ * strain at t = 1 below 1.  HF_OK or HF_EINVAL with a message. */
+hf_status hf_component_strain_check(const double a[3], hf_error *err);
 
 /* The accepted names as one line for messages and help, e.g.
  * "studless_chain, studlink_chain, ..."; static text, never NULL. */

@@ -34,7 +34,17 @@ typedef struct {
     size_t nwater_levels;
     int water_levels_range;
     double water_levels[HF_MODEL_MAX_LEVELS];
+    /* Sloped seabed (issue 15; case key site.seabed): a plane through the
+     * datum seabed (depth below the datum) at the hull's rest position
+     * (hull.position), rising at seabed_slope toward the global direction
+     * seabed_toward.  Both 0 (the default): flat. */
+    double seabed_slope;  /* rad, 0 <= slope < HF_MODEL_MAX_SLOPE */
+    double seabed_toward; /* rad, counterclockwise from global x: where the seabed rises to */
 } hf_site;
+
+/* Documented limit: steepest seabed, rad (0.5 rad = 28.6 deg; the line
+ * solver's hf_line.slope range). */
+#define HF_MODEL_MAX_SLOPE 0.5
 
 typedef struct {
     char *name;
@@ -157,8 +167,22 @@ hf_status hf_model_copy(hf_model *dst, const hf_model *src);
  * with a message (e.g. a clump at a line end, too many sections) or HF_OK. */
 hf_status hf_model_resolve(hf_model *m, hf_error *err);
 
-/* Height of the still water level above the seabed, m: depth + water_level. */
+/* Height of the still water level above the seabed, m: depth + water_level.
+ * On a sloped seabed: above the datum seabed, the plane's height at the
+ * hull's rest position. */
 double hf_model_water_height(const hf_model *m);
+
+/* Sloped seabed (hf_site.seabed_slope): height of the seabed at global
+ * (x, y) above the datum seabed, m (0 on a flat seabed, negative where it
+ * falls away): tan(slope) ((x - x0) cos(toward) + (y - y0) sin(toward)),
+ * (x0, y0) the hull's rest position. */
+double hf_model_seabed_rise(const hf_model *m, double x, double y);
+
+/* Slope of the seabed along the horizontal unit direction dir (global x, y),
+ * rad: atan(tan(slope) (dir . (cos toward, sin toward))); positive where
+ * the seabed rises going along dir; 0 on a flat seabed and where
+ * |tan| < 1e-12 (a line across the slope, up to rounding). */
+double hf_model_seabed_slope_along(const hf_model *m, const double dir[2]);
 
 /* Index of the line / component / load named `name`, or (size_t)-1. */
 size_t hf_model_line_find(const hf_model *m, const char *name);

@@ -10,7 +10,13 @@
  *
  * Conventions (all SI: m, N, N m, rad):
  *   - Global axes x, y horizontal, z up; z = 0 is the still water level; the
- *     flat seabed lies at z = -hf_model_water_height(m).
+ *     flat seabed lies at z = -hf_model_water_height(m).  A sloped seabed
+ *     (hf_site.seabed_slope) lies at -hf_model_water_height(m) +
+ *     hf_model_seabed_rise(m, x, y): each anchor at its own depth, each line
+ *     solved with the seabed's slope along its own vertical plane (which
+ *     turns with the plane as the hull moves).  The analytic 6x6 stiffness
+ *     leaves out the change of that slope as the plane turns (a sideways
+ *     fairlead motion); see docs/spread.md.
  *   - The hull frame has its origin (the reference point) at the still water
  *     level; x forward, y to port, z up.
  *   - A pose is the global position (surge, sway, heave) of the reference
@@ -48,9 +54,14 @@ typedef struct {
     double fairlead[3]; /* global position of the fairlead, m */
     double arm[3];      /* fairlead minus reference point, global axes, m */
     double x;           /* horizontal distance anchor -> fairlead, m (>= 0) */
-    double z;           /* fairlead height above the seabed, m (may be < 0: invalid pose) */
+    double z;           /* fairlead height above the seabed at the anchor, m (may be < 0:
+                         * invalid pose) */
     double dir[2];      /* global unit horizontal vector from the anchor toward the
                          * fairlead; (1, 0) when x is 0 */
+    double slope;       /* sloped seabed: its slope along dir (the line's hf_line.slope at
+                         * this pose), rad; 0 on a flat seabed */
+    double anchor_rise; /* sloped seabed: seabed height at the anchor above the datum
+                         * seabed, m (hf_model_seabed_rise); 0 on a flat seabed */
 } hf_spread_geom;
 
 /* Opaque workspace: per-line states (warm starts), geometry, forces, mask. */

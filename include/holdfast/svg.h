@@ -214,6 +214,10 @@ typedef struct {
     size_t nsections;               /* 0: no section data */
     const hf_svg_section *sections; /* nsections, anchor first, end_arc increasing;
                                      * points beyond the last end belong to it */
+    double seabed_slope;            /* sloped seabed (issue 15): its slope in the line's
+                                     * plane, rad, rising from the anchor toward the
+                                     * fairlead (hf_spread_geom.slope); 0 = flat.  The
+                                     * overlay draws e[0]'s */
 } hf_svg_elevation;
 
 /* Writes figure (1).  standalone as in hf_svg_begin.  HF_EINVAL when a
