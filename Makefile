@@ -3,6 +3,17 @@
 
 PREFIX   ?= /usr/local
 DESTDIR  ?=
+BINDIR   ?= $(PREFIX)/bin
+LIBDIR   ?= $(PREFIX)/lib
+INCLUDEDIR ?= $(PREFIX)/include
+MANDIR   ?= $(PREFIX)/share/man
+PKGCONFIGDIR ?= $(LIBDIR)/pkgconfig
+# The Python package goes where the system Python (PYTHON) looks: Debian's
+# /usr/lib/python3/dist-packages for PREFIX=/usr, else
+# PREFIX/lib/python3.X/dist-packages (on sys.path for /usr/local); any other
+# PREFIX needs PYTHONPATH, or set PYTHON_SITE.  docs/library.md.
+PYTHON   ?= /usr/bin/python3
+PYTHON_SITE ?= $(if $(filter /usr,$(PREFIX)),$(PREFIX)/lib/python3/dist-packages,$(PREFIX)/lib/python$(shell $(PYTHON) -c 'import sys; print("%d.%d" % sys.version_info[:2])' 2>/dev/null || echo 3)/dist-packages)
 CC       ?= cc
 OPT      ?= -O2 -g
 SANITIZE ?=
@@ -91,7 +102,7 @@ SHLIB_DEFS := $(if $(SANITIZE),,-Wl,-z,defs)
 
 # A target whose recipe fails is deleted, never left half-built.
 .DELETE_ON_ERROR:
-.PHONY: all check demo clean install uninstall debug tests help
+.PHONY: all check demo clean install uninstall debug tests help FORCE
 all: $(BIN) $(SHLIB_DEV)
 
 # Every object depends on $(BUILD)/flags, which changes only when the
@@ -158,8 +169,15 @@ $(BUILD)/fuzz_case.checked: fuzz/fuzz_case.c
 tests: $(TEST_BIN) $(BIN) $(BUILD)/fuzz_case.checked
 
 # Every test binary runs even when one fails; the summary line counts them.
-check: tests
-	@HF_BIN=$(abspath $(BIN)) HF_ROOT=$(CURDIR) sh scripts/run-tests.sh $(TEST_BIN) tests/golden.sh
+# tests/install-check.sh installs into a scratch DESTDIR (a sub-make: it
+# inherits BUILD, SANITIZE... through MAKEFLAGS) and builds the C example
+# with pkg-config; tests/python-tests.sh runs python/tests when it exists.
+SCRIPT_TESTS = tests/golden.sh tests/install-check.sh $(if $(wildcard python/tests),tests/python-tests.sh)
+check: tests $(SHLIB_DEV)
+	@HF_BIN=$(abspath $(BIN)) HF_ROOT=$(CURDIR) HF_BUILD=$(BUILD) HF_CC='$(CC)' MAKE='$(MAKE)' \
+	    HF_SANITIZE='$(SANITIZE)' PYTHON='$(PYTHON)' \
+	    HF_EXAMPLE_CFLAGS='$(if $(SANITIZE),-fsanitize=$(SANITIZE) -fno-omit-frame-pointer)' \
+	    sh scripts/run-tests.sh $(TEST_BIN) $(SCRIPT_TESTS)
 
 demo: $(BIN)
 	./$(BIN) run cases/barge.yaml --out barge-results
@@ -168,12 +186,44 @@ demo: $(BIN)
 debug:
 	$(MAKE) BUILD=build-debug OPT='-O0 -g3' check
 
-install: $(BIN) $(SHLIB_DEV)
-	install -D -m 755 $(BIN) $(DESTDIR)$(PREFIX)/bin/holdfast
-	install -D -m 644 docs/holdfast.1 $(DESTDIR)$(PREFIX)/share/man/man1/holdfast.1
+# The public headers are include/holdfast/*.h except cli.h (the program's).
+PUBLIC_HEADERS = $(filter-out include/holdfast/cli.h,$(wildcard include/holdfast/*.h))
+PY_FILES = $(shell find python/holdfast -name '*.py' 2>/dev/null | sort)
+
+$(BUILD)/holdfast.pc: mk/holdfast.pc.in $(BUILD)/flags FORCE
+	@sed -e 's|@PREFIX@|$(PREFIX)|g' -e 's|@LIBDIR@|$(LIBDIR)|g' \
+	    -e 's|@INCLUDEDIR@|$(INCLUDEDIR)|g' -e 's|@VERSION@|$(VERSION)|g' \
+	    -e 's|@OMP@|$(OMP)|g' $< >$@.tmp && mv $@.tmp $@
+
+# Everything a user of the program, the C library or the Python package
+# needs, under $(DESTDIR)$(PREFIX).  ldconfig runs only for a real install
+# (no DESTDIR), as root; otherwise it says what to do.
+install: $(BIN) $(SHLIB_DEV) $(LIB) $(BUILD)/holdfast.pc
+	install -D -m 755 $(BIN) $(DESTDIR)$(BINDIR)/holdfast
+	install -D -m 644 docs/holdfast.1 $(DESTDIR)$(MANDIR)/man1/holdfast.1
+	install -D -m 755 $(SHLIB) $(DESTDIR)$(LIBDIR)/$(notdir $(SHLIB))
+	ln -sf $(notdir $(SHLIB)) $(DESTDIR)$(LIBDIR)/$(notdir $(SHLIB_SONAME))
+	ln -sf $(notdir $(SHLIB_SONAME)) $(DESTDIR)$(LIBDIR)/$(notdir $(SHLIB_DEV))
+	install -D -m 644 $(LIB) $(DESTDIR)$(LIBDIR)/libholdfast.a
+	install -d $(DESTDIR)$(INCLUDEDIR)/holdfast
+	install -m 644 $(PUBLIC_HEADERS) $(DESTDIR)$(INCLUDEDIR)/holdfast/
+	install -D -m 644 $(BUILD)/holdfast.pc $(DESTDIR)$(PKGCONFIGDIR)/holdfast.pc
+	@set -e; for f in $(PY_FILES); do \
+	    echo "install -D -m 644 $$f $(DESTDIR)$(PYTHON_SITE)/$${f#python/}"; \
+	    install -D -m 644 "$$f" "$(DESTDIR)$(PYTHON_SITE)/$${f#python/}"; done
+	@if [ -z "$(DESTDIR)" ] && [ "$$(id -u)" = 0 ]; then ldconfig; \
+	elif [ -z "$(DESTDIR)" ]; then echo "install: run ldconfig as root, or set LD_LIBRARY_PATH=$(LIBDIR)"; fi
 
 uninstall:
-	rm -f $(DESTDIR)$(PREFIX)/bin/holdfast $(DESTDIR)$(PREFIX)/share/man/man1/holdfast.1
+	rm -f $(DESTDIR)$(BINDIR)/holdfast $(DESTDIR)$(MANDIR)/man1/holdfast.1
+	rm -f $(DESTDIR)$(LIBDIR)/$(notdir $(SHLIB)) $(DESTDIR)$(LIBDIR)/$(notdir $(SHLIB_SONAME)) \
+	    $(DESTDIR)$(LIBDIR)/$(notdir $(SHLIB_DEV)) $(DESTDIR)$(LIBDIR)/libholdfast.a
+	rm -f $(PUBLIC_HEADERS:include/holdfast/%=$(DESTDIR)$(INCLUDEDIR)/holdfast/%)
+	rmdir $(DESTDIR)$(INCLUDEDIR)/holdfast 2>/dev/null || true
+	rm -f $(DESTDIR)$(PKGCONFIGDIR)/holdfast.pc
+	rm -rf $(DESTDIR)$(PYTHON_SITE)/holdfast
+
+FORCE:
 
 clean:
 	rm -rf build build-* barge-results

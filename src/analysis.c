@@ -152,6 +152,24 @@ hf_status hf_analysis_curve_compute(hf_analysis_curve *c, const hf_model *m, dou
 {
     if (!isfinite(direction) || !isfinite(from) || !isfinite(to) || !isfinite(step))
         return hf_error_set(err, HF_EINVAL, "curve: direction, start and step must be finite");
+    hf_vary v;
+    memset(&v, 0, sizeof v);
+    v.from = from;
+    v.to = to;
+    v.step = step;
+    for (size_t k = 0; k < c->n; k++)
+        c->offset[k] = hf_study_vary_value(&v, k); /* the one range rule (study.h) */
+    return hf_analysis_curve_compute_at(c, m, direction, c->offset, err);
+}
+
+hf_status hf_analysis_curve_compute_at(hf_analysis_curve *c, const hf_model *m, double direction,
+                                       const double *offsets, hf_error *err)
+{
+    if (!isfinite(direction))
+        return hf_error_set(err, HF_EINVAL, "curve: the direction must be finite");
+    for (size_t k = 0; k < c->n; k++)
+        if (!isfinite(offsets[k]))
+            return hf_error_set(err, HF_EINVAL, "curve: offset %zu is not finite", k);
     hf_spread *ws = hf_spread_alloc(m, err);
     if (!ws)
         return err ? err->status : HF_ENOMEM;
@@ -160,15 +178,10 @@ hf_status hf_analysis_curve_compute(hf_analysis_curve *c, const hf_model *m, dou
     c->first_failed = (size_t)-1;
     hf_error_clear(&c->first_error);
     double cd = cos(direction), sd = sin(direction);
-    hf_vary v;
-    memset(&v, 0, sizeof v);
-    v.from = from;
-    v.to = to;
-    v.step = step;
     hf_pose rest;
     hf_spread_pose_rest(m, &rest);
     for (size_t k = 0; k < c->n; k++) {
-        double s = hf_study_vary_value(&v, k); /* the one range rule (study.h) */
+        double s = offsets[k];
         hf_pose p = rest;
         p.surge += s * cd;
         p.sway += s * sd;

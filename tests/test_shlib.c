@@ -341,10 +341,10 @@ static void test_parameter_by_path(void **state)
     const hf_line_state *s = &a.res.states[0];
     NEAR_PRINTED(s->tension / 1e3, csv_value(out, 0, "T_practice_kN"), 1e-9);
     NEAR_PRINTED(a.K[0][0] / 1e3, csv_value(out, 0, "stiffness_surge_kN_per_m"), 1e-9);
-    /* Elastic catenary from the touchdown point (Irvine 1981, "Cable
-     * Structures", eqs. 2.x for a cable starting horizontal): the suspended
-     * part carries V = w s, and the fairlead height above the seabed is
-     * z = H/w (sqrt(1 + (V/H)^2) - 1) + V^2 / (2 w EA). */
+    /* Elastic catenary from the touchdown point, where the line leaves the
+     * seabed horizontally (Irvine 1981, "Cable Structures", ch. 2; this form
+     * from memory): the suspended part carries V = w s, and the fairlead
+     * height above the seabed is z = H/w (sqrt(1 + (V/H)^2) - 1) + V^2 / (2 w EA). */
     const hf_section *sec = &m.lines[0].line.sec[0];
     double w = sec->weight, h = s->h, vv = s->v;
     assert_int_equal(s->regime, HF_LINE_TOUCHDOWN);

@@ -105,6 +105,12 @@ void hf_analysis_curve_free(hf_analysis_curve *c);
 hf_status hf_analysis_curve_compute(hf_analysis_curve *c, const hf_model *m, double direction,
                                     double from, double to, double step, hf_error *err);
 
+/* As hf_analysis_curve_compute, at the c->n offsets offsets[k] (m along
+ * the direction, any order; offsets may be c->offset itself), under the same
+ * policy.  HF_EINVAL when the direction or an offset is not finite. */
+hf_status hf_analysis_curve_compute_at(hf_analysis_curve *c, const hf_model *m, double direction,
+                                       const double *offsets, hf_error *err);
+
 /* ---- balance runs: load cases, intact and each line broken ---- */
 
 /* Receives the results of hf_analysis_balance_run as they are found (a run

@@ -1,0 +1,252 @@
+"""Tests of the holdfast Python package against the command line's CSV files.
+
+Every result is compared with what `holdfast lines|stiffness|curve|balance
+--csv -` prints for the demo cases (cases/*.yaml, fictional scenarios): the
+same column names and the same numbers to the printed digits (the CSV writes
+10 significant digits, "%.10g").  The command line is $HF_BIN (set by make
+check) or build/holdfast; the library is found as the package documents
+(HOLDFAST_LIBRARY, then build/).  A missing binary or library is a failure,
+not a skip.  Run: PYTHONPATH=python /usr/bin/python3 -m unittest discover -s python/tests
+"""
+
+import csv
+import io
+import math
+import os
+import subprocess
+import tempfile
+import unittest
+import warnings
+
+import holdfast
+
+ROOT = os.path.normpath(os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", ".."))
+BIN = os.environ.get("HF_BIN") or os.path.join(ROOT, "build", "holdfast")
+CASES = [os.path.join(ROOT, "cases", n) for n in ("barge.yaml", "marina.yaml", "student.yaml")]
+
+try:
+    import numpy  # noqa: F401
+    HAVE_NUMPY = True
+except ImportError:
+    HAVE_NUMPY = False
+
+
+def cli(*args, ok=(0, 1)):
+    """Runs the command line; returns (exit status, stdout, stderr)."""
+    p = subprocess.run([BIN] + list(args), capture_output=True, text=True, cwd=ROOT)
+    if p.returncode not in ok:
+        raise AssertionError("holdfast %s: exit %d: %s" % (" ".join(args), p.returncode, p.stderr))
+    return p.returncode, p.stdout, p.stderr
+
+
+def cli_csv(*args, ok=(0, 1)):
+    """The CSV a command prints with --csv -, as (header, rows of str)."""
+    _, out, _ = cli(*(list(args) + ["--csv", "-"]), ok=ok)
+    rows = list(csv.reader(io.StringIO(out)))
+    return rows[0], rows[1:]
+
+
+def printed(v):
+    """A value as the CSV prints it: "%.10g", empty for None."""
+    if v is None:
+        return ""
+    if isinstance(v, str):
+        return v
+    return "%.10g" % v
+
+
+class CsvCompare(unittest.TestCase):
+    def assert_row(self, header, expected, got, where):
+        self.assertEqual(list(got.keys()), header, where)
+        for name, text in zip(header, expected):
+            self.assertEqual(printed(got[name]), text, "%s, column %s" % (where, name))
+
+
+class TestPreconditions(unittest.TestCase):
+    def test_binary_and_library(self):
+        self.assertTrue(os.access(BIN, os.X_OK), "no holdfast binary at %s (run make)" % BIN)
+        self.assertTrue(holdfast.library_path())
+
+
+class TestLines(CsvCompare):
+    def test_lines_at_rest_and_offset(self):
+        # offset 3 m, -2 m, 4 deg: the golden test's pose, which overloads a
+        # marina line (exit 1, alert column) - the package warns instead
+        for path in CASES:
+            case = holdfast.Case(path)
+            for off_cli, off_py in (("0,0,0", (0, 0, 0)),
+                                    ("3,-2,4", (3, -2, math.radians(4)))):
+                header, rows = cli_csv("lines", path, "--offset", off_cli)
+                with warnings.catch_warnings(record=True) as w:
+                    warnings.simplefilter("always")
+                    got = case.lines(offset=off_py)
+                self.assertEqual(len(got), len(rows))
+                for exp, row in zip(rows, got):
+                    self.assert_row(header, exp, row, "%s at %s" % (path, off_cli))
+                over = [r for r in got if r["alert"] == "overloaded"]
+                self.assertEqual(bool(over),
+                                 any(issubclass(x.category, holdfast.HoldfastWarning) for x in w))
+
+    def test_offset_with_units(self):
+        case = holdfast.Case(CASES[0])
+        a = case.lines(offset=("3 m", "-200 cm", "4 deg"))
+        b = case.lines(offset=(3, -2, math.radians(4)))
+        self.assertEqual(a, b)
+
+
+@unittest.skipUnless(HAVE_NUMPY, "numpy is not installed for this python (use /usr/bin/python3)")
+class TestArrays(CsvCompare):
+    def test_stiffness(self):
+        for path in CASES:
+            case = holdfast.Case(path)
+            header, rows = cli_csv("stiffness", path, "--offset", "2,1,1")
+            K = case.stiffness(offset=(2, 1, math.radians(1)))
+            self.assertEqual(K.shape, (6, 6))
+            for i in range(6):
+                self.assertEqual(rows[i][0], header[i + 1])
+                for j in range(6):
+                    self.assertEqual(printed(K[i, j]), rows[i][j + 1], "%s K[%d][%d]" % (path, i, j))
+            F = case.static_load(offset=(2, 1, math.radians(1)))
+            self.assertEqual([printed(x) for x in F], rows[6][1:])
+
+    def test_curve(self):
+        import numpy as np
+        offsets = np.arange(-10.0, 10.0 + 1e-9, 2.5)  # the CLI's -10:10:2.5
+        for path in CASES:
+            case = holdfast.Case(path)
+            header, rows = cli_csv("curve", path, "--direction", "30", "--range", "-10:10:2.5")
+            with warnings.catch_warnings():
+                warnings.simplefilter("ignore", holdfast.HoldfastWarning)
+                c = case.curve("30 deg", offsets)
+                c2 = case.curve(math.radians(30), offsets)
+            self.assertEqual(list(c.keys()), header)
+            for k, row in enumerate(rows):
+                for j, name in enumerate(header):
+                    self.assertEqual(printed(c[name][k] if c[name].dtype.kind == "f"
+                                             else str(c[name][k])), row[j],
+                                     "%s offset %d column %s" % (path, k, name))
+            for name in header:
+                self.assertEqual(list(c[name]), list(c2[name]))
+
+
+class TestBalance(CsvCompare):
+    def test_balance_all_loads(self):
+        for path in CASES:
+            case = holdfast.Case(path)
+            if not case.load_names:
+                with self.assertRaises(holdfast.HoldfastError) as e:
+                    case.balance()
+                self.assertIn("no load cases", str(e.exception))
+                continue
+            with warnings.catch_warnings():
+                warnings.simplefilter("ignore", holdfast.HoldfastWarning)
+                got = case.balance()
+            # the session balances the case's site.water_level; the CLI runs
+            # the case's whole site.water_levels envelope unless told the level
+            level = printed(got[0]["water_level_m"]) if got else None
+            extra = ["--water-level", level] if level else []
+            header, rows = cli_csv("balance", path, *extra, ok=(0, 1, 3))
+            self.assertEqual(len(got), len(rows))
+            for exp, row in zip(rows, got):
+                self.assert_row(header, exp, row, path)
+
+    def test_balance_one_load_and_bad_name(self):
+        case = holdfast.Case(CASES[0])
+        header, rows = cli_csv("balance", CASES[0], "--load", "head-storm")
+        got = case.balance("head-storm")
+        self.assertEqual([r["load"] for r in got], ["head-storm"] * len(rows))
+        for exp, row in zip(rows, got):
+            self.assert_row(header, exp, row, "head-storm")
+        with self.assertRaises(holdfast.HoldfastError) as e:
+            case.balance(["head-strom"])
+        self.assertIn('no load case named "head-strom"', str(e.exception))
+
+
+BAD_CASE = """title: fictional
+site:
+  depth: 48 m
+components:
+  chain: {type: studless_chain, grade: R3S, diameter: 52 mm}
+lines:
+  - name: one
+    anchor: [-365, 0]
+    fairlead: [0, 0, -6]
+    sections:
+      - {component: chain, length: -370 m}
+"""
+
+
+class TestErrors(unittest.TestCase):
+    def test_bad_case_message_is_the_cli_message(self):
+        with tempfile.TemporaryDirectory() as d:
+            path = os.path.join(d, "bad.yaml")
+            with open(path, "w") as f:
+                f.write(BAD_CASE)
+            status, _, err = cli("check", path, ok=(2,))
+            with self.assertRaises(holdfast.CaseError) as e:
+                holdfast.Case(path)
+        self.assertEqual("holdfast: " + str(e.exception) + "\n", err)
+        self.assertIn(path + ":11:", str(e.exception))
+        with self.assertRaises(holdfast.CaseError) as e:
+            holdfast.Case.from_string(BAD_CASE)
+        self.assertTrue(str(e.exception).startswith("<string>:11:"), str(e.exception))
+        self.assertIn("lines[0].sections[0].length", str(e.exception))
+        with self.assertRaises(holdfast.CaseError):
+            holdfast.Case(os.path.join(ROOT, "no-such-case.yaml"))
+
+    def test_bad_set_raises_and_leaves_the_case_usable(self):
+        case = holdfast.Case(CASES[2])
+        path = "lines[practice].sections[0].length"
+        before, length = case.lines(), case.get(path)
+        for bad in ("3 kN", "-5 m", "abc", float("nan"), -370.0, 0):
+            with self.assertRaises(holdfast.ParameterError) as e:
+                case.set(path, bad)
+            self.assertTrue(str(e.exception).startswith(path), str(e.exception))
+        with self.assertRaises(holdfast.ParameterError):
+            case.set("lines[nosuch].sections[0].length", 300)
+        with self.assertRaises(TypeError):
+            case.set(path, None)
+        self.assertEqual(case.get(path), length)
+        self.assertEqual(case.lines(), before)
+
+    def test_set_is_the_same_as_editing_the_file(self):
+        # 1247 ft = 380.0856 m (1 ft = 0.3048 m exactly, international foot)
+        case = holdfast.Case(CASES[2])
+        case.set("lines[practice].sections[0].length", "1247 ft")
+        self.assertAlmostEqual(case.get("lines[practice].sections[0].length"), 380.0856, places=9)
+        with open(CASES[2]) as f:
+            text = f.read().replace("length: 370 m}", "length: 1247 ft}", 1)
+        with tempfile.TemporaryDirectory() as d:
+            path = os.path.join(d, "edited.yaml")
+            with open(path, "w") as f:
+                f.write(text)
+            header, rows = cli_csv("lines", path)
+        for exp, row in zip(rows, case.lines()):
+            self.assertEqual([printed(row[h]) for h in header], exp)
+
+    def test_unsolvable_line_raises_with_the_message(self):
+        # a 700 kN buoy on a short chain: a shape the solver does not support
+        # (exit 3); the package raises SolveError with the same message
+        text = BAD_CASE.replace("length: -370 m}", "length: 200 m}\n"
+                                "      - {buoy: 700 kN}\n"
+                                "      - {component: chain, length: 170 m}")
+        with tempfile.TemporaryDirectory() as d:
+            path = os.path.join(d, "buoy.yaml")
+            with open(path, "w") as f:
+                f.write(text)
+            status, _, err = cli("lines", path, ok=(3,))
+            case = holdfast.Case(path)
+        with self.assertRaises(holdfast.SolveError) as e:
+            case.lines()
+        self.assertEqual("holdfast: " + str(e.exception), err.strip().splitlines()[-1])
+        self.assertEqual(e.exception.status, "unsupported configuration")
+
+    def test_closed_case(self):
+        case = holdfast.Case(CASES[2])
+        case.close()
+        with self.assertRaises(holdfast.HoldfastError):
+            case.lines()
+
+
+if __name__ == "__main__":
+    unittest.main()
