@@ -360,8 +360,7 @@ static void env_anchor(hf_analysis_envelope_line *el, const hf_anchor_criterion 
 }
 
 /* One condition's result into the envelope. */
-static void env_add(hf_analysis_envelope *e, const hf_analysis_where *w,
-                    const hf_balance_result *r)
+static void env_add(hf_analysis_envelope *e, const hf_analysis_where *w, const hf_balance_result *r)
 {
     if (!r->passed && e->first_failed.load == (size_t)-1)
         e->first_failed = *w;
@@ -375,8 +374,8 @@ static void env_add(hf_analysis_envelope *e, const hf_analysis_where *w,
         keep(&el->tension, &el->at, r->tension[i], w, r->tension[i] > el->tension);
         if (el->at.load == w->load && el->at.cond == w->cond && el->at.level == w->level)
             el->utilisation = u;
-        keep(&el->min_factor, &el->factor_at, f, w, f > 0.0 && (el->min_factor == 0.0 ||
-                                                                f < el->min_factor));
+        keep(&el->min_factor, &el->factor_at, f, w,
+             f > 0.0 && (el->min_factor == 0.0 || f < el->min_factor));
         env_anchor(el, &r->anchor[i], w);
     }
     if (r->overloaded && r->overloaded_line < r->nlines) {
@@ -408,8 +407,8 @@ static hf_status env_condition(void *ctx, const hf_load *l, const hf_balance_res
     return s->condition ? s->condition(s->ctx, l, r, err) : HF_OK;
 }
 
-static hf_status env_load_end(void *ctx, const hf_load *l, hf_status intact,
-                              const double offset[3], hf_error *err)
+static hf_status env_load_end(void *ctx, const hf_load *l, hf_status intact, const double offset[3],
+                              hf_error *err)
 {
     env_ctx *c = ctx;
     const hf_analysis_balance_sink *s = &c->sink->each;

@@ -657,8 +657,8 @@ static hf_status evaluate(hf_balance *b, hf_balance_result *r, const hf_spread_r
         hf_criteria_anchor_forces(&m->criteria, st, &ah, &av);
         hf_criteria_block_required(&m->criteria, &m->lines[i].anchor_spec, &rs, &ru);
         if (s == HF_OK)
-            s = hf_criteria_anchor_evaluate(&m->lines[i].anchor_spec, ah, av, rs, ru,
-                                            &r->anchor[i], err);
+            s = hf_criteria_anchor_evaluate(&m->lines[i].anchor_spec, ah, av, rs, ru, &r->anchor[i],
+                                            err);
         if (s != HF_OK)
             return s;
         if (!r->line[i].passed)

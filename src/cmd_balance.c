@@ -43,7 +43,8 @@ static const char usage_text[] =
     "rest position; yaw is the turn from the rest heading, counterclockwise.\n"
     "\n"
     "options:\n"
-    "  --load NAME    analyse this load case only (repeat for several)\n"    "  --water-level LEVELS  the still water levels instead of the case's:\n"
+    "  --load NAME    analyse this load case only (repeat for several)\n"
+    "  --water-level LEVELS  the still water levels instead of the case's:\n"
     "                 FROM:TO:STEP (m; TO always included) or a list A,B,C\n"
     "  --csv FILE|-   write one CSV row per load case and condition (- = standard\n"
     "                 output; the readable report is then left out)\n"
@@ -169,7 +170,8 @@ static void print_condition(FILE *out, const hf_model *m, const hf_balance_resul
     fprintf(out, "\n  -- %s: equilibrium found (%d load steps, %d Newton iterations)\n", cn,
             r->steps, r->iterations);
     if (r->overloaded)
-        fprintf(out, "     OVERLOADED: line %s at utilisation %.3f (tension at or beyond its MBL)\n",
+        fprintf(out,
+                "     OVERLOADED: line %s at utilisation %.3f (tension at or beyond its MBL)\n",
                 hf_results_line_name(m, r->overloaded_line), r->utilisation[r->overloaded_line]);
     fprintf(out, "     offset: surge %.3f m, sway %.3f m (horizontal %.3f m), yaw %.3f deg\n",
             r->offset[0], r->offset[1], r->horizontal, r->offset[2] * RAD2DEG);
@@ -210,7 +212,10 @@ static void print_condition(FILE *out, const hf_model *m, const hf_balance_resul
                 hf_results_line_name(m, r->max_utilisation_line),
                 r->tension[r->max_utilisation_line] / 1e3, r->max_utilisation);
     hf_results_balance_criterion(m, r, crit, sizeof crit);
-    fprintf(out, "     verdict: %s (governing: %s)\n", verdict(r->passed), crit);
+    char why[160];
+    hf_results_balance_failure(m, r, why, sizeof why);
+    fprintf(out, "     verdict: %s (governing: %s%s%s)\n", verdict(r->passed), crit,
+            why[0] ? "; " : "", why);
 }
 
 static void print_load(FILE *out, const hf_load *l, const double f[3])
@@ -245,15 +250,34 @@ typedef struct {
     hf_cli_bar progress;
     int show_progress;
     size_t nlevels; /* levels of the envelope */
+    int full;       /* 1: this level is reported in full (the one nearest the
+                     * case's water_level); other levels: one line per passing
+                     * condition, failures in full */
+    double nearest; /* that level, m */
 } sink_ctx;
 
 static hf_status on_load(void *ctx, const hf_load *l, const double force[3], hf_error *err)
 {
     sink_ctx *c = ctx;
     (void)err;
-    if (c->out)
+    if (c->out && c->full)
         print_load(c->out, l, force);
+    else if (c->out)
+        fprintf(c->out, "\n== load %s\n", l->name);
     return HF_OK;
+}
+
+/* One line for a condition that passed at a level other than the detailed one. */
+static void print_brief(FILE *out, const hf_model *m, const hf_balance_result *r)
+{
+    char cn[HF_MODEL_MAX_NAME + 16], crit[HF_MODEL_MAX_NAME + 32];
+    hf_results_balance_condition(m, r, cn, sizeof cn);
+    hf_results_balance_criterion(m, r, crit, sizeof crit);
+    fprintf(out,
+            "  -- %s: PASS; worst %s %.1f kN (utilisation %.4f), offset %.3f m, governing %s\n", cn,
+            hf_results_line_name(m, r->max_utilisation_line),
+            r->max_utilisation_line < r->nlines ? r->tension[r->max_utilisation_line] / 1e3 : 0.0,
+            r->max_utilisation, r->horizontal, crit);
 }
 
 static hf_status on_condition(void *ctx, const hf_load *l, const hf_balance_result *r,
@@ -261,8 +285,10 @@ static hf_status on_condition(void *ctx, const hf_load *l, const hf_balance_resu
 {
     sink_ctx *c = ctx;
     (void)err;
-    if (c->out)
+    if (c->out && (c->full || !r->passed || r->status != HF_OK))
         print_condition(c->out, c->m, r);
+    else if (c->out)
+        print_brief(c->out, c->m, r);
     if (c->f)
         c->nonfinite += hf_results_balance_row_write(hf_outfile_stream(c->f), c->m, l, r);
     return HF_OK;
@@ -273,7 +299,7 @@ static hf_status on_load_end(void *ctx, const hf_load *l, hf_status intact, cons
 {
     sink_ctx *c = ctx;
     (void)l, (void)intact, (void)offset, (void)err;
-    if (c->out)
+    if (c->out && c->full)
         fprintf(c->out, "\n%s", hf_caution_text);
     return HF_OK;
 }
@@ -325,9 +351,11 @@ static hf_status on_level(void *ctx, size_t k, double level, const hf_model *at,
     sink_ctx *c = ctx;
     (void)err;
     c->m = at; /* rows and names from the model at this level (same names) */
+    c->full = c->nlevels == 1 || level == c->nearest;
     if (c->out && c->nlevels > 1)
-        fprintf(c->out, "\n=== still water level %.3g m above the datum (%zu of %zu)\n", level,
-                k + 1, c->nlevels);
+        fprintf(c->out, "\n=== still water level %.3g m above the datum (%zu of %zu)%s\n", level,
+                k + 1, c->nlevels,
+                c->full ? "" : ": conditions that pass in one line each, failures in full");
     return HF_OK;
 }
 
@@ -372,7 +400,10 @@ static int balance(const hf_model *m, const char *path, const char *csv, const s
     hf_error err;
     hf_error_clear(&err);
     int human = !csv || strcmp(csv, "-") != 0;
-    sink_ctx c = {m, human ? stdout : NULL, NULL, 0, {0.0, 0.0, 0}, 0, e->nlevels};
+    sink_ctx c = {m, human ? stdout : NULL, NULL, 0, {0.0, 0.0, 0}, 0, e->nlevels, 1, e->level[0]};
+    for (size_t k = 1; k < e->nlevels; k++) /* the level shown in full */
+        if (fabs(e->level[k] - m->site.water_level) < fabs(c.nearest - m->site.water_level))
+            c.nearest = e->level[k];
     hf_cli_bar_start(&c.progress);
     c.show_progress = isatty(fileno(stderr)) && !isatty(fileno(stdout));
     if (csv && !(c.f = hf_cli_csv_begin(csv, hf_results_balance_header_write, m, &err)))
@@ -395,8 +426,8 @@ static int balance(const hf_model *m, const char *path, const char *csv, const s
         return hf_cli_fail(&err);
     FILE *sum = human ? stdout : stderr;
     print_verdict(sum, m, e);
-    if (!human)
-        fputs(hf_caution_text, stderr);
+    if (!human || e->nlevels > 1)
+        fprintf(sum, "%s%s", human ? "\n" : "", hf_caution_text);
     int over = report_overload(m, e);
     const hf_analysis_balance_count *n = &e->count;
     return n->noresult ? HF_EXIT_NUMERIC : n->failed || over ? HF_EXIT_CRITERION : HF_EXIT_OK;
@@ -419,8 +450,8 @@ static int levels(const hf_model *m, const char *text, hf_analysis_envelope **e)
         if (hf_cli_parse_range(text, &from, &to, &step, HF_MODEL_MAX_LEVELS - 1, &count, &err) !=
             HF_OK)
             return hf_cli_usage_error("balance", "--water-level: %s", err.text);
-        for (n = 0; n < count; n++)
-            v[n] = from + (double)n * step;
+        for (n = 0; n < count; n++) /* to 1e-9 m: 0.1 x 19 gives the double of "1.9" */
+            v[n] = round((from + (double)n * step) * 1e9) / 1e9;
         if (fabs(v[n - 1] - to) > 1e-9 * fabs(step))
             v[n++] = to; /* an envelope always covers its end */
         else
@@ -436,8 +467,10 @@ static int levels(const hf_model *m, const char *text, hf_analysis_envelope **e)
                 return hf_cli_usage_error("balance", "%s", err.text);
         }
         if (n == 0)
-            return hf_cli_usage_error("balance", "--water-level: expected FROM:TO:STEP or a list "
-                                                 "of levels, got \"%s\"", text);
+            return hf_cli_usage_error("balance",
+                                      "--water-level: expected FROM:TO:STEP or a list "
+                                      "of levels, got \"%s\"",
+                                      text);
     }
     for (size_t k = 0; k < n; k++)
         if (!(m->site.depth + v[k] > 0.0))
@@ -455,16 +488,15 @@ int hf_cmd_balance(int argc, char **argv)
     const char *cmd = "balance", *path = NULL, *csv = NULL, *wl = NULL;
     const char *names[HF_CLI_MAX_REPEAT];
     int nsel = 0;
-    const hf_cli_opt opts[] = {HF_CLI_OPT_CSV(&csv),
-                               {.name = "--load",
-                                .missing = "--load needs the NAME of a load case",
-                                .nonempty = 1,
-                                .count = &nsel,
-                                .list = names,
-                                .list_cap = HF_CLI_MAX_REPEAT},
-                               HF_CLI_OPT_VALUE("--water-level",
-                                                "--water-level needs FROM:TO:STEP or a list A,B",
-                                                &wl)};
+    const hf_cli_opt opts[] = {
+        HF_CLI_OPT_CSV(&csv),
+        {.name = "--load",
+         .missing = "--load needs the NAME of a load case",
+         .nonempty = 1,
+         .count = &nsel,
+         .list = names,
+         .list_cap = HF_CLI_MAX_REPEAT},
+        HF_CLI_OPT_VALUE("--water-level", "--water-level needs FROM:TO:STEP or a list A,B", &wl)};
     int rc = hf_cli_parse_case_args(argc, argv, cmd, usage_text, opts, 3, &path);
     if (rc != HF_CLI_CONTINUE)
         return rc;

@@ -7,7 +7,9 @@
 #include "holdfast/balance.h"
 #include "holdfast/caution.h"
 #include "holdfast/criteria.h"
+#include "holdfast/report_design.h"
 #include "holdfast/report.h"
+#include "holdfast/results.h"
 #include "holdfast/svg.h"
 
 #ifndef HF_VERSION
@@ -388,6 +390,7 @@ static void case_section(hf_report *r, const hf_model *m)
         }
         hf_report_table_end(r);
     }
+    hf_report_design_case(r, m); /* issue 14: hull design data, environments */
 }
 
 /* One property row: name, value with unit, source. */
@@ -1118,4 +1121,107 @@ hf_status hf_report_svg_curve(FILE *out, const hf_model *m, const hf_analysis_cu
     hf_free(names);
     hf_free(lim);
     return s;
+}
+
+/* ---- balance over a water-level envelope (helper A, issue 13) ---- */
+
+/* A factor cell: the number, or "-" when none was found. */
+static void factor_cell(char *buf, size_t cap, double v, const hf_analysis_where *w)
+{
+    if (w->load == (size_t)-1)
+        snprintf(buf, cap, "-");
+    else
+        hf_report_number(buf, cap, v, 4);
+}
+
+/* The anchors' table of the envelope. */
+static void envelope_anchors(hf_report *r, const hf_model *m, const hf_analysis_envelope *e)
+{
+    static const char *const cols[] = {
+        "anchor",         "kind",          "largest load (kN)",           "uplift angle (deg)",
+        "sliding factor", "uplift factor", "required (sliding / uplift)", "check",
+        "where"};
+    hf_report_table_begin(r,
+                          m->criteria.anchor_ignore_friction
+                              ? "Anchors over the envelope (anchor loads with the seabed "
+                                "friction of the grounded line ignored)"
+                              : "Anchors over the envelope (anchor loads with the seabed "
+                                "friction of the grounded line)",
+                          cols, 9);
+    for (size_t i = 0; i < m->nlines && i < e->nlines; i++) {
+        const hf_analysis_envelope_line *el = &e->line[i];
+        const hf_anchor *a = &m->lines[i].anchor_spec;
+        char ld[32], ang[32], sl[32], up[32], req[64], chk[96], w[2 * HF_MODEL_MAX_NAME + 64];
+        factor_cell(ld, sizeof ld, el->anchor_load / 1e3, &el->anchor_load_at);
+        factor_cell(ang, sizeof ang, el->angle * 180.0 / M_PI, &el->angle_at);
+        factor_cell(sl, sizeof sl, el->sliding, &el->sliding_at);
+        factor_cell(up, sizeof up, el->uplift, &el->uplift_at);
+        double rs, ru;
+        hf_criteria_block_required(&m->criteria, a, &rs, &ru);
+        if (a->kind == HF_ANCHOR_GRAVITY)
+            snprintf(req, sizeof req, "%.2f / %.2f", rs, ru);
+        else if (a->kind == HF_ANCHOR_DRAG)
+            snprintf(req, sizeof req, "angle <= %.2f deg", a->max_uplift_angle * 180.0 / M_PI);
+        else
+            snprintf(req, sizeof req, "reported only");
+        const hf_analysis_where *at = &el->anchor_load_at;
+        if (el->anchor_failed) {
+            snprintf(chk, sizeof chk, "FAIL in %zu conditions", el->anchor_failed);
+            at = &el->anchor_fail_at;
+        } else {
+            snprintf(chk, sizeof chk, "%s",
+                     a->kind == HF_ANCHOR_PILE || a->kind == HF_ANCHOR_PLATE ? "-" : "PASS");
+            if (a->kind == HF_ANCHOR_GRAVITY && el->sliding_at.load != (size_t)-1)
+                at = &el->sliding_at;
+        }
+        hf_results_where(m, at, w, sizeof w);
+        const char *cells[] = {hf_results_line_name(m, i),
+                               hf_criteria_anchor_kind_name(a->kind),
+                               ld,
+                               ang,
+                               a->kind == HF_ANCHOR_GRAVITY ? sl : "-",
+                               a->kind == HF_ANCHOR_GRAVITY ? up : "-",
+                               req,
+                               chk,
+                               w};
+        hf_report_table_row(r, cells);
+    }
+    hf_report_table_end(r);
+}
+
+void hf_report_balance_envelope(hf_report *r, const hf_model *m, const hf_analysis_envelope *e)
+{
+    char scope[512], text[1024], w[2 * HF_MODEL_MAX_NAME + 64];
+    hf_results_envelope_scope(m, e, scope, sizeof scope);
+    snprintf(text, sizeof text, "Covered: %s.", scope);
+    hf_report_paragraph(r, text);
+    static const char *const cols[] = {"line", "largest tension (kN)", "utilisation T/MBL", "MBL/T",
+                                       "load case, condition, water level"};
+    hf_report_table_begin(r, "Worst tension of each line over the envelope", cols, 5);
+    for (size_t i = 0; i < m->nlines && i < e->nlines; i++) {
+        const hf_analysis_envelope_line *el = &e->line[i];
+        char t[32], u[32], f[32];
+        factor_cell(t, sizeof t, el->tension / 1e3, &el->at);
+        factor_cell(u, sizeof u, el->utilisation, &el->at);
+        factor_cell(f, sizeof f, el->utilisation > 0 ? 1.0 / el->utilisation : NAN, &el->at);
+        hf_results_where(m, &el->at, w, sizeof w);
+        const char *cells[] = {hf_results_line_name(m, i), t, u, f, w};
+        hf_report_table_row(r, cells);
+    }
+    hf_report_table_end(r);
+    envelope_anchors(r, m, e);
+    if (e->overloaded) {
+        hf_results_where(m, &e->overload_at, w, sizeof w);
+        snprintf(text, sizeof text,
+                 "OVERLOADED: %zu conditions have a line at or beyond its MBL; worst: %s at "
+                 "T/MBL %.3f (%s).",
+                 e->overloaded, hf_results_line_name(m, e->overload_line), e->overload_utilisation,
+                 w);
+        hf_report_note(r, "warning", text);
+    }
+    hf_results_where(m, &e->first_failed, w, sizeof w);
+    snprintf(text, sizeof text, "%zu of %zu conditions passed%s%s", e->count.passed,
+             e->count.conditions, e->count.failed ? "; first failure: " : "",
+             e->count.failed ? w : "");
+    hf_report_check(r, "balance envelope", scope, text, e->count.failed == 0);
 }

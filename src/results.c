@@ -24,9 +24,8 @@ const char *const hf_results_curve_columns[HF_RESULTS_CURVE_FIXED] = {
     "stiffness_kN_per_m", "max_tension_kN", "max_tension_line", "max_utilisation"};
 
 const char *const hf_results_balance_head[HF_RESULTS_BALANCE_HEAD] = {
-    "load",           "condition",      "water_level_m",    "status",
-    "surge_m",        "sway_m",         "yaw_deg",          "max_tension_kN",
-    "max_tension_line", "max_utilisation", "criterion",     "passed"};
+    "load",    "condition",      "water_level_m",    "status",          "surge_m",   "sway_m",
+    "yaw_deg", "max_tension_kN", "max_tension_line", "max_utilisation", "criterion", "passed"};
 
 const char *const hf_results_balance_anchor_groups[HF_RESULTS_BALANCE_ANCHOR][2] = {
     {"anchor_load", "_kN"}, {"angle", "_deg"}, {"sliding", ""}, {"uplift", ""}};
@@ -507,6 +506,47 @@ void hf_results_stiffness_for_people(double K[6][6], const double force[6], doub
     }
 }
 
+/* The failed check of anchor a (line name n) in words. */
+static void anchor_failure(const char *n, const hf_anchor_criterion *a, char *buf, size_t cap)
+{
+    if (a->kind == HF_ANCHOR_DRAG)
+        snprintf(buf, cap, "%s uplift angle %.2f deg > %.2f deg", n, a->angle * RAD2DEG,
+                 a->max_angle * RAD2DEG);
+    else if (a->has_uplift && a->uplift_factor < a->required_uplift)
+        snprintf(buf, cap, "%s uplift %.3f < %.2f", n, a->uplift_factor, a->required_uplift);
+    else
+        snprintf(buf, cap, "%s sliding %.3f < %.2f", n, a->sliding_factor, a->required_sliding);
+}
+
+void hf_results_balance_failure(const hf_model *m, const hf_balance_result *r, char *buf,
+                                size_t cap)
+{
+    buf[0] = '\0';
+    if (r->passed || r->status != HF_OK)
+        return;
+    size_t i = r->criterion_line;
+    const char *n = hf_results_line_name(m, i);
+    double req = hf_criteria_required(&m->criteria, r->broken != HF_BALANCE_NONE);
+    switch (r->criterion) {
+    case HF_CRIT_OVERLOAD:
+        snprintf(buf, cap, "%s overloaded: T/MBL %.3f", n, r->utilisation[i]);
+        break;
+    case HF_CRIT_LINE:
+        if (i < r->nlines)
+            snprintf(buf, cap, "MBL/T %.3f < %.3f (%s)", r->line[i].factor, req, n);
+        break;
+    case HF_CRIT_OFFSET:
+        snprintf(buf, cap, "offset %.2f m > %.2f m", r->horizontal, m->criteria.max_offset);
+        break;
+    case HF_CRIT_ANCHOR:
+        if (i < r->nlines && r->anchor)
+            anchor_failure(n, &r->anchor[i], buf, cap);
+        break;
+    default:
+        break;
+    }
+}
+
 /* ---- balance over a water-level envelope ---- */
 
 void hf_results_where(const hf_model *m, const hf_analysis_where *w, char *buf, size_t cap)
@@ -640,8 +680,9 @@ void hf_results_envelope_summary_write(FILE *out, const hf_model *m, const hf_an
     if (e->overloaded) {
         hf_analysis_where at = e->overload_at;
         hf_results_where(m, &at, w, sizeof w);
-        fprintf(out, "OVERLOADED: %zu conditions have a line at or beyond its MBL; worst: %s at "
-                     "utilisation %.3f (%s)\n",
+        fprintf(out,
+                "OVERLOADED: %zu conditions have a line at or beyond its MBL; worst: %s at "
+                "utilisation %.3f (%s)\n",
                 e->overloaded, hf_results_line_name(m, e->overload_line), e->overload_utilisation,
                 w);
     }

@@ -552,8 +552,8 @@ static void test_balance_rows(void **state)
     assert_int_equal(hf_results_balance_row_write(c.f, &fx.m, &load, &ok), 0);
     assert_int_equal(hf_results_balance_row_write(c.f, &fx.m, &load, &bad), 0);
     cap_close(&c);
-    size_t ncol = HF_RESULTS_BALANCE_HEAD + NL * (1 + HF_RESULTS_BALANCE_ANCHOR) +
-                  HF_RESULTS_BALANCE_TAIL;
+    size_t ncol =
+        HF_RESULTS_BALANCE_HEAD + NL * (1 + HF_RESULTS_BALANCE_ANCHOR) + HF_RESULTS_BALANCE_TAIL;
     /* the fields after the per-line groups */
     size_t T = HF_RESULTS_BALANCE_HEAD + NL * (1 + HF_RESULTS_BALANCE_ANCHOR);
     char row[4096], *f[64];

@@ -178,7 +178,7 @@ typedef struct {
     hf_analysis_where sliding_at;
     double uplift; /* -, the smallest gravity-block uplift factor (has_uplift) */
     hf_analysis_where uplift_at;
-    size_t anchor_failed; /* conditions whose anchor check failed */
+    size_t anchor_failed;             /* conditions whose anchor check failed */
     hf_analysis_where anchor_fail_at; /* the first of them */
 } hf_analysis_envelope_line;
 
@@ -219,8 +219,7 @@ void hf_analysis_envelope_free(hf_analysis_envelope *e);
  * into it, with the same indices as in m). */
 typedef struct {
     hf_analysis_balance_sink each;
-    hf_status (*level_begin)(void *ctx, size_t k, double level, const hf_model *at,
-                             hf_error *err);
+    hf_status (*level_begin)(void *ctx, size_t k, double level, const hf_model *at, hf_error *err);
 } hf_analysis_envelope_sink;
 
 /* Runs hf_analysis_balance_run (load cases m->loads[which[k]], k < nwhich;

@@ -97,8 +97,8 @@ typedef struct {
     int offset_checked; /* 1 when criteria.max_offset > 0 */
     int offset_passed;
     int lines_passed, anchors_passed;
-    size_t overloaded;      /* lines at or beyond a section's MBL (u >= 1): never a pass */
-    size_t overloaded_line; /* the most utilised of them, or HF_BALANCE_NONE */
+    size_t overloaded;              /* lines at or beyond a section's MBL (u >= 1): never a pass */
+    size_t overloaded_line;         /* the most utilised of them, or HF_BALANCE_NONE */
     int passed;                     /* status ok and every check passed */
     hf_balance_criterion criterion; /* the first failed check, or the governing one */
     size_t criterion_line;          /* line of that criterion, or HF_BALANCE_NONE */

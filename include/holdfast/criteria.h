@@ -81,7 +81,8 @@ hf_status hf_criteria_preset_apply(hf_criteria *c, const char *preset, hf_error 
 
 /* Checks that a criteria record is usable: factors finite and >= 0 (0 = no
  * check; a non-zero factor below 1 is refused since it would accept tensions
- * above the breaking load), max_offset finite and >= 0.  HF_OK or HF_EINVAL
+ * above the breaking load; the same for the gravity-block factors, where 0
+ * means the default 1.0), max_offset finite and >= 0.  HF_OK or HF_EINVAL
  * with a message naming the field. */
 hf_status hf_criteria_check(const hf_criteria *c, hf_error *err);
 
@@ -154,8 +155,7 @@ void hf_criteria_block_required(const hf_criteria *c, const hf_anchor *a, double
  * the horizontal tension of the suspended part, the fairlead's s->h, and the
  * same vertical force (0 whenever part of the line is grounded).  The
  * conservative choice for anchor design. */
-void hf_criteria_anchor_forces(const hf_criteria *c, const hf_line_state *s, double *h,
-                               double *v);
+void hf_criteria_anchor_forces(const hf_criteria *c, const hf_line_state *s, double *h, double *v);
 
 /* Evaluates the anchor of one line from the forces the line puts on it:
  * h (N, >= 0, toward the fairlead) and v (N, >= 0, upward).  Drag anchors

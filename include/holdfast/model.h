@@ -19,8 +19,8 @@
 /* Documented limits (errors name them when hit). */
 #define HF_MODEL_MAX_LINES 100000
 #define HF_MODEL_MAX_NAME 128
-#define HF_MODEL_MAX_LEVELS 512          /* still water levels of an envelope */
-#define HF_MODEL_LEVEL_STEP 0.1          /* m: spacing of a [low, high] envelope */
+#define HF_MODEL_MAX_LEVELS 512 /* still water levels of an envelope */
+#define HF_MODEL_LEVEL_STEP 0.1 /* m: spacing of a [low, high] envelope */
 
 typedef struct {
     double depth;         /* water depth from the datum to the flat seabed, m (> 0) */
@@ -137,6 +137,9 @@ typedef struct {
     size_t nloads;
     hf_load *loads;
     hf_criteria criteria;
+    /* issue 14: hull design data and environments (designdata.h), NULL when
+     * the case has none; shared by copies (reference count), read-only. */
+    struct hf_designdata *design;
 } hf_model;
 
 /* Empty model (no lines); hf_model_free() works on it. */

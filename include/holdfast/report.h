@@ -207,4 +207,16 @@ hf_status hf_report_svg_curve(FILE *out, const hf_model *m, const hf_analysis_cu
                               const char *title, const char *label, int tension_limits,
                               int standalone, hf_error *err);
 
+/* ---- balance over a water-level envelope (issue 13) ---- */
+
+/* The envelope of a balance study e (run on m) in the open section: its scope
+ * (load cases x water levels x conditions), a table of the worst tension of
+ * each line with the load case, condition and level that give it, a table of
+ * each anchor over the envelope (largest load and uplift angle, smallest
+ * gravity-block factors against the required ones, PASS/FAIL with the number
+ * of failing conditions and the first), whether anchor loads ignore the
+ * line's seabed friction, and one check row for the whole envelope (with the
+ * worst overload when a line reached its MBL). */
+void hf_report_balance_envelope(hf_report *r, const hf_model *m, const hf_analysis_envelope *e);
+
 #endif

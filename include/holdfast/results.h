@@ -231,6 +231,13 @@ hf_status hf_results_balance_header_write(FILE *out, const hf_model *m, hf_error
 size_t hf_results_balance_row_write(FILE *out, const hf_model *m, const hf_load *load,
                                     const hf_balance_result *r);
 
+/* The failing number of condition r in words, into buf ("" when r passed or
+ * has no result): "nw overloaded: T/MBL 1.690", "MBL/T 2.960 < 3.000 (nw)",
+ * "offset 12.24 m > 5.00 m", "nw sliding 0.608 < 1.00", "nw uplift 0.930
+ * < 1.00", "nw uplift angle 3.20 deg > 0.00 deg". */
+void hf_results_balance_failure(const hf_model *m, const hf_balance_result *r, char *buf,
+                                size_t cap);
+
 /* ---- balance over a water-level envelope (analysis.h) ---- */
 
 /* "<load>, <condition>, <level> m" of w (m's names; "-" when nothing was
@@ -248,7 +255,6 @@ void hf_results_envelope_scope(const hf_model *m, const hf_analysis_envelope *e,
  * smallest gravity-block factors with where, the required factors, PASS/FAIL
  * with the first failure), the anchor-load choice (friction), and the worst
  * overload. */
-void hf_results_envelope_summary_write(FILE *out, const hf_model *m,
-                                       const hf_analysis_envelope *e);
+void hf_results_envelope_summary_write(FILE *out, const hf_model *m, const hf_analysis_envelope *e);
 
 #endif
