@@ -986,6 +986,12 @@ hf_status hf_report_svg_elevation_group(FILE *out, const hf_model *m, const size
     char title[256];
     if (s == HF_OK) {
         elevation_title(m, idx[0], st, title, sizeof title);
+        if (n > 1) { /* "Lines ne and 3 more: ..." - the figure stands for all of them */
+            char kn[48];
+            hf_report_number(kn, sizeof kn, st->tension / 1e3, 4);
+            snprintf(title, sizeof title, "Lines %.120s and %zu more: fairlead tension %s kN, %s",
+                     m->lines[idx[0]].name, n - 1, kn, hf_line_regime_name(st->regime));
+        }
         e.title = title;
         s = n == 1 ? hf_svg_figure_elevation(out, &e, standalone, err)
                    : hf_svg_figure_elevation_group(out, &e, names, n, standalone, err);
