@@ -507,6 +507,8 @@ static void scope_begin(hf_report *r, const hf_model *m)
     r->scope_load = hf_calloc(m->nloads ? m->nloads : 1, 1);
     r->scope_cond = hf_calloc(m->nlines + 1, 1);
     r->scope_lost = !r->scope_load || !r->scope_cond;
+    if (m->design && m->design->nenv) /* issue 14: environments declared */
+        r->scope_lost |= !(r->scope_env = hf_calloc(m->design->nenv, 1));
 }
 
 static void scope_free(hf_report *r)
@@ -514,6 +516,8 @@ static void scope_free(hf_report *r)
     hf_free(r->scope_load);
     hf_free(r->scope_cond);
     r->scope_load = r->scope_cond = NULL;
+    hf_free(r->scope_env);
+    r->scope_env = NULL;
 }
 
 /* Two levels are one when they differ by less than a micrometre (levels are
@@ -543,6 +547,19 @@ void hf_report_scope_add(hf_report *r, size_t load, size_t cond, double level)
         r->scope_lost = 1;
 }
 
+void hf_report_scope_add_env(hf_report *r, size_t env, size_t cond)
+{
+    const hf_model *m = r->model;
+    if (!m || !m->design || !r->scope_env || !r->scope_cond || env >= m->design->nenv ||
+        cond > m->nlines) {
+        r->scope_lost = 1;
+        return;
+    }
+    r->nscoped++;
+    r->scope_env[env] = 1;
+    r->scope_cond[cond] = 1;
+}
+
 size_t hf_report_levels_declared(const hf_model *m, double *out, size_t cap)
 {
     return m ? hf_analysis_envelope_levels(m, out, cap) : 0;
@@ -554,6 +571,7 @@ typedef struct {
     size_t levels, levels_done; /* declared still water levels, of them checked */
     double lo, hi;              /* the declared levels' range, m */
     size_t conds, conds_done;   /* conditions: intact + each line broken */
+    size_t envs, envs_done;     /* issue 14: declared environments, of them checked */
     int complete;               /* every declared load, level and condition checked */
 } scope_count;
 
@@ -579,8 +597,12 @@ static void scope_counts(const hf_report *r, scope_count *c)
                 break;
             }
     }
+    c->envs = m->design ? m->design->nenv : 0;
+    for (size_t i = 0; i < c->envs && r->scope_env; i++)
+        c->envs_done += r->scope_env[i];
     c->complete = !r->scope_lost && c->loads > 0 && c->loads_done == c->loads &&
-                  c->conds_done == c->conds && c->levels_done == c->levels;
+                  c->conds_done == c->conds && c->levels_done == c->levels &&
+                  c->envs_done == c->envs;
 }
 
 /* "1.9 m" or "0 to 3.4 m" for the range lo..hi. */
@@ -609,6 +631,10 @@ static void scope_sentence(const scope_count *c, char *buf, size_t cap)
              c->loads_done, c->loads, c->loads == 1 ? "" : "s", c->levels_done, c->levels,
              c->levels == 1 ? "" : "s", lv, c->conds_done, c->conds, c->conds - 1,
              c->conds == 2 ? "" : "s");
+    size_t n = strlen(buf);
+    if (c->envs && n < cap) /* issue 14 */
+        snprintf(buf + n, cap - n, "; design offsets: %zu of %zu environment%s", c->envs_done,
+                 c->envs, c->envs == 1 ? "" : "s");
 }
 
 /* What was left out, for the amber banner. */
@@ -628,6 +654,9 @@ static void scope_missing(const hf_report *r, const scope_count *c, char *buf, s
                               " %zu condition%s (intact or a line broken) not "
                               "checked;",
                               c->conds - c->conds_done, c->conds - c->conds_done == 1 ? "" : "s");
+    if (c->envs_done < c->envs && n < cap) /* issue 14 */
+        n += (size_t)snprintf(buf + n, cap - n, " %zu environment%s not checked;",
+                              c->envs - c->envs_done, c->envs - c->envs_done == 1 ? "" : "s");
     if ((r->scope_lost || r->nscoped < r->nchecks) && n < cap)
         snprintf(buf + n, cap - n, " some checks did not record what they covered;");
 }
