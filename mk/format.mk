@@ -6,11 +6,11 @@
 #   make format-check   list the files clang-format would change, fail if any
 #
 # The files are the C sources and headers of src/, include/, tests/, bench/
-# and fuzz/.  CLANG_FORMAT names the program (default clang-format).
+# and fuzz/, and the C examples (examples/c/).  CLANG_FORMAT names the program (default clang-format).
 
 CLANG_FORMAT ?= clang-format
 FORMAT_FILES  = $(sort $(wildcard src/*.c src/*.h include/holdfast/*.h tests/*.c tests/*.h \
-                                  bench/*.c bench/*.h fuzz/*.c fuzz/*.h))
+                                  bench/*.c bench/*.h fuzz/*.c fuzz/*.h examples/c/*.c))
 
 .PHONY: lint format format-check
 

@@ -100,6 +100,8 @@ const char *hf_balance_criterion_name(hf_balance_criterion c)
         return "offset";
     case HF_CRIT_ANCHOR:
         return "anchor";
+    case HF_CRIT_OVERLOAD:
+        return "overload";
     }
     return "unknown";
 }
@@ -548,6 +550,8 @@ static void zero_result(hf_balance_result *r)
     r->max_tension_line = r->max_utilisation_line = r->criterion_line = HF_BALANCE_NONE;
     r->offset_checked = 0;
     r->offset_passed = r->lines_passed = r->anchors_passed = 0;
+    r->overloaded = 0;
+    r->overloaded_line = HF_BALANCE_NONE;
     r->passed = 0;
     r->criterion = HF_CRIT_NONE;
     r->message[0] = '\0';
@@ -583,6 +587,50 @@ fail(hf_balance *b, hf_balance_result *r, const hf_load *load, size_t cond, hf_s
     return s;
 }
 
+/* Overloads, the verdict and the governing criterion of a solved condition:
+ * an overloaded line (u >= 1, hf_criteria_overloaded: the trade's MBL) fails
+ * the condition whatever the required factor, and governs; then the first
+ * failed check in the order line factor, offset, anchor; else the line with
+ * the smallest margin. */
+static void govern(const hf_balance *b, hf_balance_result *r, double req, size_t worst_line,
+                   size_t first_anchor_fail)
+{
+    r->overloaded = 0;
+    r->overloaded_line = HF_BALANCE_NONE;
+    for (size_t i = 0; i < b->n; i++)
+        if (r->broken != i && hf_criteria_overloaded(r->utilisation[i])) {
+            r->line[i].passed = 0;
+            r->lines_passed = 0;
+            if (r->overloaded++ == 0 || r->utilisation[i] > r->utilisation[r->overloaded_line])
+                r->overloaded_line = i;
+        }
+    r->passed = r->lines_passed && r->offset_passed && r->anchors_passed;
+    int any_anchor_checked = 0;
+    for (size_t i = 0; i < b->n; i++)
+        any_anchor_checked |= r->anchor[i].checked;
+    if (r->overloaded) {
+        r->criterion = HF_CRIT_OVERLOAD;
+        r->criterion_line = r->overloaded_line;
+    } else if (!r->lines_passed) {
+        r->criterion = HF_CRIT_LINE;
+        r->criterion_line = worst_line;
+    } else if (!r->offset_passed) {
+        r->criterion = HF_CRIT_OFFSET;
+    } else if (!r->anchors_passed) {
+        r->criterion = HF_CRIT_ANCHOR;
+        r->criterion_line = first_anchor_fail;
+    } else if (req > 0.0 && worst_line != HF_BALANCE_NONE) {
+        r->criterion = HF_CRIT_LINE;
+        r->criterion_line = worst_line;
+    } else if (r->offset_checked) {
+        r->criterion = HF_CRIT_OFFSET;
+    } else if (any_anchor_checked) {
+        r->criterion = HF_CRIT_ANCHOR;
+    } else {
+        r->criterion = HF_CRIT_NONE;
+    }
+}
+
 /* Criteria at the solved pose (spread results from the last solve). */
 static hf_status evaluate(hf_balance *b, hf_balance_result *r, const hf_spread_result *sr,
                           hf_error *err)
@@ -605,10 +653,12 @@ static hf_status evaluate(hf_balance *b, hf_balance_result *r, const hf_spread_r
         r->tension[i] = sr->line_tension[i];
         r->utilisation[i] = st->max_utilisation;
         hf_status s = hf_criteria_line_evaluate(t, mbl, req, &r->line[i], err);
+        double ah, av, rs, ru;
+        hf_criteria_anchor_forces(&m->criteria, st, &ah, &av);
+        hf_criteria_block_required(&m->criteria, &m->lines[i].anchor_spec, &rs, &ru);
         if (s == HF_OK)
-            s = hf_criteria_anchor_evaluate(&m->lines[i].anchor_spec, st->anchor_h, st->anchor_v,
-                                            HF_CRITERIA_GRAVITY_SLIDING, HF_CRITERIA_GRAVITY_UPLIFT,
-                                            &r->anchor[i], err);
+            s = hf_criteria_anchor_evaluate(&m->lines[i].anchor_spec, ah, av, rs, ru, &r->anchor[i],
+                                            err);
         if (s != HF_OK)
             return s;
         if (!r->line[i].passed)
@@ -637,28 +687,7 @@ static hf_status evaluate(hf_balance *b, hf_balance_result *r, const hf_spread_r
     }
     r->offset_checked = m->criteria.max_offset > 0.0;
     r->offset_passed = !r->offset_checked || r->horizontal <= m->criteria.max_offset;
-    r->passed = r->lines_passed && r->offset_passed && r->anchors_passed;
-    int any_anchor_checked = 0;
-    for (size_t i = 0; i < b->n; i++)
-        any_anchor_checked |= r->anchor[i].checked;
-    if (!r->lines_passed) {
-        r->criterion = HF_CRIT_LINE;
-        r->criterion_line = worst_line;
-    } else if (!r->offset_passed) {
-        r->criterion = HF_CRIT_OFFSET;
-    } else if (!r->anchors_passed) {
-        r->criterion = HF_CRIT_ANCHOR;
-        r->criterion_line = first_anchor_fail;
-    } else if (req > 0.0 && worst_line != HF_BALANCE_NONE) {
-        r->criterion = HF_CRIT_LINE;
-        r->criterion_line = worst_line;
-    } else if (r->offset_checked) {
-        r->criterion = HF_CRIT_OFFSET;
-    } else if (any_anchor_checked) {
-        r->criterion = HF_CRIT_ANCHOR;
-    } else {
-        r->criterion = HF_CRIT_NONE;
-    }
+    govern(b, r, req, worst_line, first_anchor_fail);
     return HF_OK;
 }
 

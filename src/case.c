@@ -13,6 +13,7 @@
 #include "holdfast/hint.h"
 #include "holdfast/outputs.h"
 #include "holdfast/study.h"
+#include "case_tree.h" /* node, ctx (shared with case_env.c) */
 
 /* Largest number of points of one range written in a case file. */
 #define MAX_RANGE_POINTS 100000000.0
@@ -22,17 +23,6 @@
 #define MAX_PIECES (4 * HF_LINE_MAX_SECTIONS)
 
 /* ---- a small document tree built from libyaml events ---- */
-
-enum { N_SCALAR, N_SEQ, N_MAP };
-
-typedef struct node {
-    int type;
-    int line, col; /* 1-based position of the node's first character */
-    int plain;     /* scalar written without quotes */
-    char *text;    /* scalar text (NUL-terminated) */
-    size_t n, cap; /* children: sequence items, or key, value, key, value, ... */
-    struct node **kids;
-} node;
 
 static void node_free(node *n)
 {
@@ -58,17 +48,6 @@ static int node_add(node *parent, node *kid)
     parent->kids[parent->n++] = kid;
     return 1;
 }
-
-/* ---- loader context: file name, key path, error ---- */
-
-typedef struct {
-    const char *file;
-    hf_model *m;
-    hf_study_list *studies; /* the case's studies: filled beside the model */
-    hf_error *err;
-    char path[512];
-    size_t plen;
-} ctx;
 
 static size_t push(ctx *c, const char *fmt, ...)
 #if defined(__GNUC__)
@@ -455,7 +434,8 @@ static hf_status choose(ctx *c, const node *n, const char *what, const char *con
 
 /* ---- site ---- */
 
-static const char *const site_keys[] = {"depth", "water_density", "water_level", "seabed", NULL};
+static const char *const site_keys[] = {"depth",        "water_density", "water_level",
+                                        "water_levels", "seabed",        NULL};
 
 /* site.seabed: {slope: ANGLE, toward: ANGLE} (issue 15): a plane through the
  * datum seabed at the hull's rest position, rising at `slope` (0 to below
@@ -482,6 +462,49 @@ static hf_status load_seabed(ctx *c, const node *n)
     return st;
 }
 
+/* site.water_levels (helper A, issue 13): a list of still water levels; a
+ * list of two is the range [low, high], expanded to low, low + 0.1 m, ...
+ * and high itself (HF_MODEL_LEVEL_STEP), each rounded to 1e-9 m so that 1.9
+ * is the double a case file's "1.9 m" gives (correctly rounded division).  Each level must lie
+ * above the seabed; a range needs low < high. */
+static hf_status water_levels(ctx *c, const node *n, hf_site *s)
+{
+    char gotbuf[96];
+    if (n->type != N_SEQ || n->n == 0 || n->n > HF_MODEL_MAX_LEVELS)
+        return fail(c, n,
+                    "expected a list of water levels ([low, high] or up to %d levels), got %s",
+                    HF_MODEL_MAX_LEVELS, n->type == N_SEQ ? "an empty or too long list" : GOT(n));
+    double v[HF_MODEL_MAX_LEVELS];
+    for (size_t i = 0; i < n->n; i++) {
+        size_t mark = push(c, "[%zu]", i);
+        hf_status st = quantity(c, n->kids[i], HF_DIM_LENGTH, &v[i]);
+        if (st == HF_OK && !(s->depth + v[i] > 0.0))
+            st = fail(c, n->kids[i], "expected a water level above the seabed (> -%g m), got %s",
+                      s->depth, GOT(n->kids[i]));
+        pop(c, mark);
+        if (st != HF_OK)
+            return st;
+    }
+    s->water_levels_range = n->n == 2;
+    if (n->n != 2) {
+        memcpy(s->water_levels, v, n->n * sizeof *v);
+        s->nwater_levels = n->n;
+        return HF_OK;
+    }
+    double span = (v[1] - v[0]) / HF_MODEL_LEVEL_STEP;
+    if (!(span > 0.0) || span > HF_MODEL_MAX_LEVELS - 2)
+        return fail(c, n,
+                    "expected [low, high] with low < high and at most %d levels %g m apart, "
+                    "got [%s, %s]",
+                    HF_MODEL_MAX_LEVELS, HF_MODEL_LEVEL_STEP, n->kids[0]->text, n->kids[1]->text);
+    size_t k = 0;
+    while (k < HF_MODEL_MAX_LEVELS - 1 && (double)k < span - 1e-6)
+        s->water_levels[k] = round((v[0] + (double)k * HF_MODEL_LEVEL_STEP) * 1e9) / 1e9, k++;
+    s->water_levels[k++] = v[1];
+    s->nwater_levels = k;
+    return HF_OK;
+}
+
 static hf_status load_site(ctx *c, const node *n)
 {
     hf_site *s = &c->m->site;
@@ -498,6 +521,11 @@ static hf_status load_site(ctx *c, const node *n)
         st = fail(c, get(n, "water_level"),
                   "expected a water level above the seabed (> -%g m), got %s", s->depth,
                   GOT(get(n, "water_level")));
+        pop(c, mark);
+    }
+    if (st == HF_OK && get(n, "water_levels")) {
+        size_t mark = pushkey(c, "water_levels");
+        st = water_levels(c, get(n, "water_levels"), s);
         pop(c, mark);
     }
     if (st == HF_OK && get(n, "seabed"))
@@ -647,9 +675,19 @@ static hf_status load_components(ctx *c, const node *n)
 
 /* ---- lines ---- */
 
-static const char *const line_keys[] = {"name",           "anchor",      "fairlead",
-                                        "sections",       "anchor_kind", "block_weight",
-                                        "block_friction", "max_uplift",  NULL};
+static hf_status factor(ctx *c, const node *map, const char *key, double *out);
+
+static const char *const line_keys[] = {"name",
+                                        "anchor",
+                                        "fairlead",
+                                        "sections",
+                                        "anchor_kind",
+                                        "block_weight",
+                                        "block_friction",
+                                        "max_uplift",
+                                        "block_sliding_factor",
+                                        "block_uplift_factor",
+                                        NULL};
 static const char *const piece_keys[] = {"component", "length", "clump", "buoy", "friction", NULL};
 static const char *const anchor_kinds[] = {"drag", "gravity", "pile", "plate"};
 
@@ -855,8 +893,10 @@ static hf_status line_anchor(ctx *c, const node *n, hf_anchor *a)
         hf_anchor_kind kind;
     } only[] = {{"block_weight", HF_ANCHOR_GRAVITY},
                 {"block_friction", HF_ANCHOR_GRAVITY},
-                {"max_uplift", HF_ANCHOR_DRAG}};
-    for (size_t i = 0; i < 3; i++)
+                {"max_uplift", HF_ANCHOR_DRAG},
+                {"block_sliding_factor", HF_ANCHOR_GRAVITY},
+                {"block_uplift_factor", HF_ANCHOR_GRAVITY}};
+    for (size_t i = 0; i < sizeof only / sizeof only[0]; i++)
         if (get(n, only[i].key) && a->kind != only[i].kind) {
             size_t mark = pushkey(c, only[i].key);
             hf_status st = fail(c, getkey(n, only[i].key),
@@ -870,6 +910,10 @@ static hf_status line_anchor(ctx *c, const node *n, hf_anchor *a)
         st = req_quantity(c, n, "block_weight", HF_DIM_FORCE, POSITIVE, &a->weight);
         if (st == HF_OK)
             st = opt_quantity(c, n, "block_friction", HF_DIM_NONE, NONNEG, &a->friction);
+        if (st == HF_OK) /* helper A, issue 13: required factors of this block */
+            st = factor(c, n, "block_sliding_factor", &a->required_sliding);
+        if (st == HF_OK)
+            st = factor(c, n, "block_uplift_factor", &a->required_uplift);
     } else if (a->kind == HF_ANCHOR_DRAG) {
         st = opt_quantity(c, n, "max_uplift", HF_DIM_ANGLE, NONNEG, &a->max_uplift_angle);
         if (st == HF_OK && !(a->max_uplift_angle < M_PI / 2)) {
@@ -929,7 +973,11 @@ static hf_status load_lines(ctx *c, const node *n)
 
 /* ---- hull ---- */
 
-static const char *const hull_keys[] = {"position", "heading", "outline", NULL};
+static const char *const hull_keys[] = {
+    "position", "heading", "outline",
+    /* issue 14, case_env.c: */
+    "mass", "added_mass", "yaw_inertia", "added_yaw_inertia", "damping", "raos", "drift",
+    "wind_coefficients", "current_coefficients", "wind_area", "current_area", "length", NULL};
 
 static hf_status load_hull(ctx *c, const node *n)
 {
@@ -937,7 +985,7 @@ static hf_status load_hull(ctx *c, const node *n)
     static const hf_dim len2[2] = {HF_DIM_LENGTH, HF_DIM_LENGTH};
     hf_hull *h = &c->m->hull;
     hf_status st = map_check(c, n, "the hull", hull_keys, "key");
-    if (st != HF_OK)
+    if (st != HF_OK || (st = hf_case_env_hull(c, n)) != HF_OK) /* issue 14: case_env.c */
         return st;
     const node *pn = get(n, "position");
     if (pn) {
@@ -1108,8 +1156,15 @@ static hf_status load_loads(ctx *c, const node *n)
 
 /* ---- criteria ---- */
 
-static const char *const criteria_keys[] = {"preset",         "analysis",   "intact_factor",
-                                            "damaged_factor", "max_offset", NULL};
+static const char *const criteria_keys[] = {"preset",
+                                            "analysis",
+                                            "intact_factor",
+                                            "damaged_factor",
+                                            "max_offset",
+                                            "block_sliding_factor",
+                                            "block_uplift_factor",
+                                            "anchor_line_friction",
+                                            NULL};
 static const char *const analysis_names[] = {"quasi-static", "dynamic"};
 
 static hf_status factor(ctx *c, const node *map, const char *key, double *out)
@@ -1127,6 +1182,27 @@ static hf_status factor(ctx *c, const node *map, const char *key, double *out)
     }
     if (st == HF_OK)
         *out = f;
+    return st;
+}
+
+/* The anchor keys of `criteria:` (helper A, issue 13): required gravity-block
+ * factors for every line that gives none, and whether anchor loads include
+ * the grounded line's seabed friction (include, the default) or not (ignore). */
+static hf_status anchor_criteria(ctx *c, const node *n, hf_criteria *cr)
+{
+    static const char *const friction_names[] = {"include", "ignore"};
+    hf_status st = factor(c, n, "block_sliding_factor", &cr->block_sliding);
+    if (st == HF_OK)
+        st = factor(c, n, "block_uplift_factor", &cr->block_uplift);
+    const node *fn = get(n, "anchor_line_friction");
+    if (st == HF_OK && fn) {
+        size_t k, mark = pushkey(c, "anchor_line_friction");
+        st = choose(c, fn, "how anchor loads take the line's seabed friction", friction_names, 2,
+                    &k);
+        pop(c, mark);
+        if (st == HF_OK)
+            cr->anchor_ignore_friction = k == 1;
+    }
     return st;
 }
 
@@ -1175,13 +1251,15 @@ static hf_status load_criteria(ctx *c, const node *n)
         st = factor(c, n, "damaged_factor", &cr->factor_damaged);
     if (st == HF_OK)
         st = opt_quantity(c, n, "max_offset", HF_DIM_LENGTH, NONNEG, &cr->max_offset);
+    if (st == HF_OK)
+        st = anchor_criteria(c, n, cr);
     return st;
 }
 
 /* ---- studies ---- */
 
-static const char *const kind_names[] = {"lines",   "curve", "stiffness",
-                                         "balance", "sweep", "invert"};
+static const char *const kind_names[] = {"lines", "curve",  "stiffness", "balance",
+                                         "sweep", "invert", "design"};
 static const char *const *const study_keys[] = {
     (const char *const[]){"name", "kind", "offset", NULL},
     (const char *const[]){"name", "kind", "direction", "range", NULL},
@@ -1189,9 +1267,11 @@ static const char *const *const study_keys[] = {
     (const char *const[]){"name", "kind", "loads", NULL},
     (const char *const[]){"name", "kind", "vary", "combine", "outputs", NULL},
     (const char *const[]){"name", "kind", "vary", "target", NULL},
+    (const char *const[]){"name", "kind", "environments", NULL}, /* case_env.c */
 };
 static const char *const study_what[] = {"a lines study",   "a curve study", "a stiffness study",
-                                         "a balance study", "a sweep study", "an invert study"};
+                                         "a balance study", "a sweep study", "an invert study",
+                                         "a design study"};
 static const char *const vary_keys[] = {"path", "range", "values", NULL};
 static const char *const invert_vary_keys[] = {"path", "range", NULL};
 static const char *const target_keys[] = {"output", "line", "value", NULL};
@@ -1591,9 +1671,10 @@ static hf_status study_invert(ctx *c, const node *n, hf_study *s)
 
 /* One loader per study kind, indexed by hf_study_kind. */
 typedef hf_status (*study_loader)(ctx *, const node *, hf_study *);
-static const study_loader study_body[] = {study_offset,  study_curve, study_offset,
-                                          study_balance, study_sweep, study_invert};
-_Static_assert(sizeof study_body / sizeof study_body[0] == HF_STUDY_INVERT + 1,
+static const study_loader study_body[] = {study_offset,     study_curve, study_offset,
+                                          study_balance,    study_sweep, study_invert,
+                                          hf_case_env_study};
+_Static_assert(sizeof study_body / sizeof study_body[0] == HF_STUDY_DESIGN + 1,
                "one loader per hf_study_kind");
 
 static hf_status load_study(ctx *c, const node *n, size_t index)
@@ -1606,9 +1687,9 @@ static hf_status load_study(ctx *c, const node *n, size_t index)
     if (!kn)
         return missing(c, n, "kind",
                        "a study kind (lines, curve, stiffness, balance, sweep, "
-                       "invert)");
+                       "invert, design)");
     size_t k, mark = pushkey(c, "kind");
-    hf_status st = choose(c, kn, "a study kind", kind_names, 6, &k);
+    hf_status st = choose(c, kn, "a study kind", kind_names, 7, &k);
     pop(c, mark);
     if (st != HF_OK)
         return st;
@@ -1653,8 +1734,8 @@ static hf_status load_studies(ctx *c, const node *n)
 
 /* ---- top level ---- */
 
-static const char *const top_keys[] = {"title", "site",     "components", "lines", "hull",
-                                       "loads", "criteria", "studies",    NULL};
+static const char *const top_keys[] = {"title", "site",     "components", "lines",        "hull",
+                                       "loads", "criteria", "studies",    "environments", NULL};
 
 static hf_status section(ctx *c, const node *root, const char *key,
                          hf_status (*fn)(ctx *, const node *))
@@ -1701,6 +1782,7 @@ static hf_status load_root(ctx *c, const node *root)
         (st = section(c, root, "lines", load_lines)) != HF_OK ||
         (st = section(c, root, "loads", load_loads)) != HF_OK ||
         (st = section(c, root, "criteria", load_criteria)) != HF_OK ||
+        (st = section(c, root, "environments", hf_case_env_list)) != HF_OK || /* case_env.c */
         (st = section(c, root, "studies", load_studies)) != HF_OK)
         return st;
     if (!get(root, "criteria"))
@@ -2106,4 +2188,86 @@ hf_status hf_case_load_with_studies(const char *path, hf_model *m, hf_study_list
         st = hf_case_load_buffer_with_studies(buf, len, path, m, studies, err);
     hf_free(buf);
     return st;
+}
+
+/* ---- the checks above, for case_env.c (case_tree.h) ---- */
+
+size_t hf_case_tree_pushkey(ctx *c, const char *key)
+{
+    return pushkey(c, key);
+}
+
+size_t hf_case_tree_pushindex(ctx *c, size_t i)
+{
+    return push(c, "[%zu]", i);
+}
+
+void hf_case_tree_pop(ctx *c, size_t mark)
+{
+    pop(c, mark);
+}
+
+hf_status hf_case_tree_fail(ctx *c, const node *n, const char *fmt, ...)
+{
+    va_list ap;
+    va_start(ap, fmt);
+    hf_status s = failv(c, HF_EINVAL, n, fmt, ap);
+    va_end(ap);
+    return s;
+}
+
+hf_status hf_case_tree_nomem(ctx *c)
+{
+    return nomem(c);
+}
+
+const char *hf_case_tree_got(const node *n, char *buf, size_t cap)
+{
+    return got(n, buf, cap);
+}
+
+int hf_case_tree_is_null(const node *n)
+{
+    return is_null(n);
+}
+
+hf_status hf_case_tree_map_check(ctx *c, const node *n, const char *what, const char *const *keys)
+{
+    return map_check(c, n, what, keys, "key");
+}
+
+const node *hf_case_tree_get(const node *map, const char *key)
+{
+    return get(map, key);
+}
+
+const node *hf_case_tree_getkey(const node *map, const char *key)
+{
+    return getkey(map, key);
+}
+
+hf_status hf_case_tree_missing(ctx *c, const node *map, const char *key, const char *what)
+{
+    return missing(c, map, key, what);
+}
+
+hf_status hf_case_tree_quantity(ctx *c, const node *n, hf_dim dim, int range, double *out)
+{
+    return quantity_in(c, n, dim, range, out);
+}
+
+hf_status hf_case_tree_opt_quantity(ctx *c, const node *map, const char *key, hf_dim dim, int range,
+                                    double *out)
+{
+    return opt_quantity(c, map, key, dim, range, out);
+}
+
+hf_status hf_case_tree_text(ctx *c, const node *n, const char *what, const char **out)
+{
+    return text(c, n, what, out);
+}
+
+hf_status hf_case_tree_name_dup(ctx *c, const node *n, const char *what, char **out)
+{
+    return name_dup(c, n, what, out);
 }

@@ -16,7 +16,7 @@
 #define RAD2DEG (180.0 / M_PI)
 
 static const char usage_text[] =
-    "usage: holdfast balance CASE [--load NAME]... [--csv FILE|-]\n"
+    "usage: holdfast balance CASE [--load NAME]... [--water-level LEVELS] [--csv FILE|-]\n"
     "\n"
     "For each load case of the case file's loads: list (or each NAME given),\n"
     "finds the mean position of the hull where the mooring balances the load in\n"
@@ -27,31 +27,74 @@ static const char usage_text[] =
     "  offset        horizontal offset against criteria.max_offset\n"
     "  anchors       drag: uplift angle within the line's max_uplift (default 0);\n"
     "                gravity block: factors against sliding mu (W - V) / H and uplift\n"
-    "                W / V (pass/fail only against 1.0: the block holds); pile and\n"
-    "                plate: load and angle reported, no check\n"
+    "                W / V against the required factors (criteria: or the line's\n"
+    "                block_sliding_factor, block_uplift_factor; default 1.0: the block\n"
+    "                holds); pile and plate: load and angle reported, no check.\n"
+    "                criteria.anchor_line_friction: ignore takes anchor loads without\n"
+    "                the grounded line's seabed friction (conservative)\n"
+    "  overload      a line at or beyond a section's MBL fails its condition and\n"
+    "                governs (criterion overload:<line>, alert overloaded)\n"
+    "Every load case and condition is run at every still water level of the\n"
+    "envelope: the case's site.water_levels ([low, high]: every 0.1 m and high;\n"
+    "or a list), else site.water_level alone.  The summary gives per line the\n"
+    "worst tension and anchor factors with the load, condition and level.\n"
     "Loads are fixed in the global frame (they do not turn with the hull).  Offsets\n"
     "(surge, sway) are those of the reference point along global x and y from the\n"
     "rest position; yaw is the turn from the rest heading, counterclockwise.\n"
     "\n"
     "options:\n"
     "  --load NAME    analyse this load case only (repeat for several)\n"
+    "  --water-level LEVELS  the still water levels instead of the case's:\n"
+    "                 FROM:TO:STEP (m; TO always included) or a list A,B,C\n"
     "  --csv FILE|-   write one CSV row per load case and condition (- = standard\n"
     "                 output; the readable report is then left out)\n"
     "  --help         show this text\n"
     "\n"
-    "CSV columns: load, condition (intact or broken:<line>), status, surge_m, sway_m,\n"
-    "yaw_deg, max_tension_kN, max_tension_line, max_utilisation, criterion, passed\n"
-    "(1/0), Tmax_<line>_kN per line (the largest tension along the line, not the\n"
-    "fairlead tension that T_<line>_kN means in curve and sweep CSVs; 0 when broken),\n"
-    "then horizontal_m, max_utilisation_line, min_line_factor, required_line_factor,\n"
-    "message.  See docs/criteria.md and docs/SAFETY.md.\n"
+    "CSV columns: load, condition (intact or broken:<line>), water_level_m, status,\n"
+    "surge_m, sway_m, yaw_deg, max_tension_kN, max_tension_line, max_utilisation,\n"
+    "criterion, passed (1/0), Tmax_<line>_kN per line (the largest tension along the\n"
+    "line, not the fairlead tension that T_<line>_kN means in curve and sweep CSVs;\n"
+    "0 when broken), per line anchor_load_<line>_kN, angle_<line>_deg (uplift angle),\n"
+    "sliding_<line>, uplift_<line> (gravity-block factors), then horizontal_m,\n"
+    "max_utilisation_line, min_line_factor, required_line_factor, message, alert\n"
+    "('overloaded' or empty).  See docs/criteria.md and docs/SAFETY.md.\n"
     "\n"
-    "exit status: 0 every criterion passed, 1 a criterion failed, 2 bad input or\n"
-    "usage, 3 an equilibrium could not be found (no equilibrium or numerical failure)\n";
+    "exit status: 0 every criterion passed, 1 a criterion failed or a line is\n"
+    "overloaded (stderr names it), 2 bad input or usage, 3 an equilibrium could not\n"
+    "be found (no equilibrium or numerical failure)\n";
 
 static const char *verdict(int passed)
 {
     return passed ? "PASS" : "FAIL";
+}
+
+/* The anchor part of the criteria: required block factors, friction choice. */
+static void print_anchor_criteria(FILE *out, const hf_model *m)
+{
+    const hf_criteria *c = &m->criteria;
+    for (size_t i = 0; i < m->nlines; i++)
+        if (m->lines[i].anchor_spec.kind == HF_ANCHOR_GRAVITY) {
+            double rs, ru;
+            hf_criteria_block_required(c, &(hf_anchor){0}, &rs, &ru);
+            fprintf(out,
+                    "  gravity blocks: sliding factor >= %.2f, uplift factor >= %.2f%s%s; "
+                    "compare\n  the factors with the design factors of the governing code\n",
+                    rs, ru, rs == 1.0 && ru == 1.0 ? " (the block holds under the mean load)" : "",
+                    c->block_sliding > 0 || c->block_uplift > 0 ? " (criteria)" : "");
+            break;
+        }
+    for (size_t i = 0; i < m->nlines; i++) {
+        const hf_anchor *a = &m->lines[i].anchor_spec;
+        if (a->kind == HF_ANCHOR_GRAVITY && (a->required_sliding > 0 || a->required_uplift > 0)) {
+            double rs, ru;
+            hf_criteria_block_required(c, a, &rs, &ru);
+            fprintf(out, "  line %s: block factors sliding >= %.2f, uplift >= %.2f (its own)\n",
+                    m->lines[i].name, rs, ru);
+        }
+    }
+    if (c->anchor_ignore_friction)
+        fprintf(out, "  anchor loads: seabed friction of the grounded line ignored "
+                     "(anchor_line_friction: ignore; conservative)\n");
 }
 
 static void print_criteria(FILE *out, const hf_model *m)
@@ -85,15 +128,7 @@ static void print_criteria(FILE *out, const hf_model *m)
         fprintf(out, "  offset limit %.3f m\n", c->max_offset);
     else
         fprintf(out, "  no offset limit (not checked)\n");
-    for (size_t i = 0; i < m->nlines; i++)
-        if (m->lines[i].anchor_spec.kind == HF_ANCHOR_GRAVITY) {
-            fprintf(out,
-                    "  gravity blocks: pass/fail only against %.2f (the block holds under the "
-                    "mean load); compare\n  the factors with the design factors of the "
-                    "governing code\n",
-                    HF_CRITERIA_GRAVITY_SLIDING);
-            break;
-        }
+    print_anchor_criteria(out, m);
 }
 
 static void print_anchor(FILE *out, const hf_model *m, size_t i, const hf_anchor_criterion *a)
@@ -114,7 +149,8 @@ static void print_anchor(FILE *out, const hf_model *m, size_t i, const hf_anchor
             fprintf(out, ", uplift %.3f", a->uplift_factor);
         else
             fprintf(out, ", uplift -");
-        fprintf(out, " (>= %.2f)  %s\n", a->required_sliding, verdict(a->passed));
+        fprintf(out, " (>= %.2f, %.2f)  %s\n", a->required_sliding, a->required_uplift,
+                verdict(a->passed));
         break;
     default:
         fprintf(out, "load %.1f kN, reported only\n", a->load / 1e3);
@@ -133,6 +169,10 @@ static void print_condition(FILE *out, const hf_model *m, const hf_balance_resul
     }
     fprintf(out, "\n  -- %s: equilibrium found (%d load steps, %d Newton iterations)\n", cn,
             r->steps, r->iterations);
+    if (r->overloaded)
+        fprintf(out,
+                "     OVERLOADED: line %s at utilisation %.3f (tension at or beyond its MBL)\n",
+                hf_results_line_name(m, r->overloaded_line), r->utilisation[r->overloaded_line]);
     fprintf(out, "     offset: surge %.3f m, sway %.3f m (horizontal %.3f m), yaw %.3f deg\n",
             r->offset[0], r->offset[1], r->horizontal, r->offset[2] * RAD2DEG);
     fprintf(out, "     residual: %.3g N, %.3g N, %.3g N m\n", r->residual[0], r->residual[1],
@@ -172,7 +212,10 @@ static void print_condition(FILE *out, const hf_model *m, const hf_balance_resul
                 hf_results_line_name(m, r->max_utilisation_line),
                 r->tension[r->max_utilisation_line] / 1e3, r->max_utilisation);
     hf_results_balance_criterion(m, r, crit, sizeof crit);
-    fprintf(out, "     verdict: %s (governing: %s)\n", verdict(r->passed), crit);
+    char why[160];
+    hf_results_balance_failure(m, r, why, sizeof why);
+    fprintf(out, "     verdict: %s (governing: %s%s%s)\n", verdict(r->passed), crit,
+            why[0] ? "; " : "", why);
 }
 
 static void print_load(FILE *out, const hf_load *l, const double f[3])
@@ -206,15 +249,35 @@ typedef struct {
     size_t nonfinite;
     hf_cli_bar progress;
     int show_progress;
+    size_t nlevels; /* levels of the envelope */
+    int full;       /* 1: this level is reported in full (the one nearest the
+                     * case's water_level); other levels: one line per passing
+                     * condition, failures in full */
+    double nearest; /* that level, m */
 } sink_ctx;
 
 static hf_status on_load(void *ctx, const hf_load *l, const double force[3], hf_error *err)
 {
     sink_ctx *c = ctx;
     (void)err;
-    if (c->out)
+    if (c->out && c->full)
         print_load(c->out, l, force);
+    else if (c->out)
+        fprintf(c->out, "\n== load %s\n", l->name);
     return HF_OK;
+}
+
+/* One line for a condition that passed at a level other than the detailed one. */
+static void print_brief(FILE *out, const hf_model *m, const hf_balance_result *r)
+{
+    char cn[HF_MODEL_MAX_NAME + 16], crit[HF_MODEL_MAX_NAME + 32];
+    hf_results_balance_condition(m, r, cn, sizeof cn);
+    hf_results_balance_criterion(m, r, crit, sizeof crit);
+    fprintf(out,
+            "  -- %s: PASS; worst %s %.1f kN (utilisation %.4f), offset %.3f m, governing %s\n", cn,
+            hf_results_line_name(m, r->max_utilisation_line),
+            r->max_utilisation_line < r->nlines ? r->tension[r->max_utilisation_line] / 1e3 : 0.0,
+            r->max_utilisation, r->horizontal, crit);
 }
 
 static hf_status on_condition(void *ctx, const hf_load *l, const hf_balance_result *r,
@@ -222,8 +285,10 @@ static hf_status on_condition(void *ctx, const hf_load *l, const hf_balance_resu
 {
     sink_ctx *c = ctx;
     (void)err;
-    if (c->out)
+    if (c->out && (c->full || !r->passed || r->status != HF_OK))
         print_condition(c->out, c->m, r);
+    else if (c->out)
+        print_brief(c->out, c->m, r);
     if (c->f)
         c->nonfinite += hf_results_balance_row_write(hf_outfile_stream(c->f), c->m, l, r);
     return HF_OK;
@@ -234,7 +299,7 @@ static hf_status on_load_end(void *ctx, const hf_load *l, hf_status intact, cons
 {
     sink_ctx *c = ctx;
     (void)l, (void)intact, (void)offset, (void)err;
-    if (c->out)
+    if (c->out && c->full)
         fprintf(c->out, "\n%s", hf_caution_text);
     return HF_OK;
 }
@@ -280,14 +345,65 @@ static int pick_loads(const hf_model *m, const char *path, const char *const *na
     return HF_CLI_CONTINUE;
 }
 
-/* Runs the chosen load cases and writes them; returns the exit status. */
+/* The next still water level of the envelope (human report only). */
+static hf_status on_level(void *ctx, size_t k, double level, const hf_model *at, hf_error *err)
+{
+    sink_ctx *c = ctx;
+    (void)err;
+    c->m = at; /* rows and names from the model at this level (same names) */
+    c->full = c->nlevels == 1 || level == c->nearest;
+    if (c->out && c->nlevels > 1)
+        fprintf(c->out, "\n=== still water level %.3g m above the datum (%zu of %zu)%s\n", level,
+                k + 1, c->nlevels,
+                c->full ? "" : ": conditions that pass in one line each, failures in full");
+    return HF_OK;
+}
+
+/* One line on stderr naming the worst overload of e; HF_EXIT_CRITERION, or
+ * HF_EXIT_OK when nothing is overloaded. */
+static int report_overload(const hf_model *m, const hf_analysis_envelope *e)
+{
+    if (!e->overloaded)
+        return HF_EXIT_OK;
+    char w[2 * HF_MODEL_MAX_NAME + 64];
+    hf_results_where(m, &e->overload_at, w, sizeof w);
+    fprintf(stderr,
+            "holdfast balance: line %s is overloaded: utilisation %.3f (T %.1f kN at or beyond "
+            "its MBL) under %s; %zu condition%s with an overloaded line\n",
+            hf_results_line_name(m, e->overload_line), e->overload_utilisation,
+            e->overload_tension / 1e3, w, e->overloaded, e->overloaded == 1 ? "" : "s");
+    return HF_EXIT_CRITERION;
+}
+
+/* The closing summary and verdict over the envelope, to sum. */
+static void print_verdict(FILE *sum, const hf_model *m, const hf_analysis_envelope *e)
+{
+    const hf_analysis_balance_count *n = &e->count;
+    char scope[512];
+    hf_results_envelope_scope(m, e, scope, sizeof scope);
+    hf_results_envelope_summary_write(sum, m, e);
+    fprintf(sum, "\nbalance: %zu of %zu load-case conditions passed every criterion%s\n", n->passed,
+            n->conditions, n->noresult ? "; some found no equilibrium (see above)" : "");
+    if (n->failed) {
+        char w[2 * HF_MODEL_MAX_NAME + 64];
+        hf_results_where(m, &e->first_failed, w, sizeof w);
+        fprintf(sum, "verdict: FAIL over %s (first failure: %s)\n", scope, w);
+    } else {
+        fprintf(sum, "verdict: PASS over %s\n", scope);
+    }
+}
+
+/* Runs the chosen load cases at every level and writes them; returns the exit status. */
 static int balance(const hf_model *m, const char *path, const char *csv, const size_t *which,
-                   size_t nwhich)
+                   size_t nwhich, hf_analysis_envelope *e)
 {
     hf_error err;
     hf_error_clear(&err);
     int human = !csv || strcmp(csv, "-") != 0;
-    sink_ctx c = {m, human ? stdout : NULL, NULL, 0, {0.0, 0.0, 0}, 0};
+    sink_ctx c = {m, human ? stdout : NULL, NULL, 0, {0.0, 0.0, 0}, 0, e->nlevels, 1, e->level[0]};
+    for (size_t k = 1; k < e->nlevels; k++) /* the level shown in full */
+        if (fabs(e->level[k] - m->site.water_level) < fabs(c.nearest - m->site.water_level))
+            c.nearest = e->level[k];
     hf_cli_bar_start(&c.progress);
     c.show_progress = isatty(fileno(stderr)) && !isatty(fileno(stdout));
     if (csv && !(c.f = hf_cli_csv_begin(csv, hf_results_balance_header_write, m, &err)))
@@ -298,9 +414,9 @@ static int balance(const hf_model *m, const char *path, const char *csv, const s
                        "rest; offsets from the rest pose\n");
         print_criteria(c.out, m);
     }
-    hf_analysis_balance_sink sink = {&c, on_load, on_condition, on_load_end, on_progress};
-    hf_analysis_balance_count n;
-    hf_status st = hf_analysis_balance_run(m, which, nwhich, &sink, &n, &err);
+    hf_analysis_envelope_sink sink = {{&c, on_load, on_condition, on_load_end, on_progress},
+                                      on_level};
+    hf_status st = hf_analysis_envelope_run(e, m, which, nwhich, &sink, &err);
     hf_cli_bar_clear(&c.progress);
     if (st != HF_OK) {
         hf_outfile_abort(c.f);
@@ -309,26 +425,79 @@ static int balance(const hf_model *m, const char *path, const char *csv, const s
     if (csv && hf_cli_csv_end("balance", &c.f, c.nonfinite, &err) != HF_OK)
         return hf_cli_fail(&err);
     FILE *sum = human ? stdout : stderr;
-    fprintf(sum, "\nbalance: %zu of %zu load-case conditions passed every criterion%s\n", n.passed,
-            n.conditions, n.noresult ? "; some found no equilibrium (see above)" : "");
-    if (!human)
-        fputs(hf_caution_text, stderr);
-    return n.noresult ? HF_EXIT_NUMERIC : n.failed ? HF_EXIT_CRITERION : HF_EXIT_OK;
+    print_verdict(sum, m, e);
+    if (!human || e->nlevels > 1)
+        fprintf(sum, "%s%s", human ? "\n" : "", hf_caution_text);
+    int over = report_overload(m, e);
+    const hf_analysis_balance_count *n = &e->count;
+    return n->noresult ? HF_EXIT_NUMERIC : n->failed || over ? HF_EXIT_CRITERION : HF_EXIT_OK;
+}
+
+/* The levels of --water-level (FROM:TO:STEP, TO always included, or A,B,C)
+ * or of the case into a new envelope *e.  Returns HF_CLI_CONTINUE or the
+ * exit status after a message. */
+static int levels(const hf_model *m, const char *text, hf_analysis_envelope **e)
+{
+    double v[HF_MODEL_MAX_LEVELS];
+    size_t n = 0;
+    hf_error err;
+    hf_error_clear(&err);
+    if (!text) {
+        n = hf_analysis_envelope_levels(m, v, HF_MODEL_MAX_LEVELS);
+    } else if (strchr(text, ':')) {
+        double from, to, step;
+        size_t count;
+        if (hf_cli_parse_range(text, &from, &to, &step, HF_MODEL_MAX_LEVELS - 1, &count, &err) !=
+            HF_OK)
+            return hf_cli_usage_error("balance", "--water-level: %s", err.text);
+        for (n = 0; n < count; n++) /* to 1e-9 m: 0.1 x 19 gives the double of "1.9" */
+            v[n] = round((from + (double)n * step) * 1e9) / 1e9;
+        if (fabs(v[n - 1] - to) > 1e-9 * fabs(step))
+            v[n++] = to; /* an envelope always covers its end */
+        else
+            v[n - 1] = to;
+    } else {
+        char buf[4096];
+        snprintf(buf, sizeof buf, "%s", text);
+        for (char *save = NULL, *t = strtok_r(buf, ",", &save); t; t = strtok_r(NULL, ",", &save)) {
+            if (n == HF_MODEL_MAX_LEVELS)
+                return hf_cli_usage_error("balance", "--water-level: more than %d levels",
+                                          HF_MODEL_MAX_LEVELS);
+            if (hf_cli_parse_value("--water-level", t, HF_DIM_LENGTH, &v[n++], &err) != HF_OK)
+                return hf_cli_usage_error("balance", "%s", err.text);
+        }
+        if (n == 0)
+            return hf_cli_usage_error("balance",
+                                      "--water-level: expected FROM:TO:STEP or a list "
+                                      "of levels, got \"%s\"",
+                                      text);
+    }
+    for (size_t k = 0; k < n; k++)
+        if (!(m->site.depth + v[k] > 0.0))
+            return hf_cli_usage_error("balance",
+                                      "--water-level: %g m is not above the seabed (> -%g m)", v[k],
+                                      m->site.depth);
+    if (!(*e = hf_analysis_envelope_alloc(m, n, &err)))
+        return hf_cli_fail(&err);
+    memcpy((*e)->level, v, n * sizeof *v);
+    return HF_CLI_CONTINUE;
 }
 
 int hf_cmd_balance(int argc, char **argv)
 {
-    const char *cmd = "balance", *path = NULL, *csv = NULL;
+    const char *cmd = "balance", *path = NULL, *csv = NULL, *wl = NULL;
     const char *names[HF_CLI_MAX_REPEAT];
     int nsel = 0;
-    const hf_cli_opt opts[] = {HF_CLI_OPT_CSV(&csv),
-                               {.name = "--load",
-                                .missing = "--load needs the NAME of a load case",
-                                .nonempty = 1,
-                                .count = &nsel,
-                                .list = names,
-                                .list_cap = HF_CLI_MAX_REPEAT}};
-    int rc = hf_cli_parse_case_args(argc, argv, cmd, usage_text, opts, 2, &path);
+    const hf_cli_opt opts[] = {
+        HF_CLI_OPT_CSV(&csv),
+        {.name = "--load",
+         .missing = "--load needs the NAME of a load case",
+         .nonempty = 1,
+         .count = &nsel,
+         .list = names,
+         .list_cap = HF_CLI_MAX_REPEAT},
+        HF_CLI_OPT_VALUE("--water-level", "--water-level needs FROM:TO:STEP or a list A,B", &wl)};
+    int rc = hf_cli_parse_case_args(argc, argv, cmd, usage_text, opts, 3, &path);
     if (rc != HF_CLI_CONTINUE)
         return rc;
     hf_error err;
@@ -340,15 +509,18 @@ int hf_cmd_balance(int argc, char **argv)
     if (rc != HF_CLI_CONTINUE)
         return rc;
     size_t *which = NULL, nwhich = 0;
+    hf_analysis_envelope *env = NULL;
     if (m.nloads == 0) {
         hf_error_set(&err, HF_EINVAL, "%s: no load cases: add a loads: list to the case file",
                      path);
         rc = hf_cli_fail(&err);
     } else if (!(which = hf_calloc(m.nloads, sizeof *which))) {
         rc = hf_cli_fail_status(HF_ENOMEM, "out of memory");
-    } else if ((rc = pick_loads(&m, path, names, nsel, which, &nwhich)) == HF_CLI_CONTINUE) {
-        rc = balance(&m, path, csv, which, nwhich);
+    } else if ((rc = pick_loads(&m, path, names, nsel, which, &nwhich)) == HF_CLI_CONTINUE &&
+               (rc = levels(&m, wl, &env)) == HF_CLI_CONTINUE) {
+        rc = balance(&m, path, csv, which, nwhich, env);
     }
+    hf_analysis_envelope_free(env);
     hf_free(which);
     hf_model_free(&m);
     return rc;

@@ -22,6 +22,11 @@ static const char usage_text[] =
     "empty nor a holdfast results folder (marked by its .holdfast-results file)\n"
     "is refused.\n"
     "\n"
+    "A case without a studies: section gets the default report: every line at\n"
+    "rest (rest.csv), the stiffness (stiffness.csv), restoring curves along the\n"
+    "hull's surge and sway axes (surge-curve.csv, sway-curve.csv) and the balance\n"
+    "of every load case, intact and each line broken (balance.csv).\n"
+    "\n"
     "  --out DIR   results folder (created when missing; replaced as a whole)\n"
     "  --jobs N    threads for sweep studies (default: every processor)\n"
     "  --quiet, -q print nothing but errors\n"
@@ -67,7 +72,7 @@ static int severity(hf_status st)
 static void more_help(FILE *out)
 {
     fprintf(out, "\nstudy kinds:");
-    for (int k = 0; k <= HF_STUDY_INVERT; k++)
+    for (int k = 0; k <= HF_STUDY_DESIGN; k++)
         fprintf(out, " %s", hf_study_kind_name((hf_study_kind)k));
     fprintf(out, "\n\noutputs of sweep studies (outputs:) and invert targets (target:):\n");
     hf_output_write_help(out, "  ");
@@ -77,6 +82,7 @@ static void more_help(FILE *out)
 typedef struct {
     const char *case_path, *dir;
     int jobs, quiet;
+    int defaults; /* 1: the case has no studies: the default studies run */
 } run_args;
 
 static int parse_args(int argc, char **argv, run_args *a)
@@ -158,6 +164,23 @@ static hf_status write_summary(const hf_model *m, const hf_study_list *sl, const
     return hf_outfile_commit(of, err);
 }
 
+/* The report's note on the default studies (a case without studies:). */
+static void default_note(hf_report *rep, const hf_model *m)
+{
+    char text[640], r[32];
+    hf_report_number(r, sizeof r, hf_studyrun_default_range(m), 4);
+    snprintf(text, sizeof text,
+             "The case has no studies: section, so this is the default report: every line at "
+             "rest, the 6x6 stiffness, restoring curves along the hull's surge and sway axes "
+             "from -%s to %s m%s. Add a studies: section to choose your own "
+             "(docs/case-format.md).",
+             r, r,
+             m->nloads ? ", and the mean position under every load case, intact and with each "
+                         "line broken, checked against the criteria"
+                       : "; the case has no load cases, so no criteria checks are made");
+    hf_report_note(rep, "note", text);
+}
+
 /* Every study, the report and the summary into dir.  Returns the exit
  * status the studies call for; *st is the status of the report and summary
  * files (their message in err). */
@@ -175,6 +198,8 @@ static int run_all(const hf_model *m, const hf_study_list *sl, const char *dir, 
     snprintf(command, sizeof command, "holdfast run %s", a->case_path);
     hf_report rep;
     hf_report_begin(&rep, hf_outfile_stream(rf), m, command);
+    if (a->defaults)
+        default_note(&rep, m);
     hf_studyrun_rest(&rep, m);
     int worst = 0, crit = 0;
     for (size_t k = 0; k < sl->n; k++) {
@@ -212,10 +237,10 @@ int hf_cmd_run(int argc, char **argv)
     hf_studyrun_outcome *oc = NULL;
     hf_runfolder rf;
     hf_status st = HF_OK;
-    if (sl.n == 0) {
-        st = hf_error_set(&err, HF_EINVAL, "%s: the case has no studies: section; nothing to run",
-                          a.case_path);
-    } else {
+    a.defaults = sl.n == 0;
+    if (a.defaults)
+        st = hf_studyrun_defaults(&m, &sl, &err);
+    if (st == HF_OK) {
         if (!a.dir) {
             default_dir(a.case_path, dbuf, sizeof dbuf);
             a.dir = dbuf;

@@ -16,7 +16,9 @@ static const char usage_head[] =
     "                      [--shard K/N] [--allow-large] [--quiet]\n"
     "\n"
     "Solves the case at rest for every combination of the varied parameters and\n"
-    "writes one CSV row per case: the varied values, a status, the outputs.\n"
+    "writes one CSV row per case: the varied values, a status, the outputs.  The\n"
+    "outputs NAME@LOAD and offset_<load> are taken at the intact mean equilibrium\n"
+    "under that load case, solved for every case.\n"
     "\n"
     "  --vary PATH=SPEC  a parameter path (site.water_level, lines[NAME].sections[K].length,\n"
     "                    lines[NAME].anchor_radius, components.NAME.diameter,\n"
@@ -41,8 +43,11 @@ static const char usage_head[] =
 
 static const char usage_tail[] =
     "\n"
-    "The last column, alert, is 'overloaded' when a line's utilisation T/MBL >= 1\n"
-    "in that case, else empty.\n"
+    "A case whose equilibrium under a load is not found has status no_equilibrium\n"
+    "and empty outputs.  The last column, alert, is 'overloaded' when a line's\n"
+    "utilisation T/MBL >= 1 in that case, at rest or at an equilibrium under a load\n"
+    "of the outputs, else empty.  The worst chain over a tide range under a gale:\n"
+    "  holdfast sweep CASE --vary site.water_level=0:3.4:0.1 --output max_tension@gale\n"
     "See docs/studies.md.  Exit status: 0 written (failed cases carry their status),\n"
     "1 written but a case has an overloaded line (stderr names the first), 2 bad\n"
     "input (also a sweep over the size limit), 3 numerical failure.\n";

@@ -166,6 +166,10 @@ hf_status hf_criteria_check(const hf_criteria *c, hf_error *err)
     hf_status s = factor_ok(c->factor_intact, "intact_factor", err);
     if (s == HF_OK)
         s = factor_ok(c->factor_damaged, "damaged_factor", err);
+    if (s == HF_OK)
+        s = factor_ok(c->block_sliding, "block_sliding_factor", err);
+    if (s == HF_OK)
+        s = factor_ok(c->block_uplift, "block_uplift_factor", err);
     if (s != HF_OK)
         return s;
     if (!isfinite(c->max_offset) || c->max_offset < 0.0)
@@ -395,4 +399,26 @@ hf_status hf_criteria_holding_evaluate(const hf_criteria_preset *p, hf_holding_c
 int hf_criteria_overloaded(double utilisation)
 {
     return utilisation >= 1.0;
+}
+
+void hf_criteria_block_required(const hf_criteria *c, const hf_anchor *a, double *sliding,
+                                double *uplift)
+{
+    if (sliding)
+        *sliding = a->required_sliding > 0.0     ? a->required_sliding
+                   : c && c->block_sliding > 0.0 ? c->block_sliding
+                                                 : HF_CRITERIA_GRAVITY_SLIDING;
+    if (uplift)
+        *uplift = a->required_uplift > 0.0     ? a->required_uplift
+                  : c && c->block_uplift > 0.0 ? c->block_uplift
+                                               : HF_CRITERIA_GRAVITY_UPLIFT;
+}
+
+void hf_criteria_anchor_forces(const hf_criteria *c, const hf_line_state *s, double *h, double *v)
+{
+    /* Flat seabed (hf_line.slope 0, the only one the solver takes): with no
+     * friction the horizontal tension is constant from the fairlead to the
+     * anchor (Irvine 1981, horizontal equilibrium of the elastic catenary). */
+    *h = c && c->anchor_ignore_friction ? s->h : s->anchor_h;
+    *v = s->anchor_v;
 }

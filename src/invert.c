@@ -106,7 +106,7 @@ static hf_status problem_init(problem *p, const hf_model *m, const char *path, c
     p->ws = hf_spread_alloc(&p->model, err);
     if (!p->ws)
         return err ? err->status : HF_ENOMEM;
-    if (o->kind == HF_OUT_OFFSET) {
+    if (hf_output_needs_balance(o)) {
         p->bal = hf_balance_alloc(&p->model, err);
         if (!p->bal)
             return err ? err->status : HF_ENOMEM;

@@ -7,7 +7,9 @@
 #include "holdfast/balance.h"
 #include "holdfast/caution.h"
 #include "holdfast/criteria.h"
+#include "holdfast/report_design.h"
 #include "holdfast/report.h"
+#include "holdfast/results.h"
 #include "holdfast/svg.h"
 
 #ifndef HF_VERSION
@@ -31,7 +33,8 @@ static const char css[] =
     ".verdict{font-size:18px;font-weight:bold;padding:10px 14px;margin:8px 0 4px;"
     "border:3px solid #000}\n"
     ".verdict.ok{background:#e3f1e8}.verdict.bad{background:#fbe0dc}"
-    ".verdict.none{background:#f0f0f0}\n"
+    ".verdict.none{background:#f0f0f0}.verdict.partial{background:#fff0c2}\n"
+    ".verdict .scope{display:block;font-size:14px;font-weight:normal;margin-top:4px}\n"
     "table{border-collapse:collapse;margin:8px 0 16px;font-size:13.5px}\n"
     "table.component{min-width:60%}table.component td:last-child{font-size:12.5px}\n"
     "caption{text-align:left;font-weight:bold;padding:4px 0}\n"
@@ -306,6 +309,17 @@ static void kv(hf_report *r, const char *k, const char *v)
     fputs("</td></tr>\n", r->out);
 }
 
+/* A direction in the one convention of holdfast's outputs: degrees in
+ * [0, 360), counter-clockwise from global x (hf_svg_direction_label),
+ * without the unit (the column heading carries it). */
+static void direction_deg(char *buf, size_t cap, double rad)
+{
+    hf_svg_direction_label(rad, buf, cap);
+    char *u = strstr(buf, " deg");
+    if (u)
+        *u = '\0';
+}
+
 static void case_section(hf_report *r, const hf_model *m)
 {
     char a[64], b[64], c[64], t[512];
@@ -363,16 +377,20 @@ static void case_section(hf_report *r, const hf_model *m)
             double fx = lf[0], fy = lf[1];
             char f1[48], f2[48], f3[48], f4[16], f5[48], f6[48];
             hf_report_number(f1, sizeof f1, ld->force / 1e3, 4);
-            hf_report_number(f2, sizeof f2, ld->direction * 180 / M_PI, 4);
+            direction_deg(f2, sizeof f2, ld->direction);
             hf_report_number(f3, sizeof f3, ld->moment / 1e3, 4);
             snprintf(f4, sizeof f4, "%zu", ld->ndrag);
             hf_report_number(f5, sizeof f5, hypot(fx, fy) / 1e3, 4);
-            hf_report_number(f6, sizeof f6, atan2(fy, fx) * 180 / M_PI, 4);
+            if (hypot(fx, fy) > 0)
+                direction_deg(f6, sizeof f6, atan2(fy, fx));
+            else
+                snprintf(f6, sizeof f6, "-"); /* no resultant, no direction */
             const char *cells[7] = {ld->name, f1, f2, f3, f4, f5, f6};
             hf_report_table_row(r, cells);
         }
         hf_report_table_end(r);
     }
+    hf_report_design_case(r, m); /* issue 14: hull design data, environments */
 }
 
 /* One property row: name, value with unit, source. */
@@ -479,10 +497,272 @@ static void lines_section(hf_report *r, const hf_model *m)
     hf_report_table_end(r);
 }
 
+/* ---- the scope of the checks ------------------------------------------------ */
+
+static void scope_begin(hf_report *r, const hf_model *m)
+{
+    r->model = m;
+    if (!m)
+        return;
+    r->scope_load = hf_calloc(m->nloads ? m->nloads : 1, 1);
+    r->scope_cond = hf_calloc(m->nlines + 1, 1);
+    r->scope_lost = !r->scope_load || !r->scope_cond;
+}
+
+static void scope_free(hf_report *r)
+{
+    hf_free(r->scope_load);
+    hf_free(r->scope_cond);
+    r->scope_load = r->scope_cond = NULL;
+}
+
+/* Two levels are one when they differ by less than a micrometre (levels are
+ * entered in m with a few decimals; a sweep's grid values carry rounding). */
+static int same_level(double a, double b)
+{
+    return fabs(a - b) <= 1e-6;
+}
+
+void hf_report_scope_add(hf_report *r, size_t load, size_t cond, double level)
+{
+    const hf_model *m = r->model;
+    if (!m || !r->scope_load || !r->scope_cond || load >= m->nloads || cond > m->nlines ||
+        !isfinite(level)) {
+        r->scope_lost = 1;
+        return;
+    }
+    r->nscoped++;
+    r->scope_load[load] = 1;
+    r->scope_cond[cond] = 1;
+    for (size_t i = 0; i < r->nscope_levels; i++)
+        if (same_level(r->scope_level[i], level))
+            return;
+    if (r->nscope_levels < HF_REPORT_MAX_LEVELS)
+        r->scope_level[r->nscope_levels++] = level;
+    else
+        r->scope_lost = 1;
+}
+
+size_t hf_report_levels_declared(const hf_model *m, double *out, size_t cap)
+{
+    return m ? hf_analysis_envelope_levels(m, out, cap) : 0;
+}
+
+/* What the checks covered against what the case declares. */
+typedef struct {
+    size_t loads, loads_done;   /* load cases */
+    size_t levels, levels_done; /* declared still water levels, of them checked */
+    double lo, hi;              /* the declared levels' range, m */
+    size_t conds, conds_done;   /* conditions: intact + each line broken */
+    int complete;               /* every declared load, level and condition checked */
+} scope_count;
+
+static void scope_counts(const hf_report *r, scope_count *c)
+{
+    const hf_model *m = r->model;
+    double lv[HF_REPORT_MAX_LEVELS];
+    memset(c, 0, sizeof *c);
+    c->loads = m->nloads;
+    c->conds = m->nlines + 1;
+    c->levels = hf_report_levels_declared(m, lv, HF_REPORT_MAX_LEVELS);
+    for (size_t i = 0; i < m->nloads && r->scope_load; i++)
+        c->loads_done += r->scope_load[i];
+    for (size_t i = 0; i <= m->nlines && r->scope_cond; i++)
+        c->conds_done += r->scope_cond[i];
+    c->lo = c->hi = c->levels ? lv[0] : 0.0;
+    for (size_t i = 0; i < c->levels && i < HF_REPORT_MAX_LEVELS; i++) {
+        c->lo = fmin(c->lo, lv[i]);
+        c->hi = fmax(c->hi, lv[i]);
+        for (size_t j = 0; j < r->nscope_levels; j++)
+            if (same_level(lv[i], r->scope_level[j])) {
+                c->levels_done++;
+                break;
+            }
+    }
+    c->complete = !r->scope_lost && c->loads > 0 && c->loads_done == c->loads &&
+                  c->conds_done == c->conds && c->levels_done == c->levels;
+}
+
+/* "1.9 m" or "0 to 3.4 m" for the range lo..hi. */
+static void level_range(char *buf, size_t cap, double lo, double hi)
+{
+    char a[32], b[32];
+    hf_report_number(a, sizeof a, lo, 4);
+    hf_report_number(b, sizeof b, hi, 4);
+    if (same_level(lo, hi))
+        snprintf(buf, cap, "%s m", a);
+    else
+        snprintf(buf, cap, "%s to %s m", a, b);
+}
+
+/* The scope sentence: "2 of 2 load cases x 1 of 1 still water level
+ * (1.9 m above datum) x 5 of 5 conditions (intact and each of the 4 lines
+ * broken)". */
+static void scope_sentence(const scope_count *c, char *buf, size_t cap)
+{
+    char lv[80];
+    level_range(lv, sizeof lv, c->lo, c->hi);
+    snprintf(buf, cap,
+             "%zu of %zu load case%s \xc3\x97 %zu of %zu still water level%s (%s above datum) "
+             "\xc3\x97 %zu "
+             "of %zu conditions (intact and each of the %zu line%s broken)",
+             c->loads_done, c->loads, c->loads == 1 ? "" : "s", c->levels_done, c->levels,
+             c->levels == 1 ? "" : "s", lv, c->conds_done, c->conds, c->conds - 1,
+             c->conds == 2 ? "" : "s");
+}
+
+/* What was left out, for the amber banner. */
+static void scope_missing(const hf_report *r, const scope_count *c, char *buf, size_t cap)
+{
+    size_t n = 0;
+    buf[0] = '\0';
+    if (c->loads_done < c->loads)
+        n += (size_t)snprintf(buf + n, cap - n, " %zu load case%s not checked;",
+                              c->loads - c->loads_done, c->loads - c->loads_done == 1 ? "" : "s");
+    if (c->levels_done < c->levels && n < cap)
+        n += (size_t)snprintf(buf + n, cap - n, " %zu declared water level%s not checked;",
+                              c->levels - c->levels_done,
+                              c->levels - c->levels_done == 1 ? "" : "s");
+    if (c->conds_done < c->conds && n < cap)
+        n += (size_t)snprintf(buf + n, cap - n,
+                              " %zu condition%s (intact or a line broken) not "
+                              "checked;",
+                              c->conds - c->conds_done, c->conds - c->conds_done == 1 ? "" : "s");
+    if ((r->scope_lost || r->nscoped < r->nchecks) && n < cap)
+        snprintf(buf + n, cap - n, " some checks did not record what they covered;");
+}
+
+/* The anchor part of the criteria sentence: the checks by anchor kind,
+ * the gravity blocks' required factors (the case's, or a range when lines
+ * set their own) and the anchor-load choice (seabed friction). */
+static void anchors_sentence(const hf_model *m, char *buf, size_t cap)
+{
+    int drag = 0, gravity = 0, other = 0;
+    double s_lo = INFINITY, s_hi = 0, u_lo = INFINITY, u_hi = 0;
+    for (size_t i = 0; i < m->nlines; i++) {
+        const hf_anchor *a = &m->lines[i].anchor_spec;
+        drag |= a->kind == HF_ANCHOR_DRAG;
+        other |= a->kind == HF_ANCHOR_PILE || a->kind == HF_ANCHOR_PLATE;
+        if (a->kind != HF_ANCHOR_GRAVITY)
+            continue;
+        gravity = 1;
+        double rs, ru;
+        hf_criteria_block_required(&m->criteria, a, &rs, &ru);
+        s_lo = fmin(s_lo, rs), s_hi = fmax(s_hi, rs), u_lo = fmin(u_lo, ru), u_hi = fmax(u_hi, ru);
+    }
+    char f[4][32], sl[80] = "", ul[80] = "";
+    hf_report_number(f[0], 32, s_lo, 4);
+    hf_report_number(f[1], 32, s_hi, 4);
+    hf_report_number(f[2], 32, u_lo, 4);
+    hf_report_number(f[3], 32, u_hi, 4);
+    if (gravity) {
+        snprintf(sl, sizeof sl, s_lo == s_hi ? "%s" : "%s to %s", f[0], f[1]);
+        snprintf(ul, sizeof ul, u_lo == u_hi ? "%s" : "%s to %s", f[2], f[3]);
+    }
+    size_t n = (size_t)snprintf(buf, cap, "anchors:%s%s",
+                                drag ? " drag anchors no uplift beyond "
+                                       "their allowed angle"
+                                     : "",
+                                drag && gravity ? "," : "");
+    if (gravity && n < cap)
+        n += (size_t)snprintf(buf + n, cap - n,
+                              " gravity blocks sliding factor at least %s and uplift factor at "
+                              "least %s",
+                              sl, ul);
+    if (other && n < cap)
+        n += (size_t)snprintf(buf + n, cap - n, "%s piles and plates reported without a check",
+                              drag || gravity ? "," : "");
+    if (n < cap)
+        snprintf(buf + n, cap - n, "; anchor loads %s",
+                 m->criteria.anchor_ignore_friction
+                     ? "with the grounded line's seabed friction ignored (anchor_line_friction: "
+                       "ignore)"
+                     : "as solved, the grounded line's seabed friction included");
+}
+
+/* Which criteria the checks apply: line factors, offset limit, anchors. */
+static void criteria_sentence(const hf_model *m, char *buf, size_t cap)
+{
+    const hf_criteria *cr = &m->criteria;
+    char a[32], b[32], o[48], an[400];
+    hf_report_number(a, sizeof a, cr->factor_intact, 4);
+    hf_report_number(b, sizeof b, cr->factor_damaged, 4);
+    hf_report_number(o, sizeof o, cr->max_offset, 4);
+    anchors_sentence(m, an, sizeof an);
+    snprintf(buf, cap,
+             "Criteria: line safety factor MBL/T at least %s intact and %s with one line "
+             "broken%s%s%s, and no line at its MBL; %s%s%s; %s.",
+             cr->factor_intact > 0 ? a : "(none)", cr->factor_damaged > 0 ? b : "(none)",
+             cr->preset ? " (" : "", cr->preset ? cr->preset : "", cr->preset ? ")" : "",
+             cr->max_offset > 0 ? "horizontal offset at most " : "no offset limit",
+             cr->max_offset > 0 ? o : "", cr->max_offset > 0 ? " m" : "", an);
+}
+
+/* The verdict banner (shown first by CSS order). */
+static void verdict(hf_report *r)
+{
+    FILE *out = r->out;
+    if (r->nchecks == 0) {
+        fputs("<div class=\"verdict none\">No criteria checks were made.", out);
+        if (r->model && r->model->nloads)
+            fprintf(out,
+                    "<span class=\"scope\">The case declares %zu load case%s; no balance "
+                    "study checked %s.</span>",
+                    r->model->nloads, r->model->nloads == 1 ? "" : "s",
+                    r->model->nloads == 1 ? "it" : "them");
+        fputs("</div>\n", out);
+        return;
+    }
+    if (!r->model) {
+        if (r->nfailed == 0)
+            fprintf(out, "<div class=\"verdict ok\">All %zu criteria check%s passed.</div>\n",
+                    r->nchecks, r->nchecks == 1 ? "" : "s");
+        else
+            fprintf(out,
+                    "<div class=\"verdict bad\">%zu of %zu criteria check%s FAILED. The failed "
+                    "checks are marked FAIL in the tables below.</div>\n",
+                    r->nfailed, r->nchecks, r->nchecks == 1 ? "" : "s");
+        return;
+    }
+    scope_count c;
+    scope_counts(r, &c);
+    char sc[512], cr[1024], miss[400];
+    scope_sentence(&c, sc, sizeof sc);
+    criteria_sentence(r->model, cr, sizeof cr);
+    scope_missing(r, &c, miss, sizeof miss);
+    int complete = c.complete && r->nscoped >= r->nchecks;
+    const char *cls = r->nfailed ? "bad" : complete ? "ok" : "partial";
+    fprintf(out, "<div class=\"verdict %s\">", cls);
+    if (r->nfailed)
+        fprintf(out,
+                "%zu of %zu criteria check%s FAILED. The failed checks are marked FAIL in the "
+                "tables below.",
+                r->nfailed, r->nchecks, r->nchecks == 1 ? "" : "s");
+    else if (complete)
+        fprintf(out, "All %zu criteria check%s passed, covering everything the case declares.",
+                r->nchecks, r->nchecks == 1 ? "" : "s");
+    else
+        fprintf(out,
+                "All %zu criteria check%s passed, but they cover less than the case declares: "
+                "this is not a verdict on the whole case.",
+                r->nchecks, r->nchecks == 1 ? "" : "s");
+    fputs("<span class=\"scope\">Checked: ", out);
+    esc(r, sc);
+    fputs(".", out);
+    if (miss[0]) {
+        fputs(" Not checked:", out);
+        esc(r, miss);
+    }
+    fputs(" ", out);
+    esc(r, cr);
+    fputs("</span></div>\n", out);
+}
+
 void hf_report_begin(hf_report *r, FILE *out, const hf_model *m, const char *command)
 {
     memset(r, 0, sizeof *r);
     r->out = out;
+    scope_begin(r, m);
     const char *title = m && m->title         ? m->title
                         : m && m->source_path ? m->source_path
                                               : "holdfast";
@@ -516,16 +796,8 @@ hf_status hf_report_end(hf_report *r, hf_error *err)
 {
     close_section(r);
     FILE *out = r->out;
-    if (r->nchecks == 0)
-        fputs("<div class=\"verdict none\">No criteria checks were made.</div>\n", out);
-    else if (r->nfailed == 0)
-        fprintf(out, "<div class=\"verdict ok\">All %zu criteria check%s passed.</div>\n",
-                r->nchecks, r->nchecks == 1 ? "" : "s");
-    else
-        fprintf(out,
-                "<div class=\"verdict bad\">%zu of %zu criteria check%s FAILED. The failed "
-                "checks are marked FAIL in the tables below.</div>\n",
-                r->nfailed, r->nchecks, r->nchecks == 1 ? "" : "s");
+    verdict(r);
+    scope_free(r);
     fputs("<footer>\n", out);
     caution(r);
     fputs("<p>Passing these checks is not an approval. holdfast is free software "
@@ -631,9 +903,17 @@ done:
     return s;
 }
 
-hf_status hf_report_svg_elevation(FILE *out, const hf_model *m, size_t i, const hf_line_state *st,
-                                  int standalone, hf_error *err)
+/* One line's elevation data: e (title left to the caller) with its profile
+ * *pts and sections *secs (hf_malloc'd here; the caller frees both, also on
+ * failure).  The allowed tension of each section is MBL / the intact factor
+ * of the criteria (none without one). */
+static hf_status elevation_data(const hf_model *m, size_t i, const hf_line_state *st,
+                                hf_svg_elevation *e, hf_line_point **pts, hf_svg_section **secs,
+                                hf_error *err)
 {
+    *pts = NULL;
+    *secs = NULL;
+    memset(e, 0, sizeof *e);
     if (!m || i >= m->nlines || !st || st->status != HF_OK)
         return hf_error_set(err, HF_EINVAL, "elevation figure: no solved line %zu", i);
     const hf_line *line = &m->lines[i].line;
@@ -644,27 +924,161 @@ hf_status hf_report_svg_elevation(FILE *out, const hf_model *m, size_t i, const 
     if (n < 2)
         return hf_error_set(err, HF_EINVAL, "elevation figure: line '%s' is not solved",
                             m->lines[i].name);
-    hf_line_point *pts = hf_malloc(n * sizeof *pts);
-    if (!pts)
+    size_t ns = hf_svg_sections_from_line(line, 0.0, NULL, 0);
+    *pts = hf_malloc(n * sizeof **pts);
+    *secs = hf_malloc((ns ? ns : 1) * sizeof **secs);
+    if (!*pts || !*secs)
         return hf_error_set(err, HF_ENOMEM, "elevation figure: out of memory");
-    n = hf_line_profile(line, st, spacing, pts, n);
-    char title[256], kn[48];
+    e->pts = *pts;
+    e->npts = hf_line_profile(line, st, spacing, *pts, n);
+    e->water_height = hf_model_water_height(m);
+    e->has_touchdown = st->regime == HF_LINE_TOUCHDOWN || st->regime == HF_LINE_SLACK;
+    e->touchdown_x = st->touchdown_x;
+    /* every section's MBL (overload marks) and allowed tension (drawn) */
+    e->nsections =
+        hf_svg_sections_from_line(line, hf_criteria_required(&m->criteria, 0), *secs, ns);
+    e->sections = *secs;
+    return HF_OK;
+}
+
+/* The title of line i's elevation: "Line bow: fairlead tension 812 kN, touchdown". */
+static void elevation_title(const hf_model *m, size_t i, const hf_line_state *st, char *buf,
+                            size_t cap)
+{
+    char kn[48];
     hf_report_number(kn, sizeof kn, st->tension / 1e3, 4);
-    snprintf(title, sizeof title, "Line %.160s: fairlead tension %s kN, %s", m->lines[i].name, kn,
+    snprintf(buf, cap, "Line %.160s: fairlead tension %s kN, %s", m->lines[i].name, kn,
              hf_line_regime_name(st->regime));
-    hf_svg_elevation e = {0};
-    e.title = title;
-    e.pts = pts;
-    e.npts = n;
-    e.water_height = hf_model_water_height(m);
-    e.has_touchdown = st->regime == HF_LINE_TOUCHDOWN || st->regime == HF_LINE_SLACK;
-    e.touchdown_x = st->touchdown_x;
-    double f = hf_criteria_required(&m->criteria, 0);
-    if (f > 0 && st->max_section < line->n)
-        e.tension_limit = line->sec[st->max_section].mbl / f;
-    hf_status s = hf_svg_figure_elevation(out, &e, standalone, err);
+}
+
+hf_status hf_report_svg_elevation(FILE *out, const hf_model *m, size_t i, const hf_line_state *st,
+                                  int standalone, hf_error *err)
+{
+    hf_svg_elevation e;
+    hf_line_point *pts;
+    hf_svg_section *secs;
+    hf_status s = elevation_data(m, i, st, &e, &pts, &secs, err);
+    char title[256];
+    if (s == HF_OK) {
+        elevation_title(m, i, st, title, sizeof title);
+        e.title = title;
+        s = hf_svg_figure_elevation(out, &e, standalone, err);
+    }
     hf_free(pts);
+    hf_free(secs);
     return s;
+}
+
+hf_status hf_report_svg_elevation_group(FILE *out, const hf_model *m, const size_t *idx, size_t n,
+                                        const hf_line_state *st, int standalone, hf_error *err)
+{
+    if (!idx || n == 0 || n > m->nlines)
+        return hf_error_set(err, HF_EINVAL, "elevation figure: no lines in the group");
+    const char **names = hf_malloc(n * sizeof *names);
+    if (!names)
+        return hf_error_set(err, HF_ENOMEM, "elevation figure: out of memory");
+    for (size_t k = 0; k < n; k++)
+        names[k] = idx[k] < m->nlines ? m->lines[idx[k]].name : "?";
+    hf_svg_elevation e;
+    hf_line_point *pts;
+    hf_svg_section *secs;
+    hf_status s = elevation_data(m, idx[0], st, &e, &pts, &secs, err);
+    char title[256];
+    if (s == HF_OK) {
+        elevation_title(m, idx[0], st, title, sizeof title);
+        e.title = title;
+        s = n == 1 ? hf_svg_figure_elevation(out, &e, standalone, err)
+                   : hf_svg_figure_elevation_group(out, &e, names, n, standalone, err);
+    }
+    hf_free(pts);
+    hf_free(secs);
+    hf_free(names);
+    return s;
+}
+
+hf_status hf_report_svg_elevation_overlay(FILE *out, const hf_model *m, const hf_spread_result *r,
+                                          int standalone, hf_error *err)
+{
+    size_t nl = m ? m->nlines : 0, n = 0;
+    if (!r || nl == 0)
+        return hf_error_set(err, HF_EINVAL, "overlay figure: no solved lines");
+    hf_svg_elevation *e = hf_calloc(nl, sizeof *e);
+    hf_line_point **pts = hf_calloc(nl, sizeof *pts);
+    hf_svg_section **secs = hf_calloc(nl, sizeof *secs);
+    const char **names = hf_calloc(nl, sizeof *names);
+    hf_status s = e && pts && secs && names
+                      ? HF_OK
+                      : hf_error_set(err, HF_ENOMEM, "overlay figure: out of memory");
+    for (size_t i = 0; i < nl && s == HF_OK; i++) {
+        if ((r->broken && r->broken[i]) || r->states[i].status != HF_OK)
+            continue; /* a broken or unsolved line is not drawn */
+        s = elevation_data(m, i, &r->states[i], &e[n], &pts[n], &secs[n], err);
+        names[n++] = m->lines[i].name;
+    }
+    if (s == HF_OK && n == 0)
+        s = hf_error_set(err, HF_EINVAL, "overlay figure: no solved lines");
+    if (s == HF_OK)
+        s = hf_svg_figure_elevation_overlay(out, "All lines in their own vertical planes", e, names,
+                                            n, standalone, err);
+    for (size_t i = 0; pts && secs && i < nl; i++) {
+        hf_free(pts[i]);
+        hf_free(secs[i]);
+    }
+    hf_free(e);
+    hf_free(pts);
+    hf_free(secs);
+    hf_free(names);
+    return s;
+}
+
+/* Two lengths (m) or forces (N) of two lines are the same: within 1e-9 of
+ * the larger (values parsed from the same text are equal exactly). */
+static int same_value(double a, double b)
+{
+    return fabs(a - b) <= 1e-9 * fmax(fabs(a), fabs(b));
+}
+
+/* 1 when lines i and j have the same make-up (pieces in order: the same
+ * component and length, the same clump or buoy load) and the same geometry
+ * at pose p up to a rotation about the vertical (horizontal anchor-fairlead
+ * distance and fairlead height). */
+static int same_line(const hf_model *m, size_t i, size_t j, const hf_pose *p)
+{
+    const hf_model_line *a = &m->lines[i], *b = &m->lines[j];
+    if (a->npieces != b->npieces)
+        return 0;
+    for (size_t k = 0; k < a->npieces; k++) {
+        const hf_piece *x = &a->pieces[k], *y = &b->pieces[k];
+        if (x->kind != y->kind || x->component != y->component ||
+            !same_value(x->length, y->length) || !same_value(x->load, y->load) ||
+            !same_value(x->friction, y->friction))
+            return 0;
+    }
+    hf_spread_geom ga, gb;
+    if (hf_spread_line_geometry(m, i, p, &ga, NULL) != HF_OK ||
+        hf_spread_line_geometry(m, j, p, &gb, NULL) != HF_OK)
+        return 0;
+    return fabs(ga.x - gb.x) <= 1e-6 * fmax(1.0, ga.x) && fabs(ga.z - gb.z) <= 1e-6;
+}
+
+size_t hf_report_line_groups(const hf_model *m, const hf_pose *pose, size_t *group)
+{
+    hf_pose rest;
+    if (!pose) {
+        hf_spread_pose_rest(m, &rest);
+        pose = &rest;
+    }
+    size_t n = 0;
+    for (size_t i = 0; i < m->nlines; i++) {
+        group[i] = i;
+        for (size_t j = 0; j < i; j++)
+            if (group[j] == j && same_line(m, j, i, pose)) {
+                group[i] = j;
+                break;
+            }
+        n += group[i] == i;
+    }
+    return n;
 }
 
 hf_status hf_report_svg_curve(FILE *out, const hf_model *m, const hf_analysis_curve *c,
@@ -701,4 +1115,107 @@ hf_status hf_report_svg_curve(FILE *out, const hf_model *m, const hf_analysis_cu
     hf_free(names);
     hf_free(lim);
     return s;
+}
+
+/* ---- balance over a water-level envelope (helper A, issue 13) ---- */
+
+/* A factor cell: the number, or "-" when none was found. */
+static void factor_cell(char *buf, size_t cap, double v, const hf_analysis_where *w)
+{
+    if (w->load == (size_t)-1)
+        snprintf(buf, cap, "-");
+    else
+        hf_report_number(buf, cap, v, 4);
+}
+
+/* The anchors' table of the envelope. */
+static void envelope_anchors(hf_report *r, const hf_model *m, const hf_analysis_envelope *e)
+{
+    static const char *const cols[] = {
+        "anchor",         "kind",          "largest load (kN)",           "uplift angle (deg)",
+        "sliding factor", "uplift factor", "required (sliding / uplift)", "check",
+        "where"};
+    hf_report_table_begin(r,
+                          m->criteria.anchor_ignore_friction
+                              ? "Anchors over the envelope (anchor loads with the seabed "
+                                "friction of the grounded line ignored)"
+                              : "Anchors over the envelope (anchor loads with the seabed "
+                                "friction of the grounded line)",
+                          cols, 9);
+    for (size_t i = 0; i < m->nlines && i < e->nlines; i++) {
+        const hf_analysis_envelope_line *el = &e->line[i];
+        const hf_anchor *a = &m->lines[i].anchor_spec;
+        char ld[32], ang[32], sl[32], up[32], req[64], chk[96], w[2 * HF_MODEL_MAX_NAME + 64];
+        factor_cell(ld, sizeof ld, el->anchor_load / 1e3, &el->anchor_load_at);
+        factor_cell(ang, sizeof ang, el->angle * 180.0 / M_PI, &el->angle_at);
+        factor_cell(sl, sizeof sl, el->sliding, &el->sliding_at);
+        factor_cell(up, sizeof up, el->uplift, &el->uplift_at);
+        double rs, ru;
+        hf_criteria_block_required(&m->criteria, a, &rs, &ru);
+        if (a->kind == HF_ANCHOR_GRAVITY)
+            snprintf(req, sizeof req, "%.2f / %.2f", rs, ru);
+        else if (a->kind == HF_ANCHOR_DRAG)
+            snprintf(req, sizeof req, "angle <= %.2f deg", a->max_uplift_angle * 180.0 / M_PI);
+        else
+            snprintf(req, sizeof req, "reported only");
+        const hf_analysis_where *at = &el->anchor_load_at;
+        if (el->anchor_failed) {
+            snprintf(chk, sizeof chk, "FAIL in %zu conditions", el->anchor_failed);
+            at = &el->anchor_fail_at;
+        } else {
+            snprintf(chk, sizeof chk, "%s",
+                     a->kind == HF_ANCHOR_PILE || a->kind == HF_ANCHOR_PLATE ? "-" : "PASS");
+            if (a->kind == HF_ANCHOR_GRAVITY && el->sliding_at.load != (size_t)-1)
+                at = &el->sliding_at;
+        }
+        hf_results_where(m, at, w, sizeof w);
+        const char *cells[] = {hf_results_line_name(m, i),
+                               hf_criteria_anchor_kind_name(a->kind),
+                               ld,
+                               ang,
+                               a->kind == HF_ANCHOR_GRAVITY ? sl : "-",
+                               a->kind == HF_ANCHOR_GRAVITY ? up : "-",
+                               req,
+                               chk,
+                               w};
+        hf_report_table_row(r, cells);
+    }
+    hf_report_table_end(r);
+}
+
+void hf_report_balance_envelope(hf_report *r, const hf_model *m, const hf_analysis_envelope *e)
+{
+    char scope[512], text[1024], w[2 * HF_MODEL_MAX_NAME + 64];
+    hf_results_envelope_scope(m, e, scope, sizeof scope);
+    snprintf(text, sizeof text, "Covered: %s.", scope);
+    hf_report_paragraph(r, text);
+    static const char *const cols[] = {"line", "largest tension (kN)", "utilisation T/MBL", "MBL/T",
+                                       "load case, condition, water level"};
+    hf_report_table_begin(r, "Worst tension of each line over the envelope", cols, 5);
+    for (size_t i = 0; i < m->nlines && i < e->nlines; i++) {
+        const hf_analysis_envelope_line *el = &e->line[i];
+        char t[32], u[32], f[32];
+        factor_cell(t, sizeof t, el->tension / 1e3, &el->at);
+        factor_cell(u, sizeof u, el->utilisation, &el->at);
+        factor_cell(f, sizeof f, el->utilisation > 0 ? 1.0 / el->utilisation : NAN, &el->at);
+        hf_results_where(m, &el->at, w, sizeof w);
+        const char *cells[] = {hf_results_line_name(m, i), t, u, f, w};
+        hf_report_table_row(r, cells);
+    }
+    hf_report_table_end(r);
+    envelope_anchors(r, m, e);
+    if (e->overloaded) {
+        hf_results_where(m, &e->overload_at, w, sizeof w);
+        snprintf(text, sizeof text,
+                 "OVERLOADED: %zu conditions have a line at or beyond its MBL; worst: %s at "
+                 "T/MBL %.3f (%s).",
+                 e->overloaded, hf_results_line_name(m, e->overload_line), e->overload_utilisation,
+                 w);
+        hf_report_note(r, "warning", text);
+    }
+    hf_results_where(m, &e->first_failed, w, sizeof w);
+    snprintf(text, sizeof text, "%zu of %zu conditions passed%s%s", e->count.passed,
+             e->count.conditions, e->count.failed ? "; first failure: " : "",
+             e->count.failed ? w : "");
+    hf_report_check(r, "balance envelope", scope, text, e->count.failed == 0);
 }

@@ -10,6 +10,7 @@
 #include "holdfast/invert.h"
 #include "holdfast/outputs.h"
 #include "holdfast/report.h"
+#include "holdfast/report_design.h"
 #include "holdfast/results.h"
 #include "holdfast/spread.h"
 #include "holdfast/studyrun.h"
@@ -25,31 +26,67 @@ static void report_fail_note(hf_report *rep, const char *what, const hf_error *e
     hf_report_note(rep, "note", buf);
 }
 
-/* Elevation figures of every solved line of r (at most `max` lines). */
+/* One elevation per group of identical lines of r at `pose` (at most `max`
+ * groups; hf_report_line_groups), then every line overlaid in one figure
+ * when there are two groups or more.  Broken and unsolved lines are left
+ * out. */
 static void report_elevations(hf_report *rep, const hf_model *m, const hf_spread_result *r,
-                              size_t max, const char *when)
+                              const hf_pose *pose, size_t max, const char *when)
 {
-    size_t n = m->nlines < max ? m->nlines : max;
-    for (size_t i = 0; i < n; i++) {
-        if (r->broken[i] || r->states[i].status != HF_OK)
+    size_t nl = m->nlines, *group = hf_malloc(nl * sizeof *group),
+           *idx = hf_malloc(nl * sizeof *idx), shown = 0, ngroups = 0;
+    hf_error e;
+    hf_error_clear(&e);
+    if (!group || !idx) {
+        hf_error_set(&e, HF_ENOMEM, "out of memory");
+        report_fail_note(rep, "The elevations", &e);
+        nl = 0;
+    } else {
+        ngroups = hf_report_line_groups(m, pose, group);
+    }
+    for (size_t i = 0; i < nl && shown < max; i++) {
+        size_t n = 0;
+        for (size_t j = i; group[i] == i && j < nl; j++)
+            if (group[j] == i && !r->broken[j] && r->states[j].status == HF_OK)
+                idx[n++] = j;
+        if (n == 0)
             continue;
-        hf_error e;
-        hf_error_clear(&e);
         FILE *f = hf_report_figure_begin(rep);
-        hf_status st = hf_report_svg_elevation(f, m, i, &r->states[i], 0, &e);
-        char cap[HF_MODEL_MAX_NAME + 128];
-        snprintf(cap, sizeof cap, "Line %s %s: profile and tension along the line.",
-                 m->lines[i].name, when);
+        hf_status st = hf_report_svg_elevation_group(f, m, idx, n, &r->states[idx[0]], 0, &e);
+        char cap[HF_MODEL_MAX_NAME + 200];
+        if (n == 1)
+            snprintf(cap, sizeof cap, "Line %s %s: profile and tension along the line.",
+                     m->lines[idx[0]].name, when);
+        else
+            snprintf(cap, sizeof cap,
+                     "%zu lines of one make-up and geometry (up to a rotation) %s, drawn once: "
+                     "profile and tension along the line.",
+                     n, when);
         hf_report_figure_end(rep, cap);
         if (st != HF_OK)
             report_fail_note(rep, "An elevation", &e);
+        shown++;
     }
-    if (m->nlines > n) {
-        char buf[128];
-        snprintf(buf, sizeof buf, "Elevations of the first %zu of %zu lines are shown.", n,
-                 m->nlines);
+    if (ngroups > shown) {
+        char buf[160];
+        snprintf(buf, sizeof buf, "Elevations of the first %zu of %zu groups of lines are shown.",
+                 shown, ngroups);
         hf_report_paragraph(rep, buf);
     }
+    if (ngroups >= 2) {
+        FILE *f = hf_report_figure_begin(rep);
+        hf_status st = hf_report_svg_elevation_overlay(f, m, r, 0, &e);
+        char cap[160];
+        snprintf(cap, sizeof cap,
+                 "Every line %s overlaid, each in its own vertical plane with its anchor at "
+                 "distance 0.",
+                 when);
+        hf_report_figure_end(rep, cap);
+        if (st != HF_OK)
+            report_fail_note(rep, "The overlay", &e);
+    }
+    hf_free(group);
+    hf_free(idx);
 }
 
 /* The rest pose: plan and every line's elevation. */
@@ -69,7 +106,7 @@ void hf_studyrun_rest(hf_report *rep, const hf_model *m)
     hf_analysis_pose_init(&at);
     static const double zero[3] = {0.0, 0.0, 0.0};
     if (hf_analysis_pose_solve(&at, m, zero, 0, &e) == HF_OK)
-        report_elevations(rep, m, &at.res, 12, "at rest");
+        report_elevations(rep, m, &at.res, &at.pose, 12, "at rest");
     else
         report_fail_note(rep, "The rest pose", &e);
     hf_analysis_pose_clear(&at);
@@ -190,7 +227,8 @@ static void sweep_figure(hf_report *rep, const hf_model *m, const hf_study *s,
         output_label(t, yl, sizeof yl);
         sweep_legend(s, ic, ncurves, names, cn);
         hf_output_kind k0 = t->cols[0].kind;
-        int util = k0 == HF_OUT_UTILISATION || k0 == HF_OUT_MAX_UTILISATION;
+        int util = k0 == HF_OUT_UTILISATION || k0 == HF_OUT_MAX_UTILISATION ||
+                   k0 == HF_OUT_UTILISATION_AT || k0 == HF_OUT_MAX_UTILISATION_AT;
         /* Legend title: the last part of the curve parameter's path ("length");
          * the caption names the whole path. */
         const char *lt = strrchr(s->vary[ic].path, '.');
@@ -311,7 +349,7 @@ static hf_status run_lines(const hf_model *m, const hf_study *s, int jobs, FILE 
         }
         hf_report_table_end(rep);
         if (s->offset[0] != 0.0 || s->offset[1] != 0.0 || s->offset[2] != 0.0)
-            report_elevations(rep, m, &r, 12, "at this pose");
+            report_elevations(rep, m, &r, &at.pose, 12, "at this pose");
         else
             hf_report_paragraph(rep, "The pose is the rest pose: the elevations are above.");
     }
@@ -377,11 +415,12 @@ static hf_status run_curve(const hf_model *m, const hf_study *s, int jobs, FILE 
     for (size_t k = 0; k < n; k++)
         nonfinite += hf_results_curve_row_write(out, m, c, k);
     oc->nonfinite += nonfinite;
-    snprintf(oc->note, sizeof oc->note, "%zu offsets along %.4g deg, %zu failed", n,
-             s->direction * 180.0 / M_PI, c->nfailed);
+    char dir[32]; /* one convention: 0-360 deg counter-clockwise from x */
+    hf_svg_direction_label(s->direction, dir, sizeof dir);
+    snprintf(oc->note, sizeof oc->note, "%zu offsets along %s, %zu failed", n, dir, c->nfailed);
     char head[HF_MODEL_MAX_NAME + 64], label[64];
     snprintf(head, sizeof head, "Restoring curve: %s", s->name);
-    snprintf(label, sizeof label, "direction %.4g deg", s->direction * 180.0 / M_PI);
+    snprintf(label, sizeof label, "direction %s", dir);
     hf_report_section(rep, head,
                       "Restoring force and stiffness against a horizontal offset of the hull "
                       "along one direction, heading fixed; line tensions and utilisations.");
@@ -406,12 +445,17 @@ static hf_status run_curve(const hf_model *m, const hf_study *s, int jobs, FILE 
     return HF_OK;
 }
 
-/* A balance study's writers: the CSV rows and the report's checks. */
+/* A balance study's writers: the CSV rows and the report's checks.  m is
+ * the model at the level being run (hf_analysis_envelope_sink.level_begin:
+ * a copy with site.water_level set, whose loads have m's indices). */
 typedef struct {
     const hf_model *m;
     FILE *out;
     hf_report *rep;
     size_t nonfinite;
+    size_t level, nlevels;        /* the level being run (index) of how many */
+    size_t *line_failed;          /* per line: conditions whose line check failed */
+    hf_analysis_where *line_fail; /* per line: the first of them */
 } balance_ctx;
 
 /* The requirement and the result of condition r, for the report. */
@@ -419,8 +463,15 @@ static void balance_check(const balance_ctx *c, const hf_load *l, const hf_balan
 {
     char cond[HF_MODEL_MAX_NAME + 16];
     hf_results_balance_condition(c->m, r, cond, sizeof cond);
-    char item[2 * HF_MODEL_MAX_NAME + 32], req[128], res[256], a[32], b2[32];
-    snprintf(item, sizeof item, "load %s, %s", l->name, cond);
+    char item[2 * HF_MODEL_MAX_NAME + 32], req[128], res[384], a[32], b2[32], why[160];
+    hf_results_balance_failure(c->m, r, why, sizeof why); /* the failing number, if any */
+    if (c->nlevels > 1) {
+        char lv[32];
+        hf_report_number(lv, sizeof lv, c->m->site.water_level, 4);
+        snprintf(item, sizeof item, "load %s, %s, water level %s m", l->name, cond, lv);
+    } else {
+        snprintf(item, sizeof item, "load %s, %s", l->name, cond);
+    }
     double need = hf_criteria_required(&c->m->criteria, r->broken != HF_BALANCE_NONE);
     fmt(a, need);
     if (need > 0)
@@ -435,11 +486,41 @@ static void balance_check(const balance_ctx *c, const hf_load *l, const hf_balan
     } else {
         fmt(a, r->max_utilisation > 0 ? 1.0 / r->max_utilisation : 0.0);
         fmt(b2, r->horizontal);
-        snprintf(res, sizeof res, "MBL/T %s (%s), offset %s m, governing: %s", a,
+        snprintf(res, sizeof res, "MBL/T %s (%s), offset %s m, governing: %s%s%s", a,
                  hf_results_line_name(c->m, r->max_utilisation_line), b2,
-                 hf_balance_criterion_name(r->criterion));
+                 hf_balance_criterion_name(r->criterion), why[0] ? "; " : "", why);
     }
     hf_report_check(c->rep, item, req, res, r->passed);
+}
+
+/* What the check of condition r covered, for the report's verdict: the
+ * load case, the condition and the still water level it was solved at. */
+static void balance_scope(const balance_ctx *c, const hf_load *l, const hf_balance_result *r)
+{
+    size_t load = l >= c->m->loads && l < c->m->loads + c->m->nloads
+                      ? (size_t)(l - c->m->loads)
+                      : hf_model_load_find(c->m, l->name);
+    size_t cond = r->broken == HF_BALANCE_NONE ? 0 : r->broken + 1;
+    hf_report_scope_add(c->rep, load, cond, c->m->site.water_level);
+}
+
+/* Counts the lines of condition r that fail their line check (overload
+ * included), for the per-line table over the envelope. */
+static void balance_lines(balance_ctx *c, const hf_load *l, const hf_balance_result *r)
+{
+    if (r->status != HF_OK || !c->line_failed)
+        return;
+    for (size_t i = 0; i < r->nlines && i < c->m->nlines; i++) {
+        int over = hf_criteria_overloaded(r->utilisation[i]) && r->broken != i;
+        if ((r->line[i].passed || r->broken == i) && !over)
+            continue;
+        if (!c->line_failed[i]++) {
+            hf_analysis_where w = {hf_model_load_find(c->m, l->name),
+                                   r->broken == HF_BALANCE_NONE ? 0 : r->broken + 1,
+                                   c->m->site.water_level};
+            c->line_fail[i] = w;
+        }
+    }
 }
 
 static hf_status balance_row(void *ctx, const hf_load *l, const hf_balance_result *r, hf_error *err)
@@ -448,6 +529,8 @@ static hf_status balance_row(void *ctx, const hf_load *l, const hf_balance_resul
     (void)err;
     c->nonfinite += hf_results_balance_row_write(c->out, c->m, l, r);
     balance_check(c, l, r);
+    balance_scope(c, l, r);
+    balance_lines(c, l, r);
     return HF_OK;
 }
 
@@ -457,7 +540,7 @@ static hf_status balance_plan(void *ctx, const hf_load *l, hf_status intact, con
 {
     balance_ctx *c = ctx;
     (void)err;
-    if (intact != HF_OK)
+    if (intact != HF_OK || c->level > 0) /* plans at the first level only */
         return HF_OK;
     hf_pose pose;
     hf_spread_pose_rest(c->m, &pose);
@@ -467,48 +550,233 @@ static hf_status balance_plan(void *ctx, const hf_load *l, hf_status intact, con
     FILE *f = hf_report_figure_begin(c->rep);
     hf_status fs = hf_report_svg_plan(f, c->m, &pose, NULL, l, 0, &fe);
     char cap[HF_MODEL_MAX_NAME + 96];
-    snprintf(cap, sizeof cap, "Plan at the intact equilibrium under load %s.", l->name);
+    char lv[32];
+    hf_report_number(lv, sizeof lv, c->m->site.water_level, 4);
+    snprintf(cap, sizeof cap,
+             "Plan at the intact equilibrium under load %s (still water level %s m).", l->name, lv);
     hf_report_figure_end(c->rep, cap);
     if (fs != HF_OK)
         report_fail_note(c->rep, "The plan", &fe);
     return HF_OK;
 }
 
+/* "<load>, <condition>, <level> m" of w, the level to 4 significant digits
+ * as everywhere in the report ("-" when nothing was found). */
+static void where_text(const hf_model *m, const hf_analysis_where *w, char *buf, size_t cap)
+{
+    if (w->load >= m->nloads) {
+        snprintf(buf, cap, "-");
+        return;
+    }
+    char lv[32];
+    hf_report_number(lv, sizeof lv, w->level, 4);
+    if (w->cond == 0)
+        snprintf(buf, cap, "%s, intact, %s m", m->loads[w->load].name, lv);
+    else
+        snprintf(buf, cap, "%s, broken:%s, %s m", m->loads[w->load].name,
+                 hf_results_line_name(m, w->cond - 1), lv);
+}
+
+/* The anchor cell of line i over envelope line el: kind, the governing
+ * numbers against their requirement, where, PASS/FAIL ("" for no result). */
+static int envelope_anchor_cell(const hf_model *m, size_t i, const hf_analysis_envelope_line *el,
+                                char *buf, size_t cap)
+{
+    const hf_anchor *a = &m->lines[i].anchor_spec;
+    char w[2 * HF_MODEL_MAX_NAME + 64], x[32], y[32];
+    if (el->anchor_load_at.load == (size_t)-1) {
+        snprintf(buf, cap, "no result");
+        return 1;
+    }
+    fmt(x, el->anchor_load / 1e3);
+    fmt(y, el->angle * 180.0 / M_PI);
+    int n = snprintf(buf, cap, "%s: largest load %s kN, uplift angle %s deg",
+                     hf_criteria_anchor_kind_name(a->kind), x, y);
+    if (a->kind == HF_ANCHOR_GRAVITY && n > 0 && (size_t)n < cap) {
+        double rs, ru;
+        hf_criteria_block_required(&m->criteria, a, &rs, &ru);
+        char r1[32], r2[32];
+        fmt(r1, rs);
+        fmt(r2, ru);
+        fmt(x, el->sliding);
+        fmt(y, el->uplift);
+        where_text(m, &el->sliding_at, w, sizeof w);
+        n += snprintf(buf + n, cap - (size_t)n, "; sliding factor %s (at least %s) at %s",
+                      el->sliding_at.load != (size_t)-1 ? x : "- (never pulled)", r1, w);
+        if ((size_t)n < cap)
+            n += snprintf(buf + n, cap - (size_t)n, "; uplift factor %s (at least %s)",
+                          el->uplift_at.load != (size_t)-1 ? y : "- (never lifted)", r2);
+    } else if (a->kind == HF_ANCHOR_DRAG && n > 0 && (size_t)n < cap) {
+        fmt(x, a->max_uplift_angle * 180.0 / M_PI);
+        n += snprintf(buf + n, cap - (size_t)n, " (allowed %s)", x);
+    }
+    if (el->anchor_failed && n > 0 && (size_t)n < cap) {
+        where_text(m, &el->anchor_fail_at, w, sizeof w);
+        snprintf(buf + n, cap - (size_t)n, "; FAIL in %zu conditions, first %s", el->anchor_failed,
+                 w);
+    } else if ((a->kind == HF_ANCHOR_PILE || a->kind == HF_ANCHOR_PLATE) && n > 0 &&
+               (size_t)n < cap) {
+        snprintf(buf + n, cap - (size_t)n, " (reported, not checked)");
+    }
+    return !el->anchor_failed;
+}
+
+/* The answer to "which line is worst over the envelope, where, and does it
+ * pass": one row per line (issue 13). */
+static void report_envelope(hf_report *rep, const hf_model *m, const hf_analysis_envelope *e,
+                            const balance_ctx *c)
+{
+    static const char *const cols[] = {"line",        "worst tension (kN)",
+                                       "utilisation", "where (load, condition, water level)",
+                                       "line check",  "anchor over the envelope",
+                                       "verdict"};
+    char cap[600], lo[32], hi[32];
+    hf_report_number(lo, sizeof lo, e->level[0], 4);
+    hf_report_number(hi, sizeof hi, e->level[e->nlevels - 1], 4);
+    snprintf(cap, sizeof cap,
+             "Worst of each line over %zu load case%s \xc3\x97 %zu still water level%s "
+             "(%s%s%s m) \xc3\x97 %zu conditions (intact and each line broken)",
+             e->nloads, e->nloads == 1 ? "" : "s", e->nlevels, e->nlevels == 1 ? "" : "s",
+             e->nlevels > 1 ? lo : "", e->nlevels > 1 ? " to " : "", e->nlevels > 1 ? hi : lo,
+             m->nlines + 1);
+    hf_report_table_begin(rep, cap, cols, 7);
+    for (size_t i = 0; i < m->nlines && i < e->nlines; i++) {
+        const hf_analysis_envelope_line *el = &e->line[i];
+        char t[32], u[48], w[2 * HF_MODEL_MAX_NAME + 64], lc[2 * HF_MODEL_MAX_NAME + 160],
+            an[4 * HF_MODEL_MAX_NAME + 400];
+        int found = el->at.load != (size_t)-1;
+        fmt(t, el->tension / 1e3);
+        hf_report_number(u, sizeof u, el->utilisation, 4);
+        if (found && hf_criteria_overloaded(el->utilisation))
+            strcat(u, " OVERLOADED");
+        where_text(m, &el->at, w, sizeof w);
+        size_t nf = c->line_failed ? c->line_failed[i] : 0;
+        if (nf) {
+            char fw[2 * HF_MODEL_MAX_NAME + 64];
+            where_text(m, &c->line_fail[i], fw, sizeof fw);
+            snprintf(lc, sizeof lc, "FAIL in %zu conditions, first %s", nf, fw);
+        } else {
+            char f1[32], f2[32];
+            fmt(f1, el->min_factor);
+            fmt(f2, hf_criteria_required(&m->criteria, el->factor_at.cond != 0));
+            snprintf(lc, sizeof lc, "smallest MBL/T %s (required %s there)", f1, f2);
+        }
+        int anchor_ok = envelope_anchor_cell(m, i, el, an, sizeof an);
+        int ok = found && !nf && anchor_ok && !hf_criteria_overloaded(el->utilisation);
+        const char *cells[7] = {m->lines[i].name,
+                                found ? t : "-",
+                                found ? u : "-",
+                                found ? w : "no result",
+                                lc,
+                                an,
+                                !found ? "no result"
+                                : ok   ? "PASS"
+                                       : "FAIL"};
+        hf_report_table_row(rep, cells);
+    }
+    hf_report_table_end(rep);
+}
+
+/* Each level of the envelope: the model at that level for the rows. */
+static hf_status balance_level(void *ctx, size_t k, double level, const hf_model *at, hf_error *err)
+{
+    balance_ctx *c = ctx;
+    (void)level, (void)err;
+    c->m = at;
+    c->level = k;
+    return HF_OK;
+}
+
+/* The load cases of balance study s into which[] (*n; 0 = all). */
+static hf_status balance_loads(const hf_model *m, const hf_study *s, size_t **which, size_t *n,
+                               hf_error *err)
+{
+    *n = s->nloads;
+    *which = hf_calloc(*n ? *n : 1, sizeof **which);
+    if (!*which)
+        return hf_error_set(err, HF_ENOMEM, "balance study %s: out of memory", s->name);
+    for (size_t l = 0; l < *n; l++)
+        if (((*which)[l] = hf_model_load_find(m, s->loads[l])) >= m->nloads)
+            return hf_error_set(err, HF_EINVAL, "balance study %s: no load named %s", s->name,
+                                s->loads[l]);
+    return HF_OK;
+}
+
 static hf_status run_balance(const hf_model *m, const hf_study *s, int jobs, FILE *out,
                              hf_report *rep, hf_studyrun_outcome *oc, hf_error *err)
 {
-    size_t nwhich = s->nloads, *which = hf_calloc(nwhich ? nwhich : 1, sizeof *which);
-    if (!which)
-        return hf_error_set(err, HF_ENOMEM, "balance study %s: out of memory", s->name);
-    for (size_t l = 0; l < nwhich; l++)
-        if ((which[l] = hf_model_load_find(m, s->loads[l])) >= m->nloads) {
-            hf_free(which);
-            return hf_error_set(err, HF_EINVAL, "balance study %s: no load named %s", s->name,
-                                s->loads[l]);
-        }
-    if (hf_results_balance_header_write(out, m, err) != HF_OK) {
+    size_t nwhich, *which = NULL;
+    size_t nlev = hf_analysis_envelope_levels(m, NULL, 0);
+    hf_analysis_envelope *e = NULL;
+    hf_status st = balance_loads(m, s, &which, &nwhich, err);
+    if (st == HF_OK && !(e = hf_analysis_envelope_alloc(m, nlev, err)))
+        st = err->status;
+    if (st == HF_OK)
+        st = hf_results_balance_header_write(out, m, err);
+    if (st != HF_OK) {
         hf_free(which);
-        return err->status;
+        hf_analysis_envelope_free(e);
+        return st;
     }
-    char head[HF_MODEL_MAX_NAME + 64];
+    hf_analysis_envelope_levels(m, e->level, nlev);
+    char head[HF_MODEL_MAX_NAME + 64], intro[1024], scope[512];
     snprintf(head, sizeof head, "Mean position under load: %s", s->name);
-    hf_report_section(rep, head,
-                      "Equilibrium in surge, sway and yaw under each load case, intact and with "
-                      "each line broken in turn, checked against the case's criteria.");
-    balance_ctx c = {m, out, rep, 0};
-    hf_analysis_balance_sink sink = {&c, NULL, balance_row, balance_plan, NULL};
-    hf_analysis_balance_count n;
-    hf_error e;
-    hf_error_clear(&e);
-    hf_status st = hf_analysis_balance_run(m, nwhich ? which : NULL, nwhich, &sink, &n, &e);
+    char lv[64];
+    if (nlev == 1)
+        snprintf(lv, sizeof lv, "at the case's still water level");
+    else
+        snprintf(lv, sizeof lv, "at each of the %zu still water levels the case declares", nlev);
+    snprintf(intro, sizeof intro,
+             "Equilibrium in surge, sway and yaw under each load case, intact and with each line "
+             "broken in turn, %s, checked against the case's criteria%s.",
+             lv,
+             m->criteria.anchor_ignore_friction
+                 ? "; anchor loads with the grounded line's seabed friction ignored "
+                   "(criteria.anchor_line_friction: ignore)"
+                 : "; anchor loads as solved, the grounded line's seabed friction included");
+    hf_report_section(rep, head, intro);
+    balance_ctx c = {m,
+                     out,
+                     rep,
+                     0,
+                     0,
+                     nlev,
+                     hf_calloc(m->nlines, sizeof *c.line_failed),
+                     hf_calloc(m->nlines, sizeof *c.line_fail)};
+    hf_analysis_envelope_sink sink = {{&c, NULL, balance_row, balance_plan, NULL}, balance_level};
+    hf_error ee;
+    hf_error_clear(&ee);
+    st = hf_analysis_envelope_run(e, m, nwhich ? which : NULL, nwhich, &sink, &ee);
     hf_free(which);
-    if (st != HF_OK)
-        return hf_error_set(err, e.status, "balance study %s: %.900s", s->name, e.text);
+    if (st != HF_OK) {
+        hf_free(c.line_failed);
+        hf_free(c.line_fail);
+        hf_analysis_envelope_free(e);
+        return hf_error_set(err, ee.status, "balance study %s: %.900s", s->name, ee.text);
+    }
+    if (!c.line_failed || !c.line_fail) {
+        hf_free(c.line_failed);
+        hf_free(c.line_fail);
+        hf_analysis_envelope_free(e);
+        return hf_error_set(err, HF_ENOMEM, "balance study %s: out of memory", s->name);
+    }
+    report_envelope(rep, m, e, &c);
+    hf_free(c.line_failed);
+    hf_free(c.line_fail);
+    hf_results_envelope_scope(m, e, scope, sizeof scope);
     oc->nonfinite += c.nonfinite;
-    oc->criterion_failed = n.failed > 0;
+    oc->criterion_failed = e->count.failed > 0 || e->overloaded > 0;
+    char over[2 * HF_MODEL_MAX_NAME + 160] = "";
+    if (e->overloaded) {
+        char ow[2 * HF_MODEL_MAX_NAME + 64];
+        hf_results_where(m, &e->overload_at, ow, sizeof ow);
+        snprintf(over, sizeof over, "; OVERLOADED: line %s at utilisation %.3f (%s)",
+                 hf_results_line_name(m, e->overload_line), e->overload_utilisation, ow);
+    }
     snprintf(oc->note, sizeof oc->note,
-             "%zu load cases; %zu conditions failed a criterion (%zu without equilibrium)", n.loads,
-             n.failed, n.noresult);
+             "%s; %zu conditions failed a criterion (%zu without equilibrium)%s", scope,
+             e->count.failed, e->count.noresult, over);
+    hf_analysis_envelope_free(e);
     return HF_OK;
 }
 
@@ -589,19 +857,103 @@ static hf_status run_invert(const hf_model *m, const hf_study *s, int jobs, FILE
     return hf_invert_write_csv(out, m, s->vary[0].path, &o, s->target_value, &res, err);
 }
 
+/* A design study (issue 14): report_design.c does the work. */
+static hf_status run_design(const hf_model *m, const hf_study *s, int jobs, FILE *out,
+                            hf_report *rep, hf_studyrun_outcome *oc, hf_error *err)
+{
+    hf_report_design_count n;
+    hf_status st = hf_report_design_study(m, s, out, rep, &n, err);
+    if (st != HF_OK)
+        return st;
+    oc->nonfinite += n.nonfinite;
+    oc->criterion_failed = n.failed + n.noresult > 0;
+    snprintf(oc->note, sizeof oc->note,
+             "%zu conditions; %zu failed a criterion, %zu without a result", n.conditions, n.failed,
+             n.noresult);
+    return HF_OK;
+}
+
+/* ---- the default studies of a case without a studies: section ---- */
+
+/* The 1-2-5 round number at or above x > 0 (1, 2, 5, 10, 20, ...). */
+static double round_up_125(double x)
+{
+    double p = pow(10.0, floor(log10(x)));
+    static const double f[] = {1.0, 2.0, 5.0, 10.0};
+    for (int i = 0; i < 4; i++)
+        if (f[i] * p >= x * (1.0 - 1e-12))
+            return f[i] * p;
+    return 10.0 * p;
+}
+
+double hf_studyrun_default_range(const hf_model *m)
+{
+    double r = 1.5 * m->criteria.max_offset;
+    if (!(r > 0)) {
+        hf_pose pose;
+        hf_spread_pose_rest(m, &pose);
+        double dmin = INFINITY;
+        for (size_t i = 0; i < m->nlines; i++) {
+            hf_spread_geom g;
+            if (hf_spread_line_geometry(m, i, &pose, &g, NULL) == HF_OK && g.x < dmin)
+                dmin = g.x;
+        }
+        r = isfinite(dmin) ? 0.1 * dmin : 1.0;
+    }
+    return round_up_125(r < 1.0 ? 1.0 : r);
+}
+
+/* Appends a study of kind k named `name` to sl (capacity 5). */
+static hf_study *add_default(hf_study_list *sl, const char *name, hf_study_kind k)
+{
+    hf_study *s = &sl->v[sl->n];
+    memset(s, 0, sizeof *s);
+    s->kind = k;
+    if (!(s->name = hf_strdup(name)))
+        return NULL;
+    sl->n++;
+    return s;
+}
+
+hf_status hf_studyrun_defaults(const hf_model *m, hf_study_list *sl, hf_error *err)
+{
+    hf_study_list_free(sl);
+    if (!m || m->nlines == 0)
+        return hf_error_set(err, HF_EINVAL, "default studies: the case has no lines");
+    if (!(sl->v = hf_calloc(5, sizeof *sl->v)))
+        return hf_error_set(err, HF_ENOMEM, "out of memory for the default studies");
+    double r = hf_studyrun_default_range(m), h = m->hull.heading;
+    hf_study *s[5] = {add_default(sl, "rest", HF_STUDY_LINES),
+                      add_default(sl, "stiffness", HF_STUDY_STIFFNESS),
+                      add_default(sl, "surge-curve", HF_STUDY_CURVE),
+                      add_default(sl, "sway-curve", HF_STUDY_CURVE),
+                      m->nloads ? add_default(sl, "balance", HF_STUDY_BALANCE) : NULL};
+    if (sl->n != (m->nloads ? 5u : 4u)) { /* a name could not be copied */
+        hf_study_list_free(sl);
+        return hf_error_set(err, HF_ENOMEM, "out of memory for the default studies");
+    }
+    for (int i = 2; i < 4; i++) {
+        s[i]->direction = h + (i == 3 ? M_PI / 2 : 0.0);
+        s[i]->from = -r;
+        s[i]->to = r;
+        s[i]->step = r / 20.0;
+    }
+    return HF_OK;
+}
+
 /* The study of each kind, indexed by hf_study_kind (the order of hf_study_kind_name). */
 typedef hf_status (*study_fn)(const hf_model *m, const hf_study *s, int jobs, FILE *out,
                               hf_report *rep, hf_studyrun_outcome *oc, hf_error *err);
-static const study_fn run_kind[] = {run_lines,   run_curve, run_stiffness,
-                                    run_balance, run_sweep, run_invert};
-_Static_assert(sizeof run_kind / sizeof run_kind[0] == HF_STUDY_INVERT + 1,
+static const study_fn run_kind[] = {run_lines, run_curve,  run_stiffness, run_balance,
+                                    run_sweep, run_invert, run_design};
+_Static_assert(sizeof run_kind / sizeof run_kind[0] == HF_STUDY_DESIGN + 1,
                "one study function per hf_study_kind");
 
 hf_status hf_studyrun_exec(const hf_model *m, const hf_study *s, int jobs, FILE *out,
                            hf_report *rep, hf_studyrun_outcome *oc, hf_error *err)
 {
     memset(oc, 0, sizeof *oc);
-    if ((unsigned)s->kind > HF_STUDY_INVERT)
+    if ((unsigned)s->kind > HF_STUDY_DESIGN)
         return hf_error_set(err, HF_EINVAL, "study %s: unknown kind", s->name);
     return run_kind[s->kind](m, s, jobs, out, rep, oc, err);
 }

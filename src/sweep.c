@@ -32,30 +32,46 @@ const char *hf_sweep_status_word(hf_status s)
 
 /* ---- evaluation ---- */
 
-/* One CSV column of outputs: the catalogue's column and, for an offset,
- * the slot of its load among the distinct loads solved per case. */
+/* One CSV column of outputs: the catalogue's column and, for an output
+ * under a load (offset_<load>, NAME@LOAD), the slot of its load among the
+ * distinct loads solved per case. */
 typedef struct {
     hf_output_column c;
     size_t slot;
 } column;
+
+/* The intact mean equilibrium of one case under one load (one slot): what
+ * the outputs under a load read, copied from the balance result. */
+typedef struct {
+    hf_status status;
+    double offset[3];        /* surge, sway (m), yaw (rad) from the rest pose */
+    double horizontal;       /* m */
+    double max_tension;      /* N, largest along any line */
+    double max_utilisation;  /* - */
+    size_t max_tension_line; /* NONE when no line carries load */
+    size_t max_utilisation_line;
+    double *tension;     /* nlines: largest along each line, N */
+    double *utilisation; /* nlines: T/MBL of the most loaded section, - */
+} equilibrium;
 
 typedef struct {
     const hf_sweep *plan;
     hf_model model; /* this thread's copy */
     hf_param param[HF_STUDY_MAX_VARY];
     hf_spread *ws;
-    hf_balance *bal; /* NULL unless an offset output is asked for */
+    hf_balance *bal; /* NULL unless an output under a load is asked for */
     hf_spread_result res;
     double K[6][6];
-    hf_status solved;        /* spread status of the current case */
-    hf_status *bal_status;   /* per distinct load */
-    double (*bal_offset)[3]; /* per distinct load: surge, sway (m), yaw (rad) */
-    double *vals;            /* ncols: the current row's outputs, column units */
-    uint64_t failed;         /* emitted cases whose status was not ok */
-    uint64_t over_n;         /* emitted cases with an overloaded line */
-    uint64_t over_k;         /* the first of them (valid when over_n) */
-    double over_util;        /* its max utilisation, - */
-    size_t over_line;        /* its most utilised line */
+    hf_status solved;  /* spread status of the current case */
+    equilibrium *eq;   /* per distinct load */
+    double *eq_values; /* 2 x nbal x nlines: the eq[].tension and utilisation arrays */
+    double *vals;      /* ncols: the current row's outputs, column units */
+    uint64_t failed;   /* emitted cases whose status was not ok */
+    uint64_t over_n;   /* emitted cases with an overloaded line */
+    uint64_t over_k;   /* the first of them (valid when over_n) */
+    double over_util;  /* its largest utilisation, - */
+    size_t over_line;  /* its most utilised line */
+    size_t over_slot;  /* the load slot where it is largest, NONE at rest */
     hf_error err;
 } thread_state;
 
@@ -68,7 +84,7 @@ struct hf_sweep {
     column *cols;
     char **qname; /* CSV-quoted line names */
     int need_k;
-    size_t nbal; /* distinct loads of offset outputs */
+    size_t nbal; /* distinct loads of the outputs under a load */
     size_t *bal_load;
     int jobs;
     thread_state **th;
@@ -83,8 +99,8 @@ static void thread_free(thread_state *t)
     hf_balance_free(t->bal);
     hf_spread_free(t->ws);
     hf_model_free(&t->model);
-    hf_free(t->bal_status);
-    hf_free(t->bal_offset);
+    hf_free(t->eq);
+    hf_free(t->eq_values);
     hf_free(t->vals);
     hf_free(t);
 }
@@ -114,13 +130,18 @@ static thread_state *thread_alloc(const hf_sweep *s, hf_error *err)
         goto fail;
     }
     if (s->nbal) {
+        size_t nl = t->model.nlines;
         t->bal = hf_balance_alloc(&t->model, err);
-        t->bal_status = hf_calloc(s->nbal, sizeof *t->bal_status);
-        t->bal_offset = hf_calloc(s->nbal, sizeof *t->bal_offset);
-        if (!t->bal || !t->bal_status || !t->bal_offset) {
+        t->eq = hf_calloc(s->nbal, sizeof *t->eq);
+        t->eq_values = hf_calloc(2 * s->nbal * nl, sizeof *t->eq_values);
+        if (!t->bal || !t->eq || !t->eq_values) {
             if (t->bal)
                 hf_error_set(err, HF_ENOMEM, "out of memory for a sweep thread");
             goto fail;
+        }
+        for (size_t b = 0; b < s->nbal; b++) {
+            t->eq[b].tension = t->eq_values + 2 * b * nl;
+            t->eq[b].utilisation = t->eq_values + (2 * b + 1) * nl;
         }
     }
     return t;
@@ -129,9 +150,36 @@ fail:
     return NULL;
 }
 
+/* Points e at balance result r (its arrays borrowed from r). */
+static void view_equilibrium(equilibrium *e, const hf_balance_result *r)
+{
+    e->status = r->status;
+    memcpy(e->offset, r->offset, sizeof r->offset);
+    e->horizontal = r->horizontal;
+    e->max_tension = r->max_tension;
+    e->max_utilisation = r->max_utilisation;
+    e->max_tension_line = r->max_tension_line;
+    e->max_utilisation_line = r->max_utilisation_line;
+    e->tension = r->tension;
+    e->utilisation = r->utilisation;
+}
+
+/* Copies what the outputs under a load read from balance result r into e
+ * (e's own arrays, r->nlines entries each). */
+static void keep_equilibrium(equilibrium *e, const hf_balance_result *r)
+{
+    double *t = e->tension, *u = e->utilisation;
+    view_equilibrium(e, r);
+    memcpy(t, r->tension, r->nlines * sizeof *t);
+    memcpy(u, r->utilisation, r->nlines * sizeof *u);
+    e->tension = t;
+    e->utilisation = u;
+}
+
 /* Solves case k on thread t: sets every varied parameter, solves the spread
  * at the rest pose (with the 6x6 stiffness when asked for) and, when that
- * succeeded, each load of the offset outputs.  Every case is solved in full
+ * succeeded, the intact equilibrium under each load of the outputs under a
+ * load.  Every case is solved in full
  * even when its row is not written (a chain rebuilt ahead of a shard), so the
  * warm starts of the next cases do not depend on where the shard began.
  * Returns the case status (first failure). */
@@ -171,9 +219,9 @@ static hf_status evaluate(thread_state *t, uint64_t k)
             bs = hf_balance_solve(t->bal, &t->model.loads[s->bal_load[b]], 0, &t->err);
             r = hf_balance_result_at(t->bal, 0);
         }
-        t->bal_status[b] = bs;
+        t->eq[b].status = bs;
         if (bs == HF_OK && r)
-            memcpy(t->bal_offset[b], r->offset, sizeof r->offset);
+            keep_equilibrium(&t->eq[b], r);
         else if (st == HF_OK)
             st = bs == HF_OK ? HF_EINVAL : bs;
     }
@@ -249,15 +297,43 @@ static void vary_values(const hf_sweep *s, uint64_t k, double *v)
             v[j] *= 180.0 / M_PI;
 }
 
+/* Value of an output under a load from equilibrium e, SI (a line-name
+ * column: the line's index, NAN when there is none). */
+static double equilibrium_value(const equilibrium *e, const hf_output_column *c, size_t nlines)
+{
+    size_t li = NONE;
+    switch (c->kind) {
+    case HF_OUT_OFFSET:
+        return e->offset[c->sub >= 0 && c->sub < 3 ? c->sub : 0];
+    case HF_OUT_OFFSET_AT:
+        return e->horizontal;
+    case HF_OUT_TENSION_AT:
+        return c->line < nlines ? e->tension[c->line] : NAN;
+    case HF_OUT_UTILISATION_AT:
+        return c->line < nlines ? e->utilisation[c->line] : NAN;
+    case HF_OUT_MAX_TENSION_AT:
+        li = e->max_tension_line;
+        return c->sub ? (li < nlines ? (double)li : NAN) : e->max_tension;
+    case HF_OUT_MAX_UTILISATION_AT:
+        li = e->max_utilisation_line;
+        return c->sub ? (li < nlines ? (double)li : NAN) : e->max_utilisation;
+    default:
+        return NAN;
+    }
+}
+
 /* The value of one output column of the solved case, in the column's unit;
  * NAN for an empty cell.  Line-name columns give the line's index. */
 static double column_value(const thread_state *t, const column *col)
 {
     const hf_output_column *c = &col->c;
-    if (c->kind == HF_OUT_OFFSET) {
-        if (t->bal_status[col->slot] != HF_OK)
+    const hf_output_info *in = hf_output_info_of(c->kind);
+    if (c->kind == HF_OUT_OFFSET || in->at_load) {
+        const equilibrium *e = &t->eq[col->slot];
+        if (e->status != HF_OK)
             return NAN;
-        return t->bal_offset[col->slot][c->sub] * hf_output_column_scale(c);
+        double v = equilibrium_value(e, c, t->model.nlines);
+        return hf_output_column_is_line(c) ? v : v * hf_output_column_scale(c);
     }
     if (hf_output_column_is_line(c)) {
         size_t li =
@@ -279,11 +355,30 @@ static void row_values(thread_state *t, hf_status st)
         t->vals[c] = st == HF_OK ? column_value(t, &s->cols[c]) : NAN;
 }
 
-/* 1 when case st solved in full and a line is overloaded at rest
- * (hf_criteria_overloaded, the alert column's rule). */
+/* The case's largest utilisation: at rest or at one of the equilibria
+ * under a load that were solved for its outputs (*slot: that load's slot,
+ * NONE at rest; *line: the line, NONE when none carries load). */
+static double worst_utilisation(const thread_state *t, size_t *slot, size_t *line)
+{
+    double u = t->res.max_utilisation;
+    *slot = NONE;
+    *line = t->res.max_utilisation_line;
+    for (size_t b = 0; b < t->plan->nbal; b++)
+        if (t->eq[b].status == HF_OK && t->eq[b].max_utilisation > u) {
+            u = t->eq[b].max_utilisation;
+            *slot = b;
+            *line = t->eq[b].max_utilisation_line;
+        }
+    return u;
+}
+
+/* 1 when case st solved in full and a line is overloaded at rest or at an
+ * equilibrium under a load of the outputs (hf_criteria_overloaded, the
+ * alert column's rule). */
 static int overloaded(const thread_state *t, hf_status st)
 {
-    return st == HF_OK && hf_criteria_overloaded(t->res.max_utilisation);
+    size_t slot, line;
+    return st == HF_OK && hf_criteria_overloaded(worst_utilisation(t, &slot, &line));
 }
 
 static int format_row(thread_state *t, uint64_t k, hf_status st, char *buf, size_t cap)
@@ -342,8 +437,7 @@ static int sweep_row(void *state, uint64_t k, int start, int emit, char *buf, si
         t->failed++;
     if (overloaded(t, st) && (!t->over_n++ || k < t->over_k)) {
         t->over_k = k;
-        t->over_util = t->res.max_utilisation;
-        t->over_line = t->res.max_utilisation_line;
+        t->over_util = worst_utilisation(t, &t->over_slot, &t->over_line);
     }
     int n = format_row(t, k, st, buf, cap);
     keep_row(t, k, st);
@@ -438,7 +532,7 @@ static hf_status plan_outputs(hf_sweep *s, const char *const *outputs, size_t no
             return st;
         if (out.kind >= HF_OUT_STIFFNESS_SURGE && out.kind <= HF_OUT_STIFFNESS_YAW)
             s->need_k = 1;
-        size_t slot = out.kind == HF_OUT_OFFSET ? balance_slot(s, out.load) : 0;
+        size_t slot = hf_output_needs_balance(&out) ? balance_slot(s, out.load) : 0;
         if (add_columns(s, &out, slot, &cap) != HF_OK)
             return hf_error_set(err, HF_ENOMEM, "out of memory planning the sweep outputs");
     }
@@ -511,8 +605,11 @@ hf_sweep *hf_sweep_alloc(const hf_model *m, const hf_vary *vary, size_t nvary, i
             longest = strlen(s->qname[i]);
     }
     /* Every field: a separator and at most HF_CSV_NUMBER_MAX - 1 characters,
-     * or a quoted line name; the status word; the newline and NUL. */
-    s->row_cap = (nvary + s->ncols + 1) * (HF_CSV_NUMBER_MAX + 1) + 2 * (longest + 1) + 48;
+     * or a quoted line name; the status word, the alert, the newline and NUL. */
+    size_t nnames = 0;
+    for (size_t c = 0; c < s->ncols; c++)
+        nnames += hf_output_column_is_line(&s->cols[c].c);
+    s->row_cap = (nvary + s->ncols + 1) * (HF_CSV_NUMBER_MAX + 1) + nnames * (longest + 1) + 48;
     s->jobs = jobs;
     s->th = hf_calloc((size_t)jobs, sizeof *s->th);
     if (!s->th) {
@@ -788,13 +885,18 @@ hf_status hf_sweep_output_eval(const hf_model *m, hf_spread *ws, hf_balance *bal
                             hf_output_name(o->kind));
     hf_pose pose;
     hf_spread_pose_rest(m, &pose);
-    if (o->kind == HF_OUT_OFFSET) {
+    if (hf_output_needs_balance(o)) {
         if (!bal)
-            return hf_error_set(err, HF_EINVAL, "offset output without a balance workspace");
+            return hf_error_set(err, HF_EINVAL, "output under a load without a balance workspace");
         hf_status st = hf_balance_solve(bal, &m->loads[o->load], 0, err);
-        if (st == HF_OK)
-            *value = hf_balance_result_at(bal, 0)->offset[0];
-        return st;
+        const hf_balance_result *r = hf_balance_result_at(bal, 0);
+        if (st != HF_OK || !r)
+            return st != HF_OK ? st : hf_error_set(err, HF_EINVAL, "no balance result");
+        equilibrium e;
+        view_equilibrium(&e, r);
+        hf_output_column c = {o->kind, o->line, o->load, 0}; /* offset_<load>: the surge */
+        *value = equilibrium_value(&e, &c, m->nlines);
+        return HF_OK;
     }
     thread_state t;
     memset(&t, 0, sizeof t);
@@ -927,8 +1029,11 @@ int hf_sweep_overload_text(const hf_sweep *s, char *buf, size_t cap)
         return 0;
     double v[HF_STUDY_MAX_VARY];
     vary_values(s, w->over_k, v);
-    int n = snprintf(buf, cap, "line %s is overloaded: utilisation %.1f at case",
-                     hf_results_line_name(s->base, w->over_line), w->over_util);
+    int n = snprintf(buf, cap, "line %s is overloaded: utilisation %.1f%s%s%s at case",
+                     hf_results_line_name(s->base, w->over_line), w->over_util,
+                     w->over_slot == NONE ? "" : " at the intact equilibrium under load ",
+                     w->over_slot == NONE ? "" : s->base->loads[s->bal_load[w->over_slot]].name,
+                     w->over_slot == NONE ? "" : ",");
     for (size_t j = 0; j < s->grid.nvary && n >= 0 && (size_t)n < cap; j++) {
         char u[32];
         hf_output_unit_for_column(s->dim[j], u, sizeof u);

@@ -280,14 +280,124 @@ static void test_pose(void **state)
     hf_model_free(&m);
 }
 
+/* Brute force for the envelope test: every tension of every intact line, kept
+ * per line as the largest with its load and condition. */
+typedef struct {
+    const hf_model *m;
+    double t[64];
+    size_t load[64], cond[64];
+    size_t rows;
+} brute;
+
+static hf_status brute_row(void *ctx, const hf_load *l, const hf_balance_result *r, hf_error *err)
+{
+    brute *b = ctx;
+    (void)err;
+    b->rows++;
+    for (size_t i = 0; i < r->nlines && i < 64; i++)
+        if (r->status == HF_OK && r->broken != i && r->tension[i] > b->t[i]) {
+            b->t[i] = r->tension[i];
+            b->load[i] = (size_t)(l - b->m->loads);
+            b->cond[i] = r->broken == HF_BALANCE_NONE ? 0 : r->broken + 1;
+        }
+    return HF_OK;
+}
+
+static hf_status level_seen(void *ctx, size_t k, double level, const hf_model *at, hf_error *err)
+{
+    size_t *seen = ctx;
+    (void)err;
+    /* the model handed over is at that level */
+    if (at->site.water_level == level && *seen == k)
+        (*seen)++;
+    return HF_OK;
+}
+
+/* The envelope driver: its levels (the case's, or the one level), and per
+ * line the largest tension over the levels equals the largest of separate
+ * balance runs of copies of the case set to each level (the definition of
+ * the envelope). */
+static void test_envelope(void **state)
+{
+    (void)state;
+    hf_model m;
+    load(&m, "cases/marina.yaml");
+    double lv[HF_MODEL_MAX_LEVELS];
+    size_t n = hf_analysis_envelope_levels(&m, lv, HF_MODEL_MAX_LEVELS);
+    size_t saved = m.site.nwater_levels;
+    m.site.nwater_levels = 0;
+    assert_int_equal(hf_analysis_envelope_levels(&m, lv, 4), 1);
+    assert_true(lv[0] == m.site.water_level);
+    m.site.nwater_levels = saved;
+    if (saved) /* the demo's tide: 0 to 3.4 m every 0.1 m, both ends */
+        assert_int_equal(n, 35);
+    hf_error err;
+    assert_null(hf_analysis_envelope_alloc(&m, 0, &err));
+    assert_int_equal(err.status, HF_EINVAL);
+    hf_analysis_envelope_free(NULL);
+    static const double levels[3] = {0.0, 1.9, 3.4};
+    hf_analysis_envelope *e = hf_analysis_envelope_alloc(&m, 3, &err);
+    assert_non_null(e);
+    memcpy(e->level, levels, sizeof levels);
+    size_t seen = 0;
+    hf_analysis_envelope_sink sink = {{&seen, NULL, NULL, NULL, NULL}, level_seen};
+    assert_int_equal(hf_analysis_envelope_run(e, &m, NULL, 0, &sink, &err), HF_OK);
+    assert_int_equal(seen, 3);
+    size_t ncond = (m.nlines + 1) * m.nloads * 3;
+    assert_int_equal(e->count.conditions, ncond);
+    assert_int_equal(e->nloads, m.nloads);
+    for (size_t i = 0; i < m.nlines; i++) {
+        double best = 0.0;
+        hf_analysis_where at = {(size_t)-1, 0, 0.0};
+        for (size_t k = 0; k < 3; k++) {
+            hf_model c;
+            assert_int_equal(hf_model_copy(&c, &m), HF_OK);
+            hf_param p;
+            assert_int_equal(hf_model_param_lookup(&c, "site.water_level", &p, &err), HF_OK);
+            assert_int_equal(hf_model_param_set(&c, &p, levels[k], &err), HF_OK);
+            brute b;
+            memset(&b, 0, sizeof b);
+            b.m = &c;
+            hf_analysis_balance_sink bs = {&b, NULL, brute_row, NULL, NULL};
+            hf_analysis_balance_count cnt;
+            assert_int_equal(hf_analysis_balance_run(&c, NULL, 0, &bs, &cnt, &err), HF_OK);
+            if (b.t[i] > best) {
+                best = b.t[i];
+                at.load = b.load[i];
+                at.cond = b.cond[i];
+                at.level = levels[k];
+            }
+            hf_model_free(&c);
+        }
+        const hf_analysis_envelope_line *el = &e->line[i];
+        if (el->tension != best || el->at.load != at.load || el->at.cond != at.cond ||
+            el->at.level != at.level)
+            fail_msg("line %zu: envelope %.9g N at (%zu, %zu, %g m), separate runs %.9g N at "
+                     "(%zu, %zu, %g m)",
+                     i, el->tension, el->at.load, el->at.cond, el->at.level, best, at.load, at.cond,
+                     at.level);
+        assert_true(el->utilisation > 0.0 && el->min_factor > 0.0);
+        near(el->min_factor, 1.0 / el->utilisation, 1e-12); /* one-section lines */
+    }
+    /* the marina's worst chain is at the top of the tide (issue 13: 63.1 kN at
+     * +3.4 m, found there by editing five copies of the case) */
+    assert_true(e->line[0].at.level == 3.4);
+    near(e->line[0].tension / 1e3, 63.1, 1e-3 / 63.1 * 50);
+    assert_int_equal(e->overloaded, 0);
+    assert_int_equal(e->first_failed.load, (size_t)-1);
+    /* a level below the seabed is refused (HF_EINVAL), not solved */
+    e->level[1] = -m.site.depth - 0.25;
+    assert_int_equal(hf_analysis_envelope_run(e, &m, NULL, 0, NULL, &err), HF_EINVAL);
+    hf_analysis_envelope_free(e);
+    hf_model_free(&m);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
-        cmocka_unit_test(test_curve_physics),
-        cmocka_unit_test(test_curve_failed_points),
-        cmocka_unit_test(test_allowed_tension),
-        cmocka_unit_test(test_balance_run),
-        cmocka_unit_test(test_pose),
+        cmocka_unit_test(test_curve_physics),   cmocka_unit_test(test_curve_failed_points),
+        cmocka_unit_test(test_allowed_tension), cmocka_unit_test(test_balance_run),
+        cmocka_unit_test(test_envelope),        cmocka_unit_test(test_pose),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
 }

@@ -126,7 +126,7 @@ static void test_pass_csv(void **state)
     assert_int_equal(HF_TEST_RUN(&quiet, "balance", pass_case, "--csv", "-"), 0);
     char *cur = out, *line = hf_test_line_next(&cur);
     assert_non_null(line);
-    const char *head = "load,condition,status,surge_m,sway_m,yaw_deg,max_tension_kN,"
+    const char *head = "load,condition,water_level_m,status,surge_m,sway_m,yaw_deg,max_tension_kN,"
                        "max_tension_line,max_utilisation,criterion,passed,Tmax_ne_kN,Tmax_nw_kN,"
                        "Tmax_sw_kN,Tmax_se_kN,";
     assert_memory_equal(line, head, strlen(head));
@@ -137,21 +137,22 @@ static void test_pass_csv(void **state)
         for (int c = 0; c < 5; c++) {
             line = hf_test_line_next(&cur);
             assert_non_null(line);
-            char *f[32];
-            assert_true(hf_test_csv_split(line, f, 32) >= 15);
+            char *f[64];
+            assert_true(hf_test_csv_split(line, f, 64) >= 15);
             assert_string_equal(f[0], k == 0 ? "breeze" : "ebb");
             assert_string_equal(f[1], cond[c]);
-            assert_string_equal(f[2], "ok");
-            assert_string_equal(f[10], "1");
+            assert_string_equal(f[2], "0"); /* site.water_level, the default 0 */
+            assert_string_equal(f[3], "ok");
+            assert_string_equal(f[11], "1");
             if (c > 0) /* the broken line carries nothing */
-                assert_float_equal(strtod(f[10 + c], NULL), 0.0, 0.0);
+                assert_float_equal(strtod(f[11 + c], NULL), 0.0, 0.0);
             if (k == 0 && c == 0) {
                 /* wind toward +y on a hull symmetric about y: sway only */
-                assert_true(strtod(f[4], NULL) > 0.0);
-                assert_float_equal(strtod(f[3], NULL), 0.0, 1e-6);
-                assert_float_equal(strtod(f[5], NULL), 0.0, 1e-6);
+                assert_true(strtod(f[5], NULL) > 0.0);
+                assert_float_equal(strtod(f[4], NULL), 0.0, 1e-6);
+                assert_float_equal(strtod(f[6], NULL), 0.0, 1e-6);
                 /* >= 8 significant digits in the CSV */
-                assert_true(strlen(f[6]) >= 9);
+                assert_true(strlen(f[7]) >= 9);
             }
         }
     assert_null(hf_test_line_next(&cur));
@@ -192,20 +193,20 @@ static void test_criterion_fails(void **state)
     char *cur = out, *line = hf_test_line_next(&cur);
     line = hf_test_line_next(&cur);
     assert_non_null(line);
-    char *f[32];
-    assert_true(hf_test_csv_split(line, f, 32) >= 15);
+    char *f[64];
+    assert_true(hf_test_csv_split(line, f, 64) >= 15);
     assert_string_equal(f[1], "intact");
-    assert_true(!strcmp(f[9], "line_factor:nw") || !strcmp(f[9], "line_factor:sw"));
-    assert_string_equal(f[10], "0");
-    double t = strtod(f[6], NULL);
+    assert_true(!strcmp(f[10], "line_factor:nw") || !strcmp(f[10], "line_factor:sw"));
+    assert_string_equal(f[11], "0");
+    double t = strtod(f[7], NULL);
     assert_true(t >= 467.0 && 1380.0 / t < 3.0);
     /* the tight offset limit always fails, intact included */
     assert_int_equal(HF_TEST_RUN(&both, "balance", tight_case), 1);
     assert_non_null(strstr(out, "offset limit"));
-    assert_non_null(strstr(out, "verdict: FAIL (governing: offset)"));
+    assert_non_null(strstr(out, "verdict: FAIL (governing: offset; offset "));
     assert_non_null(strstr(out, "CAUTION"));
     assert_int_equal(HF_TEST_RUN(&quiet, "balance", tight_case, "--csv", "-"), 1);
-    assert_non_null(strstr(out, "ebb,intact,ok,"));
+    assert_non_null(strstr(out, "ebb,intact,0,ok,"));
     assert_non_null(strstr(out, ",offset,0,"));
 }
 
@@ -217,7 +218,7 @@ static void test_no_equilibrium_exit(void **state)
     assert_non_null(strstr(out, "no equilibrium"));
     assert_non_null(strstr(out, "CAUTION"));
     assert_int_equal(HF_TEST_RUN(&quiet, "balance", noeq_case, "--csv", "-"), 3);
-    assert_non_null(strstr(out, "absurd,intact,no equilibrium,,,,,,,equilibrium,0,"));
+    assert_non_null(strstr(out, "absurd,intact,0,no equilibrium,,,,,,,equilibrium,0,"));
 }
 
 /* The pontoon with a pile at ne and a gravity block at nw (invented). */
@@ -250,7 +251,7 @@ static void test_anchor_kinds_report(void **state)
     /* With ne broken the hull drifts away from it, loading nw, and the light block
      * there slides (factor below 1): exit 1, governed by that anchor. */
     assert_int_equal(HF_TEST_RUN(&both, "balance", path), 1);
-    assert_non_null(strstr(out, "verdict: FAIL (governing: anchor:nw)"));
+    assert_non_null(strstr(out, "verdict: FAIL (governing: anchor:nw; nw sliding 0."));
     /* intact block of nw: the report's factors agree with the statics
      * mu (W - V) / H and W / V (REFERENCE.md section 4) from its own H and V */
     char *p = strstr(out, "\n    nw                 gravity");
@@ -416,6 +417,280 @@ static void test_progress_on_terminal(void **state)
     assert_null(strstr(out, "conditions  "));
 }
 
+/* ---- issue 13: envelopes, overloads, anchors ---- */
+
+static char err_buf[OUT_CAP];
+static hf_test_io split_io = {.out = out, .out_cap = OUT_CAP, .err = err_buf, .err_cap = OUT_CAP};
+
+/* The pontoon case with `extra` after the site's depth line and `crit` as
+ * its criteria block, written to dir/name. */
+static void write_variant(char *path, size_t cap, const char *name, const char *extra,
+                          const char *loads, const char *crit)
+{
+    static char text[8192];
+    const char *lines = PONTOON_LINES;
+    const char *depth = strstr(lines, "  depth: 18.4 m\n");
+    assert_non_null(depth);
+    size_t head = (size_t)(depth - lines) + strlen("  depth: 18.4 m\n");
+    snprintf(text, sizeof text, "title: Fictional ferry pontoon Lathe Point, %s\n%.*s%s%s%s%s",
+             name, (int)head, lines, extra, lines + head, loads, crit);
+    snprintf(path, cap, "%s/%s.yaml", dir, name);
+    hf_test_file_write(path, text);
+}
+
+static const char env_loads[] = "loads:\n"
+                                "  - name: breeze\n"
+                                "    wind: {speed: 14.5 m/s, direction: 90 deg, coefficient: "
+                                "1.1, area: 96 m^2}\n"
+                                "  - name: ebb\n"
+                                "    force: 6.25 kN\n"
+                                "    direction: 200 deg\n";
+
+/* Issue 13 item 2, the issue's own reference: each row of an envelope run
+ * equals, byte for byte, the row of a separate `balance` of the case edited
+ * to that water level. */
+static void test_envelope_rows_equal_edited_cases(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    static const char *const level[3] = {"-0.6", "0.45", "1.85"};
+    char env[400];
+    write_variant(env, sizeof env, "envelope", "  water_levels: [-0.6 m, 0.45 m, 1.85 m]\n",
+                  env_loads, "criteria:\n  preset: ufc-4-159-03\n");
+    static char all[OUT_CAP];
+    assert_int_equal(HF_TEST_RUN(&quiet, "balance", env, "--csv", "-"), 0);
+    memcpy(all, out, sizeof all);
+    char *cur = all, *row = hf_test_line_next(&cur);
+    assert_non_null(row);
+    for (int k = 0; k < 3; k++) {
+        char extra[64], one[400], name[32];
+        snprintf(extra, sizeof extra, "  water_level: %s m\n", level[k]);
+        snprintf(name, sizeof name, "edited-%d", k);
+        write_variant(one, sizeof one, name, extra, env_loads,
+                      "criteria:\n  preset: ufc-4-159-03\n");
+        assert_int_equal(HF_TEST_RUN(&quiet, "balance", one, "--csv", "-"), 0);
+        char *c2 = out;
+        assert_non_null(hf_test_line_next(&c2)); /* same header */
+        for (int r = 0; r < 10; r++) {
+            char *a = hf_test_line_next(&cur), *b = hf_test_line_next(&c2);
+            assert_non_null(a);
+            assert_non_null(b);
+            if (strcmp(a, b) != 0)
+                fail_msg("level %s m, row %d:\n envelope %s\n edited   %s", level[k], r, a, b);
+            char lv[32];
+            snprintf(lv, sizeof lv, ",%s,", level[k]);
+            assert_non_null(strstr(a, lv)); /* water_level_m */
+        }
+        assert_null(hf_test_line_next(&c2));
+    }
+    assert_null(hf_test_line_next(&cur));
+    /* the readable summary names the scope and the worst level per line */
+    assert_int_equal(HF_TEST_RUN(&both, "balance", env), 0);
+    assert_non_null(strstr(out, "verdict: PASS over 2 load cases x 3 water levels (-0.6 to 1.85 "
+                                "m) x 5 conditions (intact and each of 4 lines broken) = 30 "
+                                "conditions"));
+    assert_non_null(strstr(out, "=== still water level 0.45 m above the datum (2 of 3)"));
+    assert_non_null(strstr(out, "worst line tension over the envelope"));
+}
+
+/* [low, high] expands to every 0.1 m from low and high itself; the command
+ * line's --water-level replaces the case's levels (a range keeps TO). */
+static void test_envelope_levels(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    char env[400];
+    write_variant(env, sizeof env, "range", "  water_levels: [-0.6 m, 0.45 m]\n", env_loads, "");
+    assert_int_equal(HF_TEST_RUN(&quiet, "balance", env, "--csv", "-", "--load", "ebb"), 0);
+    static char ranged[OUT_CAP];
+    memcpy(ranged, out, sizeof ranged);
+    static const double want[] = {-0.6, -0.5, -0.4, -0.3, -0.2, -0.1,
+                                  0.0,  0.1,  0.2,  0.3,  0.4,  0.45};
+    char *cur = out, *line = hf_test_line_next(&cur);
+    for (size_t k = 0; k < 12; k++)
+        for (int c = 0; c < 5; c++) {
+            line = hf_test_line_next(&cur);
+            assert_non_null(line);
+            char *f[64];
+            hf_test_csv_split(line, f, 64);
+            if (fabs(strtod(f[2], NULL) - want[k]) > 1e-12)
+                fail_msg("row %zu: level %s, expected %g", k * 5 + (size_t)c, f[2], want[k]);
+        }
+    assert_null(hf_test_line_next(&cur));
+    /* a level of the expanded range (-0.6 + 9 x 0.1) is the level a case file's
+     * "0.3 m" gives: the rows agree byte for byte with the edited case */
+    const char *r03 = strstr(ranged, "ebb,intact,0.3,");
+    assert_non_null(r03);
+    char one[400];
+    write_variant(one, sizeof one, "edited-0.3", "  water_level: 0.3 m\n", env_loads, "");
+    assert_int_equal(HF_TEST_RUN(&quiet, "balance", one, "--csv", "-", "--load", "ebb"), 0);
+    const char *e03 = strstr(out, "ebb,intact,0.3,");
+    assert_non_null(e03);
+    size_t len = strcspn(e03, "\n");
+    assert_int_equal(strcspn(r03, "\n"), len);
+    assert_memory_equal(r03, e03, len);
+    assert_int_equal(HF_TEST_RUN(&quiet, "balance", env, "--csv", "-", "--load", "ebb",
+                                 "--water-level", "0.2:0.45:0.1"),
+                     0);
+    assert_non_null(strstr(out, "ebb,intact,0.45,ok"));
+    cur = out;
+    int rows = -1;
+    while ((line = hf_test_line_next(&cur)))
+        rows++;
+    assert_int_equal(rows, 4 * 5); /* 0.2, 0.3, 0.4 and TO = 0.45 */
+    assert_int_equal(HF_TEST_RUN(&quiet, "balance", env, "--csv", "-", "--load", "ebb",
+                                 "--water-level", "1.2 ft,0.35"),
+                     0);
+    assert_non_null(strstr(out, "ebb,intact,0.36576,ok")); /* 1.2 ft = 0.36576 m exactly */
+    assert_non_null(strstr(out, "ebb,intact,0.35,ok"));
+    assert_int_equal(HF_TEST_RUN(&both, "balance", env, "--water-level", "-30"), 2);
+    assert_non_null(strstr(out, "--water-level"));
+    assert_int_equal(HF_TEST_RUN(&both, "balance", env, "--water-level", "1:0:0.5"), 2);
+    assert_int_equal(HF_TEST_RUN(&both, "balance", env, "--water-level", "1,x"), 2);
+    assert_non_null(strstr(out, "--water-level"));
+}
+
+/* Bad envelope and anchor keys are refused at file:line:col. */
+static void test_envelope_and_anchor_keys_refused(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    static const struct {
+        const char *extra, *crit, *want;
+    } bad[] = {
+        {"  water_levels: []\n", "", "site.water_levels"},
+        {"  water_levels: [1 m, 0 m]\n", "", "low < high"},
+        {"  water_levels: [0 m, -19 m, 1 m]\n", "", "above the seabed"},
+        {"  water_levels: 2 m\n", "", "expected a list of water levels"},
+        {"", "criteria:\n  block_sliding_factor: 0.8\n", "criteria.block_sliding_factor"},
+        {"", "criteria:\n  anchor_line_friction: maybe\n", "include, ignore"},
+    };
+    for (size_t k = 0; k < sizeof bad / sizeof bad[0]; k++) {
+        char path[400], name[32];
+        snprintf(name, sizeof name, "bad-%zu", k);
+        write_variant(path, sizeof path, name, bad[k].extra, env_loads, bad[k].crit);
+        int rc = HF_TEST_RUN(&both, "balance", path);
+        if (rc != 2 || !strstr(out, bad[k].want) || !strstr(out, ".yaml:"))
+            fail_msg("case %zu: exit %d, expected 2 and \"%s\" at file:line:col; got:\n%s", k, rc,
+                     bad[k].want, out);
+    }
+}
+
+/* Issue 13 item 1: an equilibrium with a line beyond its MBL is flagged,
+ * never "PASS", even with no criteria at all; exit 1 with one line naming it. */
+static void test_overload_flagged(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    char path[400];
+    /* 3000 kN toward +x.  Statics as in test_criterion_fails: the two -x
+     * chains carry H >= 3000 / (2 x 0.806 x 1.01) = 1843 kN each, T >= H, far
+     * beyond their MBL of 1380 kN (utilisation > 1.33). */
+    write_variant(path, sizeof path, "overload", "",
+                  "loads:\n  - {name: hurricane, force: 3000 kN, direction: 0 deg}\n", "");
+    assert_int_equal(HF_TEST_RUN(&split_io, "balance", path), 1);
+    assert_non_null(strstr(out, "OVERLOADED: line "));
+    assert_null(strstr(out, "verdict: PASS"));
+    assert_non_null(strstr(out, "verdict: FAIL (governing: overload:"));
+    /* one line on stderr: line, utilisation, load, condition, level */
+    const char *msg = strstr(err_buf, "holdfast balance: line ");
+    assert_non_null(msg);
+    assert_non_null(strstr(msg, "is overloaded: utilisation "));
+    /* the worst overload of the run: with one -x chain broken the other takes it */
+    assert_non_null(strstr(msg, "under hurricane, broken:"));
+    assert_non_null(strstr(msg, ", 0 m; 5 conditions with an overloaded line"));
+    double u = strtod(strstr(msg, "utilisation ") + 12, NULL);
+    assert_true(u > 1.33);
+    assert_int_equal(HF_TEST_RUN(&quiet, "balance", path, "--csv", "-"), 1);
+    char *cur = out, *line = hf_test_line_next(&cur);
+    line = hf_test_line_next(&cur);
+    char *f[64];
+    size_t n = hf_test_csv_split(line, f, 64);
+    assert_string_equal(f[1], "intact");
+    assert_true(!strncmp(f[10], "overload:", 9));
+    assert_string_equal(f[11], "0");
+    assert_true(strtod(f[9], NULL) >= 1.33);
+    assert_string_equal(f[n - 1], "overloaded");
+}
+
+/* Issue 13 item 3: anchors in the CSV and the summary, factors set per case
+ * and per line, friction of the grounded line ignored on request. */
+static void test_anchor_outputs_and_options(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    char base[400], strict[400];
+    snprintf(base, sizeof base, "%s/anchors.yaml", dir);
+    hf_test_file_write(base, anchors_text);
+    assert_int_equal(HF_TEST_RUN(&quiet, "balance", base, "--csv", "-"), 1);
+    char *cur = out, *head = hf_test_line_next(&cur), *f[64];
+    char names[4096];
+    snprintf(names, sizeof names, "%s", head);
+    size_t nh = hf_test_csv_split(names, f, 64);
+    size_t js = 0, ju = 0, ja = 0, jl = 0;
+    for (size_t j = 0; j < nh; j++) {
+        js = strcmp(f[j], "sliding_nw") ? js : j;
+        ju = strcmp(f[j], "uplift_nw") ? ju : j;
+        ja = strcmp(f[j], "angle_ne_deg") ? ja : j;
+        jl = strcmp(f[j], "anchor_load_ne_kN") ? jl : j;
+    }
+    assert_true(js && ju && ja && jl);
+    char *row = hf_test_line_next(&cur); /* ebb, intact */
+    char *v[64];
+    hf_test_csv_split(row, v, 64);
+    double slide = strtod(v[js], NULL);
+    assert_true(slide > 1.0); /* intact: the block holds */
+    assert_true(strtod(v[jl], NULL) > 0.0);
+    /* the pile: load and angle reported */
+    double ang = strtod(v[ja], NULL);
+    assert_true(ang >= 0.0 && ang < 90.0);
+    /* the summary shows the failing sliding factor (below 1 with ne broken) */
+    assert_int_equal(HF_TEST_RUN(&both, "balance", base), 1);
+    const char *p = strstr(out, "anchors over the envelope");
+    assert_non_null(p);
+    p = strstr(p, "\n  nw ");
+    assert_non_null(p);
+    assert_non_null(strstr(p, "FAIL in "));
+    double smin = strtod(strstr(p, "sliding ") + 8, NULL);
+    assert_true(smin < 1.0 && smin > 0.0);
+    /* a required sliding factor of 1.5 on the case makes the intact block fail
+     * when its factor is below 1.5 (and never a pass where 1.0 failed) */
+    char text[8192];
+    snprintf(text, sizeof text,
+             "%scriteria:\n  block_sliding_factor: 1.5\n  "
+             "anchor_line_friction: ignore\n",
+             anchors_text);
+    snprintf(strict, sizeof strict, "%s/anchors-strict.yaml", dir);
+    hf_test_file_write(strict, text);
+    assert_int_equal(HF_TEST_RUN(&both, "balance", strict), 1);
+    assert_non_null(strstr(out, "gravity blocks: sliding factor >= 1.50"));
+    assert_non_null(strstr(out, "seabed friction of the grounded line ignored"));
+    assert_int_equal(HF_TEST_RUN(&quiet, "balance", strict, "--csv", "-"), 1);
+    cur = out;
+    hf_test_line_next(&cur);
+    row = hf_test_line_next(&cur);
+    hf_test_csv_split(row, v, 64);
+    double slide_nf = strtod(v[js], NULL);
+    /* without the line's friction (0.7 on a long grounded chain) the block
+     * sees more pull: 50.2 kN against 27.0 kN when this test was written */
+    assert_true(slide_nf < slide);
+    /* the CSV's factor is the statics of its own anchor load: the chain lies
+     * on the seabed at the block (angle 0, V = 0), so mu W / H with the
+     * block's W = 150 kN, mu = 0.45 (REFERENCE.md section 4) */
+    size_t jn = 0;
+    for (size_t j = 0; j < nh; j++)
+        jn = strcmp(f[j], "anchor_load_nw_kN") ? jn : j;
+    assert_true(jn > 0);
+    double hload = strtod(v[jn], NULL);
+    assert_float_equal(strtod(v[jn + 4], NULL), 0.0, 0.0); /* angle_nw_deg */
+    assert_float_equal(slide_nf, 0.45 * 150.0 / hload, 1e-8 * slide_nf);
+    assert_true(hload > 27.0);
+    /* 1.345 < 1.5: the intact condition fails on that anchor */
+    assert_true(slide_nf < 1.5);
+    assert_string_equal(v[10], "anchor:nw");
+    assert_string_equal(v[11], "0");
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -429,6 +704,11 @@ int main(void)
         cmocka_unit_test(test_stdout_write_errors),
         cmocka_unit_test(test_output_is_input_and_suggestion),
         cmocka_unit_test(test_progress_on_terminal),
+        cmocka_unit_test(test_envelope_rows_equal_edited_cases),
+        cmocka_unit_test(test_envelope_levels),
+        cmocka_unit_test(test_envelope_and_anchor_keys_refused),
+        cmocka_unit_test(test_overload_flagged),
+        cmocka_unit_test(test_anchor_outputs_and_options),
     };
     return cmocka_run_group_tests(tests, setup, teardown);
 }

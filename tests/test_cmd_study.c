@@ -452,6 +452,312 @@ static void test_cli_errors(void **s)
     free(t);
 }
 
+/* Column index of `name` among the n header fields f, or fails. */
+static size_t column_of(char **f, size_t n, const char *name)
+{
+    for (size_t i = 0; i < n; i++)
+        if (!strcmp(f[i], name))
+            return i;
+    fail_msg("no column %s", name);
+    return 0;
+}
+
+/* The quarrel case with its still water level set to `level` (m). */
+static char *quarrel_at_level(double level)
+{
+    static char text[4096];
+    const char *site = "site: {depth: 62 m}";
+    const char *at = strstr(hf_test_case_quarrel, site);
+    assert_non_null(at);
+    snprintf(text, sizeof text, "%.*ssite: {depth: 62 m, water_level: %.10g m}%s",
+             (int)(at - hf_test_case_quarrel), hf_test_case_quarrel, level, at + strlen(site));
+    return text;
+}
+
+/* Issue 13: outputs at equilibrium under a load.  Each row of a sweep over
+ * the still water level with max_tension@gale, utilisation@gale,
+ * tension@gale and offset@gale equals the intact row of a separate
+ * `holdfast balance` of the case file edited to that level (the reference
+ * the issue names: the same quantities reached through another command and
+ * another load of the case). */
+static void test_sweep_at_load_matches_balance(void **s)
+{
+    (void)s;
+    static const double level[] = {-2.385, -0.75, 0.0, 1.13, 2.6};
+    const size_t nlev = sizeof level / sizeof level[0];
+    const char *c = path_in("quarrel.yaml");
+    char *sw = path_in("at-load.csv");
+    assert_int_equal(
+        exit_code(run(sw, 0, 0, NULL, "sweep", c, "--vary",
+                      "site.water_level=-2.385,-0.75,0,1.13,2.6", "--output", "max_tension@gale",
+                      "--output", "utilisation@gale", "--output", "tension@gale:north", "--output",
+                      "offset@gale", "--output", "max_utilisation@gale", "--quiet", NULL)),
+        0);
+    char *text = hf_test_file_read(sw, NULL), *cur = text, *f[32], *g[64];
+    assert_non_null(text);
+    size_t nf = hf_test_csv_split(hf_test_line_next(&cur), f, 32);
+    assert_int_equal(nf, 12); /* level, status, 2 + 3 + 1 + 1 + 2 outputs, alert */
+    size_t c_mt = column_of(f, nf, "max_tension@gale_kN"),
+           c_ml = column_of(f, nf, "max_tension_line@gale"),
+           c_un = column_of(f, nf, "U_north@gale"), c_uw = column_of(f, nf, "U_southwest@gale"),
+           c_us = column_of(f, nf, "U_southeast@gale"),
+           c_tn = column_of(f, nf, "Tmax_north@gale_kN"), c_of = column_of(f, nf, "offset@gale_m"),
+           c_mu = column_of(f, nf, "max_utilisation@gale"),
+           c_wl = column_of(f, nf, "worst_line@gale");
+    assert_string_equal(f[nf - 1], "alert");
+    for (size_t k = 0; k < nlev; k++) {
+        char *row = hf_test_line_next(&cur);
+        assert_non_null(row);
+        assert_int_equal(hf_test_csv_split(row, f, 32), nf);
+        HF_TEST_ASSERT_NEAR(strtod(f[0], NULL), level[k], 1e-12);
+        assert_string_equal(f[1], "ok");
+        assert_string_equal(f[nf - 1], "");
+        /* the case edited to this level, balanced on its own */
+        char name[32], csv[32];
+        snprintf(name, sizeof name, "level-%zu.yaml", k);
+        snprintf(csv, sizeof csv, "level-%zu.csv", k);
+        char *cp = path_in(name), *bp = path_in(csv);
+        write_file(cp, quarrel_at_level(level[k]), NULL);
+        /* exit 3: a broken-line condition of this case finds no equilibrium;
+         * the intact row, compared here, is solved */
+        int brc = exit_code(run(NULL, 0, 0, NULL, "balance", cp, "--csv", bp, NULL));
+        assert_true(brc == 0 || brc == 3);
+        char *bt = hf_test_file_read(bp, NULL), *bc = bt;
+        assert_non_null(bt);
+        size_t ng = hf_test_csv_split(hf_test_line_next(&bc), g, 64);
+        size_t b_mt = column_of(g, ng, "max_tension_kN"),
+               b_ml = column_of(g, ng, "max_tension_line"),
+               b_tn = column_of(g, ng, "Tmax_north_kN"),
+               b_ts = column_of(g, ng, "Tmax_southeast_kN"), b_h = column_of(g, ng, "horizontal_m"),
+               b_mu = column_of(g, ng, "max_utilisation"),
+               b_wl = column_of(g, ng, "max_utilisation_line"),
+               b_cond = column_of(g, ng, "condition"), b_st = column_of(g, ng, "status");
+        char *brow = hf_test_line_next(&bc);
+        assert_non_null(brow);
+        assert_true(hf_test_csv_split(brow, g, 64) >= ng);
+        assert_string_equal(g[b_cond], "intact");
+        assert_string_equal(g[b_st], "ok");
+        double tol = 1e-6; /* relative: two solves to the balance tolerance (1e-8) */
+        double mt = strtod(g[b_mt], NULL), mu = strtod(g[b_mu], NULL);
+        HF_TEST_ASSERT_NEAR(strtod(f[c_mt], NULL), mt, tol * mt);
+        assert_string_equal(f[c_ml], g[b_ml]);
+        HF_TEST_ASSERT_NEAR(strtod(f[c_tn], NULL), strtod(g[b_tn], NULL), tol * mt);
+        HF_TEST_ASSERT_NEAR(strtod(f[c_of], NULL), strtod(g[b_h], NULL),
+                            tol * (1.0 + strtod(g[b_h], NULL)));
+        HF_TEST_ASSERT_NEAR(strtod(f[c_mu], NULL), mu, tol * mu);
+        assert_string_equal(f[c_wl], g[b_wl]);
+        /* per-line utilisations: the worst line's is the balance's largest, the
+         * others do not exceed it (the sections differ, so U is not T/one MBL) */
+        size_t ui[3] = {c_un, c_uw, c_us};
+        static const char *const ln[3] = {"north", "southwest", "southeast"};
+        for (int i = 0; i < 3; i++) {
+            double u = strtod(f[ui[i]], NULL);
+            assert_true(u > 0.0 && u <= mu * (1 + tol));
+            if (!strcmp(ln[i], g[b_wl]))
+                HF_TEST_ASSERT_NEAR(u, mu, tol * mu);
+        }
+        (void)b_ts;
+        free(bt);
+    }
+    assert_null(hf_test_line_next(&cur));
+    free(text);
+}
+
+/* Issue 13: an equilibrium whose line reaches its MBL carries the alert and
+ * exits 1 naming the load; a load no equilibrium holds is a stated failure
+ * (status no_equilibrium), its outputs empty, never a number. */
+static void test_sweep_at_load_overload(void **s)
+{
+    (void)s;
+    const char *c = path_in("quarrel.yaml");
+    hf_test_io io = {0};
+    char out[8192], err[2048];
+    io.out = out;
+    io.out_cap = sizeof out;
+    io.err = err;
+    io.err_cap = sizeof err;
+    int rc = HF_TEST_RUN(&io, "sweep", c, "--vary", "loads[gale].force=400kN,9MN,1e12", "--output",
+                         "max_utilisation@gale", "--output", "fairlead_tension:north", "--quiet");
+    assert_int_equal(rc, 1);
+    char *cur = out, *f[16];
+    size_t nf = hf_test_csv_split(hf_test_line_next(&cur), f, 16);
+    assert_int_equal(nf, 6);
+    assert_int_equal(hf_test_csv_split(hf_test_line_next(&cur), f, 16), nf);
+    assert_string_equal(f[1], "ok");
+    assert_true(strtod(f[2], NULL) < 1.0);
+    assert_string_equal(f[5], "");
+    assert_int_equal(hf_test_csv_split(hf_test_line_next(&cur), f, 16), nf);
+    assert_string_equal(f[1], "ok");
+    assert_true(strtod(f[2], NULL) >= 1.0); /* 9 MN: beyond the 76 mm R3 chain's MBL (4884 kN) */
+    assert_string_equal(f[5], "overloaded");
+    assert_int_equal(hf_test_csv_split(hf_test_line_next(&cur), f, 16), nf);
+    assert_string_equal(f[1], "no_equilibrium");
+    for (size_t i = 2; i < nf; i++)
+        assert_string_equal(f[i], "");
+    assert_non_null(strstr(err, "overloaded"));
+    assert_non_null(strstr(err, "under load gale"));
+    assert_non_null(strstr(err, "loads[gale].force=9e+06 N"));
+}
+
+/* Lines of a text (its newlines). */
+static size_t nlines_of(const char *t)
+{
+    size_t n = 0;
+    for (; *t; t++)
+        n += *t == '\n';
+    return n;
+}
+
+/* Issue 13 item 5: a case without studies: gets the default report (every
+ * line at rest, the stiffness, curves along surge and sway, the balance of
+ * every load case) instead of "nothing to run". */
+static void test_run_default_report(void **s)
+{
+    (void)s;
+    char *out = path_in("defaults"), *c = path_in("quarrel.yaml");
+    char o[600];
+    snprintf(o, sizeof o, "%s", out);
+    /* exit 1: the quarrel buoy's load finds no equilibrium with line
+     * southwest broken (a criterion failure, not an error) */
+    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "run", c, "--out", o, "--quiet", NULL)), 1);
+    static const char *const want[] = {"rest.csv",       "stiffness.csv", "surge-curve.csv",
+                                       "sway-curve.csv", "balance.csv",   "report.html",
+                                       "summary.txt"};
+    char p[700];
+    for (size_t i = 0; i < sizeof want / sizeof want[0]; i++) {
+        snprintf(p, sizeof p, "%s/%s", o, want[i]);
+        size_t n = 0;
+        char *t = hf_test_file_read(p, &n);
+        if (!t)
+            fail_msg("the default run wrote no %s", want[i]);
+        assert_true(n > 0);
+        if (!strcmp(want[i], "rest.csv"))
+            assert_int_equal(nlines_of(t), 1 + 3); /* header + the 3 lines */
+        if (strstr(want[i], "curve.csv"))
+            assert_int_equal(nlines_of(t), 1 + 41); /* -R..R in 40 steps */
+        if (!strcmp(want[i], "balance.csv"))        /* 1 load case x (intact + 3 broken) */
+            assert_int_equal(nlines_of(t), 1 + 4);
+        if (!strcmp(want[i], "summary.txt")) {
+            assert_non_null(strstr(t, "surge-curve"));
+            assert_non_null(strstr(t, "sway-curve"));
+            assert_non_null(strstr(t, "criterion"));
+        }
+        if (!strcmp(want[i], "report.html")) {
+            hf_test_assert_xml(t);
+            assert_non_null(strstr(t, "this is the default report"));
+            assert_non_null(strstr(t, "1 of 1 load case"));
+            assert_non_null(strstr(t, "4 of 4 conditions"));
+        }
+        free(t);
+    }
+    /* the curve along surge starts at -R: 1.5 x no limit -> 10 % of the
+     * smallest anchor-fairlead distance (~416 m) = 41.6 m, rounded up to 50 m */
+    snprintf(p, sizeof p, "%s/surge-curve.csv", o);
+    char *t = hf_test_file_read(p, NULL), *cur = t;
+    assert_non_null(t);
+    hf_test_line_next(&cur);
+    HF_TEST_ASSERT_NEAR(strtod(cur, NULL), -50.0, 1e-12);
+    free(t);
+}
+
+/* The report's cell after `<td>name</td>` in the row of line `name` of the
+ * table captioned `caption`: cell k (0 = the one after the name), its text
+ * into buf (cap bytes). */
+static int report_cell(const char *html, const char *caption, const char *name, int k, char *buf,
+                       size_t cap)
+{
+    const char *t = strstr(html, caption);
+    char key[128];
+    snprintf(key, sizeof key, "<tr><td>%s</td>", name);
+    const char *r = t ? strstr(t, key) : NULL;
+    if (!r)
+        return 0;
+    r += strlen(key);
+    for (int i = 0; i <= k; i++) {
+        r = strstr(r, "<td");
+        if (!r)
+            return 0;
+        r = strchr(r, '>') + 1;
+        if (i == k) {
+            const char *e = strstr(r, "</td>");
+            snprintf(buf, cap, "%.*s", (int)(e - r), r);
+            return 1;
+        }
+    }
+    return 0;
+}
+
+/* Issue 13 item 5: the report's row per line over the water-level envelope
+ * (worst tension and where) equals the worst over separate `holdfast
+ * balance` runs of the case edited to each level (the reference the issue
+ * names). */
+static void test_run_envelope_table(void **s)
+{
+    (void)s;
+    static const double level[] = {-1.2, 0.9, 2.385};
+    const char *site = "site: {depth: 62 m}";
+    const char *at = strstr(hf_test_case_quarrel, site);
+    assert_non_null(at);
+    char text[4096];
+    snprintf(text, sizeof text,
+             "%.*ssite: {depth: 62 m, water_levels: [-1.2 m, 0.9 m, 2.385 m]}%s"
+             "studies:\n  - {name: storms, kind: balance}\n",
+             (int)(at - hf_test_case_quarrel), hf_test_case_quarrel, at + strlen(site));
+    char cp[600], out[600], rp[700];
+    snprintf(cp, sizeof cp, "%s", path_in("levels.yaml"));
+    snprintf(out, sizeof out, "%s", path_in("levels-run"));
+    write_file(cp, text, NULL);
+    /* exit 1: with southwest broken the buoy finds no equilibrium (a criterion failure) */
+    assert_int_equal(exit_code(run(NULL, 0, 0, NULL, "run", cp, "--out", out, "--quiet", NULL)), 1);
+    snprintf(rp, sizeof rp, "%s/report.html", out);
+    char *html = hf_test_file_read(rp, NULL);
+    assert_non_null(html);
+    assert_non_null(strstr(html, "3 of 3 still water levels (-1.2 to 2.385 m above datum)"));
+    static const char *const ln[3] = {"north", "southwest", "southeast"};
+    double worst[3] = {0, 0, 0};
+    char where[3][160];
+    for (size_t k = 0; k < 3; k++) {
+        char name[32], csv[32], *f[64];
+        snprintf(name, sizeof name, "edited-%zu.yaml", k);
+        snprintf(csv, sizeof csv, "edited-%zu.csv", k);
+        char *ep = path_in(name), *bp = path_in(csv);
+        write_file(ep, quarrel_at_level(level[k]), NULL);
+        int brc = exit_code(run(NULL, 0, 0, NULL, "balance", ep, "--csv", bp, NULL));
+        assert_true(brc == 0 || brc == 3);
+        char *bt = hf_test_file_read(bp, NULL), *cur = bt;
+        assert_non_null(bt);
+        size_t nf = hf_test_csv_split(hf_test_line_next(&cur), f, 64), col[3];
+        for (int i = 0; i < 3; i++) {
+            char cn[64];
+            snprintf(cn, sizeof cn, "Tmax_%s_kN", ln[i]);
+            col[i] = column_of(f, nf, cn);
+        }
+        char *row;
+        while ((row = hf_test_line_next(&cur)) != NULL && *row) {
+            hf_test_csv_split(row, f, 64);
+            for (int i = 0; i < 3; i++) {
+                double v = strtod(f[col[i]], NULL);
+                if (*f[col[i]] && v > worst[i]) {
+                    worst[i] = v;
+                    snprintf(where[i], sizeof where[i], "gale, %s, %.4g m", f[1], level[k]);
+                }
+            }
+        }
+        free(bt);
+    }
+    for (int i = 0; i < 3; i++) {
+        char cell[256];
+        assert_true(report_cell(html, "Worst of each line", ln[i], 0, cell, sizeof cell));
+        /* the report writes 4 significant digits */
+        HF_TEST_ASSERT_NEAR(strtod(cell, NULL), worst[i], 5e-4 * worst[i]);
+        assert_true(report_cell(html, "Worst of each line", ln[i], 2, cell, sizeof cell));
+        if (strcmp(cell, where[i]))
+            fail_msg("line %s: the report says the worst is at \"%s\", the balances at \"%s\"",
+                     ln[i], cell, where[i]);
+    }
+    free(html);
+}
+
 static void test_slurm_scripts(void **s)
 {
     (void)s;
@@ -683,6 +989,10 @@ int main(void)
         cmocka_unit_test(test_sweep_size_and_help),
         cmocka_unit_test(test_docs_slurm_example),
         cmocka_unit_test(test_progress_bar),
+        cmocka_unit_test(test_sweep_at_load_matches_balance),
+        cmocka_unit_test(test_sweep_at_load_overload),
+        cmocka_unit_test(test_run_default_report),
+        cmocka_unit_test(test_run_envelope_table),
     };
     return cmocka_run_group_tests(tests, setup, teardown);
 }

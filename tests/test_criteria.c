@@ -498,6 +498,134 @@ static void test_anchor_pile_plate_and_input(void **state)
     assert_int_equal(hf_criteria_anchor_evaluate(&k, 1.0, 0.0, 1, 1, &r, NULL), HF_EINVAL);
 }
 
+/* Issue 13 item 3: the statics of a block on a frictional seabed decide the
+ * verdict at the published thresholds: it slides when H > mu (W - V) and
+ * lifts when V > W (REFERENCE.md section 4; the friction values are those
+ * docs/criteria.md cites for a block on the seabed: sand 0.45-0.60, clay
+ * 0.30-0.35, NAVFAC DM-7.02, from memory).  The block is the marina demo's
+ * (submerged weight 140 kN, invented). */
+static void test_block_statics_thresholds(void **state)
+{
+    (void)state;
+    static const double mu[] = {0.45, 0.60, 0.30, 0.35};
+    const double w = 140e3, v = 17.35e3;
+    for (size_t k = 0; k < sizeof mu / sizeof mu[0]; k++) {
+        hf_anchor a = {.kind = HF_ANCHOR_GRAVITY, .weight = w, .friction = mu[k]};
+        hf_anchor_criterion r;
+        double hcrit = mu[k] * (w - v); /* friction resistance, N */
+        assert_int_equal(hf_criteria_anchor_evaluate(&a, hcrit * (1 - 1e-9), v, 1.0, 1.0, &r, NULL),
+                         HF_OK);
+        assert_true(r.passed && r.sliding_factor > 1.0);
+        assert_int_equal(hf_criteria_anchor_evaluate(&a, hcrit * (1 + 1e-9), v, 1.0, 1.0, &r, NULL),
+                         HF_OK);
+        if (r.passed || !(r.sliding_factor < 1.0))
+            fail_msg("mu %.2f: H just above mu (W - V) = %.6g N must slide", mu[k], hcrit);
+        /* a required factor of 1.5 moves the threshold to mu (W - V) / 1.5 */
+        assert_int_equal(
+            hf_criteria_anchor_evaluate(&a, hcrit / 1.5 * (1 + 1e-9), v, 1.5, 1.0, &r, NULL),
+            HF_OK);
+        assert_false(r.passed);
+        assert_int_equal(
+            hf_criteria_anchor_evaluate(&a, hcrit / 1.5 * (1 - 1e-9), v, 1.5, 1.0, &r, NULL),
+            HF_OK);
+        assert_true(r.passed);
+        assert_float_equal(r.sliding_factor, 1.5, 1e-8);
+    }
+    /* lifting: V just above W fails (and nothing holds it against sliding),
+     * V just below passes the uplift check with W / V just above 1 */
+    hf_anchor a = {.kind = HF_ANCHOR_GRAVITY, .weight = w, .friction = 0.5};
+    hf_anchor_criterion r;
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, 1e3, w * (1 + 1e-9), 1.0, 1.0, &r, NULL),
+                     HF_OK);
+    assert_false(r.passed);
+    assert_true(r.uplift_factor < 1.0);
+    assert_float_equal(r.sliding_factor, 0.0, 0.0);
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, 0.0, w * (1 - 1e-9), 1.0, 1.0, &r, NULL),
+                     HF_OK);
+    assert_true(r.passed);
+    /* required uplift 1.25: W / V = 140 / 115 = 1.217 < 1.25 fails */
+    assert_int_equal(hf_criteria_anchor_evaluate(&a, 0.0, 115e3, 1.0, 1.25, &r, NULL), HF_OK);
+    assert_false(r.passed);
+    assert_float_equal(r.uplift_factor, 140.0 / 115.0, 1e-12);
+}
+
+/* The required block factors: the line's own, else the case's, else 1.0. */
+static void test_block_required(void **state)
+{
+    (void)state;
+    hf_criteria c;
+    criteria_blank(&c, HF_ANALYSIS_QUASI_STATIC);
+    hf_anchor a = {.kind = HF_ANCHOR_GRAVITY, .weight = 90e3, .friction = 0.5};
+    double s, u;
+    hf_criteria_block_required(&c, &a, &s, &u);
+    assert_float_equal(s, HF_CRITERIA_GRAVITY_SLIDING, 0.0);
+    assert_float_equal(u, HF_CRITERIA_GRAVITY_UPLIFT, 0.0);
+    assert_float_equal(s, 1.0, 0.0); /* defaults unchanged (issue 13) */
+    c.block_sliding = 1.375;
+    c.block_uplift = 1.125;
+    hf_criteria_block_required(&c, &a, &s, NULL);
+    hf_criteria_block_required(&c, &a, NULL, &u);
+    assert_float_equal(s, 1.375, 0.0);
+    assert_float_equal(u, 1.125, 0.0);
+    a.required_sliding = 1.6;
+    hf_criteria_block_required(&c, &a, &s, &u);
+    assert_float_equal(s, 1.6, 0.0);
+    assert_float_equal(u, 1.125, 0.0);
+    a.required_uplift = 2.05;
+    hf_criteria_block_required(NULL, &a, &s, &u);
+    assert_float_equal(u, 2.05, 0.0);
+    /* hf_criteria_check holds the case's block factors to 0 or >= 1 */
+    assert_int_equal(hf_criteria_check(&c, NULL), HF_OK);
+    c.block_sliding = 0.8;
+    hf_error e;
+    assert_int_equal(hf_criteria_check(&c, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "block_sliding_factor"));
+    c.block_sliding = 0.0;
+    c.block_uplift = NAN;
+    assert_int_equal(hf_criteria_check(&c, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "block_uplift_factor"));
+}
+
+/* Anchor loads with and without the grounded line's friction, on a solved
+ * chain (the line solver): with friction the anchor sees
+ * max(H - mu w L_B, 0) (Coulomb friction on the grounded length L_B,
+ * Jonkman, NREL/TP-500-41958, 2007, as REFERENCE.md gives it); ignoring it,
+ * the horizontal tension H of the suspended part. */
+static void test_anchor_forces_friction(void **state)
+{
+    (void)state;
+    hf_line ln;
+    memset(&ln, 0, sizeof ln);
+    ln.n = 1;
+    /* 76 mm studless chain, invented round values near common practice */
+    ln.sec[0] = (hf_section){
+        .length = 412.5, .weight = 1.1375e3, .ea = 5.83e8, .mbl = 5.77e6, .friction = 1.0};
+    hf_line_state st;
+    assert_int_equal(hf_line_solve(&ln, 385.25, 58.4, NULL, NULL, &st), HF_OK);
+    assert_true(st.grounded > 1.0); /* part of it rests on the seabed */
+    double expect = fmax(st.h - 1.0 * 1.1375e3 * st.grounded, 0.0);
+    hf_criteria c;
+    criteria_blank(&c, HF_ANALYSIS_QUASI_STATIC);
+    double h, v;
+    hf_criteria_anchor_forces(&c, &st, &h, &v);
+    assert_float_equal(h, st.anchor_h, 0.0);
+    assert_float_equal(h, expect, 1e-6 * st.h);
+    assert_float_equal(v, 0.0, 0.0); /* grounded: no uplift at the anchor */
+    c.anchor_ignore_friction = 1;
+    hf_criteria_anchor_forces(&c, &st, &h, &v);
+    assert_float_equal(h, st.h, 0.0);
+    assert_true(h > st.anchor_h);
+    assert_float_equal(v, 0.0, 0.0);
+    /* the same line solved with no friction: anchor load = its H, close to the
+     * H above (the geometry differs only by the extra stretch of the grounded
+     * chain without friction, H L_B / EA ~ 0.1 m here: within 1 %) */
+    ln.sec[0].friction = 0.0;
+    hf_line_state nf;
+    assert_int_equal(hf_line_solve(&ln, 385.25, 58.4, NULL, NULL, &nf), HF_OK);
+    assert_float_equal(nf.anchor_h, nf.h, 1e-9 * nf.h);
+    assert_float_equal(nf.anchor_h, st.h, 1e-2 * st.h);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -518,6 +646,9 @@ int main(void)
         cmocka_unit_test(test_anchor_gravity_block),
         cmocka_unit_test(test_anchor_drag),
         cmocka_unit_test(test_anchor_pile_plate_and_input),
+        cmocka_unit_test(test_block_statics_thresholds),
+        cmocka_unit_test(test_block_required),
+        cmocka_unit_test(test_anchor_forces_friction),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
 }

@@ -47,8 +47,11 @@ static void test_catalogue_consistent(void **s)
         assert_non_null(in);
         assert_int_equal(in->kind, k);
         assert_true(strlen(in->meaning) > 10);
+        /* names are unique among the outputs at rest and among those under a
+         * load (NAME@LOAD): utilisation and utilisation@<load> may share one */
         for (int j = 0; j < k; j++)
-            assert_string_not_equal(in->name, hf_output_info_of((hf_output_kind)j)->name);
+            if (hf_output_info_of((hf_output_kind)j)->at_load == in->at_load)
+                assert_string_not_equal(in->name, hf_output_info_of((hf_output_kind)j)->name);
         if (in->dim == HF_DIM_NONE) {
             assert_true(in->scale == 1.0);
             assert_string_equal(in->unit_text, "-");
@@ -146,6 +149,75 @@ static void test_columns(void **s)
         assert_null(strchr(hf_output_unit_for_column((hf_dim)d, u, sizeof u), ' '));
 }
 
+/* Issue 13: outputs at the intact equilibrium under a load, NAME@LOAD. */
+static void test_at_load(void **s)
+{
+    (void)s;
+    hf_output o;
+    hf_error e;
+    hf_output_column c[8];
+    char name[256];
+    assert_int_equal(hf_output_parse(&model, "max_tension@gale", &o, &e), HF_OK);
+    assert_int_equal(o.kind, HF_OUT_MAX_TENSION_AT);
+    assert_int_equal(o.load, 0);
+    assert_true(hf_output_is_scalar(&o));
+    assert_true(hf_output_needs_balance(&o));
+    assert_int_equal(hf_output_dim(&o), HF_DIM_FORCE);
+    hf_output_text(&model, &o, name, sizeof name);
+    assert_string_equal(name, "max_tension@gale");
+    assert_int_equal(hf_output_columns(&model, &o, c, 8), 2);
+    hf_output_column_name(&model, &c[0], name, sizeof name);
+    assert_string_equal(name, "max_tension@gale_kN");
+    hf_output_column_name(&model, &c[1], name, sizeof name);
+    assert_string_equal(name, "max_tension_line@gale");
+    assert_true(hf_output_column_is_line(&c[1]));
+    assert_true(hf_output_column_scale(&c[0]) == 1e-3);
+    /* per line, all or one */
+    assert_int_equal(hf_output_parse(&model, "utilisation@gale", &o, &e), HF_OK);
+    assert_int_equal(o.kind, HF_OUT_UTILISATION_AT);
+    assert_false(hf_output_is_scalar(&o));
+    assert_int_equal(hf_output_columns(&model, &o, c, 8), 3);
+    hf_output_column_name(&model, &c[2], name, sizeof name);
+    assert_string_equal(name, "U_southeast@gale");
+    assert_int_equal(hf_output_parse(&model, "tension@gale:southwest", &o, &e), HF_OK);
+    assert_int_equal(o.line, 1);
+    assert_true(hf_output_is_scalar(&o));
+    hf_output_text(&model, &o, name, sizeof name);
+    assert_string_equal(name, "tension@gale:southwest");
+    assert_int_equal(hf_output_columns(&model, &o, c, 8), 1);
+    hf_output_column_name(&model, &c[0], name, sizeof name);
+    assert_string_equal(name, "Tmax_southwest@gale_kN");
+    assert_int_equal(hf_output_parse(&model, "max_utilisation@gale", &o, &e), HF_OK);
+    assert_int_equal(hf_output_columns(&model, &o, c, 8), 2);
+    hf_output_column_name(&model, &c[1], name, sizeof name);
+    assert_string_equal(name, "worst_line@gale");
+    assert_int_equal(hf_output_parse(&model, "offset@gale", &o, &e), HF_OK);
+    assert_int_equal(hf_output_dim(&o), HF_DIM_LENGTH);
+    assert_int_equal(hf_output_columns(&model, &o, c, 8), 1);
+    hf_output_column_name(&model, &c[0], name, sizeof name);
+    assert_string_equal(name, "offset@gale_m");
+    /* the outputs at rest need no balance */
+    assert_int_equal(hf_output_parse(&model, "max_tension", &o, &e), HF_OK);
+    assert_false(hf_output_needs_balance(&o));
+    assert_int_equal(hf_output_parse(&model, "offset_gale", &o, &e), HF_OK);
+    assert_true(hf_output_needs_balance(&o));
+    /* refusals, each with its reason */
+    assert_int_equal(hf_output_parse(&model, "max_tension@gael", &o, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "did you mean \"gale\"?"));
+    assert_int_equal(hf_output_parse(&model, "max_tension@", &o, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "a load name after '@'"));
+    assert_int_equal(hf_output_parse(&model, "max_tension@gale:north", &o, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "takes no :LINE"));
+    assert_int_equal(hf_output_parse(&model, "stiffness_surge@gale", &o, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "evaluated at rest"));
+    assert_int_equal(hf_output_parse(&model, "offset", &o, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "offset@<load>"));
+    assert_int_equal(hf_output_parse(&model, "max_tensoin@gale", &o, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "did you mean \"max_tension\"?"));
+    assert_int_equal(hf_output_parse(&model, "utilisation@gale:west", &o, &e), HF_EINVAL);
+    assert_non_null(strstr(e.text, "no line named \"west\""));
+}
+
 static void test_help_lists_every_output(void **s)
 {
     (void)s;
@@ -187,6 +259,7 @@ int main(void)
         cmocka_unit_test(test_catalogue_consistent),
         cmocka_unit_test(test_parse_and_hints),
         cmocka_unit_test(test_columns),
+        cmocka_unit_test(test_at_load),
         cmocka_unit_test(test_help_lists_every_output),
         cmocka_unit_test(test_hint_distance),
     };

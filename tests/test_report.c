@@ -171,7 +171,12 @@ static void test_report_complete_and_well_formed(void **state)
     /* the verdict in plain words */
     assert_int_equal(r.nchecks, 3);
     assert_int_equal(r.nfailed, 0);
-    assert_non_null(strstr(html, "All 3 criteria checks passed."));
+    /* checks that record no scope cover none of the case's load cases: the
+     * banner may not be green (issue 13 item 4) */
+    assert_non_null(strstr(html, "<div class=\"verdict partial\">All 3 criteria checks passed, "
+                                 "but they cover less than the case declares"));
+    assert_non_null(strstr(html, "1 load case not checked"));
+    assert_null(strstr(html, "verdict ok"));
     assert_int_equal(count(html, ">PASS<"), 3);
     assert_int_equal(count(html, ">FAIL<"), 0);
     /* self-contained: no script, no external resource, nothing fetched */
@@ -182,6 +187,203 @@ static void test_report_complete_and_well_formed(void **state)
     assert_null(strstr(html, "url("));
     assert_int_equal(count(html, "http"), count(html, "xmlns=\"http://www.w3.org/2000/svg\""));
     free(html);
+    hf_model_free(&m);
+}
+
+/* The banner states its scope (issue 13 item 4): green only when the checks
+ * cover every load case, still water level and condition the case declares;
+ * amber when they passed over less, naming what was left out. */
+static char *scoped_report(hf_model *m, size_t nconds, int fail)
+{
+    FILE *f = tmpfile();
+    assert_non_null(f);
+    hf_report r;
+    hf_report_begin(&r, f, m, "holdfast run ellery.yaml");
+    hf_report_section(&r, "Mean position under load", NULL);
+    for (size_t c = 0; c < nconds; c++) {
+        char item[64];
+        snprintf(item, sizeof item, "load gale, condition %zu", c);
+        hf_report_check(&r, item, "MBL/T at least 2", "4.2", !(fail && c == 1));
+        hf_report_scope_add(&r, 0, c, m->site.water_level);
+    }
+    hf_report_scope_add(&r, 7, 0, 0.0); /* out of range: ignored, scope marked incomplete */
+    assert_int_equal(r.scope_lost, 1);
+    r.scope_lost = 0; /* (undo, to test the counts alone) */
+    assert_int_equal(hf_report_end(&r, NULL), HF_OK);
+    assert_null(r.scope_load); /* freed by the end */
+    char *html = hf_test_stream_read(f, 1);
+    fclose(f);
+    hf_test_assert_xml(html);
+    return html;
+}
+
+static void test_report_verdict_scope(void **state)
+{
+    (void)state;
+    hf_model m;
+    load_case(&m);
+    double lv[4];
+    assert_int_equal(hf_report_levels_declared(&m, lv, 4), 1);
+    assert_true(lv[0] == m.site.water_level);
+    /* every condition of the one load case at the one level: green, with the scope */
+    char *html = scoped_report(&m, 4, 0);
+    assert_non_null(strstr(html, "<div class=\"verdict ok\">All 4 criteria checks passed, "
+                                 "covering everything the case declares."));
+    assert_non_null(strstr(html, "1 of 1 load case \xc3\x97 1 of 1 still water level (0 m above "
+                                 "datum) \xc3\x97 4 of 4 conditions (intact and each of the 3 "
+                                 "lines broken)"));
+    assert_non_null(strstr(html, "MBL/T at least 2 intact and 1.43 with one line broken "
+                                 "(api-rp-2sk)"));
+    assert_non_null(strstr(html, "no offset limit"));
+    free(html);
+    /* the intact condition only: amber, and what is missing is said */
+    html = scoped_report(&m, 1, 0);
+    assert_null(strstr(html, "verdict ok"));
+    assert_non_null(strstr(html, "<div class=\"verdict partial\">All 1 criteria check passed, "
+                                 "but they cover less"));
+    assert_non_null(strstr(html, "1 of 4 conditions"));
+    assert_non_null(strstr(html, "3 conditions (intact or a line broken) not checked"));
+    free(html);
+    /* a failure is red whatever the scope, and the scope is still stated */
+    html = scoped_report(&m, 4, 1);
+    assert_non_null(strstr(html, "<div class=\"verdict bad\">1 of 4 criteria checks FAILED."));
+    assert_non_null(strstr(html, "4 of 4 conditions"));
+    free(html);
+    /* a second load case the checks never reach: amber */
+    hf_load *nl = hf_realloc(m.loads, 2 * sizeof *nl);
+    assert_non_null(nl);
+    m.loads = nl;
+    m.loads[1] = m.loads[0];
+    m.loads[1].name = hf_strdup("swell");
+    m.loads[1].drag = NULL;
+    m.loads[1].ndrag = 0;
+    m.nloads = 2;
+    html = scoped_report(&m, 4, 0);
+    assert_non_null(strstr(html, "verdict partial"));
+    assert_non_null(strstr(html, "1 of 2 load cases"));
+    assert_non_null(strstr(html, "1 load case not checked"));
+    free(html);
+    hf_model_free(&m);
+}
+
+/* A fictional pontoon at the invented Gannet Cove: four corner chains of one
+ * make-up and geometry (each the others rotated about the vertical), and a
+ * tail of chain and spiral strand. */
+static const char cove_text[] =
+    "title: Gannet Cove pontoon (fictional)\n"
+    "site: {depth: 12.5 m}\n"
+    "components:\n"
+    "  chain-a: {type: studless_chain, grade: R3, diameter: 38 mm}\n"
+    "  wire-b: {type: spiral_strand, diameter: 40 mm}\n"
+    "lines:\n"
+    "  - {name: ne, anchor: [36.87, 31.87], fairlead: [10, 5, -0.5],\n"
+    "     sections: [{component: chain-a, length: 40 m}]}\n"
+    "  - {name: nw, anchor: [-36.87, 31.87], fairlead: [-10, 5, -0.5],\n"
+    "     sections: [{component: chain-a, length: 40 m}]}\n"
+    "  - {name: sw, anchor: [-36.87, -31.87], fairlead: [-10, -5, -0.5],\n"
+    "     sections: [{component: chain-a, length: 40 m}]}\n"
+    "  - {name: se, anchor: [36.87, -31.87], fairlead: [10, -5, -0.5],\n"
+    "     sections: [{component: chain-a, length: 40 m}]}\n"
+    "  - {name: tail, anchor: [0, -70], fairlead: [0, -5, -0.5],\n"
+    "     sections: [{component: chain-a, length: 30 m},\n"
+    "                {component: wire-b, length: 40 m}]}\n"
+    "criteria: {preset: api-rp-2sk}\n";
+
+/* The distinct y1 of the dash-dot allowed-tension steps of an elevation. */
+static size_t allowed_steps(const char *svg, double *y, size_t cap)
+{
+    size_t n = 0;
+    for (const char *p = strstr(svg, "<line "); p; p = strstr(p + 1, "<line ")) {
+        const char *end = strchr(p, '>');
+        const char *d = strstr(p, "stroke-dasharray=\"8 3 2 3\"");
+        const char *y1 = strstr(p, " y1=\""), *x1 = strstr(p, " x1=\""), *x2 = strstr(p, " x2=\"");
+        if (!d || d > end || !y1 || y1 > end || !x1 || !x2 || x2 > end)
+            continue;
+        if (strtod(x2 + 5, NULL) - strtod(x1 + 5, NULL) < 30) /* the key's 26 px sample */
+            continue;
+        double v = strtod(y1 + 5, NULL);
+        size_t k = 0;
+        while (k < n && fabs(y[k] - v) > 0.01)
+            k++;
+        if (k == n && n < cap)
+            y[n++] = v;
+    }
+    return n;
+}
+
+/* Issue 13 item 3: identical lines share one elevation, all lines overlay
+ * in one, and the allowed tension of each section is drawn. */
+static void test_report_elevation_groups(void **state)
+{
+    (void)state;
+    hf_model m;
+    hf_error err;
+    hf_model_init(&m);
+    assert_int_equal(hf_case_load_buffer(cove_text, strlen(cove_text), "cove.yaml", &m, &err),
+                     HF_OK);
+    size_t group[5];
+    assert_int_equal(hf_report_line_groups(&m, NULL, group), 2);
+    for (size_t i = 0; i < 4; i++)
+        assert_int_equal(group[i], 0);
+    assert_int_equal(group[4], 4);
+    /* away from rest the symmetry breaks: a surge offset separates the corners */
+    hf_pose pose;
+    hf_spread_pose_rest(&m, &pose);
+    pose.surge += 2.385;
+    assert_int_equal(hf_report_line_groups(&m, &pose, group), 3);
+    hf_spread *ws = hf_spread_alloc(&m, &err);
+    assert_non_null(ws);
+    hf_spread_result res;
+    hf_spread_pose_rest(&m, &pose);
+    assert_int_equal(hf_spread_solve(ws, &pose, &res, &err), HF_OK);
+    /* the four corners drawn once */
+    size_t idx[4] = {0, 1, 2, 3};
+    FILE *f = tmpfile();
+    assert_int_equal(hf_report_svg_elevation_group(f, &m, idx, 4, &res.states[0], 1, &err), HF_OK);
+    char *svg = hf_test_stream_read(f, 1);
+    fclose(f);
+    hf_test_assert_xml(svg);
+    assert_non_null(strstr(svg, "Drawn once for 4 lines of the same make-up and geometry: ne, "
+                                "nw, sw, se"));
+    double y[8];
+    assert_int_equal(allowed_steps(svg, y, 8), 1); /* one chain: one allowed tension */
+    /* chain R3 38 mm: MBL = 0.0223 d^2 (44 - 0.08 d) kN = 1318.96 kN (IACS UR W22 /
+     * DNV-OS-E302 form), allowed MBL / 2.00 (API RP 2SK intact, from memory) */
+    double mbl = 0.0223 * 38 * 38 * (44 - 0.08 * 38);
+    HF_TEST_ASSERT_NEAR(m.lines[0].line.sec[0].mbl / 1e3, mbl, 1e-6 * mbl);
+    char want[64];
+    snprintf(want, sizeof want, ">allowed %.4g kN<", mbl / 2);
+    assert_non_null(strstr(svg, want));
+    free(svg);
+    /* the tail: chain then strand, two different allowed tensions, both drawn */
+    f = tmpfile();
+    assert_int_equal(hf_report_svg_elevation(f, &m, 4, &res.states[4], 1, &err), HF_OK);
+    svg = hf_test_stream_read(f, 1);
+    fclose(f);
+    hf_test_assert_xml(svg);
+    assert_true(m.lines[4].line.sec[0].mbl != m.lines[4].line.sec[1].mbl);
+    assert_int_equal(allowed_steps(svg, y, 8), 2);
+    assert_true(fabs(y[0] - y[1]) > 1.0);
+    free(svg);
+    /* every line overlaid in one figure, with a legend of the five names */
+    f = tmpfile();
+    assert_int_equal(hf_report_svg_elevation_overlay(f, &m, &res, 1, &err), HF_OK);
+    svg = hf_test_stream_read(f, 1);
+    fclose(f);
+    hf_test_assert_xml(svg);
+    assert_non_null(strstr(svg, "All lines in their own vertical planes"));
+    for (size_t i = 0; i < 5; i++) {
+        snprintf(want, sizeof want, ">%s<", m.lines[i].name);
+        assert_non_null(strstr(svg, want));
+    }
+    free(svg);
+    /* a group without lines is refused before anything is written */
+    f = tmpfile();
+    assert_int_equal(hf_report_svg_elevation_group(f, &m, idx, 0, &res.states[0], 1, &err),
+                     HF_EINVAL);
+    assert_int_equal(ftell(f), 0);
+    fclose(f);
+    hf_spread_free(ws);
     hf_model_free(&m);
 }
 
@@ -367,6 +569,8 @@ int main(void)
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(test_report_complete_and_well_formed),
         cmocka_unit_test(test_report_failed_check_is_plain),
+        cmocka_unit_test(test_report_verdict_scope),
+        cmocka_unit_test(test_report_elevation_groups),
         cmocka_unit_test(test_report_empty_and_no_checks),
         cmocka_unit_test(test_report_write_error),
         cmocka_unit_test(test_report_number),

@@ -238,10 +238,15 @@ static void test_headers_exact(void **state)
     cap_open(&c);
     assert_int_equal(hf_results_balance_header_write(c.f, &fx.m, &err), HF_OK);
     cap_close(&c);
-    assert_string_equal(c.buf, "load,condition,status,surge_m,sway_m,yaw_deg,max_tension_kN,"
-                               "max_tension_line,max_utilisation,criterion,passed,Tmax_north_kN,"
-                               "Tmax_south-east_kN,Tmax_w_3_kN,horizontal_m,max_utilisation_line,"
-                               "min_line_factor,required_line_factor,message\n");
+    assert_string_equal(c.buf,
+                        "load,condition,water_level_m,status,surge_m,sway_m,yaw_deg,"
+                        "max_tension_kN,max_tension_line,max_utilisation,criterion,passed,"
+                        "Tmax_north_kN,Tmax_south-east_kN,Tmax_w_3_kN,anchor_load_north_kN,"
+                        "anchor_load_south-east_kN,anchor_load_w_3_kN,angle_north_deg,"
+                        "angle_south-east_deg,angle_w_3_deg,sliding_north,sliding_south-east,"
+                        "sliding_w_3,uplift_north,uplift_south-east,uplift_w_3,horizontal_m,"
+                        "max_utilisation_line,min_line_factor,required_line_factor,message,"
+                        "alert\n");
     cap_free(&c);
 }
 
@@ -494,8 +499,25 @@ static void test_balance_rows(void **state)
     lc[2].has_factor = 1;
     lc[2].factor = 7.9183;
 
+    /* anchors: line 0 a gravity block sliding and lifting, line 1 (broken in
+     * `bad`) a drag anchor, line 2 a pile */
+    hf_anchor_criterion ac[NL];
+    memset(ac, 0, sizeof ac);
+    ac[0].kind = HF_ANCHOR_GRAVITY;
+    ac[0].load = 612873.5;
+    ac[0].angle = 0.2183;
+    ac[0].has_sliding = ac[0].has_uplift = 1;
+    ac[0].sliding_factor = 0.6083;
+    ac[0].uplift_factor = 3.917;
+    ac[1].kind = HF_ANCHOR_DRAG;
+    ac[2].kind = HF_ANCHOR_PILE;
+    ac[2].load = 401234.75;
+    ac[2].angle = 0.3127;
+    fx.m.site.water_level = 2.375;
+
     hf_balance_result ok;
     memset(&ok, 0, sizeof ok);
+    ok.anchor = ac;
     ok.status = HF_OK;
     ok.broken = HF_BALANCE_NONE;
     ok.offset[0] = 3.918274;
@@ -520,6 +542,7 @@ static void test_balance_rows(void **state)
     bad.nlines = NL;
     bad.tension = tension;
     bad.line = lc;
+    bad.anchor = ac;
     bad.max_tension_line = bad.max_utilisation_line = bad.criterion_line = HF_BALANCE_NONE;
     bad.criterion = HF_CRIT_EQUILIBRIUM;
     snprintf(bad.message, sizeof bad.message, "load %s, beyond the spread", "too large");
@@ -529,42 +552,60 @@ static void test_balance_rows(void **state)
     assert_int_equal(hf_results_balance_row_write(c.f, &fx.m, &load, &ok), 0);
     assert_int_equal(hf_results_balance_row_write(c.f, &fx.m, &load, &bad), 0);
     cap_close(&c);
-    size_t ncol = HF_RESULTS_BALANCE_HEAD + NL + HF_RESULTS_BALANCE_TAIL;
+    size_t ncol =
+        HF_RESULTS_BALANCE_HEAD + NL * (1 + HF_RESULTS_BALANCE_ANCHOR) + HF_RESULTS_BALANCE_TAIL;
+    /* the fields after the per-line groups */
+    size_t T = HF_RESULTS_BALANCE_HEAD + NL * (1 + HF_RESULTS_BALANCE_ANCHOR);
     char row[4096], *f[64];
     line_at(c.buf, 0, row, sizeof row);
     assert_int_equal(split(row, f, 64), ncol);
     assert_string_equal(f[0], "gale \"north\"");
     assert_string_equal(f[1], "intact");
-    assert_string_equal(f[2], "ok");
-    near(num(f[3]), ok.offset[0], 1e-9);
-    near(num(f[4]), ok.offset[1], 1e-9);
-    near(num(f[5]) * M_PI / 180.0, ok.offset[2], 1e-9);
-    near(num(f[6]), tension[0] / 1e3, 1e-9);
-    assert_string_equal(f[7], "bow-port");
-    near(num(f[8]), ok.max_utilisation, 1e-9);
-    assert_string_equal(f[9], "line_factor:bow-port");
-    assert_string_equal(f[10], "1");
-    near(num(f[11]), tension[0] / 1e3, 1e-9);
-    assert_string_equal(f[12], "0"); /* a line carrying nothing: 0 kN, a number */
-    near(num(f[13]), tension[2] / 1e3, 1e-9);
-    near(num(f[14]), ok.horizontal, 1e-9);
-    assert_string_equal(f[15], "aft");
-    near(num(f[16]), 7.9183, 1e-9); /* the smaller of the two factors */
-    near(num(f[17]), 1.67, 1e-9);
-    assert_string_equal(f[18], "");
+    near(num(f[2]), 2.375, 1e-12); /* the model's still water level */
+    assert_string_equal(f[3], "ok");
+    near(num(f[4]), ok.offset[0], 1e-9);
+    near(num(f[5]), ok.offset[1], 1e-9);
+    near(num(f[6]) * M_PI / 180.0, ok.offset[2], 1e-9);
+    near(num(f[7]), tension[0] / 1e3, 1e-9);
+    assert_string_equal(f[8], "bow-port");
+    near(num(f[9]), ok.max_utilisation, 1e-9);
+    assert_string_equal(f[10], "line_factor:bow-port");
+    assert_string_equal(f[11], "1");
+    near(num(f[12]), tension[0] / 1e3, 1e-9);
+    assert_string_equal(f[13], "0"); /* a line carrying nothing: 0 kN, a number */
+    near(num(f[14]), tension[2] / 1e3, 1e-9);
+    /* anchor groups: load kN, angle deg, sliding, uplift (gravity only) */
+    near(num(f[15]), 612.8735, 1e-9);
+    assert_string_equal(f[16], "0"); /* the drag anchor: no load, a number */
+    near(num(f[17]), 401.23475, 1e-9);
+    near(num(f[18]) * M_PI / 180.0, 0.2183, 1e-9);
+    near(num(f[20]) * M_PI / 180.0, 0.3127, 1e-9);
+    near(num(f[21]), 0.6083, 1e-12);
+    assert_string_equal(f[22], ""); /* drag anchor: no sliding factor */
+    assert_string_equal(f[23], ""); /* pile: none either */
+    near(num(f[24]), 3.917, 1e-12);
+    assert_string_equal(f[25], "");
+    assert_string_equal(f[26], "");
+    near(num(f[T]), ok.horizontal, 1e-9);
+    assert_string_equal(f[T + 1], "aft");
+    near(num(f[T + 2]), 7.9183, 1e-9); /* the smaller of the two factors */
+    near(num(f[T + 3]), 1.67, 1e-9);
+    assert_string_equal(f[T + 4], "");
+    assert_string_equal(f[T + 5], ""); /* no overload */
 
     line_at(c.buf, 1, row, sizeof row);
     assert_int_equal(split(row, f, 64), ncol);
     assert_string_equal(f[1], "broken:stern,x");
-    assert_string_equal(f[2], "no equilibrium");
-    for (int k = 3; k <= 8; k++)
+    assert_string_equal(f[3], "no equilibrium");
+    for (int k = 4; k <= 9; k++)
         assert_string_equal(f[k], "");
-    assert_string_equal(f[9], "equilibrium");
-    assert_string_equal(f[10], "0");
-    for (size_t k = 11; k < 17; k++)
+    assert_string_equal(f[10], "equilibrium");
+    assert_string_equal(f[11], "0");
+    for (size_t k = 12; k < T + 3; k++)
         assert_string_equal(f[k], "");
-    near(num(f[17]), 1.25, 1e-9);
-    assert_string_equal(f[18], "load too large, beyond the spread");
+    near(num(f[T + 3]), 1.25, 1e-9);
+    assert_string_equal(f[T + 4], "load too large, beyond the spread");
+    assert_string_equal(f[T + 5], "");
     cap_free(&c);
 
     /* No factor checked: the required factor is empty; a NaN is counted. */
@@ -575,8 +616,8 @@ static void test_balance_rows(void **state)
     cap_close(&c);
     line_at(c.buf, 0, row, sizeof row);
     split(row, f, 64);
-    assert_string_equal(f[4], "");
-    assert_string_equal(f[17], "");
+    assert_string_equal(f[5], "");
+    assert_string_equal(f[T + 3], "");
     assert_true(hf_results_balance_min_factor(&bad) == 7.9183);
     lc[0].has_factor = lc[2].has_factor = 0;
     assert_true(hf_results_balance_min_factor(&bad) == 0.0);

@@ -105,6 +105,12 @@ void hf_analysis_curve_free(hf_analysis_curve *c);
 hf_status hf_analysis_curve_compute(hf_analysis_curve *c, const hf_model *m, double direction,
                                     double from, double to, double step, hf_error *err);
 
+/* As hf_analysis_curve_compute, at the c->n offsets offsets[k] (m along
+ * the direction, any order; offsets may be c->offset itself), under the same
+ * policy.  HF_EINVAL when the direction or an offset is not finite. */
+hf_status hf_analysis_curve_compute_at(hf_analysis_curve *c, const hf_model *m, double direction,
+                                       const double *offsets, hf_error *err);
+
 /* ---- balance runs: load cases, intact and each line broken ---- */
 
 /* Receives the results of hf_analysis_balance_run as they are found (a run
@@ -143,5 +149,90 @@ typedef struct {
 hf_status hf_analysis_balance_run(const hf_model *m, const size_t *which, size_t nwhich,
                                   const hf_analysis_balance_sink *sink,
                                   hf_analysis_balance_count *count, hf_error *err);
+
+/* ---- balance over a water-level envelope ---- */
+
+/* Where a result of an envelope was found: load index (into m->loads; (size_t)-1 when
+ * nothing was found), condition (0 intact, k line k-1 broken) and still water level
+ * (m above the datum). */
+typedef struct {
+    size_t load, cond;
+    double level;
+} hf_analysis_where;
+
+/* The worst of one line over an envelope (every level, load case and solved
+ * condition in which the line is intact).  Values without a `where` found
+ * (load == (size_t)-1) are 0. */
+typedef struct {
+    double tension;     /* N, the largest tension along the line */
+    double utilisation; /* -, T/MBL of its most loaded section, at that condition */
+    hf_analysis_where at;
+    double min_factor; /* -, the smallest MBL/T (the largest utilisation) */
+    hf_analysis_where factor_at;
+    /* its anchor (criteria.h, hf_anchor_criterion) */
+    double anchor_load; /* N, the largest resultant on the anchor */
+    hf_analysis_where anchor_load_at;
+    double angle; /* rad, the largest uplift angle at the anchor */
+    hf_analysis_where angle_at;
+    double sliding; /* -, the smallest gravity-block sliding factor (has_sliding) */
+    hf_analysis_where sliding_at;
+    double uplift; /* -, the smallest gravity-block uplift factor (has_uplift) */
+    hf_analysis_where uplift_at;
+    size_t anchor_failed;             /* conditions whose anchor check failed */
+    hf_analysis_where anchor_fail_at; /* the first of them */
+} hf_analysis_envelope_line;
+
+/* The results of a balance run over a water-level envelope: nloads load
+ * cases x nlevels levels x (1 + nlines) conditions. */
+typedef struct {
+    size_t nlevels;
+    double *level; /* m above the datum, the levels run, in order */
+    size_t nloads; /* load cases run */
+    size_t nlines;
+    hf_analysis_balance_count count; /* summed over the levels (count.loads: load-level runs) */
+    hf_analysis_envelope_line *line; /* nlines */
+    size_t overloaded;               /* conditions with a line at or beyond its MBL */
+    size_t overload_line;            /* the most utilised overloaded line, or (size_t)-1 */
+    double overload_utilisation;     /* its utilisation, - */
+    double overload_tension;         /* its tension, N */
+    hf_analysis_where overload_at;   /* and where */
+    hf_analysis_where first_failed;  /* the first condition that failed, load (size_t)-1 none */
+} hf_analysis_envelope;
+
+/* The still water levels (m above the datum) a design check of m covers: the
+ * case's site.water_levels when it gives them, else the one level
+ * site.water_level.  Writes at most cap levels into out; returns how many
+ * there are (>= 1). */
+size_t hf_analysis_envelope_levels(const hf_model *m, double *out, size_t cap);
+
+/* Allocates an envelope for the lines of m and nlevels >= 1 levels.  NULL with
+ * err set (HF_EINVAL for 0 levels, HF_ENOMEM). */
+hf_analysis_envelope *hf_analysis_envelope_alloc(const hf_model *m, size_t nlevels, hf_error *err);
+void hf_analysis_envelope_free(hf_analysis_envelope *e);
+
+/* Callbacks of an envelope run: `each` as for one balance run (its ctx is
+ * passed to every callback, level_begin included; progress counts the
+ * conditions of the whole envelope), and level_begin (may be NULL) before
+ * each level: index k < nlevels, the level (m above the datum) and the model
+ * at that level (a copy of m with site.water_level set; valid until the next
+ * level_begin or the end of the run; the load pointers handed to `each` point
+ * into it, with the same indices as in m). */
+typedef struct {
+    hf_analysis_balance_sink each;
+    hf_status (*level_begin)(void *ctx, size_t k, double level, const hf_model *at, hf_error *err);
+} hf_analysis_envelope_sink;
+
+/* Runs hf_analysis_balance_run (load cases m->loads[which[k]], k < nwhich;
+ * which NULL: all) at every level of e->level (set by the caller, e.g. from
+ * hf_analysis_envelope_levels or a command-line range), the levels outer,
+ * and fills e with the per-line worst values, the overload and the first
+ * failure.  Each level's results equal those of a case edited to that
+ * site.water_level (the copy is re-resolved through the model's parameter
+ * "site.water_level"; a level equal to m's own is run on an unchanged copy).
+ * Returns HF_OK, HF_EINVAL (a level below the seabed or not finite, a bad load
+ * or index), HF_ENOMEM, or a sink's status, with err set. */
+hf_status hf_analysis_envelope_run(hf_analysis_envelope *e, const hf_model *m, const size_t *which,
+                                   size_t nwhich, const hf_analysis_envelope_sink *sink,
+                                   hf_error *err);
 
 #endif

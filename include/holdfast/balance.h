@@ -68,7 +68,9 @@ typedef enum {
     HF_CRIT_EQUILIBRIUM, /* no equilibrium was found */
     HF_CRIT_LINE,        /* line safety factor MBL/T (line index in criterion_line) */
     HF_CRIT_OFFSET,      /* horizontal offset limit */
-    HF_CRIT_ANCHOR       /* anchor check (line index in criterion_line) */
+    HF_CRIT_ANCHOR,      /* anchor check (line index in criterion_line) */
+    HF_CRIT_OVERLOAD     /* a line at or beyond a section's MBL (hf_criteria_overloaded; line
+                          * index in criterion_line): governs before every other check */
 } hf_balance_criterion;
 
 /* The result of one condition (intact or one line broken) of one load case.
@@ -95,6 +97,8 @@ typedef struct {
     int offset_checked; /* 1 when criteria.max_offset > 0 */
     int offset_passed;
     int lines_passed, anchors_passed;
+    size_t overloaded;              /* lines at or beyond a section's MBL (u >= 1): never a pass */
+    size_t overloaded_line;         /* the most utilised of them, or HF_BALANCE_NONE */
     int passed;                     /* status ok and every check passed */
     hf_balance_criterion criterion; /* the first failed check, or the governing one */
     size_t criterion_line;          /* line of that criterion, or HF_BALANCE_NONE */
@@ -196,7 +200,8 @@ hf_status hf_balance_solve(hf_balance *b, const hf_load *load, size_t cond, hf_e
  * kept. */
 const hf_balance_result *hf_balance_result_at(const hf_balance *b, size_t cond);
 
-/* Stable criterion names: "none", "equilibrium", "line_factor", "offset", "anchor". */
+/* Stable criterion names: "none", "equilibrium", "line_factor", "offset", "anchor",
+ * "overload". */
 const char *hf_balance_criterion_name(hf_balance_criterion c);
 
 #endif

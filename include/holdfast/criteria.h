@@ -81,7 +81,8 @@ hf_status hf_criteria_preset_apply(hf_criteria *c, const char *preset, hf_error 
 
 /* Checks that a criteria record is usable: factors finite and >= 0 (0 = no
  * check; a non-zero factor below 1 is refused since it would accept tensions
- * above the breaking load), max_offset finite and >= 0.  HF_OK or HF_EINVAL
+ * above the breaking load; the same for the gravity-block factors, where 0
+ * means the default 1.0), max_offset finite and >= 0.  HF_OK or HF_EINVAL
  * with a message naming the field. */
 hf_status hf_criteria_check(const hf_criteria *c, hf_error *err);
 
@@ -139,6 +140,22 @@ typedef struct {
  * code. */
 #define HF_CRITERIA_GRAVITY_SLIDING 1.0
 #define HF_CRITERIA_GRAVITY_UPLIFT 1.0
+
+/* Required gravity-block factors for anchor a under criteria c: the line's
+ * own (a->required_*), else the case's (c->block_*), else the defaults
+ * HF_CRITERIA_GRAVITY_* (1.0).  Either output may be NULL. */
+void hf_criteria_block_required(const hf_criteria *c, const hf_anchor *a, double *sliding,
+                                double *uplift);
+
+/* The forces a solved line puts on its anchor for the anchor checks, N:
+ * *h horizontal (toward the fairlead), *v upward.  As solved (s->anchor_h,
+ * s->anchor_v) by default; with c->anchor_ignore_friction the seabed
+ * friction of the grounded line is ignored: on the flat seabed the only
+ * horizontal force along the line is that friction, so the anchor then sees
+ * the horizontal tension of the suspended part, the fairlead's s->h, and the
+ * same vertical force (0 whenever part of the line is grounded).  The
+ * conservative choice for anchor design. */
+void hf_criteria_anchor_forces(const hf_criteria *c, const hf_line_state *s, double *h, double *v);
 
 /* Evaluates the anchor of one line from the forces the line puts on it:
  * h (N, >= 0, toward the fairlead) and v (N, >= 0, upward).  Drag anchors

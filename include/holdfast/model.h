@@ -19,6 +19,8 @@
 /* Documented limits (errors name them when hit). */
 #define HF_MODEL_MAX_LINES 100000
 #define HF_MODEL_MAX_NAME 128
+#define HF_MODEL_MAX_LEVELS 512 /* still water levels of an envelope */
+#define HF_MODEL_LEVEL_STEP 0.1 /* m: spacing of a [low, high] envelope */
 
 typedef struct {
     double depth;         /* water depth from the datum to the flat seabed, m (> 0) */
@@ -30,6 +32,14 @@ typedef struct {
      * seabed_toward.  Both 0 (the default): flat. */
     double seabed_slope;  /* rad, 0 <= slope < HF_MODEL_MAX_SLOPE */
     double seabed_toward; /* rad, counterclockwise from global x: where the seabed rises to */
+    /* The envelope of still water levels (tide plus surge) a design check covers
+     * (site.water_levels; docs/case-format.md), m above the datum, ascending as given.
+     * 0 levels: the case gives none, the checks cover water_level alone.  A case's
+     * [low, high] is expanded here: low, low + HF_MODEL_LEVEL_STEP, ... and high
+     * itself (water_levels_range 1). */
+    size_t nwater_levels;
+    int water_levels_range;
+    double water_levels[HF_MODEL_MAX_LEVELS];
 } hf_site;
 
 /* Documented limit: steepest seabed, rad (0.5 rad = 28.6 deg; the line
@@ -65,6 +75,9 @@ typedef struct {
     double weight;           /* gravity block: submerged weight, N */
     double friction;         /* gravity block on the seabed, -; default 0.5 */
     double max_uplift_angle; /* drag anchor: allowed uplift angle, rad; default 0 */
+    /* gravity block: required factors of this line (block_sliding_factor,
+     * block_uplift_factor); 0 = the case's (hf_criteria) */
+    double required_sliding, required_uplift;
 } hf_anchor;
 
 typedef struct {
@@ -114,6 +127,12 @@ typedef struct {
     double factor_damaged; /* one line broken; 0 = no check */
     double max_offset;     /* allowed horizontal offset, m; 0 = no check */
     const char *source;    /* static text: where the factors come from */
+    /* anchors (docs/criteria.md section 3): required gravity-block factors of
+     * every line that gives none (block_sliding_factor, block_uplift_factor;
+     * 0 = HF_CRITERIA_GRAVITY_*, 1.0), and anchor_line_friction: ignore (1)
+     * to take anchor loads with the grounded line's seabed friction ignored */
+    double block_sliding, block_uplift;
+    int anchor_ignore_friction;
 } hf_criteria;
 
 typedef struct {
@@ -128,6 +147,9 @@ typedef struct {
     size_t nloads;
     hf_load *loads;
     hf_criteria criteria;
+    /* issue 14: hull design data and environments (designdata.h), NULL when
+     * the case has none; shared by copies (reference count), read-only. */
+    struct hf_designdata *design;
 } hf_model;
 
 /* Empty model (no lines); hf_model_free() works on it. */

@@ -24,8 +24,18 @@
  * order), so a reader sees it first.  The output is well-formed XML
  * (XHTML-compatible HTML5), which the tests check.
  *
- * The writer never allocates except in the model-aware figure helpers at
- * the end, which say so.  Write errors are found by ferror (hf_report_end
+ * The verdict states its scope: how many load cases, still water levels
+ * and conditions (intact, each line broken) the checks covered, against
+ * what the case declares, and which criteria (hf_report_scope_add records
+ * what each check covered).  It is green only when every check passed AND
+ * the checks cover every load case, water level and condition the case
+ * declares; checks that passed over a narrower scope get an amber banner
+ * saying what was left out.
+ *
+ * The writer allocates the scope record at hf_report_begin (two flag
+ * arrays sized from the model; hf_report_end frees them, so every begun
+ * report must be ended) and in the model-aware figure helpers at the end,
+ * which say so.  Write errors are found by ferror (hf_report_end
  * reports them) or by outfile.h's commit. */
 #ifndef HOLDFAST_REPORT_H
 #define HOLDFAST_REPORT_H
@@ -38,6 +48,9 @@
 #include "holdfast/spread.h"
 #include "holdfast/status.h"
 
+/* Distinct still water levels a report's scope record keeps. */
+#define HF_REPORT_MAX_LEVELS 64
+
 /* A report being written.  Lives on the caller's stack; fields are for
  * reading only. */
 typedef struct {
@@ -48,6 +61,14 @@ typedef struct {
     size_t nsections, ntables, nfigures;
     size_t nchecks; /* criteria checks written so far */
     size_t nfailed; /* ... of which failed */
+    /* scope of the checks (hf_report_scope_add) */
+    const hf_model *model;                    /* borrowed at hf_report_begin, or NULL */
+    unsigned char *scope_load;                /* model->nloads flags: load case checked */
+    unsigned char *scope_cond;                /* 1 + model->nlines flags: condition checked */
+    double scope_level[HF_REPORT_MAX_LEVELS]; /* distinct levels checked, m above datum */
+    size_t nscope_levels;
+    size_t nscoped; /* hf_report_scope_add calls */
+    int scope_lost; /* 1: the record is incomplete (no memory, too many levels) */
 } hf_report;
 
 /* Starts the report on `out`: the HTML head with its stylesheet, the title
@@ -97,10 +118,25 @@ void hf_report_figure_end(hf_report *r, const char *caption);
 void hf_report_check(hf_report *r, const char *item, const char *requirement, const char *result,
                      int passed);
 
-/* Ends the report: closes what is open, writes the verdict ("All 12 checks
- * passed." / "3 of 12 checks FAILED." / "No criteria checks were made."),
- * the caution again and the footer.  Returns HF_OK, or HF_EIO when the
- * stream has seen a write error. */
+/* Records what a check covered: load case `load` (index into the model's
+ * loads), condition `cond` (0 intact, k line k-1 broken) at the still water
+ * level `level` (m above datum).  Call it for each check written for a
+ * load-case condition (balance studies do).  Indices out of range and
+ * non-finite levels are ignored and mark the scope as incomplete. */
+void hf_report_scope_add(hf_report *r, size_t load, size_t cond, double level);
+
+/* The still water levels the case declares (m above datum) into out (at
+ * most cap; returns how many): site.water_level. */
+size_t hf_report_levels_declared(const hf_model *m, double *out, size_t cap);
+
+/* Ends the report: closes what is open, writes the verdict with its scope
+ * ("All 12 criteria checks passed, covering everything the case declares:
+ * 2 load cases x 1 still water level (1.9 m) x 5 conditions (intact and
+ * each of the 4 lines broken). Criteria: ..." / "All 3 criteria checks
+ * passed, but they cover less than the case declares: ..." / "3 of 12
+ * criteria checks FAILED. ..." / "No criteria checks were made."), the
+ * caution again and the footer, and frees the scope record.  Returns HF_OK,
+ * or HF_EIO when the stream has seen a write error. */
 hf_status hf_report_end(hf_report *r, hf_error *err);
 
 /* Formats v for people with `digits` (1..10) significant digits, in plain
@@ -128,11 +164,37 @@ hf_status hf_report_svg_plan(FILE *out, const hf_model *m, const hf_pose *pose,
 
 /* Elevation of line i of m in the solved state st (HF_OK status): profile
  * sampled by hf_line_profile at about 500 points, touchdown marked, the
- * allowed tension MBL / intact factor (criteria) of the most loaded section
- * drawn when the case has an intact factor.  Allocates the profile
+ * allowed tension MBL / intact factor (criteria) of each section drawn over
+ * that section when the case has an intact factor, points whose tension
+ * reaches their section's MBL crossed.  Allocates the profile
  * (hf_malloc) and frees it.  HF_OK, HF_ENOMEM, HF_EINVAL. */
 hf_status hf_report_svg_elevation(FILE *out, const hf_model *m, size_t i, const hf_line_state *st,
                                   int standalone, hf_error *err);
+
+/* Elevation of a group of identical lines (hf_report_line_groups): the
+ * lines idx[0..n) of m drawn once from line idx[0]'s solved state st, with
+ * a caption naming them all (n == 1: the plain elevation).  Every section's
+ * allowed tension (MBL / intact factor) is drawn and overloaded points are
+ * crossed, as in hf_report_svg_elevation.  Allocates the profile and names
+ * (hf_malloc) and frees them.  HF_OK, HF_ENOMEM, HF_EINVAL. */
+hf_status hf_report_svg_elevation_group(FILE *out, const hf_model *m, const size_t *idx, size_t n,
+                                        const hf_line_state *st, int standalone, hf_error *err);
+
+/* Every solved, unbroken line of the solve r of m overlaid in one elevation
+ * (hf_svg_figure_elevation_overlay): each in its own vertical plane with its
+ * anchor at distance 0, its tension, its sections' allowed tensions and its
+ * overloaded points.  Allocates and frees.  HF_OK, HF_ENOMEM, HF_EINVAL (no
+ * solved line). */
+hf_status hf_report_svg_elevation_overlay(FILE *out, const hf_model *m, const hf_spread_result *r,
+                                          int standalone, hf_error *err);
+
+/* Groups identical lines of m: the same make-up (pieces in order: the same
+ * component and length, clump or buoy load and friction) and the same
+ * geometry at `pose` (NULL: the rest pose) up to a rotation about the
+ * vertical (horizontal anchor-fairlead distance within 1e-6 relative,
+ * fairlead height within 1 micrometre).  group[i] (nlines entries) gets the
+ * index of the first line of line i's group; returns the number of groups. */
+size_t hf_report_line_groups(const hf_model *m, const hf_pose *pose, size_t *group);
 
 /* Restoring-curve figure (hf_svg_figure_curve) of curve c, computed for m
  * (include/holdfast/analysis.h; failed offsets are NaN: gaps), titled
@@ -144,5 +206,17 @@ hf_status hf_report_svg_elevation(FILE *out, const hf_model *m, size_t i, const 
 hf_status hf_report_svg_curve(FILE *out, const hf_model *m, const hf_analysis_curve *c,
                               const char *title, const char *label, int tension_limits,
                               int standalone, hf_error *err);
+
+/* ---- balance over a water-level envelope (issue 13) ---- */
+
+/* The envelope of a balance study e (run on m) in the open section: its scope
+ * (load cases x water levels x conditions), a table of the worst tension of
+ * each line with the load case, condition and level that give it, a table of
+ * each anchor over the envelope (largest load and uplift angle, smallest
+ * gravity-block factors against the required ones, PASS/FAIL with the number
+ * of failing conditions and the first), whether anchor loads ignore the
+ * line's seabed friction, and one check row for the whole envelope (with the
+ * worst overload when a line reached its MBL). */
+void hf_report_balance_envelope(hf_report *r, const hf_model *m, const hf_analysis_envelope *e);
 
 #endif

@@ -36,8 +36,13 @@
 /* Fixed columns of the curve CSV before T_<line>_kN, and of the balance CSV
  * before and after Tmax_<line>_kN. */
 #define HF_RESULTS_CURVE_FIXED 9
-#define HF_RESULTS_BALANCE_HEAD 11
-#define HF_RESULTS_BALANCE_TAIL 5
+#define HF_RESULTS_BALANCE_HEAD 12
+#define HF_RESULTS_BALANCE_TAIL 6
+/* Per-line anchor columns of the balance CSV, each group nlines wide, after
+ * Tmax_<line>_kN: anchor_load_<line>_kN, angle_<line>_deg, sliding_<line>,
+ * uplift_<line> (hf_results_balance_anchor_groups). */
+#define HF_RESULTS_BALANCE_ANCHOR 4
+extern const char *const hf_results_balance_anchor_groups[HF_RESULTS_BALANCE_ANCHOR][2];
 
 /* Column names, in order (static strings). */
 extern const char *const hf_results_lines_columns[HF_RESULTS_LINES_COLUMNS];
@@ -45,6 +50,59 @@ extern const char *const hf_results_stiffness_columns[HF_RESULTS_STIFFNESS_COLUM
 extern const char *const hf_results_curve_columns[HF_RESULTS_CURVE_FIXED];
 extern const char *const hf_results_balance_head[HF_RESULTS_BALANCE_HEAD];
 extern const char *const hf_results_balance_tail[HF_RESULTS_BALANCE_TAIL];
+
+/* ---- result cells: one row of a table before it is written ----
+ *
+ * Each writer below builds its rows as cells first (the *_row functions) and
+ * writes the cells, so the session tables (session.h) and the CSV files get
+ * the same numbers from one computation.  A number is in the unit its column
+ * name declares (kN, kN m, deg, m); a number that is not finite is written
+ * as an empty field and counted; an empty cell is written empty and not
+ * counted (a broken line, a condition without result: the gap is intended).
+ * A text column's cell is always text ("" when there is nothing to say), so
+ * every column is either numeric or text whatever the row. */
+typedef enum {
+    HF_RESULTS_EMPTY = 0, /* numeric column, no value (written empty, not counted) */
+    HF_RESULTS_NUMBER,    /* value, in the column's unit */
+    HF_RESULTS_TEXT       /* text (borrowed: the model, a static string or the caller's scratch) */
+} hf_results_cell_kind;
+
+typedef struct {
+    hf_results_cell_kind kind;
+    double value;
+    const char *text;
+} hf_results_cell;
+
+/* Scratch space for the formatted text cells of one row (status, condition,
+ * criterion); the cells point into it, so it must outlive their use. */
+typedef struct {
+    char a[HF_ERROR_TEXT];
+    char b[HF_MODEL_MAX_NAME + 32];
+} hf_results_text;
+
+/* Name of column j (< the table's column count) of the curve CSV
+ * (HF_RESULTS_CURVE_FIXED + nlines + 1 columns) or of the balance CSV
+ * (HF_RESULTS_BALANCE_HEAD + nlines x (1 + HF_RESULTS_BALANCE_ANCHOR) +
+ * HF_RESULTS_BALANCE_TAIL columns) of model m into buf (cap bytes, at least
+ * HF_MODEL_MAX_NAME + 32).  Returns buf. */
+size_t hf_results_curve_ncolumns(const hf_model *m);
+size_t hf_results_balance_ncolumns(const hf_model *m);
+const char *hf_results_curve_column_name(const hf_model *m, size_t j, char *buf, size_t cap);
+const char *hf_results_balance_column_name(const hf_model *m, size_t j, char *buf, size_t cap);
+
+/* The cells of one row of the lines CSV (line i, HF_RESULTS_LINES_COLUMNS
+ * cells) and of the stiffness CSV (row i: 0..5 surge..yaw, 6 static_load;
+ * HF_RESULTS_STIFFNESS_COLUMNS cells), and cell j of a row of the curve CSV
+ * (point k) and of the balance CSV (condition r of load case `load`), whose
+ * width depends on the number of lines.  Text cells may point into *t, which
+ * then must outlive their use.  Pure functions: no allocation, no output. */
+void hf_results_lines_row(const hf_model *m, const hf_spread_result *r, size_t i,
+                          hf_results_cell *cells, hf_results_text *t);
+void hf_results_stiffness_row(double K[6][6], const double force[6], int i, hf_results_cell *cells);
+hf_results_cell hf_results_curve_cell(const hf_model *m, const hf_analysis_curve *c, size_t k,
+                                      size_t j);
+hf_results_cell hf_results_balance_cell(const hf_model *m, const hf_load *load,
+                                        const hf_balance_result *r, size_t j, hf_results_text *t);
 
 /* ---- lines: one row per line at one pose ---- */
 
@@ -153,18 +211,50 @@ void hf_results_balance_criterion(const hf_model *m, const hf_balance_result *r,
 double hf_results_balance_min_factor(const hf_balance_result *r);
 
 /* Writes the balance CSV header: hf_results_balance_head, Tmax_<line>_kN per
- * line of m, hf_results_balance_tail.  HF_OK, or HF_ELIMIT as
- * hf_results_curve_header_write. */
+ * line of m, the anchor groups (anchor_load_<line>_kN, angle_<line>_deg,
+ * sliding_<line>, uplift_<line>, each per line), hf_results_balance_tail.
+ * HF_OK, or HF_ELIMIT as hf_results_curve_header_write. */
 hf_status hf_results_balance_header_write(FILE *out, const hf_model *m, hf_error *err);
 
-/* Writes one balance row for condition r of load case `load`: load,
- * condition, status, surge, sway (m), yaw (deg), max tension (kN), its line,
- * max utilisation, criterion, passed (1/0), each line's largest tension
- * (kN), horizontal offset (m), most utilised line, smallest MBL/T,
- * required MBL/T (empty when not checked), message.  When r->status is not
- * HF_OK the result values are left empty.  Returns the number of non-finite
- * values left empty. */
+/* Writes one balance row for condition r of load case `load`, solved in m
+ * (the model at the row's still water level): load, condition, water level
+ * (m->site.water_level, m above the datum), status, surge, sway (m), yaw
+ * (deg), max tension (kN), its line, max utilisation, criterion, passed
+ * (1/0), each line's largest tension (kN), each line's anchor load (kN) and
+ * uplift angle (deg) (as checked: hf_criteria_anchor_forces), gravity-block
+ * sliding and uplift factors (empty for other anchors or when nothing
+ * slides / lifts it), horizontal offset (m), most utilised line, smallest
+ * MBL/T, required MBL/T (empty when not checked), message, alert
+ * ("overloaded" when a line reached its MBL, else empty).  When r->status
+ * is not HF_OK the result values are left empty; a broken line's anchor
+ * fields too.  Returns the number of non-finite values left empty. */
 size_t hf_results_balance_row_write(FILE *out, const hf_model *m, const hf_load *load,
                                     const hf_balance_result *r);
+
+/* The failing number of condition r in words, into buf ("" when r passed or
+ * has no result): "nw overloaded: T/MBL 1.690", "MBL/T 2.960 < 3.000 (nw)",
+ * "offset 12.24 m > 5.00 m", "nw sliding 0.608 < 1.00", "nw uplift 0.930
+ * < 1.00", "nw uplift angle 3.20 deg > 0.00 deg". */
+void hf_results_balance_failure(const hf_model *m, const hf_balance_result *r, char *buf,
+                                size_t cap);
+
+/* ---- balance over a water-level envelope (analysis.h) ---- */
+
+/* "<load>, <condition>, <level> m" of w (m's names; "-" when nothing was
+ * found, w->load == (size_t)-1) into buf (cap bytes). */
+void hf_results_where(const hf_model *m, const hf_analysis_where *w, char *buf, size_t cap);
+
+/* The scope of e: "N load cases x M water levels (low to high m) x K
+ * conditions (intact and each of L lines broken) = T conditions" into buf. */
+void hf_results_envelope_scope(const hf_model *m, const hf_analysis_envelope *e, char *buf,
+                               size_t cap);
+
+/* Writes the readable summary of envelope e (run on m) to out: the scope, per
+ * line the worst tension with its utilisation, MBL/T, load, condition and
+ * level, and per line the anchor over the envelope (largest load and angle,
+ * smallest gravity-block factors with where, the required factors, PASS/FAIL
+ * with the first failure), the anchor-load choice (friction), and the worst
+ * overload. */
+void hf_results_envelope_summary_write(FILE *out, const hf_model *m, const hf_analysis_envelope *e);
 
 #endif

@@ -29,6 +29,26 @@ typedef struct {
  * (at most 12).  A figure that cannot be drawn becomes a note. */
 void hf_studyrun_rest(hf_report *rep, const hf_model *m);
 
+/* The default studies of a case without a studies: section (a run then
+ * gives the default report, not "nothing to run"), into sl (emptied
+ * first; owned by it, release with hf_study_list_free):
+ *   rest         lines at the rest pose (every line's elevation, table);
+ *   stiffness    the 6x6 stiffness at rest;
+ *   surge-curve  restoring curve along the hull's surge axis (its heading),
+ *   sway-curve   ... and along its sway axis (heading + 90 deg), both over
+ *                -R..R in 40 steps, R the 1-2-5 round number at or above
+ *                1.5 x the offset limit of the criteria, or when there is
+ *                none 10 % of the smallest horizontal anchor-fairlead
+ *                distance at rest (at least 1 m);
+ *   balance      every load case, intact and each line broken (only when
+ *                the case has load cases).
+ * Returns HF_OK, HF_EINVAL (a model without lines or a rest pose that
+ * cannot be placed), HF_ENOMEM. */
+hf_status hf_studyrun_defaults(const hf_model *m, hf_study_list *sl, hf_error *err);
+
+/* The half-range R (m) of the default restoring curves (above). */
+double hf_studyrun_default_range(const hf_model *m);
+
 /* Runs study s of m (jobs threads for sweeps): writes its CSV to out and
  * its report section to rep, and fills *oc (cleared first).  Returns HF_OK,
  * or the study's failure (HF_EINVAL, HF_ENOMEM, HF_ENOCONV, HF_ERANGE, ...)

@@ -3,10 +3,11 @@
  * Flow: case -> model -> line solve -> spread / balance -> **studies** -> writers.
  * A sweep varies model parameters (paths of hf_model_param_lookup) over the
  * case space of study.h and evaluates chosen outputs at the rest pose of
- * every case: fairlead tensions, utilisations, stiffness, mean offsets under
- * a load case.  Rows are CSV (csv.h number format): the varied values, a
- * status, then the outputs.  Each thread works on its own copy of the model
- * with its own solver workspaces, allocated once; no case allocates.
+ * every case (fairlead tensions, utilisations, stiffness) or at its intact
+ * mean equilibrium under a load case (offset_<load>, max_tension@<load>,
+ * utilisation@<load>, ...: hf_balance_solve, condition 0).  Rows are CSV (csv.h number format): the
+ * varied values, a status, then the outputs.  Each thread works on its own copy of the model with
+ * its own solver workspaces, allocated once; no case allocates.
  *
  * Outputs: the names of the output catalogue (outputs.h; `holdfast sweep
  * --help` lists them with their columns, units and meanings).  Defaults:
@@ -16,10 +17,10 @@
  * `run` and the report: nothing re-reads a file), or both in one pass.
  *
  * Status column: ok, invalid (a parameter value the model refuses),
- * unsupported, no_convergence, no_equilibrium, failed (other).  A case that
- * fails keeps its varied values and status and all its outputs are left
- * empty (never NaN, never the rest-pose numbers of a case whose equilibrium
- * under a load was not found). */
+ * unsupported, no_convergence, no_equilibrium (a load of the outputs that
+ * no equilibrium holds), failed (other).  A case that fails keeps its varied values and status and
+ * all its outputs are left empty (never NaN, never the rest-pose numbers of a case whose
+ * equilibrium under a load was not found). */
 #ifndef HOLDFAST_SWEEP_H
 #define HOLDFAST_SWEEP_H
 
@@ -153,8 +154,9 @@ hf_status hf_sweep_case_row(hf_sweep *s, uint64_t k, char *buf, size_t cap, hf_e
 
 /* Evaluates one scalar output (hf_output_is_scalar) of model m at its
  * rest pose with the workspace ws (borrowing m; warm starts are used).
- * bal may be NULL unless o is HF_OUT_OFFSET (then the surge offset is
- * returned).  Fills *value in SI (N, N/m, N m/rad, -, m).  Returns HF_OK or
+ * bal may be NULL unless hf_output_needs_balance(o): then the output is
+ * taken at the intact equilibrium under its load (HF_OUT_OFFSET: the surge
+ * offset).  Fills *value in SI (N, N/m, N m/rad, -, m).  Returns HF_OK or
  * the solver's status (HF_EINVAL, HF_EUNSUPPORTED, HF_ENOCONV,
  * HF_ENOEQUIL) with a message. */
 hf_status hf_sweep_output_eval(const hf_model *m, hf_spread *ws, hf_balance *bal,
@@ -183,10 +185,12 @@ void hf_sweep_vary_clear(hf_vary *v);
 uint64_t hf_sweep_failed_count(const hf_sweep *s);
 
 /* When a row written so far has an overloaded line (alert column
- * "overloaded": max utilisation T/MBL >= 1 at rest), formats into buf (cap
- * bytes, cut to fit) "line <name> is overloaded: utilisation <u> at case
- * <path>=<value> <unit>, ..." for the first such case and returns 1; else
- * returns 0 and leaves buf alone. */
+ * "overloaded": max utilisation T/MBL >= 1 at rest or at an equilibrium
+ * under a load of the outputs), formats into buf (cap bytes, cut to fit)
+ * "line <name> is overloaded: utilisation <u>[ at the intact equilibrium
+ * under load <load>,] at case <path>=<value> <unit>, ..." for the first
+ * such case (the largest of its utilisations) and returns 1; else returns
+ * 0 and leaves buf alone. */
 int hf_sweep_overload_text(const hf_sweep *s, char *buf, size_t cap);
 
 #endif
