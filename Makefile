@@ -204,7 +204,7 @@ $(BUILD)/holdfast.pc: mk/holdfast.pc.in $(BUILD)/flags FORCE
 install: $(BIN) $(SHLIB_DEV) $(LIB) $(BUILD)/holdfast.pc
 	install -D -m 755 $(BIN) $(DESTDIR)$(BINDIR)/holdfast
 	install -D -m 644 docs/holdfast.1 $(DESTDIR)$(MANDIR)/man1/holdfast.1
-	install -D -m 755 $(SHLIB) $(DESTDIR)$(LIBDIR)/$(notdir $(SHLIB))
+	install -D -m 644 $(SHLIB) $(DESTDIR)$(LIBDIR)/$(notdir $(SHLIB))
 	ln -sf $(notdir $(SHLIB)) $(DESTDIR)$(LIBDIR)/$(notdir $(SHLIB_SONAME))
 	ln -sf $(notdir $(SHLIB_SONAME)) $(DESTDIR)$(LIBDIR)/$(notdir $(SHLIB_DEV))
 	install -D -m 644 $(LIB) $(DESTDIR)$(LIBDIR)/libholdfast.a

@@ -437,31 +437,6 @@ static hf_status choose(ctx *c, const node *n, const char *what, const char *con
 static const char *const site_keys[] = {"depth",        "water_density", "water_level",
                                         "water_levels", "seabed",        NULL};
 
-/* site.seabed: {slope: ANGLE, toward: ANGLE} (issue 15): a plane through the
- * datum seabed at the hull's rest position, rising at `slope` (0 to below
- * HF_MODEL_MAX_SLOPE) toward the global direction `toward` (default 0). */
-static const char *const seabed_keys[] = {"slope", "toward", NULL};
-
-static hf_status load_seabed(ctx *c, const node *n)
-{
-    hf_site *s = &c->m->site;
-    size_t mark = pushkey(c, "seabed");
-    hf_status st = map_check(c, n, "the seabed", seabed_keys, "key");
-    if (st == HF_OK)
-        st = req_quantity(c, n, "slope", HF_DIM_ANGLE, NONNEG, &s->seabed_slope);
-    if (st == HF_OK && !(s->seabed_slope < HF_MODEL_MAX_SLOPE)) {
-        char gotbuf[96];
-        size_t m2 = pushkey(c, "slope");
-        st = fail(c, get(n, "slope"), "expected an angle from 0 to below %.4g deg, got %s",
-                  HF_MODEL_MAX_SLOPE * 180.0 / M_PI, GOT(get(n, "slope")));
-        pop(c, m2);
-    }
-    if (st == HF_OK)
-        st = opt_quantity(c, n, "toward", HF_DIM_ANGLE, ANY, &s->seabed_toward);
-    pop(c, mark);
-    return st;
-}
-
 /* site.water_levels (helper A, issue 13): a list of still water levels; a
  * list of two is the range [low, high], expanded to low, low + 0.1 m, ...
  * and high itself (HF_MODEL_LEVEL_STEP), each rounded to 1e-9 m so that 1.9
@@ -503,6 +478,31 @@ static hf_status water_levels(ctx *c, const node *n, hf_site *s)
     s->water_levels[k++] = v[1];
     s->nwater_levels = k;
     return HF_OK;
+}
+
+/* site.seabed: {slope: ANGLE, toward: ANGLE} (issue 15): a plane through the
+ * datum seabed at the hull's rest position, rising at `slope` (0 to below
+ * HF_MODEL_MAX_SLOPE) toward the global direction `toward` (default 0). */
+static const char *const seabed_keys[] = {"slope", "toward", NULL};
+
+static hf_status load_seabed(ctx *c, const node *n)
+{
+    hf_site *s = &c->m->site;
+    size_t mark = pushkey(c, "seabed");
+    hf_status st = map_check(c, n, "the seabed", seabed_keys, "key");
+    if (st == HF_OK)
+        st = req_quantity(c, n, "slope", HF_DIM_ANGLE, NONNEG, &s->seabed_slope);
+    if (st == HF_OK && !(s->seabed_slope < HF_MODEL_MAX_SLOPE)) {
+        char gotbuf[96];
+        size_t m2 = pushkey(c, "slope");
+        st = fail(c, get(n, "slope"), "expected an angle from 0 to below %.4g deg, got %s",
+                  HF_MODEL_MAX_SLOPE * 180.0 / M_PI, GOT(get(n, "slope")));
+        pop(c, m2);
+    }
+    if (st == HF_OK)
+        st = opt_quantity(c, n, "toward", HF_DIM_ANGLE, ANY, &s->seabed_toward);
+    pop(c, mark);
+    return st;
 }
 
 static hf_status load_site(ctx *c, const node *n)

@@ -218,13 +218,21 @@ static void print_condition(FILE *out, const hf_model *m, const hf_balance_resul
             why[0] ? "; " : "", why);
 }
 
+/* A direction in the one convention of every output: degrees in [0, 360),
+ * counter-clockwise from global x (issue 13; + 0.0 turns -0 into 0). */
+static double deg360(double rad)
+{
+    double d = fmod(rad * RAD2DEG, 360.0);
+    return d < 0.0 ? d + 360.0 : d + 0.0;
+}
+
 static void print_load(FILE *out, const hf_load *l, const double f[3])
 {
     fprintf(out, "\n== load %s: resultant %.1f kN toward %.1f deg, yaw moment %.1f kN m\n", l->name,
-            hypot(f[0], f[1]) / 1e3, atan2(f[1], f[0]) * RAD2DEG, f[2] / 1e3);
+            hypot(f[0], f[1]) / 1e3, deg360(atan2(f[1], f[0])), f[2] / 1e3);
     if (l->force > 0.0)
         fprintf(out, "   direct force %.1f kN toward %.1f deg\n", l->force / 1e3,
-                l->direction * RAD2DEG);
+                deg360(l->direction));
     for (size_t k = 0; k < l->ndrag; k++) {
         const hf_drag *d = &l->drag[k];
         double q = 0.0;
@@ -232,7 +240,7 @@ static void print_load(FILE *out, const hf_load *l, const double f[3])
         fprintf(out,
                 "   drag 1/2 rho C A V^2 = 1/2 x %.4g x %.4g x %.4g m^2 x (%.4g m/s)^2 = "
                 "%.1f kN toward %.1f deg\n",
-                d->density, d->coefficient, d->area, d->speed, q / 1e3, d->direction * RAD2DEG);
+                d->density, d->coefficient, d->area, d->speed, q / 1e3, deg360(d->direction));
     }
     fprintf(out, "   (loads are fixed in the global frame)\n");
 }

@@ -25,7 +25,8 @@ static const char usage_text[] =
     "A case without a studies: section gets the default report: every line at\n"
     "rest (rest.csv), the stiffness (stiffness.csv), restoring curves along the\n"
     "hull's surge and sway axes (surge-curve.csv, sway-curve.csv) and the balance\n"
-    "of every load case, intact and each line broken (balance.csv).\n"
+    "of every load case, intact and each line broken, at every still water level\n"
+    "the case declares (balance.csv).\n"
     "\n"
     "  --out DIR   results folder (created when missing; replaced as a whole)\n"
     "  --jobs N    threads for sweep studies (default: every processor)\n"
@@ -176,7 +177,8 @@ static void default_note(hf_report *rep, const hf_model *m)
              "(docs/case-format.md).",
              r, r,
              m->nloads ? ", and the mean position under every load case, intact and with each "
-                         "line broken, checked against the criteria"
+                         "line broken, at every still water level the case declares, checked "
+                         "against the criteria"
                        : "; the case has no load cases, so no criteria checks are made");
     hf_report_note(rep, "note", text);
 }

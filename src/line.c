@@ -118,6 +118,15 @@ static double pload(const hf_line *line, size_t i)
     return i + 1 < line->n ? line->joint[i].load : 0.0;
 }
 
+/* 1 when some joint carries a net lift (a buoy). */
+static int has_buoy(const hf_line *line)
+{
+    for (size_t k = 0; k + 1 < line->n; k++)
+        if (line->joint[k].load < 0.0)
+            return 1;
+    return 0;
+}
+
 /* max(v, 0) as a comparison (fmax is a library call without -ffinite-math-only). */
 static double pos(double v)
 {
@@ -983,11 +992,12 @@ static const char *unsupp_msg(int why)
     return msg_no_arc;
 }
 static const char msg_buoy_search[] =
-    "no shape with a single touchdown fits this line with its buoys (the buoys can lift "
-    "stretches of it off the seabed in more than one way); not supported";
+    "no equilibrium found for this line with its buoys (Newton from several starts, the "
+    "bracketing search and a continuation in the buoys' lift): its shape is likely outside the "
+    "model (a hump spanning more than the two sections beside its buoy); not supported";
 static const char msg_slack_buoy[] =
-    "no shape fits: hanging slack, the line's buoy would lift part of it (a second seabed "
-    "contact), and no taut shape with a single touchdown was found; not supported";
+    "hanging slack (H = 0) a buoy would lift a loop of the laid part, which this version of the "
+    "model does not cover, and no taut shape was found; not supported";
 
 /* ------------------------------------------------------------------------
  * Newton on (H, V) with a backtracking line search; the driver owns the loop.
@@ -1004,6 +1014,7 @@ typedef struct {
     int evals;
     int max_backtrack; /* line-search halvings per iteration (options) */
     double ferr;       /* estimated relative force error at the solution */
+    int buoyed;        /* the line has a buoy: V at the fairlead may be <= 0 */
 } newton_t;
 
 static double merit(const newton_t *s, const walk_t *w)
@@ -1103,8 +1114,8 @@ static hf_status newton_iterate(newton_t *s)
     double a = 1.0;
     if (s->H + dH < 0.1 * s->H)
         a = fmin(a, 0.9 * s->H / -dH); /* keep H > 0 */
-    if (s->Z > 0.0 && s->V > 0.0 && s->V + a * dV < 0.1 * s->V)
-        a = fmin(a, 0.9 * s->V / -dV); /* stay where the line is lifted */
+    if (s->Z > 0.0 && s->V > 0.0 && s->V + a * dV < 0.1 * s->V && !s->buoyed)
+        a = fmin(a, 0.9 * s->V / -dV); /* stay where the line is lifted (no buoy: V > 0) */
     for (int i = 0; i < s->max_backtrack; i++, a *= 0.5) {
         double H = s->H + a * dH, V = s->V + a * dV;
         s->evals++;
@@ -1198,7 +1209,13 @@ static int solve_v(inner_t *base, double H, double *V)
     newton_t *s = base->s;
     inner_t in = {s, H, base->inner, base->opt};
     gsl_function F = {inner_f, &in};
-    double lo = 0.0, hi = fmax(fabs(hf_line_weight(s->line)), 1.0);
+    /* With buoys the line may arrive at the fairlead from above (V < 0):
+     * V is at least minus the buoys' total lift. */
+    double lo = 0.0, hi = fmax(fabs(hf_line_weight(s->line)), 1.0), lift = 0.0;
+    for (size_t k = 0; k + 1 < s->line->n; k++)
+        lift += pos(-s->line->joint[k].load);
+    if (lift > 0.0)
+        lo = -lift;
     double fhi = inner_f(hi, &in);
     for (int i = 0; i < base->opt->max_bracket && !(fhi >= 0.0); i++) {
         lo = hi;
@@ -1211,13 +1228,13 @@ static int solve_v(inner_t *base, double H, double *V)
         *V = hi;
         return 0;
     }
-    if (lo == 0.0) {
+    if (lo <= 0.0) {
         /* The bracket must straddle the root: GSL reports an error otherwise
-         * (and aborts a program that kept GSL's default handler).  z(H, 0) > Z
-         * would need V < 0, which this search does not cover. */
-        double flo = inner_f(0.0, &in);
+         * (and aborts a program that kept GSL's default handler).  Without a
+         * buoy z(H, 0) > Z would need V < 0: no such shape. */
+        double flo = inner_f(lo, &in);
         if (flo == 0.0) {
-            *V = 0.0;
+            *V = lo;
             return 0;
         }
         if (!(flo < 0.0))
@@ -1666,14 +1683,6 @@ static hf_status state_from_walk(const hf_line *line, const newton_t *s, hf_line
     return HF_OK;
 }
 
-static int has_buoy(const hf_line *line)
-{
-    for (size_t k = 0; k + 1 < line->n; k++)
-        if (line->joint[k].load < 0.0)
-            return 1;
-    return 0;
-}
-
 /* Is the converged walk a shape inside the model?  Where the walk found
  * none (w->unsupp) it falls back on the single-contact map, whose roots are
  * then not equilibria of the line. */
@@ -1786,6 +1795,7 @@ static hf_status solve_general(const hf_line *line, double X, double Z, double s
     s.max_backtrack = opt->max_backtrack;
     s.H = s.V = s.f = 0.0;
     s.ferr = INFINITY;
+    s.buoyed = has_buoy(line);
     s.w = &s.buf[0];
     s.trial = &s.buf[1];
     double H0, V0;

@@ -507,6 +507,8 @@ static void scope_begin(hf_report *r, const hf_model *m)
     r->scope_load = hf_calloc(m->nloads ? m->nloads : 1, 1);
     r->scope_cond = hf_calloc(m->nlines + 1, 1);
     r->scope_lost = !r->scope_load || !r->scope_cond;
+    if (m->design && m->design->nenv) /* issue 14: environments declared */
+        r->scope_lost |= !(r->scope_env = hf_calloc(m->design->nenv, 1));
 }
 
 static void scope_free(hf_report *r)
@@ -514,6 +516,8 @@ static void scope_free(hf_report *r)
     hf_free(r->scope_load);
     hf_free(r->scope_cond);
     r->scope_load = r->scope_cond = NULL;
+    hf_free(r->scope_env);
+    r->scope_env = NULL;
 }
 
 /* Two levels are one when they differ by less than a micrometre (levels are
@@ -543,6 +547,19 @@ void hf_report_scope_add(hf_report *r, size_t load, size_t cond, double level)
         r->scope_lost = 1;
 }
 
+void hf_report_scope_add_env(hf_report *r, size_t env, size_t cond)
+{
+    const hf_model *m = r->model;
+    if (!m || !m->design || !r->scope_env || !r->scope_cond || env >= m->design->nenv ||
+        cond > m->nlines) {
+        r->scope_lost = 1;
+        return;
+    }
+    r->nscoped++;
+    r->scope_env[env] = 1;
+    r->scope_cond[cond] = 1;
+}
+
 size_t hf_report_levels_declared(const hf_model *m, double *out, size_t cap)
 {
     return m ? hf_analysis_envelope_levels(m, out, cap) : 0;
@@ -554,6 +571,7 @@ typedef struct {
     size_t levels, levels_done; /* declared still water levels, of them checked */
     double lo, hi;              /* the declared levels' range, m */
     size_t conds, conds_done;   /* conditions: intact + each line broken */
+    size_t envs, envs_done;     /* issue 14: declared environments, of them checked */
     int complete;               /* every declared load, level and condition checked */
 } scope_count;
 
@@ -579,8 +597,12 @@ static void scope_counts(const hf_report *r, scope_count *c)
                 break;
             }
     }
+    c->envs = m->design ? m->design->nenv : 0;
+    for (size_t i = 0; i < c->envs && r->scope_env; i++)
+        c->envs_done += r->scope_env[i];
     c->complete = !r->scope_lost && c->loads > 0 && c->loads_done == c->loads &&
-                  c->conds_done == c->conds && c->levels_done == c->levels;
+                  c->conds_done == c->conds && c->levels_done == c->levels &&
+                  c->envs_done == c->envs;
 }
 
 /* "1.9 m" or "0 to 3.4 m" for the range lo..hi. */
@@ -609,6 +631,10 @@ static void scope_sentence(const scope_count *c, char *buf, size_t cap)
              c->loads_done, c->loads, c->loads == 1 ? "" : "s", c->levels_done, c->levels,
              c->levels == 1 ? "" : "s", lv, c->conds_done, c->conds, c->conds - 1,
              c->conds == 2 ? "" : "s");
+    size_t n = strlen(buf);
+    if (c->envs && n < cap) /* issue 14 */
+        snprintf(buf + n, cap - n, "; design offsets: %zu of %zu environment%s", c->envs_done,
+                 c->envs, c->envs == 1 ? "" : "s");
 }
 
 /* What was left out, for the amber banner. */
@@ -628,6 +654,9 @@ static void scope_missing(const hf_report *r, const scope_count *c, char *buf, s
                               " %zu condition%s (intact or a line broken) not "
                               "checked;",
                               c->conds - c->conds_done, c->conds - c->conds_done == 1 ? "" : "s");
+    if (c->envs_done < c->envs && n < cap) /* issue 14 */
+        n += (size_t)snprintf(buf + n, cap - n, " %zu environment%s not checked;",
+                              c->envs - c->envs_done, c->envs - c->envs_done == 1 ? "" : "s");
     if ((r->scope_lost || r->nscoped < r->nchecks) && n < cap)
         snprintf(buf + n, cap - n, " some checks did not record what they covered;");
 }
@@ -986,6 +1015,12 @@ hf_status hf_report_svg_elevation_group(FILE *out, const hf_model *m, const size
     char title[256];
     if (s == HF_OK) {
         elevation_title(m, idx[0], st, title, sizeof title);
+        if (n > 1) { /* "Lines ne and 3 more: ..." - the figure stands for all of them */
+            char kn[48];
+            hf_report_number(kn, sizeof kn, st->tension / 1e3, 4);
+            snprintf(title, sizeof title, "Lines %.120s and %zu more: fairlead tension %s kN, %s",
+                     m->lines[idx[0]].name, n - 1, kn, hf_line_regime_name(st->regime));
+        }
         e.title = title;
         s = n == 1 ? hf_svg_figure_elevation(out, &e, standalone, err)
                    : hf_svg_figure_elevation_group(out, &e, names, n, standalone, err);
@@ -1115,107 +1150,4 @@ hf_status hf_report_svg_curve(FILE *out, const hf_model *m, const hf_analysis_cu
     hf_free(names);
     hf_free(lim);
     return s;
-}
-
-/* ---- balance over a water-level envelope (helper A, issue 13) ---- */
-
-/* A factor cell: the number, or "-" when none was found. */
-static void factor_cell(char *buf, size_t cap, double v, const hf_analysis_where *w)
-{
-    if (w->load == (size_t)-1)
-        snprintf(buf, cap, "-");
-    else
-        hf_report_number(buf, cap, v, 4);
-}
-
-/* The anchors' table of the envelope. */
-static void envelope_anchors(hf_report *r, const hf_model *m, const hf_analysis_envelope *e)
-{
-    static const char *const cols[] = {
-        "anchor",         "kind",          "largest load (kN)",           "uplift angle (deg)",
-        "sliding factor", "uplift factor", "required (sliding / uplift)", "check",
-        "where"};
-    hf_report_table_begin(r,
-                          m->criteria.anchor_ignore_friction
-                              ? "Anchors over the envelope (anchor loads with the seabed "
-                                "friction of the grounded line ignored)"
-                              : "Anchors over the envelope (anchor loads with the seabed "
-                                "friction of the grounded line)",
-                          cols, 9);
-    for (size_t i = 0; i < m->nlines && i < e->nlines; i++) {
-        const hf_analysis_envelope_line *el = &e->line[i];
-        const hf_anchor *a = &m->lines[i].anchor_spec;
-        char ld[32], ang[32], sl[32], up[32], req[64], chk[96], w[2 * HF_MODEL_MAX_NAME + 64];
-        factor_cell(ld, sizeof ld, el->anchor_load / 1e3, &el->anchor_load_at);
-        factor_cell(ang, sizeof ang, el->angle * 180.0 / M_PI, &el->angle_at);
-        factor_cell(sl, sizeof sl, el->sliding, &el->sliding_at);
-        factor_cell(up, sizeof up, el->uplift, &el->uplift_at);
-        double rs, ru;
-        hf_criteria_block_required(&m->criteria, a, &rs, &ru);
-        if (a->kind == HF_ANCHOR_GRAVITY)
-            snprintf(req, sizeof req, "%.2f / %.2f", rs, ru);
-        else if (a->kind == HF_ANCHOR_DRAG)
-            snprintf(req, sizeof req, "angle <= %.2f deg", a->max_uplift_angle * 180.0 / M_PI);
-        else
-            snprintf(req, sizeof req, "reported only");
-        const hf_analysis_where *at = &el->anchor_load_at;
-        if (el->anchor_failed) {
-            snprintf(chk, sizeof chk, "FAIL in %zu conditions", el->anchor_failed);
-            at = &el->anchor_fail_at;
-        } else {
-            snprintf(chk, sizeof chk, "%s",
-                     a->kind == HF_ANCHOR_PILE || a->kind == HF_ANCHOR_PLATE ? "-" : "PASS");
-            if (a->kind == HF_ANCHOR_GRAVITY && el->sliding_at.load != (size_t)-1)
-                at = &el->sliding_at;
-        }
-        hf_results_where(m, at, w, sizeof w);
-        const char *cells[] = {hf_results_line_name(m, i),
-                               hf_criteria_anchor_kind_name(a->kind),
-                               ld,
-                               ang,
-                               a->kind == HF_ANCHOR_GRAVITY ? sl : "-",
-                               a->kind == HF_ANCHOR_GRAVITY ? up : "-",
-                               req,
-                               chk,
-                               w};
-        hf_report_table_row(r, cells);
-    }
-    hf_report_table_end(r);
-}
-
-void hf_report_balance_envelope(hf_report *r, const hf_model *m, const hf_analysis_envelope *e)
-{
-    char scope[512], text[1024], w[2 * HF_MODEL_MAX_NAME + 64];
-    hf_results_envelope_scope(m, e, scope, sizeof scope);
-    snprintf(text, sizeof text, "Covered: %s.", scope);
-    hf_report_paragraph(r, text);
-    static const char *const cols[] = {"line", "largest tension (kN)", "utilisation T/MBL", "MBL/T",
-                                       "load case, condition, water level"};
-    hf_report_table_begin(r, "Worst tension of each line over the envelope", cols, 5);
-    for (size_t i = 0; i < m->nlines && i < e->nlines; i++) {
-        const hf_analysis_envelope_line *el = &e->line[i];
-        char t[32], u[32], f[32];
-        factor_cell(t, sizeof t, el->tension / 1e3, &el->at);
-        factor_cell(u, sizeof u, el->utilisation, &el->at);
-        factor_cell(f, sizeof f, el->utilisation > 0 ? 1.0 / el->utilisation : NAN, &el->at);
-        hf_results_where(m, &el->at, w, sizeof w);
-        const char *cells[] = {hf_results_line_name(m, i), t, u, f, w};
-        hf_report_table_row(r, cells);
-    }
-    hf_report_table_end(r);
-    envelope_anchors(r, m, e);
-    if (e->overloaded) {
-        hf_results_where(m, &e->overload_at, w, sizeof w);
-        snprintf(text, sizeof text,
-                 "OVERLOADED: %zu conditions have a line at or beyond its MBL; worst: %s at "
-                 "T/MBL %.3f (%s).",
-                 e->overloaded, hf_results_line_name(m, e->overload_line), e->overload_utilisation,
-                 w);
-        hf_report_note(r, "warning", text);
-    }
-    hf_results_where(m, &e->first_failed, w, sizeof w);
-    snprintf(text, sizeof text, "%zu of %zu conditions passed%s%s", e->count.passed,
-             e->count.conditions, e->count.failed ? "; first failure: " : "",
-             e->count.failed ? w : "");
-    hf_report_check(r, "balance envelope", scope, text, e->count.failed == 0);
 }

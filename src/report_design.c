@@ -296,6 +296,7 @@ static void env_table(hf_report *rep, const hf_model *m, const char *env, const 
         else
             snprintf(res, sizeof res, "no result");
         hf_report_check(rep, item, req, res, c->ok && c->passed);
+        hf_report_scope_add_env(rep, hf_designdata_env_find(m->design, env), i);
     }
 }
 

@@ -10,7 +10,7 @@
 #      pointed into the tree (PKG_CONFIG_SYSROOT_DIR, PKG_CONFIG_PATH), run
 #      with LD_LIBRARY_PATH into it; every number it prints is compared with
 #      the installed program's CSV for the same case (cases/barge.yaml,
-#      cases/student.yaml), cell by cell;
+#      cases/student.yaml), cell by cell, also the session API's tables;
 #   3. `import holdfast` from the installed Python package (when there is
 #      one, and not in sanitizer builds: an instrumented library cannot be
 #      loaded into an uninstrumented python3);
@@ -87,8 +87,9 @@ hf=$u/bin/holdfast
 # with TITLE (a header of CSV column names, then rows, up to a blank line or
 # the next "== ") against the CSV file: same number of rows, and in each row
 # every column the example prints equal to the CSV's cell of that name:
-# text exactly, numbers to the CSV's printed digits (%.10g: 2e-9 relative)
-# or 1e-6 absolute (values printed near zero are rounding noise).
+# text exactly ("-" stands for an empty cell), numbers to the CSV's printed
+# digits (%.10g: 2e-9 relative) or 1e-6 absolute (values printed near zero
+# are rounding noise).
 compare() {
     awk -v title="$1" -v what="$1" '
     function num(s) { return s ~ /^[-+]?([0-9]+\.?[0-9]*|\.[0-9]+)([eE][-+]?[0-9]+)?$/ }
@@ -113,7 +114,7 @@ compare() {
             for (i = 1; i <= nc; i++) {
                 e = ev[r, i]; c = cv[r, at[col[i]]]; cells++
                 if (num(e) && num(c)) same = abs(e - c) <= 2e-9 * abs(c) + 1e-6
-                else same = (e == c)
+                else same = (e == c) || (e == "-" && c == "")
                 if (!same) { print "install-check: FAIL: " what ": row " r ", " col[i] ": example " e ", CLI " c; bad++ }
             }
         }
@@ -126,6 +127,12 @@ compare "== stiffness at rest" "$tmp/stiffness.csv"
 compare "== curve toward 30 deg" "$tmp/curve.csv"
 compare "== balance" "$tmp/balance.csv"
 compare "== parameter site.water_level" "$tmp/sweep.csv"
+compare "== session: lines at offset" "$tmp/lines.csv"
+compare "== session: stiffness at rest" "$tmp/stiffness.csv"
+grep -qx '== session: site.water_level set to "150 cm" reads 1.5 m (SI)' "$tmp/example.out" ||
+    bad "session: site.water_level set from \"150 cm\" does not read 1.5 m"
+grep -q '^== session: site.depth = "-3 m": invalid input: site.depth: ' "$tmp/example.out" ||
+    bad "session: a negative depth was not refused with a message naming site.depth"
 
 # The case given as a string is cases/student.yaml's line: same tension.
 "$hf" lines cases/student.yaml --csv "$tmp/student.csv" >/dev/null 2>&1 || bad "holdfast lines student"

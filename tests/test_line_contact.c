@@ -5,8 +5,10 @@
  * the classical catenary identities of each arc (Irvine, Cable Structures,
  * 1981, ch. 1: H constant along an arc, T = w z + const, s = a tan(theta)),
  * an independent integration of the cable's equilibrium ODEs (GSL odeiv2)
- * from the fairlead down through every landing and lift-off, and central
- * differences for the analytic Jacobian. */
+ * from the fairlead down through every landing and lift-off, the bar-chain
+ * reference model (tests/barchain.h: bars, lumped weights, penalty seabed,
+ * Newton by continuation, refined N/2N/4N; no catenary formula) per shape
+ * class, and central differences for the analytic Jacobian. */
 #include <setjmp.h>
 #include <stdarg.h>
 #include <stddef.h>
@@ -16,6 +18,7 @@
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_odeiv2.h>
 #include "support.h"
+#include "barchain.h"
 #include "holdfast/line.h"
 
 #define RELERR(a, b) (fabs((a) - (b)) / fmax(fabs(b), 1e-300))
@@ -368,6 +371,92 @@ static void test_hump_on_slack_stretch(void **state)
     }
 }
 
+/* A buoy near the fairlead: the line arrives at the fairlead from above
+ * (V < 0 at the fairlead), the buoy the highest point of the line.  Used
+ * to be refused with a message saying no shape exists (the solver never
+ * searched V < 0). */
+static void test_arriving_from_above(void **state)
+{
+    (void)state;
+    hf_line l;
+    memset(&l, 0, sizeof l);
+    l.n = 3;
+    l.sec[0] = (hf_section){250.0, 1000.0, 5e8, 6e6, 0.35, {0.0, 0.0, 0.0}};
+    l.sec[1] = (hf_section){150.0, 50.0, 1e8, 2e6, 0.2, {0.0, 0.0, 0.0}};
+    l.sec[2] = (hf_section){30.0, 50.0, 1e8, 2e6, 0.2, {0.0, 0.0, 0.0}};
+    l.joint[1] = (hf_joint){-60e3, 0.5};
+    const double cases[4][2] = {{340.0, 40.0}, {382.5, 40.0}, {417.3, 61.7}, {381.2, 78.4}};
+    for (size_t i = 0; i < 4; i++) {
+        hf_line_state s;
+        hf_status st = hf_line_solve(&l, cases[i][0], cases[i][1], NULL, NULL, &s);
+        if (st != HF_OK)
+            fail_msg("X = %g, Z = %g: %s", cases[i][0], cases[i][1], s.message);
+        if (!(s.v < 0.0))
+            fail_msg("X = %g, Z = %g: V = %g, expected < 0 (arriving from above)", cases[i][0],
+                     cases[i][1], s.v);
+        assert_true(s.z_max > cases[i][1]); /* the buoy above the fairlead */
+        assert_true(s.residual <= 1e-9);
+        verify_by_ode(&l, &s);
+        check_jacobian(&l, s.h, s.v);
+    }
+}
+
+/* The closed form against the converged bar chain: worst relative
+ * difference of H and V (to the fairlead tension) for one shape class,
+ * printed and held to tol.  Returns that difference. */
+static double against_barchain(const char *cls, const hf_line *line, double x, double z, double tol)
+{
+    hf_line_state s;
+    hf_status st = hf_line_solve(line, x, z, NULL, NULL, &s);
+    if (st != HF_OK)
+        fail_msg("%s: %s", cls, s.message);
+    barchain_refined b;
+    memset(&b, 0, sizeof b);
+    assert_int_equal(barchain_refine(line, x, z, 400, &b), HF_OK);
+    double t = hypot(s.h, s.v);
+    double d = fmax(fabs(b.h - s.h), fabs(b.v - s.v)) / t;
+    print_message("bar chain, %s: line.c H %.9g V %.9g, bar chain %.9g %.9g (last change %.2g "
+                  "%.2g), %d contacts; difference %.2e of T\n",
+                  cls, s.h, s.v, b.h, b.v, b.h_err, b.v_err, b.fine.contacts, d);
+    if (!(d <= tol))
+        fail_msg("%s: difference %.3e of the tension above %.1e", cls, d, tol);
+    barchain_refined_free(&b);
+    return d;
+}
+
+/* One case per shape class, friction 0 (exact statics in both models; the
+ * friction rule is a convention the bar chain shares node by node). */
+static void test_against_bar_chain(void **state)
+{
+    (void)state;
+    /* hump lifted by a buoy off the grounded line, different sections */
+    hf_line h = two_with_buoy(287.4, 364.9, 802.6, 4.7e8, 0.0, 48.3e3);
+    h.sec[1].weight = 311.8;
+    h.sec[1].ea = 1.9e8;
+    against_barchain("hump", &h, 612.5, 58.4, 2e-4);
+    /* landing sag: chain, buoyed rope, rope */
+    hf_line l;
+    memset(&l, 0, sizeof l);
+    l.n = 3;
+    l.sec[0] = (hf_section){300.0, 1100.0, 5e8, 6e6, 0.0, {0.0, 0.0, 0.0}};
+    l.sec[1] = (hf_section){200.0, 300.0, 3e8, 5e6, 0.0, {0.0, 0.0, 0.0}};
+    l.sec[2] = (hf_section){250.0, 300.0, 3e8, 5e6, 0.0, {0.0, 0.0, 0.0}};
+    l.joint[1] = (hf_joint){-103.7e3, 0.5};
+    against_barchain("landing sag", &l, 414.0, 41.3, 2e-4);
+    /* hump lifting the anchor's end */
+    hf_line a = two_with_buoy(103.7, 546.3, 987.5, 4.9e8, 0.0, 693.4e3);
+    against_barchain("lifted anchor", &a, 431.2, 94.6, 2e-4);
+    /* arriving from above: V < 0 at the fairlead */
+    hf_line f;
+    memset(&f, 0, sizeof f);
+    f.n = 3;
+    f.sec[0] = (hf_section){250.0, 1000.0, 5e8, 6e6, 0.0, {0.0, 0.0, 0.0}};
+    f.sec[1] = (hf_section){150.0, 50.0, 1e8, 2e6, 0.0, {0.0, 0.0, 0.0}};
+    f.sec[2] = (hf_section){30.0, 50.0, 1e8, 2e6, 0.0, {0.0, 0.0, 0.0}};
+    f.joint[1] = (hf_joint){-60e3, 0.5};
+    against_barchain("from above", &f, 382.5, 40.0, 2e-4);
+}
+
 int main(void)
 {
     gsl_set_error_handler_off();
@@ -376,6 +465,8 @@ int main(void)
         cmocka_unit_test(test_humps_with_friction),
         cmocka_unit_test(test_landing_sag_and_lifted_anchor),
         cmocka_unit_test(test_hump_on_slack_stretch),
+        cmocka_unit_test(test_arriving_from_above),
+        cmocka_unit_test(test_against_bar_chain),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
 }

@@ -9,7 +9,9 @@
  * a parameter by path (the paths of `holdfast sweep --vary`), solves every
  * line at a pose, the 6x6 stiffness, a restoring curve and the mean position
  * under each load case, intact and with each line broken, and prints each as
- * a table.  The column names are those of the command line's CSV files
+ * a table; then the same through the session API (session.h), the handle
+ * with ready-made tables that the Python package binds.  The column names are those of the command
+ * line's CSV files
  * (`holdfast lines --csv`, `stiffness --csv`, `curve --csv`, `balance --csv`,
  * `sweep --csv`) and the numbers are printed as those files print them
  * (%.10g), so tests/install-check.sh compares the two cell by cell.
@@ -31,6 +33,7 @@
 #include <holdfast/case.h>
 #include <holdfast/caution.h>
 #include <holdfast/model.h>
+#include <holdfast/session.h>
 #include <holdfast/spread.h>
 #include <holdfast/status.h>
 
@@ -242,6 +245,66 @@ static int parameter(hf_model *m)
     return 0;
 }
 
+/* A session table as text: the header, then one row per line; an empty
+ * cell (no value, or empty text) is printed "-". */
+static void print_table(const char *title, const hf_session_table *t)
+{
+    size_t nr = hf_session_table_rows(t), nc = hf_session_table_columns(t);
+    const double *v = hf_session_table_values(t);
+    printf("%s\n", title);
+    for (size_t j = 0; j < nc; j++)
+        printf("%s%s", j ? " " : "", hf_session_table_column(t, j));
+    printf("\n");
+    for (size_t i = 0; i < nr; i++) {
+        for (size_t j = 0; j < nc; j++) {
+            const char *text = hf_session_table_text(t, i, j);
+            printf("%s", j ? " " : "");
+            if (hf_session_table_is_empty(t, i, j) || (text && !*text))
+                printf("-");
+            else if (text)
+                printf("%s", text);
+            else
+                printf("%.10g", v[i * nc + j]);
+        }
+        printf("\n");
+    }
+}
+
+/* The session API: one handle owns the case and its workspaces; every call
+ * returns a status and leaves its message in the session; tables belong to
+ * the caller. */
+static int session_tour(const char *path)
+{
+    hf_session *s = hf_session_alloc(); /* also installs the GSL handler */
+    if (!s) {
+        fprintf(stderr, "spread_example: session: out of memory\n");
+        return 1;
+    }
+    hf_session_table *lines = NULL, *k = NULL;
+    const double offset[3] = {3, -2, 4 * PI / 180};
+    double level = 0;
+    int bad = hf_session_load_file(s, path) != HF_OK ||
+              hf_session_lines(s, offset, &lines) != HF_OK ||
+              hf_session_stiffness(s, NULL, &k) != HF_OK ||
+              hf_session_set_text(s, "site.water_level", "150 cm") != HF_OK ||
+              hf_session_get(s, "site.water_level", &level) != HF_OK;
+    if (bad) {
+        fprintf(stderr, "spread_example: session: %s\n", hf_session_message(s));
+    } else {
+        print_table("== session: lines at offset surge 3 m, sway -2 m, yaw 4 deg", lines);
+        print_table("== session: stiffness at rest", k);
+        printf("== session: site.water_level set to \"150 cm\" reads %.10g m (SI)\n", level);
+        hf_status st = hf_session_set_text(s, "site.depth", "-3 m");
+        printf("== session: site.depth = \"-3 m\": %s: %s\n", hf_status_str(st),
+               hf_session_message(s));
+        bad = st == HF_OK;
+    }
+    hf_session_table_free(lines);
+    hf_session_table_free(k);
+    hf_session_free(s);
+    return bad;
+}
+
 int main(int argc, char **argv)
 {
     const char *path = argc > 1 ? argv[1] : "cases/barge.yaml";
@@ -254,7 +317,7 @@ int main(int argc, char **argv)
     printf("== case '%s' from %s: %zu lines, %zu load cases\n", m.title, path, m.nlines, m.nloads);
     const double offset[3] = {3, -2, 4 * PI / 180};
     int bad = from_string() || lines_at(&m, offset) || stiffness(&m) || curve(&m) || balance(&m) ||
-              parameter(&m);
+              parameter(&m) || session_tour(path);
     hf_model_free(&m);
     printf("\n%s", hf_caution_text);
     return bad;

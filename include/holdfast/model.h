@@ -26,12 +26,6 @@ typedef struct {
     double depth;         /* water depth from the datum to the flat seabed, m (> 0) */
     double water_level;   /* still water level above the datum (tide), m; default 0 */
     double water_density; /* kg/m^3; default 1025 */
-    /* Sloped seabed (issue 15; case key site.seabed): a plane through the
-     * datum seabed (depth below the datum) at the hull's rest position
-     * (hull.position), rising at seabed_slope toward the global direction
-     * seabed_toward.  Both 0 (the default): flat. */
-    double seabed_slope;  /* rad, 0 <= slope < HF_MODEL_MAX_SLOPE */
-    double seabed_toward; /* rad, counterclockwise from global x: where the seabed rises to */
     /* The envelope of still water levels (tide plus surge) a design check covers
      * (site.water_levels; docs/case-format.md), m above the datum, ascending as given.
      * 0 levels: the case gives none, the checks cover water_level alone.  A case's
@@ -40,6 +34,12 @@ typedef struct {
     size_t nwater_levels;
     int water_levels_range;
     double water_levels[HF_MODEL_MAX_LEVELS];
+    /* Sloped seabed (issue 15; case key site.seabed): a plane through the
+     * datum seabed (depth below the datum) at the hull's rest position
+     * (hull.position), rising at seabed_slope toward the global direction
+     * seabed_toward.  Both 0 (the default): flat. */
+    double seabed_slope;  /* rad, 0 <= slope < HF_MODEL_MAX_SLOPE */
+    double seabed_toward; /* rad, counterclockwise from global x: where the seabed rises to */
 } hf_site;
 
 /* Documented limit: steepest seabed, rad (0.5 rad = 28.6 deg; the line

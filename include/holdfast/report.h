@@ -69,6 +69,8 @@ typedef struct {
     size_t nscope_levels;
     size_t nscoped; /* hf_report_scope_add calls */
     int scope_lost; /* 1: the record is incomplete (no memory, too many levels) */
+    /* issue 14: design checks (hf_report_scope_add_env) */
+    unsigned char *scope_env; /* model->design->nenv flags: environment checked, or NULL */
 } hf_report;
 
 /* Starts the report on `out`: the HTML head with its stylesheet, the title
@@ -124,6 +126,13 @@ void hf_report_check(hf_report *r, const char *item, const char *requirement, co
  * load-case condition (balance studies do).  Indices out of range and
  * non-finite levels are ignored and mark the scope as incomplete. */
 void hf_report_scope_add(hf_report *r, size_t load, size_t cond, double level);
+
+/* Records what a design check covered (issue 14, report_design.c):
+ * environment `env` (index into the case's environments) in condition
+ * `cond` (0 intact, k line k-1 broken).  The verdict then also states how
+ * many of the declared environments were checked.  Out of range: ignored,
+ * the scope marked incomplete. */
+void hf_report_scope_add_env(hf_report *r, size_t env, size_t cond);
 
 /* The still water levels the case declares (m above datum) into out (at
  * most cap; returns how many): site.water_level. */
@@ -206,17 +215,5 @@ size_t hf_report_line_groups(const hf_model *m, const hf_pose *pose, size_t *gro
 hf_status hf_report_svg_curve(FILE *out, const hf_model *m, const hf_analysis_curve *c,
                               const char *title, const char *label, int tension_limits,
                               int standalone, hf_error *err);
-
-/* ---- balance over a water-level envelope (issue 13) ---- */
-
-/* The envelope of a balance study e (run on m) in the open section: its scope
- * (load cases x water levels x conditions), a table of the worst tension of
- * each line with the load case, condition and level that give it, a table of
- * each anchor over the envelope (largest load and uplift angle, smallest
- * gravity-block factors against the required ones, PASS/FAIL with the number
- * of failing conditions and the first), whether anchor loads ignore the
- * line's seabed friction, and one check row for the whole envelope (with the
- * worst overload when a line reached its MBL). */
-void hf_report_balance_envelope(hf_report *r, const hf_model *m, const hf_analysis_envelope *e);
 
 #endif

@@ -136,6 +136,12 @@ class Case:
     def __exit__(self, *exc):
         self.close()
 
+    def __repr__(self):
+        if not self._s:
+            return "<holdfast.Case (closed)>"
+        return "<holdfast.Case: %d lines, %d load cases>" % (
+            self._lib.hf_session_nlines(self._s), self._lib.hf_session_nloads(self._s))
+
     # ---- plumbing ----
 
     def _message(self):
@@ -159,7 +165,8 @@ class Case:
     def _warn(self):
         w = _text(self._lib.hf_session_warnings(self._s))
         for line in filter(None, (w or "").split("\n")):
-            warnings.warn(line, HoldfastWarning, stacklevel=3)
+            # 4: the caller of lines()/curve()/balance() (_warn <- _table <- method)
+            warnings.warn(line, HoldfastWarning, stacklevel=4)
 
     def _table(self, call, *args):
         """(column names, text flags, rows) of the table `call` returns.  The
