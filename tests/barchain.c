@@ -15,8 +15,6 @@
 #include <float.h>
 #include <math.h>
 #include <string.h>
-#include <gsl/gsl_errno.h>
-#include <gsl/gsl_odeiv2.h>
 #include "holdfast/alloc.h"
 
 typedef struct {
@@ -191,6 +189,12 @@ static void chain_fill(chain *c, const size_t *m)
 
 /* ---- residual and Jacobian ---- */
 
+/* 1 when node k touches the seabed (within 1e-9 of the line's length). */
+static int on_seabed(const chain *c, size_t k)
+{
+    return -c->sa * c->px[k] + c->ca * c->pz[k] <= 1e-9 * c->ltot;
+}
+
 /* Tension, stiffness and direction of every bar at the current positions. */
 static void bars_eval(chain *c)
 {
@@ -198,8 +202,15 @@ static void bars_eval(chain *c)
         double dx = c->px[j + 1] - c->px[j], dz = c->pz[j + 1] - c->pz[j];
         double len = hypot(dx, dz);
         double eps = len / c->l[j] - 1.0, dtde;
-        double tt = eps > 0 ? law_tension(&c->line->sec[c->sec[j]], eps, &dtde)
-                            : (dtde = c->kc, c->kc * eps);
+        const hf_section *sec = &c->line->sec[c->sec[j]];
+        double kc = c->kc;
+        if (eps <= 0 && sec->friction > 0 && on_seabed(c, j) && on_seabed(c, j + 1)) {
+            /* a grounded bar with friction lies straight, as pulled taut (the
+             * closed form's convention): it resists shortening with its
+             * stiffness at slack, so no slack can bunch up under friction */
+            law_tension(sec, 1e-12, &kc);
+        }
+        double tt = eps > 0 ? law_tension(sec, eps, &dtde) : (dtde = kc, kc * eps);
         double ex = len > 0 ? dx / len : 1.0, ez = len > 0 ? dz / len : 0.0;
         double kl = dtde / c->l[j], kg = len > 0 ? tt / len : 0.0;
         c->t[j] = tt, c->dt[j] = kl, c->len[j] = len, c->ex[j] = ex, c->ez[j] = ez;
@@ -613,55 +624,4 @@ hf_status barchain_refine(const hf_line *line, double x, double z, size_t n, bar
     for (int q = 0; q < 3; q++)
         barchain_result_free(&lv[q]);
     return st;
-}
-
-/* ---- the elastic catenary ODEs (barchain_ode_span) ---- */
-
-typedef struct {
-    const hf_section *s;
-    double h, vb; /* H, and V at the section's lower end */
-} ode_par;
-
-static int ode_rhs(double t, const double y[], double f[], void *params)
-{
-    const ode_par *p = params;
-    double v = p->vb + p->s->weight * t, tt = hypot(p->h, v), e;
-    if (has_law(p->s)) {
-        double d;
-        e = law_eps(p->s, tt / p->s->mbl, &d);
-    } else {
-        e = tt / p->s->ea;
-    }
-    (void)y;
-    f[0] = (1.0 + e) * p->h / tt;
-    f[1] = (1.0 + e) * v / tt;
-    return GSL_SUCCESS;
-}
-
-hf_status barchain_ode_span(const hf_line *line, double h, double v, double *x, double *z)
-{
-    if (!line || line->n < 1 || line->n > HF_LINE_MAX_SECTIONS || !(h > 0) || !isfinite(h) ||
-        !isfinite(v))
-        return HF_EINVAL;
-    double ltot = hf_line_length(line), vb = v - hf_line_weight(line); /* V at the anchor */
-    double y[2] = {0.0, 0.0};
-    for (size_t i = 0; i < line->n; i++) {
-        ode_par p = {&line->sec[i], h, vb};
-        gsl_odeiv2_system sys = {ode_rhs, NULL, 2, &p};
-        gsl_odeiv2_driver *d = gsl_odeiv2_driver_alloc_y_new(
-            &sys, gsl_odeiv2_step_rk8pd, 1e-3 * line->sec[i].length, 1e-13 * ltot, 1e-13);
-        if (!d)
-            return HF_ENOMEM;
-        double t = 0.0;
-        int rc = gsl_odeiv2_driver_apply(d, &t, line->sec[i].length, y);
-        gsl_odeiv2_driver_free(d);
-        if (rc != GSL_SUCCESS)
-            return HF_ENOCONV;
-        vb += line->sec[i].weight * line->sec[i].length;
-        if (i + 1 < line->n)
-            vb += line->joint[i].load;
-    }
-    *x = y[0];
-    *z = y[1];
-    return HF_OK;
 }

@@ -97,17 +97,4 @@ hf_status barchain_refine(const hf_line *line, double x, double z, size_t n, bar
 
 void barchain_refined_free(barchain_refined *r);
 
-/* Fairlead position (x, z) relative to the anchor of a fully suspended line
- * carrying fairlead forces h > 0 (horizontal) and v (vertical, down): the
- * elastic catenary's equilibrium ODEs integrated along the unstretched arc,
- *     dx/ds = (1 + e(T)) H / T,   dz/ds = (1 + e(T)) V(s) / T,   dV/ds = w,
- * T = sqrt(H^2 + V^2), section by section from the anchor, V dropping by the
- * joint loads, e(T) each section's strain law (T/EA, or hf_section.strain,
- * extended linearly past T = MBL as in the bar chain).  GSL odeiv2 (rk8pd,
- * relative and absolute tolerance 1e-13 of the line length).  A reference
- * for any strain law, independent of closed forms.  No seabed: the caller
- * picks forces that keep the line above it (V at the anchor > 0 on a flat
- * seabed).  HF_OK, HF_EINVAL (h <= 0, bad line) or HF_ENOCONV. */
-hf_status barchain_ode_span(const hf_line *line, double h, double v, double *x, double *z);
-
 #endif

@@ -15,6 +15,7 @@
 #include <cmocka.h>
 #include "support.h"
 #include "barchain.h"
+#include "barchain_ode.h"
 #include "holdfast/line.h"
 
 #define RELERR(a, b) (fabs((a) - (b)) / fmax(fabs(b), 1e-300))

