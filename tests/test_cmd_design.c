@@ -161,10 +161,42 @@ static void bad_input_exits_2(void **state)
     assert_int_equal(HF_TEST_RUN(&io, "design", barge, "--environment"), 2);
 }
 
+/* The design study of `holdfast run`: its CSV, the report section (well-formed
+ * XML with its figures) and the verdict's scope; a failed design check
+ * makes the run exit 1. */
+static void run_design_study(void **state)
+{
+    (void)state;
+    NEED_BIN();
+    char path[512], outdir[600], file[700];
+    barge_variant("tight-run.yaml", "max_offset: 8 m", "max_offset: 3 m", path, sizeof path);
+    snprintf(outdir, sizeof outdir, "%s/run", dir);
+    assert_int_equal(HF_TEST_RUN(&io, "run", path, "--out", outdir, "--quiet", "--jobs", "1"), 1);
+    snprintf(file, sizeof file, "%s/report.html", outdir);
+    char *html = hf_test_file_read(file, NULL);
+    assert_non_null(html);
+    hf_test_assert_xml(html);
+    assert_non_null(strstr(html, "<title>Motion budget, environment harrowmere-storm</title>"));
+    assert_non_null(strstr(html, "<title>JONSWAP spectrum, environment head-swell</title>"));
+    assert_non_null(strstr(html, "design offsets: 2 of 2 environments"));
+    assert_non_null(strstr(html, "Tensions at the design pose, environment head-swell"));
+    assert_non_null(strstr(html, "FAILED")); /* the 3 m limit fails broken-line conditions */
+    free(html);
+    snprintf(file, sizeof file, "%s/design-storms.csv", outdir);
+    char *csv = hf_test_file_read(file, NULL);
+    assert_non_null(csv);
+    size_t rows = 0;
+    for (const char *p = csv; *p; p++)
+        rows += *p == '\n';
+    assert_int_equal(rows, 1 + 18); /* header, 2 environments x (intact + 8 broken) */
+    free(csv);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
         cmocka_unit_test(csv_rows_and_columns), cmocka_unit_test(human_budget_and_file),
-        cmocka_unit_test(failing_condition_exits_1), cmocka_unit_test(bad_input_exits_2)};
+        cmocka_unit_test(failing_condition_exits_1), cmocka_unit_test(bad_input_exits_2),
+        cmocka_unit_test(run_design_study)};
     return cmocka_run_group_tests(tests, setup, teardown);
 }
