@@ -862,9 +862,14 @@ static hf_status run_design(const hf_model *m, const hf_study *s, int jobs, FILE
                             hf_report *rep, hf_studyrun_outcome *oc, hf_error *err)
 {
     hf_report_design_count n;
+    size_t before = rep->nchecks;
     hf_status st = hf_report_design_study(m, s, out, rep, &n, err);
     if (st != HF_OK)
         return st;
+    /* its checks cover the study's design conditions, not load cases */
+    char what[HF_MODEL_MAX_NAME + 96];
+    snprintf(what, sizeof what, "the %zu conditions of design study %s", n.conditions, s->name);
+    hf_report_scope_extra(rep, rep->nchecks - before, what);
     oc->nonfinite += n.nonfinite;
     oc->criterion_failed = n.failed + n.noresult > 0;
     snprintf(oc->note, sizeof oc->note,

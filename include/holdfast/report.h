@@ -67,8 +67,9 @@ typedef struct {
     unsigned char *scope_cond;                /* 1 + model->nlines flags: condition checked */
     double scope_level[HF_REPORT_MAX_LEVELS]; /* distinct levels checked, m above datum */
     size_t nscope_levels;
-    size_t nscoped; /* hf_report_scope_add calls */
-    int scope_lost; /* 1: the record is incomplete (no memory, too many levels) */
+    size_t nscoped;        /* checks with a recorded scope (scope_add calls, scope_extra counts) */
+    char scope_extra[512]; /* what the hf_report_scope_extra checks covered, "; "-separated */
+    int scope_lost;        /* 1: the record is incomplete (no memory, too many levels) */
 } hf_report;
 
 /* Starts the report on `out`: the HTML head with its stylesheet, the title
@@ -124,6 +125,12 @@ void hf_report_check(hf_report *r, const char *item, const char *requirement, co
  * load-case condition (balance studies do).  Indices out of range and
  * non-finite levels are ignored and mark the scope as incomplete. */
 void hf_report_scope_add(hf_report *r, size_t load, size_t cond, double level);
+
+/* Records that the last n checks written covered something other than a
+ * load-case condition, described by `what` (e.g. "the 18 conditions of
+ * design study storm-design"; copied, cut to fit): they count as having a
+ * scope, and the verdict names them after the load-case scope. */
+void hf_report_scope_extra(hf_report *r, size_t n, const char *what);
 
 /* The still water levels the case declares (m above datum) into out (at
  * most cap; returns how many): site.water_level. */
