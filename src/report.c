@@ -560,6 +560,14 @@ void hf_report_scope_add_env(hf_report *r, size_t env, size_t cond)
     r->scope_cond[cond] = 1;
 }
 
+void hf_report_scope_extra(hf_report *r, size_t n, const char *what)
+{
+    r->nscoped += n;
+    size_t len = strlen(r->scope_extra);
+    if (what && len + 3 < sizeof r->scope_extra)
+        snprintf(r->scope_extra + len, sizeof r->scope_extra - len, "%s%s", len ? "; " : "", what);
+}
+
 size_t hf_report_levels_declared(const hf_model *m, double *out, size_t cap)
 {
     return m ? hf_analysis_envelope_levels(m, out, cap) : 0;
@@ -600,9 +608,10 @@ static void scope_counts(const hf_report *r, scope_count *c)
     c->envs = m->design ? m->design->nenv : 0;
     for (size_t i = 0; i < c->envs && r->scope_env; i++)
         c->envs_done += r->scope_env[i];
-    c->complete = !r->scope_lost && c->loads > 0 && c->loads_done == c->loads &&
-                  c->conds_done == c->conds && c->levels_done == c->levels &&
-                  c->envs_done == c->envs;
+    /* a case without load cases declares no load-case scope to cover */
+    c->complete = !r->scope_lost && c->envs_done == c->envs &&
+                  (c->loads == 0 || (c->loads_done == c->loads && c->conds_done == c->conds &&
+                                     c->levels_done == c->levels));
 }
 
 /* "1.9 m" or "0 to 3.4 m" for the range lo..hi. */
@@ -659,6 +668,9 @@ static void scope_missing(const hf_report *r, const scope_count *c, char *buf, s
                               c->envs - c->envs_done, c->envs - c->envs_done == 1 ? "" : "s");
     if ((r->scope_lost || r->nscoped < r->nchecks) && n < cap)
         snprintf(buf + n, cap - n, " some checks did not record what they covered;");
+    n = strlen(buf);
+    if (n && buf[n - 1] == ';')
+        buf[n - 1] = '.'; /* the list ends a sentence */
 }
 
 /* The anchor part of the criteria sentence: the checks by anchor kind,
@@ -776,8 +788,13 @@ static void verdict(hf_report *r)
                 "this is not a verdict on the whole case.",
                 r->nchecks, r->nchecks == 1 ? "" : "s");
     fputs("<span class=\"scope\">Checked: ", out);
-    esc(r, sc);
+    esc(r, c.loads ? sc : "the case declares no load cases");
     fputs(".", out);
+    if (r->scope_extra[0]) {
+        fputs(" Also checked: ", out);
+        esc(r, r->scope_extra);
+        fputs(".", out);
+    }
     if (miss[0]) {
         fputs(" Not checked:", out);
         esc(r, miss);

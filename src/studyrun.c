@@ -865,6 +865,11 @@ static hf_status run_design(const hf_model *m, const hf_study *s, int jobs, FILE
     hf_status st = hf_report_design_study(m, s, out, rep, &n, err);
     if (st != HF_OK)
         return st;
+    /* its checks cover the study's design conditions, not load cases; each
+     * was counted by hf_report_scope_add_env, so only the text is added */
+    char what[HF_MODEL_MAX_NAME + 96];
+    snprintf(what, sizeof what, "the %zu conditions of design study %s", n.conditions, s->name);
+    hf_report_scope_extra(rep, 0, what);
     oc->nonfinite += n.nonfinite;
     oc->criterion_failed = n.failed + n.noresult > 0;
     snprintf(oc->note, sizeof oc->note,

@@ -249,6 +249,40 @@ static void test_report_verdict_scope(void **state)
     assert_non_null(strstr(html, "<div class=\"verdict bad\">1 of 4 criteria checks FAILED."));
     assert_non_null(strstr(html, "4 of 4 conditions"));
     free(html);
+    /* checks of something else (a design study's conditions) count once
+     * they say what they covered; otherwise they make the banner amber */
+    {
+        FILE *f = tmpfile();
+        hf_report r;
+        hf_report_begin(&r, f, &m, NULL);
+        for (size_t c = 0; c < 4; c++) {
+            hf_report_check(&r, "load gale", "MBL/T at least 2", "4.2", 1);
+            hf_report_scope_add(&r, 0, c, m.site.water_level);
+        }
+        hf_report_check(&r, "design condition", "offset at most 30 m", "12 m", 1);
+        hf_report_check(&r, "design condition", "offset at most 30 m", "14 m", 1);
+        hf_report_scope_extra(&r, 2, "the 2 conditions of design study squall");
+        assert_int_equal(hf_report_end(&r, NULL), HF_OK);
+        html = hf_test_stream_read(f, 1);
+        fclose(f);
+        hf_test_assert_xml(html);
+        assert_non_null(strstr(html, "<div class=\"verdict ok\">All 6 criteria checks passed"));
+        assert_non_null(strstr(html, "Also checked: the 2 conditions of design study squall."));
+        free(html);
+        f = tmpfile();
+        hf_report_begin(&r, f, &m, NULL);
+        for (size_t c = 0; c < 4; c++) {
+            hf_report_check(&r, "load gale", "MBL/T at least 2", "4.2", 1);
+            hf_report_scope_add(&r, 0, c, m.site.water_level);
+        }
+        hf_report_check(&r, "design condition", "offset at most 30 m", "12 m", 1);
+        assert_int_equal(hf_report_end(&r, NULL), HF_OK);
+        html = hf_test_stream_read(f, 1);
+        fclose(f);
+        assert_non_null(strstr(html, "verdict partial"));
+        assert_non_null(strstr(html, "some checks did not record what they covered."));
+        free(html);
+    }
     /* a second load case the checks never reach: amber */
     hf_load *nl = hf_realloc(m.loads, 2 * sizeof *nl);
     assert_non_null(nl);

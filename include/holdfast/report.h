@@ -67,10 +67,11 @@ typedef struct {
     unsigned char *scope_cond;                /* 1 + model->nlines flags: condition checked */
     double scope_level[HF_REPORT_MAX_LEVELS]; /* distinct levels checked, m above datum */
     size_t nscope_levels;
-    size_t nscoped; /* hf_report_scope_add calls */
-    int scope_lost; /* 1: the record is incomplete (no memory, too many levels) */
     /* issue 14: design checks (hf_report_scope_add_env) */
     unsigned char *scope_env; /* model->design->nenv flags: environment checked, or NULL */
+    size_t nscoped;        /* checks with a recorded scope (scope_add calls, scope_extra counts) */
+    char scope_extra[512]; /* what the hf_report_scope_extra checks covered, "; "-separated */
+    int scope_lost;        /* 1: the record is incomplete (no memory, too many levels) */
 } hf_report;
 
 /* Starts the report on `out`: the HTML head with its stylesheet, the title
@@ -133,6 +134,11 @@ void hf_report_scope_add(hf_report *r, size_t load, size_t cond, double level);
  * many of the declared environments were checked.  Out of range: ignored,
  * the scope marked incomplete. */
 void hf_report_scope_add_env(hf_report *r, size_t env, size_t cond);
+/* Records that the last n checks written covered something other than a
+ * load-case condition, described by `what` (e.g. "the 18 conditions of
+ * design study storm-design"; copied, cut to fit): they count as having a
+ * scope, and the verdict names them after the load-case scope. */
+void hf_report_scope_extra(hf_report *r, size_t n, const char *what);
 
 /* The still water levels the case declares (m above datum) into out (at
  * most cap; returns how many): site.water_level. */
