@@ -401,6 +401,47 @@ static void test_arriving_from_above(void **state)
     }
 }
 
+/* Issue 15 step 3: a slack line (H = 0) with a buoy on its laid part.  The
+ * laid part carries no tension, so the buoy stands on a vertical loop: a
+ * uniform inextensible line lifts |P|/2 of weight on each side (the two
+ * sides rise to the same height; H = 0 limit of the hump identities), the
+ * loop is |P|/(2w) high and takes |P|/w of line off the seabed; the column
+ * hanging from the fairlead is the plain slack one (V = w times its length,
+ * Z of line).  Used to be refused. */
+static void test_slack_loop(void **state)
+{
+    (void)state;
+    const double w = 713.9, P = 23.85e3, Z = 37.2;
+    hf_line l = two_with_buoy(281.6, 254.3, w, 1e22, 0.4, P);
+    hf_line_state s;
+    hf_status st = hf_line_solve(&l, 402.7, Z, NULL, NULL, &s);
+    if (st != HF_OK)
+        fail_msg("%s", s.message);
+    assert_int_equal(s.regime, HF_LINE_SLACK);
+    HF_TEST_ASSERT_NEAR(s.v, w * Z, 1e-9 * w * Z);
+    HF_TEST_ASSERT_NEAR(s.grounded, 281.6 + 254.3 - Z - P / w, 1e-9 * 536.0);
+    HF_TEST_ASSERT_NEAR(s.section[0].grounded, 281.6 - P / (2.0 * w), 1e-9 * 281.6);
+    HF_TEST_ASSERT_NEAR(s.section[0].t_upper, 0.5 * P, 1e-9 * P);
+    HF_TEST_ASSERT_NEAR(s.section[1].t_lower, 0.5 * P, 1e-9 * P);
+    HF_TEST_ASSERT_NEAR(s.z_max, Z, 1e-12); /* the loop (16.7 m) is below the fairlead */
+    /* the profile reaches the loop's top at the buoy and ends at the fairlead */
+    hf_line_point pts[2048];
+    size_t np = hf_line_profile(&l, &s, 1.0, pts, 2048);
+    assert_true(np > 10 && np <= 2048);
+    double top = 0.0;
+    for (size_t i = 0; i < np; i++)
+        if (fabs(pts[i].arc - 281.6) < 1e-9)
+            top = pts[i].z;
+    HF_TEST_ASSERT_NEAR(top, P / (2.0 * w), 1e-9 * P / w);
+    HF_TEST_ASSERT_NEAR(pts[np - 1].x, 402.7, 1e-9 * 402.7);
+    HF_TEST_ASSERT_NEAR(pts[np - 1].z, Z, 1e-9 * Z);
+    /* a laid line (Z = 0) with the same buoy: the loop, and no tension */
+    assert_int_equal(hf_line_solve(&l, 471.5, 0.0, NULL, NULL, &s), HF_OK);
+    assert_int_equal(s.regime, HF_LINE_SLACK);
+    HF_TEST_ASSERT_NEAR(s.grounded, 281.6 + 254.3 - P / w, 1e-9 * 536.0);
+    HF_TEST_ASSERT_NEAR(s.z_max, P / (2.0 * w), 1e-9 * P / w);
+}
+
 /* The closed form against the converged bar chain: worst relative
  * difference of H and V (to the fairlead tension) for one shape class,
  * printed and held to tol.  Returns that difference. */
@@ -466,6 +507,7 @@ int main(void)
         cmocka_unit_test(test_landing_sag_and_lifted_anchor),
         cmocka_unit_test(test_hump_on_slack_stretch),
         cmocka_unit_test(test_arriving_from_above),
+        cmocka_unit_test(test_slack_loop),
         cmocka_unit_test(test_against_bar_chain),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
