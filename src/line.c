@@ -642,7 +642,7 @@ static void walk_reset(walk_t *w, size_t n, double H)
     w->z_max = 0.0;
     for (size_t k = 0; k < n; k++) {
         w->vb[k] = w->vt[k] = w->gl[k] = w->tg_lo[k] = w->tg_hi[k] = 0.0;
-        w->lb[k] = w->vbb[k] = w->hb[k] = 0.0;
+        w->lb[k] = 0.0; /* vbb, hb are read only where lb > 0 */
         w->ht[k] = H;
     }
 }
