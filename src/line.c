@@ -642,7 +642,7 @@ static void walk_reset(walk_t *w, size_t n, double H)
     w->z_max = 0.0;
     for (size_t k = 0; k < n; k++) {
         w->vb[k] = w->vt[k] = w->gl[k] = w->tg_lo[k] = w->tg_hi[k] = 0.0;
-        w->lb[k] = w->vbb[k] = w->hb[k] = 0.0;
+        w->lb[k] = 0.0; /* vbb, hb are read only where lb > 0 */
         w->ht[k] = H;
     }
 }
@@ -813,16 +813,49 @@ static double column(const hf_line *line, size_t k, double l, double v0, double 
 }
 
 typedef struct {
-    int found;     /* 1: the line can hang with its foot on the seabed */
-    double s_t;    /* grounded (laid) unstretched length below the column, m */
-    double vf;     /* fairlead vertical force, N */
-    double kvv;    /* dV/dZ, N/m */
-    int bad;       /* the column would be in compression somewhere (buoy) */
-    size_t foot;   /* section holding the column's foot (or joint index when at_joint) */
-    int at_joint;  /* the foot is the clump on joint `foot`, partly on the seabed */
-    double foot_l; /* hanging length of section `foot`, m (not at a joint) */
-    double foot_p; /* part of the clump's weight the column carries, N (at a joint) */
+    int found;            /* 1: the line can hang with its foot on the seabed */
+    double s_t;           /* grounded (laid) unstretched length below the column, m */
+    double vf;            /* fairlead vertical force, N */
+    double kvv;           /* dV/dZ, N/m */
+    int bad;              /* the column would be in compression somewhere (buoy) */
+    size_t foot;          /* section holding the column's foot (or joint index when at_joint) */
+    int at_joint;         /* the foot is the clump on joint `foot`, partly on the seabed */
+    double foot_l;        /* hanging length of section `foot`, m (not at a joint) */
+    double foot_p;        /* part of the clump's weight the column carries, N (at a joint) */
+    double loop_v1[NMAX]; /* buoy on the laid part at joint j: the loop it lifts (H = 0),
+                           * V just below the buoy, N (0: no loop); V2 = |P| - V1 */
 } hang_t;
+
+/* Loops on the laid part of a slack line (issue 15 step 3): the laid part
+ * carries no tension, so a buoy on it stands on a vertical loop (H = 0):
+ * the line it lifts weighs what it lifts, V1 + V2 = |P|, and both sides
+ * rise to the same height, F1(V1, 0) = F2(V2, 0) (the hump equations with
+ * H = 0).  The loop takes V1/w below the buoy and V2/w above it from the
+ * laid length; a loop that needs more than the laid part of the two
+ * sections beside its buoy is outside the model (r->bad).  foot: the
+ * section holding the column's foot (or its joint, r->at_joint). */
+static void laid_loops(const hf_line *line, size_t foot, hang_t *r)
+{
+    double lay[NMAX];
+    for (size_t j = 0; j <= foot && j < line->n; j++)
+        lay[j] = line->sec[j].length;
+    if (!r->at_joint)
+        lay[foot] -= r->foot_l;
+    for (size_t j = 0; j + 1 < line->n && j < foot; j++) {
+        if (!(pload(line, j) < 0.0))
+            continue;
+        const hf_section *s1 = &line->sec[j], *s2 = &line->sec[j + 1];
+        hump_in in = {-pload(line, j), s1->weight, s1->ea, s1->length, s2->weight,
+                      s2->ea,          0.0,        0.0,    INFINITY,   0};
+        double V1 = hump_solve(&in), a = V1 / in.w1, c = (in.P - V1) / in.w2;
+        lay[j] -= a;
+        lay[j + 1] -= c;
+        if (lay[j] < 0.0 || lay[j + 1] < 0.0)
+            r->bad = 1;
+        r->loop_v1[j] = V1;
+        r->s_t -= a + c;
+    }
+}
 
 /* Finds the hanging configuration reaching height Z (Z > 0) with H = 0. */
 static void hang(const hf_line *line, double Z, hang_t *r)
@@ -869,12 +902,26 @@ static void hang(const hf_line *line, double Z, hang_t *r)
             r->kvv = 1.0 / B;
             r->bad = vmin < 0.0 || p < 0.0;
         }
-        /* A buoy on the laid part would lift it. */
-        for (size_t j = 0; j + 1 < n && j < k; j++)
-            if (pload(line, j) < 0.0)
-                r->bad = 1;
+        /* A buoy on the laid part lifts a vertical loop of it. */
+        laid_loops(line, k, r);
         return;
     }
+}
+
+/* The slack configuration for a fairlead at height Z: hang() for Z > 0;
+ * for Z = 0 the whole line laid (zero tension), with its loops. */
+static void slack_hang(const hf_line *line, double Z, hang_t *hg)
+{
+    if (Z > 0.0) {
+        hang(line, Z, hg);
+        return;
+    }
+    memset(hg, 0, sizeof *hg);
+    hg->found = 1;
+    hg->s_t = hf_line_length(line);
+    hg->foot = line->n - 1;
+    hg->kvv = line->sec[line->n - 1].weight;
+    laid_loops(line, line->n - 1, hg);
 }
 
 /* ------------------------------------------------------------------------
@@ -993,8 +1040,9 @@ static const char *unsupp_msg(int why)
 }
 static const char msg_buoy_search[] =
     "no equilibrium found for this line with its buoys (Newton from several starts, the "
-    "bracketing search and a continuation in the buoys' lift): its shape is likely outside the "
-    "model (a hump spanning more than the two sections beside its buoy); not supported";
+    "bracketing search and a continuation in the buoys' lift): its shape is outside what the "
+    "model covers (a hump spanning more than the two sections beside its buoy, or a slack line "
+    "held up by a buoy above the fairlead); not supported";
 static const char msg_slack_buoy[] =
     "hanging slack (H = 0) a buoy would lift a loop of the laid part, which this version of the "
     "model does not cover, and no taut shape was found; not supported";
@@ -1384,6 +1432,30 @@ static void peyrot(const hf_line *line, double X, double Z, double *H, double *V
  * Regimes solved directly.
  * ---------------------------------------------------------------------- */
 
+/* The loops of a slack line's laid part in its section results: the
+ * tension at the buoy is V1 below it and V2 above it (H = 0), the loop's
+ * line is off the seabed, its top is the buoy at F1(V1, 0) above it. */
+static void slack_loops(const hf_line *line, const hang_t *hg, hf_line_state *st)
+{
+    for (size_t j = 0; j + 1 < line->n; j++) {
+        double V1 = hg->loop_v1[j];
+        if (!(V1 > 0.0))
+            continue;
+        const hf_section *s1 = &line->sec[j], *s2 = &line->sec[j + 1];
+        double V2 = -pload(line, j) - V1;
+        hf_section_result *lo = &st->section[j], *hi = &st->section[j + 1];
+        lo->grounded -= V1 / s1->weight;
+        hi->grounded -= V2 / s2->weight;
+        lo->t_upper = V1;
+        hi->t_lower = V2;
+        lo->t_max = fmax(lo->t_max, V1);
+        hi->t_max = fmax(hi->t_max, V2);
+        double peak = V1 / s1->weight + V1 * V1 / (2.0 * s1->weight * s1->ea);
+        if (peak > st->z_max)
+            st->z_max = peak;
+    }
+}
+
 static hf_status solve_slack(const hf_line *line, const hang_t *hg, hf_line_state *st)
 {
     if (hg->bad)
@@ -1418,6 +1490,7 @@ static hf_status solve_slack(const hf_line *line, const hang_t *hg, hf_line_stat
         r->t_upper = v;
         r->t_max = v;
     }
+    slack_loops(line, hg, st);
     return HF_OK;
 }
 
@@ -1463,26 +1536,69 @@ static hf_status solve_vertical(const hf_line *line, double Z, hf_line_state *st
 
 /* Z = 0, X beyond the unstretched length: the whole line lies taut on the
  * seabed.  x = L + stretch(H), solved by Newton on H (monotone, convex). */
+/* The walk of a line laid on the seabed to its fairlead (V = 0 there):
+ * walk() without buoys; with buoys the grounded walk from the fairlead
+ * down, a hump at every buoy (w->unsupp when one is outside the model). */
+static void walk_laid(const hf_line *line, double H, walk_t *w)
+{
+    if (!has_buoy(line)) {
+        walk(line, H, 0.0, w);
+        return;
+    }
+    double vt[NMAX] = {0.0};
+    walk_reset(w, line->n, H);
+    w->grounded = 1;
+    w->td_sec = line->n - 1;
+    ground_t g = {H, 1.0, 0.0, 0.0, 0.0, 0.0};
+    double xg = 0.0, xg_h = 0.0, xg_v = 0.0;
+    int rc = walk_ground_multi(line, vt, w, &g, &xg, &xg_h, &xg_v);
+    if (rc != 0)
+        w->unsupp = rc > 1 ? rc : UNSUPP_NO_ARC;
+    w->x_susp = 0.0;
+    w->x = xg + g.s;
+    w->z = 0.0;
+    w->J[0][0] = xg_h + g.s_h;
+    w->J[0][1] = w->J[1][0] = w->J[1][1] = 0.0;
+}
+
 static hf_status solve_laid(const hf_line *line, double X, double tol, int max_iter,
                             hf_line_state *st)
 {
     double H = fmax(line->sec[line->n - 1].ea * (X / hf_line_length(line) - 1.0), 1e-3);
     walk_t w;
-    w.x = INFINITY; /* no walk yet: not converged */
+    double lo = 0.0, hi = INFINITY; /* bracket of H */
+    w.x = INFINITY;                 /* no walk yet: not converged */
     for (int i = 0; i < max_iter; i++) {
-        if (walk(line, H, 0.0, &w) != HF_OK)
+        if (!(H > 0.0) || !isfinite(H))
             break;
+        walk_laid(line, H, &w);
+        if (w.unsupp)
+            return fail(st, HF_EUNSUPPORTED, unsupp_msg(w.unsupp));
         st->evaluations++;
         st->iterations++;
         double r = w.x - X;
         if (fabs(r) <= tol)
             break;
+        if (r < 0.0)
+            lo = H;
+        else
+            hi = H;
         double Hn = H - r / w.J[0][0];
-        H = Hn > 0.0 ? Hn : 0.5 * H;
+        if (!has_buoy(line))
+            H = Hn > 0.0 ? Hn : 0.5 * H;
+        else /* humps make x(H) kinked: Newton kept inside the bracket of x = X */
+            H = Hn > lo && Hn < hi ? Hn : (isfinite(hi) ? 0.5 * (lo + hi) : 2.0 * H);
     }
+    if (fabs(w.x - X) > tol && has_buoy(line))
+        return fail(st, HF_EUNSUPPORTED,
+                    "a line laid on the seabed to its fairlead with buoys lifting humps: no "
+                    "equilibrium inside the model at this span (the humps' span jumps as the "
+                    "tension changes); not supported");
     if (fabs(w.x - X) > tol)
         return fail(st, HF_ENOCONV, "fully laid line: tension did not converge");
-    if (w.buoy_down || w.unsupp || !w.grounded || w.td_sec < line->n || w.contacts > 1)
+    if (w.unsupp)
+        return fail(st, HF_EUNSUPPORTED, unsupp_msg(w.unsupp));
+    if (!has_buoy(line) && (!w.grounded || w.td_sec < line->n))
         return fail(st, HF_EUNSUPPORTED, msg_laid_buoy);
     st->regime = HF_LINE_LAID;
     st->h = H;
@@ -1491,7 +1607,11 @@ static hf_status solve_laid(const hf_line *line, double X, double tol, int max_i
     st->anchor_h = w.anchor_t;
     st->anchor_tension = w.anchor_t;
     st->touchdown_x = X;
-    st->grounded = hf_line_length(line);
+    double gl = 0.0;
+    for (size_t k = 0; k < line->n; k++)
+        gl += w.gl[k];
+    st->grounded = has_buoy(line) ? gl : hf_line_length(line);
+    st->z_max = w.z_max;
     st->stiffness[0][0] = 1.0 / w.J[0][0];
     st->message = "fully laid line: its vertical stiffness is unbounded at lift-off and is "
                   "reported as 0";
@@ -1533,10 +1653,12 @@ static int closed_forms(const hf_line *line, double X, double Z, double tol,
         }
     }
     if (Z == 0.0 && X <= L + tol) {
-        hang_t hg = {
-            .found = 1, .s_t = L, .foot = line->n - 1, .kvv = line->sec[line->n - 1].weight};
-        *rc = solve_slack(line, &hg, st); /* fully laid and slack: zero tension */
-        return 1;
+        hang_t hg;
+        slack_hang(line, 0.0, &hg);
+        if (X <= hg.s_t + tol) {
+            *rc = solve_slack(line, &hg, st); /* fully laid and slack: zero tension */
+            return 1;
+        }
     }
     if (X == 0.0) {
         *rc = solve_vertical(line, Z, st);
@@ -1889,34 +2011,68 @@ static size_t steps(double len, double spacing)
     return (size_t)n;
 }
 
+/* Height of a loop's point at unstretched distance u up from its foot on
+ * the lower side (V = w u, H = 0): u + w u^2 / (2 EA). */
+static double loop_rise(double u, const hf_section *s)
+{
+    return u + s->weight * u * u / (2.0 * s->ea);
+}
+
+/* Height of a slack line's section i at unstretched distance u from its
+ * lower end when that point is on the seabed or on a loop of the laid
+ * part: the upper half of the loop at joint i-1 (the first c metres,
+ * coming down from its buoy) or the lower half of the loop at joint i (the
+ * last a metres, rising to its buoy); 0 on the seabed. */
+static double slack_height(const hf_line *line, size_t i, double u, double a, double c)
+{
+    const hf_section *s = &line->sec[i];
+    if (u < c)
+        return loop_rise(c, s) - loop_rise(u, s);
+    if (a > 0.0 && u > s->length - a)
+        return loop_rise(u - (s->length - a), s);
+    return 0.0;
+}
+
 /* Slack line: the laid part's true shape on the seabed is unknown, it is
- * drawn straight from the anchor to the point below the fairlead; the
- * hanging column above it is vertical. */
+ * drawn straight from the anchor to the point below the fairlead, loops
+ * lifted by buoys standing vertically on it; the hanging column above it is
+ * vertical. */
 static void profile_slack(const hf_line *line, const hf_line_state *st, double spacing, sink_t *k)
 {
-    double arc = 0.0, z = 0.0;
+    hang_t hg;
+    slack_hang(line, st->z, &hg);
+    double arc = 0.0, z = 0.0, laid = 0.0;
     double sx = st->grounded > 0.0 ? st->x / st->grounded : 0.0;
     emit(k, 0.0, 0.0, 0.0, 0.0);
     for (size_t i = 0; i < line->n; i++) {
         const hf_section *s = &line->sec[i];
         const hf_section_result *r = &st->section[i];
         size_t m = steps(s->length, spacing);
-        double gl = r->grounded;
+        double hang_l = s->length - r->grounded; /* hanging or on a loop */
+        double a = hg.loop_v1[i] > 0.0 && i + 1 < line->n ? hg.loop_v1[i] / s->weight : 0.0;
+        double c = i > 0 && hg.loop_v1[i - 1] > 0.0
+                       ? (-pload(line, i - 1) - hg.loop_v1[i - 1]) / s->weight
+                       : 0.0;
+        double col = hang_l - a - c;                                    /* hanging in the column */
+        double gl = a > 0.0 || c > 0.0 ? s->length - col : r->grounded; /* laid or on a loop */
+        double v0 = col < s->length ? 0.0 : r->t_lower; /* tension at the column's foot */
         for (size_t j = 1; j <= m; j++) {
             double u = s->length * (double)j / (double)m;
-            double a = arc + u;
+            double a_ = arc + u;
             if (u <= gl) {
-                emit(k, a, a * sx, 0.0, 0.0);
+                double lu = u < c ? 0.0 : (u > s->length - a ? s->length - a - c : u - c);
+                emit(k, a_, (laid + lu) * sx, slack_height(line, i, u, a, c), 0.0);
             } else {
-                double h = u - gl, v0 = r->t_lower;
+                double h = u - gl;
                 double v = v0 + s->weight * h;
                 double zz = z + h + (v0 + v) * h / (2.0 * s->ea);
-                emit(k, a, st->x, zz, v);
+                emit(k, a_, st->x, zz, v);
             }
         }
         double h = s->length - gl;
         if (h > 0.0)
-            z += h + (r->t_lower + r->t_upper) * h / (2.0 * s->ea);
+            z += h + (v0 + r->t_upper) * h / (2.0 * s->ea);
+        laid += r->grounded;
         arc += s->length;
     }
 }
@@ -2029,7 +2185,9 @@ static size_t profile_catenary(const hf_line *line, const hf_line_state *st, dou
 {
     walk_t w;
     double H = st->h, arc = 0.0, x = 0.0, z = 0.0;
-    if (walk(line, H, st->v, &w) != HF_OK)
+    if (st->regime == HF_LINE_LAID)
+        walk_laid(line, H, &w);
+    else if (walk(line, H, st->v, &w) != HF_OK)
         return 0;
     emit(k, 0.0, 0.0, 0.0, st->anchor_tension);
     for (size_t i = 0; i < line->n; i++) {

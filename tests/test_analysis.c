@@ -86,9 +86,11 @@ static void test_curve_physics(void **state)
     hf_model_free(&m);
 }
 
-/* Fictional buoyed line at Tarrow Reach (invented): a buoy in a slack line
- * is outside the model until the hull moves far enough away to pull the
- * line taut, so a curve away from the anchor fails first and then solves. */
+/* Fictional buoyed line at Tarrow Reach (invented): a buoy on the laid part
+ * of a slack line lifts a loop, which is outside the model here because
+ * the loop would reach past the short 3 m link above the buoy (issue 15),
+ * until the hull moves far enough away to pull the line taut, so a curve
+ * away from the anchor fails first and then solves. */
 static const char buoy_case[] = "title: Fictional buoyed line at Tarrow Reach\n"
                                 "site: {depth: 42.5 m}\n"
                                 "components:\n"
@@ -101,7 +103,8 @@ static const char buoy_case[] = "title: Fictional buoyed line at Tarrow Reach\n"
                                 "    sections:\n"
                                 "      - {component: ch, length: 200 m}\n"
                                 "      - {buoy: 12 kN}\n"
-                                "      - {component: ch, length: 120 m}\n";
+                                "      - {component: ch, length: 3 m}\n"
+                                "      - {component: ch, length: 117 m}\n";
 
 /* The documented policy for failed offsets: every offset attempted (the
  * curve goes on after a failure), a failed one recorded with NaN values,

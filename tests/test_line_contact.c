@@ -12,6 +12,7 @@
 #include <setjmp.h>
 #include <stdarg.h>
 #include <stddef.h>
+#include <stdint.h>
 #include <math.h>
 #include <string.h>
 #include <cmocka.h>
@@ -401,6 +402,116 @@ static void test_arriving_from_above(void **state)
     }
 }
 
+/* Issue 15 step 3: a slack line (H = 0) with a buoy on its laid part.  The
+ * laid part carries no tension, so the buoy stands on a vertical loop: a
+ * uniform inextensible line lifts |P|/2 of weight on each side (the two
+ * sides rise to the same height; H = 0 limit of the hump identities), the
+ * loop is |P|/(2w) high and takes |P|/w of line off the seabed; the column
+ * hanging from the fairlead is the plain slack one (V = w times its length,
+ * Z of line).  Used to be refused. */
+static void test_slack_loop(void **state)
+{
+    (void)state;
+    const double w = 713.9, P = 23.85e3, Z = 37.2;
+    hf_line l = two_with_buoy(281.6, 254.3, w, 1e22, 0.4, P);
+    hf_line_state s;
+    hf_status st = hf_line_solve(&l, 402.7, Z, NULL, NULL, &s);
+    if (st != HF_OK)
+        fail_msg("%s", s.message);
+    assert_int_equal(s.regime, HF_LINE_SLACK);
+    HF_TEST_ASSERT_NEAR(s.v, w * Z, 1e-9 * w * Z);
+    HF_TEST_ASSERT_NEAR(s.grounded, 281.6 + 254.3 - Z - P / w, 1e-9 * 536.0);
+    HF_TEST_ASSERT_NEAR(s.section[0].grounded, 281.6 - P / (2.0 * w), 1e-9 * 281.6);
+    HF_TEST_ASSERT_NEAR(s.section[0].t_upper, 0.5 * P, 1e-9 * P);
+    HF_TEST_ASSERT_NEAR(s.section[1].t_lower, 0.5 * P, 1e-9 * P);
+    HF_TEST_ASSERT_NEAR(s.z_max, Z, 1e-12); /* the loop (16.7 m) is below the fairlead */
+    /* the profile reaches the loop's top at the buoy and ends at the fairlead */
+    hf_line_point pts[2048];
+    size_t np = hf_line_profile(&l, &s, 1.0, pts, 2048);
+    assert_true(np > 10 && np <= 2048);
+    double top = 0.0;
+    for (size_t i = 0; i < np; i++)
+        if (fabs(pts[i].arc - 281.6) < 1e-9)
+            top = pts[i].z;
+    HF_TEST_ASSERT_NEAR(top, P / (2.0 * w), 1e-9 * P / w);
+    HF_TEST_ASSERT_NEAR(pts[np - 1].x, 402.7, 1e-9 * 402.7);
+    HF_TEST_ASSERT_NEAR(pts[np - 1].z, Z, 1e-9 * Z);
+    /* a laid line (Z = 0) with the same buoy: the loop, and no tension */
+    assert_int_equal(hf_line_solve(&l, 471.5, 0.0, NULL, NULL, &s), HF_OK);
+    assert_int_equal(s.regime, HF_LINE_SLACK);
+    HF_TEST_ASSERT_NEAR(s.grounded, 281.6 + 254.3 - P / w, 1e-9 * 536.0);
+    HF_TEST_ASSERT_NEAR(s.z_max, P / (2.0 * w), 1e-9 * P / w);
+}
+
+/* Deterministic generator (xorshift64*), so failures reproduce. */
+static uint64_t rng = 0x2545F4914F6CDD1Dull;
+static double urand(void)
+{
+    rng ^= rng >> 12;
+    rng ^= rng << 25;
+    rng ^= rng >> 27;
+    return (double)((rng * 2685821657736338717ull) >> 11) * 0x1.0p-53;
+}
+static double lrand(double lo, double hi)
+{
+    return lo * pow(hi / lo, urand());
+}
+
+/* 3000 random lines with buoys and clumps (2 to 4 sections, buoys lifting
+ * 5 % to 80 % of a section's share of the weight): every solved one has a
+ * span residual within 1e-9 and passes the ODE walk through all its
+ * landings and lift-offs; every refusal is HF_EUNSUPPORTED with a message
+ * (never HF_ENOCONV).  The counts are printed and the solved share is held
+ * to the level measured when this was written (2783 of 3000, 92.8 %, 595 of
+ * them with several seabed contacts; the refusals being
+ * humps or loops spanning more than two sections). */
+static void test_random_buoyed(void **state)
+{
+    (void)state;
+    int total = 3000, ok = 0, refused = 0, multi = 0;
+    for (int c = 0; c < total; c++) {
+        hf_line line;
+        memset(&line, 0, sizeof line);
+        line.n = 2 + (size_t)(urand() * 3.0);
+        double L = 0.0, W = 0.0;
+        for (size_t k = 0; k < line.n; k++) {
+            hf_section *s = &line.sec[k];
+            *s = (hf_section){
+                lrand(20.0, 600.0), lrand(50.0, 3000.0), lrand(1e7, 2e10), 1e7, urand(),
+                {0.0, 0.0, 0.0}};
+            L += s->length;
+            W += s->weight * s->length;
+        }
+        for (size_t k = 0; k + 1 < line.n; k++) {
+            double u = urand();
+            if (u < 0.5)
+                line.joint[k].load = -lrand(0.05, 0.8) * W / (double)line.n;
+            else if (u < 0.7)
+                line.joint[k].load = lrand(1e3, 1e5);
+            line.joint[k].friction = urand();
+        }
+        double Z = urand() * 0.6 * L, X = (0.5 + 0.55 * urand()) * sqrt(L * L - Z * Z);
+        hf_line_state s;
+        hf_status st = hf_line_solve(&line, X, Z, NULL, NULL, &s);
+        if (st == HF_EUNSUPPORTED && s.message[0]) {
+            refused++;
+            continue;
+        }
+        if (st != HF_OK)
+            fail_msg("case %d: X %.17g Z %.17g: %s: %s", c, X, Z, hf_status_str(st), s.message);
+        if (!(s.residual <= 1e-9))
+            fail_msg("case %d: residual %.3e", c, s.residual);
+        ok++;
+        if (s.regime == HF_LINE_SUSPENDED || s.regime == HF_LINE_TOUCHDOWN)
+            multi += verify_by_ode(&line, &s) >= 2;
+    }
+    print_message("random buoyed lines: %d solved (%d with several seabed contacts), %d refused "
+                  "as outside the model, of %d\n",
+                  ok, multi, refused, total);
+    if (ok < total * 92 / 100 || multi < 500)
+        fail_msg("only %d of %d solved, %d with several contacts", ok, total, multi);
+}
+
 /* The closed form against the converged bar chain: worst relative
  * difference of H and V (to the fairlead tension) for one shape class,
  * printed and held to tol.  Returns that difference. */
@@ -466,6 +577,8 @@ int main(void)
         cmocka_unit_test(test_landing_sag_and_lifted_anchor),
         cmocka_unit_test(test_hump_on_slack_stretch),
         cmocka_unit_test(test_arriving_from_above),
+        cmocka_unit_test(test_slack_loop),
+        cmocka_unit_test(test_random_buoyed),
         cmocka_unit_test(test_against_bar_chain),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
