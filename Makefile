@@ -44,7 +44,7 @@ BUILDING := $(filter-out $(NOBUILD_GOALS),$(or $(MAKECMDGOALS),all))
 ifneq ($(BUILDING),)
 # Missing development packages are reported (or installed, as root) here,
 # before any compiler error can hide the real cause.
-DEPS_OK := $(shell sh scripts/ensure-deps.sh >&2 && echo yes)
+DEPS_OK := $(shell PYTHON=$(PYTHON) sh scripts/ensure-deps.sh >&2 && echo yes)
 ifneq ($(DEPS_OK),yes)
 $(error missing packages: see the message above)
 endif
@@ -150,9 +150,12 @@ $(BIN): $(BUILD)/obj/main.o $(CMD_OBJ) $(LIB)
 
 $(CMD_TESTS:%=$(BUILD)/test_%): $(CMD_OBJ)
 
-# test_shlib links the shared library as a user does (-lholdfast, nothing
-# else of holdfast's), found next to it at run time through $$ORIGIN.
-$(BUILD)/test_shlib: $(BUILD)/tobj/test_shlib.o $(TEST_SUPPORT_OBJ) $(SHLIB_DEV)
+# The test programs of SHLIB_TESTS link the shared library as a user does
+# (-lholdfast, nothing else of holdfast's), found next to them at run time
+# through $$ORIGIN: test_shlib, and test_session, whose API is what the
+# Python package loads.
+SHLIB_TESTS = shlib session
+$(SHLIB_TESTS:%=$(BUILD)/test_%): $(BUILD)/test_%: $(BUILD)/tobj/test_%.o $(TEST_SUPPORT_OBJ) $(SHLIB_DEV)
 	$(CC) $(ALL_LDFLAGS) -o $@ $(filter %.o,$^) -L$(BUILD) -Wl,-rpath,'$$ORIGIN' -lholdfast \
 	    $(CMOCKA_LIBS) -pthread -lm
 
@@ -229,11 +232,12 @@ clean:
 	rm -rf build build-* barge-results
 
 help:
-	@echo 'make [all]        build $(BIN)'
+	@echo 'make [all]        build $(BIN), $(LIB) and $(SHLIB_DEV) (docs/library.md)'
 	@echo 'make check        build and run every test (installs missing packages as root)'
 	@echo 'make demo         run the barge demo case into barge-results/'
 	@echo 'make debug        -O0 -g3 build and tests in build-debug/'
-	@echo 'make install      install into $$(DESTDIR)$$(PREFIX) (now $(DESTDIR)$(PREFIX))'
+	@echo 'make install      program, libraries, headers, holdfast.pc, man page, Python package'
+	@echo '                  into $$(DESTDIR)$$(PREFIX) (now $(DESTDIR)$(PREFIX))'
 	@echo 'make uninstall    remove what install put there'
 	@echo 'make lint         functions of src/*.c over 100 lines, library files using cli.h'
 	@echo 'make format       reformat sources with .clang-format'

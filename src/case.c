@@ -13,6 +13,7 @@
 #include "holdfast/hint.h"
 #include "holdfast/outputs.h"
 #include "holdfast/study.h"
+#include "case_tree.h" /* node, ctx (shared with case_env.c) */
 
 /* Largest number of points of one range written in a case file. */
 #define MAX_RANGE_POINTS 100000000.0
@@ -22,17 +23,6 @@
 #define MAX_PIECES (4 * HF_LINE_MAX_SECTIONS)
 
 /* ---- a small document tree built from libyaml events ---- */
-
-enum { N_SCALAR, N_SEQ, N_MAP };
-
-typedef struct node {
-    int type;
-    int line, col; /* 1-based position of the node's first character */
-    int plain;     /* scalar written without quotes */
-    char *text;    /* scalar text (NUL-terminated) */
-    size_t n, cap; /* children: sequence items, or key, value, key, value, ... */
-    struct node **kids;
-} node;
 
 static void node_free(node *n)
 {
@@ -58,17 +48,6 @@ static int node_add(node *parent, node *kid)
     parent->kids[parent->n++] = kid;
     return 1;
 }
-
-/* ---- loader context: file name, key path, error ---- */
-
-typedef struct {
-    const char *file;
-    hf_model *m;
-    hf_study_list *studies; /* the case's studies: filled beside the model */
-    hf_error *err;
-    char path[512];
-    size_t plen;
-} ctx;
 
 static size_t push(ctx *c, const char *fmt, ...)
 #if defined(__GNUC__)
@@ -931,7 +910,11 @@ static hf_status load_lines(ctx *c, const node *n)
 
 /* ---- hull ---- */
 
-static const char *const hull_keys[] = {"position", "heading", "outline", NULL};
+static const char *const hull_keys[] = {
+    "position", "heading", "outline",
+    /* issue 14, case_env.c: */
+    "mass", "added_mass", "yaw_inertia", "added_yaw_inertia", "damping", "raos", "drift",
+    "wind_coefficients", "current_coefficients", "wind_area", "current_area", "length", NULL};
 
 static hf_status load_hull(ctx *c, const node *n)
 {
@@ -939,7 +922,7 @@ static hf_status load_hull(ctx *c, const node *n)
     static const hf_dim len2[2] = {HF_DIM_LENGTH, HF_DIM_LENGTH};
     hf_hull *h = &c->m->hull;
     hf_status st = map_check(c, n, "the hull", hull_keys, "key");
-    if (st != HF_OK)
+    if (st != HF_OK || (st = hf_case_env_hull(c, n)) != HF_OK) /* issue 14: case_env.c */
         return st;
     const node *pn = get(n, "position");
     if (pn) {
@@ -1212,8 +1195,8 @@ static hf_status load_criteria(ctx *c, const node *n)
 
 /* ---- studies ---- */
 
-static const char *const kind_names[] = {"lines",   "curve", "stiffness",
-                                         "balance", "sweep", "invert"};
+static const char *const kind_names[] = {"lines", "curve",  "stiffness", "balance",
+                                         "sweep", "invert", "design"};
 static const char *const *const study_keys[] = {
     (const char *const[]){"name", "kind", "offset", NULL},
     (const char *const[]){"name", "kind", "direction", "range", NULL},
@@ -1221,9 +1204,11 @@ static const char *const *const study_keys[] = {
     (const char *const[]){"name", "kind", "loads", NULL},
     (const char *const[]){"name", "kind", "vary", "combine", "outputs", NULL},
     (const char *const[]){"name", "kind", "vary", "target", NULL},
+    (const char *const[]){"name", "kind", "environments", NULL}, /* case_env.c */
 };
 static const char *const study_what[] = {"a lines study",   "a curve study", "a stiffness study",
-                                         "a balance study", "a sweep study", "an invert study"};
+                                         "a balance study", "a sweep study", "an invert study",
+                                         "a design study"};
 static const char *const vary_keys[] = {"path", "range", "values", NULL};
 static const char *const invert_vary_keys[] = {"path", "range", NULL};
 static const char *const target_keys[] = {"output", "line", "value", NULL};
@@ -1623,9 +1608,10 @@ static hf_status study_invert(ctx *c, const node *n, hf_study *s)
 
 /* One loader per study kind, indexed by hf_study_kind. */
 typedef hf_status (*study_loader)(ctx *, const node *, hf_study *);
-static const study_loader study_body[] = {study_offset,  study_curve, study_offset,
-                                          study_balance, study_sweep, study_invert};
-_Static_assert(sizeof study_body / sizeof study_body[0] == HF_STUDY_INVERT + 1,
+static const study_loader study_body[] = {study_offset,     study_curve, study_offset,
+                                          study_balance,    study_sweep, study_invert,
+                                          hf_case_env_study};
+_Static_assert(sizeof study_body / sizeof study_body[0] == HF_STUDY_DESIGN + 1,
                "one loader per hf_study_kind");
 
 static hf_status load_study(ctx *c, const node *n, size_t index)
@@ -1638,9 +1624,9 @@ static hf_status load_study(ctx *c, const node *n, size_t index)
     if (!kn)
         return missing(c, n, "kind",
                        "a study kind (lines, curve, stiffness, balance, sweep, "
-                       "invert)");
+                       "invert, design)");
     size_t k, mark = pushkey(c, "kind");
-    hf_status st = choose(c, kn, "a study kind", kind_names, 6, &k);
+    hf_status st = choose(c, kn, "a study kind", kind_names, 7, &k);
     pop(c, mark);
     if (st != HF_OK)
         return st;
@@ -1685,8 +1671,8 @@ static hf_status load_studies(ctx *c, const node *n)
 
 /* ---- top level ---- */
 
-static const char *const top_keys[] = {"title", "site",     "components", "lines", "hull",
-                                       "loads", "criteria", "studies",    NULL};
+static const char *const top_keys[] = {"title", "site",     "components", "lines",        "hull",
+                                       "loads", "criteria", "studies",    "environments", NULL};
 
 static hf_status section(ctx *c, const node *root, const char *key,
                          hf_status (*fn)(ctx *, const node *))
@@ -1733,6 +1719,7 @@ static hf_status load_root(ctx *c, const node *root)
         (st = section(c, root, "lines", load_lines)) != HF_OK ||
         (st = section(c, root, "loads", load_loads)) != HF_OK ||
         (st = section(c, root, "criteria", load_criteria)) != HF_OK ||
+        (st = section(c, root, "environments", hf_case_env_list)) != HF_OK || /* case_env.c */
         (st = section(c, root, "studies", load_studies)) != HF_OK)
         return st;
     if (!get(root, "criteria"))
@@ -2138,4 +2125,86 @@ hf_status hf_case_load_with_studies(const char *path, hf_model *m, hf_study_list
         st = hf_case_load_buffer_with_studies(buf, len, path, m, studies, err);
     hf_free(buf);
     return st;
+}
+
+/* ---- the checks above, for case_env.c (case_tree.h) ---- */
+
+size_t hf_case_tree_pushkey(ctx *c, const char *key)
+{
+    return pushkey(c, key);
+}
+
+size_t hf_case_tree_pushindex(ctx *c, size_t i)
+{
+    return push(c, "[%zu]", i);
+}
+
+void hf_case_tree_pop(ctx *c, size_t mark)
+{
+    pop(c, mark);
+}
+
+hf_status hf_case_tree_fail(ctx *c, const node *n, const char *fmt, ...)
+{
+    va_list ap;
+    va_start(ap, fmt);
+    hf_status s = failv(c, HF_EINVAL, n, fmt, ap);
+    va_end(ap);
+    return s;
+}
+
+hf_status hf_case_tree_nomem(ctx *c)
+{
+    return nomem(c);
+}
+
+const char *hf_case_tree_got(const node *n, char *buf, size_t cap)
+{
+    return got(n, buf, cap);
+}
+
+int hf_case_tree_is_null(const node *n)
+{
+    return is_null(n);
+}
+
+hf_status hf_case_tree_map_check(ctx *c, const node *n, const char *what, const char *const *keys)
+{
+    return map_check(c, n, what, keys, "key");
+}
+
+const node *hf_case_tree_get(const node *map, const char *key)
+{
+    return get(map, key);
+}
+
+const node *hf_case_tree_getkey(const node *map, const char *key)
+{
+    return getkey(map, key);
+}
+
+hf_status hf_case_tree_missing(ctx *c, const node *map, const char *key, const char *what)
+{
+    return missing(c, map, key, what);
+}
+
+hf_status hf_case_tree_quantity(ctx *c, const node *n, hf_dim dim, int range, double *out)
+{
+    return quantity_in(c, n, dim, range, out);
+}
+
+hf_status hf_case_tree_opt_quantity(ctx *c, const node *map, const char *key, hf_dim dim, int range,
+                                    double *out)
+{
+    return opt_quantity(c, map, key, dim, range, out);
+}
+
+hf_status hf_case_tree_text(ctx *c, const node *n, const char *what, const char **out)
+{
+    return text(c, n, what, out);
+}
+
+hf_status hf_case_tree_name_dup(ctx *c, const node *n, const char *what, char **out)
+{
+    return name_dup(c, n, what, out);
 }

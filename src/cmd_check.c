@@ -172,6 +172,7 @@ static void print_rest(const hf_model *m, const hf_study_list *sl)
     if (c->max_offset > 0.0)
         printf(", offset limit %.2f m", c->max_offset);
     printf("\n  source: %s\n", c->source ? c->source : "none");
+    hf_cmd_design_check_print(m); /* issue 14: cmd_design.c */
     if (list_heading("studies", sl->n) == 0)
         return;
     for (size_t i = 0; i < sl->n; i++) {

@@ -72,7 +72,7 @@ static int severity(hf_status st)
 static void more_help(FILE *out)
 {
     fprintf(out, "\nstudy kinds:");
-    for (int k = 0; k <= HF_STUDY_INVERT; k++)
+    for (int k = 0; k <= HF_STUDY_DESIGN; k++)
         fprintf(out, " %s", hf_study_kind_name((hf_study_kind)k));
     fprintf(out, "\n\noutputs of sweep studies (outputs:) and invert targets (target:):\n");
     hf_output_write_help(out, "  ");

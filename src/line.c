@@ -239,7 +239,21 @@ typedef struct {
     double vb[NMAX], vt[NMAX];       /* V at the lower / upper end of each suspended piece */
     double gl[NMAX];                 /* grounded length of each section */
     double tg_lo[NMAX], tg_hi[NMAX]; /* tension at the lower / upper end of grounded pieces */
+    /* Several seabed contacts (humps lifted by buoys off the grounded part): a
+     * section is, from its lower end, a suspended bottom piece of length lb[k]
+     * (the upper half of a hump, V rising from vbb[k] < 0 to 0, horizontal
+     * force hb[k]), a grounded piece gl[k], and a suspended top piece (V from
+     * vb[k] to vt[k], horizontal force ht[k]: H, or a hump's own H for the
+     * lower half of a hump).  lb = 0 and ht = H on a line with one contact. */
+    double ht[NMAX], lb[NMAX], vbb[NMAX], hb[NMAX];
+    int unsupp;      /* 0, or why this (H, V) has no shape inside the model (UNSUPP_*) */
+    double anchor_v; /* uplift at the anchor under a hump that lifts it, N (else 0) */
+    int contacts;    /* seabed contacts: grounded stretches (humps split them) */
+    int landed;      /* 1 when the top arc lands on a sag above a lower touchdown */
 } walk_t;
+
+/* Why a walk found no shape inside the model (walk_t.unsupp). */
+enum { UNSUPP_NONE = 0, UNSUPP_SPILL = 2, UNSUPP_NO_ARC = 3 }; /* 1: a candidate without a shape */
 
 /* Touchdown: the first point, going up from the anchor, where V becomes
  * positive (vt, vb: V at the top and bottom of each section).  Below it V
@@ -354,7 +368,374 @@ static void walk_grounded(const hf_line *line, const double *vt, walk_t *w, grou
     w->anchor_t = g->t;
 }
 
-/* The forward map.  Returns HF_OK, or HF_EINVAL when h is not > 0 and finite. */
+/* ------------------------------------------------------------------------
+ * Several seabed contacts (issue 15).  A buoy on the grounded part lifts a
+ * hump: an arc that leaves the seabed with V = 0, rises to the buoy and
+ * lands again with V = 0, its own horizontal force Hh being the tension the
+ * friction leaves there.  Its net weight is zero (the lifted line weighs
+ * what the buoy lifts: V1 + V2 = |P|, V1, V2 the vertical forces just below
+ * and above the buoy) and it rises as much as it falls (both ends on the
+ * seabed): rise1(V1, Hh) = rise2(V2, Hh), one equation in V1, solved to
+ * machine precision by safeguarded Newton on [0, |P|].  Its derivatives
+ * follow from the implicit function theorem, so the Jacobian stays exact.
+ * ---------------------------------------------------------------------- */
+
+/* The grounded length still available in the current section, from its
+ * lower end up, and its derivatives with respect to the fairlead (H, V). */
+typedef struct {
+    double a, a_h, a_v;
+} avail_t;
+
+/* ground_piece for a length that depends on both H and V (l_h, l_v). */
+static void ground_piece2(ground_t *g, double l, double l_h, double l_v, double r, double EA)
+{
+    if (l <= 0.0)
+        return;
+    if (g->t >= r * l) {
+        g->s += (g->t * l - 0.5 * r * l * l) / EA;
+        g->s_h += (g->t_h * l + (g->t - r * l) * l_h) / EA;
+        g->s_v += (g->t_v * l + (g->t - r * l) * l_v) / EA;
+        g->t -= r * l;
+        g->t_h -= r * l_h;
+        g->t_v -= r * l_v;
+    } else if (g->t > 0.0) {
+        g->s += g->t * g->t / (2.0 * r * EA);
+        g->s_h += g->t * g->t_h / (r * EA);
+        g->s_v += g->t * g->t_v / (r * EA);
+        g->t = g->t_h = g->t_v = 0.0;
+    }
+}
+
+/* A suspended piece whose V runs from 0 (on the seabed) to V >= 0, under
+ * horizontal force H > 0 (Irvine 1981, section form): its rise
+ * F = (T - H)/w + V^2/(2 w EA), its horizontal extent
+ * X = (H/w) asinh(V/H) + H V/(w EA), and their partial derivatives. */
+typedef struct {
+    double f, f_v, f_h, x, x_v, x_h;
+} piece_t;
+
+static void half_arc(double H, double V, double w, double EA, piece_t *p)
+{
+    double T = mag(H, V);
+    if (!(H > 0.0)) {
+        /* H = 0 (friction has taken all tension): the piece hangs straight
+         * up; no horizontal extent.  x_h is not needed (dH = 0 there). */
+        p->f = V / w + V * V / (2.0 * w * EA);
+        p->f_v = 1.0 / w + V / (w * EA);
+        p->f_h = -1.0 / w;
+        p->x = p->x_v = p->x_h = 0.0;
+        return;
+    }
+    double as = log((V + T) / H);
+    p->f = V * V / (w * (T + H)) + V * V / (2.0 * w * EA);
+    p->f_v = V / (w * T) + V / (w * EA);
+    p->f_h = -V * V / (w * T * (T + H));
+    p->x = (H / w) * as + H * V / (w * EA);
+    p->x_v = H / (w * T) + H / (w * EA);
+    p->x_h = as / w - V / (w * T) + V / (w * EA);
+}
+
+typedef struct {
+    double P;       /* buoy's net lift, N (> 0) */
+    double w1, ea1; /* section below the buoy */
+    double l1;      /* its length, m */
+    double w2, ea2; /* section above */
+    double r2;      /* friction slope above, N/m */
+    double t_in;    /* tension entering the grounded piece above the hump, N */
+    double a;       /* grounded length available above the buoy, m */
+    int anchor;     /* 1: the hump takes all of section 0 and lifts the anchor's end */
+} hump_in;
+
+/* Horizontal force of the hump for V1: the tension left after friction
+ * along g2 = a - (P - V1)/w2 (extended linearly for g2 < 0). */
+static double hump_h(const hump_in *in, double V1)
+{
+    double g2 = in->a - (in->P - V1) / in->w2;
+    double h = in->t_in - in->r2 * g2;
+    return h > 0.0 ? h : 0.0;
+}
+
+/* The lower half of the hump (V from 0, or from V1 - w1 l1 at a lifted
+ * anchor, up to V1) and the upper half (V from -(P - V1) to 0, rise taken
+ * positive), both under H. */
+static void hump_halves(const hump_in *in, double H, double V1, piece_t *p1, piece_t *p2)
+{
+    half_arc(H, V1, in->w1, in->ea1, p1);
+    half_arc(H, in->P - V1, in->w2, in->ea2, p2);
+    if (in->anchor) {
+        piece_t q;
+        half_arc(H, V1 - in->w1 * in->l1, in->w1, in->ea1, &q);
+        p1->f -= q.f;
+        p1->f_v -= q.f_v;
+        p1->f_h -= q.f_h;
+        p1->x -= q.x;
+        p1->x_v -= q.x_v;
+        p1->x_h -= q.x_h;
+    }
+}
+
+/* Rise residual G(V1) = rise below the buoy - fall above it, and dG/dV1. */
+static double hump_g(const hump_in *in, double V1, double *dg)
+{
+    double H = hump_h(in, V1);
+    piece_t p1, p2;
+    hump_halves(in, H, V1, &p1, &p2);
+    double dh = H > 0.0 ? -in->r2 / in->w2 : 0.0;
+    *dg = p1.f_v + p2.f_v + (p1.f_h - p2.f_h) * dh;
+    return p1.f - p2.f;
+}
+
+/* Solves G(V1) = 0 on [lo, P], lo = 0 (or w1 l1 for a lifted anchor):
+ * G(lo) < 0 < G(P) = rise1(P).  Newton steps, bisection whenever a step
+ * leaves the bracket. */
+static double hump_solve(const hump_in *in)
+{
+    double lo = in->anchor ? in->w1 * in->l1 : 0.0, hi = in->P;
+    double v = in->P * in->w1 / (in->w1 + in->w2); /* the root of a stiff, frictionless hump */
+    if (!(v > lo && v < hi))
+        v = 0.5 * (lo + hi);
+    for (int i = 0; i < 200; i++) {
+        double dg, g = hump_g(in, v, &dg);
+        if (g == 0.0)
+            return v;
+        if (g < 0.0)
+            lo = v;
+        else
+            hi = v;
+        double vn = v - g / dg;
+        if (!(vn > lo && vn < hi) || !isfinite(vn))
+            vn = 0.5 * (lo + hi);
+        if (fabs(vn - v) <= 4.0 * DBL_EPSILON * in->P || hi - lo <= 4.0 * DBL_EPSILON * in->P)
+            return vn;
+        v = vn;
+    }
+    return v;
+}
+
+/* Records the hump's pieces in w (see walk_t) and its peak in z_max. */
+static void hump_record(walk_t *w, const hump_in *in, size_t j, double V1, double Hh, double peak)
+{
+    double V2 = in->P - V1;
+    w->lb[j + 1] = V2 / in->w2;
+    w->vbb[j + 1] = -V2;
+    w->hb[j + 1] = Hh;
+    w->vb[j] = in->anchor ? V1 - in->w1 * in->l1 : 0.0;
+    w->vt[j] = V1;
+    w->ht[j] = Hh;
+    if (peak > w->z_max)
+        w->z_max = peak;
+    w->contacts++;
+}
+
+/* The hump around the buoy on joint j, entered from above with the
+ * grounded walk g and the length av still grounded in section j+1.  Adds
+ * the grounded piece above the hump and the hump's span into *xg (with
+ * derivatives), records the pieces in w, and sets av to what section j
+ * keeps on the seabed.  A hump that needs more than section 0 lifts the
+ * anchor's end (uplift V1 - w1 l1 > 0, w->anchor_v).  Returns 0, 1 when the
+ * hump would reach the touchdown above (no such shape from this
+ * touchdown), or UNSUPP_SPILL when it would pass joint j-1. */
+static int hump(const hf_line *line, size_t j, ground_t *g, avail_t *av, walk_t *w, double *xg,
+                double *xg_h, double *xg_v)
+{
+    const hf_section *s1 = &line->sec[j], *s2 = &line->sec[j + 1];
+    hump_in in = {-line->joint[j].load,      s1->weight, s1->ea, s1->length, s2->weight, s2->ea,
+                  s2->friction * s2->weight, g->t,       av->a,  0};
+    double V1 = hump_solve(&in);
+    if (V1 / in.w1 > s1->length) {
+        if (j > 0)
+            return UNSUPP_SPILL;
+        in.anchor = 1;
+        V1 = hump_solve(&in);
+    }
+    double V2 = in.P - V1, g2 = av->a - V2 / in.w2, Hh = hump_h(&in, V1);
+    if (g2 < 0.0)
+        return 1;
+    /* Implicit derivatives of V1 with respect to the entering tension and
+     * the available length: G(V1; t_in, a) = 0, Hh = t_in - r2 g2. */
+    piece_t p1, p2;
+    hump_halves(&in, Hh, V1, &p1, &p2);
+    double D = Hh > 0.0 ? p1.f_h - p2.f_h : 0.0;
+    double gv = p1.f_v + p2.f_v - D * in.r2 / in.w2;
+    double v1_t = -D / gv, v1_a = in.r2 * D / gv;
+    double v1_h = v1_t * g->t_h + v1_a * av->a_h, v1_v = v1_t * g->t_v + v1_a * av->a_v;
+    double l_h = av->a_h + v1_h / in.w2, l_v = av->a_v + v1_v / in.w2;
+    w->tg_hi[j + 1] = g->t;
+    ground_piece2(g, g2, l_h, l_v, in.r2, s2->ea);
+    w->tg_lo[j + 1] = g->t;
+    w->gl[j + 1] += g2;
+    /* g->t is now Hh (to rounding) with its derivatives */
+    *xg += g2 + p1.x + p2.x;
+    *xg_h += l_h + (p1.x_v - p2.x_v) * v1_h + (p1.x_h + p2.x_h) * g->t_h;
+    *xg_v += l_v + (p1.x_v - p2.x_v) * v1_v + (p1.x_h + p2.x_h) * g->t_v;
+    hump_record(w, &in, j, V1, Hh, p1.f);
+    if (in.anchor) {
+        w->anchor_v = V1 - in.w1 * in.l1;
+        av->a = av->a_h = av->a_v = 0.0;
+        return 0;
+    }
+    av->a = s1->length - V1 / in.w1;
+    av->a_h = -v1_h / in.w1;
+    av->a_v = -v1_v / in.w1;
+    return 0;
+}
+
+/* The grounded part below the touchdown of the top arc, with a hump at
+ * every buoy on it.  Returns 0, or hump()'s non-zero code. */
+static int walk_ground_multi(const hf_line *line, const double *vt, walk_t *w, ground_t *g,
+                             double *xg, double *xg_h, double *xg_v)
+{
+    size_t k = w->td_sec;
+    avail_t av = {0.0, 0.0, 0.0};
+    if (w->td_joint) {
+        ground_point(g, line->joint[k].friction, -vt[k], -1.0);
+        av.a = line->sec[k].length;
+    } else {
+        av.a = line->sec[k].length - vt[k] / line->sec[k].weight;
+        av.a_v = -1.0 / line->sec[k].weight;
+    }
+    w->contacts = 1;
+    for (;; k--) {
+        const hf_section *s = &line->sec[k];
+        double p = k > 0 ? pload(line, k - 1) : 0.0;
+        if (p < 0.0) {
+            int rc = hump(line, k - 1, g, &av, w, xg, xg_h, xg_v);
+            if (rc != 0)
+                return rc;
+            continue;
+        }
+        w->tg_hi[k] = g->t;
+        ground_piece2(g, av.a, av.a_h, av.a_v, s->friction * s->weight, s->ea);
+        w->tg_lo[k] = g->t;
+        w->gl[k] += av.a;
+        *xg += av.a;
+        *xg_h += av.a_h;
+        *xg_v += av.a_v;
+        if (k == 0)
+            break;
+        ground_point(g, line->joint[k - 1].friction, pos(p), 0.0);
+        av.a = line->sec[k - 1].length;
+        av.a_h = av.a_v = 0.0;
+    }
+    w->anchor_t = g->t;
+    return 0;
+}
+
+/* Clears what a walk fills (the first n entries of each array). */
+static void walk_reset(walk_t *w, size_t n, double H)
+{
+    w->grounded = w->td_joint = w->buoy_down = 0;
+    w->unsupp = w->landed = 0;
+    w->contacts = 0;
+    w->td_sec = 0;
+    w->anchor_t = w->anchor_v = 0.0;
+    w->sag_min = INFINITY;
+    w->z_max = 0.0;
+    for (size_t k = 0; k < n; k++) {
+        w->vb[k] = w->vt[k] = w->gl[k] = w->tg_lo[k] = w->tg_hi[k] = 0.0;
+        w->lb[k] = w->vbb[k] = w->hb[k] = 0.0;
+        w->ht[k] = H;
+    }
+}
+
+/* The line with a single seabed contact (the lowest point where V turns
+ * positive): its suspended part and its grounded part, buoys on the
+ * grounded part ignored (flagged in buoy_down). */
+static void walk_single(const hf_line *line, double H, const double *vt, const double *vb,
+                        walk_t *w)
+{
+    walk_reset(w, line->n, H);
+    size_t k0 = find_touchdown(line, vt, vb, w);
+    double x = 0.0, z = 0.0;
+    double J[2][2] = {{0.0, 0.0}, {0.0, 0.0}};
+    walk_suspended(line, H, vt, vb, k0, w, &x, &z, J);
+    ground_t g = {H, 1.0, 0.0, 0.0, 0.0, 0.0};
+    double xg = 0.0, xg_v = 0.0;
+    if (w->grounded) {
+        walk_grounded(line, vt, w, &g, &xg, &xg_v);
+        w->contacts = 1;
+    }
+    w->x_susp = x;
+    w->x = x + xg + g.s;
+    w->z = z;
+    w->J[0][0] = J[0][0] + g.s_h;
+    w->J[0][1] = J[0][1] + xg_v + g.s_v;
+    w->J[1][0] = J[1][0];
+    w->J[1][1] = J[1][1];
+}
+
+/* Is there a candidate touchdown of the top arc inside section k (at = 0)
+ * or at joint k (at = 1)?  A candidate is where V, followed up from the
+ * anchor, turns from <= 0 to > 0 (the anchor itself when V > 0 there). */
+static int candidate(const hf_line *line, const double *vt, const double *vb, size_t k, int at)
+{
+    if (at == 0)
+        return (k == 0 || vb[k] <= 0.0) && vt[k] > 0.0 && !(k == 0 && vb[0] > 0.0);
+    return k + 1 < line->n && vt[k] <= 0.0 && vb[k + 1] > 0.0;
+}
+
+/* One candidate: the top arc from it (every sag at or above the seabed),
+ * then the grounded part with its humps.  Returns 0 when the shape is
+ * inside the model, 1 when this candidate has no shape (a sag below the
+ * seabed, a hump reaching the touchdown), else an UNSUPP_* code. */
+static int try_candidate(const hf_line *line, double H, const double *vt, const double *vb,
+                         size_t k, int at, walk_t *w)
+{
+    walk_reset(w, line->n, H);
+    int anchor = k == 0 && at == 0 && vb[0] > 0.0;
+    w->grounded = !anchor;
+    w->td_sec = k;
+    w->td_joint = at;
+    double x = 0.0, z = 0.0;
+    double J[2][2] = {{0.0, 0.0}, {0.0, 0.0}};
+    walk_suspended(line, H, vt, vb, at ? k + 1 : k, w, &x, &z, J);
+    if (w->sag_min < 0.0)
+        return 1;
+    ground_t g = {H, 1.0, 0.0, 0.0, 0.0, 0.0};
+    double xg = 0.0, xg_h = 0.0, xg_v = 0.0;
+    if (w->grounded) {
+        int rc = walk_ground_multi(line, vt, w, &g, &xg, &xg_h, &xg_v);
+        if (rc != 0)
+            return rc;
+    }
+    w->x_susp = x;
+    w->x = x + xg + g.s;
+    w->z = z;
+    w->J[0][0] = J[0][0] + xg_h + g.s_h;
+    w->J[0][1] = J[0][1] + xg_v + g.s_v;
+    w->J[1][0] = J[1][0];
+    w->J[1][1] = J[1][1];
+    return 0;
+}
+
+/* Several contacts: the candidates from the anchor up; the first whose
+ * shape is inside the model is the line (the longest top arc that stays
+ * above the seabed: a sag lands only where a longer free arc would cut
+ * into the seabed).  Returns 0, or why none is (UNSUPP_*). */
+static int walk_multi(const hf_line *line, double H, const double *vt, const double *vb, walk_t *w)
+{
+    int why = 0, lowest = 1;
+    for (size_t k = 0; k < line->n; k++)
+        for (int at = 0; at < 2; at++) {
+            if (!candidate(line, vt, vb, k, at))
+                continue;
+            int rc = try_candidate(line, H, vt, vb, k, at, w);
+            if (rc == 0) {
+                w->landed = !lowest;
+                return 0;
+            }
+            if (rc > 1 && why == 0)
+                why = rc;
+            lowest = 0;
+        }
+    return why ? why : UNSUPP_NO_ARC;
+}
+
+/* The forward map.  Returns HF_OK, or HF_EINVAL when h is not > 0 and finite.
+ * A line with one seabed contact is walked directly; buoys on the grounded
+ * part or a sag below the seabed send it through the several-contact walk.
+ * When no shape is inside the model the single-contact walk is kept (the
+ * map stays defined for the solver) and w->unsupp says why. */
 static hf_status walk(const hf_line *line, double H, double VF, walk_t *w)
 {
     size_t n = line->n;
@@ -368,29 +749,14 @@ static hf_status walk(const hf_line *line, double H, double VF, walk_t *w)
         vb[k] = v - line->sec[k].weight * line->sec[k].length;
         v = vb[k] - (k > 0 ? pload(line, k - 1) : 0.0);
     }
-    /* Only the first n entries of the arrays are ever read. */
-    w->grounded = w->td_joint = w->buoy_down = 0;
-    w->td_sec = 0;
-    w->anchor_t = 0.0;
-    w->sag_min = INFINITY;
-    w->z_max = 0.0;
-    for (size_t k = 0; k < n; k++)
-        w->vb[k] = w->vt[k] = w->gl[k] = w->tg_lo[k] = w->tg_hi[k] = 0.0;
-    size_t k0 = find_touchdown(line, vt, vb, w);
-    double x = 0.0, z = 0.0;
-    double J[2][2] = {{0.0, 0.0}, {0.0, 0.0}};
-    walk_suspended(line, H, vt, vb, k0, w, &x, &z, J);
-    ground_t g = {H, 1.0, 0.0, 0.0, 0.0, 0.0};
-    double xg = 0.0, xg_v = 0.0;
-    if (w->grounded)
-        walk_grounded(line, vt, w, &g, &xg, &xg_v);
-    w->x_susp = x;
-    w->x = x + xg + g.s;
-    w->z = z;
-    w->J[0][0] = J[0][0] + g.s_h;
-    w->J[0][1] = J[0][1] + xg_v + g.s_v;
-    w->J[1][0] = J[1][0];
-    w->J[1][1] = J[1][1];
+    walk_single(line, H, vt, vb, w);
+    if (!w->buoy_down && !(w->sag_min < 0.0))
+        return HF_OK;
+    int why = walk_multi(line, H, vt, vb, w);
+    if (why != 0) {
+        walk_single(line, H, vt, vb, w);
+        w->unsupp = why;
+    }
     return HF_OK;
 }
 
@@ -404,7 +770,7 @@ hf_status hf_line_span(const hf_line *line, double h, double v, double *x, doubl
     *x = w.x;
     *z = w.z;
     memcpy(jac, w.J, sizeof w.J);
-    return w.buoy_down ? HF_EUNSUPPORTED : HF_OK;
+    return w.unsupp && (w.buoy_down || w.sag_min < 0.0) ? HF_EUNSUPPORTED : HF_OK;
 }
 
 /* ------------------------------------------------------------------------
@@ -508,23 +874,27 @@ static void hang(const hf_line *line, double Z, hang_t *r)
 
 static void sections_from_walk(const hf_line *line, const walk_t *w, double H, hf_line_state *st)
 {
+    (void)H; /* each piece carries its own horizontal force (w->ht, w->hb) */
     for (size_t k = 0; k < line->n; k++) {
         hf_section_result *r = &st->section[k];
-        double susp = line->sec[k].length - w->gl[k];
+        double top = line->sec[k].length - w->gl[k] - w->lb[k]; /* suspended top piece */
         double tlo, thi;
-        if (susp > 0.0) {
-            thi = mag(H, w->vt[k]);
-            tlo = w->gl[k] > 0.0 ? w->tg_hi[k] : mag(H, w->vb[k]);
-        } else {
+        if (top > 0.0)
+            thi = mag(w->ht[k], w->vt[k]);
+        else if (w->gl[k] > 0.0)
             thi = w->tg_hi[k];
+        else
+            thi = w->hb[k]; /* all of it the upper half of a hump: V = 0 at its top */
+        if (w->lb[k] > 0.0)
+            tlo = mag(w->hb[k], w->vbb[k]);
+        else if (w->gl[k] > 0.0)
             tlo = w->tg_lo[k];
-        }
-        if (w->gl[k] > 0.0)
-            tlo = w->tg_lo[k];
+        else
+            tlo = mag(w->ht[k], w->vb[k]);
         r->t_lower = tlo;
         r->t_upper = thi;
-        /* T = sqrt(H^2 + V^2) with V linear along a suspended piece: the
-         * largest |V| sits at an end, so the maximum is at an end. */
+        /* T = sqrt(H^2 + V^2) with V linear along each suspended piece and
+         * the grounded tension monotone: the maximum sits at an end. */
         r->t_max = tlo > thi ? tlo : thi;
         r->grounded = w->gl[k];
     }
@@ -596,12 +966,22 @@ static hf_status fail(hf_line_state *st, hf_status s, const char *msg)
     return s;
 }
 
-static const char msg_buoy[] =
-    "a buoy would rest on the seabed below the touchdown point and lift the line off it; "
-    "a flat-seabed line with a single touchdown cannot represent this";
-static const char msg_sag[] =
-    "the line would sag into the seabed between a buoy and the fairlead (two touchdowns); "
-    "this configuration is not supported";
+static const char msg_spill[] =
+    "a buoy on the grounded line would lift a hump reaching past the next joint or the anchor; "
+    "humps spanning more than the two sections beside their buoy are outside this model";
+static const char msg_no_arc[] =
+    "every touchdown the buoys allow either sags into the seabed or has a hump merging with "
+    "the arc above it; this arrangement of buoys is outside the model";
+static const char msg_laid_buoy[] =
+    "a buoy would lift part of a line whose fairlead lies on the seabed; not supported";
+
+/* The message for a walk's UNSUPP_* reason. */
+static const char *unsupp_msg(int why)
+{
+    if (why == UNSUPP_SPILL)
+        return msg_spill;
+    return msg_no_arc;
+}
 static const char msg_buoy_search[] =
     "no shape with a single touchdown fits this line with its buoys (the buoys can lift "
     "stretches of it off the seabed in more than one way); not supported";
@@ -1085,12 +1465,8 @@ static hf_status solve_laid(const hf_line *line, double X, double tol, int max_i
     }
     if (fabs(w.x - X) > tol)
         return fail(st, HF_ENOCONV, "fully laid line: tension did not converge");
-    if (w.buoy_down)
-        return fail(st, HF_EUNSUPPORTED, msg_buoy);
-    if (!w.grounded || w.td_sec < line->n)
-        return fail(st, HF_EUNSUPPORTED,
-                    "a buoy would lift part of a line whose fairlead lies on the seabed; "
-                    "not supported");
+    if (w.buoy_down || w.unsupp || !w.grounded || w.td_sec < line->n || w.contacts > 1)
+        return fail(st, HF_EUNSUPPORTED, msg_laid_buoy);
     st->regime = HF_LINE_LAID;
     st->h = H;
     st->v = 0.0;
@@ -1208,6 +1584,24 @@ static hf_status newton_solve(newton_t *s, const hf_line_options *opt, double H0
     return ns;
 }
 
+/* Damped Newton only, no fallback (the retries below): HF_OK at a root,
+ * else HF_ENOCONV. */
+static hf_status newton_plain(newton_t *s, const hf_line_options *opt, double H0, double V0,
+                              int *it)
+{
+    hf_status ns = newton_set(s, H0, V0);
+    int i = 0;
+    while (ns == HF_OK && newton_test(s) == HF_CONTINUE && i < opt->max_iter) {
+        ns = newton_iterate(s);
+        i++;
+    }
+    *it += i;
+    if (ns != HF_OK || newton_test(s) != HF_OK)
+        return HF_ENOCONV;
+    refine_forces(s, opt->ftol, opt->max_refine);
+    return HF_OK;
+}
+
 /* Why the Newton path failed, for a line that has the shape searched for. */
 static hf_status newton_failure(const hf_line *line, hf_status ns, int slack_buoy,
                                 hf_line_state *st)
@@ -1238,17 +1632,15 @@ static hf_status refuse_found(hf_line_state *st, const char *msg, double H, doub
 static hf_status state_from_walk(const hf_line *line, const newton_t *s, hf_line_state *st)
 {
     const walk_t *w = s->w;
-    if (w->buoy_down)
-        return refuse_found(st, msg_buoy, s->H, s->V);
-    if (w->sag_min < -s->tol)
-        return refuse_found(st, msg_sag, s->H, s->V);
+    if (w->unsupp && (w->buoy_down || w->sag_min < -s->tol))
+        return refuse_found(st, unsupp_msg(w->unsupp), s->H, s->V);
     st->regime = w->grounded ? HF_LINE_TOUCHDOWN : HF_LINE_SUSPENDED;
     st->h = s->H;
     st->v = s->V;
     st->tension = mag(s->H, s->V);
     if (w->grounded) {
         st->anchor_h = w->anchor_t;
-        st->anchor_v = 0.0;
+        st->anchor_v = w->anchor_v; /* 0 unless a hump lifts the anchor's end */
     } else {
         st->anchor_h = s->H;
         st->anchor_v = w->vb[0];
@@ -1274,6 +1666,111 @@ static hf_status state_from_walk(const hf_line *line, const newton_t *s, hf_line
     return HF_OK;
 }
 
+static int has_buoy(const hf_line *line)
+{
+    for (size_t k = 0; k + 1 < line->n; k++)
+        if (line->joint[k].load < 0.0)
+            return 1;
+    return 0;
+}
+
+/* Is the converged walk a shape inside the model?  Where the walk found
+ * none (w->unsupp) it falls back on the single-contact map, whose roots are
+ * then not equilibria of the line. */
+static int shape_ok(const newton_t *s)
+{
+    const walk_t *w = s->w;
+    return !(w->unsupp && (w->buoy_down || w->sag_min < -s->tol));
+}
+
+/* The line with every buoy's lift scaled by t (clumps kept). */
+static void scale_buoys(const hf_line *line, hf_line *lc, double t)
+{
+    for (size_t k = 0; k + 1 < line->n; k++)
+        if (line->joint[k].load < 0.0)
+            lc->joint[k].load = t * line->joint[k].load;
+}
+
+/* Cold Newton on the line lc from its own start; HF_OK only for a shape
+ * inside the model. */
+static hf_status cold_on(newton_t *s, const hf_line_options *opt, int *it)
+{
+    double H0, V0;
+    if (!touchdown_start(s->line, s->X, s->Z, &H0, &V0))
+        peyrot(s->line, s->X, s->Z, &H0, &V0);
+    hf_status r = newton_plain(s, opt, H0, V0, it);
+    return r == HF_OK && shape_ok(s) ? HF_OK : HF_ENOCONV;
+}
+
+/* Continuation in the buoys' lift: the line is solved with every buoy's
+ * lift scaled by t, from a t0 where a cold solve lands on a shape inside
+ * the model (t0 = 0: no buoy, one seabed contact; else 1/2, 3/4, 9/10) to
+ * t = 1, each step warm-started from the last; a step whose solve fails or
+ * ends outside the model is halved (at most 30 steps).  Humps then grow
+ * along a path of equilibria instead of being guessed.  HF_OK with s at the
+ * solution of the real line, else HF_ENOCONV. */
+static hf_status continuation(newton_t *s, const hf_line_options *opt, int *it)
+{
+    const hf_line *line = s->line;
+    hf_line lc = *line;
+    static const double t0s[4] = {0.0, 0.5, 0.75, 0.9};
+    s->line = &lc;
+    double t = -1.0, dt = 0.125;
+    for (int i = 0; i < 4 && t < 0.0; i++) {
+        scale_buoys(line, &lc, t0s[i]);
+        if (cold_on(s, opt, it) == HF_OK)
+            t = t0s[i];
+    }
+    for (int n = 0; t >= 0.0 && t < 1.0 && n < 30; n++) {
+        double tn = t + dt < 1.0 ? t + dt : 1.0, Hp = s->H, Vp = s->V;
+        scale_buoys(line, &lc, tn);
+        hf_status ri = newton_plain(s, opt, Hp, Vp, it);
+        if (ri == HF_OK && shape_ok(s)) {
+            t = tn;
+            dt *= 2.0;
+        } else {
+            dt *= 0.5;
+            scale_buoys(line, &lc, t);
+            if (newton_set(s, Hp, Vp) != HF_OK || dt < 1e-6)
+                break;
+        }
+    }
+    s->line = line;
+    if (!(t >= 1.0))
+        return HF_ENOCONV;
+    return newton_set(s, s->H, s->V) == HF_OK && newton_test(s) == HF_OK && shape_ok(s)
+               ? HF_OK
+               : HF_ENOCONV;
+}
+
+/* Several seabed contacts make the map piecewise: Newton from one start
+ * can end on a root of the single-contact fallback map (a shape outside
+ * the model) or fail while an equilibrium exists.  Other starts are tried
+ * in turn (the touchdown catenary, Peyrot and Goulois, each scaled by 1/4
+ * and 4 in H); the first root that is a shape inside the model is kept.
+ * Without one, the first outcome is restored so the refusal says what was
+ * found.  Only lines with buoys ever get here with ns == HF_OK. */
+static hf_status retry_starts(newton_t *s, const hf_line_options *opt, hf_status ns, int *it)
+{
+    double H1 = s->H, V1 = s->V, T0 = 0.0, U0 = 0.0, P0, Q0;
+    int have_td = touchdown_start(s->line, s->X, s->Z, &T0, &U0);
+    peyrot(s->line, s->X, s->Z, &P0, &Q0);
+    const double starts[6][2] = {{T0, U0},        {P0, Q0},       {0.25 * T0, U0},
+                                 {0.25 * P0, Q0}, {4.0 * T0, U0}, {4.0 * P0, Q0}};
+    for (int i = 0; i < 6; i++) {
+        if (i % 2 == 0 && !have_td)
+            continue;
+        hf_status r = newton_plain(s, opt, starts[i][0], starts[i][1], it);
+        if (r == HF_OK && shape_ok(s))
+            return HF_OK;
+    }
+    if (continuation(s, opt, it) == HF_OK)
+        return HF_OK;
+    if (ns == HF_OK)
+        return newton_set(s, H1, V1) == HF_OK ? HF_OK : HF_ENOCONV;
+    return ns;
+}
+
 /* Suspended or touchdown line: Newton on (H, V) from a start. */
 static hf_status solve_general(const hf_line *line, double X, double Z, double scale,
                                const hf_line_state *guess, const hf_line_options *opt,
@@ -1295,6 +1792,12 @@ static hf_status solve_general(const hf_line *line, double X, double Z, double s
     int it = 0;
     newton_start(line, X, Z, guess, &H0, &V0);
     hf_status ns = newton_solve(&s, opt, H0, V0, &it);
+    if ((ns != HF_OK && !slack_buoy && has_buoy(line)) || (ns == HF_OK && !shape_ok(&s))) {
+        int mb = s.max_backtrack; /* retries: a short line search, many starts */
+        s.max_backtrack = mb < 12 ? mb : 12;
+        ns = retry_starts(&s, opt, ns, &it);
+        s.max_backtrack = mb;
+    }
     st->iterations = it;
     st->evaluations = s.evals;
     if (ns != HF_OK)
@@ -1438,13 +1941,58 @@ static double ground_end(double x0, double gl, double thi, double r, double ea)
     return x0 + (gl + (t0 + thi) * (gl - u0) / (2.0 * ea));
 }
 
+/* A suspended piece for the profile: suspended(), or for H = 0 (a hump on
+ * a stretch friction has slackened) the vertical piece, x unchanged. */
+static void piece(double H, double w, double L, double EA, double Vt, double Vb, double *x,
+                  double *z)
+{
+    double Js[2][2] = {{0, 0}, {0, 0}};
+    if (H > 0.0) {
+        suspended(H, w, L, EA, Vt, Vb, x, z, Js);
+        return;
+    }
+    double tt = fabs(Vt) + fabs(Vb);
+    if (tt > 0.0)
+        *z += L * (Vt + Vb) / tt + L * (Vt + Vb) / (2.0 * EA);
+}
+
+/* The upper half of a hump at the lower end of section i (w->lb[i] > 0):
+ * the point at unstretched distance h <= lb from the section's lower end,
+ * which sits at (x0, z0) on top of the buoy. */
+static void hump_point(const hf_line *line, const walk_t *w, size_t i, double h, double x0,
+                       double z0, double *x, double *z, double *t)
+{
+    const hf_section *s = &line->sec[i];
+    double xs = 0.0, zs = 0.0;
+    double vb = w->vbb[i], vt = vb + s->weight * h;
+    if (h > 0.0)
+        piece(w->hb[i], s->weight, h, s->ea, vt, vb, &xs, &zs);
+    *x = x0 + xs;
+    *z = z0 + zs;
+    *t = hypot(w->hb[i], vt);
+}
+
 /* One sample at unstretched distance u from the lower end of section i,
- * whose lower end is at (x0, z0): on the grounded piece or the suspended one. */
+ * whose lower end is at (x0, z0): on the upper half of a hump, on the
+ * grounded piece or on the suspended top piece. */
 static void profile_point(const hf_line *line, const walk_t *w, double H, size_t i, double u,
                           double x0, double z0, double arc, sink_t *k)
 {
+    (void)H; /* each piece has its own horizontal force */
     const hf_section *s = &line->sec[i];
-    double gl = w->gl[i], r = s->friction * s->weight, thi = w->tg_hi[i];
+    double lb = w->lb[i], gl = w->gl[i], r = s->friction * s->weight, thi = w->tg_hi[i];
+    if (lb > 0.0) {
+        double xh, zh, th;
+        hump_point(line, w, i, u < lb ? u : lb, x0, z0, &xh, &zh, &th);
+        if (u <= lb) {
+            emit(k, arc + u, xh, zh, th);
+            return;
+        }
+        x0 = xh; /* on the seabed again */
+        z0 = 0.0;
+        u -= lb;
+        arc += lb;
+    }
     if (u <= gl) {
         /* T(u) = max(0, thi - r (gl - u)); stretch integrated from 0 */
         double t = fmax(0.0, thi - r * (gl - u));
@@ -1457,15 +2005,15 @@ static void profile_point(const hf_line *line, const walk_t *w, double H, size_t
         emit(k, arc + u, x0 + u + st0, 0.0, t);
         return;
     }
-    double xs = 0.0, zs = 0.0, Js[2][2] = {{0, 0}, {0, 0}};
+    double xs = 0.0, zs = 0.0;
     double h = u - gl, vb = w->vb[i];
-    suspended(H, s->weight, h, s->ea, vb + s->weight * h, vb, &xs, &zs, Js);
+    piece(w->ht[i], s->weight, h, s->ea, vb + s->weight * h, vb, &xs, &zs);
     double xbase = gl > 0.0 ? ground_end(x0, gl, thi, r, s->ea) : x0;
-    emit(k, arc + u, xbase + xs, z0 + zs, hypot(H, vb + s->weight * h));
+    emit(k, arc + u, xbase + xs, z0 + zs, hypot(w->ht[i], vb + s->weight * h));
 }
 
 /* Suspended or touchdown line: the walk at the solved forces, section by
- * section, grounded piece first (tension rising from tg_lo toward touchdown). */
+ * section: hump piece, grounded piece, suspended top piece. */
 static size_t profile_catenary(const hf_line *line, const hf_line_state *st, double spacing,
                                sink_t *k)
 {
@@ -1476,18 +2024,20 @@ static size_t profile_catenary(const hf_line *line, const hf_line_state *st, dou
     emit(k, 0.0, 0.0, 0.0, st->anchor_tension);
     for (size_t i = 0; i < line->n; i++) {
         const hf_section *s = &line->sec[i];
-        double gl = w.gl[i];
+        double gl = w.gl[i], lb = w.lb[i];
         size_t m = steps(s->length, spacing);
         for (size_t j = 1; j <= m; j++)
             profile_point(line, &w, H, i, s->length * (double)j / (double)m, x, z, arc, k);
         /* advance to the section's upper end */
-        double xe = x, ze = z;
-        if (gl > 0.0)
-            xe = ground_end(x, gl, w.tg_hi[i], s->friction * s->weight, s->ea);
-        if (s->length - gl > 0.0) {
-            double Js[2][2] = {{0, 0}, {0, 0}};
-            suspended(H, s->weight, s->length - gl, s->ea, w.vt[i], w.vb[i], &xe, &ze, Js);
+        double xe = x, ze = z, th;
+        if (lb > 0.0) {
+            hump_point(line, &w, i, lb, x, z, &xe, &ze, &th);
+            ze = 0.0;
         }
+        if (gl > 0.0)
+            xe = ground_end(xe, gl, w.tg_hi[i], s->friction * s->weight, s->ea);
+        if (s->length - gl - lb > 0.0)
+            piece(w.ht[i], s->weight, s->length - gl - lb, s->ea, w.vt[i], w.vb[i], &xe, &ze);
         x = xe;
         z = ze;
         arc += s->length;

@@ -16,6 +16,7 @@ static const struct {
     {"curve", hf_cmd_curve, "restoring force and stiffness against offset"},
     {"stiffness", hf_cmd_stiffness, "6x6 mooring stiffness and static load at a pose"},
     {"balance", hf_cmd_balance, "mean position under load cases, intact and one line broken"},
+    {"design", hf_cmd_design, "design offsets and tensions of the environments (issue 14)"},
     {"run", hf_cmd_run, "run every study of a case into a results folder, with a report"},
     {"sweep", hf_cmd_sweep, "vary case parameters over ranges and lists"},
     {"invert", hf_cmd_invert, "find the parameter value that meets a target"},

@@ -6,6 +6,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include "holdfast/alloc.h"
+#include "holdfast/designdata.h"
 #include "holdfast/model.h"
 
 #define NONE ((size_t)-1)
@@ -40,6 +41,7 @@ void hf_model_free(hf_model *m)
     }
     hf_free(m->loads);
     hf_free(m->criteria.preset);
+    hf_designdata_release(m->design);
     hf_model_init(m);
 }
 
@@ -81,6 +83,7 @@ static int copy_all(hf_model *d, const hf_model *s)
     d->criteria.preset = NULL;
     if (!dupstr(&d->criteria.preset, s->criteria.preset))
         return 0;
+    d->design = hf_designdata_retain(s->design); /* immutable: shared */
 
     if (s->ncomponents) {
         d->components = hf_calloc(s->ncomponents, sizeof *d->components);

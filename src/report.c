@@ -7,6 +7,7 @@
 #include "holdfast/balance.h"
 #include "holdfast/caution.h"
 #include "holdfast/criteria.h"
+#include "holdfast/report_design.h"
 #include "holdfast/report.h"
 #include "holdfast/results.h"
 #include "holdfast/svg.h"
@@ -389,6 +390,7 @@ static void case_section(hf_report *r, const hf_model *m)
         }
         hf_report_table_end(r);
     }
+    hf_report_design_case(r, m); /* issue 14: hull design data, environments */
 }
 
 /* One property row: name, value with unit, source. */

@@ -36,11 +36,15 @@ struct hf_session_table {
 
 /* ---- messages ---- */
 
-/* Records a failure: the status and message of e in s; returns the status. */
-static hf_status fail(hf_session *s, const hf_error *e)
+/* Records a failure of status st with e's message in s and returns st.
+ * st HF_OK (a constructor returned NULL): e's status, or HF_ENOMEM when e
+ * has none - a failure is never reported as success. */
+static hf_status fail(hf_session *s, hf_status st, const hf_error *e)
 {
-    snprintf(s->msg, sizeof s->msg, "%s", e->text[0] ? e->text : hf_status_str(e->status));
-    return e->status;
+    if (st == HF_OK)
+        st = e->status != HF_OK ? e->status : HF_ENOMEM;
+    snprintf(s->msg, sizeof s->msg, "%s", e->text[0] ? e->text : hf_status_str(st));
+    return st;
 }
 
 static hf_status failf(hf_session *s, hf_status st, const char *fmt, ...)
@@ -145,7 +149,7 @@ hf_status hf_session_load_file(hf_session *s, const char *path)
     hf_error_clear(&err);
     if ((st = hf_case_load(path, &m, &err)) != HF_OK) {
         hf_model_free(&m);
-        return fail(s, &err);
+        return fail(s, st, &err);
     }
     adopt(s, &m);
     return HF_OK;
@@ -164,7 +168,7 @@ hf_status hf_session_load_string(hf_session *s, const char *text, size_t len, co
     hf_error_clear(&err);
     if ((st = hf_case_load_buffer(text, len, name ? name : "<string>", &m, &err)) != HF_OK) {
         hf_model_free(&m);
-        return fail(s, &err);
+        return fail(s, st, &err);
     }
     adopt(s, &m);
     return HF_OK;
@@ -199,8 +203,9 @@ static hf_status lookup(hf_session *s, const char *path, hf_param *p)
         return failf(s, HF_EINVAL, "no parameter path given");
     hf_error err;
     hf_error_clear(&err);
-    if (hf_model_param_lookup(&s->m, path, p, &err) != HF_OK)
-        return fail(s, &err);
+    hf_status st = hf_model_param_lookup(&s->m, path, p, &err);
+    if (st != HF_OK)
+        return fail(s, st, &err);
     return HF_OK;
 }
 
@@ -215,7 +220,7 @@ hf_status hf_session_get(hf_session *s, const char *path, double *value)
     if (!value)
         return failf(s, HF_EINVAL, "%s: nowhere to store the value", path);
     if ((st = hf_model_param_get(&s->m, &p, value, &err)) != HF_OK)
-        return fail(s, &err);
+        return fail(s, st, &err);
     return HF_OK;
 }
 
@@ -436,8 +441,9 @@ static hf_status solve_pose(hf_session *s, const double offset[3], int stiffness
         hf_spread_reset(s->pose.ws);
     hf_error err;
     hf_error_clear(&err);
-    if (hf_analysis_pose_solve(&s->pose, &s->m, offset ? offset : none, stiffness, &err) != HF_OK)
-        return fail(s, &err);
+    hf_status st = hf_analysis_pose_solve(&s->pose, &s->m, offset ? offset : none, stiffness, &err);
+    if (st != HF_OK)
+        return fail(s, st, &err);
     return HF_OK;
 }
 
@@ -526,12 +532,12 @@ hf_status hf_session_curve(hf_session *s, double direction, const double *offset
     hf_error_clear(&err);
     hf_analysis_curve *c = hf_analysis_curve_alloc(&s->m, n, &err);
     if (!c)
-        return fail(s, &err);
+        return fail(s, HF_OK, &err);
     st = hf_analysis_curve_compute_at(c, &s->m, direction, offsets, &err);
     if (st != HF_OK)
-        fail(s, &err);
+        fail(s, st, &err);
     else if (c->nfailed)
-        st = fail(s, &c->first_error); /* 'holdfast curve' stops there too */
+        st = fail(s, c->first_error.status, &c->first_error); /* 'holdfast curve' stops there too */
     else
         st = curve_table(s, c, out);
     hf_analysis_curve_free(c);
@@ -542,7 +548,16 @@ hf_status hf_session_curve(hf_session *s, double direction, const double *offset
 typedef struct {
     hf_session *s;
     hf_session_table *t;
+    const hf_model *at; /* the model at the level being run (rows are built from it) */
 } balance_ctx;
+
+static hf_status on_level(void *ctx, size_t k, double level, const hf_model *at, hf_error *err)
+{
+    balance_ctx *b = ctx;
+    (void)k, (void)level, (void)err;
+    b->at = at; /* as 'holdfast balance': the row's water_level_m is this model's */
+    return HF_OK;
+}
 
 static hf_status on_condition(void *ctx, const hf_load *l, const hf_balance_result *r,
                               hf_error *err)
@@ -553,7 +568,7 @@ static hf_status on_condition(void *ctx, const hf_load *l, const hf_balance_resu
         return hf_error_set(err, HF_ENOMEM, "out of memory for a result table");
     hf_results_text x;
     for (size_t j = 0; j < t->cols; j++)
-        if (table_put(t, t->rows, j, hf_results_balance_cell(&b->s->m, l, r, j, &x)) != HF_OK) {
+        if (table_put(t, t->rows, j, hf_results_balance_cell(b->at, l, r, j, &x)) != HF_OK) {
             t->rows++; /* so that its strings are freed */
             return hf_error_set(err, HF_ENOMEM, "out of memory for a result table");
         }
@@ -561,7 +576,8 @@ static hf_status on_condition(void *ctx, const hf_load *l, const hf_balance_resu
     if (r->status != HF_OK) {
         char cn[HF_MODEL_MAX_NAME + 16];
         hf_results_balance_condition(&b->s->m, r, cn, sizeof cn);
-        warnf(b->s, "load %s, %s: %s", l->name, cn, r->message);
+        warnf(b->s, "load %s, %s, water level %.6g m: %s", l->name, cn, b->at->site.water_level,
+              r->message);
     }
     return HF_OK;
 }
@@ -591,6 +607,34 @@ static hf_status pick_loads(hf_session *s, const char *const *loads, size_t n, s
     return HF_OK;
 }
 
+/* Runs the load cases which[0..nwhich) at every still water level the
+ * case's design check covers (hf_analysis_envelope_levels: site.water_levels,
+ * else the one level), as 'holdfast balance' does, into table t. */
+static hf_status balance_run(hf_session *s, const size_t *which, size_t nwhich, hf_session_table *t)
+{
+    double levels[HF_MODEL_MAX_LEVELS];
+    size_t nlev = hf_analysis_envelope_levels(&s->m, levels, HF_MODEL_MAX_LEVELS);
+    hf_error err;
+    hf_error_clear(&err);
+    hf_analysis_envelope *e = hf_analysis_envelope_alloc(&s->m, nlev, &err);
+    if (!e)
+        return fail(s, HF_OK, &err);
+    memcpy(e->level, levels, nlev * sizeof *levels);
+    balance_ctx b = {s, t, &s->m};
+    hf_analysis_envelope_sink sink = {{&b, NULL, on_condition, NULL, NULL}, on_level};
+    hf_status st = hf_analysis_envelope_run(e, &s->m, which, nwhich, &sink, &err);
+    if (st != HF_OK)
+        fail(s, st, &err);
+    else if (e->overloaded)
+        warnf(s,
+              "%zu condition(s) with a line at or beyond its MBL (alert column); the most "
+              "utilised: line %s, utilisation %.3f",
+              e->overloaded, hf_results_line_name(&s->m, e->overload_line),
+              e->overload_utilisation);
+    hf_analysis_envelope_free(e);
+    return st;
+}
+
 hf_status hf_session_balance(hf_session *s, const char *const *loads, size_t nloads,
                              hf_session_table **out)
 {
@@ -602,30 +646,25 @@ hf_status hf_session_balance(hf_session *s, const char *const *loads, size_t nlo
     if (!which)
         return failf(s, HF_ENOMEM, "out of memory");
     size_t cols = hf_results_balance_ncolumns(&s->m);
-    balance_ctx b = {s, NULL};
+    hf_session_table *t = NULL;
     if ((st = pick_loads(s, loads, nloads, which, &nwhich)) != HF_OK)
         goto done;
-    if (!(b.t = table_alloc(cols, nwhich * (s->m.nlines + 1)))) {
+    if (!(t = table_alloc(cols, nwhich * (s->m.nlines + 1)))) {
         st = failf(s, HF_ENOMEM, "out of memory for a result table");
         goto done;
     }
     for (size_t j = 0; j < cols && st == HF_OK; j++) {
         char name[HF_MODEL_MAX_NAME + 16];
-        st = table_name(b.t, j, hf_results_balance_column_name(&s->m, j, name, sizeof name), 0.0);
+        st = table_name(t, j, hf_results_balance_column_name(&s->m, j, name, sizeof name), 0.0);
     }
-    hf_analysis_balance_sink sink = {&b, NULL, on_condition, NULL, NULL};
-    hf_analysis_balance_count count;
-    hf_error err;
-    hf_error_clear(&err);
-    if (st == HF_OK &&
-        (st = hf_analysis_balance_run(&s->m, which, nwhich, &sink, &count, &err)) != HF_OK)
-        fail(s, &err);
-    else if (st == HF_OK)
-        st = deliver(s, b.t, HF_OK, out), b.t = NULL;
-    else
+    if (st != HF_OK) {
         st = failf(s, st, "out of memory for a result table");
+    } else if ((st = balance_run(s, which, nwhich, t)) == HF_OK) {
+        st = deliver(s, t, HF_OK, out); /* *out owns it now */
+        t = NULL;
+    }
 done:
-    hf_session_table_free(b.t);
+    hf_session_table_free(t);
     hf_free(which);
     return st;
 }

@@ -33,6 +33,9 @@ static void study_clear(hf_study *s)
     hf_free(s->outputs);
     hf_free(s->target_output);
     hf_free(s->target_line);
+    for (size_t i = 0; i < s->nenvironments; i++)
+        hf_free(s->environments[i]);
+    hf_free(s->environments);
 }
 
 void hf_study_list_free(hf_study_list *l)
@@ -47,8 +50,8 @@ void hf_study_list_free(hf_study_list *l)
 
 const char *hf_study_kind_name(hf_study_kind k)
 {
-    static const char *const names[] = {"lines",   "curve", "stiffness",
-                                        "balance", "sweep", "invert"};
+    static const char *const names[] = {"lines", "curve",  "stiffness", "balance",
+                                        "sweep", "invert", "design"};
     return (unsigned)k < sizeof names / sizeof names[0] ? names[k] : "?";
 }
 

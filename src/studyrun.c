@@ -10,6 +10,7 @@
 #include "holdfast/invert.h"
 #include "holdfast/outputs.h"
 #include "holdfast/report.h"
+#include "holdfast/report_design.h"
 #include "holdfast/results.h"
 #include "holdfast/spread.h"
 #include "holdfast/studyrun.h"
@@ -463,7 +464,7 @@ static void balance_check(const balance_ctx *c, const hf_load *l, const hf_balan
     char cond[HF_MODEL_MAX_NAME + 16];
     hf_results_balance_condition(c->m, r, cond, sizeof cond);
     char item[2 * HF_MODEL_MAX_NAME + 32], req[128], res[384], a[32], b2[32], why[160];
-    hf_results_balance_failure(c->m, r, why, sizeof why); /* helper A: the failing number */
+    hf_results_balance_failure(c->m, r, why, sizeof why); /* the failing number, if any */
     if (c->nlevels > 1) {
         char lv[32];
         hf_report_number(lv, sizeof lv, c->m->site.water_level, 4);
@@ -765,9 +766,16 @@ static hf_status run_balance(const hf_model *m, const hf_study *s, int jobs, FIL
     hf_results_envelope_scope(m, e, scope, sizeof scope);
     oc->nonfinite += c.nonfinite;
     oc->criterion_failed = e->count.failed > 0 || e->overloaded > 0;
+    char over[2 * HF_MODEL_MAX_NAME + 160] = "";
+    if (e->overloaded) {
+        char ow[2 * HF_MODEL_MAX_NAME + 64];
+        hf_results_where(m, &e->overload_at, ow, sizeof ow);
+        snprintf(over, sizeof over, "; OVERLOADED: line %s at utilisation %.3f (%s)",
+                 hf_results_line_name(m, e->overload_line), e->overload_utilisation, ow);
+    }
     snprintf(oc->note, sizeof oc->note,
-             "%s; %zu conditions failed a criterion (%zu without equilibrium)", scope,
-             e->count.failed, e->count.noresult);
+             "%s; %zu conditions failed a criterion (%zu without equilibrium)%s", scope,
+             e->count.failed, e->count.noresult, over);
     hf_analysis_envelope_free(e);
     return HF_OK;
 }
@@ -849,6 +857,22 @@ static hf_status run_invert(const hf_model *m, const hf_study *s, int jobs, FILE
     return hf_invert_write_csv(out, m, s->vary[0].path, &o, s->target_value, &res, err);
 }
 
+/* A design study (issue 14): report_design.c does the work. */
+static hf_status run_design(const hf_model *m, const hf_study *s, int jobs, FILE *out,
+                            hf_report *rep, hf_studyrun_outcome *oc, hf_error *err)
+{
+    hf_report_design_count n;
+    hf_status st = hf_report_design_study(m, s, out, rep, &n, err);
+    if (st != HF_OK)
+        return st;
+    oc->nonfinite += n.nonfinite;
+    oc->criterion_failed = n.failed + n.noresult > 0;
+    snprintf(oc->note, sizeof oc->note,
+             "%zu conditions; %zu failed a criterion, %zu without a result", n.conditions, n.failed,
+             n.noresult);
+    return HF_OK;
+}
+
 /* ---- the default studies of a case without a studies: section ---- */
 
 /* The 1-2-5 round number at or above x > 0 (1, 2, 5, 10, 20, ...). */
@@ -920,16 +944,16 @@ hf_status hf_studyrun_defaults(const hf_model *m, hf_study_list *sl, hf_error *e
 /* The study of each kind, indexed by hf_study_kind (the order of hf_study_kind_name). */
 typedef hf_status (*study_fn)(const hf_model *m, const hf_study *s, int jobs, FILE *out,
                               hf_report *rep, hf_studyrun_outcome *oc, hf_error *err);
-static const study_fn run_kind[] = {run_lines,   run_curve, run_stiffness,
-                                    run_balance, run_sweep, run_invert};
-_Static_assert(sizeof run_kind / sizeof run_kind[0] == HF_STUDY_INVERT + 1,
+static const study_fn run_kind[] = {run_lines, run_curve,  run_stiffness, run_balance,
+                                    run_sweep, run_invert, run_design};
+_Static_assert(sizeof run_kind / sizeof run_kind[0] == HF_STUDY_DESIGN + 1,
                "one study function per hf_study_kind");
 
 hf_status hf_studyrun_exec(const hf_model *m, const hf_study *s, int jobs, FILE *out,
                            hf_report *rep, hf_studyrun_outcome *oc, hf_error *err)
 {
     memset(oc, 0, sizeof *oc);
-    if ((unsigned)s->kind > HF_STUDY_INVERT)
+    if ((unsigned)s->kind > HF_STUDY_DESIGN)
         return hf_error_set(err, HF_EINVAL, "study %s: unknown kind", s->name);
     return run_kind[s->kind](m, s, jobs, out, rep, oc, err);
 }

@@ -347,7 +347,7 @@ static int converged(const chain *c)
 }
 
 /* Newton from the current positions, every step capped so that no node
- * moves more than half the shortest bar (a trust region on displacement):
+ * moves more than half the mean bar length (a trust region on displacement):
  * the residual is only piecewise smooth (seabed contact, friction, slack
  * bars), so a merit-function line search would stall at the kinks, while
  * capped full steps settle on the right contact set (semi-smooth Newton).
@@ -355,9 +355,7 @@ static int converged(const chain *c)
 static int newton(chain *c, int maxit, int *iters)
 {
     size_t nu = c->nb - 1;
-    double lmin = c->l[0];
-    for (size_t j = 1; j < c->nb; j++)
-        lmin = fmin(lmin, c->l[j]);
+    double lmin = 0.5 * c->ltot / (double)c->nb; /* half the mean bar */
     assemble(c);
     for (int it = 0; it < maxit; it++) {
         if (converged(c))
@@ -368,8 +366,8 @@ static int newton(chain *c, int maxit, int *iters)
         double lam = 1.0, big = 0.0;
         for (size_t i = 0; i < nu; i++)
             big = fmax(big, hypot(c->du[2 * i], c->du[2 * i + 1]));
-        if (big > 0.5 * lmin)
-            lam = 0.5 * lmin / big;
+        if (big > lmin)
+            lam = lmin / big;
         for (size_t i = 0; i < nu; i++)
             c->px[i + 1] += lam * c->du[2 * i], c->pz[i + 1] += lam * c->du[2 * i + 1];
         assemble(c);
@@ -419,14 +417,18 @@ static int move_fairlead(chain *c, double fx, double fz)
     return ok;
 }
 
-/* From a taut straight line (tension about 5x the total load, or the target
- * if it is tauter) to the fairlead at (x, z) in adaptive steps. */
+/* From a taut straight line (tension 5x the total load, less if that would
+ * stretch a section by more than 1 %; or the target if it is tauter) to the
+ * fairlead at (x, z) in adaptive steps. */
 static hf_status continuation(chain *c, double x, double z, int *iters, int *steps)
 {
     const hf_line *ln = c->line;
-    double d = hypot(x, z), d0 = 0.0;
+    double d = hypot(x, z), d0 = 0.0, t0 = 5.0 * c->wabs;
+    for (size_t i = 0; i < ln->n; i++) /* at most 1 % strain in any section */
+        while (section_strain(&ln->sec[i], t0) > 0.01 && t0 > 1e-6 * c->wabs)
+            t0 *= 0.5;
     for (size_t i = 0; i < ln->n; i++)
-        d0 += ln->sec[i].length * (1.0 + section_strain(&ln->sec[i], 5.0 * c->wabs));
+        d0 += ln->sec[i].length * (1.0 + section_strain(&ln->sec[i], t0));
     if (d0 < d)
         d0 = d;
     double x0 = x / d * d0, z0 = z / d * d0;
@@ -526,7 +528,7 @@ static void bars_per_section(const hf_line *line, size_t bars, size_t *m)
     double ltot = hf_line_length(line);
     for (size_t i = 0; i < line->n; i++) {
         double q = ceil((double)bars * line->sec[i].length / ltot);
-        m[i] = q < 2 ? 2 : (size_t)q;
+        m[i] = q < 4 ? 4 : (size_t)q;
     }
 }
 

@@ -64,7 +64,7 @@ typedef struct {
 } barchain_result;
 
 /* Solves the line cut into about `bars` bars (each section gets
- * max(2, ceil(bars L_i / L)) of equal length) for a fairlead at (x, z) from
+ * max(4, ceil(bars L_i / L)) of equal length) for a fairlead at (x, z) from
  * the anchor.  The line must pass hf_line_check except that the slope and
  * strain fields may be non-zero.  Fills *out (freeing what it held: start
  * from a zeroed struct).  Returns HF_OK, HF_EINVAL (bad line or span: z below

@@ -80,6 +80,10 @@ run invert-radius invert cases/barge.yaml --vary 'lines[bow-port-a].anchor_radiu
     --target fairlead_tension:bow-port-a=800kN --csv -
 out="$work/marina"
 run balance-load balance cases/marina.yaml --load ebb-along --csv -
+# issue 14: the design check of the barge's environments (budget, CSV, one environment)
+out="$work/barge"
+run design design cases/barge.yaml
+run design-csv design cases/barge.yaml --environment head-swell --csv -
 
 # Run folders hold the folder's own name in their report; make it stable.
 for f in "$work"/*/*; do

@@ -42,6 +42,10 @@ static size_t heap_in_use(void)
     return mi.uordblks;
 }
 
+/* The name the case buffer is loaded under: the case file's path, so that
+ * the paths in it (the design tables of issue 14) resolve beside it. */
+static const char *buffer_name = "alloc-fail.yaml";
+
 typedef struct {
     hf_status status;
     const char *step; /* where the chain stopped */
@@ -55,7 +59,7 @@ static void run_load(const char *text, size_t len, outcome *o)
     hf_model_init(&m);
     hf_error_clear(&o->err);
     o->step = "load";
-    o->status = hf_case_load_buffer(text, len, "alloc-fail.yaml", &m, &o->err);
+    o->status = hf_case_load_buffer(text, len, buffer_name, &m, &o->err);
     if (o->status != HF_OK &&
         (m.nlines || m.lines || m.ncomponents || m.components || m.title || m.source_path))
         o->step = "load left a non-empty model";
@@ -73,7 +77,7 @@ static void run_chain(const char *text, size_t len, outcome *o)
     hf_error_clear(&o->err);
     hf_status st;
     o->step = "load";
-    st = hf_case_load_buffer(text, len, "alloc-fail.yaml", &m, &o->err);
+    st = hf_case_load_buffer(text, len, buffer_name, &m, &o->err);
     if (st != HF_OK)
         goto out;
     o->step = "copy";
@@ -183,6 +187,7 @@ static void sweep_file(const char *rel)
     char *text = hf_test_file_read(path, &len);
     if (!text)
         fail_msg("cannot read %s (HF_ROOT=%s)", rel, getenv("HF_ROOT"));
+    buffer_name = path;
     long a = sweep(rel, text, len, run_load, 0);
     long b = sweep(rel, text, len, run_load, 1);
     long c = sweep(rel, text, len, run_chain, 0);

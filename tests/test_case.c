@@ -96,7 +96,7 @@ static const bad_case bad[] = {
      6, 1, "YAML syntax: found a tab character that violates indentation"},
     {"unknown top-level key", HEAD "lins:\n  - name: a\n", HF_EINVAL, 4, 1,
      "expected a key of a case file (title, site, components, lines, hull, loads, criteria, "
-     "studies), got \"lins\"; did you mean \"lines\"?"},
+     "studies, environments), got \"lins\"; did you mean \"lines\"?"},
     {"unknown line key",
      HEAD "lines:\n  - name: a\n    anchor: [-500, 0]\n"
           "    fairlead: [0, 0, -9]\n    sectoins:\n      - {component: chain76, length: 520 m}\n",
@@ -215,8 +215,8 @@ static const bad_case bad[] = {
      "\"lines[a].sections[0].length\", which sets the same value as "
      "\"lines[0].sections[0].length\" (vary[0])"},
     {"misspelt study kind", VALID "studies:\n  - {name: s, kind: sweeep}\n", HF_EINVAL, 11, 21,
-     "studies[0].kind: expected a study kind (lines, curve, stiffness, balance, sweep, invert), "
-     "got \"sweeep\"; did you mean \"sweep\"?"},
+     "studies[0].kind: expected a study kind (lines, curve, stiffness, balance, sweep, invert, "
+     "design), got \"sweeep\"; did you mean \"sweep\"?"},
     {"unknown parameter path",
      VALID "studies:\n  - name: s\n    kind: sweep\n    vary:\n"
            "      - {path: site.dept, values: [80 m]}\n",
@@ -775,13 +775,13 @@ static void demo_cases_load(void **state)
         fail_msg("%s", err.text);
     assert_int_equal(m.nlines, 8);
     assert_int_equal(m.nloads, 3);
-    assert_int_equal(sl.n, 6);
+    assert_int_equal(sl.n, 7);
     assert_string_equal(m.criteria.preset, "api-rp-2sk");
     assert_true(m.hull.noutline >= 3);
     int kinds = 0;
     for (size_t i = 0; i < sl.n; i++)
         kinds |= 1 << sl.v[i].kind;
-    assert_int_equal(kinds, 0x3f); /* every study kind appears */
+    assert_int_equal(kinds, 0x7f); /* every study kind appears (design: issue 14) */
     for (size_t i = 0; i < m.nlines; i++) {
         assert_int_equal(m.lines[i].line.n, 3);         /* chain - wire - chain */
         assert_true(m.lines[i].line.joint[0].load > 0); /* with a clump */

@@ -333,6 +333,56 @@ static void test_set_get(void **state)
     hf_session_free(s);
 }
 
+static void test_warnings_and_failed_solves(void **state)
+{
+    (void)state;
+    /* marina at 3 m, -2 m, 4 deg: a line reaches its MBL (the golden test's
+     * lines-offset exits 1 there); the table is complete, the alert column
+     * marks the line and the warnings name it */
+    hf_session *s = open_case("cases/marina.yaml");
+    hf_session_table *t = NULL;
+    assert_int_equal(hf_session_lines(s, NULL, &t), HF_OK);
+    assert_string_equal(hf_session_warnings(s), "");
+    hf_session_table_free(t);
+    const double off[3] = {3.0, -2.0, 4.0 * M_PI / 180.0};
+    assert_int_equal(hf_session_lines(s, off, &t), HF_OK);
+    size_t over = 0;
+    for (size_t i = 0; i < hf_session_table_rows(t); i++)
+        if (!strcmp(hf_session_table_text(t, i, col(t, "alert")), "overloaded")) {
+            over++;
+            assert_true(cell(t, i, "max_utilisation") >= 1.0);
+            assert_non_null(strstr(hf_session_warnings(s), hf_session_table_text(t, i, 0)));
+        }
+    assert_true(over > 0);
+    assert_non_null(strstr(hf_session_warnings(s), "is overloaded"));
+    hf_session_table_free(t);
+    hf_session_free(s);
+    /* a 700 kN buoy on a short chain: a shape the solver does not support;
+     * lines and a curve fail with the solver's message naming the line */
+    const char *buoy = "title: fictional buoyed line\n"
+                       "site: {depth: 48 m}\n"
+                       "components:\n"
+                       "  chain: {type: studless_chain, grade: R3S, diameter: 52 mm}\n"
+                       "lines:\n"
+                       "  - name: one\n"
+                       "    anchor: [-365, 0]\n"
+                       "    fairlead: [0, 0, -6]\n"
+                       "    sections:\n"
+                       "      - {component: chain, length: 200 m}\n"
+                       "      - {buoy: 700 kN}\n"
+                       "      - {component: chain, length: 170 m}\n";
+    s = hf_session_alloc();
+    assert_int_equal(hf_session_load_string(s, buoy, strlen(buoy), NULL), HF_OK);
+    assert_int_equal(hf_session_lines(s, NULL, &t), HF_EUNSUPPORTED);
+    assert_null(t);
+    assert_non_null(strstr(hf_session_message(s), "line 'one'"));
+    const double offs[] = {0.0, 1.0};
+    assert_int_equal(hf_session_curve(s, 0.0, offs, 2, &t), HF_EUNSUPPORTED);
+    assert_null(t);
+    assert_non_null(strstr(hf_session_message(s), "curve at offset 0 m"));
+    hf_session_free(s);
+}
+
 static void test_no_memory(void **state)
 {
     (void)state;
@@ -369,6 +419,7 @@ int main(void)
         cmocka_unit_test(test_balance_rows),
         cmocka_unit_test(test_load_errors),
         cmocka_unit_test(test_set_get),
+        cmocka_unit_test(test_warnings_and_failed_solves),
         cmocka_unit_test(test_no_memory),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);

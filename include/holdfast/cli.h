@@ -37,6 +37,10 @@ int hf_cmd_run(int argc, char **argv);
 int hf_cmd_sweep(int argc, char **argv);
 int hf_cmd_invert(int argc, char **argv);
 int hf_cmd_plot(int argc, char **argv);
+int hf_cmd_design(int argc, char **argv); /* cmd_design.c (issue 14) */
+/* For `holdfast check`: the hull's design data, its tables and the
+ * environments with their coverage (nothing when the case has none). */
+void hf_cmd_design_check_print(const hf_model *m);
 
 /* The exit status of a status: hf_status_exit_code, except HF_ENOMEM which
  * has its own, HF_EXIT_NOMEM (4), so that running out of memory is never

@@ -4,7 +4,8 @@
  * A line runs from an anchor resting on a flat seabed to a fairlead that is
  * X metres away horizontally and Z metres above the anchor.  It is made of
  * sections (elastic catenaries, Irvine 1981) joined end to end, with point
- * loads (clump weights, buoys) at the joints.  The part of the line that
+ * loads (clump weights, buoys) at the joints.  It may touch the seabed
+ * several times (humps lifted by buoys, landing sags); every part that
  * rests on the seabed carries axial Coulomb friction (tension falling toward
  * the anchor).  Everything here is SI: m, N, N/m, rad.
  *
@@ -139,9 +140,12 @@ double hf_line_weight(const hf_line *line);
 /* The forward map of the line, its "span equations": for fairlead forces
  * (h > 0, v) returns the fairlead position (x, z) relative to the anchor and
  * the flexibility jac = d(x,z)/d(h,v) ([0][0]=dx/dh [0][1]=dx/dv
- * [1][0]=dz/dh [1][1]=dz/dv), m/N.  Returns HF_OK, HF_EINVAL for h <= 0 or
- * non-finite input, or HF_EUNSUPPORTED when the line so loaded would have a
- * buoy resting on the seabed (x, z, jac are still filled). */
+ * [1][0]=dz/dh [1][1]=dz/dv), m/N.  Several seabed contacts (humps lifted by
+ * buoys, landing sags; docs/theory.md) are part of the map.  Returns HF_OK,
+ * HF_EINVAL for h <= 0 or non-finite input, or HF_EUNSUPPORTED when the line
+ * so loaded has no shape inside the model (a buoy's hump reaching past the
+ * next joint, every touchdown sagging into the seabed); x, z, jac are then
+ * those of the single-touchdown walk, for messages only. */
 hf_status hf_line_span(const hf_line *line, double h, double v, double *x, double *z,
                        double jac[2][2]);
 
@@ -156,8 +160,10 @@ hf_status hf_line_span(const hf_line *line, double h, double v, double *x, doubl
  * that shape's fairlead forces, for messages only.
  *   HF_EINVAL       bad line, span (z < 0, non-finite values) or options, or
  *                   an MBL so small that the utilisation T/MBL overflows
- *   HF_EUNSUPPORTED a buoy would rest on the seabed below touchdown, or a sag
- *                   of the line would cut into the seabed
+ *   HF_EUNSUPPORTED a shape outside the model (the message says which): a
+ *                   buoy's hump reaching past the next joint, no touchdown
+ *                   whose arc stays above the seabed, a slack line with a
+ *                   buoy on its laid part, a fully laid line with a buoy
  *   HF_ENOCONV      no convergence (not expected for valid input)
  *   HF_ENOMEM       only if a GSL build's Brent state outgrew the storage
  *                   reserved for it (512 bytes; GSL 2.x needs 64): never a

@@ -137,6 +137,9 @@ typedef struct {
     size_t nloads;
     hf_load *loads;
     hf_criteria criteria;
+    /* issue 14: hull design data and environments (designdata.h), NULL when
+     * the case has none; shared by copies (reference count), read-only. */
+    struct hf_designdata *design;
 } hf_model;
 
 /* Empty model (no lines); hf_model_free() works on it. */

@@ -116,7 +116,8 @@ hf_status hf_session_curve(hf_session *s, double direction, const double *offset
 
 /* Balance of the load cases named loads[0..nloads) (nloads 0: every load
  * case, in case order), intact and each line broken, as 'holdfast balance'
- * does: the balance CSV's table, one row per load case and condition.  A
+ * does: the balance CSV's table, one row per still water level, load case and
+ * condition (the levels of site.water_levels, else the one level).  A
  * condition without equilibrium is a row (status column, message, empty
  * values) and is named in hf_session_warnings.  HF_EINVAL for an unknown
  * load name or a case without load cases. */

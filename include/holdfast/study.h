@@ -43,7 +43,8 @@ typedef enum {
     HF_STUDY_STIFFNESS,
     HF_STUDY_BALANCE,
     HF_STUDY_SWEEP,
-    HF_STUDY_INVERT
+    HF_STUDY_INVERT,
+    HF_STUDY_DESIGN /* issue 14: the design check of the environments (design.h) */
 } hf_study_kind;
 
 /* One varied parameter: a range (from, to, step) or a list of values. */
@@ -72,6 +73,9 @@ typedef struct {
                             ... */
     char *target_line;   /* invert: line name, where the output is per line */
     double target_value; /* invert: SI */
+
+    size_t nenvironments; /* design (issue 14): environment names, 0 = all */
+    char **environments;
 } hf_study;
 
 /* The studies of a case, in file order.  Owns everything it points to. */

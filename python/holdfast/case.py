@@ -288,8 +288,9 @@ class Case:
 
     def balance(self, load=None):
         """Mean equilibrium of the load cases (all, one name or a list of
-        names), intact and with each line broken: one dict per load case and
-        condition with the `balance` CSV's columns.  A condition without
+        names), intact and with each line broken, at every still water level
+        of the case (site.water_levels, else the one level): one dict per
+        level, load case and condition with the `balance` CSV's columns.  A condition without
         equilibrium is a row whose status says so (values None) and gives a
         HoldfastWarning."""
         names = [] if load is None else [load] if isinstance(load, str) else list(load)

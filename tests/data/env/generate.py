@@ -4,6 +4,7 @@
 # fictional).  The shapes are made up to look plausible; they are not
 # measured and not computed by any hydrodynamic analysis: never use them
 # for design.  Run from this directory: python3 generate.py
+# The demo case reads copies in cases/barge/ (copy them again after a change).
 import math
 
 HDR = ("# INVENTED DATA for the fictional barge \"Kestrel Deep 3\" (cases/barge.yaml).\n"
