@@ -15,7 +15,9 @@
  * A sample of the solved lines (every 300th, about 20) is compared with the
  * bar-chain reference model (tests/barchain.c) at 400 bars: fairlead H and V
  * within 1e-4 of the fairlead tension plus 5 % of the model's heaviest node
- * weight (its discretisation error; against_barchain).
+ * weight (its discretisation error; against_barchain); a line over that
+ * tolerance is compared again with the model refined to 1600 bars, and fails
+ * only if it is still over.
  * Slack lines (H = 0, the excess lying on the seabed) are not compared: the
  * model converges slowly there (its slack grounded bars carry a small
  * compression), and the solver's slack regime is a closed form checked in
@@ -141,11 +143,11 @@ static int check_solved(const hf_line *line, double x, double z, const hf_line_s
  * line: 1.3e-4 of the tension at 400 bars, 5e-6 at 3200). *dabs gets the
  * difference relative to the tension. */
 static double against_barchain(const hf_line *line, double x, double z, const hf_line_state *s,
-                               double *dabs)
+                               size_t bars, double *dabs)
 {
     barchain_result b;
     memset(&b, 0, sizeof b);
-    hf_status st = barchain_solve(line, x, z, 400, &b);
+    hf_status st = barchain_solve(line, x, z, bars, &b);
     double d = -1.0, node = 0.0;
     for (size_t k = 0; k < line->n; k++)
         node = fmax(node, line->sec[k].weight * hf_line_length(line) / (double)b.bars);
@@ -196,7 +198,9 @@ static void test_random_lines(void **state)
             if (solved % 300 == 0 && s.regime == HF_LINE_SLACK) {
                 slack_skipped++;
             } else if (solved % 300 == 0) {
-                double rel = 0.0, d = against_barchain(&line, x, z, &s, &rel);
+                double rel = 0.0, d = against_barchain(&line, x, z, &s, 400, &rel);
+                if (d > 1.0) /* refine the model before blaming the solver: 4x the bars */
+                    d = against_barchain(&line, x, z, &s, 1600, &rel);
                 if (d < 0) {
                     model_failed++;
                 } else {
